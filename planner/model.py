@@ -1,0 +1,29 @@
+"""From a validated scenario to the objects the march works on, and one-call evaluation."""
+
+from __future__ import annotations
+
+from .errors import ComputationError
+from .march import DEFAULT_STEP_M, Line, MarchResult, march
+from .products import Product
+from .route import build_line
+from .scenario import Scenario
+
+
+def line_from_scenario(scenario: Scenario) -> Line:
+    product = Product(scenario.product)
+    segments = build_line(scenario.route, scenario.site)
+    return Line(segments, product, scenario.tracing)
+
+
+def evaluate(scenario: Scenario, flow: float | None = None, inlet_temperature: float | None = None,
+             inlet_pressure: float | None = None, step: float = DEFAULT_STEP_M, line: Line | None = None) -> MarchResult:
+    """The steady march for a scenario at its operating flow and inlet temperature (or those given)."""
+    line = line or line_from_scenario(scenario)
+    flow = scenario.operation.flow if flow is None else flow
+    t_in = scenario.operation.inlet_temperature if inlet_temperature is None else inlet_temperature
+    p_in = scenario.operation.inlet_pressure if inlet_pressure is None else inlet_pressure
+    if t_in <= scenario.product.no_flow_temperature:
+        raise ComputationError(
+            f"inlet temperature {t_in - 273.15:.1f} °C is at or below the product's no-flow temperature "
+            f"{scenario.product.no_flow_temperature - 273.15:.1f} °C: it will not flow")
+    return march(line, flow, t_in, p_in, step=step)

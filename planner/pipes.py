@@ -1,0 +1,65 @@
+"""Pipe sizes by NPS and schedule (ASME B36.10M / B36.19M), read from the ``fluids`` pipe table.
+
+``fluids.piping`` carries the B36.10M/B36.19M dimensions; this module only picks the schedules
+those standards define and turns a miss into a message that lists what is available.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from fractions import Fraction
+
+from fluids.piping import schedule_lookup
+
+# The schedules of ASME B36.10M (carbon/alloy steel) and B36.19M (stainless, "S" suffix).
+ASME_SCHEDULES = (
+    "5", "10", "20", "30", "40", "60", "80", "100", "120", "140", "160",
+    "STD", "XS", "XXS", "5S", "10S", "40S", "80S",
+)
+
+
+@dataclass(frozen=True)
+class PipeSize:
+    nps: float
+    schedule: str
+    inside_diameter_m: float
+    outside_diameter_m: float
+    wall_thickness_m: float
+
+
+def parse_nps(value: object) -> float:
+    """Read an NPS given as 4, 4.0, "4", "1-1/2", "1 1/2" or "3/4"."""
+    if isinstance(value, bool):
+        raise ValueError(f"NPS {value!r} is not a size")
+    if isinstance(value, (int, float)):
+        return float(value)
+    text = str(value).strip().replace('"', "").replace("in", "").strip()
+    parts = text.replace("-", " ").split()
+    try:
+        return float(sum(Fraction(part) for part in parts))
+    except (ValueError, ZeroDivisionError):
+        raise ValueError(f"cannot read NPS {value!r} (e.g. 4, '1-1/2', '3/4')") from None
+
+
+def available_nps(schedule: str) -> list[float]:
+    return list(schedule_lookup[schedule][0]) if schedule in schedule_lookup else []
+
+
+def pipe_size(nps: object, schedule: str) -> PipeSize:
+    """Dimensions of NPS ``nps`` in ``schedule``.
+
+    >>> p = pipe_size(4, "40")
+    >>> round(p.inside_diameter_m * 1000, 2), round(p.outside_diameter_m * 1000, 1)
+    (102.26, 114.3)
+    """
+    schedule = str(schedule).strip().upper()
+    if schedule not in ASME_SCHEDULES:
+        raise ValueError(f"unknown schedule {schedule!r}; ASME B36.10M/B36.19M schedules are {', '.join(ASME_SCHEDULES)}")
+    size = parse_nps(nps)
+    nps_list, inside, outside, wall = schedule_lookup[schedule]
+    for index, listed in enumerate(nps_list):
+        if abs(listed - size) < 1e-9:
+            # the table is in millimetres
+            return PipeSize(size, schedule, inside[index] / 1000.0, outside[index] / 1000.0, wall[index] / 1000.0)
+    sizes = ", ".join(f"{n:g}" for n in nps_list)
+    raise ValueError(f"NPS {size:g} is not listed in schedule {schedule}; listed sizes are {sizes}")

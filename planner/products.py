@@ -1,0 +1,115 @@
+"""A product as the march sees it: properties as fast functions of temperature [K], SI out.
+
+Built from a validated ``ProductSpec``: the viscosity law is fitted from the lab points (or taken
+from its coefficients), kinematic laws are turned into dynamic viscosity with the density law, and
+the fitted temperature range is kept so that evaluating outside it is reported as extrapolation.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from .scenario import ProductSpec
+from .steam import saturation_pressure
+from .viscosity import AndradeLaw, VogelFulcherTammannLaw, WaltherLaw, fit_viscosity_law
+
+
+@dataclass
+class ViscosityFitInfo:
+    law: str
+    parameters: dict
+    rms_log_residual: float
+    max_relative_residual: float
+    t_min: float
+    t_max: float
+    n_points: int
+
+
+class Product:
+    """Temperature-dependent properties of one product.
+
+    For non-Newtonian products ``viscosity`` is the consistency K(T) [Pa s^n] of the power law or
+    Herschel–Bulkley model; ``flow_index`` and ``yield_stress`` complete the model.
+    """
+
+    def __init__(self, spec: ProductSpec):
+        self.spec = spec
+        self.name = spec.name
+        self.rheology = spec.rheology
+        self.flow_index = spec.flow_index
+        self.yield_stress = spec.yield_stress
+        self.no_flow_temperature = spec.no_flow_temperature
+        self.max_temperature = spec.max_temperature
+        self.flash_point = spec.flash_point
+        self._rho_ref = spec.density
+        self._t_ref = spec.density_reference_temperature
+        self._rho_slope = spec.density_slope
+        self._cp = spec.specific_heat
+        self._cp_slope = spec.specific_heat_slope
+        self._k = spec.thermal_conductivity
+        self._k_slope = spec.conductivity_slope
+        self._law, self.fit = self._build_law(spec)
+        self._kinematic = self._law.quantity == "kinematic"
+        self._law_value = self._law.value
+
+    # -- construction ---------------------------------------------------------------------
+    def _build_law(self, spec: ProductSpec):
+        v = spec.viscosity
+        if v.coefficients is not None:
+            c = v.coefficients
+            law = {
+                "andrade": lambda: AndradeLaw(c["a"], c["b"]),
+                "vft": lambda: VogelFulcherTammannLaw(c["a"], c["b"], c["c"]),
+                "walther": lambda: WaltherLaw(c["a"], c["b"]),
+            }[v.law]()
+            info = ViscosityFitInfo(v.law, law.parameters(), 0.0, 0.0, -math.inf, math.inf, 0)
+            return law, info
+        temperatures = [p.temperature for p in v.points]
+        values = []
+        for point in v.points:
+            if v.law == "walther":
+                values.append(point.kinematic_viscosity if point.kinematic_viscosity is not None
+                              else point.viscosity / self.density(point.temperature))
+            else:
+                values.append(point.viscosity if point.viscosity is not None
+                              else point.kinematic_viscosity * self.density(point.temperature))
+        fit = fit_viscosity_law(v.law, temperatures, values)
+        info = ViscosityFitInfo(v.law, fit.law.parameters(), fit.rms_log_residual, fit.max_relative_residual,
+                                fit.t_min, fit.t_max, fit.n_points)
+        return fit.law, info
+
+    # -- properties -------------------------------------------------------------------------
+    def density(self, t: float) -> float:
+        return self._rho_ref + self._rho_slope * (t - self._t_ref)
+
+    def specific_heat(self, t: float) -> float:
+        return self._cp + self._cp_slope * (t - 293.15)
+
+    def conductivity(self, t: float) -> float:
+        return self._k + self._k_slope * (t - 293.15)
+
+    def viscosity(self, t: float) -> float:
+        """Dynamic viscosity [Pa s] (Newtonian) or consistency K [Pa s^n] (non-Newtonian)."""
+        if self._kinematic:
+            return self._law_value(t) * self.density(t)
+        return self._law_value(t)
+
+    def kinematic_viscosity(self, t: float) -> float:
+        if self._kinematic:
+            return self._law_value(t)
+        return self._law_value(t) / self.density(t)
+
+    def vapour_pressure(self, t: float) -> float:
+        """Absolute vapour pressure [Pa]: water activity x water's (IF97) for water-based products."""
+        if self.spec.water_activity is not None:
+            t_clamped = min(max(t, 273.16), 640.0)
+            return self.spec.water_activity * saturation_pressure(t_clamped)
+        return self.spec.vapour_pressure
+
+    def is_extrapolation(self, t: float) -> bool:
+        return t < self.fit.t_min - 1e-9 or t > self.fit.t_max + 1e-9
+
+    @property
+    def newtonian(self) -> bool:
+        return self.rheology == "newtonian"

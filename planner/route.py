@@ -1,0 +1,143 @@
+"""The line as the march sees it: segments resolved to diameters, layers, fittings and surroundings.
+
+``build_line`` turns the validated route of a scenario into plain-float ``LineSegment`` objects
+(SI), so the hot loop does no lookups.  Segment boundaries keep their distance from the inlet.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+from .fittings import fitting_coefficients
+from .materials import INSULATION_MATERIALS, ROUGHNESS, WALL_CONDUCTIVITY
+from .pipes import parse_nps, pipe_size
+from .scenario import Route, Segment, Site
+
+HOSE_DEFAULT_WALL_M = 0.012  # reinforced hose wall, for the thermal path only [mem]
+ARM_DEFAULT_WALL_M = 0.006
+
+
+@dataclass
+class Layer:
+    inner_radius: float
+    outer_radius: float
+    conductivity: float | None   # fixed k [W/m K], or None to use the material's k(T)
+    material: str | None
+
+    def conductivity_at(self, mean_temperature: float) -> float:
+        if self.conductivity is not None:
+            return self.conductivity
+        return INSULATION_MATERIALS[self.material].conductivity_at(mean_temperature)
+
+    @property
+    def log_ratio(self) -> float:
+        return math.log(self.outer_radius / self.inner_radius)
+
+
+@dataclass
+class LineSegment:
+    index: int
+    name: str
+    kind: str
+    x_start: float
+    length: float
+    inside_diameter: float
+    outside_diameter: float
+    nominal_diameter_in: float
+    relative_roughness: float
+    elevation_change: float
+    fitting_a: float          # total fittings K = fitting_a / Re + fitting_b
+    fitting_b: float
+    wall_resistance: float    # K m / W, conduction through the wall
+    layers: list[Layer]
+    jacket_diameter: float
+    emissivity: float
+    location: str
+    ambient_temperature: float
+    wind_speed: float
+    soil_resistance: float    # K m / W, buried runs only
+    traced: bool
+    traced_fraction: float
+    pressure_rating: float | None
+    flange_class: int | None
+    hazardous_area_class: str | None
+    spec: Segment = field(repr=False)
+
+    @property
+    def area(self) -> float:
+        return math.pi * self.inside_diameter ** 2 / 4.0
+
+    @property
+    def x_end(self) -> float:
+        return self.x_start + self.length
+
+
+def _diameters(seg: Segment) -> tuple[float, float, float]:
+    """Inside and outside diameter [m] and nominal size [in] of a segment."""
+    if seg.nps is not None:
+        size = pipe_size(seg.nps, seg.schedule or "40")
+        return size.inside_diameter_m, size.outside_diameter_m, parse_nps(seg.nps)
+    inside = seg.inside_diameter
+    default_wall = {"hose": HOSE_DEFAULT_WALL_M, "loading_arm": ARM_DEFAULT_WALL_M}.get(seg.kind, 0.005)
+    wall = seg.wall_thickness if seg.wall_thickness is not None else default_wall
+    return inside, inside + 2.0 * wall, inside / 0.0254
+
+
+def _default_roughness(seg: Segment) -> float:
+    if seg.kind == "hose":
+        return ROUGHNESS["smooth_hose"]
+    if seg.kind == "loading_arm":
+        return ROUGHNESS["loading_arm"]
+    return ROUGHNESS["stainless_steel" if seg.wall_material == "stainless_steel" else "commercial_steel"]
+
+
+def build_segment(seg: Segment, index: int, x_start: float, site: Site, fitting_method: str) -> LineSegment:
+    inside, outside, nominal_in = _diameters(seg)
+    roughness = seg.roughness if seg.roughness is not None else _default_roughness(seg)
+    fitting_a, fitting_b = fitting_coefficients(
+        [(f.type, f.count) for f in seg.fittings], fitting_method, inside, nominal_in)
+    wall_material = seg.wall_material
+    if seg.kind == "hose" and wall_material in ("carbon_steel", "stainless_steel"):
+        wall_material = "rubber_hose"
+    wall_resistance = math.log(outside / inside) / (2.0 * math.pi * WALL_CONDUCTIVITY[wall_material])
+    layers = []
+    radius = outside / 2.0
+    for layer in seg.insulation:
+        layers.append(Layer(radius, radius + layer.thickness, layer.conductivity, layer.material))
+        radius += layer.thickness
+    surroundings = seg.surroundings
+    ambient = surroundings.ambient_temperature if surroundings.ambient_temperature is not None else site.ambient_temperature
+    wind = surroundings.wind_speed if surroundings.wind_speed is not None else site.wind_speed
+    if surroundings.location in ("indoor", "sheltered", "buried"):
+        wind = 0.0 if surroundings.wind_speed is None else wind
+    soil_resistance = 0.0
+    if surroundings.location == "buried":
+        depth = max(surroundings.burial_depth, radius * 1.01)
+        # Conduction shape factor of a buried cylinder, S = 2 pi / acosh(2z/D) per metre
+        # (Incropera, Fundamentals of Heat and Mass Transfer, Table 4.1, case 2).
+        soil_resistance = math.acosh(depth / radius) / (2.0 * math.pi * surroundings.soil_conductivity)
+    traced_fraction = 1.0 - seg.untraced_length / seg.length if seg.traced else 0.0
+    return LineSegment(
+        index=index, name=seg.name, kind=seg.kind, x_start=x_start, length=seg.length,
+        inside_diameter=inside, outside_diameter=outside, nominal_diameter_in=nominal_in,
+        relative_roughness=roughness / inside, elevation_change=seg.elevation_change,
+        fitting_a=fitting_a, fitting_b=fitting_b, wall_resistance=wall_resistance, layers=layers,
+        jacket_diameter=2.0 * radius, emissivity=seg.jacket_emissivity, location=surroundings.location,
+        ambient_temperature=ambient, wind_speed=wind, soil_resistance=soil_resistance,
+        traced=seg.traced, traced_fraction=traced_fraction, pressure_rating=seg.pressure_rating,
+        flange_class=seg.flange_class, hazardous_area_class=seg.hazardous_area_class, spec=seg,
+    )
+
+
+def build_line(route: Route, site: Site) -> list[LineSegment]:
+    segments = []
+    x = 0.0
+    for index, seg in enumerate(route.segments):
+        segments.append(build_segment(seg, index, x, site, route.fitting_method))
+        x += seg.length
+    return segments
+
+
+def line_length(segments: list[LineSegment]) -> float:
+    return sum(s.length for s in segments)

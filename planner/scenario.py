@@ -1,0 +1,408 @@
+"""The scenario: a typed, validated description of one transfer, read from TOML or JSON.
+
+Quantities may be plain numbers (the field's default unit, listed in the JSON Schema: SI, with
+temperatures in degC and insulation thickness in mm) or strings with units ("4 in", "55 degC",
+"40 m3/h", "1250 ft", "350 cP", "180 cSt").  Inside the model every quantity is an SI float
+(kelvin, Pa, m, m3/s ...).  Writing back gives plain numbers in the default units.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+import tomllib
+from pathlib import Path
+from typing import Literal, Optional
+
+import tomli_w
+from pydantic import BaseModel, ConfigDict, Field, ValidationError, field_validator, model_validator
+
+from .errors import ScenarioError
+from .materials import INSULATION_MATERIALS
+from .quantities import Quantity
+
+SCHEMA_VERSION = 1
+
+# Quantity types with the limits a planner can defend; bounds in SI.
+Temperature = Quantity("temperature", gt=0.0, le=773.15, description="temperature")
+Length = Quantity("length", gt=0.0, le=50_000.0, description="length along the line")
+Elevation = Quantity("length", ge=-500.0, le=500.0, description="rise from segment inlet to outlet (negative: falls)")
+Thickness = Quantity("small_length", gt=0.0, le=0.5, description="thickness")
+Diameter = Quantity("small_length", gt=0.002, le=2.0, description="diameter")
+Roughness = Quantity("small_length", ge=0.0, le=0.01, description="absolute roughness")
+Conductivity = Quantity("conductivity", gt=0.0, le=500.0, description="thermal conductivity")
+GaugePressure = Quantity("pressure", ge=-1.0e5, le=5.0e7, description="gauge pressure")
+Rating = Quantity("pressure", gt=0.0, le=5.0e7, description="pressure rating (gauge)")
+Flow = Quantity("volume_flow", gt=0.0, le=2.0, description="volumetric flow rate")
+WindSpeed = Quantity("speed", ge=0.0, le=60.0, description="wind speed")
+LinearPower = Quantity("linear_power", ge=0.0, le=2000.0, description="heater output per metre of pipe")
+LinearConductance = Quantity("linear_conductance", gt=0.0, le=1000.0, description="conductance per metre")
+Density = Quantity("density", gt=100.0, le=5000.0, description="density")
+DensitySlope = Quantity("density_slope", ge=-10.0, le=10.0, description="change of density per kelvin")
+SpecificHeat = Quantity("specific_heat", gt=100.0, le=10_000.0, description="specific heat capacity")
+SpecificHeatSlope = Quantity("dimensionless", ge=-50.0, le=50.0, description="change of specific heat per kelvin [J/(kg·K²)]")
+ConductivitySlope = Quantity("dimensionless", ge=-0.01, le=0.01, description="change of conductivity per kelvin [W/(m·K²)]")
+DynamicViscosity = Quantity("dynamic_viscosity", gt=0.0, le=1.0e7, description="dynamic viscosity")
+KinematicViscosity = Quantity("kinematic_viscosity", gt=0.0, le=1.0e4, description="kinematic viscosity")
+YieldStress = Quantity("yield_stress", ge=0.0, le=1.0e5, description="yield stress")
+VapourPressure = Quantity("pressure", ge=0.0, le=1.0e7, description="vapour pressure (absolute)")
+
+
+class _Model(BaseModel):
+    model_config = ConfigDict(extra="forbid", validate_assignment=True)
+
+
+# ------------------------------------------------------------------------------------------
+# Product
+
+
+class LabPoint(_Model):
+    """One measured viscosity: give ``viscosity`` (dynamic) or ``kinematic_viscosity``."""
+
+    temperature: Temperature
+    viscosity: Optional[DynamicViscosity] = None
+    kinematic_viscosity: Optional[KinematicViscosity] = None
+
+    @model_validator(mode="after")
+    def _one_value(self):
+        if (self.viscosity is None) == (self.kinematic_viscosity is None):
+            raise ValueError("give exactly one of 'viscosity' (dynamic, e.g. '350 cP') or 'kinematic_viscosity' (e.g. '180 cSt')")
+        return self
+
+
+class ViscositySpec(_Model):
+    """A viscosity-temperature law, fitted from lab points or given by its coefficients."""
+
+    law: Literal["andrade", "vft", "walther"] = "andrade"
+    points: list[LabPoint] = Field(default_factory=list)
+    coefficients: Optional[dict[str, float]] = None
+
+    @model_validator(mode="after")
+    def _points_or_coefficients(self):
+        needed = {"andrade": 2, "vft": 3, "walther": 2}[self.law]
+        if self.coefficients is None:
+            if len(self.points) < needed:
+                raise ValueError(f"law '{self.law}' needs at least {needed} lab points (got {len(self.points)}) or its coefficients")
+            temperatures = [p.temperature for p in self.points]
+            if len(set(round(t, 6) for t in temperatures)) != len(temperatures):
+                raise ValueError("lab points must be at different temperatures")
+        else:
+            names = {"andrade": {"a", "b"}, "vft": {"a", "b", "c"}, "walther": {"a", "b"}}[self.law]
+            if set(self.coefficients) != names:
+                raise ValueError(f"law '{self.law}' takes coefficients {sorted(names)}, got {sorted(self.coefficients)}")
+            if not all(math.isfinite(v) for v in self.coefficients.values()):
+                raise ValueError("coefficients must be finite numbers")
+        return self
+
+
+class ProductSpec(_Model):
+    """A liquid product. ``preset`` names an entry of ``planner.presets.PRODUCT_PRESETS``;
+    fields given beside it override the preset's."""
+
+    preset: Optional[str] = None
+    name: str = Field(min_length=1, max_length=120)
+    illustrative: bool = False
+    density: Density
+    density_reference_temperature: Temperature = 288.15
+    density_slope: DensitySlope = -0.6
+    specific_heat: SpecificHeat
+    specific_heat_slope: SpecificHeatSlope = 0.0
+    thermal_conductivity: Conductivity
+    conductivity_slope: ConductivitySlope = 0.0
+    viscosity: ViscositySpec
+    rheology: Literal["newtonian", "power_law", "herschel_bulkley"] = "newtonian"
+    flow_index: float = Field(1.0, gt=0.1, le=2.0, description="power-law flow index n [-]")
+    yield_stress: YieldStress = 0.0
+    no_flow_temperature: Temperature = Field(description="pour, setting or crystallisation temperature")
+    max_temperature: Temperature = Field(description="highest temperature the product may be held at")
+    flash_point: Optional[Temperature] = None
+    vapour_pressure: VapourPressure = 1000.0
+    water_activity: Optional[float] = Field(None, gt=0.0, le=1.0, description="water-based products: vapour pressure = activity x water's")
+
+    @model_validator(mode="before")
+    @classmethod
+    def _apply_preset(cls, data):
+        if isinstance(data, dict) and data.get("preset"):
+            from .presets import PRODUCT_PRESETS
+
+            name = data["preset"]
+            if name not in PRODUCT_PRESETS:
+                raise ValueError(f"unknown product preset {name!r}; presets are {', '.join(sorted(PRODUCT_PRESETS))}")
+            merged = json.loads(json.dumps(PRODUCT_PRESETS[name]))
+            merged.update(data)
+            return merged
+        return data
+
+    @model_validator(mode="after")
+    def _consistent(self):
+        if self.max_temperature <= self.no_flow_temperature:
+            raise ValueError("max_temperature must be above no_flow_temperature")
+        if self.rheology == "newtonian" and (self.flow_index != 1.0 or self.yield_stress != 0.0):
+            raise ValueError("a newtonian product takes flow_index 1 and yield_stress 0; choose rheology 'power_law' or 'herschel_bulkley'")
+        if self.rheology == "power_law" and self.yield_stress != 0.0:
+            raise ValueError("a power_law product has no yield stress; choose 'herschel_bulkley'")
+        if self.rheology != "newtonian" and self.viscosity.law == "walther":
+            raise ValueError("the walther law is for kinematic viscosity of Newtonian oils; use andrade or vft for the consistency")
+        return self
+
+
+# ------------------------------------------------------------------------------------------
+# Route
+
+
+class Fitting(_Model):
+    type: str
+    count: int = Field(1, ge=1, le=1000)
+
+    @field_validator("type")
+    @classmethod
+    def _known(cls, value):
+        from .fittings import HOOPER_2K
+
+        if value not in HOOPER_2K:
+            raise ValueError(f"unknown fitting {value!r}; known fittings are {', '.join(sorted(HOOPER_2K))}")
+        return value
+
+
+class InsulationLayer(_Model):
+    """A layer: a named material (``planner.materials``) or its own conductivity."""
+
+    material: Optional[str] = None
+    conductivity: Optional[Conductivity] = None
+    thickness: Thickness
+
+    @model_validator(mode="after")
+    def _material_or_k(self):
+        if self.material is None and self.conductivity is None:
+            raise ValueError("give 'material' or 'conductivity'")
+        if self.material is not None and self.material not in INSULATION_MATERIALS:
+            raise ValueError(f"unknown insulation material {self.material!r}; materials are {', '.join(sorted(INSULATION_MATERIALS))}")
+        return self
+
+
+class Surroundings(_Model):
+    """What a run sees outside its jacket; fields left out take the site's values."""
+
+    location: Literal["outdoor", "sheltered", "indoor", "buried"] = "outdoor"
+    ambient_temperature: Optional[Temperature] = None
+    wind_speed: Optional[WindSpeed] = None
+    burial_depth: Quantity("length", gt=0.05, le=20.0, description="depth of the pipe axis below grade") = 1.0
+    soil_conductivity: Quantity("conductivity", gt=0.05, le=5.0, description="soil thermal conductivity") = 1.2
+
+
+class Segment(_Model):
+    name: str = Field(min_length=1, max_length=80)
+    kind: Literal["pipe", "hose", "loading_arm"] = "pipe"
+    nps: Optional[str] = None
+    schedule: Optional[str] = None
+    inside_diameter: Optional[Diameter] = None
+    wall_thickness: Optional[Thickness] = None
+    wall_material: Literal["carbon_steel", "stainless_steel", "rubber_hose", "composite_hose"] = "carbon_steel"
+    length: Length
+    elevation_change: Elevation = 0.0
+    roughness: Optional[Roughness] = None
+    fittings: list[Fitting] = Field(default_factory=list)
+    insulation: list[InsulationLayer] = Field(default_factory=list)
+    jacket_emissivity: float = Field(0.15, ge=0.01, le=1.0, description="emissivity of the outer surface [-]")
+    traced: bool = True
+    untraced_length: Quantity("length", ge=0.0, le=50_000.0, description="untraced gaps (flanges, valves) within the segment") = 0.0
+    surroundings: Surroundings = Field(default_factory=Surroundings)
+    pressure_rating: Optional[Rating] = Field(None, description="MAWP of pipe, hose or arm (gauge)")
+    flange_class: Optional[Literal[150, 300, 600, 900, 1500, 2500]] = None
+    hazardous_area_class: Optional[Literal["T1", "T2", "T3", "T4", "T5", "T6"]] = None
+
+    @field_validator("nps", mode="before")
+    @classmethod
+    def _nps_text(cls, value):
+        return None if value is None else str(value)
+
+    @model_validator(mode="after")
+    def _size(self):
+        from .pipes import pipe_size
+
+        if self.nps is not None:
+            if self.inside_diameter is not None:
+                raise ValueError("give either nps with schedule, or inside_diameter, not both")
+            try:
+                pipe_size(self.nps, self.schedule or "40")
+            except ValueError as exc:
+                raise ValueError(str(exc)) from None
+        elif self.inside_diameter is None:
+            raise ValueError("give nps (with schedule, default 40) or inside_diameter")
+        if abs(self.elevation_change) > self.length:
+            raise ValueError(f"elevation_change {self.elevation_change:g} m is larger than the length {self.length:g} m")
+        if self.untraced_length > self.length:
+            raise ValueError("untraced_length is longer than the segment")
+        if self.kind in ("hose", "loading_arm") and self.pressure_rating is None:
+            raise ValueError(f"a {self.kind} needs its pressure_rating")
+        return self
+
+
+class Route(_Model):
+    segments: list[Segment] = Field(min_length=1, max_length=200)
+    fitting_method: Literal["hooper", "darby"] = "hooper"
+
+    @model_validator(mode="after")
+    def _fittings_in_method(self):
+        from .fittings import fitting_names
+
+        known = fitting_names(self.fitting_method)
+        for i, seg in enumerate(self.segments):
+            for fitting in seg.fittings:
+                if fitting.type not in known:
+                    raise ValueError(
+                        f"segments[{i}] ({seg.name}): fitting {fitting.type!r} has no row in the "
+                        f"{self.fitting_method} table; known there: {', '.join(known)}")
+        return self
+
+
+# ------------------------------------------------------------------------------------------
+# Heating
+
+
+class SelfRegulatingPoint(_Model):
+    temperature: Temperature
+    output: LinearPower
+
+
+class Tracing(_Model):
+    """The line's heat tracing: one system with one setpoint for the traced segments."""
+
+    kind: Literal["none", "electric_constant", "electric_self_regulating", "steam"] = "none"
+    setpoint: Optional[Temperature] = Field(None, description="thermostat setpoint on the pipe wall (electric); optional for steam")
+    output: LinearPower = Field(0.0, description="constant-wattage output, or self-regulating output at 10 degC pipe temperature")
+    zero_output_temperature: Temperature = Field(393.15, description="self-regulating: pipe temperature at which output falls to zero (linear default)")
+    output_curve: list[SelfRegulatingPoint] = Field(default_factory=list, description="self-regulating: user curve of output against pipe temperature")
+    circuits_per_metre: float = Field(1.0, ge=0.1, le=10.0, description="heater runs (or steam tracers) per metre of pipe [-]")
+    heater_to_pipe_conductance: LinearConductance = Field(1.5, description="sheath-to-pipe conductance per run [W/(m·K)] (typical taped-on heater [mem])")
+    max_exposure_temperature: Optional[Temperature] = None
+    steam_pressure: Quantity("pressure", ge=0.0, le=4.0e6, description="steam supply pressure (gauge)") = 3.5e5
+    heat_transfer_cement: bool = False
+    tracer_conductance: Optional[LinearConductance] = Field(None, description="steam tracer-to-pipe conductance per tracer; default from cement choice")
+
+    @model_validator(mode="after")
+    def _complete(self):
+        if self.kind in ("electric_constant", "electric_self_regulating"):
+            if self.setpoint is None:
+                raise ValueError(f"{self.kind} tracing needs a setpoint")
+            if self.kind == "electric_constant" and self.output <= 0:
+                raise ValueError("electric_constant tracing needs its output (W/m) above 0")
+            if self.kind == "electric_self_regulating" and self.output <= 0 and not self.output_curve:
+                raise ValueError("self-regulating tracing needs output (W/m at 10 degC) or an output_curve")
+            if len(self.output_curve) == 1:
+                raise ValueError("an output_curve needs at least two points")
+        return self
+
+
+class Site(_Model):
+    name: str = Field("", max_length=120)
+    ambient_temperature: Temperature
+    wind_speed: WindSpeed = 0.0
+    design_ambient_temperature: Optional[Temperature] = Field(None, description="coldest ambient the plan must hold at; default: ambient")
+
+
+class Operation(_Model):
+    flow: Flow
+    inlet_temperature: Temperature
+    inlet_pressure: GaugePressure = Field(0.0, description="gauge pressure at the route inlet (pump discharge)")
+
+
+class Scenario(_Model):
+    schema_version: int = SCHEMA_VERSION
+    name: str = Field(min_length=1, max_length=160)
+    description: str = Field("", max_length=4000)
+    site: Site
+    product: ProductSpec
+    route: Route
+    tracing: Tracing = Field(default_factory=Tracing)
+    operation: Operation
+
+    @field_validator("schema_version")
+    @classmethod
+    def _version(cls, value):
+        if value > SCHEMA_VERSION:
+            raise ValueError(f"schema_version {value} is newer than this planner reads ({SCHEMA_VERSION}); update the planner")
+        if value < 1:
+            raise ValueError("schema_version must be at least 1")
+        return value
+
+
+# ------------------------------------------------------------------------------------------
+# Reading and writing
+
+
+def _loc(loc: tuple) -> str:
+    text = ""
+    for part in loc:
+        if isinstance(part, int):
+            text += f"[{part}]"
+        else:
+            text += ("." if text else "") + str(part)
+    return text
+
+
+def problems_from(error: ValidationError) -> list[tuple[str, str]]:
+    problems = []
+    for item in error.errors(include_url=False):
+        loc = tuple(p for p in item["loc"] if not (isinstance(p, str) and ("function-" in p or p.startswith("Annotated"))))
+        message = item["msg"]
+        for prefix in ("Value error, ", "Assertion failed, "):
+            if message.startswith(prefix):
+                message = message[len(prefix):]
+        if item["type"] == "extra_forbidden":
+            message = "unknown field (check the spelling; see `python -m planner schema`)"
+        if item["type"] == "missing":
+            message = "required field is missing"
+        problems.append((_loc(loc), message))
+    return problems
+
+
+def scenario_from_dict(data: dict) -> Scenario:
+    """Validate a plain dict into a Scenario; raise ScenarioError naming every bad field."""
+    if not isinstance(data, dict):
+        raise ScenarioError([("", "a scenario must be a table/object at the top level")])
+    try:
+        return Scenario.model_validate(data)
+    except ValidationError as exc:
+        raise ScenarioError(problems_from(exc)) from None
+
+
+def parse_scenario_text(text: str, fmt: str) -> Scenario:
+    try:
+        data = tomllib.loads(text) if fmt == "toml" else json.loads(text)
+    except (tomllib.TOMLDecodeError, json.JSONDecodeError) as exc:
+        raise ScenarioError([("", f"cannot read the {fmt.upper()} file: {exc}")]) from None
+    return scenario_from_dict(data)
+
+
+def load_scenario(path: str | Path) -> Scenario:
+    path = Path(path)
+    try:
+        text = path.read_text(encoding="utf-8")
+    except OSError as exc:
+        raise ScenarioError([("", f"cannot open {path}: {exc.strerror}")]) from None
+    fmt = "json" if path.suffix.lower() == ".json" else "toml"
+    return parse_scenario_text(text, fmt)
+
+
+def scenario_to_dict(scenario: Scenario) -> dict:
+    """Plain numbers in the default units; optional fields left unset are dropped."""
+    return scenario.model_dump(mode="json", exclude_none=True)
+
+
+def scenario_to_toml(scenario: Scenario) -> str:
+    return tomli_w.dumps(scenario_to_dict(scenario))
+
+
+def scenario_to_json(scenario: Scenario) -> str:
+    return json.dumps(scenario_to_dict(scenario), indent=2)
+
+
+def save_scenario(scenario: Scenario, path: str | Path) -> None:
+    path = Path(path)
+    text = scenario_to_json(scenario) if path.suffix.lower() == ".json" else scenario_to_toml(scenario)
+    path.write_text(text, encoding="utf-8")
+
+
+def json_schema() -> dict:
+    return Scenario.model_json_schema()

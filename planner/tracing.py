@@ -1,0 +1,134 @@
+"""Heat tracing: what the heater or steam tracer puts into the pipe wall, and the wall's balance.
+
+The wall node (pipe metal, temperature ``t_wall``) takes heat from the tracer and passes it inward
+to the product (conductance ``g_inner`` per metre, film plus wall) and outward to the air
+(``g_outer``, insulation plus surface):
+
+    q_trace(t_wall) = g_inner (t_wall - t_bulk) + g_outer (t_wall - t_ambient)
+
+Heater output is piecewise linear in wall temperature, ``P(T) = alpha - beta T`` on each piece, so
+the balance solves in closed form.  A thermostat (the setpoint, sensing the pipe wall) cycles the
+heater; over a cycle it delivers just what holds the wall at the setpoint, never more than the
+heater's capacity.  When the loss exceeds the capacity the heater stays on and the line cools.
+
+Models:
+- constant wattage: P = rated output, independent of temperature;
+- self-regulating: output falling linearly from its rating at 10 degC to zero at the
+  ``zero_output_temperature`` (a common first approximation of polymer heaters [trade]), or a user
+  curve through measured points;
+- steam: P = C (T_steam - T_wall), T_steam the saturation temperature at the supply pressure
+  (IAPWS-IF97), C the tracer-to-pipe conductance (larger with heat-transfer cement).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from .scenario import Tracing
+from .steam import saturation_temperature_gauge
+
+# Tracer-to-pipe conductance per tracer [W/(m K)], for a 1/2 in tube tracer on a 2-8 in line.
+# Planning figures from memory [mem, unverified]: cement raises contact conductance several-fold.
+STEAM_CONDUCTANCE_BARE = 0.6
+STEAM_CONDUCTANCE_CEMENT = 6.0
+SELF_REGULATING_RATING_TEMPERATURE = 283.15  # output is rated at 10 degC pipe temperature
+
+
+@dataclass(frozen=True)
+class WallBalance:
+    t_wall: float
+    q_trace: float     # W per metre of pipe into the wall
+    c1: float          # d t_wall / d t_bulk for the regime in force (for the exponential step)
+    regime: int        # 0 untraced/off, 1 holding the setpoint, 2 at full capacity
+
+
+class Heater:
+    """A line's heating as a piecewise-linear output law plus an optional thermostat."""
+
+    def __init__(self, tracing: Tracing, traced_fraction: float = 1.0):
+        self.kind = tracing.kind
+        self.setpoint = tracing.setpoint
+        self.runs = tracing.circuits_per_metre
+        self.fraction = traced_fraction
+        self.sheath_conductance = tracing.heater_to_pipe_conductance
+        self.max_exposure_temperature = tracing.max_exposure_temperature
+        self.steam_temperature = None
+        # pieces: list of (t_low, t_high, alpha, beta): P = alpha - beta T on [t_low, t_high]
+        scale = self.runs * traced_fraction
+        if self.kind == "electric_constant":
+            self.pieces = [(-1e9, 1e9, tracing.output * scale, 0.0)]
+        elif self.kind == "electric_self_regulating":
+            if tracing.output_curve:
+                pts = sorted((p.temperature, p.output) for p in tracing.output_curve)
+            else:
+                pts = [(SELF_REGULATING_RATING_TEMPERATURE, tracing.output), (tracing.zero_output_temperature, 0.0)]
+            self.pieces = _pieces_from_points(pts, scale)
+        elif self.kind == "steam":
+            self.steam_temperature = saturation_temperature_gauge(tracing.steam_pressure)
+            conductance = tracing.tracer_conductance
+            if conductance is None:
+                conductance = STEAM_CONDUCTANCE_CEMENT if tracing.heat_transfer_cement else STEAM_CONDUCTANCE_BARE
+            self.tracer_conductance = conductance
+            c = conductance * scale
+            self.pieces = [(-1e9, self.steam_temperature, c * self.steam_temperature, c), (self.steam_temperature, 1e9, 0.0, 0.0)]
+        else:
+            self.pieces = [(-1e9, 1e9, 0.0, 0.0)]
+        self.active = self.kind != "none" and traced_fraction > 0.0
+
+    def capacity(self, t_wall: float) -> float:
+        """Most the heating can deliver at this wall temperature [W per metre of pipe]."""
+        for t_low, t_high, alpha, beta in self.pieces:
+            if t_low <= t_wall <= t_high:
+                return max(0.0, alpha - beta * t_wall)
+        return 0.0
+
+    def balance(self, t_bulk: float, g_inner: float, g_outer: float, t_ambient: float) -> WallBalance:
+        g_sum = g_inner + g_outer
+        passive_wall = (g_inner * t_bulk + g_outer * t_ambient) / g_sum
+        if not self.active:
+            return WallBalance(passive_wall, 0.0, g_inner / g_sum, 0)
+        if self.setpoint is not None:
+            if passive_wall >= self.setpoint:
+                return WallBalance(passive_wall, 0.0, g_inner / g_sum, 0)
+            need = g_inner * (self.setpoint - t_bulk) + g_outer * (self.setpoint - t_ambient)
+            if need <= self.capacity(self.setpoint):
+                return WallBalance(self.setpoint, need, 0.0, 1)
+        # Full output: solve alpha - beta T = g_inner (T - t_bulk) + g_outer (T - t_ambient) per piece.
+        rhs_const = g_inner * t_bulk + g_outer * t_ambient
+        for t_low, t_high, alpha, beta in self.pieces:
+            t = (alpha + rhs_const) / (g_sum + beta)
+            if t_low - 1e-9 <= t <= t_high + 1e-9:
+                q = alpha - beta * t
+                if q <= 0.0:
+                    break
+                return WallBalance(t, q, g_inner / (g_sum + beta), 2)
+        return WallBalance(passive_wall, 0.0, g_inner / g_sum, 0)
+
+    def sheath_temperature(self, t_wall: float, q_trace: float) -> float:
+        """Heater sheath (electric) or tracer (steam) temperature [K]."""
+        if not self.active:
+            return t_wall
+        if self.kind == "steam":
+            return self.steam_temperature
+        if q_trace <= 0.0:
+            return t_wall
+        per_run = q_trace / (self.runs * self.fraction)
+        return t_wall + per_run / self.sheath_conductance
+
+
+def _pieces_from_points(points: list[tuple[float, float]], scale: float) -> list[tuple[float, float, float, float]]:
+    """Linear pieces through the points; the first and last pieces extend beyond the data, output
+    clamped at zero (a heater never draws heat from the pipe)."""
+    pieces = []
+    for i in range(len(points) - 1):
+        (t0, p0), (t1, p1) = points[i], points[i + 1]
+        beta = -(p1 - p0) / (t1 - t0) * scale
+        alpha = p0 * scale + beta * t0
+        low = -1e9 if i == 0 else t0
+        high = 1e9 if i == len(points) - 2 else t1
+        if beta > 0 and i == len(points) - 2:
+            high = alpha / beta  # output reaches zero here
+        pieces.append((low, high, alpha, beta))
+    if pieces[-1][1] < 1e9:
+        pieces.append((pieces[-1][1], 1e9, 0.0, 0.0))
+    return pieces

@@ -1,0 +1,247 @@
+"""Units at the edges: one pint registry, parsing of "4 in" / "55 degC" strings, display systems.
+
+Inside the planner every quantity is a plain SI float (temperatures in kelvin, pressures in Pa).
+Scenario files and the dashboard may give values with units; this module turns them into SI and
+back.  Plain numbers in a scenario file mean the field's documented default unit (``DEFAULT_UNITS``).
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass
+from functools import lru_cache
+
+import pint
+
+ZERO_CELSIUS_K = 273.15
+GRAVITY = 9.80665  # m/s2, standard gravity (ISO 80000-3)
+ATMOSPHERE_PA = 101325.0
+
+
+@lru_cache(maxsize=1)
+def registry() -> pint.UnitRegistry:
+    """The one unit registry of the package (built on first use; about 0.4 s)."""
+    ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+    ureg.define("gpm = gallon / minute")
+    ureg.define("bbl_per_hour = barrel / hour")
+    return ureg
+
+
+# What each kind of field means when a plain number is given, and the dimension it must have.
+# Temperatures given as plain numbers are degrees Celsius (the trade's habit); in unit strings
+# any temperature unit is accepted.
+DEFAULT_UNITS: dict[str, str] = {
+    "length": "m",
+    "small_length": "mm",
+    "temperature": "degC",
+    "temperature_difference": "K",
+    "pressure": "Pa",
+    "volume_flow": "m**3/s",
+    "volume": "m**3",
+    "dynamic_viscosity": "Pa*s",
+    "kinematic_viscosity": "m**2/s",
+    "density": "kg/m**3",
+    "density_slope": "kg/m**3/K",
+    "specific_heat": "J/kg/K",
+    "conductivity": "W/m/K",
+    "linear_power": "W/m",
+    "linear_conductance": "W/m/K",
+    "power": "W",
+    "speed": "m/s",
+    "time": "s",
+    "rotational_speed": "revolution/minute",
+    "displacement": "m**3",
+    "yield_stress": "Pa",
+    "consistency": "Pa*s",
+    "area": "m**2",
+    "heat_transfer_coefficient": "W/m**2/K",
+    "mass_flow": "kg/s",
+    "dimensionless": "dimensionless",
+}
+
+# SI unit each kind is converted to inside the planner.
+SI_UNITS: dict[str, str] = {
+    "length": "m",
+    "small_length": "m",
+    "temperature": "K",
+    "temperature_difference": "K",
+    "pressure": "Pa",
+    "volume_flow": "m**3/s",
+    "volume": "m**3",
+    "dynamic_viscosity": "Pa*s",
+    "kinematic_viscosity": "m**2/s",
+    "density": "kg/m**3",
+    "density_slope": "kg/m**3/K",
+    "specific_heat": "J/kg/K",
+    "conductivity": "W/m/K",
+    "linear_power": "W/m",
+    "linear_conductance": "W/m/K",
+    "power": "W",
+    "speed": "m/s",
+    "time": "s",
+    "rotational_speed": "revolution/second",
+    "displacement": "m**3",
+    "yield_stress": "Pa",
+    "consistency": "Pa*s",
+    "area": "m**2",
+    "heat_transfer_coefficient": "W/m**2/K",
+    "mass_flow": "kg/s",
+    "dimensionless": "dimensionless",
+}
+
+_NUMBER_UNIT = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")
+_POWER_SUFFIX = re.compile(r"\b(m|cm|mm|ft|inch|in|yd)([23])\b")
+
+
+class UnitError(ValueError):
+    """A value whose unit is unknown or of the wrong dimension."""
+
+
+def _normalise_unit(text: str) -> str:
+    text = text.strip().replace("°C", "degC").replace("°F", "degF").replace("℃", "degC")
+    text = text.replace("²", "**2").replace("³", "**3").replace("·", "*")
+    text = _POWER_SUFFIX.sub(lambda m: f"{m.group(1)}**{m.group(2)}", text)
+    if text in {"C", "celsius"}:
+        text = "degC"
+    if text in {"F", "fahrenheit"}:
+        text = "degF"
+    return text
+
+
+def to_si(value: object, kind: str, field: str = "value") -> float:
+    """Convert a number or a "number unit" string of the given kind to its SI float.
+
+    >>> round(to_si("4 in", "length"), 4)
+    0.1016
+    >>> round(to_si("55 degC", "temperature"), 2)
+    328.15
+    >>> round(to_si(20, "temperature"), 2)   # plain number: degC
+    293.15
+    """
+    if kind not in SI_UNITS:
+        raise KeyError(f"unknown quantity kind {kind!r}")
+    ureg = registry()
+    if isinstance(value, bool):
+        raise UnitError(f"{field}: expected a number or a 'number unit' string, got {value!r}")
+    if isinstance(value, (int, float)):
+        number = float(value)
+        unit = DEFAULT_UNITS[kind]
+    elif isinstance(value, str):
+        match = _NUMBER_UNIT.match(value)
+        if not match:
+            raise UnitError(f"{field}: cannot read {value!r} as 'number unit' (e.g. '4 in', '55 degC')")
+        number = float(match.group(1))
+        unit = _normalise_unit(match.group(2)) or DEFAULT_UNITS[kind]
+    else:
+        raise UnitError(f"{field}: expected a number or a 'number unit' string, got {type(value).__name__}")
+    if not math.isfinite(number):
+        raise UnitError(f"{field}: {value!r} is not a finite number")
+    try:
+        quantity = ureg.Quantity(number, unit)
+        result = quantity.to(SI_UNITS[kind]).magnitude
+    except pint.errors.DimensionalityError:
+        raise UnitError(
+            f"{field}: {value!r} has the wrong dimension; expected a {kind.replace('_', ' ')} "
+            f"(e.g. in {DEFAULT_UNITS[kind]})"
+        ) from None
+    except (pint.errors.UndefinedUnitError, AttributeError, TypeError, ValueError, AssertionError):
+        raise UnitError(f"{field}: unknown unit {unit!r} in {value!r}") from None
+    result = float(result)
+    if not math.isfinite(result):
+        raise UnitError(f"{field}: {value!r} is not a finite number")
+    return result
+
+
+# ---------------------------------------------------------------------------------------------
+# Display: the two unit systems users choose between.
+
+
+@dataclass(frozen=True)
+class DisplayUnit:
+    label: str
+    pint_unit: str
+
+
+UNIT_SYSTEMS: dict[str, dict[str, DisplayUnit]] = {
+    "SI": {
+        "length": DisplayUnit("m", "m"),
+        "small_length": DisplayUnit("mm", "mm"),
+        "temperature": DisplayUnit("°C", "degC"),
+        "temperature_difference": DisplayUnit("K", "K"),
+        "pressure": DisplayUnit("bar", "bar"),
+        "volume_flow": DisplayUnit("m³/h", "m**3/h"),
+        "volume": DisplayUnit("m³", "m**3"),
+        "dynamic_viscosity": DisplayUnit("mPa·s", "mPa*s"),
+        "kinematic_viscosity": DisplayUnit("mm²/s", "mm**2/s"),
+        "density": DisplayUnit("kg/m³", "kg/m**3"),
+        "linear_power": DisplayUnit("W/m", "W/m"),
+        "power": DisplayUnit("kW", "kW"),
+        "speed": DisplayUnit("m/s", "m/s"),
+        "time": DisplayUnit("h", "h"),
+        "energy": DisplayUnit("kWh", "kWh"),
+        "mass": DisplayUnit("kg", "kg"),
+        "specific_heat": DisplayUnit("kJ/(kg·K)", "kJ/kg/K"),
+        "conductivity": DisplayUnit("W/(m·K)", "W/m/K"),
+        "head": DisplayUnit("m", "m"),
+    },
+    "US": {
+        "length": DisplayUnit("ft", "ft"),
+        "small_length": DisplayUnit("in", "inch"),
+        "temperature": DisplayUnit("°F", "degF"),
+        "temperature_difference": DisplayUnit("°F", "delta_degF"),
+        "pressure": DisplayUnit("psi", "psi"),
+        "volume_flow": DisplayUnit("gpm", "gpm"),
+        "volume": DisplayUnit("bbl", "oil_barrel"),
+        "dynamic_viscosity": DisplayUnit("cP", "cP"),
+        "kinematic_viscosity": DisplayUnit("cSt", "cSt"),
+        "density": DisplayUnit("lb/ft³", "lb/ft**3"),
+        "linear_power": DisplayUnit("W/ft", "W/ft"),
+        "power": DisplayUnit("hp", "hp"),
+        "speed": DisplayUnit("ft/s", "ft/s"),
+        "time": DisplayUnit("h", "h"),
+        "energy": DisplayUnit("kWh", "kWh"),
+        "mass": DisplayUnit("lb", "lb"),
+        "specific_heat": DisplayUnit("BTU/(lb·°F)", "BTU/lb/delta_degF"),
+        "conductivity": DisplayUnit("BTU/(h·ft·°F)", "BTU/h/ft/delta_degF"),
+        "head": DisplayUnit("ft", "ft"),
+    },
+}
+
+_SI_FOR_DISPLAY = {
+    "energy": "J",
+    "mass": "kg",
+    "head": "m",
+}
+
+
+def from_si(value: float, kind: str, system: str = "SI") -> float:
+    """Convert an SI float to the display unit of ``kind`` in the unit system ``system``."""
+    unit = UNIT_SYSTEMS[system][kind]
+    si_unit = SI_UNITS.get(kind) or _SI_FOR_DISPLAY[kind]
+    if kind == "temperature":
+        celsius = value - ZERO_CELSIUS_K
+        return celsius if system == "SI" else celsius * 9.0 / 5.0 + 32.0
+    return float(registry().Quantity(value, si_unit).to(unit.pint_unit).magnitude)
+
+
+def to_si_from_display(value: float, kind: str, system: str = "SI") -> float:
+    """Inverse of :func:`from_si`."""
+    unit = UNIT_SYSTEMS[system][kind]
+    si_unit = SI_UNITS.get(kind) or _SI_FOR_DISPLAY[kind]
+    if kind == "temperature":
+        celsius = value if system == "SI" else (value - 32.0) * 5.0 / 9.0
+        return celsius + ZERO_CELSIUS_K
+    return float(registry().Quantity(value, unit.pint_unit).to(si_unit).magnitude)
+
+
+def unit_label(kind: str, system: str = "SI") -> str:
+    return UNIT_SYSTEMS[system][kind].label
+
+
+def celsius(kelvin: float) -> float:
+    return kelvin - ZERO_CELSIUS_K
+
+
+def kelvin(celsius_value: float) -> float:
+    return celsius_value + ZERO_CELSIUS_K
