@@ -1,0 +1,200 @@
+"""Whole-line checks of the steady march against closed forms and hand calculations."""
+
+from __future__ import annotations
+
+import math
+
+import pytest
+
+from conftest import DEMO_FILES, base_scenario, newtonian_product
+from planner.model import evaluate, line_from_scenario
+from planner.scenario import load_scenario, scenario_from_dict
+from planner.units import GRAVITY
+
+ID_2IN_SCH40 = 0.05248   # ASME B36.10M NPS 2 Sch 40 inside diameter (REFERENCES.md, fluids.piping)
+OD_2IN = 0.0603
+
+
+def test_isothermal_laminar_line_equals_hagen_poiseuille():
+    # Hagen–Poiseuille: dp = 128 mu L Q / (pi D^4) for fully developed laminar flow (any fluids text).
+    # Isothermal: ambient equals inlet temperature, constant viscosity and density.
+    mu, length, flow = 2.0, 150.0, 4.0 / 3600.0
+    data = base_scenario(product=newtonian_product(mu_pa_s=mu, density=1200.0, cp=2000.0, k=0.2))
+    data["route"]["segments"][0]["length"] = length
+    data["operation"] = {"flow": flow, "inlet_temperature": 20.0}
+    result = evaluate(scenario_from_dict(data))
+    expected = 128.0 * mu * length * flow / (math.pi * ID_2IN_SCH40 ** 4)
+    assert result.summary.laminar_fraction == 1.0
+    assert result.summary.friction_drop_pa == pytest.approx(expected, rel=1e-9)
+    assert result.summary.pressure_drop_pa == pytest.approx(expected, rel=1e-9)
+
+
+def test_untraced_line_with_fixed_loss_coefficient_follows_exponential_cooling():
+    # T(x) = Ta + (Tin - Ta) exp(-U' x / (m cp)) for a fixed loss conductance U' per metre.
+    # A buried, insulated run has a fixed U' (fixed-k insulation, soil shape factor); water-like
+    # turbulent flow keeps the film resistance near 0.1 % of the total.  The small viscous heating
+    # (Darcy–Colebrook friction via fluids 1.3.1) is a constant source S that shifts T_eq by S/U'.
+    fluids = pytest.importorskip("fluids")
+    k_ins, thickness, k_soil, depth = 0.04, 0.05, 1.2, 1.0
+    data = base_scenario(product=newtonian_product(mu_pa_s=0.001, density=1000.0, cp=4180.0, k=0.6))
+    seg = data["route"]["segments"][0]
+    seg.update(length=2000.0, insulation=[{"conductivity": k_ins, "thickness": thickness * 1000.0}],
+               surroundings={"location": "buried", "ambient_temperature": 5.0, "burial_depth": depth,
+                             "soil_conductivity": k_soil})
+    data["operation"] = {"flow": "3 m3/h", "inlet_temperature": 80.0}
+    result = evaluate(scenario_from_dict(data), step=10.0)
+    r1, r2 = OD_2IN / 2, OD_2IN / 2 + thickness
+    # Incropera, Fundamentals of Heat and Mass Transfer: cylinder conduction ln(r2/r1)/(2 pi k) and the
+    # buried-cylinder shape factor S = 2 pi / acosh(2z/D) (Table 4.1).
+    r_ins = math.log(r2 / r1) / (2 * math.pi * k_ins)
+    r_soil = math.acosh(depth / r2) / (2 * math.pi * k_soil)
+    r_wall = math.log(OD_2IN / ID_2IN_SCH40) / (2 * math.pi * 45.0)
+    u_line = 1.0 / (r_ins + r_soil + r_wall)
+    q = 3.0 / 3600.0
+    m = 1000.0 * q
+    v = q / (math.pi * ID_2IN_SCH40 ** 2 / 4)
+    f = fluids.friction.Colebrook(1000.0 * v * ID_2IN_SCH40 / 0.001, 4.6e-5 / ID_2IN_SCH40)
+    source = f / ID_2IN_SCH40 * 1000.0 * v * v / 2 * q          # W/m of viscous heating
+    t_eq = 278.15 + source / u_line
+    expected = t_eq + (353.15 - t_eq) * math.exp(-u_line * 2000.0 / (m * 4180.0))
+    drop_expected = 353.15 - expected
+    drop = 353.15 - result.summary.outlet_temperature_k
+    assert drop == pytest.approx(drop_expected, rel=2e-3)
+    # and along the way, at every node
+    x = result.nodes["x"]
+    t_expected = t_eq + (353.15 - t_eq) * pytest.importorskip("numpy").exp(-u_line * x / (m * 4180.0))
+    assert abs(result.nodes["temperature"] - t_expected).max() < 0.02
+
+
+def test_traced_line_with_capacity_to_spare_holds_its_setpoint():
+    data = base_scenario(product=newtonian_product(mu_pa_s=0.01, density=900.0, cp=2000.0, k=0.15))
+    data["site"]["ambient_temperature"] = -10.0
+    seg = data["route"]["segments"][0]
+    seg.update(length=500.0, insulation=[{"material": "mineral_wool", "thickness": 50}])
+    data["tracing"] = {"kind": "electric_constant", "setpoint": 60.0, "output": "200 W/m"}
+    data["operation"] = {"flow": "2 m3/h", "inlet_temperature": 60.0}
+    result = evaluate(scenario_from_dict(data))
+    s = result.summary
+    # the wall is held at the setpoint; product enters at it and stays within viscous heating of it
+    assert result.steps["wall_temperature"] == pytest.approx(333.15, abs=1e-9)
+    assert s.outlet_temperature_k == pytest.approx(333.15, abs=0.05)
+    # the heater then supplies exactly the outward loss (energy balance on the wall)
+    assert s.trace_power_w == pytest.approx(s.heat_loss_w, rel=0.02)
+    assert s.heater_short_fraction == 0.0
+
+
+def test_undersized_heater_lets_the_line_cool_with_the_heater_on():
+    data = base_scenario(product=newtonian_product(mu_pa_s=0.01, density=900.0, cp=2000.0, k=0.15))
+    data["site"]["ambient_temperature"] = -10.0
+    data["route"]["segments"][0].update(length=500.0, insulation=[{"material": "mineral_wool", "thickness": 25}])
+    data["tracing"] = {"kind": "electric_constant", "setpoint": 60.0, "output": "5 W/m"}
+    data["operation"] = {"flow": "0.5 m3/h", "inlet_temperature": 60.0}
+    result = evaluate(scenario_from_dict(data))
+    assert result.summary.outlet_temperature_k < 333.15 - 1.0
+    assert result.summary.trace_power_w == pytest.approx(5.0 * 500.0, rel=1e-9)   # full output all along
+    assert result.summary.heater_short_fraction > 0.95
+
+
+def test_static_head_alone_equals_rho_g_dz():
+    rho, rise = 1250.0, 35.0
+    data = base_scenario(product=newtonian_product(mu_pa_s=0.001, density=rho))
+    data["route"]["segments"][0].update(length=40.0, elevation_change=rise)
+    result = evaluate(scenario_from_dict(data))
+    assert result.summary.static_drop_pa == pytest.approx(rho * GRAVITY * rise, rel=1e-12)
+    s = result.summary
+    assert s.pressure_drop_pa == pytest.approx(s.friction_drop_pa + s.fittings_drop_pa + s.static_drop_pa, rel=1e-12)
+
+
+def test_turbulent_water_line_matches_darcy_with_colebrook():
+    # Darcy–Weisbach with Colebrook f from fluids 1.3.1 (reference library, not used by the march).
+    fluids = pytest.importorskip("fluids")
+    data = base_scenario(product=newtonian_product(mu_pa_s=0.001, density=998.0))
+    data["route"]["segments"][0].update(length=300.0)
+    data["operation"] = {"flow": "15 m3/h", "inlet_temperature": 20.0}
+    result = evaluate(scenario_from_dict(data))
+    q = 15.0 / 3600.0
+    v = q / (math.pi * ID_2IN_SCH40 ** 2 / 4)
+    re = 998.0 * v * ID_2IN_SCH40 / 0.001
+    f = fluids.friction.Colebrook(re, 4.6e-5 / ID_2IN_SCH40)
+    expected = f * 300.0 / ID_2IN_SCH40 * 998.0 * v * v / 2
+    assert result.summary.friction_drop_pa == pytest.approx(expected, rel=1e-4)
+
+
+def test_fittings_add_hooper_k_at_the_local_reynolds_number():
+    # Hooper 2-K via fluids 1.3.1 (fluids.fittings.Hooper) as the reference.
+    fluids = pytest.importorskip("fluids")
+    mu, flow = 1.5, 6.0 / 3600.0
+    data = base_scenario(product=newtonian_product(mu_pa_s=mu, density=1100.0))
+    data["route"]["segments"][0].update(fittings=[{"type": "elbow_90_standard", "count": 5}])
+    plain = base_scenario(product=newtonian_product(mu_pa_s=mu, density=1100.0))
+    for d in (data, plain):
+        d["operation"] = {"flow": flow, "inlet_temperature": 20.0}
+    with_fittings = evaluate(scenario_from_dict(data)).summary
+    without = evaluate(scenario_from_dict(plain)).summary
+    v = flow / (math.pi * ID_2IN_SCH40 ** 2 / 4)
+    re = 1100.0 * v * ID_2IN_SCH40 / mu
+    k = fluids.fittings.Hooper2K(Di=ID_2IN_SCH40 / 0.0254, Re=re, K1=800.0, Kinfty=0.25)  # Di in inches
+    assert with_fittings.fittings_drop_pa == pytest.approx(5 * k * 1100.0 * v * v / 2, rel=1e-6)
+    assert with_fittings.friction_drop_pa == pytest.approx(without.friction_drop_pa, rel=1e-12)
+
+
+def test_power_law_isothermal_line_matches_metzner_reed():
+    # Metzner–Reed laminar: Fanning f = 16/Re_MR; REFERENCES.md values worked by hand from the formula.
+    data = base_scenario(product={
+        **newtonian_product(mu_pa_s=0.5, density=1000.0),
+        "rheology": "power_law", "flow_index": 0.5,
+    })
+    data["route"]["segments"][0] = {"name": "run", "inside_diameter": "50 mm", "length": 100.0}
+    velocity = 1.0
+    flow = velocity * math.pi * 0.05 ** 2 / 4
+    data["operation"] = {"flow": flow, "inlet_temperature": 20.0}
+    result = evaluate(scenario_from_dict(data))
+    assert result.summary.friction_drop_pa / 100.0 == pytest.approx(565.7, rel=1e-4)
+
+
+def test_viscous_heating_warms_an_adiabatic_laminar_line_by_dp_over_rho_cp():
+    # Energy balance: all frictional work ends as heat, dT = dp / (rho cp) when no heat leaves.
+    data = base_scenario(product=newtonian_product(mu_pa_s=5.0, density=1300.0, cp=2500.0, k=0.3))
+    data["route"]["segments"][0].update(
+        length=200.0, insulation=[{"conductivity": 1e-4, "thickness": 200}],
+        surroundings={"location": "buried", "ambient_temperature": 20.0})
+    data["operation"] = {"flow": "4 m3/h", "inlet_temperature": 20.0}
+    s = evaluate(scenario_from_dict(data)).summary
+    rise = s.outlet_temperature_k - s.inlet_temperature_k
+    assert rise == pytest.approx(s.friction_drop_pa / (1300.0 * 2500.0), rel=0.01)
+    assert rise > 1.0
+
+
+def test_product_colder_than_no_flow_temperature_is_reported_as_setting():
+    data = base_scenario(product=newtonian_product(mu_pa_s=0.5, density=900.0, cp=2000.0, k=0.15, no_flow_c=30.0))
+    data["site"]["ambient_temperature"] = -15.0
+    data["site"]["wind_speed"] = 8.0
+    data["route"]["segments"][0].update(length=2000.0)
+    data["operation"] = {"flow": "0.5 m3/h", "inlet_temperature": 40.0}
+    result = evaluate(scenario_from_dict(data))
+    s = result.summary
+    assert s.status == "product_sets"
+    assert 0.0 < s.sets_at_m < 2000.0
+    assert result.nodes["x"][-1] == pytest.approx(s.sets_at_m)
+    assert s.outlet_temperature_k < 303.15
+
+
+def test_steam_tracer_runs_at_saturation_temperature():
+    # IAPWS-IF97 saturation at 3.5 barg: 148.02 degC (REFERENCES.md, iapws 1.5.5)
+    data = base_scenario()
+    data["tracing"] = {"kind": "steam", "steam_pressure": "3.5 bar"}
+    data["route"]["segments"][0]["insulation"] = [{"material": "calcium_silicate", "thickness": 50}]
+    s = evaluate(scenario_from_dict(data)).summary
+    assert s.max_sheath_temperature_k - 273.15 == pytest.approx(148.02, abs=0.02)
+    assert s.trace_power_w > 0
+
+
+@pytest.mark.parametrize("path", DEMO_FILES, ids=[p.stem for p in DEMO_FILES])
+def test_grid_independence_on_every_demo(path):
+    # Halving the step changes outlet temperature by < 0.05 K and pressure drop by < 0.2 % (issue floor).
+    scenario = load_scenario(path)
+    line = line_from_scenario(scenario)
+    coarse = evaluate(scenario, line=line).summary
+    fine = evaluate(scenario, line=line, step=5.0).summary
+    assert abs(coarse.outlet_temperature_k - fine.outlet_temperature_k) < 0.05
+    assert abs(coarse.pressure_drop_pa - fine.pressure_drop_pa) < 0.002 * abs(fine.pressure_drop_pa)
