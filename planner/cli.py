@@ -36,7 +36,7 @@ def _evaluate(args) -> int:
 def _schema(args) -> int:
     from .scenario import json_schema
 
-    print(json.dumps(json_schema(), indent=2))
+    print(json.dumps(json_schema(), indent=2, ensure_ascii=False))
     return 0
 
 

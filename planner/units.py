@@ -143,7 +143,7 @@ def to_si(value: object, kind: str, field: str = "value") -> float:
     except pint.errors.DimensionalityError:
         raise UnitError(
             f"{field}: {value!r} has the wrong dimension; expected a {kind.replace('_', ' ')} "
-            f"(e.g. in {DEFAULT_UNITS[kind]})"
+            f"(e.g. in {DEFAULT_UNITS[kind].replace('**', '')})"
         ) from None
     except (pint.errors.UndefinedUnitError, AttributeError, TypeError, ValueError, AssertionError):
         raise UnitError(f"{field}: unknown unit {unit!r} in {value!r}") from None

@@ -1,0 +1,54 @@
+"""The command line: every demo evaluates; errors are one message and a non-zero exit."""
+
+from __future__ import annotations
+
+import json
+import subprocess
+import sys
+
+import pytest
+
+from conftest import DEMO_FILES, ROOT
+
+
+def run(*args):
+    return subprocess.run([sys.executable, "-m", "planner", *args], cwd=ROOT, capture_output=True, text=True, timeout=120)
+
+
+@pytest.mark.parametrize("path", DEMO_FILES, ids=[p.stem for p in DEMO_FILES])
+def test_evaluate_json_on_every_demo(path):
+    out = run("evaluate", str(path), "--flow", "20 m3/h", "--json")
+    assert out.returncode == 0, out.stderr
+    doc = json.loads(out.stdout)
+    summary = doc["summary"]
+    assert summary["flow_m3_s"] == pytest.approx(20 / 3600)
+    assert summary["status"] in ("ok", "product_sets")
+    assert summary["pressure_drop_pa"] == pytest.approx(
+        summary["friction_drop_pa"] + summary["fittings_drop_pa"] + summary["static_drop_pa"], rel=1e-9)
+    assert len(doc["segments"]) >= 1 and "caution" in doc
+
+
+def test_evaluate_table_and_inlet_temperature_override():
+    path = DEMO_FILES[0]
+    out = run("evaluate", str(path), "--flow", "100 gpm", "--inlet-temperature", "140 degF")
+    assert out.returncode == 0, out.stderr
+    assert "outlet temperature" in out.stdout and "60.00 °C" in out.stdout
+
+
+@pytest.mark.parametrize("args, words", [
+    (("evaluate", "no-such-file.toml"), "cannot open"),
+    (("evaluate", str(DEMO_FILES[0]), "--flow", "3 m"), "--flow"),
+    (("evaluate", str(DEMO_FILES[0]), "--flow", "-3 m3/h"), "greater than 0"),
+    (("evaluate", str(DEMO_FILES[0]), "--inlet-temperature", "-500 degC"), "absolute zero"),
+])
+def test_errors_exit_nonzero_without_traceback(args, words):
+    out = run(*args)
+    assert out.returncode == 2
+    assert words in out.stderr
+    assert "Traceback" not in out.stderr
+
+
+def test_schema_prints_json_schema():
+    out = run("schema")
+    assert out.returncode == 0
+    assert json.loads(out.stdout)["title"] == "Scenario"
