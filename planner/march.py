@@ -156,11 +156,22 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
         t_jacket = t_amb + 0.2 * (t - t_amb) if has_layers else t
         g_out = None
 
+        slope_previous = None
+        surf_at, r_surf = -1.0, 0.0       # cached surface resistance and the jacket temperature it is for
+        ins_at, r_ins_cached = -1.0, 0.0  # cached insulation resistance and the mean temperature it is for
         for _ in range(n):
-            # two evaluations: at the step start (to reach the midpoint) and at the midpoint
-            t_eval = t
-            x_eval = x + 0.25 * dx
-            for stage in (0, 1):
+            # The coefficients are taken at the step's midpoint state.  On a segment's first step the
+            # midpoint is reached by a half step from the start (two evaluations); after that it is
+            # predicted from the previous step's slope (one evaluation), which keeps second order.
+            if slope_previous is None:
+                t_eval = t
+                x_eval = x + 0.25 * dx
+                stages = (0, 1)
+            else:
+                t_eval = t + 0.5 * dx * slope_previous
+                x_eval = x + 0.5 * dx
+                stages = (1,)
+            for stage in stages:
                 rho = density(t_eval)
                 velocity = mass_flow / (rho * area)
                 q_volume = mass_flow / rho
@@ -190,8 +201,17 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
 
                 # outward path and heater: fixed point on the jacket temperature (warm-started)
                 for _it in range(30):
-                    r_ins = insulation_resistance(seg, t_wall_guess, t_jacket) if has_layers else 0.0
-                    r_surf = seg.soil_resistance if buried else surface_resistance(seg, t_jacket)
+                    if has_layers:
+                        t_mean = t_wall_guess + t_jacket
+                        if abs(t_mean - ins_at) > 0.1:   # k(T_mean) moves little over 0.05 K
+                            r_ins_cached, ins_at = insulation_resistance(seg, t_wall_guess, t_jacket), t_mean
+                        r_ins = r_ins_cached
+                    else:
+                        r_ins = 0.0
+                    if buried:
+                        r_surf = seg.soil_resistance
+                    elif abs(t_jacket - surf_at) > 0.02:  # h(T_jacket) moves little over 0.02 K
+                        r_surf, surf_at = surface_resistance(seg, t_jacket), t_jacket
                     g_out = 1.0 / (r_ins + r_surf)
                     wall = heater.balance(t_eval, g_in, g_out, t_amb)
                     q_out = g_out * (wall.t_wall - t_amb)
@@ -210,6 +230,7 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
                     t_eval = _advance(t, t_equilibrium, g, viscous, mcp, 0.5 * dx)
                     x_eval = x + 0.5 * dx
             t_new = _advance(t, t_equilibrium, g, viscous, mcp, dx)
+            slope_previous = (t_new - t) / dx
 
             grad_total = grad_friction + grad_fittings + grad_static
             p -= grad_total * dx

@@ -51,7 +51,7 @@ DEFAULT_UNITS: dict[str, str] = {
     "speed": "m/s",
     "time": "s",
     "rotational_speed": "revolution/minute",
-    "displacement": "m**3",
+    "displacement": "L",
     "yield_stress": "Pa",
     "consistency": "Pa*s",
     "area": "m**2",

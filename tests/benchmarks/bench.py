@@ -1,0 +1,207 @@
+"""Speed benchmark of the planner's hot paths against straightforward baselines, at equal accuracy.
+
+Run from /work/main:
+
+    python -m tests.benchmarks.bench              # all cases, text report
+    python -m tests.benchmarks.bench --json       # the figures as JSON
+    python tests/benchmarks/bench.py --case steady_march_1km --fast-repeats 100
+    python -m tests.benchmarks.bench --profile    # also cProfile the fast path of each case
+
+Each case times the fast code and its baseline in the same run (best of N, ``time.perf_counter``)
+and shows how closely both agree with a fine-step reference, so that the speed ratio is read at
+equal accuracy: the accuracy target is the outlet temperature within 0.05 K and the pressure drop
+within 0.2 % of the reference.
+
+Adding a case: write ``def case_<name>(args) -> dict`` returning the figures (use ``_time_best``
+and ``_agreement``), then decorate it with ``@register("<name>", "one-line description")``.
+Places are left for a full transfer plan and a setpoint comparison (see the end of the cases).
+
+Not collected by pytest (no test_ functions here); the agreement check that runs with the test
+suite is tests/benchmarks/test_baseline_agrees.py.
+"""
+
+from __future__ import annotations
+
+import argparse
+import cProfile
+import io
+import json
+import pstats
+import sys
+import time
+import tomllib
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parents[2]
+if str(ROOT) not in sys.path:
+    sys.path.insert(0, str(ROOT))
+
+from planner.march import DEFAULT_STEP_M, march  # noqa: E402
+from planner.model import line_from_scenario  # noqa: E402
+from planner.scenario import scenario_from_dict  # noqa: E402
+
+from tests.benchmarks.baseline_march import baseline_march  # noqa: E402
+
+DEMO_DIR = ROOT / "demo_scenarios"
+REFERENCE_STEP_M = 1.0
+TOLERANCE_TEMPERATURE_K = 0.05
+TOLERANCE_PRESSURE_DROP_PCT = 0.2
+TARGET_RATIO = 50.0
+
+CASES: dict[str, tuple[str, object]] = {}
+
+
+def register(name: str, description: str):
+    """Add a benchmark case to CASES (name -> (description, function(args) -> dict))."""
+    def deco(fn):
+        CASES[name] = (description, fn)
+        return fn
+    return deco
+
+
+# -- helpers ---------------------------------------------------------------------------------------
+
+def _time_best(fn, repeats: int) -> tuple[float, object]:
+    """Best wall time [s] of ``repeats`` calls after one warm-up call, and the last result."""
+    result = fn()
+    best = float("inf")
+    for _ in range(repeats):
+        t0 = time.perf_counter()
+        result = fn()
+        best = min(best, time.perf_counter() - t0)
+    return best, result
+
+
+def _agreement(outlet_t: float, drop: float, ref_t: float, ref_drop: float) -> dict:
+    dt = outlet_t - ref_t
+    dp_pct = 100.0 * (drop - ref_drop) / ref_drop
+    return {
+        "outlet_temperature_diff_k": dt,
+        "pressure_drop_diff_pct": dp_pct,
+        "within_tolerance": abs(dt) <= TOLERANCE_TEMPERATURE_K and abs(dp_pct) <= TOLERANCE_PRESSURE_DROP_PCT,
+    }
+
+
+def polyol_1km_scenario():
+    """The polyol tank-transfer demo (985 m, 4 segments, Darby 3-K fittings, constant-wattage tracing
+    with a thermostat, one buried crossing) with its sleeper run lengthened by 15 m to make 1000 m."""
+    data = tomllib.loads((DEMO_DIR / "polyol_tank_transfer.toml").read_text(encoding="utf-8"))
+    data["route"]["segments"][1]["length"] = "535 m"
+    return scenario_from_dict(data)
+
+
+def _profile(fn, top: int = 18) -> str:
+    prof = cProfile.Profile()
+    prof.enable()
+    for _ in range(20):
+        fn()
+    prof.disable()
+    out = io.StringIO()
+    pstats.Stats(prof, stream=out).sort_stats("tottime").print_stats(top)
+    return out.getvalue()
+
+
+# -- cases -------------------------------------------------------------------------------------------
+
+@register("steady_march_1km", "one steady march, 1000 m polyol line in 4 segments with fittings")
+def case_steady_march_1km(args) -> dict:
+    scenario = polyol_1km_scenario()
+    line = line_from_scenario(scenario)
+    op = scenario.operation
+    flow, t_in, p_in = op.flow, op.inlet_temperature, op.inlet_pressure
+    method = scenario.route.fitting_method
+
+    def fast():
+        return march(line, flow, t_in, p_in)
+
+    def base():
+        return baseline_march(line, flow, t_in, p_in, fitting_method=method)
+
+    t_fast, r_fast = _time_best(fast, args.fast_repeats)
+    t_base, r_base = _time_best(base, args.baseline_repeats)
+    ref = march(line, flow, t_in, p_in, step=REFERENCE_STEP_M).summary
+    s = r_fast.summary
+    figures = {
+        "line_length_m": line.length,
+        "segments": len(line.segments),
+        "fast_seconds": t_fast,
+        "baseline_seconds": t_base,
+        "ratio": t_base / t_fast,
+        "target_ratio": TARGET_RATIO,
+        "fast_step_m": DEFAULT_STEP_M,
+        "fast_steps": s.steps,
+        "baseline_rhs_evaluations": r_base["rhs_evaluations"],
+        "baseline_accepted_steps": r_base["accepted_steps"],
+        "reference": f"fast march at step {REFERENCE_STEP_M} m",
+        "reference_outlet_temperature_k": ref.outlet_temperature_k,
+        "reference_pressure_drop_pa": ref.pressure_drop_pa,
+        "fast_vs_reference": _agreement(s.outlet_temperature_k, s.pressure_drop_pa,
+                                        ref.outlet_temperature_k, ref.pressure_drop_pa),
+        "baseline_vs_reference": _agreement(r_base["outlet_temperature_k"], r_base["pressure_drop_pa"],
+                                            ref.outlet_temperature_k, ref.pressure_drop_pa),
+        "baseline_vs_fast": _agreement(r_base["outlet_temperature_k"], r_base["pressure_drop_pa"],
+                                       s.outlet_temperature_k, s.pressure_drop_pa),
+    }
+    if args.profile:
+        figures["fast_profile"] = _profile(fast)
+    return figures
+
+
+# Places for the lead's later cases, e.g.
+#
+# @register("transfer_plan", "full transfer plan: flow/temperature search over many marches")
+# def case_transfer_plan(args) -> dict: ...
+#
+# @register("setpoint_comparison", "marches at a range of thermostat setpoints")
+# def case_setpoint_comparison(args) -> dict: ...
+
+
+# -- report ------------------------------------------------------------------------------------------
+
+def _format_case(name: str, description: str, fig: dict) -> str:
+    lines = [f"== {name}: {description}"]
+    if "fast_seconds" in fig:
+        lines.append(f"   line {fig.get('line_length_m', float('nan')):.0f} m, {fig.get('segments', '?')} segments; "
+                     f"fast: {fig.get('fast_steps', '?')} steps of <= {fig.get('fast_step_m', '?')} m; "
+                     f"baseline: {fig.get('baseline_rhs_evaluations', '?')} RHS evaluations, "
+                     f"{fig.get('baseline_accepted_steps', '?')} RK45 steps")
+        lines.append(f"   fast march      {fig['fast_seconds'] * 1e3:10.3f} ms (best)")
+        lines.append(f"   baseline        {fig['baseline_seconds'] * 1e3:10.3f} ms (best)")
+        verdict = "meets" if fig["ratio"] >= fig.get("target_ratio", TARGET_RATIO) else "BELOW"
+        lines.append(f"   ratio           {fig['ratio']:10.1f} x   ({verdict} the {fig.get('target_ratio', TARGET_RATIO):.0f} x target)")
+    for key in ("fast_vs_reference", "baseline_vs_reference", "baseline_vs_fast"):
+        if key in fig:
+            a = fig[key]
+            ok = "ok" if a["within_tolerance"] else "OUT OF TOLERANCE"
+            lines.append(f"   {key:22s} dT_out {a['outlet_temperature_diff_k']:+.2e} K, "
+                         f"d(dp) {a['pressure_drop_diff_pct']:+.2e} %  [{ok}]")
+    if "reference" in fig:
+        lines.append(f"   (reference: {fig['reference']}; tolerance {TOLERANCE_TEMPERATURE_K} K, "
+                     f"{TOLERANCE_PRESSURE_DROP_PCT} %)")
+    if "fast_profile" in fig:
+        lines.append(fig["fast_profile"])
+    return "\n".join(lines)
+
+
+def main(argv: list[str] | None = None) -> int:
+    parser = argparse.ArgumentParser(description="Planner speed benchmarks against straightforward baselines.")
+    parser.add_argument("--case", action="append", choices=sorted(CASES),
+                        help="case to run (repeatable; default: all)")
+    parser.add_argument("--fast-repeats", type=int, default=50, help="timed repeats of the fast code (best of)")
+    parser.add_argument("--baseline-repeats", type=int, default=5, help="timed repeats of the baseline (best of)")
+    parser.add_argument("--json", action="store_true", help="print the figures as JSON")
+    parser.add_argument("--profile", action="store_true", help="cProfile the fast code of each case")
+    args = parser.parse_args(argv)
+    if args.fast_repeats < 1 or args.baseline_repeats < 1:
+        parser.error("--fast-repeats and --baseline-repeats must be at least 1")
+    names = args.case or list(CASES)
+    results = {name: CASES[name][1](args) for name in names}
+    if args.json:
+        print(json.dumps(results, indent=2))
+    else:
+        print("\n\n".join(_format_case(n, CASES[n][0], results[n]) for n in names))
+    return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())
