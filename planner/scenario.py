@@ -307,6 +307,127 @@ class Operation(_Model):
     inlet_pressure: GaugePressure = Field(0.0, description="gauge pressure at the route inlet (pump discharge)")
 
 
+# ------------------------------------------------------------------------------------------
+# Pump, vessels, costs and schedule (used by `plan`; `evaluate` needs only the sections above)
+
+Head = Quantity("length", gt=0.0, le=2000.0, description="pump head")
+Volume = Quantity("volume", gt=0.0, le=1.0e6, description="volume")
+Power = Quantity("power", gt=0.0, le=1.0e7, description="power")
+Speed = Quantity("rotational_speed", gt=0.0, le=500.0, description="rotational speed")
+Duration = Quantity("time", gt=0.0, le=30 * 86400.0, description="duration")
+
+
+class CurvePoint(_Model):
+    flow: Quantity("volume_flow", ge=0.0, le=2.0, description="flow on water")
+    head: Head
+    efficiency: float = Field(ge=0.0, le=1.0, description="pump efficiency on water [-]")
+
+
+class PumpSpec(_Model):
+    """The transfer pump. Positive-displacement: displacement, speed, slip, relief.
+    Centrifugal: the water curve (first point at zero flow), speed."""
+
+    kind: Literal["positive_displacement", "centrifugal"]
+    name: str = Field("", max_length=120)
+    control: Literal["fixed_speed", "fixed_flow"] = Field("fixed_speed", description="fixed_flow: a VFD or flow controller holds flow_setpoint")
+    flow_setpoint: Optional[Flow] = None
+    speed: Speed
+    max_speed: Optional[Speed] = None
+    displacement: Optional[Quantity("displacement", gt=0.0, le=1.0, description="displacement per revolution")] = None
+    slip_flow: Quantity("volume_flow", ge=0.0, le=2.0, description="slip at the reference pressure and viscosity") = 0.0
+    slip_reference_pressure: Quantity("pressure", gt=0.0, le=5.0e7, description="differential pressure of the slip figure") = 5.0e5
+    slip_reference_viscosity: Quantity("dynamic_viscosity", gt=0.0, le=1.0e5, description="viscosity of the slip figure") = 1.0
+    slip_viscosity_exponent: float = Field(1.0, ge=0.0, le=2.0)
+    relief_setting: Optional[Quantity("pressure", gt=0.0, le=5.0e7, description="relief valve setting (differential across the pump)")] = None
+    mechanical_efficiency: float = Field(0.85, gt=0.05, le=1.0)
+    motor_power: Optional[Power] = None
+    motor_efficiency: float = Field(0.92, gt=0.3, le=1.0)
+    npsh_required: Quantity("length", ge=0.0, le=100.0, description="NPSH required (PD: net inlet pressure required as head)") = 3.0
+    curve: list[CurvePoint] = Field(default_factory=list)
+    stages: int = Field(1, ge=1, le=20)
+
+    @model_validator(mode="after")
+    def _complete(self):
+        if self.kind == "positive_displacement" and self.displacement is None:
+            raise ValueError("a positive_displacement pump needs its displacement (e.g. '1.2 L' per revolution)")
+        if self.kind == "centrifugal" and len(self.curve) < 3:
+            raise ValueError("a centrifugal pump needs a water curve of at least 3 points, the first at zero flow")
+        if self.control == "fixed_flow" and self.flow_setpoint is None:
+            raise ValueError("control 'fixed_flow' needs flow_setpoint")
+        if self.max_speed is not None and self.max_speed < self.speed:
+            raise ValueError("max_speed is below speed")
+        return self
+
+
+class Vessel(_Model):
+    """The source: railcar, truck, barge compartment or tank."""
+
+    kind: Literal["railcar", "truck", "barge", "tank"] = "tank"
+    name: str = Field("", max_length=120)
+    shape: Literal["horizontal_cylinder", "vertical_cylinder", "box"] = "vertical_cylinder"
+    diameter: Optional[Quantity("length", gt=0.1, le=100.0, description="diameter")] = None
+    length: Optional[Quantity("length", gt=0.1, le=200.0, description="length (horizontal cylinder, box)")] = None
+    width: Optional[Quantity("length", gt=0.1, le=100.0, description="width (box)")] = None
+    initial_volume: Volume
+    volume_to_move: Volume
+    outlet_height: Quantity("length", ge=-50.0, le=100.0, description="height of the vessel's bottom above the suction route inlet") = 0.0
+    pressure: Quantity("pressure", ge=-0.9e5, le=1.0e6, description="gas pressure above the liquid (gauge)") = 0.0
+    temperature: Temperature
+    heat_loss_coefficient: Quantity("heat_transfer_coefficient", ge=0.0, le=100.0, description="overall U of the shell to ambient") = 1.0
+    heating_power: Quantity("power", ge=0.0, le=1.0e7, description="heating coil or jacket power while unloading") = 0.0
+    heating_medium: Literal["steam", "electric"] = "steam"
+
+    @model_validator(mode="after")
+    def _geometry(self):
+        need = {"horizontal_cylinder": ("diameter", "length"), "vertical_cylinder": ("diameter",),
+                "box": ("length", "width")}[self.shape]
+        missing = [n for n in need if getattr(self, n) is None]
+        if missing:
+            raise ValueError(f"a {self.shape} needs {', '.join(missing)}")
+        if self.volume_to_move > self.initial_volume:
+            raise ValueError("volume_to_move is more than the initial_volume")
+        capacity = vessel_capacity(self)
+        if capacity is not None and self.initial_volume > capacity * 1.0001:
+            raise ValueError(f"initial_volume {self.initial_volume:g} m³ does not fit the vessel ({capacity:.1f} m³)")
+        return self
+
+
+def vessel_capacity(v: "Vessel") -> float | None:
+    if v.shape == "horizontal_cylinder":
+        return math.pi * v.diameter ** 2 / 4.0 * v.length
+    if v.shape == "box" and v.diameter is None:
+        return None  # open height
+    return None
+
+
+class Destination(_Model):
+    """The receiving tank (vertical cylinder)."""
+
+    name: str = Field("", max_length=120)
+    diameter: Quantity("length", gt=0.5, le=150.0, description="tank diameter")
+    initial_level: Quantity("length", ge=0.0, le=60.0, description="liquid level at the start")
+    max_level: Optional[Quantity("length", gt=0.0, le=60.0, description="highest allowed level (overfill)")] = None
+    inlet: Literal["top", "bottom"] = Field("bottom", description="bottom entry pushes against the level; top entry does not")
+    pressure: Quantity("pressure", ge=-0.05e5, le=1.0e6, description="gas pressure in the tank (gauge)") = 0.0
+    max_pressure: Optional[Quantity("pressure", gt=0.0, le=1.0e6, description="tank design pressure (gauge)")] = None
+
+
+class Costs(_Model):
+    currency: str = Field("EUR", max_length=8)
+    electricity_per_kwh: float = Field(0.15, ge=0.0, le=100.0)
+    steam_per_tonne: float = Field(30.0, ge=0.0, le=10_000.0)
+    demurrage_per_hour: float = Field(0.0, ge=0.0, le=1.0e6)
+
+
+class Schedule(_Model):
+    planned_window: Duration = 8 * 3600.0
+    start_mode: Literal["prewarm", "push_cold"] = Field("prewarm", description="how the plan starts: pre-warm the line first, or push the cold contents out")
+    line_start_temperature: Optional[Temperature] = Field(None, description="temperature of the product left in the line; default the design ambient")
+    stop_duration: Duration = Field(3600.0, description="a stop to check restart for")
+    limiting_viscosity: Optional[DynamicViscosity] = Field(None, description="viscosity above which the line counts as unable to restart")
+    timeline_steps: int = Field(60, ge=10, le=1000)
+
+
 class Scenario(_Model):
     schema_version: int = SCHEMA_VERSION
     name: str = Field(min_length=1, max_length=160)
@@ -316,6 +437,12 @@ class Scenario(_Model):
     route: Route
     tracing: Tracing = Field(default_factory=Tracing)
     operation: Operation
+    suction: Optional[Route] = Field(None, description="route from the source outlet to the pump; none: pump at the outlet")
+    pump: Optional[PumpSpec] = None
+    source: Optional[Vessel] = None
+    destination: Optional[Destination] = None
+    costs: Costs = Field(default_factory=Costs)
+    schedule: Schedule = Field(default_factory=Schedule)
 
     @field_validator("schema_version")
     @classmethod

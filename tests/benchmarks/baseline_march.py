@@ -57,9 +57,11 @@ NU_LAMINAR_DEVELOPED = 3.66  # Graetz limit, constant wall temperature
 
 # Integrator tolerances: solve_ivp's default rtol, absolute floors in the units of the state.
 # Measured on the three demo scenarios: RK45 is already near its floor there (3-4 accepted steps,
-# about 23 evaluations, per segment); rtol 1e-2 saves no evaluations and rtol 1e-6 adds about 20 %,
-# and at 1e-3 the baseline is within 1e-4 K and 4e-4 % of a 1 m step fast march, well inside the
-# accuracy target (0.05 K, 0.2 %).
+# about 23 evaluations, per segment); rtol 1e-2 saves at most a few evaluations and rtol 1e-6 adds
+# about 20 %.  At 1e-3 the baseline is within 5e-4 K and 2.1e-3 % of a 1 m step fast march, well
+# inside the accuracy target (0.05 K, 0.2 %); that remainder does not change at rtol 1e-6, so it is
+# a model-level difference, not integration error (most likely the march's lagged wall temperature
+# in mu/mu_w and its 0.01 K jacket convergence).
 RTOL = 1e-3
 ATOL_TEMPERATURE = 1e-2      # [K]
 ATOL_PRESSURE = 100.0        # [Pa]

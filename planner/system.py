@@ -1,0 +1,439 @@
+"""The transfer system: suction route + pump + discharge route between two vessels, and the
+operating point where pump and system agree.
+
+Pressures are gauge. Along the suction route the product starts at the source's gas pressure plus
+its liquid head above the route inlet; the march gives the pump suction pressure. The discharge
+route must deliver against the destination's gas pressure plus, for a bottom entry, its liquid
+level. Route elevation changes carry the static head between those points.
+
+NPSH available = (p_suction + p_atm - p_vapour) / (rho g) + V^2 / (2 g) at the pump inlet (the usual
+definition, ANSI/HI 9.6.1).
+
+Outcomes are plain words, not exceptions: ``ok``, ``no_flow`` (static head, yield stress or relief
+setting not overcome), ``relief_lifting`` (the relief valve passes part of the flow back),
+``rate_not_reachable`` (a fixed-flow pump cannot reach its setpoint), ``beyond_curve`` (a centrifugal
+pump would run past the end of its curve); flags ``motor_overloaded`` and ``suction_starved`` may be
+added to any of them.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+from scipy.optimize import brentq
+
+from .march import Line, MarchSummary, march
+from .products import Product
+from .pumps import CentrifugalPump, PositiveDisplacementPump
+from .route import build_line
+from .scenario import Scenario
+from .units import ATMOSPHERE_PA, GRAVITY
+from .vessels import level_from_volume
+
+HUGE_PRESSURE = 1.0e12  # stands in for "this rate cannot be pushed" (product sets) inside root finding
+
+
+@dataclass
+class SystemPoint:
+    flow: float                  # m3/s at the source temperature
+    mass_flow: float
+    source_temperature: float
+    pump_inlet_temperature: float
+    suction_pressure: float      # gauge at the pump inlet
+    discharge_pressure: float    # gauge needed at the pump outlet
+    pump_differential: float
+    npsh_available: float
+    outlet_temperature: float
+    suction: MarchSummary | None
+    discharge: MarchSummary
+    sets: bool                   # product falls below its no-flow temperature somewhere
+    where: str = ""
+
+    @property
+    def line_pressure_drop(self) -> float:
+        return self.discharge.pressure_drop_pa + (self.suction.pressure_drop_pa if self.suction else 0.0)
+
+
+@dataclass
+class OperatingPoint:
+    status: str
+    flow: float
+    message: str
+    point: SystemPoint | None
+    flags: list[str] = field(default_factory=list)
+    speed: float | None = None          # rev/s
+    shaft_power: float = 0.0            # W
+    pump_head: float | None = None      # m (centrifugal)
+    npsh_required: float = 0.0
+    npsh_limited_flow: float | None = None
+    relief_flow: float = 0.0            # m3/s recirculating through the relief valve
+    hi_b: float | None = None           # ANSI/HI 9.6.7 parameter B (centrifugal)
+    hi_in_range: bool = True
+
+    @property
+    def moving(self) -> bool:
+        return self.status != "no_flow" and self.flow > 0.0
+
+
+@dataclass
+class SystemState:
+    """What changes while the transfer runs."""
+
+    source_temperature: float
+    source_volume: float
+    destination_volume_added: float = 0.0
+
+
+def build_pump(spec):
+    if spec.kind == "positive_displacement":
+        return PositiveDisplacementPump(
+            displacement_m3_per_rev=spec.displacement, speed_rev_s=spec.speed, slip_flow_m3_s=spec.slip_flow,
+            slip_reference_pressure_pa=spec.slip_reference_pressure,
+            slip_reference_viscosity_pa_s=spec.slip_reference_viscosity,
+            slip_viscosity_exponent=spec.slip_viscosity_exponent, relief_setting_pa=spec.relief_setting,
+            mechanical_efficiency=spec.mechanical_efficiency, motor_power_w=spec.motor_power,
+            npsh_required_m=spec.npsh_required, max_speed_rev_s=spec.max_speed)
+    return CentrifugalPump(
+        flows_m3_s=[p.flow for p in spec.curve], heads_m=[p.head for p in spec.curve],
+        efficiencies=[p.efficiency for p in spec.curve], speed_rev_s=spec.speed,
+        npsh_required_m=spec.npsh_required, stages=spec.stages)
+
+
+class TransferSystem:
+    def __init__(self, scenario: Scenario, tracing=None, product: Product | None = None, step: float = 10.0):
+        missing = [name for name in ("pump", "source", "destination") if getattr(scenario, name) is None]
+        if missing:
+            from .errors import ScenarioError
+
+            raise ScenarioError([(name, "a transfer plan needs this section") for name in missing])
+        self.scenario = scenario
+        self.tracing = tracing or scenario.tracing
+        self.product = product or Product(scenario.product)
+        self.discharge_line = Line(build_line(scenario.route, scenario.site), self.product, self.tracing)
+        self.suction_line = (Line(build_line(scenario.suction, scenario.site), self.product, self.tracing)
+                             if scenario.suction is not None else None)
+        self.pump_spec = scenario.pump
+        self.pump = build_pump(scenario.pump)
+        self.source = scenario.source
+        self.destination = scenario.destination
+        self.step = step
+        self.evaluations = 0
+        self._slopes: dict[str, float] = {}
+        self._last_relief_flow: float | None = None
+
+    def _warm_solve(self, kind: str, function, high: float, guess: float | None, ftol: float = 0.0) -> float | None:
+        """Secant iteration from a guess (the previous timeline step), using the slope remembered from
+        the last solve of the same kind.  None when it does not settle inside (0, high]: the caller
+        then brackets from scratch."""
+        if guess is None or not 0.0 < guess <= high:
+            return None
+        q0, f0 = guess, function(guess)
+        slope = self._slopes.get(kind)
+        q1 = q0 - f0 / slope if slope else q0 * 0.99
+        for _ in range(8):
+            if not high * MIN_FLOW_FRACTION < q1 <= high:
+                return None
+            f1 = function(q1)
+            if abs(q1 - q0) <= 2e-5 * q1 or abs(f1) <= ftol:
+                if f1 != f0:
+                    self._slopes[kind] = (f1 - f0) / (q1 - q0)
+                return q1
+            if f1 == f0:
+                return None
+            slope = (f1 - f0) / (q1 - q0)
+            q0, f0, q1 = q1, f1, q1 - f1 / slope
+        return None
+
+    # -- boundary pressures ---------------------------------------------------------------------
+    def source_pressure(self, state: SystemState) -> float:
+        rho = self.product.density(state.source_temperature)
+        level = level_from_volume(self.source, state.source_volume)
+        return self.source.pressure + rho * GRAVITY * (level + self.source.outlet_height)
+
+    def destination_pressure(self, state: SystemState, temperature: float) -> float:
+        dest = self.destination
+        p = dest.pressure
+        if dest.inlet == "bottom":
+            level = dest.initial_level + state.destination_volume_added / (math.pi * dest.diameter ** 2 / 4.0)
+            p += self.product.density(temperature) * GRAVITY * level
+        return p
+
+    # -- the system at one flow -----------------------------------------------------------------
+    def at_flow(self, flow: float, state: SystemState, record: bool = False, discharge_line: Line | None = None,
+                discharge_inlet_temperature: float | None = None) -> SystemPoint:
+        self.evaluations += 1
+        product = self.product
+        t_source = state.source_temperature
+        rho_source = product.density(t_source)
+        mass_flow = rho_source * flow
+        p_source = self.source_pressure(state)
+        suction_summary = None
+        sets, where = False, ""
+        if self.suction_line is not None:
+            suction = march(self.suction_line, flow, t_source, p_source, step=self.step, record=False)
+            suction_summary = suction.summary
+            p_suction = suction_summary.outlet_pressure_pa
+            t_pump = suction_summary.outlet_temperature_k
+            seg = self.suction_line.segments[-1]
+            velocity = mass_flow / (product.density(t_pump) * seg.area)
+            if suction_summary.status != "ok":
+                sets, where = True, f"suction line at {suction_summary.sets_at_m:.0f} m"
+        else:
+            p_suction, t_pump = p_source, t_source
+            velocity = 0.0
+        rho_pump = product.density(t_pump)
+        npsh_a = ((p_suction + ATMOSPHERE_PA - product.vapour_pressure(t_pump)) / (rho_pump * GRAVITY)
+                  + velocity * velocity / (2.0 * GRAVITY))
+        line = discharge_line or self.discharge_line
+        t_discharge_in = t_pump if discharge_inlet_temperature is None else discharge_inlet_temperature
+        discharge = march(line, mass_flow / product.density(t_discharge_in), t_discharge_in, 0.0,
+                          step=self.step, record=record)
+        ds = discharge.summary
+        if ds.status != "ok" and not sets:
+            sets, where = True, f"discharge line at {ds.sets_at_m:.0f} m"
+        p_discharge = ds.pressure_drop_pa + self.destination_pressure(state, ds.outlet_temperature_k)
+        point = SystemPoint(flow, mass_flow, t_source, t_pump, p_suction, p_discharge, p_discharge - p_suction,
+                            npsh_a, ds.outlet_temperature_k, suction_summary, ds, sets, where)
+        point.discharge_result = discharge if record else None
+        return point
+
+    def _differential(self, flow: float, state: SystemState, cache: dict) -> float:
+        key = round(flow, 12)
+        if key not in cache:
+            cache[key] = self.at_flow(flow, state)
+        point = cache[key]
+        return HUGE_PRESSURE if point.sets else point.pump_differential
+
+    # -- the operating point --------------------------------------------------------------------
+    def operating_point(self, state: SystemState, guess: float | None = None) -> OperatingPoint:
+        cache: dict = {}
+        spec = self.pump_spec
+        if spec.kind == "positive_displacement":
+            op = self._pd_point(state, guess, cache)
+        else:
+            op = self._centrifugal_point(state, guess, cache)
+        if op.point is not None and op.moving:
+            self._suction_checks(op, state)
+            self._power_checks(op)
+        return op
+
+    def _viscosity_at_pump(self, point: SystemPoint | None, state: SystemState) -> float:
+        t = point.pump_inlet_temperature if point is not None else state.source_temperature
+        return self.product.viscosity(t)
+
+    def _point(self, flow: float, state: SystemState, cache: dict) -> SystemPoint:
+        self._differential(flow, state, cache)
+        return cache[round(flow, 12)]
+
+    def _pd_point(self, state: SystemState, guess: float | None, cache: dict) -> OperatingPoint:
+        pump: PositiveDisplacementPump = self.pump
+        spec = self.pump_spec
+        relief = spec.relief_setting
+        mu = self.product.viscosity(state.source_temperature)
+        speed = spec.speed
+        if spec.control == "fixed_flow":
+            target = spec.flow_setpoint
+            dp = self._differential(target, state, cache)
+            point = cache[round(target, 12)]
+            mu = self._viscosity_at_pump(point, state)
+            if dp < HUGE_PRESSURE and (relief is None or dp <= relief):
+                needed = (target + pump.slip(dp, mu, speed=1e9)) / pump.displacement_m3_per_rev
+                limit = spec.max_speed or spec.speed
+                if needed <= limit * (1 + 1e-9):
+                    op = OperatingPoint("ok", target, f"flow held at its setpoint at {needed * 60:.0f} rpm", point,
+                                        speed=needed)
+                    op.shaft_power = pump.shaft_power(dp, mu, speed=needed)
+                    return op
+                speed = limit
+                fallback = f"setpoint needs {needed * 60:.0f} rpm, more than the {limit * 60:.0f} rpm limit"
+            else:
+                speed = spec.max_speed or spec.speed
+                fallback = "setpoint flow needs more pressure than the relief setting" if dp < HUGE_PRESSURE else \
+                    f"product sets at the setpoint flow ({point.where})"
+            op = self._pd_fixed_speed(state, guess, cache, speed)
+            if op.status == "ok":
+                op.status = "rate_not_reachable"
+            op.message = fallback + "; " + op.message
+            return op
+        return self._pd_fixed_speed(state, guess, cache, speed)
+
+    def _pd_fixed_speed(self, state: SystemState, guess: float | None, cache: dict, speed: float) -> OperatingPoint:
+        pump: PositiveDisplacementPump = self.pump
+        relief = self.pump_spec.relief_setting
+        q_theoretical = pump.theoretical_flow(speed)
+
+        def residual(q):
+            dp = self._differential(q, state, cache)
+            mu = self._viscosity_at_pump(cache[round(q, 12)], state)
+            return q - pump.delivered_flow(min(dp, HUGE_PRESSURE), mu, speed)
+
+        def over_relief(x):
+            return self._differential(x, state, cache) - relief
+
+        if relief is not None and guess is not None and self._last_relief_flow is not None:
+            q_relief = self._warm_solve("relief", over_relief, q_theoretical, self._last_relief_flow, ftol=20.0)
+            if q_relief is not None:
+                point = self._point(q_relief, state, cache)
+                mu = self._viscosity_at_pump(point, state)
+                delivered = pump.delivered_flow(relief, mu, speed)
+                if delivered > q_relief:
+                    self._last_relief_flow = q_relief
+                    return self._relief_point(q_relief, point, delivered, relief, mu, speed)
+        self._last_relief_flow = None
+        q = self._warm_solve("pd", residual, q_theoretical, guess, ftol=1e-7 * q_theoretical)
+        bracket = None if q is not None else _bracket_down(residual, q_theoretical, guess)
+        if q is None and bracket is None:
+            q_low = q_theoretical * MIN_FLOW_FRACTION
+            point = self._point(q_low, state, cache)
+            reason = (f"product sets ({point.where})" if point.sets else
+                      "slip returns the whole displacement at the pressure the system needs")
+            return self._no_flow(state, cache, q_low, f"pump cannot move product: {reason}")
+        if q is None:
+            q = _root(residual, bracket[0], bracket[1])
+        point = self._point(q, state, cache)
+        mu = self._viscosity_at_pump(point, state)
+        dp = point.pump_differential
+        if relief is not None and dp > relief:
+            q_relief = self._warm_solve("relief", over_relief, q, guess, ftol=20.0)
+            if q_relief is None:
+                low = _bracket_down(over_relief, q, None)
+                if low is None:
+                    return self._no_flow(state, cache, q * MIN_FLOW_FRACTION,
+                                         f"the line needs more than the relief setting {relief / 1e5:.2f} bar at any rate")
+                q_relief = _root(over_relief, low[0], low[1])
+            self._last_relief_flow = q_relief
+            point = self._point(q_relief, state, cache)
+            return self._relief_point(q_relief, point, pump.delivered_flow(relief, mu, speed), relief, mu, speed)
+        op = OperatingPoint("ok", q, f"pump and line agree at {q * 3600:.1f} m³/h and {dp / 1e5:.2f} bar", point,
+                            speed=speed)
+        op.shaft_power = pump.shaft_power(dp, mu, speed)
+        return op
+
+    def _relief_point(self, q_relief, point, delivered, relief, mu, speed) -> OperatingPoint:
+        op = OperatingPoint(
+            "relief_lifting", q_relief,
+            f"relief valve lifting at {relief / 1e5:.2f} bar: the line takes {q_relief * 3600:.1f} m³/h of the "
+            f"{delivered * 3600:.1f} m³/h the pump moves", point, speed=speed)
+        op.relief_flow = max(0.0, delivered - q_relief)
+        op.shaft_power = self.pump.shaft_power(relief, mu, speed)
+        return op
+
+    def _centrifugal_point(self, state: SystemState, guess: float | None, cache: dict) -> OperatingPoint:
+        pump: CentrifugalPump = self.pump
+        spec = self.pump_spec
+        rho = self.product.density(state.source_temperature)
+        nu = self.product.kinematic_viscosity(state.source_temperature)
+        q_max = pump.max_flow(nu)
+
+        def head_gap(q):
+            dp = self._differential(q, state, cache)
+            point = cache[round(q, 12)]
+            nu_pump = self.product.kinematic_viscosity(point.pump_inlet_temperature)
+            return pump.head(q, nu_pump) - dp / (rho * GRAVITY)
+
+        status = "ok"
+        warm = None
+        if spec.control == "fixed_speed":
+            warm = self._warm_solve("centrifugal", lambda x: -head_gap(x), q_max, guess, ftol=1e-4)
+        if warm is not None:
+            q = warm
+            message = f"pump and line agree at {q * 3600:.1f} m³/h"
+        elif spec.control == "fixed_flow" and spec.flow_setpoint <= q_max and head_gap(spec.flow_setpoint) >= 0.0:
+            q = spec.flow_setpoint
+            message = "flow held at its setpoint; the control valve takes the excess head"
+        else:
+            if head_gap(q_max) > 0.0:
+                q, status = q_max, "beyond_curve"
+                message = "the system needs less head than the pump makes at the end of its curve"
+            else:
+                q = None
+                bracket = _bracket_down(lambda x: -head_gap(x), q_max, guess)
+                if bracket is None:
+                    q_low = q_max * MIN_FLOW_FRACTION
+                    point = self._point(q_low, state, cache)
+                    reason = (f"product sets ({point.where})" if point.sets else
+                              f"pump cannot overcome the static head at any rate: the system needs "
+                              f"{point.pump_differential / (rho * GRAVITY):.1f} m, shut-off head is "
+                              f"{pump.shut_off_head(nu):.1f} m")
+                    return self._no_flow(state, cache, q_low, reason)
+                if q is None:
+                    q = _root(head_gap, bracket[0], bracket[1])
+                message = f"pump and line agree at {q * 3600:.1f} m³/h"
+            if spec.control == "fixed_flow":
+                status = "rate_not_reachable" if status == "ok" else status
+                message = f"setpoint {spec.flow_setpoint * 3600:.1f} m³/h not reachable; " + message
+        point = self._point(q, state, cache)
+        nu_pump = self.product.kinematic_viscosity(point.pump_inlet_temperature)
+        head = pump.head(q, nu_pump)
+        op = OperatingPoint(status, q, message, point, speed=spec.speed, pump_head=head)
+        op.shaft_power = pump.shaft_power(q, head, rho, nu_pump)
+        curve = pump.viscous_curve(nu_pump)
+        op.hi_b, op.hi_in_range = curve.correction.b, curve.correction.in_range
+        return op
+
+    def _no_flow(self, state, cache, q_low, message) -> OperatingPoint:
+        point = cache.get(round(q_low, 12))
+        return OperatingPoint("no_flow", 0.0, "no flow possible: " + message, point)
+
+    def _suction_checks(self, op: OperatingPoint, state: SystemState) -> None:
+        npsh_r = self.pump_spec.npsh_required
+        op.npsh_required = npsh_r
+        if op.point.npsh_available >= npsh_r:
+            return
+        op.flags.append("suction_starved")
+
+        def margin(q):
+            return self._suction_npsh(q, state) - npsh_r
+
+        q_low = op.flow * 1e-3
+        if margin(q_low) < 0.0:
+            op.npsh_limited_flow = 0.0
+        else:
+            op.npsh_limited_flow = brentq(margin, q_low, op.flow, xtol=1e-7, rtol=1e-4)
+
+    def _suction_npsh(self, flow: float, state: SystemState) -> float:
+        product = self.product
+        p_source = self.source_pressure(state)
+        if self.suction_line is None:
+            return (p_source + ATMOSPHERE_PA - product.vapour_pressure(state.source_temperature)) / (
+                product.density(state.source_temperature) * GRAVITY)
+        s = march(self.suction_line, flow, state.source_temperature, p_source, step=self.step, record=False).summary
+        rho = product.density(s.outlet_temperature_k)
+        velocity = s.mass_flow_kg_s / (rho * self.suction_line.segments[-1].area)
+        return ((s.outlet_pressure_pa + ATMOSPHERE_PA - product.vapour_pressure(s.outlet_temperature_k)) / (rho * GRAVITY)
+                + velocity * velocity / (2 * GRAVITY))
+
+    def _power_checks(self, op: OperatingPoint) -> None:
+        motor = self.pump_spec.motor_power
+        if motor is not None and op.shaft_power > motor:
+            op.flags.append("motor_overloaded")
+
+
+MIN_FLOW_FRACTION = 1e-3
+
+
+def _bracket_down(function, high: float, guess: float | None, below_is_negative: bool = True):
+    """Find [a, b] with function(a) < 0 <= function(b), b <= high, searching down from ``high``
+    (first in a narrow band around a guess).  None when no sign change is found down to a trickle."""
+    if function(high) < 0.0:
+        return None
+    if guess is not None and guess < high:
+        top = min(high, guess * 1.03)
+        bottom = guess * 0.97
+        if function(top) >= 0.0 and function(bottom) < 0.0:
+            return bottom, top
+    a = b = high
+    while a > high * MIN_FLOW_FRACTION:
+        a = a * 0.6
+        if function(a) < 0.0:
+            return a, b
+        b = a
+    return None
+
+
+def _root(function, low: float, high: float, guess: float | None = None) -> float:
+    """Root of a function changing sign on [low, high] (Brent's method; values are cached by the caller)."""
+    if low == high:
+        return low
+    return brentq(function, low, high, xtol=1e-9, rtol=1e-5, maxiter=100)
