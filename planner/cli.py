@@ -48,7 +48,7 @@ def build_parser() -> argparse.ArgumentParser:
     ev.add_argument("scenario", help="scenario file (.toml or .json)")
     ev.add_argument("--flow", help="volume flow, e.g. '40 m3/h' or '176 gpm' (plain number: m3/s); default: the scenario's")
     ev.add_argument("--inlet-temperature", help="e.g. '55 degC' (plain number: degC); default: the scenario's")
-    ev.add_argument("--step", type=float, default=10.0, help="march step [m] (default 10)")
+    ev.add_argument("--step", type=float, default=25.0, help="march step [m] (default 25)")
     ev.add_argument("--json", action="store_true", help="print JSON (SI units, keys documented in README)")
     ev.add_argument("--profiles", action="store_true", help="with --json: include the profiles along the line")
     ev.set_defaults(func=_evaluate)
@@ -61,7 +61,7 @@ def build_parser() -> argparse.ArgumentParser:
 def main(argv: list[str] | None = None) -> int:
     parser = build_parser()
     args = parser.parse_args(argv)
-    if getattr(args, "step", 10.0) is not None and not (0.1 <= getattr(args, "step", 10.0) <= 500.0):
+    if getattr(args, "step", 25.0) is not None and not (0.1 <= getattr(args, "step", 25.0) <= 500.0):
         print("error: --step must be between 0.1 m and 500 m", file=sys.stderr)
         return 2
     try:

@@ -33,7 +33,7 @@ from .tracing import Heater
 from .units import GRAVITY
 
 PI = math.pi
-DEFAULT_STEP_M = 10.0
+DEFAULT_STEP_M = 25.0
 REGIME_NAMES = {0: "laminar", 1: "transitional", 2: "turbulent"}
 HEATER_STATE_NAMES = {0: "off / untraced", 1: "holding setpoint", 2: "full output"}
 
@@ -155,6 +155,8 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
         t_wall_guess = t
         t_jacket = t_amb + 0.2 * (t - t_amb) if has_layers else t
         g_out = None
+        wall_drift = jacket_drift = 0.0
+        mu_wall, mu_wall_at = 1.0, -1.0
 
         slope_previous = None
         surf_at, r_surf = -1.0, 0.0       # cached surface resistance and the jacket temperature it is for
@@ -194,12 +196,21 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
 
                 cp = specific_heat(t_eval)
                 pr = cp * mu / conductivity(t_eval)
-                ratio = mu / viscosity(t_wall_guess) if newtonian else 1.0
+                if newtonian:
+                    if abs(t_wall_guess - mu_wall_at) > 0.05:
+                        mu_wall, mu_wall_at = viscosity(t_wall_guess), t_wall_guess
+                    ratio = mu / mu_wall
+                else:
+                    ratio = 1.0
                 nu = nu_internal(re, pr, d / max(x_eval, d), f, ratio)
                 h_in = nu * conductivity(t_eval) / d
                 g_in = 1.0 / (1.0 / (h_in * PI * d) + wall_r)
 
-                # outward path and heater: fixed point on the jacket temperature (warm-started)
+                # outward path and heater: fixed point on the jacket temperature, warm-started from
+                # the last evaluation extrapolated by its change (one pass usually settles it)
+                t_wall_guess += wall_drift
+                t_jacket += jacket_drift
+                wall_before, jacket_before = t_wall_guess, t_jacket
                 for _it in range(30):
                     if has_layers:
                         t_mean = t_wall_guess + t_jacket
@@ -219,8 +230,10 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
                     change = abs(new_jacket - t_jacket) + abs(wall.t_wall - t_wall_guess)
                     t_wall_guess = wall.t_wall
                     t_jacket = new_jacket if has_layers else 0.5 * (t_jacket + new_jacket)
-                    if change < 0.01:
+                    if change < 0.02:
                         break
+                wall_drift = t_wall_guess - wall_before if stage else 0.0
+                jacket_drift = t_jacket - jacket_before if stage else 0.0
 
                 c1 = wall.c1
                 g = g_in * (1.0 - c1)
@@ -250,18 +263,23 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
                 traced_len += dx
                 if wall.regime == 2 and heater.setpoint is not None and wall.t_wall < heater.setpoint - 0.05:
                     short_len += dx
-            mu_min = min(mu_min, mu)
-            mu_max = max(mu_max, mu)
+            if mu < mu_min:
+                mu_min = mu
+            if mu > mu_max:
+                mu_max = mu
             jacket_t = t_jacket if has_layers or buried else wall.t_wall
             if jacket_t > jacket_max:
                 jacket_max, jacket_at = jacket_t, x - 0.5 * dx
-            sheath = heater.sheath_temperature(wall.t_wall, wall.q_trace)
+            sheath = heater.sheath_temperature(wall.t_wall, wall.q_trace) if heater.active else wall.t_wall
             if sheath > sheath_max:
                 sheath_max, sheath_at = sheath, x - 0.5 * dx
             t = t_new
-            t_min = min(t_min, t)
-            t_max = max(t_max, t)
-            p_max = max(p_max, p)
+            if t < t_min:
+                t_min = t
+            elif t > t_max:
+                t_max = t
+            if p > p_max:
+                p_max = p
             if record:
                 node_x.append(x)
                 node_t.append(t)

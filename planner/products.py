@@ -52,6 +52,9 @@ class Product:
         self._law, self.fit = self._build_law(spec)
         self._kinematic = self._law.quantity == "kinematic"
         self._law_value = self._law.value
+        if not self._kinematic:
+            # bind the law directly: the march calls this ~10^5 times per plan
+            self.viscosity = self._law_value
 
     # -- construction ---------------------------------------------------------------------
     def _build_law(self, spec: ProductSpec):

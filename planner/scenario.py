@@ -25,7 +25,7 @@ SCHEMA_VERSION = 1
 
 # Quantity types with the limits a planner can defend; bounds in SI.
 Temperature = Quantity("temperature", gt=0.0, le=773.15, description="temperature")
-Length = Quantity("length", gt=0.0, le=50_000.0, description="length along the line")
+Length = Quantity("length", ge=0.01, le=50_000.0, description="length along the line")
 Elevation = Quantity("length", ge=-500.0, le=500.0, description="rise from segment inlet to outlet (negative: falls)")
 Thickness = Quantity("small_length", gt=0.0, le=0.5, description="thickness")
 Diameter = Quantity("small_length", gt=0.002, le=2.0, description="diameter")
@@ -33,7 +33,7 @@ Roughness = Quantity("small_length", ge=0.0, le=0.01, description="absolute roug
 Conductivity = Quantity("conductivity", gt=0.0, le=500.0, description="thermal conductivity")
 GaugePressure = Quantity("pressure", ge=-1.0e5, le=5.0e7, description="gauge pressure")
 Rating = Quantity("pressure", gt=0.0, le=5.0e7, description="pressure rating (gauge)")
-Flow = Quantity("volume_flow", gt=0.0, le=2.0, description="volumetric flow rate")
+Flow = Quantity("volume_flow", ge=1.0e-6, le=2.0, description="volumetric flow rate")
 WindSpeed = Quantity("speed", ge=0.0, le=60.0, description="wind speed")
 LinearPower = Quantity("linear_power", ge=0.0, le=2000.0, description="heater output per metre of pipe")
 LinearConductance = Quantity("linear_conductance", gt=0.0, le=1000.0, description="conductance per metre")

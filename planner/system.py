@@ -101,7 +101,7 @@ def build_pump(spec):
 
 
 class TransferSystem:
-    def __init__(self, scenario: Scenario, tracing=None, product: Product | None = None, step: float = 10.0):
+    def __init__(self, scenario: Scenario, tracing=None, product: Product | None = None, step: float = 25.0):
         missing = [name for name in ("pump", "source", "destination") if getattr(scenario, name) is None]
         if missing:
             from .errors import ScenarioError

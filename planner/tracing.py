@@ -22,7 +22,7 @@ Models:
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from typing import NamedTuple
 
 from .scenario import Tracing
 from .steam import saturation_temperature_gauge
@@ -34,8 +34,7 @@ STEAM_CONDUCTANCE_CEMENT = 6.0
 SELF_REGULATING_RATING_TEMPERATURE = 283.15  # output is rated at 10 degC pipe temperature
 
 
-@dataclass(frozen=True)
-class WallBalance:
+class WallBalance(NamedTuple):
     t_wall: float
     q_trace: float     # W per metre of pipe into the wall
     c1: float          # d t_wall / d t_bulk for the regime in force (for the exponential step)
@@ -74,6 +73,7 @@ class Heater:
         else:
             self.pieces = [(-1e9, 1e9, 0.0, 0.0)]
         self.active = self.kind != "none" and traced_fraction > 0.0
+        self._capacity_at_setpoint = self.capacity(self.setpoint) if self.setpoint is not None else 0.0
 
     def capacity(self, t_wall: float) -> float:
         """Most the heating can deliver at this wall temperature [W per metre of pipe]."""
@@ -91,7 +91,7 @@ class Heater:
             if passive_wall >= self.setpoint:
                 return WallBalance(passive_wall, 0.0, g_inner / g_sum, 0)
             need = g_inner * (self.setpoint - t_bulk) + g_outer * (self.setpoint - t_ambient)
-            if need <= self.capacity(self.setpoint):
+            if need <= self._capacity_at_setpoint:
                 return WallBalance(self.setpoint, need, 0.0, 1)
         # Full output: solve alpha - beta T = g_inner (T - t_bulk) + g_outer (T - t_ambient) per piece.
         rhs_const = g_inner * t_bulk + g_outer * t_ambient

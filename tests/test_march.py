@@ -7,6 +7,7 @@ import math
 import pytest
 
 from conftest import DEMO_FILES, base_scenario, newtonian_product
+from planner.march import DEFAULT_STEP_M
 from planner.model import evaluate, line_from_scenario
 from planner.scenario import load_scenario, scenario_from_dict
 from planner.units import GRAVITY
@@ -195,6 +196,6 @@ def test_grid_independence_on_every_demo(path):
     scenario = load_scenario(path)
     line = line_from_scenario(scenario)
     coarse = evaluate(scenario, line=line).summary
-    fine = evaluate(scenario, line=line, step=5.0).summary
+    fine = evaluate(scenario, line=line, step=DEFAULT_STEP_M / 2).summary
     assert abs(coarse.outlet_temperature_k - fine.outlet_temperature_k) < 0.05
     assert abs(coarse.pressure_drop_pa - fine.pressure_drop_pa) < 0.002 * abs(fine.pressure_drop_pa)

@@ -48,8 +48,8 @@ def _problems(data) -> dict[str, str]:
 
 
 @pytest.mark.parametrize("mutate, field, words", [
-    (lambda d: d["route"]["segments"][0].update(length=0), "route.segments[0].length", "greater than 0 m"),
-    (lambda d: d["route"]["segments"][0].update(length=-5), "route.segments[0].length", "greater than 0 m"),
+    (lambda d: d["route"]["segments"][0].update(length=0), "route.segments[0].length", "at least 0.01 m"),
+    (lambda d: d["route"]["segments"][0].update(length=-5), "route.segments[0].length", "at least 0.01 m"),
     (lambda d: d["route"]["segments"][0].update(nps=None, inside_diameter=0), "route.segments[0].inside_diameter", "greater than"),
     (lambda d: d["route"]["segments"][0].update(insulation=[{"conductivity": 0, "thickness": 50}]),
      "route.segments[0].insulation[0].conductivity", "greater than 0"),
