@@ -33,6 +33,20 @@ def _evaluate(args) -> int:
     return 0
 
 
+def _plan(args) -> int:
+    from .plan import make_plan
+    from .plan_report import plan_json, plan_text
+    from .scenario import load_scenario
+
+    scenario = load_scenario(args.scenario)
+    plan = make_plan(scenario)
+    if args.json:
+        print(json.dumps(plan_json(plan), indent=2, ensure_ascii=False))
+    else:
+        print(plan_text(plan))
+    return 0
+
+
 def _schema(args) -> int:
     from .scenario import json_schema
 
@@ -52,6 +66,11 @@ def build_parser() -> argparse.ArgumentParser:
     ev.add_argument("--json", action="store_true", help="print JSON (SI units, keys documented in README)")
     ev.add_argument("--profiles", action="store_true", help="with --json: include the profiles along the line")
     ev.set_defaults(func=_evaluate)
+
+    pl = sub.add_parser("plan", help="transfer plan: operating point, start-up, timeline, stop/restart, energy and cost")
+    pl.add_argument("scenario", help="scenario file with [pump], [source] and [destination]")
+    pl.add_argument("--json", action="store_true", help="print JSON (SI units, keys documented in README)")
+    pl.set_defaults(func=_plan)
 
     sc = sub.add_parser("schema", help="print the scenario JSON Schema")
     sc.set_defaults(func=_schema)

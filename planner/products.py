@@ -33,8 +33,12 @@ class Product:
     Herschel–Bulkley model; ``flow_index`` and ``yield_stress`` complete the model.
     """
 
-    def __init__(self, spec: ProductSpec):
+    def __init__(self, spec: ProductSpec, viscosity_factor: float = 1.0):
+        """``viscosity_factor`` scales the viscosity law (sensitivity studies: lab uncertainty)."""
+        if not viscosity_factor > 0.0:
+            raise ValueError(f"viscosity_factor must be greater than 0, got {viscosity_factor!r}")
         self.spec = spec
+        self.viscosity_factor = viscosity_factor
         self.name = spec.name
         self.rheology = spec.rheology
         self.flow_index = spec.flow_index
@@ -52,6 +56,9 @@ class Product:
         self._law, self.fit = self._build_law(spec)
         self._kinematic = self._law.quantity == "kinematic"
         self._law_value = self._law.value
+        if viscosity_factor != 1.0:
+            law_value = self._law.value
+            self._law_value = lambda t: viscosity_factor * law_value(t)
         if not self._kinematic:
             # bind the law directly: the march calls this ~10^5 times per plan
             self.viscosity = self._law_value

@@ -18,6 +18,7 @@ added to any of them.
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from dataclasses import dataclass, field
 
@@ -120,6 +121,7 @@ class TransferSystem:
         self.step = step
         self.evaluations = 0
         self._slopes: dict[str, float] = {}
+        self.plug = None  # (warm head Line, cold tail Line, cold temperature) while a cold plug is pushed out
         self._last_relief_flow: float | None = None
 
     def _warm_solve(self, kind: str, function, high: float, guess: float | None, ftol: float = 0.0) -> float | None:
@@ -187,8 +189,11 @@ class TransferSystem:
                   + velocity * velocity / (2.0 * GRAVITY))
         line = discharge_line or self.discharge_line
         t_discharge_in = t_pump if discharge_inlet_temperature is None else discharge_inlet_temperature
-        discharge = march(line, mass_flow / product.density(t_discharge_in), t_discharge_in, 0.0,
-                          step=self.step, record=record)
+        if self.plug is not None and discharge_line is None:
+            discharge = self._plug_march(mass_flow, t_pump)
+        else:
+            discharge = march(line, mass_flow / product.density(t_discharge_in), t_discharge_in, 0.0,
+                              step=self.step, record=record)
         ds = discharge.summary
         if ds.status != "ok" and not sets:
             sets, where = True, f"discharge line at {ds.sets_at_m:.0f} m"
@@ -197,6 +202,24 @@ class TransferSystem:
                             npsh_a, ds.outlet_temperature_k, suction_summary, ds, sets, where)
         point.discharge_result = discharge if record else None
         return point
+
+    def _plug_march(self, mass_flow: float, t_warm: float):
+        """Discharge line as a warm head (product from the pump) and a cold tail (the plug)."""
+        head_line, tail_line, t_cold = self.plug
+        density = self.product.density
+        tail = march(tail_line, mass_flow / density(t_cold), t_cold, 0.0, step=self.step, record=False)
+        if not head_line.segments:
+            return tail
+        head = march(head_line, mass_flow / density(t_warm), t_warm, 0.0, step=self.step, record=False)
+        h, t = head.summary, tail.summary
+        combined = dataclasses.replace(
+            t, inlet_temperature_k=h.inlet_temperature_k, pressure_drop_pa=h.pressure_drop_pa + t.pressure_drop_pa,
+            friction_drop_pa=h.friction_drop_pa + t.friction_drop_pa, fittings_drop_pa=h.fittings_drop_pa + t.fittings_drop_pa,
+            static_drop_pa=h.static_drop_pa + t.static_drop_pa, outlet_pressure_pa=-(h.pressure_drop_pa + t.pressure_drop_pa),
+            trace_power_w=h.trace_power_w + t.trace_power_w, heat_loss_w=h.heat_loss_w + t.heat_loss_w,
+            status="ok" if h.status == "ok" and t.status == "ok" else "product_sets",
+            sets_at_m=h.sets_at_m if h.status != "ok" else (None if t.sets_at_m is None else t.sets_at_m + head_line.length))
+        return type(tail)(combined, {}, {})
 
     def _differential(self, flow: float, state: SystemState, cache: dict) -> float:
         key = round(flow, 12)

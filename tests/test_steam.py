@@ -107,3 +107,15 @@ def test_gauge_vacuum_below_line_raises():
     # -101 kPa gauge leaves 325 Pa absolute, below the saturation line's start
     with pytest.raises(ValueError, match="pressure"):
         saturation_temperature_gauge(-101e3)
+
+
+@pytest.mark.parametrize("celsius", [100, 120, 148, 170, 184, 200, 230, 250])
+def test_latent_heat_against_iapws97(celsius):
+    # IAPWS-IF97 h'' - h' via iapws 1.5.5 (test-only reference); Watson form, within 0.6 %
+    from iapws import IAPWS97
+
+    from planner.steam import latent_heat
+
+    t = celsius + 273.15
+    reference = (IAPWS97(T=t, x=1).h - IAPWS97(T=t, x=0).h) * 1e3
+    assert latent_heat(t) == pytest.approx(reference, rel=0.006)

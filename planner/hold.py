@@ -1,0 +1,116 @@
+"""Stop and restart: how long the line may stand still, with its tracing on and with it failed.
+
+After a stop each segment's stagnant contents cool from their running temperature (lumped metre,
+``transients.evolve``). The line can no longer be restarted once any segment passes its limit: the
+product's no-flow temperature or, if set, the temperature at which it reaches the limiting viscosity.
+A product with a yield stress that has gelled at rest needs a restart pressure of about 4 tau_y L / D
+over the gelled length (force balance on the plug, ``rheology.gelled_restart_pressure``).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from .rheology import gelled_restart_pressure
+from .system import TransferSystem
+from .transients import evolve
+
+HOLD_HORIZON_S = 14 * 86400.0
+
+
+@dataclass
+class HoldSegment:
+    line: str
+    segment: str
+    start_temperature_k: float
+    limit_temperature_k: float
+    time_to_limit_traced_s: float | None   # None: holds (never reaches the limit within 14 days)
+    time_to_limit_failed_s: float | None
+    after_stop_traced_k: float
+    after_stop_failed_k: float
+
+
+@dataclass
+class Hold:
+    limit_temperature_k: float
+    limit_reason: str
+    stop_duration_s: float
+    time_to_limit_traced_s: float | None
+    time_to_limit_failed_s: float | None
+    first_to_set_traced: str
+    first_to_set_failed: str
+    restart_after_stop_traced: bool
+    restart_after_stop_failed: bool
+    gelled_restart_pressure_pa: float
+    pump_pressure_limit_pa: float | None
+    segments: list[HoldSegment] = field(default_factory=list)
+
+
+def limit_temperature(system: TransferSystem) -> tuple[float, str]:
+    product = system.product
+    limit, reason = product.no_flow_temperature, "no-flow temperature"
+    mu_limit = system.scenario.schedule.limiting_viscosity
+    if mu_limit is not None:
+        low, high = 150.0, product.max_temperature + 150.0
+        if product.viscosity(high) < mu_limit < product.viscosity(low):
+            for _ in range(80):  # bisection: viscosity falls with temperature
+                mid = 0.5 * (low + high)
+                if product.viscosity(mid) > mu_limit:
+                    low = mid
+                else:
+                    high = mid
+            if high > limit:
+                limit, reason = high, f"limiting viscosity {mu_limit * 1e3:.0f} mPa·s"
+    return limit, reason
+
+
+def hold_analysis(system: TransferSystem, running_temperatures: dict[tuple[str, int], float]) -> Hold:
+    """``running_temperatures`` maps (line name, segment index) to the contents' temperature at the stop."""
+    limit, reason = limit_temperature(system)
+    stop = system.scenario.schedule.stop_duration
+    product = system.product
+    segments = []
+    gelled = 0.0
+    for name, line in (("suction", system.suction_line), ("discharge", system.discharge_line)):
+        if line is None:
+            continue
+        for seg, heater in zip(line.segments, line.heaters):
+            t0 = running_temperatures.get((name, seg.index), system.source.temperature)
+            results = {}
+            for on in (True, False):
+                if t0 <= limit:
+                    results[on] = (0.0, t0)
+                    continue
+                to_limit = evolve(seg, heater, product, t0, HOLD_HORIZON_S, on, target=limit, rising=False)
+                after = evolve(seg, heater, product, t0, stop, on)
+                results[on] = (to_limit.time_s if to_limit.reached else None, after.temperature_at_end_k)
+            segments.append(HoldSegment(name, seg.name, t0, limit, results[True][0], results[False][0],
+                                        results[True][1], results[False][1]))
+            if product.yield_stress > 0.0:
+                gelled += gelled_restart_pressure(product.yield_stress, seg.length, seg.inside_diameter)
+
+    def first(key):
+        timed = [(getattr(s, key), s) for s in segments if getattr(s, key) is not None]
+        if not timed:
+            return None, "none within 14 days"
+        t, s = min(timed, key=lambda item: item[0])
+        return t, f"{s.line}: {s.segment}"
+
+    t_on, who_on = first("time_to_limit_traced_s")
+    t_off, who_off = first("time_to_limit_failed_s")
+    spec = system.pump_spec
+    if spec.kind == "positive_displacement":
+        pump_limit = spec.relief_setting
+    else:
+        rho = product.density(system.source.temperature)
+        nu = product.kinematic_viscosity(system.source.temperature)
+        pump_limit = system.pump.shut_off_head(nu) * rho * 9.80665
+    return Hold(limit, reason, stop, t_on, t_off, who_on, who_off,
+                all(s.after_stop_traced_k > limit for s in segments),
+                all(s.after_stop_failed_k > limit for s in segments),
+                gelled, pump_limit, segments)
+
+
+def hours(value: float | None) -> str:
+    return "holds" if value is None else f"{value / 3600:.1f} h"
+

@@ -1,0 +1,197 @@
+"""Starting a transfer with cold product standing in the line: pre-warm it, or push it out.
+
+Pre-warm: each traced segment's stagnant metre (product + metal) is brought from the line's start
+temperature to the target by its tracing (``transients.evolve``); the line is ready when the slowest
+traced segment is. Untraced segments stay cold and are listed.
+
+Push cold: the pump starts against the line full of cold product. At the start the whole route
+(suction and discharge) is cold; then a warm front advances with the flow (plug flow) through the
+discharge line, the pressure falling as cold product leaves. The front is stepped through the line's
+volume; at each position the discharge line is marched as a warm head and a cold tail.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+from dataclasses import dataclass, field
+
+from .march import Line, march
+from .route import LineSegment
+from .system import SystemState, TransferSystem
+from .transients import evolve
+
+PREWARM_HORIZON_S = 7 * 86400.0
+PREWARM_MARGIN_K = 1.0  # "ready" within this of the target (the approach is asymptotic)
+
+
+@dataclass
+class PrewarmSegment:
+    line: str
+    segment: str
+    traced: bool
+    reached: bool
+    time_s: float | None
+    settles_at_k: float
+    energy_j: float
+
+
+@dataclass
+class Prewarm:
+    target_k: float
+    start_temperature_k: float
+    possible: bool
+    time_s: float | None
+    energy_j: float
+    segments: list[PrewarmSegment] = field(default_factory=list)
+    untraced: list[str] = field(default_factory=list)
+    message: str = ""
+
+
+def prewarm_target(system: TransferSystem) -> float | None:
+    tracing = system.tracing
+    if tracing.kind == "none":
+        return None
+    if tracing.setpoint is not None:
+        return tracing.setpoint - PREWARM_MARGIN_K
+    heater = system.discharge_line.heaters[0]
+    steam = heater.steam_temperature or math.inf
+    return min(system.source.temperature, steam - 5.0) - PREWARM_MARGIN_K
+
+
+def prewarm(system: TransferSystem, start_temperature: float) -> Prewarm:
+    target = prewarm_target(system)
+    if target is None:
+        return Prewarm(start_temperature, start_temperature, False, None, 0.0,
+                       message="the line has no tracing: it cannot be pre-warmed")
+    result = Prewarm(target, start_temperature, True, 0.0, 0.0)
+    lines = [("suction", system.suction_line), ("discharge", system.discharge_line)]
+    for name, line in lines:
+        if line is None:
+            continue
+        for seg, heater in zip(line.segments, line.heaters):
+            if not heater.active:
+                result.untraced.append(f"{name}: {seg.name}")
+                result.segments.append(PrewarmSegment(name, seg.name, False, False, None, start_temperature, 0.0))
+                continue
+            if start_temperature >= target:
+                result.segments.append(PrewarmSegment(name, seg.name, True, True, 0.0, start_temperature, 0.0))
+                continue
+            r = evolve(seg, heater, line.product, start_temperature, PREWARM_HORIZON_S, True, target=target, rising=True)
+            result.segments.append(PrewarmSegment(name, seg.name, True, r.reached, r.time_s, r.settles_at_k,
+                                                  r.energy_j_per_m * seg.length))
+            result.energy_j += r.energy_j_per_m * seg.length
+            if not r.reached:
+                result.possible = False
+            else:
+                result.time_s = max(result.time_s, r.time_s)
+    if not result.possible:
+        short = [s for s in result.segments if s.traced and not s.reached]
+        worst = min(short, key=lambda s: s.settles_at_k)
+        result.time_s = None
+        result.message = (f"tracing cannot bring {worst.segment} to {target - 273.15 + PREWARM_MARGIN_K:.0f} °C: "
+                          f"it levels off near {worst.settles_at_k - 273.15:.0f} °C")
+    else:
+        result.message = f"line ready after {result.time_s / 3600:.1f} h of pre-warming"
+        if result.untraced:
+            result.message += f"; untraced parts stay cold: {', '.join(result.untraced)}"
+    return result
+
+
+# -- push the cold plug out ------------------------------------------------------------------
+
+
+def split_segments(segments: list[LineSegment], x: float) -> tuple[list[LineSegment], list[LineSegment]]:
+    """Split a route at distance ``x``: (segments before, segments after), cutting one segment
+    in two with its fittings and rise shared in proportion to length."""
+    head, tail = [], []
+    for seg in segments:
+        if seg.x_end <= x + 1e-9:
+            head.append(seg)
+        elif seg.x_start >= x - 1e-9:
+            tail.append(seg)
+        else:
+            share = (x - seg.x_start) / seg.length
+            for part, fraction, x0 in ((head, share, seg.x_start), (tail, 1.0 - share, x)):
+                part.append(dataclasses.replace(
+                    seg, x_start=x0, length=seg.length * fraction, fitting_a=seg.fitting_a * fraction,
+                    fitting_b=seg.fitting_b * fraction, elevation_change=seg.elevation_change * fraction))
+    return head, tail
+
+
+@dataclass
+class PushCold:
+    possible: bool
+    message: str
+    start_temperature_k: float
+    initial_flow_m3_s: float
+    initial_status: str
+    peak_discharge_pressure_pa: float
+    peak_pump_differential_pa: float
+    initial_npsh_available_m: float
+    front_time_s: float | None     # until warm product reaches the destination
+    relief_lifts: bool
+    rows: dict = field(default_factory=dict)   # front position steps: volume_fraction, flow, pressure, time
+
+
+def push_cold(system: TransferSystem, start_temperature: float, positions: int = 8) -> PushCold:
+    product = system.product
+    state0 = SystemState(start_temperature, system.source.initial_volume)
+    if start_temperature <= product.no_flow_temperature:
+        return PushCold(False, f"the line's contents at {start_temperature - 273.15:.1f} °C are below the no-flow "
+                        f"temperature {product.no_flow_temperature - 273.15:.1f} °C: they will not move; pre-warm first",
+                        start_temperature, 0.0, "no_flow", math.nan, math.nan, math.nan, None, False)
+    first = system.operating_point(state0)
+    if not first.moving:
+        return PushCold(False, "cold start: " + first.message, start_temperature, 0.0, first.status,
+                        math.nan, math.nan, math.nan, None, False)
+    warm_state = SystemState(system.source.temperature, system.source.initial_volume)
+    segments = system.discharge_line.segments
+    length = sum(s.length for s in segments)
+    volume = sum(s.area * s.length for s in segments)
+    suction_volume = sum(s.area * s.length for s in system.suction_line.segments) if system.suction_line else 0.0
+    rows = {"volume_fraction": [], "flow_m3_s": [], "discharge_pressure_pa": [], "pump_differential_pa": [],
+            "time_s": [], "status": []}
+    time = suction_volume / first.flow
+    peak_p, peak_dp = first.point.discharge_pressure, first.point.pump_differential
+    relief = first.status == "relief_lifting"
+    rows_append = [(0.0, first.flow, first.point.discharge_pressure, first.point.pump_differential, 0.0, first.status)]
+    guess = first.flow
+    original = system.discharge_line
+    try:
+        for k in range(1, positions):
+            fraction = k / positions
+            # plug flow: the front position where the displaced volume equals fraction * volume
+            target_volume, x, acc = fraction * volume, 0.0, 0.0
+            for seg in segments:
+                v = seg.area * seg.length
+                if acc + v >= target_volume:
+                    x = seg.x_start + (target_volume - acc) / seg.area
+                    break
+                acc += v
+            head, tail = split_segments(segments, x)
+            system.plug = (Line(head, product, system.tracing), Line(tail, product, system.tracing), start_temperature)
+            op = system.operating_point(warm_state, guess=guess)
+            if not op.moving:
+                return PushCold(False, f"with the front at {x:.0f} m: " + op.message, start_temperature, first.flow,
+                                first.status, peak_p, peak_dp, first.point.npsh_available, None, relief, {})
+            previous_fraction, previous_flow = rows_append[-1][0], rows_append[-1][1]
+            time += (fraction - previous_fraction) * volume / previous_flow
+            rows_append.append((fraction, op.flow, op.point.discharge_pressure, op.point.pump_differential, time, op.status))
+            peak_p = max(peak_p, op.point.discharge_pressure)
+            peak_dp = max(peak_dp, op.point.pump_differential)
+            relief = relief or op.status == "relief_lifting"
+            guess = op.flow
+    finally:
+        system.plug = None
+        system.discharge_line = original
+    time += (1.0 - rows_append[-1][0]) * volume / rows_append[-1][1]
+    for row in rows_append:
+        for key, value in zip(rows, row):
+            rows[key].append(value)
+    message = (f"cold start at {first.flow * 3600:.1f} m³/h and {first.point.discharge_pressure / 1e5:.2f} bar; "
+               f"warm product reaches the destination after {time / 3600:.2f} h")
+    if relief:
+        message += " (relief valve lifts during the start)"
+    return PushCold(True, message, start_temperature, first.flow, first.status, peak_p, peak_dp,
+                    first.point.npsh_available, time, relief, rows)

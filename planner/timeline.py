@@ -1,0 +1,104 @@
+"""The transfer timeline: move the volume in equal increments, recomputing the operating point.
+
+Each increment dV takes dt = dV / Q with Q the operating point at the increment's start (left
+Riemann sum; exact for a constant flow, first order otherwise, so at least 50 increments are used).
+Meanwhile the source cools (lumped vessel balance, ``vessels.cool_contents``) and its level falls,
+the destination level rises, and tracing, pump and vessel heating draw power.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .system import SystemState, TransferSystem
+from .vessels import cool_contents, level_from_volume, wetted_area
+
+
+@dataclass
+class Timeline:
+    arrays: dict                 # per increment start: time_s, flow_m3_s, ...
+    total_time_s: float
+    moved_m3: float
+    completed: bool
+    stop_reason: str
+    statuses: list[str]
+    flags: set[str] = field(default_factory=set)
+    trace_energy_j: float = 0.0
+    pump_energy_j: float = 0.0          # electrical, at the motor terminals
+    vessel_heating_energy_j: float = 0.0
+    operating_points: list = field(default_factory=list, repr=False)
+    evaluations: int = 0
+
+
+def run_transfer(system: TransferSystem, steps: int | None = None, first_guess: float | None = None) -> Timeline:
+    scenario = system.scenario
+    source = scenario.source
+    product = system.product
+    steps = steps or scenario.schedule.timeline_steps
+    increment = source.volume_to_move / steps
+    state = SystemState(source.temperature, source.initial_volume, 0.0)
+    ambient = scenario.site.ambient_temperature
+    motor_efficiency = scenario.pump.motor_efficiency
+    rows = {k: [] for k in ("time_s", "moved_m3", "flow_m3_s", "source_temperature_k", "pump_inlet_temperature_k",
+                            "outlet_temperature_k", "suction_pressure_pa", "discharge_pressure_pa",
+                            "pump_differential_pa", "shaft_power_w", "npsh_available_m", "trace_power_w",
+                            "source_level_m", "destination_level_m", "max_line_pressure_pa")}
+    statuses: list[str] = []
+    flags: set[str] = set()
+    time = 0.0
+    moved = 0.0
+    trace_j = pump_j = vessel_j = 0.0
+    guess = first_guess
+    completed, reason = True, ""
+    points = []
+    evaluations_before = system.evaluations
+    for _ in range(steps):
+        op = system.operating_point(state, guess=guess)
+        points.append(op)
+        if not op.moving:
+            completed, reason = False, op.message
+            break
+        flow = op.flow
+        point = op.point
+        if "suction_starved" in op.flags and op.npsh_limited_flow:
+            # the operator throttles to the rate the suction can feed
+            flow = op.npsh_limited_flow
+            point = system.at_flow(flow, state)
+        flags.update(op.flags)
+        trace_power = point.discharge.trace_power_w + (point.suction.trace_power_w if point.suction else 0.0)
+        dt = increment / flow
+        rows["time_s"].append(time)
+        rows["moved_m3"].append(moved)
+        rows["flow_m3_s"].append(flow)
+        rows["source_temperature_k"].append(state.source_temperature)
+        rows["pump_inlet_temperature_k"].append(point.pump_inlet_temperature)
+        rows["outlet_temperature_k"].append(point.outlet_temperature)
+        rows["suction_pressure_pa"].append(point.suction_pressure)
+        rows["discharge_pressure_pa"].append(point.discharge_pressure)
+        rows["pump_differential_pa"].append(point.pump_differential)
+        rows["shaft_power_w"].append(op.shaft_power)
+        rows["npsh_available_m"].append(point.npsh_available)
+        rows["trace_power_w"].append(trace_power)
+        rows["source_level_m"].append(level_from_volume(source, state.source_volume))
+        rows["destination_level_m"].append(system.destination.initial_level + state.destination_volume_added / (
+            np.pi * system.destination.diameter ** 2 / 4.0))
+        rows["max_line_pressure_pa"].append(point.discharge_pressure)
+        statuses.append(op.status)
+        trace_j += trace_power * dt
+        pump_j += op.shaft_power / motor_efficiency * dt
+        vessel_j += source.heating_power * dt
+        # the source cools (or is heated) over the increment, then gives up dV
+        mass = product.density(state.source_temperature) * state.source_volume
+        ua = source.heat_loss_coefficient * wetted_area(source, state.source_volume)
+        state = SystemState(
+            cool_contents(state.source_temperature, mass, product.specific_heat(state.source_temperature), ua,
+                          ambient, source.heating_power, dt),
+            max(state.source_volume - increment, 0.0), state.destination_volume_added + increment)
+        time += dt
+        moved += increment
+        guess = op.flow
+    arrays = {k: np.array(v) for k, v in rows.items()}
+    return Timeline(arrays, time, moved, completed, reason, statuses, flags, trace_j, pump_j, vessel_j, points,
+                    system.evaluations - evaluations_before)
