@@ -177,14 +177,49 @@ def case_steady_march_1km(args) -> dict:
     return figures
 
 
-# Places for the lead's later cases, e.g.
-#
-# @register("transfer_plan", "full transfer plan: flow/temperature search over many marches")
-# def case_transfer_plan(args) -> dict: ...
-#
-# @register("setpoint_comparison", "marches at a range of thermostat setpoints")
-# def case_setpoint_comparison(args) -> dict: ...
+def polyol_plan_scenario(hours: float = 4.0):
+    """The 1000 m polyol line with a volume that takes about ``hours`` to move."""
+    from planner.plan import make_plan  # noqa: F401  (import cost outside the timing)
+    from planner.scenario import scenario_to_dict
 
+    scenario = polyol_1km_scenario()
+    data = scenario_to_dict(scenario)
+    data["source"]["volume_to_move"] = 31.0 * hours   # the start flow is about 31 m3/h
+    data["schedule"]["timeline_steps"] = 60
+    return scenario_from_dict(data)
+
+
+@register("transfer_plan", "full plan: 4 h transfer, 60 timeline steps, 1000 m route + suction, start-up, hold")
+def case_transfer_plan(args) -> dict:
+    from planner.plan import make_plan
+
+    scenario = polyol_plan_scenario()
+    line = line_from_scenario(scenario)
+    op = scenario.operation
+
+    def one_march():
+        return march(line, op.flow, op.inlet_temperature, op.inlet_pressure)
+
+    t_march, _ = _time_best(one_march, 50)
+    t_plan, plan = _time_best(lambda: make_plan(scenario), max(3, args.baseline_repeats))
+    figures = {
+        "plan_seconds": t_plan, "march_seconds": t_march, "plan_in_marches": t_plan / t_march,
+        "transfer_hours": plan.timeline.total_time_s / 3600.0, "timeline_steps": len(plan.timeline.statuses),
+        "operating_point_evaluations": plan.timeline.evaluations,
+        "target": "well under 1 s",
+        "report_lines": [
+            f"   full plan        {t_plan * 1e3:10.1f} ms (best)   = {t_plan / t_march:.0f} steady marches of this run "
+            f"({t_march * 1e3:.2f} ms each)",
+            f"   transfer {plan.timeline.total_time_s / 3600:.2f} h in {len(plan.timeline.statuses)} steps, "
+            f"{plan.timeline.evaluations} system evaluations (suction + discharge march each)",
+        ],
+    }
+    if args.profile:
+        figures["fast_profile"] = _profile(lambda: make_plan(scenario))
+    return figures
+
+
+# A place for the setpoint comparison case (issue: findings and comparison).
 
 # -- report ------------------------------------------------------------------------------------------
 
@@ -208,6 +243,7 @@ def _format_case(name: str, description: str, fig: dict) -> str:
     if "reference" in fig:
         lines.append(f"   (reference: {fig['reference']}; tolerance {TOLERANCE_TEMPERATURE_K} K, "
                      f"{TOLERANCE_PRESSURE_DROP_PCT} %)")
+    lines.extend(fig.get("report_lines", []))
     if "fast_profile" in fig:
         lines.append(fig["fast_profile"])
     return "\n".join(lines)
