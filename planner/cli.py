@@ -47,6 +47,36 @@ def _plan(args) -> int:
     return 0
 
 
+def _compare(args) -> int:
+    from .compare import compare, comparison_json, comparison_table, parse_range, shutdown_pool
+    from .scenario import load_scenario
+
+    scenario = load_scenario(args.scenario)
+    choices = [("setpoint", args.setpoints), ("steam_pressure", args.steam_pressures),
+               ("pump_speed", args.pump_speeds), ("flow_limit", args.flow_limits)]
+    given = [(lever, text) for lever, text in choices if text]
+    if len(given) != 1:
+        raise ValueError("give exactly one of --setpoints, --steam-pressures, --pump-speeds, --flow-limits")
+    lever, text = given[0]
+    values = parse_range(text)
+
+    def progress(done, total):
+        if not args.json and sys.stderr.isatty():
+            print(f"\r  {done}/{total} plans", end="", file=sys.stderr, flush=True)
+
+    try:
+        result = compare(scenario, lever, values, progress=progress, sensitivity=args.sensitivity,
+                         ambient_shift=args.ambient_shift, viscosity_uncertainty=args.viscosity_uncertainty / 100.0)
+    finally:
+        shutdown_pool()
+    if args.json:
+        print(json.dumps(comparison_json(result), indent=2, ensure_ascii=False))
+    else:
+        print(scenario.name)
+        print(comparison_table(result))
+    return 0
+
+
 def _schema(args) -> int:
     from .scenario import json_schema
 
@@ -71,6 +101,18 @@ def build_parser() -> argparse.ArgumentParser:
     pl.add_argument("scenario", help="scenario file with [pump], [source] and [destination]")
     pl.add_argument("--json", action="store_true", help="print JSON (SI units, keys documented in README)")
     pl.set_defaults(func=_plan)
+
+    cp = sub.add_parser("compare", help="compare setpoints (or steam pressures, pump speeds, flow limits); recommend one")
+    cp.add_argument("scenario", help="scenario file with [pump], [source] and [destination]")
+    cp.add_argument("--setpoints", help="trace setpoints in °C: START:STOP:STEP or a list, e.g. 40:70:5")
+    cp.add_argument("--steam-pressures", help="steam pressures in bar(g), e.g. 2:8:1")
+    cp.add_argument("--pump-speeds", help="pump speeds in rpm, e.g. 100:200:20")
+    cp.add_argument("--flow-limits", help="flow limits in m³/h, e.g. 10:40:5")
+    cp.add_argument("--sensitivity", action="store_true", help="also rerun with the ambient shifted and the viscosity scaled")
+    cp.add_argument("--ambient-shift", type=float, default=10.0, help="sensitivity: ambient shift in K (default 10)")
+    cp.add_argument("--viscosity-uncertainty", type=float, default=20.0, help="sensitivity: viscosity ± percent (default 20)")
+    cp.add_argument("--json", action="store_true", help="print JSON")
+    cp.set_defaults(func=_compare)
 
     sc = sub.add_parser("schema", help="print the scenario JSON Schema")
     sc.set_defaults(func=_schema)

@@ -41,6 +41,16 @@ class Plan:
     costs: dict
     total_time_s: float | None
     viscosity_factor: float = 1.0
+    suction_profile: MarchResult | None = None
+    system: TransferSystem | None = None
+    after_prewarm: PushCold | None = None   # pushing out the pre-warmed (but cooler) contents
+
+    @property
+    def startup_push(self) -> PushCold | None:
+        """The push-out that starts the transfer: of the cold contents, or of the pre-warmed ones."""
+        if self.start_mode == "push_cold":
+            return self.push_cold if self.push_cold.possible else None
+        return self.after_prewarm if self.after_prewarm is not None and self.after_prewarm.possible else None
 
     @property
     def ok(self) -> bool:
@@ -76,7 +86,10 @@ def with_changes(scenario: Scenario, setpoint: float | None = None, steam_pressu
     return scenario_from_dict(data)
 
 
-def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | None = None) -> Plan:
+def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | None = None,
+              both_startups: bool = True) -> Plan:
+    """The whole plan.  ``both_startups=False`` works out only the scenario's chosen start-up mode
+    (comparisons); the other option is then marked as not evaluated."""
     product = Product(scenario.product, viscosity_factor=viscosity_factor)
     system = TransferSystem(scenario, product=product)
     source = scenario.source
@@ -86,20 +99,35 @@ def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | No
             f"temperature {product.no_flow_temperature - 273.15:.1f} °C: heat the source before transfer")
     state = SystemState(source.temperature, source.initial_volume)
     start = system.operating_point(state)
-    start_profile = None
+    start_profile = suction_profile = None
     running: dict[tuple[str, int], float] = {}
     if start.moving:
         point = system.at_flow(start.flow, state, record=True)
         start_profile = point.discharge_result
         _running_temperatures(system, start_profile, point, running)
+        if system.suction_line is not None:
+            from .march import march
+
+            suction_profile = march(system.suction_line, start.flow, source.temperature,
+                                    system.source_pressure(state), step=system.step)
     timeline = run_transfer(system, steps=steps, first_guess=start.flow if start.moving else None)
     design_ambient = scenario.site.design_ambient_temperature or scenario.site.ambient_temperature
     line_start = scenario.schedule.line_start_temperature or design_ambient
-    warm = prewarm(system, line_start)
-    cold = push_cold(system, line_start)
     mode = scenario.schedule.start_mode
+    warm = prewarm(system, line_start) if both_startups or mode == "prewarm" else \
+        Prewarm(line_start, line_start, False, None, 0.0, message="not evaluated")
+    cold = push_cold(system, line_start) if both_startups or mode == "push_cold" else \
+        PushCold(False, "not evaluated", line_start, 0.0, "", math.nan, math.nan, math.nan, None, False)
+    after_prewarm = None
     if mode == "prewarm":
         startup_time = warm.time_s
+        if warm.possible and start.moving and warm.target_k < source.temperature:
+            # after pre-warming, the line's contents are at the pre-warm target, cooler than the
+            # product: the transfer starts by pushing them out
+            after_prewarm = push_cold(system, warm.target_k)
+            if after_prewarm.possible:
+                volume = sum(s.area * s.length for s in system.discharge_line.segments)
+                startup_time += max(0.0, after_prewarm.front_time_s - volume / start.flow)
     else:
         if cold.possible and start.moving and system.discharge_line is not None:
             volume = sum(s.area * s.length for s in system.discharge_line.segments)
@@ -110,7 +138,7 @@ def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | No
     energy, costs = _energy_and_costs(scenario, system, timeline, warm if mode == "prewarm" else None, startup_time)
     total = None if startup_time is None or not timeline.completed else startup_time + timeline.total_time_s
     return Plan(scenario, start, start_profile, timeline, warm, cold, mode, startup_time, line_start, hold,
-                energy, costs, total, viscosity_factor)
+                energy, costs, total, viscosity_factor, suction_profile, system, after_prewarm)
 
 
 def _running_temperatures(system, profile, point, running):

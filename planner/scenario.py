@@ -428,6 +428,17 @@ class Schedule(_Model):
     timeline_steps: int = Field(60, ge=10, le=1000)
 
 
+class Limits(_Model):
+    """Thresholds of the checks; defaults are common practice and can be set per site."""
+
+    touch_temperature: Temperature = Field(333.15, description="hottest metal jacket a person may touch (60 degC: common practice, ASTM C1055 5 s contact basis)")
+    max_velocity: Quantity("speed", gt=0.0, le=20.0, description="highest sensible line velocity") = 3.0
+    min_velocity: Quantity("speed", ge=0.0, le=5.0, description="lowest sensible line velocity") = 0.05
+    npsh_margin: Quantity("length", ge=0.0, le=20.0, description="NPSH margin wanted above the pump's requirement") = 0.6
+    flash_point_margin: Quantity("temperature_difference", ge=0.0, le=100.0, description="keep the product this far below its flash point") = 10.0
+    poor_film_coefficient: Quantity("heat_transfer_coefficient", ge=0.0, le=1000.0, description="inner film coefficient below which laminar heat transfer counts as poor") = 20.0
+
+
 class Scenario(_Model):
     schema_version: int = SCHEMA_VERSION
     name: str = Field(min_length=1, max_length=160)
@@ -443,6 +454,7 @@ class Scenario(_Model):
     destination: Optional[Destination] = None
     costs: Costs = Field(default_factory=Costs)
     schedule: Schedule = Field(default_factory=Schedule)
+    limits: Limits = Field(default_factory=Limits)
 
     @field_validator("schema_version")
     @classmethod

@@ -50,6 +50,7 @@ class SystemPoint:
     discharge: MarchSummary
     sets: bool                   # product falls below its no-flow temperature somewhere
     where: str = ""
+    discharge_result: object = field(default=None, repr=False)  # the recorded MarchResult, when asked for
 
     @property
     def line_pressure_drop(self) -> float:
@@ -132,6 +133,8 @@ class TransferSystem:
             return None
         q0, f0 = guess, function(guess)
         slope = self._slopes.get(kind)
+        if slope and abs(f0 / slope) <= 2e-5 * q0:
+            return q0  # the guess (extrapolated by the caller) already satisfies the tolerance
         q1 = q0 - f0 / slope if slope else q0 * 0.99
         for _ in range(8):
             if not high * MIN_FLOW_FRACTION < q1 <= high:

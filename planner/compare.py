@@ -1,0 +1,254 @@
+"""Compare setpoints (or steam pressures, pump speeds, flow limits) and recommend one.
+
+Each row is a full plan at one value of the lever: transfer time, energy, cost, peak pressure,
+hottest jacket, findings by severity.  The recommendation is the row with the lowest total cost
+(energy + pump + demurrage) among the rows with no stop-level finding, with the reason in words and
+the runner-up.  Sensitivity: the same comparison with the ambient shifted and with the viscosity
+scaled by plus or minus a percentage, to show how the choice moves.
+
+Rows run in parallel over the machine's cores when there are enough of them to pay for it: a
+persistent pool of worker processes forked from a server process that has the planner loaded.
+"""
+
+from __future__ import annotations
+
+import math
+import multiprocessing
+import os
+from concurrent.futures import ProcessPoolExecutor, as_completed
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .errors import PlannerError
+from .findings import SEVERITY_RANK, assess, count_by_severity
+from .plan import make_plan, with_changes
+from .scenario import Scenario, scenario_from_dict, scenario_to_dict
+
+LEVERS = {
+    # lever: (with_changes keyword, display unit, to SI)
+    "setpoint": ("setpoint", "°C", lambda v: v + 273.15),
+    "steam_pressure": ("steam_pressure", "bar(g)", lambda v: v * 1e5),
+    "pump_speed": ("pump_speed", "rpm", lambda v: v / 60.0),
+    "flow_limit": ("flow_limit", "m³/h", lambda v: v / 3600.0),
+}
+PARALLEL_MIN_ROWS = 4
+
+
+@dataclass
+class Comparison:
+    lever: str
+    unit: str
+    values: list[float]
+    rows: list[dict]
+    recommended: int | None
+    runner_up: int | None
+    reason: str
+    sensitivity: dict = field(default_factory=dict)
+
+
+def parse_range(text: str) -> list[float]:
+    """'40:70:5' -> [40, 45, ..., 70]; '40,50,65' -> [40, 50, 65] (display units)."""
+    text = text.strip()
+    try:
+        if ":" in text:
+            parts = [float(p) for p in text.split(":")]
+            if len(parts) != 3 or parts[2] <= 0 or parts[1] < parts[0]:
+                raise ValueError
+            start, stop, step = parts
+            count = int(math.floor((stop - start) / step + 1e-9)) + 1
+            if count > 101:
+                raise ValueError
+            return [round(start + i * step, 10) for i in range(count)]
+        values = [float(p) for p in text.split(",") if p.strip()]
+        if not values:
+            raise ValueError
+        return values
+    except ValueError:
+        raise ValueError(f"cannot read the range {text!r}: give START:STOP:STEP (e.g. 40:70:5, at most 101 "
+                         f"values) or a list 40,50,65") from None
+
+
+def _row(scenario_data: dict, lever: str, value: float, viscosity_factor: float, ambient_shift: float) -> dict:
+    """One comparison row (runs in a worker process: plain data in and out)."""
+    keyword, unit, to_si = LEVERS[lever]
+    row = {"value": value, "unit": unit, "ok": False}
+    try:
+        scenario = scenario_from_dict(scenario_data)
+        changed = with_changes(scenario, ambient_shift=ambient_shift, **{keyword: to_si(value)})
+        plan = make_plan(changed, viscosity_factor=viscosity_factor, both_startups=False)
+        findings = assess(plan)
+    except (PlannerError, ValueError) as exc:
+        row.update(error=str(exc), has_stop=True, counts={"stop": 1}, findings=[], total_cost=math.inf)
+        return row
+    t = plan.timeline.arrays
+    jackets = [plan.start_profile.summary.max_jacket_temperature_k] if plan.start_profile else []
+    sheaths = [plan.start_profile.summary.max_sheath_temperature_k] if plan.start_profile else []
+    if plan.suction_profile is not None:
+        jackets.append(plan.suction_profile.summary.max_jacket_temperature_k)
+        sheaths.append(plan.suction_profile.summary.max_sheath_temperature_k)
+    peak = float(np.max(t["discharge_pressure_pa"])) if len(t["discharge_pressure_pa"]) else math.nan
+    if plan.startup_push is not None:
+        peak = max(peak, plan.startup_push.peak_discharge_pressure_pa)
+    counts = count_by_severity(findings)
+    row.update(
+        ok=True, status=plan.start.status, start_flow_m3_s=plan.start.flow,
+        transfer_time_s=plan.timeline.total_time_s, startup_time_s=plan.startup_time_s,
+        total_time_s=plan.total_time_s, tracing_kwh=plan.energy["tracing_kwh"],
+        tracing_steam_kg=plan.energy["tracing_steam_kg"], pump_kwh=plan.energy["pump_kwh"],
+        energy_cost=plan.costs["energy"], demurrage=plan.costs["demurrage"], total_cost=plan.costs["total"],
+        currency=plan.costs["currency"], peak_pressure_pa=peak,
+        hottest_jacket_k=max(jackets) if jackets else math.nan, hottest_sheath_k=max(sheaths) if sheaths else math.nan,
+        counts=counts, has_stop=counts["stop"] > 0, findings=[f.as_dict() for f in findings],
+        stop_codes=[f.code for f in findings if f.severity == "stop"],
+    )
+    if plan.total_time_s is None:
+        row["total_cost"] = math.inf  # the plan cannot be carried out as it stands
+    return row
+
+
+_POOL: ProcessPoolExecutor | None = None
+
+
+def _pool(workers: int) -> ProcessPoolExecutor:
+    global _POOL
+    if _POOL is None or _POOL._max_workers != workers:  # noqa: SLF001 (size check only)
+        if _POOL is not None:
+            _POOL.shutdown(cancel_futures=True)
+        # fork: the workers start with the planner already loaded (Linux); no re-import of __main__
+        context = multiprocessing.get_context("fork")
+        _POOL = ProcessPoolExecutor(max_workers=workers, mp_context=context)
+    return _POOL
+
+
+def shutdown_pool() -> None:
+    global _POOL
+    if _POOL is not None:
+        _POOL.shutdown(cancel_futures=True)
+        _POOL = None
+
+
+def _run_rows(data: dict, lever: str, values: list[float], viscosity_factor: float, ambient_shift: float,
+              progress, workers: int | None) -> list[dict]:
+    workers = workers if workers is not None else (os.cpu_count() or 1)
+    rows: list[dict | None] = [None] * len(values)
+    total = len(values)
+    if workers > 1 and total >= PARALLEL_MIN_ROWS:
+        pool = _pool(min(workers, total))
+        futures = {pool.submit(_row, data, lever, v, viscosity_factor, ambient_shift): i for i, v in enumerate(values)}
+        for done, future in enumerate(as_completed(futures), start=1):
+            rows[futures[future]] = future.result()
+            if progress:
+                progress(done, total)
+    else:
+        for i, v in enumerate(values):
+            rows[i] = _row(data, lever, v, viscosity_factor, ambient_shift)
+            if progress:
+                progress(i + 1, total)
+    return rows
+
+
+def recommend(rows: list[dict], unit: str) -> tuple[int | None, int | None, str]:
+    allowed = [i for i, r in enumerate(rows) if r.get("ok") and not r["has_stop"] and math.isfinite(r["total_cost"])]
+    if not allowed:
+        codes = sorted({c for r in rows for c in r.get("stop_codes", [])} | {"ERROR" for r in rows if not r.get("ok")})
+        return None, None, ("no value can be recommended: every row has a stop-level finding "
+                            f"({', '.join(codes) or 'plan cannot be completed'})")
+    ranked = sorted(allowed, key=lambda i: (rows[i]["total_cost"], rows[i]["total_time_s"] or math.inf))
+    best = ranked[0]
+    runner = ranked[1] if len(ranked) > 1 else None
+    r = rows[best]
+    reason = (f"{r['value']:g} {unit}: lowest total cost {r['total_cost']:.2f} {r['currency']} (energy "
+              f"{r['energy_cost']:.2f} + demurrage {r['demurrage']:.2f}, {r['total_time_s'] / 3600:.1f} h) among "
+              f"{len(allowed)} of {len(rows)} values with no stop-level finding")
+    excluded = len(rows) - len(allowed)
+    if excluded:
+        reason += f"; {excluded} value(s) excluded for stop-level findings"
+    if runner is not None:
+        rr = rows[runner]
+        reason += f"; runner-up {rr['value']:g} {unit} at {rr['total_cost']:.2f} {rr['currency']}"
+    return best, runner, reason
+
+
+def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | None = None, progress=None,
+            workers: int | None = None, sensitivity: bool = False, ambient_shift: float = 10.0,
+            viscosity_uncertainty: float = 0.2) -> Comparison:
+    """Rows for each ``values`` (display units: °C, bar(g), rpm, m³/h) of ``lever``."""
+    if lever not in LEVERS:
+        raise ValueError(f"unknown lever {lever!r}; levers are {', '.join(LEVERS)}")
+    if lever == "setpoint" and scenario.tracing.kind in ("none",):
+        raise ValueError("the scenario has no tracing: there is no setpoint to compare")
+    if lever == "steam_pressure" and scenario.tracing.kind != "steam":
+        raise ValueError("the scenario is not steam traced: compare setpoints instead")
+    if not values:
+        raise ValueError("give at least one value to compare")
+    unit = LEVERS[lever][1]
+    data = scenario_to_dict(scenario)
+    cases = [(1.0, 0.0, "as given")]
+    if sensitivity:
+        cases += [(1.0, -ambient_shift, f"ambient {-ambient_shift:+g} K"), (1.0, ambient_shift, f"ambient {ambient_shift:+g} K"),
+                  (1.0 - viscosity_uncertainty, 0.0, f"viscosity {-viscosity_uncertainty * 100:+g} %"),
+                  (1.0 + viscosity_uncertainty, 0.0, f"viscosity {viscosity_uncertainty * 100:+g} %")]
+    total = len(values) * len(cases)
+    offset = [0]
+
+    def step_progress(done, _n):
+        if progress:
+            progress(offset[0] + done, total)
+
+    results = {}
+    for factor, shift, label in cases:
+        rows = _run_rows(data, lever, values, factor, shift, step_progress, workers)
+        offset[0] += len(values)
+        results[label] = (rows, *recommend(rows, unit))
+    rows, best, runner, reason = results["as given"]
+    comparison = Comparison(lever, unit, list(values), rows, best, runner, reason)
+    for label, (r, b, _, why) in results.items():
+        if label != "as given":
+            comparison.sensitivity[label] = {"recommended_value": None if b is None else r[b]["value"], "reason": why,
+                                             "total_costs": [x["total_cost"] for x in r]}
+    return comparison
+
+
+def comparison_json(comparison: Comparison) -> dict:
+    def clean(v):
+        if isinstance(v, float) and not math.isfinite(v):
+            return None
+        if isinstance(v, dict):
+            return {k: clean(x) for k, x in v.items()}
+        if isinstance(v, list):
+            return [clean(x) for x in v]
+        return v
+
+    return clean({
+        "lever": comparison.lever, "unit": comparison.unit, "values": comparison.values, "rows": comparison.rows,
+        "recommended_index": comparison.recommended, "recommended_value":
+            None if comparison.recommended is None else comparison.rows[comparison.recommended]["value"],
+        "runner_up_index": comparison.runner_up, "reason": comparison.reason, "sensitivity": comparison.sensitivity,
+    })
+
+
+def comparison_table(comparison: Comparison) -> str:
+    c = comparison
+    lines = [f"  {c.lever} [{c.unit}]   flow m³/h   transfer h   total h   energy   demurrage    total   peak bar   "
+             f"jacket °C   stop/warn/caut"]
+    for i, r in enumerate(c.rows):
+        mark = " *" if i == c.recommended else ("  " if i != c.runner_up else " 2")
+        if not r.get("ok"):
+            lines.append(f"{mark} {r['value']:>8g}   error: {r.get('error', '')}")
+            continue
+        k = r["counts"]
+        total_h = "—" if r["total_time_s"] is None else f"{r['total_time_s'] / 3600:7.2f}"
+        lines.append(f"{mark} {r['value']:>8g}   {r['start_flow_m3_s'] * 3600:9.1f}   {r['transfer_time_s'] / 3600:10.2f}   "
+                     f"{total_h:>7}   {r['energy_cost']:6.1f}   {r['demurrage']:9.1f}   {r['total_cost']:6.1f}   "
+                     f"{r['peak_pressure_pa'] / 1e5:8.2f}   {r['hottest_jacket_k'] - 273.15:9.1f}   "
+                     f"{k['stop']}/{k['warning']}/{k['caution']}")
+        severe = [f for f in r["findings"] if SEVERITY_RANK[f["severity"]] >= SEVERITY_RANK["warning"]]
+        for f in severe:
+            lines.append(f"             {f['severity']:7s} {f['code']}: {f['message']}")
+    lines.append("")
+    lines.append(f"  recommendation: {c.reason}")
+    for label, s in c.sensitivity.items():
+        value = "none" if s["recommended_value"] is None else f"{s['recommended_value']:g} {c.unit}"
+        lines.append(f"  with {label}: {value}")
+    return "\n".join(lines)
