@@ -82,6 +82,17 @@ def check_operating_point(plan: Plan) -> list[Finding]:
         out.append(Finding("FLOW-NONE", "stop", "No flow possible", op.message,
                            "Warm the product or the line, lower the static head or destination pressure, or use a "
                            "pump that makes more pressure."))
+        if op.point is not None and op.point.sets:
+            summary = op.point.suction if op.point.suction is not None and op.point.suction.status != "ok" \
+                else op.point.discharge
+            line = "suction" if summary is op.point.suction else "discharge"
+            segments = (plan.system.suction_line if line == "suction" else plan.system.discharge_line).segments
+            where = summary.sets_at_m
+            no_flow = plan.scenario.product.no_flow_temperature
+            out.append(Finding("PRODUCT-SETS", "stop", "Product sets in the line",
+                               f"at a trickle the product falls below its no-flow temperature {_c(no_flow)} at "
+                               f"{where:.0f} m", "Raise the setpoint or the product temperature, or insulate.",
+                               line, _segment_at(segments, where).name, where, None, no_flow, "K"))
     elif op.status == "rate_not_reachable":
         out.append(Finding("FLOW-SETPOINT-SHORT", "warning", "Flow setpoint not reachable", op.message,
                            "Accept the lower rate in the plan, raise the product temperature or choose a larger pump."))

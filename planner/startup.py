@@ -62,6 +62,9 @@ def prewarm_target(system: TransferSystem) -> float | None:
 def prewarm(system: TransferSystem, start_temperature: float) -> Prewarm:
     target = prewarm_target(system)
     if target is None:
+        if start_temperature >= system.source.temperature - PREWARM_MARGIN_K:
+            return Prewarm(start_temperature, start_temperature, True, 0.0, 0.0,
+                           message="the line is already at the product's temperature: no pre-warm needed")
         return Prewarm(start_temperature, start_temperature, False, None, 0.0,
                        message="the line has no tracing: it cannot be pre-warmed")
     result = Prewarm(target, start_temperature, True, 0.0, 0.0)

@@ -239,6 +239,10 @@ class TransferSystem:
             op = self._pd_point(state, guess, cache)
         else:
             op = self._centrifugal_point(state, guess, cache)
+        if op.point is not None and op.moving and op.point.sets:
+            # e.g. a PD pump without slip "agrees" at any pressure: the line still sets at its rate
+            return OperatingPoint("no_flow", 0.0, f"no flow possible: product sets ({op.point.where}) at "
+                                  f"{op.flow * 3600:.1f} m³/h", op.point)
         if op.point is not None and op.moving:
             self._suction_checks(op, state)
             self._power_checks(op)
@@ -444,7 +448,7 @@ def _bracket_down(function, high: float, guess: float | None, below_is_negative:
     (first in a narrow band around a guess).  None when no sign change is found down to a trickle."""
     if function(high) < 0.0:
         return None
-    if guess is not None and guess < high:
+    if guess is not None and 0.0 < guess < high:
         top = min(high, guess * 1.03)
         bottom = guess * 0.97
         if function(top) >= 0.0 and function(bottom) < 0.0:

@@ -100,7 +100,7 @@ def run_transfer(system: TransferSystem, steps: int | None = None, first_guess: 
         moved += increment
         # next guess: the flow extrapolated from the last two steps (the flow drifts smoothly)
         previous_flow = points[-2].flow if len(points) >= 2 and points[-2].status == op.status else None
-        guess = 2.0 * op.flow - previous_flow if previous_flow else op.flow
+        guess = max(2.0 * op.flow - previous_flow, 0.5 * op.flow) if previous_flow else op.flow
     arrays = {k: np.array(v) for k, v in rows.items()}
     return Timeline(arrays, time, moved, completed, reason, statuses, flags, trace_j, pump_j, vessel_j, points,
                     system.evaluations - evaluations_before)
