@@ -54,6 +54,18 @@ def _show(value_si: float, kind: str) -> str:
     return f"{si_to_default(value_si, kind):g} {default_unit_label(kind)}"
 
 
+class QuantityKind:
+    """Marks a field as a quantity of ``kind`` (SI inside), so exact dumps can name its unit."""
+
+    __slots__ = ("kind",)
+
+    def __init__(self, kind: str):
+        self.kind = kind
+
+    def __repr__(self) -> str:
+        return f"QuantityKind({self.kind!r})"
+
+
 def Quantity(kind: str, *, gt: float | None = None, ge: float | None = None,
              lt: float | None = None, le: float | None = None, description: str = ""):
     """An annotated float type for a quantity of ``kind``; bounds are given in SI."""
@@ -86,6 +98,7 @@ def Quantity(kind: str, *, gt: float | None = None, ge: float | None = None,
         text += " Allowed: " + ", ".join(limits) + "."
     return Annotated[
         float,
+        QuantityKind(kind),
         BeforeValidator(parse),
         PlainSerializer(lambda v: si_to_default(v, kind), return_type=float),
         WithJsonSchema({"anyOf": [{"type": "number"}, {"type": "string"}], "description": text}),
@@ -123,3 +136,52 @@ def _example(kind: str) -> str:
 
 
 __all__ = ["Quantity", "si_to_default", "default_unit_label", "UnitError"]
+
+
+def exact_dump(model, skip_defaults: bool = True) -> dict:
+    """A plain dict of a model in which every quantity is a string carrying its SI value exactly
+    ("328.15 K", "0.004166666666666667 m**3/s"), so that validating it gives back the very same floats.
+    Fields at their defaults are left out when ``skip_defaults``."""
+    import typing
+
+    from pydantic import BaseModel
+
+    from .units import SI_UNITS
+
+    def kind_of(annotation):
+        for arg in typing.get_args(annotation):
+            if isinstance(arg, QuantityKind):
+                return arg.kind
+            found = kind_of(arg)
+            if found:
+                return found
+        return None
+
+    def convert(value, kind):
+        if value is None:
+            return None
+        if isinstance(value, BaseModel):
+            return exact_dump(value, skip_defaults)
+        if isinstance(value, list):
+            return [convert(v, kind) for v in value]
+        if isinstance(value, dict):
+            return {k: convert(v, kind) for k, v in value.items()}
+        if kind is not None and isinstance(value, float):
+            return f"{value!r} {SI_UNITS[kind]}"
+        return value
+
+    out = {}
+    for name, field in type(model).model_fields.items():
+        value = getattr(model, name)
+        if skip_defaults and not field.is_required():
+            default = field.get_default(call_default_factory=True)
+            if value == default:
+                continue
+        kind = None
+        for meta in field.metadata:
+            if isinstance(meta, QuantityKind):
+                kind = meta.kind
+        if kind is None:
+            kind = kind_of(field.annotation)
+        out[name] = convert(value, kind)
+    return out
