@@ -73,6 +73,22 @@ def _profiles(plan: Plan):
     return out
 
 
+def _heater_of(plan: Plan, line: str, seg):
+    system = plan.system
+    owner = system.suction_line if line == "suction" else system.discharge_line
+    return owner.heaters[seg.index]
+
+
+def _segment_steps(plan: Plan):
+    """(line name, segment, its mid-step values) along the recorded start profiles."""
+    for name, segments, result, _ in _profiles(plan):
+        steps = result.steps
+        for seg in segments:
+            inside = steps["segment"] == seg.index
+            if inside.any():
+                yield name, seg, {key: values[inside] for key, values in steps.items()}
+
+
 # -- checks -------------------------------------------------------------------------------------------
 
 def check_operating_point(plan: Plan) -> list[Finding]:
@@ -143,41 +159,47 @@ def check_surfaces(plan: Plan) -> list[Finding]:
     limits = plan.scenario.limits
     tracing = plan.scenario.tracing
     out = []
-    for name, segments, result, _ in _profiles(plan):
-        steps = result.steps
-        for seg in segments:
-            inside = steps["segment"] == seg.index
-            if not inside.any():
-                continue
-            jacket = steps["jacket_temperature"][inside]
-            xs = steps["x"][inside]
-            i = int(np.argmax(jacket))
-            if jacket[i] > limits.touch_temperature:
+    for name, seg, steps in _segment_steps(plan):
+        jacket, xs = steps["jacket_temperature"], steps["x"]
+        i = int(np.argmax(jacket))
+        if jacket[i] > limits.touch_temperature:
+            out.append(Finding(
+                "SURFACE-HOT", "warning", "Hot surface",
+                f"jacket reaches {_c(jacket[i])}, above the touch limit {_c(limits.touch_temperature)}",
+                "Fit personnel protection (guards or extra insulation) and warning signs where people can reach.",
+                name, seg.name, float(xs[i]), float(jacket[i]), limits.touch_temperature, "K"))
+        sheath = steps["sheath_temperature"]
+        j = int(np.argmax(sheath))
+        worst, at = float(sheath[j]), float(xs[j])
+        heater = _heater_of(plan, name, seg)
+        heater_active = heater.active
+        if heater_active and heater.kind != "steam" and heater.setpoint is not None:
+            # the thermostat lets the heater run flat out until the pipe reaches the setpoint: the
+            # sheath is then hottest (setpoint + full output per run / sheath-to-pipe conductance)
+            full = heater.capacity(heater.setpoint)
+            at_setpoint = heater.sheath_temperature(heater.setpoint, full)
+            if at_setpoint > worst:
+                worst, at = at_setpoint, seg.x_start
+        sheath = np.array([worst])
+        j = 0
+        xs = np.array([at])
+        if seg.hazardous_area_class and heater_active:
+            limit = temperature_class_limit(seg.hazardous_area_class)
+            if sheath[j] > limit:
                 out.append(Finding(
-                    "SURFACE-HOT", "warning", "Hot surface",
-                    f"jacket reaches {_c(jacket[i])}, above the touch limit {_c(limits.touch_temperature)}",
-                    "Fit personnel protection (guards or extra insulation) and warning signs where people can reach.",
-                    name, seg.name, float(xs[i]), float(jacket[i]), limits.touch_temperature, "K"))
-            sheath = steps["sheath_temperature"][inside]
-            j = int(np.argmax(sheath))
-            heater_active = plan.system.discharge_line.heaters[0].kind != "none" and seg.traced
-            if seg.hazardous_area_class and heater_active:
-                limit = temperature_class_limit(seg.hazardous_area_class)
-                if sheath[j] > limit:
-                    out.append(Finding(
-                        "TCLASS-EXCEEDED", "stop", "Tracer too hot for the hazardous area",
-                        f"{'steam tracer' if tracing.kind == 'steam' else 'heater sheath'} at {_c(sheath[j])} exceeds "
-                        f"{seg.hazardous_area_class} ({_c(limit)}, IEC 60079-0)",
-                        "Lower the steam pressure or use a heater rated for the area's temperature class, with a "
-                        "limiter where the design needs one; follow the site's hazardous-area rules.",
-                        name, seg.name, float(xs[j]), float(sheath[j]), limit, "K"))
-            exposure = tracing.max_exposure_temperature
-            if exposure is not None and heater_active and sheath[j] > exposure:
-                out.append(Finding(
-                    "HEATER-EXPOSURE", "stop", "Heater above its exposure rating",
-                    f"heater sheath at {_c(sheath[j])} exceeds its maximum exposure temperature {_c(exposure)}",
-                    "Lower the setpoint or product temperature, or choose a heater with a higher exposure rating.",
-                    name, seg.name, float(xs[j]), float(sheath[j]), exposure, "K"))
+                    "TCLASS-EXCEEDED", "stop", "Tracer too hot for the hazardous area",
+                    f"{'steam tracer' if tracing.kind == 'steam' else 'heater sheath'} at {_c(sheath[j])} exceeds "
+                    f"{seg.hazardous_area_class} ({_c(limit)}, IEC 60079-0)",
+                    "Lower the steam pressure or use a heater rated for the area's temperature class, with a "
+                    "limiter where the design needs one; follow the site's hazardous-area rules.",
+                    name, seg.name, float(xs[j]), float(sheath[j]), limit, "K"))
+        exposure = tracing.max_exposure_temperature
+        if exposure is not None and heater_active and sheath[j] > exposure:
+            out.append(Finding(
+                "HEATER-EXPOSURE", "stop", "Heater above its exposure rating",
+                f"heater sheath at {_c(sheath[j])} exceeds its maximum exposure temperature {_c(exposure)}",
+                "Lower the setpoint or product temperature, or choose a heater with a higher exposure rating.",
+                name, seg.name, float(xs[j]), float(sheath[j]), exposure, "K"))
     return out
 
 
@@ -299,47 +321,43 @@ def check_product_temperature(plan: Plan) -> list[Finding]:
 def check_flow_regime(plan: Plan) -> list[Finding]:
     limits = plan.scenario.limits
     out = []
-    traced = plan.scenario.tracing.kind != "none"
-    for name, segments, result, _ in _profiles(plan):
-        steps = result.steps
-        for seg in segments:
-            inside = steps["segment"] == seg.index
-            if not inside.any():
-                continue
-            v = steps["velocity"][inside]
-            xs = steps["x"][inside]
-            if v.max() > limits.max_velocity:
-                i = int(np.argmax(v))
-                out.append(Finding("VELOCITY-HIGH", "caution", "High velocity",
-                                   f"{v[i]:.2f} m/s is above {limits.max_velocity:.2f} m/s",
-                                   "Expect surge and wear at this rate; consider a larger line or a lower rate.",
-                                   name, seg.name, float(xs[i]), float(v[i]), limits.max_velocity, "m/s"))
-            if v.min() < limits.min_velocity:
-                i = int(np.argmin(v))
-                out.append(Finding("VELOCITY-LOW", "caution", "Very low velocity",
-                                   f"{v[i]:.3f} m/s is below {limits.min_velocity:.2f} m/s: long residence, cooling",
-                                   "Check the line does not cool or settle; a smaller line or higher rate helps.",
-                                   name, seg.name, float(xs[i]), float(v[i]), limits.min_velocity, "m/s"))
-            re = steps["reynolds"][inside]
-            transitional = (re >= 2300.0) & (re < 4000.0)
-            if transitional.any():
-                i = int(np.argmax(transitional))
-                out.append(Finding("REGIME-TRANSITIONAL", "caution", "Transitional flow",
-                                   f"Re {re[i]:.0f} lies between 2300 and 4000: friction and heat transfer are uncertain",
-                                   "Read pressures with margin; a different rate moves the flow out of transition.",
-                                   name, seg.name, float(xs[i]), float(re[i]), None, ""))
+    for name, seg, steps in _segment_steps(plan):
+        v, xs, re = steps["velocity"], steps["x"], steps["reynolds"]
+        if v.max() > limits.max_velocity:
+            i = int(np.argmax(v))
+            out.append(Finding("VELOCITY-HIGH", "caution", "High velocity",
+                               f"{v[i]:.2f} m/s is above {limits.max_velocity:.2f} m/s",
+                               "Expect surge and wear at this rate; consider a larger line or a lower rate.",
+                               name, seg.name, float(xs[i]), float(v[i]), limits.max_velocity, "m/s"))
+        if v.min() < limits.min_velocity:
+            i = int(np.argmin(v))
+            out.append(Finding("VELOCITY-LOW", "caution", "Very low velocity",
+                               f"{v[i]:.3f} m/s is below {limits.min_velocity:.2f} m/s: long residence, cooling",
+                               "Check the line does not cool or settle; a smaller line or higher rate helps.",
+                               name, seg.name, float(xs[i]), float(v[i]), limits.min_velocity, "m/s"))
+        transitional = (re >= 2300.0) & (re < 4000.0)
+        if transitional.any():
+            i = int(np.argmax(transitional))
+            out.append(Finding("REGIME-TRANSITIONAL", "caution", "Transitional flow",
+                               f"Re {re[i]:.0f} lies between 2300 and 4000: friction and heat transfer are uncertain",
+                               "Read pressures with margin; a different rate moves the flow out of transition.",
+                               name, seg.name, float(xs[i]), float(re[i]), None, ""))
+    if plan.scenario.tracing.kind != "none":
         # one note per line: where the traced, laminar film is poorest
-        traced_steps = np.array([plan.system.discharge_line.heaters[0].active and segments[int(k)].traced
-                                 for k in steps["segment"]], dtype=bool) if traced else np.zeros(0, dtype=bool)
-        if traced and traced_steps.any():
-            film = np.where(traced_steps & (steps["reynolds"] < 2300.0), steps["film_coefficient"], np.inf)
+        poorest: dict[str, tuple] = {}
+        for name, seg, steps in _segment_steps(plan):
+            if not seg.traced:
+                continue
+            film = np.where(steps["reynolds"] < 2300.0, steps["film_coefficient"], np.inf)
             i = int(np.argmin(film))
-            if film[i] < limits.poor_film_coefficient:
-                seg = _segment_at(segments, float(steps["x"][i]))
+            if film[i] < poorest.get(name, (np.inf,))[0]:
+                poorest[name] = (float(film[i]), seg.name, float(steps["x"][i]))
+        for name, (film, segment, x) in poorest.items():
+            if film < limits.poor_film_coefficient:
                 out.append(Finding("LAMINAR-POOR-HEAT", "info", "Laminar flow, poor heat transfer",
-                                   f"inner film coefficient down to {film[i]:.1f} W/(m²·K): the tracing maintains but "
+                                   f"inner film coefficient down to {film:.1f} W/(m²·K): the tracing maintains but "
                                    f"barely heats the moving product", "Heat the product at the source, not with the tracing.",
-                                   name, seg.name, float(steps["x"][i]), float(film[i]), limits.poor_film_coefficient, "W/m2K"))
+                                   name, segment, x, film, limits.poor_film_coefficient, "W/m2K"))
     return out
 
 

@@ -106,8 +106,10 @@ def test_heater_sheath_against_its_exposure_rating():
         d["route"]["segments"][0]["insulation"] = [{"material": "mineral_wool", "thickness": 50}]
         return d
 
-    sheath = plan_of(traced()).start_profile.summary.max_sheath_temperature_k
-    straddle(traced, "HEATER-EXPOSURE", "stop", sheath, rel=0.001)
+    # Worst case under a thermostat: full output with the pipe at the setpoint; the sheath then sits
+    # output / (sheath-to-pipe conductance) above it: 40 degC + 30 W/m / 1.5 W/(m K) = 60 degC (hand calculation)
+    assert plan_of(traced()).start_profile.summary.max_sheath_temperature_k < 333.15
+    straddle(traced, "HEATER-EXPOSURE", "stop", 333.15, rel=0.001)
 
 
 def test_pressure_against_the_pipe_rating():
