@@ -369,6 +369,8 @@ def check_validity(plan: Plan) -> list[Finding]:
     for _, _, result, _ in _profiles(plan):
         t_values.extend([float(result.nodes["temperature"].min()), float(result.nodes["temperature"].max())])
     t_values.append(plan.scenario.source.temperature)
+    if plan.startup_push is not None:
+        t_values.append(plan.startup_push.start_temperature_k)   # the line's contents pushed out at the start
     outside = [t for t in t_values if product.is_extrapolation(t)]
     if outside:
         worst = max(outside, key=lambda t: max(fit.t_min - t, t - fit.t_max))
