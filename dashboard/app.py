@@ -1,8 +1,19 @@
-"""Dashboard entry point: ``python -m streamlit run dashboard/app.py``."""
+"""Dashboard entry point: ``python3 -m streamlit run dashboard/app.py``.
+
+Layout: the sidebar holds the scenario (demo picker, file import), the unit system, the exports and
+the place for saving and sharing; the page shows the caution, the plan's key figures and the views
+as tabs (Plan, Inputs, Along the line, Over time, Setpoint comparison, Product). Only the open tab
+runs, so an edit recomputes the plan (cached by the scenario's JSON text) and redraws one tab.
+"""
 
 from __future__ import annotations
 
+import copy
+import json
+import logging
+import re
 import sys
+import tomllib
 from pathlib import Path
 
 import streamlit as st
@@ -11,28 +22,215 @@ ROOT = Path(__file__).resolve().parents[1]
 if str(ROOT) not in sys.path:
     sys.path.insert(0, str(ROOT))
 
-from planner.errors import PlannerError  # noqa: E402
-from planner.model import evaluate  # noqa: E402
-from planner.report_text import STANDING_CAUTION  # noqa: E402
-from planner.scenario import load_scenario  # noqa: E402
+from dashboard import inputs, tables, views  # noqa: E402
+from dashboard.compute import cached_bundle  # noqa: E402
+from dashboard.display import CAUTION_TEXT, SYSTEM_NAMES  # noqa: E402
+from dashboard.report import build_report_html  # noqa: E402
+from dashboard.sharing import save_share_review  # noqa: E402
+from planner.errors import ScenarioError  # noqa: E402
+from planner.scenario import (  # noqa: E402
+    Scenario, load_scenario, scenario_from_dict, scenario_to_dict, scenario_to_json, scenario_to_toml)
 
 DEMO_DIR = ROOT / "demo_scenarios"
+DEMO_FILES = sorted(DEMO_DIR.glob("*.toml"))
+VIEWS = ["Plan", "Inputs", "Along the line", "Over time", "Setpoint comparison", "Product"]
+log = logging.getLogger("dashboard")
 
-st.set_page_config(page_title="Viscous Transfer Planner", layout="wide")
-st.title("Viscous Transfer Planner")
-st.warning(STANDING_CAUTION)
-files = sorted(DEMO_DIR.glob("*.toml"))
-choice = st.selectbox("Scenario", files, format_func=lambda p: p.stem)
-try:
-    scenario = load_scenario(choice)
-    result = evaluate(scenario)
-except PlannerError as exc:
-    st.error(str(exc))
-    st.stop()
-s = result.summary
-st.subheader(scenario.name)
-cols = st.columns(4)
-cols[0].metric("Outlet temperature", f"{s.outlet_temperature_k - 273.15:.1f} °C")
-cols[1].metric("Pressure drop", f"{s.pressure_drop_pa / 1e5:.2f} bar")
-cols[2].metric("Hottest jacket", f"{s.max_jacket_temperature_k - 273.15:.1f} °C")
-cols[3].metric("Trace power", f"{s.trace_power_w / 1e3:.1f} kW")
+
+# ------------------------------------------------------------------------------------------ loading
+
+def _set_work(data: dict, source: str) -> None:
+    st.session_state["work"] = data
+    st.session_state["source"] = source
+    st.session_state["gen"] = st.session_state.get("gen", 0) + 1
+    st.session_state["table_gen"] = {}
+    st.session_state.pop("comparison", None)
+
+
+def load_demo(path: Path) -> None:
+    try:
+        _set_work(scenario_to_dict(load_scenario(path)), f"demo file {path.name}")
+        st.session_state["load_message"] = None
+    except ScenarioError as exc:
+        st.session_state["load_message"] = ("error", f"{path.name}: {exc}")
+
+
+def _on_demo_change() -> None:
+    name = st.session_state.get("demo_choice")
+    for path in DEMO_FILES:
+        if path.name == name:
+            load_demo(path)
+
+
+def _on_upload(key: str) -> None:
+    upload = st.session_state.get(key)
+    if upload is None:
+        return
+    name = upload.name
+    try:
+        text = upload.getvalue().decode("utf-8")
+        data = json.loads(text) if name.lower().endswith(".json") else tomllib.loads(text)
+    except (UnicodeDecodeError, json.JSONDecodeError, tomllib.TOMLDecodeError) as exc:
+        st.session_state["load_message"] = ("error", f"{name} cannot be read: {exc}")
+        return
+    if not isinstance(data, dict):
+        st.session_state["load_message"] = ("error", f"{name}: a scenario must be a table/object at the top level")
+        return
+    try:
+        data = scenario_to_dict(scenario_from_dict(data))
+        st.session_state["load_message"] = ("success", f"loaded {name}")
+    except ScenarioError as exc:
+        st.session_state["load_message"] = ("warning", f"loaded {name} with {len(exc.problems)} problem(s): "
+                                                       "see the messages beside the inputs")
+    _set_work(data, f"imported file {name}")
+
+
+def init_state() -> None:
+    if "work" not in st.session_state:
+        st.session_state["unit_system"] = st.session_state.get("unit_system", "SI")
+        if DEMO_FILES:
+            st.session_state["demo_choice"] = DEMO_FILES[0].name
+            load_demo(DEMO_FILES[0])
+        if "work" not in st.session_state:
+            st.session_state["work"] = {}
+            st.session_state["source"] = "no scenario"
+
+
+# ------------------------------------------------------------------------------------------ validation
+
+def validate(work: dict) -> tuple[Scenario | None, str | None, list[tuple[str, str]]]:
+    """The validated scenario and its canonical JSON (the cache key), or the problems."""
+    try:
+        scenario = scenario_from_dict(copy.deepcopy(work))
+    except ScenarioError as exc:
+        return None, None, list(exc.problems)
+    except (ValueError, TypeError, KeyError, AttributeError) as exc:
+        return None, None, [("", f"the scenario cannot be read: {exc}")]
+    return scenario, scenario_to_json(scenario), []
+
+
+# ------------------------------------------------------------------------------------------ sidebar
+
+def _md_escape(text: str) -> str:
+    return re.sub(r"([\\`*_{}\[\]<>()#+!|~$])", r"\\\1", text)
+
+
+def _slug(text: str) -> str:
+    return re.sub(r"[^A-Za-z0-9]+", "-", text).strip("-").lower()[:60] or "plan"
+
+
+def sidebar(scenario: Scenario | None, scenario_json: str | None, bundle: dict | None, unit_system: str) -> None:
+    sb = st.sidebar
+    sb.header("Scenario")
+    names = [p.name for p in DEMO_FILES]
+    sb.selectbox("Demo scenario", names, key="demo_choice", on_change=_on_demo_change,
+                 help="invented scenarios of the fictional Larkspur Quay terminal")
+    if sb.button("Reload the demo (drop my edits)", key="reload_demo"):
+        _on_demo_change()
+        st.rerun()
+    upload_key = "upload"
+    sb.file_uploader("Import a scenario file", type=["toml", "json"], key=upload_key, on_change=_on_upload,
+                     args=(upload_key,), help="the same TOML/JSON files `python -m planner` reads")
+    message = st.session_state.get("load_message")
+    if message:
+        getattr(sb, message[0])(message[1])
+    sb.caption(f"Working on: {st.session_state.get('source', '')}")
+    sb.header("Units")
+    sb.radio("Unit system", list(SYSTEM_NAMES), format_func=SYSTEM_NAMES.get, key="unit_system", horizontal=True,
+             help="applies to every input, result, table, chart and export")
+    sb.header("Export")
+    if scenario is not None:
+        sb.download_button("Scenario file (TOML)", data=scenario_to_toml(scenario), file_name=f"{_slug(scenario.name)}.toml",
+                           mime="application/toml", key="dl_toml", width="stretch")
+    else:
+        sb.caption("The scenario file can be exported once the inputs are valid.")
+    if scenario is not None and bundle is not None and "error" not in bundle:
+        slug = _slug(scenario.name)
+        sb.download_button("Plan report (HTML, opens offline)",
+                           data=lambda: build_report_html(scenario, bundle, unit_system),
+                           file_name=f"plan-{slug}.html", mime="text/html", key="dl_report", width="stretch")
+        if bundle.get("profile") is not None:
+            sb.download_button("Profile along the line (CSV)",
+                               data=lambda: tables.csv_text(tables.profile_frame(bundle["profile"], bundle["segments"], unit_system)),
+                               file_name=f"profile-{slug}-{unit_system}.csv", mime="text/csv", key="dl_profile", width="stretch")
+        sb.download_button("Timeline (CSV)", data=lambda: tables.csv_text(tables.timeline_frame(bundle["plan"], unit_system)),
+                           file_name=f"timeline-{slug}-{unit_system}.csv", mime="text/csv", key="dl_timeline", width="stretch")
+    sb.header("Save / share / review")
+    save_share_review(sb, scenario_json, bundle)
+
+
+# ------------------------------------------------------------------------------------------ page
+
+def main() -> None:
+    st.set_page_config(page_title="Viscous Transfer Planner", layout="wide", page_icon="🛢️")
+    st.markdown('<style>div[class*="st-key-stale_"] { opacity: 0.45; filter: grayscale(100%); }</style>',
+                unsafe_allow_html=True)
+    init_state()
+    unit_system = st.session_state.get("unit_system", "SI")
+    scenario, scenario_json, problem_list = validate(st.session_state["work"])
+    problems = inputs.Problems(problem_list)
+
+    bundle = None
+    if scenario_json is not None:
+        with st.spinner("Working out the plan…"):
+            bundle = cached_bundle(scenario_json)
+        if "error" not in bundle:
+            st.session_state["last_good_json"] = scenario_json
+        elif bundle.get("problems"):
+            problem_list = problem_list + [tuple(p) for p in bundle["problems"]]
+            problems = inputs.Problems(problem_list)
+    stale = bundle is None or "error" in bundle
+    shown = bundle
+    if stale and st.session_state.get("last_good_json"):
+        shown = cached_bundle(st.session_state["last_good_json"])
+
+    sidebar(scenario, scenario_json, bundle, unit_system)
+
+    name = scenario.name if scenario is not None else (st.session_state["work"].get("name") or "scenario with problems")
+    st.markdown(f"## Viscous Transfer Planner  \n**{_md_escape(name)}**")
+    st.caption(f"{st.session_state.get('source', '')} — units: {SYSTEM_NAMES[unit_system]}")
+    st.warning(CAUTION_TEXT, icon="⚠️")
+    if problem_list:
+        st.error(f"**The inputs have {len(problem_list)} problem(s)** — each message is shown beside its field "
+                 "under Inputs:\n" + "\n".join(f"- `{p or '(file)'}`: {m}" for p, m in problem_list[:8])
+                 + ("\n- …" if len(problem_list) > 8 else ""))
+    if bundle is not None and "error" in bundle and not bundle.get("problems"):
+        st.error(f"**No plan for these inputs:** {bundle['error']}")
+    if stale and shown is not None and "error" not in shown:
+        st.info("The figures and views below are from the **last good inputs** (greyed) until the problems are "
+                f"fixed: {shown.get('scenario_name', '')}.")
+
+    results_box = st.container(key="stale_results" if stale else "results")
+    have_results = shown is not None and "error" not in shown
+    with results_box:
+        if have_results:
+            views.key_figures_strip(shown, unit_system)
+        else:
+            st.info("No results yet: fix the inputs to see the plan.")
+
+    tabs = st.tabs(VIEWS, key="view", on_change="rerun")
+    for tab, title in zip(tabs, VIEWS):
+        if tab.open is False:
+            continue
+        with tab:
+            try:
+                if title == "Inputs":
+                    inputs.render_inputs(st.container(), problems)
+                elif title == "Setpoint comparison":
+                    views.comparison_view(scenario, scenario_json if not stale else None, unit_system)
+                elif not have_results:
+                    st.info("No results to show.")
+                else:
+                    box = st.container(key=f"stale_{_slug(title)}" if stale else f"view_{_slug(title)}")
+                    if stale:
+                        box.caption("(last good inputs)")
+                    with box:
+                        {"Plan": views.plan_view, "Along the line": views.line_view, "Over time": views.time_view,
+                         "Product": views.product_view}[title](shown, unit_system)
+            except Exception as exc:  # noqa: BLE001  (never a traceback on the page)
+                log.exception("view %s failed", title)
+                st.error(f"This view could not be drawn ({type(exc).__name__}: {exc}). The other views still work.")
+    st.caption(CAUTION_TEXT)
+
+
+main()

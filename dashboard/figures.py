@@ -1,0 +1,236 @@
+"""Every plotly figure of the dashboard and its report, built from SI data and a unit system.
+
+No Streamlit here: the report draws the same figures offline.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import plotly.graph_objects as go
+from plotly.subplots import make_subplots
+
+from .display import TOUCH_LIMIT_K, convert_array, label, to_display, with_unit
+
+COLOURS = {
+    "temperature": "#c0392b", "viscosity": "#6c3483", "pressure": "#1f618d", "rating": "#e67e22",
+    "jacket": "#b9770e", "sheath": "#7b7d7d", "limit": "#cb4335", "flow": "#117a65", "source": "#2e86c1",
+    "destination": "#28b463", "suction": "#5d6d7e", "fit": "#6c3483", "points": "#212f3d", "range": "#d6eaf8",
+    "cost": "#7d6608", "time": "#1a5276",
+}
+SEGMENT_LINE = dict(color="#909497", width=1, dash="dot")
+
+
+def _layout(fig: go.Figure, title: str, height: int) -> go.Figure:
+    fig.update_layout(title=dict(text=title, x=0.0, xanchor="left"), height=height,
+                      margin=dict(l=70, r=30, t=70, b=50), legend=dict(orientation="h", y=-0.08),
+                      hovermode="x unified", template="plotly_white")
+    return fig
+
+
+def _segment_marks(fig: go.Figure, segments: list[dict], system: str, rows: int) -> None:
+    """Dotted vertical lines at segment boundaries; names inside the top panel where they fit
+    (every segment is listed in the table under the chart)."""
+    total = max((s["x_end"] for s in segments), default=0.0) or 1.0
+    for n, s in enumerate(segments):
+        x0 = to_display(s["x_start"], "length", system)
+        if s["index"] > 0:
+            for r in range(1, rows + 1):
+                fig.add_vline(x=x0, line=SEGMENT_LINE, row=r, col=1)
+        share = (s["x_end"] - s["x_start"]) / total
+        text = s["name"] if share >= 0.15 else (f"{n + 1}" if share >= 0.015 else "")
+        if text:
+            mid = to_display(0.5 * (s["x_start"] + s["x_end"]), "length", system)
+            fig.add_annotation(x=mid, y=1.0, yref="y domain", xref="x", text=text[:28], showarrow=False,
+                               yanchor="top", font=dict(size=10, color="#566573"), row=1, col=1)
+
+
+def line_figure(profile: dict, segments: list[dict], system: str, product_name: str = "",
+                touch_limit_k: float | None = None) -> go.Figure:
+    """Along the discharge line at the start: bulk temperature, viscosity, gauge pressure against the
+    segment ratings, and jacket (and heater) temperature against the touch limit."""
+    nodes, steps = profile["nodes"], profile["steps"]
+    x_n = convert_array(nodes["x"], "length", system)
+    x_s = convert_array(steps["x"], "length", system)
+    fig = make_subplots(rows=4, cols=1, shared_xaxes=True, vertical_spacing=0.05,
+                        subplot_titles=("Bulk temperature", "Viscosity", "Pressure (gauge)",
+                                        "Outer jacket and heater temperature"))
+    fig.add_trace(go.Scatter(x=x_n, y=convert_array(nodes["temperature"], "temperature", system), name="bulk temperature",
+                             line=dict(color=COLOURS["temperature"])), row=1, col=1)
+    fig.add_trace(go.Scatter(x=x_s, y=convert_array(steps["viscosity"], "dynamic_viscosity", system), name="viscosity",
+                             line=dict(color=COLOURS["viscosity"])), row=2, col=1)
+    fig.add_trace(go.Scatter(x=x_n, y=convert_array(nodes["pressure"], "pressure", system), name="pressure",
+                             line=dict(color=COLOURS["pressure"])), row=3, col=1)
+    rating = profile.get("rating")
+    if rating is not None and np.isfinite(np.asarray(rating, dtype=float)).any():
+        fig.add_trace(go.Scatter(x=x_n, y=convert_array(rating, "pressure", system), mode="lines",
+                                 name="rating (own, or ASME B16.5 flange class at the product temperature)",
+                                 line=dict(color=COLOURS["rating"], width=3, dash="dash", shape="hv")), row=3, col=1)
+    fig.add_trace(go.Scatter(x=x_s, y=convert_array(steps["jacket_temperature"], "temperature", system),
+                             name="jacket temperature", line=dict(color=COLOURS["jacket"])), row=4, col=1)
+    if "sheath_temperature" in steps:
+        fig.add_trace(go.Scatter(x=x_s, y=convert_array(steps["sheath_temperature"], "temperature", system),
+                                 name="heater/tracer temperature", line=dict(color=COLOURS["sheath"], dash="dot")),
+                      row=4, col=1)
+    touch = to_display(touch_limit_k or TOUCH_LIMIT_K, "temperature", system)
+    fig.add_hline(y=touch, line=dict(color=COLOURS["limit"], dash="dash"), row=4, col=1,
+                  annotation_text=f"touch limit {touch:.0f} {label('temperature', system)}",
+                  annotation_position="top left")
+    if profile.get("status") == "product_sets" and profile.get("sets_at_m") is not None:
+        where = to_display(profile["sets_at_m"], "length", system)
+        for r in range(1, 5):
+            fig.add_vline(x=where, line=dict(color=COLOURS["limit"], width=2), row=r, col=1)
+        fig.add_annotation(x=where, y=0.5, yref="y domain", text="product sets here", showarrow=True, row=1, col=1)
+    _segment_marks(fig, segments, system, 4)
+    fig.update_yaxes(title_text=label("temperature", system), row=1, col=1)
+    fig.update_yaxes(title_text=label("dynamic_viscosity", system), type="log", row=2, col=1)
+    fig.update_yaxes(title_text=label("pressure", system), row=3, col=1)
+    fig.update_yaxes(title_text=label("temperature", system), row=4, col=1)
+    fig.update_xaxes(title_text=with_unit("Distance from the pump", "length", system), row=4, col=1)
+    return _layout(fig, "Along the discharge line at the start" + (f" — {product_name}" if product_name else ""), 980)
+
+
+def timeline_figure(plan: dict, system: str, max_level: float | None = None) -> go.Figure:
+    """Flow, temperatures, levels and pressures against time during the transfer."""
+    arrays = plan["timeline"].get("arrays") or {}
+    fig = make_subplots(rows=4, cols=1, shared_xaxes=True, vertical_spacing=0.06,
+                        subplot_titles=("Flow", "Temperatures", "Levels", "Pressures (gauge)"))
+    if not arrays or not arrays.get("time_s"):
+        return _layout(fig, "Over time: no transfer (the pump does not move the product)", 400)
+    t = convert_array(arrays["time_s"], "time", system)
+
+    def add(key, name, kind, row, colour, dash=None):
+        if key in arrays:
+            values = np.array([math.nan if v is None else v for v in arrays[key]], dtype=float)
+            fig.add_trace(go.Scatter(x=t, y=convert_array(values, kind, system), name=name,
+                                     line=dict(color=colour, dash=dash)), row=row, col=1)
+
+    add("flow_m3_s", "flow", "volume_flow", 1, COLOURS["flow"])
+    add("source_temperature_k", "source", "temperature", 2, COLOURS["source"])
+    add("pump_inlet_temperature_k", "pump inlet", "temperature", 2, COLOURS["suction"], "dot")
+    add("outlet_temperature_k", "line outlet", "temperature", 2, COLOURS["temperature"])
+    add("source_level_m", "source level", "length", 3, COLOURS["source"])
+    add("destination_level_m", "destination level", "length", 3, COLOURS["destination"])
+    if max_level:
+        fig.add_hline(y=to_display(max_level, "length", system), line=dict(color=COLOURS["limit"], dash="dash"),
+                      row=3, col=1, annotation_text="destination max level", annotation_position="top left")
+    add("discharge_pressure_pa", "discharge", "pressure", 4, COLOURS["pressure"])
+    add("suction_pressure_pa", "suction", "pressure", 4, COLOURS["suction"], "dot")
+    fig.update_yaxes(title_text=label("volume_flow", system), row=1, col=1)
+    fig.update_yaxes(title_text=label("temperature", system), row=2, col=1)
+    fig.update_yaxes(title_text=label("length", system), row=3, col=1)
+    fig.update_yaxes(title_text=label("pressure", system), row=4, col=1)
+    fig.update_xaxes(title_text=with_unit("Time from the start of pumping", "time", system), row=4, col=1)
+    return _layout(fig, "Over time during the transfer", 900)
+
+
+def push_cold_figure(rows: dict, system: str) -> go.Figure:
+    """The push-cold start-up: flow and discharge pressure while the cold contents leave the line."""
+    fig = make_subplots(rows=1, cols=2, subplot_titles=("Flow", "Discharge pressure (gauge)"))
+    if not rows or not rows.get("time_s"):
+        return _layout(fig, "Push-cold start-up: not possible", 320)
+    t = convert_array(rows["time_s"], "time", system)
+    fig.add_trace(go.Scatter(x=t, y=convert_array(rows["flow_m3_s"], "volume_flow", system), mode="lines+markers",
+                             name="flow", line=dict(color=COLOURS["flow"])), row=1, col=1)
+    fig.add_trace(go.Scatter(x=t, y=convert_array(rows["discharge_pressure_pa"], "pressure", system),
+                             mode="lines+markers", name="discharge pressure", line=dict(color=COLOURS["pressure"])),
+                  row=1, col=2)
+    fig.update_yaxes(title_text=label("volume_flow", system), row=1, col=1)
+    fig.update_yaxes(title_text=label("pressure", system), row=1, col=2)
+    fig.update_xaxes(title_text=with_unit("Time", "time", system))
+    return _layout(fig, "Push-cold start-up: the cold contents leave the line", 380)
+
+
+def viscosity_figure(curve: dict, system: str, height: int = 460, compact: bool = False) -> go.Figure:
+    """Viscosity (consistency for non-Newtonian products) against temperature: the fitted law, the
+    lab points, the fitted range shaded, and the no-flow and maximum temperatures."""
+    fig = go.Figure()
+    t = convert_array(curve["temperature"], "temperature", system)
+    fig.add_trace(go.Scatter(x=t, y=convert_array(curve["viscosity"], "dynamic_viscosity", system),
+                             name=f"fitted {curve['law']} law", line=dict(color=COLOURS["fit"])))
+    if curve["lab_temperature"]:
+        fig.add_trace(go.Scatter(x=convert_array(curve["lab_temperature"], "temperature", system),
+                                 y=convert_array(curve["lab_viscosity"], "dynamic_viscosity", system),
+                                 mode="markers", name="lab points",
+                                 marker=dict(size=10, color=COLOURS["points"], symbol="circle")))
+    if curve.get("t_min") is not None and curve.get("t_max") is not None:
+        fig.add_vrect(x0=to_display(curve["t_min"], "temperature", system),
+                      x1=to_display(curve["t_max"], "temperature", system), fillcolor=COLOURS["range"],
+                      opacity=0.5, line_width=0, layer="below", annotation_text="fitted range",
+                      annotation_position="top left")
+    fig.add_vline(x=to_display(curve["no_flow_temperature"], "temperature", system),
+                  line=dict(color=COLOURS["limit"], dash="dash"), annotation_text="no-flow", annotation_position="bottom right")
+    fig.add_vline(x=to_display(curve["max_temperature"], "temperature", system),
+                  line=dict(color=COLOURS["rating"], dash="dash"), annotation_text="max", annotation_position="bottom left")
+    what = "Viscosity" if curve.get("newtonian", True) else "Consistency K"
+    fig.update_yaxes(type="log", title_text=with_unit(what, "dynamic_viscosity", system)
+                     + ("" if curve.get("newtonian", True) else " (×sⁿ⁻¹)"))
+    fig.update_xaxes(title_text=with_unit("Temperature", "temperature", system))
+    title = f"{what} against temperature" + ("" if compact else f" — {curve['name']}")
+    fig = _layout(fig, title, height)
+    fig.update_layout(hovermode="closest", legend=dict(orientation="v", x=0.99, xanchor="right", y=0.99,
+                                                       yanchor="top", bgcolor="rgba(255,255,255,0.8)"))
+    return fig
+
+
+def comparison_figure(comparison: dict, kind: str, system: str) -> go.Figure:
+    """Time, cost, peak pressure and hottest jacket against the lever value; recommended row starred."""
+    rows = comparison["rows"]
+    x = [to_display(r.get("value"), kind, system) for r in rows]
+    fig = make_subplots(rows=2, cols=2, shared_xaxes=True, vertical_spacing=0.14,
+                        subplot_titles=("Start-up + transfer time", "Total cost", "Peak pressure", "Hottest jacket"))
+
+    def series(key, conv_kind):
+        values = [r.get(key) for r in rows]
+        return [None if v is None else (to_display(v, conv_kind, system) if conv_kind else v) for v in values]
+
+    panels = [("total_time_s", "time", 1, 1, COLOURS["time"]), ("total_cost", None, 1, 2, COLOURS["cost"]),
+              ("peak_pressure_pa", "pressure", 2, 1, COLOURS["pressure"]),
+              ("hottest_jacket_k", "temperature", 2, 2, COLOURS["jacket"])]
+    rec = comparison.get("recommended")
+    for key, conv_kind, r, c, colour in panels:
+        y = series(key, conv_kind)
+        symbols = ["x" if row.get("has_stop") else "circle" for row in rows]
+        fig.add_trace(go.Scatter(x=x, y=y, mode="lines+markers", name=key, showlegend=False,
+                                 line=dict(color=colour), marker=dict(symbol=symbols, size=9)), row=r, col=c)
+        if rec is not None and 0 <= rec < len(rows):
+            fig.add_trace(go.Scatter(x=[x[rec]], y=[y[rec]], mode="markers", name="recommended",
+                                     showlegend=(r, c) == (1, 1),
+                                     marker=dict(symbol="star", size=18, color="#f1c40f", line=dict(color="#000", width=1))),
+                          row=r, col=c)
+        fig.update_yaxes(title_text=label(conv_kind, system) if conv_kind else "cost", row=r, col=c)
+    touch = to_display(TOUCH_LIMIT_K, "temperature", system)
+    fig.add_hline(y=touch, line=dict(color=COLOURS["limit"], dash="dash"), row=2, col=2)
+    title = comparison.get("lever_label", "lever")
+    fig.update_xaxes(title_text=with_unit(title, kind, system), row=2)
+    fig = _layout(fig, f"Comparison over {title.lower()} (✕: a stop finding)", 640)
+    fig.update_layout(hovermode="closest")
+    return fig
+
+
+def sensitivity_figure(comparison: dict, kind: str, system: str) -> go.Figure | None:
+    """Total cost against the lever value for each sensitivity case (ambient shifted, viscosity
+    scaled) beside the case as given, with each case's recommended value marked."""
+    cases = comparison.get("sensitivity") or []
+    if not cases:
+        return None
+    x = [to_display(r.get("value"), kind, system) for r in comparison["rows"]]
+    fig = go.Figure()
+    fig.add_trace(go.Scatter(x=x, y=[r.get("total_cost") for r in comparison["rows"]], mode="lines+markers",
+                             name="as given", line=dict(color="#000", width=3)))
+    palette = ["#2e86c1", "#cb4335", "#28b463", "#af7ac5", "#f39c12", "#5d6d7e"]
+    for i, case in enumerate(cases):
+        colour = palette[i % len(palette)]
+        costs = case.get("total_costs") or []
+        fig.add_trace(go.Scatter(x=x[:len(costs)], y=costs, mode="lines+markers", name=case["case"],
+                                 line=dict(color=colour, dash="dot")))
+        value = case.get("recommended_value")
+        if value is not None:
+            fig.add_vline(x=to_display(value, kind, system), line=dict(color=colour, width=1, dash="dash"))
+    fig.update_xaxes(title_text=with_unit(comparison.get("lever_label", "value"), kind, system))
+    fig.update_yaxes(title_text="total cost")
+    fig = _layout(fig, "Sensitivity: total cost with the ambient shifted and the viscosity scaled "
+                  "(dashed: each case's recommended value)", 460)
+    fig.update_layout(hovermode="closest")
+    return fig

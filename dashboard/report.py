@@ -1,0 +1,168 @@
+"""The plan as one self-contained HTML file: inputs, results, charts, findings and cautions.
+
+Plotly's JavaScript is inlined once in the page head, so the file opens offline (about 5 MB).
+No Streamlit here: ``build_report_html(scenario, bundle, system)`` works from a script too::
+
+    from planner.scenario import load_scenario
+    from dashboard.results import build_bundle
+    from dashboard.report import build_report_html
+    s = load_scenario("demo_scenarios/syrup_railcar_unload.toml")
+    open("plan.html", "w").write(build_report_html(s, build_bundle(s), "SI"))
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+import html
+
+import pandas as pd
+from plotly.offline import get_plotlyjs
+
+from planner.scenario import Scenario, scenario_to_toml
+
+from . import figures, tables
+from .display import CAUTION_TEXT, SYSTEM_NAMES, fmt, key_figures
+from .results import SEVERITY_ORDER
+
+CSS = """
+body { font-family: -apple-system, Segoe UI, Roboto, Helvetica, Arial, sans-serif; margin: 2rem auto; max-width: 1200px;
+       color: #1b2631; line-height: 1.4; padding: 0 1rem; }
+h1 { margin-bottom: 0.2rem; } h2 { border-bottom: 2px solid #d5d8dc; padding-bottom: 0.2rem; margin-top: 2rem; }
+.caution { background: #fdf2e9; border-left: 6px solid #e67e22; padding: 0.8rem 1rem; margin: 1rem 0; }
+.meta { color: #566573; font-size: 0.9rem; }
+table { border-collapse: collapse; margin: 0.5rem 0 1rem 0; font-size: 0.9rem; }
+th, td { border: 1px solid #d5d8dc; padding: 0.25rem 0.6rem; text-align: left; vertical-align: top; }
+th { background: #f4f6f7; }
+.figures { display: grid; grid-template-columns: repeat(4, minmax(0, 1fr)); gap: 0.6rem; }
+.figure { border: 1px solid #d5d8dc; border-radius: 6px; padding: 0.5rem 0.7rem; }
+.figure .label { color: #566573; font-size: 0.85rem; } .figure .value { font-size: 1.4rem; font-weight: 600; }
+.figure .note { color: #566573; font-size: 0.8rem; }
+.finding { border-left: 6px solid #aab7b8; padding: 0.4rem 0.8rem; margin: 0.4rem 0; background: #fbfcfc; }
+.finding.stop { border-color: #c0392b; background: #fdedec; } .finding.warning { border-color: #e67e22; background: #fef5e7; }
+.finding.caution { border-color: #f1c40f; } .finding.info { border-color: #5dade2; }
+pre { background: #f4f6f7; padding: 0.8rem; overflow-x: auto; font-size: 0.8rem; }
+"""
+
+
+def _table(frame: pd.DataFrame) -> str:
+    return frame.to_html(index=False, na_rep="—", float_format=lambda v: f"{v:,.3f}", border=0, escape=True)
+
+
+def _inputs_frame(s: Scenario, system: str) -> pd.DataFrame:
+    t, p, src, dst = s.tracing, s.pump, s.source, s.destination
+    rows = [
+        ("Product", s.product.name + (" — illustrative preset" if s.product.illustrative
+                                      and "illustrative" not in s.product.name.lower() else "")),
+        ("Product no-flow / highest temperature", f"{fmt(s.product.no_flow_temperature, 'temperature', system)} / "
+                                                  f"{fmt(s.product.max_temperature, 'temperature', system)}"),
+        ("Viscosity law", f"{s.product.viscosity.law}, {len(s.product.viscosity.points)} lab points"),
+        ("Ambient / wind", f"{fmt(s.site.ambient_temperature, 'temperature', system)} / {fmt(s.site.wind_speed, 'speed', system)}"),
+        ("Design ambient", fmt(s.site.design_ambient_temperature, "temperature", system)),
+        ("Tracing", t.kind.replace("_", " ")),
+        ("Setpoint", fmt(t.setpoint, "temperature", system)),
+        ("Heater output", fmt(t.output, "linear_power", system) if t.kind.startswith("electric") else "—"),
+        ("Steam pressure (gauge)", fmt(t.steam_pressure, "pressure", system) if t.kind == "steam" else "—"),
+    ]
+    if p is not None:
+        rows += [("Pump", f"{p.name} ({p.kind.replace('_', ' ')}), {p.speed * 60:.0f} rpm"),
+                 ("Motor power", fmt(p.motor_power, "power", system)),
+                 ("Relief setting", fmt(p.relief_setting, "pressure", system))]
+    if src is not None:
+        rows += [("Source", f"{src.name} ({src.kind})"),
+                 ("Volume to move / in the source", f"{fmt(src.volume_to_move, 'volume', system)} / "
+                                                    f"{fmt(src.initial_volume, 'volume', system)}"),
+                 ("Source temperature", fmt(src.temperature, "temperature", system)),
+                 ("Source heating", fmt(src.heating_power, "power", system))]
+    if dst is not None:
+        rows += [("Destination", dst.name),
+                 ("Destination level at start / highest", f"{fmt(dst.initial_level, 'length', system)} / "
+                                                          f"{fmt(dst.max_level, 'length', system)}")]
+    c, sch = s.costs, s.schedule
+    rows += [("Tariffs", f"electricity {c.electricity_per_kwh:g} {c.currency}/kWh, steam {c.steam_per_tonne:g} "
+                         f"{c.currency}/t, demurrage {c.demurrage_per_hour:g} {c.currency}/h"),
+             ("Planned window", fmt(sch.planned_window, "time", system)),
+             ("Start-up", sch.start_mode.replace("_", " ")),
+             ("Line contents at the start", fmt(sch.line_start_temperature, "temperature", system)),
+             ("Stop checked", fmt(sch.stop_duration, "time", system))]
+    return pd.DataFrame(rows, columns=["Input", "Value"])
+
+
+def _findings_html(bundle: dict, system: str) -> str:
+    findings = bundle.get("findings")
+    if findings is None:
+        return f"<p>{html.escape(bundle.get('findings_note') or 'Findings are not available.')}</p>"
+    parts = []
+    for severity in SEVERITY_ORDER:
+        for f in (x for x in findings if x.get("severity") == severity):
+            where = tables.where_text(f, system)
+            value = tables.value_text(f.get("value"), f.get("unit"), system)
+            limit = tables.value_text(f.get("limit"), f.get("unit"), system)
+            lines = [f"<b>{html.escape(severity.upper())}: {html.escape(f.get('title', ''))}</b> — {html.escape(f.get('message', ''))}"]
+            if where:
+                lines.append(f"Where: {html.escape(where)}")
+            if value or limit:
+                lines.append(f"Value: {html.escape(value or '—')}" + (f"; limit: {html.escape(limit)}" if limit else ""))
+            if f.get("action"):
+                lines.append(f"What to do: {html.escape(f['action'])}")
+            lines.append(f"<code>{html.escape(f.get('code', ''))}</code>")
+            parts.append(f'<div class="finding {html.escape(severity)}">' + "<br>".join(lines) + "</div>")
+    return "\n".join(parts) or "<p>No findings.</p>"
+
+
+def _figure_html(fig) -> str:
+    return fig.to_html(full_html=False, include_plotlyjs=False, config={"displaylogo": False})
+
+
+def build_report_html(scenario: Scenario, bundle: dict, system: str = "SI", generated_at: _dt.datetime | None = None) -> str:
+    """The whole report as one HTML string (display units of ``system``)."""
+    when = (generated_at or _dt.datetime.now()).strftime("%Y-%m-%d %H:%M")
+    plan = bundle["plan"]
+    start = plan["start"]
+    caution = f'<div class="caution"><b>Caution.</b> {html.escape(CAUTION_TEXT)}</div>'
+    figs = "".join(
+        f'<div class="figure"><div class="label">{html.escape(k.label)}</div><div class="value">{html.escape(k.text)}</div>'
+        f'<div class="note">{html.escape(k.note)}</div></div>'
+        for k in key_figures(plan, bundle.get("outlet_rating"), system))
+    charts = []
+    if bundle.get("profile") is not None:
+        charts.append(_figure_html(figures.line_figure(bundle["profile"], bundle["segments"], system,
+                                                       touch_limit_k=bundle.get("touch_limit_k"))))
+    charts.append(_figure_html(figures.timeline_figure(plan, system, bundle.get("destination_max_level"))))
+    rows = bundle.get("push_cold_rows") or {}
+    if rows.get("time_s"):
+        charts.append(_figure_html(figures.push_cold_figure(rows, system)))
+    charts.append(_figure_html(figures.viscosity_figure(bundle["product"], system)))
+    timeline_note = "" if plan["timeline"].get("completed") else (
+        f"<p><b>The transfer stops:</b> {html.escape(plan['timeline'].get('stop_reason') or '')}</p>")
+    push_table = _table(tables.push_cold_frame(rows, system)) if rows.get("time_s") else "<p>—</p>"
+    body = f"""
+<h1>Transfer plan — {html.escape(scenario.name)}</h1>
+<p class="meta">Viscous Transfer Planner · generated {html.escape(when)} · units: {html.escape(SYSTEM_NAMES.get(system, system))}
+ · the numbers equal <code>python -m planner plan SCENARIO --json</code> for the scenario in the appendix</p>
+{caution}
+<h2>Key figures</h2>
+<div class="figures">{figs}</div>
+<p>At the start: <b>{html.escape(str(start.get('status', '')))}</b> — {html.escape(str(start.get('message', '')))}</p>
+{timeline_note}
+<h2>Findings</h2>
+{_findings_html(bundle, system)}
+<h2>Inputs</h2>
+{_table(_inputs_frame(scenario, system))}
+<h3>Discharge route</h3>
+{_table(tables.segments_frame(bundle['segments'], system))}
+<h2>Results</h2>
+<h3>Start-up and stops</h3>
+{_table(tables.startup_hold_frame(plan, system))}
+<h3>Energy and cost</h3>
+{_table(tables.energy_cost_frame(plan, system))}
+<h3>Push-cold start-up</h3>
+{push_table}
+<h2>Charts</h2>
+{''.join(charts)}
+<h2>Appendix: the scenario file (TOML, for <code>python -m planner plan</code>)</h2>
+<pre>{html.escape(scenario_to_toml(scenario))}</pre>
+{caution}
+"""
+    return (f"<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">"
+            f"<title>Transfer plan — {html.escape(scenario.name)}</title><style>{CSS}</style>"
+            f"<script type=\"text/javascript\">{get_plotlyjs()}</script></head><body>{body}</body></html>")

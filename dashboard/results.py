@@ -1,0 +1,271 @@
+"""Planner calls for the dashboard, returning plain data (no Streamlit here).
+
+``build_bundle(scenario)`` runs the plan once and keeps what the pages and the report draw: the
+documented plan JSON (``planner.plan_report.plan_json``, the same document as
+``python -m planner plan SCENARIO --json``), the profile along the discharge line at the start,
+the segment boundaries, the findings and the product's viscosity curve. Everything is SI.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+
+import numpy as np
+
+from planner.errors import PlannerError
+from planner.model import line_from_scenario
+from planner.plan import make_plan
+from planner.plan_report import plan_json
+from planner.products import Product
+from planner.route import build_line
+from planner.scenario import ProductSpec, Scenario, problems_from
+
+SEVERITY_ORDER = ("stop", "warning", "caution", "info")   # most severe first, as the pages list them
+
+
+def _plain(value):
+    if isinstance(value, float):
+        return value if math.isfinite(value) else None
+    if isinstance(value, np.generic):
+        return _plain(value.item())
+    if isinstance(value, dict):
+        return {k: _plain(v) for k, v in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [_plain(v) for v in value]
+    return value
+
+
+def segment_table(segments) -> list[dict]:
+    return [{
+        "index": s.index, "name": s.name, "kind": s.kind, "x_start": s.x_start, "x_end": s.x_end,
+        "length": s.length, "inside_diameter": s.inside_diameter, "traced": s.traced,
+        "pressure_rating": s.pressure_rating, "flange_class": s.flange_class,
+        "hazardous_area_class": s.hazardous_area_class, "location": s.location,
+    } for s in segments]
+
+
+def profile_arrays(plan) -> dict | None:
+    """The steady march along the discharge line at the starting operating point.
+
+    ``pressure`` is gauge: the march's pressures are relative to the route inlet, so the pump's
+    discharge pressure at the start is added."""
+    result = plan.start_profile
+    if result is None or not result.nodes:
+        return None
+    discharge = plan.start.point.discharge_pressure if plan.start.point is not None else 0.0
+    nodes = {k: np.asarray(v) for k, v in result.nodes.items()}
+    steps = {k: np.asarray(v) for k, v in result.steps.items()}
+    return {
+        "nodes": {"x": nodes["x"], "temperature": nodes["temperature"], "pressure": nodes["pressure"] + discharge},
+        "steps": steps,
+        "status": result.summary.status,
+        "sets_at_m": result.summary.sets_at_m,
+        "summary": _plain(result.summary.as_dict()),
+    }
+
+
+def findings_of(plan) -> tuple[list[dict] | None, str]:
+    """``planner.findings.assess(plan)`` as dicts, or None with the reason."""
+    try:
+        from planner.findings import assess
+    except ImportError:
+        return None, "findings are not available yet in this version of the planner"
+    try:
+        found = assess(plan)
+    except (PlannerError, ValueError) as exc:
+        return None, f"findings could not be assessed: {exc}"
+    rows = []
+    for f in found:
+        row = f.as_dict() if hasattr(f, "as_dict") else dataclasses.asdict(f)
+        rows.append(_plain(row))
+    return rows, ""
+
+
+def node_ratings(segments, nodes: dict | None) -> np.ndarray | None:
+    """Pressure rating [Pa gauge] at each node of the start profile: the lower of the segment's own
+    rating and its ASME B16.5 flange rating at the product temperature there
+    (``planner.ratings.flange_rating``); NaN where neither is known."""
+    if nodes is None:
+        return None
+    try:
+        from planner.ratings import flange_rating
+    except ImportError:
+        flange_rating = None
+    x, temps = nodes["x"], nodes["temperature"]
+    out = np.full(len(x), np.nan)
+    for i, (xi, ti) in enumerate(zip(x, temps)):
+        limits = []
+        for seg in segments:
+            if seg.x_start - 1e-9 <= xi <= seg.x_end + 1e-9:
+                if seg.pressure_rating is not None:
+                    limits.append(seg.pressure_rating)
+                if seg.flange_class is not None and flange_rating is not None:
+                    rating = flange_rating(seg.flange_class, float(ti))
+                    if rating is not None:
+                        limits.append(rating)
+        if limits:
+            out[i] = min(limits)
+    return out
+
+
+def outlet_rating(segments, profile: dict | None) -> dict:
+    """The rating where the discharge pressure acts: the first discharge segment at the pump outlet."""
+    if not segments:
+        return {"value": None, "where": ""}
+    first = segments[0]
+    ratings = profile.get("rating") if profile else None
+    if ratings is not None and len(ratings) and np.isfinite(ratings[0]):
+        value = float(ratings[0])
+    else:
+        value = first.pressure_rating
+    if value is None:
+        return {"value": None, "where": first.name}
+    source = "own rating" if first.pressure_rating is not None and value == first.pressure_rating else (
+        f"ASME B16.5 class {first.flange_class}" if first.flange_class else "own rating")
+    return {"value": value, "where": f"{first.name}, {source}"}
+
+
+def product_curve(spec: ProductSpec, points: int = 121) -> dict:
+    """Viscosity (or consistency) against temperature for the product, with its lab points and the
+    fitted range (``Product.fit``: law, t_min, t_max and residuals)."""
+    product = Product(spec)
+    fit = product.fit
+    lab_t = [p.temperature for p in spec.viscosity.points]
+    lab_mu = []
+    for p in spec.viscosity.points:
+        if p.viscosity is not None:
+            lab_mu.append(p.viscosity)
+        else:
+            lab_mu.append(p.kinematic_viscosity * product.density(p.temperature))
+    finite_range = [t for t in (fit.t_min, fit.t_max) if math.isfinite(t)]
+    low = min([spec.no_flow_temperature] + finite_range) - 5.0
+    high = max([spec.max_temperature] + finite_range) + 5.0
+    temps = np.linspace(low, high, points)
+    values = []
+    for t in temps:
+        try:
+            values.append(product.viscosity(float(t)))
+        except (ValueError, OverflowError, ZeroDivisionError):
+            values.append(math.nan)
+    return {
+        "name": spec.name, "law": fit.law, "parameters": dict(fit.parameters),
+        "rms_log_residual": fit.rms_log_residual, "max_relative_residual": fit.max_relative_residual,
+        "t_min": fit.t_min if math.isfinite(fit.t_min) else None,
+        "t_max": fit.t_max if math.isfinite(fit.t_max) else None,
+        "n_points": fit.n_points, "temperature": temps, "viscosity": np.asarray(values),
+        "lab_temperature": lab_t, "lab_viscosity": lab_mu,
+        "no_flow_temperature": spec.no_flow_temperature, "max_temperature": spec.max_temperature,
+        "newtonian": spec.rheology == "newtonian", "rheology": spec.rheology, "illustrative": spec.illustrative,
+        "density_at_20c": product.density(293.15), "specific_heat_at_20c": product.specific_heat(293.15),
+        "conductivity_at_20c": product.conductivity(293.15),
+    }
+
+
+def product_preview(product_data: dict) -> tuple[dict | None, list[tuple[str, str]]]:
+    """Validate only the product section and draw its curve; problems carry ``product.`` paths."""
+    try:
+        spec = ProductSpec.model_validate(product_data)
+    except Exception as exc:  # pydantic ValidationError
+        if hasattr(exc, "errors"):
+            return None, [(("product." + p) if p else "product", m) for p, m in problems_from(exc)]
+        return None, [("product", str(exc))]
+    try:
+        return product_curve(spec), []
+    except (PlannerError, ValueError) as exc:
+        return None, [("product.viscosity", str(exc))]
+
+
+def build_bundle(scenario: Scenario) -> dict:
+    """Everything the pages show for one scenario (SI). Raises PlannerError/ValueError."""
+    plan = make_plan(scenario)
+    doc = plan_json(plan)
+    discharge = line_from_scenario(scenario).segments
+    suction = build_line(scenario.suction, scenario.site) if scenario.suction is not None else []
+    findings, findings_note = findings_of(plan)
+    profile = profile_arrays(plan)
+    if profile is not None:
+        profile["rating"] = node_ratings(discharge, profile["nodes"])
+    limits = getattr(scenario, "limits", None)
+    return {
+        "scenario_name": scenario.name,
+        "plan": doc,
+        "profile": profile,
+        "outlet_rating": outlet_rating(discharge, profile),
+        "touch_limit_k": getattr(limits, "touch_temperature", None),
+        "segments": segment_table(discharge),
+        "suction_segments": segment_table(suction),
+        "push_cold_rows": _plain(plan.push_cold.rows or {}),
+        "findings": findings,
+        "findings_note": findings_note,
+        "product": product_curve(scenario.product),
+        "destination_max_level": scenario.destination.max_level if scenario.destination else None,
+        "tracing_kind": scenario.tracing.kind,
+        "setpoint": scenario.tracing.setpoint,
+        "steam_pressure": scenario.tracing.steam_pressure,
+    }
+
+
+# ---------------------------------------------------------------------------------------------
+# Setpoint (or other lever) comparison
+
+LEVERS = {
+    # lever name of planner.compare -> (label, display kind). planner.compare takes and returns the
+    # lever's values in its own units (°C, bar(g), rpm, m³/h): the SI column of the dashboard.
+    "setpoint": ("Tracing setpoint", "temperature"),
+    "steam_pressure": ("Steam pressure", "pressure"),
+    "pump_speed": ("Pump speed", "rotational_speed"),
+    "flow_limit": ("Flow limit", "volume_flow"),
+}
+
+
+def run_comparison(scenario: Scenario, lever: str, values_si: list[float], progress=None,
+                   sensitivity: bool = False) -> dict:
+    """``planner.compare.compare`` as plain data with the lever's values in SI (K, Pa, rev/s, m3/s).
+
+    Raises ImportError while the planner has no ``compare`` module."""
+    from planner.compare import compare
+
+    from .display import from_display, to_display
+
+    kind = LEVERS[lever][1]
+    values = [round(to_display(v, kind, "SI"), 9) for v in values_si]
+    comparison = compare(scenario, lever=lever, values=values, progress=progress, sensitivity=sensitivity)
+    rows = []
+    for r in comparison.rows:
+        row = _plain({k: v for k, v in dict(r).items() if k != "findings"})
+        row["value"] = from_display(r["value"], kind, "SI")
+        row["findings"] = _plain(r.get("findings", []))
+        rows.append(row)
+    cases = []
+    for name, case in (getattr(comparison, "sensitivity", None) or {}).items():
+        value = case.get("recommended_value") if isinstance(case, dict) else None
+        cases.append({
+            "case": name,
+            "recommended_value": None if value is None else from_display(value, kind, "SI"),
+            "reason": case.get("reason", "") if isinstance(case, dict) else str(case),
+            "total_costs": _plain(case.get("total_costs", [])) if isinstance(case, dict) else [],
+        })
+    return {
+        "lever": lever, "lever_label": LEVERS[lever][0], "kind": kind, "rows": rows,
+        "recommended": comparison.recommended, "runner_up": comparison.runner_up,
+        "reason": comparison.reason or "", "sensitivity": cases,
+    }
+
+
+def default_comparison_values(scenario: Scenario, lever: str) -> list[float]:
+    """A sensible first range (SI) around the scenario's present value, inside the product's limits."""
+    tracing = scenario.tracing
+    if lever == "setpoint":
+        centre = tracing.setpoint or scenario.source.temperature
+        top = scenario.product.max_temperature
+        values = [centre + d for d in (-15.0, -10.0, -5.0, 0.0, 5.0, 10.0, 15.0)]
+        values = [v for v in values if v <= top + 1e-9 and v > scenario.product.no_flow_temperature]
+        return values or [centre]
+    if lever == "steam_pressure":
+        return [p * 1e5 for p in (1.0, 2.0, 3.0, 4.0, 5.0, 6.0)]
+    if lever == "pump_speed":
+        base = scenario.pump.speed
+        return [base * f for f in (0.6, 0.8, 1.0)] + ([base * 1.2] if scenario.pump.max_speed and scenario.pump.max_speed >= base * 1.2 else [])
+    base = scenario.operation.flow
+    return [base * f for f in (0.5, 0.75, 1.0)]

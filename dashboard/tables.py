@@ -1,0 +1,242 @@
+"""Tables (pandas) of results in display units, shared by the pages, the report and the CSV exports.
+
+Column titles carry their units in brackets; no Streamlit here.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pandas as pd
+
+from .display import convert_array, fmt, label, number_text, to_display, with_unit
+from .results import SEVERITY_ORDER
+
+TIMELINE_COLUMNS = [
+    # key of plan_json timeline.arrays, title, kind
+    ("time_s", "Time", "time"),
+    ("moved_m3", "Moved", "volume"),
+    ("flow_m3_s", "Flow", "volume_flow"),
+    ("source_temperature_k", "Source temperature", "temperature"),
+    ("pump_inlet_temperature_k", "Pump inlet temperature", "temperature"),
+    ("outlet_temperature_k", "Outlet temperature", "temperature"),
+    ("suction_pressure_pa", "Suction pressure", "pressure"),
+    ("discharge_pressure_pa", "Discharge pressure", "pressure"),
+    ("pump_differential_pa", "Pump differential", "pressure"),
+    ("max_line_pressure_pa", "Highest line pressure", "pressure"),
+    ("shaft_power_w", "Shaft power", "power"),
+    ("npsh_available_m", "NPSH available", "head"),
+    ("trace_power_w", "Trace power", "power"),
+    ("source_level_m", "Source level", "length"),
+    ("destination_level_m", "Destination level", "length"),
+]
+
+PUSH_COLD_COLUMNS = [
+    ("time_s", "Time", "time"),
+    ("volume_fraction", "Line volume pushed out", None),
+    ("flow_m3_s", "Flow", "volume_flow"),
+    ("discharge_pressure_pa", "Discharge pressure", "pressure"),
+    ("pump_differential_pa", "Pump differential", "pressure"),
+    ("status", "Pump outcome", None),
+]
+
+STEP_COLUMNS = [
+    ("viscosity", "Viscosity", "dynamic_viscosity"),
+    ("reynolds", "Reynolds number", None),
+    ("wall_temperature", "Wall temperature", "temperature"),
+    ("jacket_temperature", "Jacket temperature", "temperature"),
+    ("sheath_temperature", "Heater/tracer temperature", "temperature"),
+    ("heat_loss", "Heat loss", "linear_power"),
+    ("trace_power", "Trace power", "linear_power"),
+]
+
+
+def _column(values, kind, system):
+    if kind is None:
+        return list(values)
+    array = np.array([math.nan if v is None else v for v in values], dtype=float)
+    return convert_array(array, kind, system)
+
+
+def timeline_frame(plan: dict, system: str) -> pd.DataFrame:
+    arrays = plan["timeline"].get("arrays") or {}
+    data = {}
+    for key, title, kind in TIMELINE_COLUMNS:
+        if key in arrays:
+            data[with_unit(title, kind, system)] = _column(arrays[key], kind, system)
+    return pd.DataFrame(data)
+
+
+def push_cold_frame(rows: dict, system: str) -> pd.DataFrame:
+    data = {}
+    for key, title, kind in PUSH_COLD_COLUMNS:
+        if key in rows:
+            values = rows[key]
+            if key == "volume_fraction":
+                data[f"{title} [%]"] = [100.0 * v for v in values]
+            else:
+                data[with_unit(title, kind, system)] = _column(values, kind, system)
+    return pd.DataFrame(data)
+
+
+def _segment_names(x, segments: list[dict]) -> list[str]:
+    names = []
+    for xi in x:
+        name = ""
+        for s in segments:
+            if s["x_start"] - 1e-9 <= xi <= s["x_end"] + 1e-9:
+                name = s["name"]
+                break
+        names.append(name)
+    return names
+
+
+def profile_frame(profile: dict, segments: list[dict], system: str) -> pd.DataFrame:
+    """Nodes (step ends: bulk temperature, pressure) and step midpoints (the rest) in one table,
+    sorted by distance; a node row leaves the mid-step columns empty and the other way round."""
+    nodes, steps = profile["nodes"], profile["steps"]
+    x_title = with_unit("Distance from pump", "length", system)
+    node_part = pd.DataFrame({
+        x_title: convert_array(nodes["x"], "length", system),
+        "Point": "step end",
+        "Segment": _segment_names(nodes["x"], segments),
+        with_unit("Bulk temperature", "temperature", system): convert_array(nodes["temperature"], "temperature", system),
+        with_unit("Pressure (gauge)", "pressure", system): convert_array(nodes["pressure"], "pressure", system),
+    })
+    names = [segments[int(i)]["name"] if 0 <= int(i) < len(segments) else "" for i in steps.get("segment", [])]
+    step_data = {x_title: convert_array(steps["x"], "length", system), "Point": "mid-step", "Segment": names}
+    for key, title, kind in STEP_COLUMNS:
+        if key in steps:
+            step_data[with_unit(title, kind, system)] = _column(steps[key], kind, system)
+    step_part = pd.DataFrame(step_data)
+    frame = pd.concat([node_part, step_part], ignore_index=True, sort=False)
+    return frame.sort_values([x_title, "Point"], kind="stable").reset_index(drop=True)
+
+
+def segments_frame(segments: list[dict], system: str) -> pd.DataFrame:
+    return pd.DataFrame({
+        "#": [s["index"] + 1 for s in segments],
+        "Segment": [s["name"] for s in segments],
+        "Kind": [s["kind"] for s in segments],
+        with_unit("From", "length", system): [to_display(s["x_start"], "length", system) for s in segments],
+        with_unit("To", "length", system): [to_display(s["x_end"], "length", system) for s in segments],
+        with_unit("Inside diameter", "small_length", system): [to_display(s["inside_diameter"], "small_length", system) for s in segments],
+        "Traced": [s["traced"] for s in segments],
+        with_unit("Rating", "pressure", system): [to_display(s["pressure_rating"], "pressure", system) for s in segments],
+        "Flange class": [s["flange_class"] for s in segments],
+        "Location": [s["location"] for s in segments],
+    })
+
+
+def findings_frame(findings: list[dict], system: str) -> pd.DataFrame:
+    rows = []
+    order = {s: i for i, s in enumerate(SEVERITY_ORDER)}
+    for f in sorted(findings, key=lambda f: order.get(f.get("severity"), 99)):
+        rows.append({
+            "Severity": f.get("severity", ""), "Finding": f.get("title", ""), "Where": where_text(f, system),
+            "Value": value_text(f.get("value"), f.get("unit"), system),
+            "Limit": value_text(f.get("limit"), f.get("unit"), system),
+            "What to do": f.get("action", ""),
+        })
+    return pd.DataFrame(rows)
+
+
+# SI unit strings a finding may carry -> display kind
+_UNIT_KINDS = {
+    "K": "temperature", "Pa": "pressure", "m": "length", "m3/s": "volume_flow", "m**3/s": "volume_flow",
+    "W": "power", "s": "time", "Pa s": "dynamic_viscosity", "Pa·s": "dynamic_viscosity", "Pa*s": "dynamic_viscosity",
+    "m3": "volume", "m**3": "volume", "J": "energy", "kg": "mass", "W/m": "linear_power",
+}
+
+
+def value_text(value, unit, system: str) -> str:
+    if value is None:
+        return ""
+    if isinstance(value, bool) or not isinstance(value, (int, float)):
+        return str(value)
+    kind = _UNIT_KINDS.get(unit or "", unit if unit in ("temperature", "pressure", "length", "volume_flow", "head",
+                                                          "power", "time", "temperature_difference") else None)
+    if kind is None:
+        return f"{value:.4g} {unit or ''}".strip()
+    return fmt(float(value), kind, system)
+
+
+def where_text(finding: dict, system: str) -> str:
+    parts = []
+    if finding.get("line"):
+        parts.append(f"{finding['line']} line")
+    if finding.get("segment"):
+        parts.append(str(finding["segment"]))
+    if finding.get("at_m") is not None:
+        parts.append(f"at {fmt(finding['at_m'], 'length', system, 0)}")
+    return ", ".join(parts)
+
+
+def energy_cost_frame(plan: dict, system: str) -> pd.DataFrame:
+    e, c = plan["energy"], plan["costs"]
+    cur = c.get("currency", "")
+    kwh = label("energy", system)
+    rows = [
+        ("Tracing electricity", f"{number_text(e.get('tracing_kwh'), 1)} {kwh}"),
+        ("Tracing steam", fmt(e.get("tracing_steam_kg"), "mass", system)),
+        ("Pump electricity", f"{number_text(e.get('pump_kwh'), 1)} {kwh}"),
+        ("Vessel heating electricity", f"{number_text(e.get('vessel_heating_kwh'), 1)} {kwh}"),
+        ("Vessel heating steam", fmt(e.get("vessel_heating_steam_kg"), "mass", system)),
+        ("Electricity cost", f"{number_text(c.get('electricity'), 2)} {cur}"),
+        ("Steam cost", f"{number_text(c.get('steam'), 2)} {cur}"),
+        (f"Demurrage ({number_text(c.get('demurrage_hours'), 2)} h)", f"{number_text(c.get('demurrage'), 2)} {cur}"),
+        ("Total cost", f"{number_text(c.get('total'), 2)} {cur}"),
+    ]
+    return pd.DataFrame(rows, columns=["Item", "Amount"])
+
+
+def startup_hold_frame(plan: dict, system: str) -> pd.DataFrame:
+    s, h = plan["startup"], plan["hold"]
+    warm, cold = s.get("prewarm") or {}, s.get("push_cold") or {}
+    hours = lambda v: "holds 14 days" if v is None else f"{v / 3600.0:.2f} h"  # noqa: E731
+    hours_or_dash = lambda v: "—" if v is None else f"{v / 3600.0:.2f} h"  # noqa: E731
+    rows = [
+        ("Start-up chosen", f"{s.get('mode', '')}: {hours_or_dash(s.get('time_s'))}"),
+        ("Line contents at the start", fmt(s.get("line_start_temperature_k"), "temperature", system)),
+        ("Pre-warm", warm.get("message", "")),
+        ("Push cold: first flow", fmt(cold.get("initial_flow_m3_s"), "volume_flow", system)),
+        ("Push cold: peak discharge pressure", fmt(cold.get("peak_discharge_pressure_pa"), "pressure", system)),
+        ("Push cold: relief lifts", "yes" if cold.get("relief_lifts") else "no"),
+        ("Stop limit", f"{fmt(h.get('limit_temperature_k'), 'temperature', system)} ({h.get('limit_reason', '')})"),
+        ("Time to limit, tracing on", f"{hours(h.get('time_to_limit_traced_s'))} ({h.get('first_to_set_traced', '')})"),
+        ("Time to limit, tracing failed", f"{hours(h.get('time_to_limit_failed_s'))} ({h.get('first_to_set_failed', '')})"),
+        ("Restart after the planned stop, tracing on", "yes" if h.get("restart_after_stop_traced") else "NO"),
+        ("Restart after the planned stop, tracing failed", "yes" if h.get("restart_after_stop_failed") else "NO"),
+    ]
+    if (h.get("gelled_restart_pressure_pa") or 0) > 0:
+        rows.append(("Gelled restart pressure", fmt(h["gelled_restart_pressure_pa"], "pressure", system)))
+    return pd.DataFrame(rows, columns=["Item", "Value"])
+
+
+def comparison_frame(comparison: dict, kind: str, system: str) -> pd.DataFrame:
+    rows = []
+    for i, r in enumerate(comparison["rows"]):
+        counts = r.get("counts") or {}
+        mark = ""
+        if i == comparison.get("recommended"):
+            mark = "★"
+        elif i == comparison.get("runner_up"):
+            mark = "2nd"
+        rows.append({
+            "": mark,
+            with_unit(comparison.get("lever_label", "Value"), kind, system): to_display(r.get("value"), kind, system),
+            with_unit("Start-up + transfer", "time", system): to_display(r.get("total_time_s"), "time", system),
+            with_unit("Transfer", "time", system): to_display(r.get("transfer_time_s"), "time", system),
+            "Energy cost": r.get("energy_cost"),
+            "Total cost": r.get("total_cost"),
+            with_unit("Peak pressure", "pressure", system): to_display(r.get("peak_pressure_pa"), "pressure", system),
+            with_unit("Hottest jacket", "temperature", system): to_display(r.get("hottest_jacket_k"), "temperature", system),
+            "Findings": ", ".join(f"{counts[s]} {s}" for s in SEVERITY_ORDER if counts.get(s)),
+            "Stop": "STOP" if r.get("has_stop") else "",
+        })
+    return pd.DataFrame(rows)
+
+
+def csv_text(frame: pd.DataFrame) -> str:
+    return frame.to_csv(index=False)

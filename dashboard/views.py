@@ -1,0 +1,254 @@
+"""The result views (tabs) of the dashboard: each lays out one bundle from ``results.build_bundle``."""
+
+from __future__ import annotations
+
+import pandas as pd
+import streamlit as st
+
+from planner.scenario import Scenario
+
+from . import figures, tables
+from .compute import cached_comparison
+from .display import fmt, from_display, key_figures, label, to_display, with_unit
+from .results import LEVERS, SEVERITY_ORDER, default_comparison_values
+
+SEVERITY_STYLE = {
+    "stop": (st.error, ":material/dangerous:", "Stop — do not start as planned"),
+    "warning": (st.warning, ":material/warning:", "Warnings"),
+    "caution": (st.info, ":material/report:", "Cautions"),
+    "info": (st.info, ":material/info:", "Information"),
+}
+
+
+def key_figures_strip(bundle: dict, unit_system: str) -> None:
+    """The plan's key figures as metrics; labels are stable (tests read them)."""
+    figs = key_figures(bundle["plan"], bundle.get("outlet_rating"), unit_system)
+    for row in (figs[:4], figs[4:]):
+        cols = st.columns(len(row))
+        for col, k in zip(cols, row):
+            col.metric(k.label, k.text, delta=k.note or None, delta_color="off", delta_arrow="off",
+                       help=k.help or None, border=True)
+
+
+def status_line(bundle: dict) -> None:
+    start = bundle["plan"]["start"]
+    timeline = bundle["plan"]["timeline"]
+    message = f"At the start: **{start.get('status', '')}** — {start.get('message', '')}"
+    if start.get("flags"):
+        message += f" (flags: {', '.join(start['flags'])})"
+    if start.get("status") == "ok" and timeline.get("completed"):
+        st.success(message)
+    elif start.get("status") == "no_flow" or not timeline.get("completed"):
+        st.error(message + ("" if timeline.get("completed") else f"  \nThe transfer stops: {timeline.get('stop_reason', '')}"))
+    else:
+        st.warning(message)
+
+
+def findings_block(bundle: dict, unit_system: str) -> None:
+    findings = bundle.get("findings")
+    if findings is None:
+        st.info(f"Findings: {bundle.get('findings_note') or 'not available yet'}.")
+        return
+    counts = {s: sum(1 for f in findings if f.get("severity") == s) for s in SEVERITY_ORDER}
+    st.markdown("#### Findings  \n" + " · ".join(f"{counts[s]} {s}" for s in SEVERITY_ORDER))
+    for severity in SEVERITY_ORDER:
+        items = [f for f in findings if f.get("severity") == severity]
+        if not items:
+            continue
+        box, icon, heading = SEVERITY_STYLE[severity]
+        with st.expander(f"{heading} ({len(items)})", icon=icon, expanded=severity in ("stop", "warning")):
+            for f in items:
+                where = tables.where_text(f, unit_system)
+                value = tables.value_text(f.get("value"), f.get("unit"), unit_system)
+                limit = tables.value_text(f.get("limit"), f.get("unit"), unit_system)
+                lines = [f"**{f.get('title', '')}** — {f.get('message', '')}"]
+                if where:
+                    lines.append(f"Where: {where}")
+                if value or limit:
+                    lines.append(f"Value: {value or '—'}" + (f"; limit: {limit}" if limit else ""))
+                if f.get("action"):
+                    lines.append(f"What to do: {f['action']}")
+                lines.append(f"`{f.get('code', '')}`")
+                box("  \n".join(lines), icon=icon)
+
+
+def plan_view(bundle: dict, unit_system: str) -> None:
+    status_line(bundle)
+    findings_block(bundle, unit_system)
+    st.markdown("#### Start-up and stops")
+    st.table(tables.startup_hold_frame(bundle["plan"], unit_system), hide_index=True)
+    left, right = st.columns(2)
+    left.markdown("#### Energy and cost")
+    left.table(tables.energy_cost_frame(bundle["plan"], unit_system), hide_index=True)
+    start = bundle["plan"]["start"]
+    right.markdown("#### Pump at the start")
+    rows = [
+        ("Flow", fmt(start.get("flow_m3_s"), "volume_flow", unit_system)),
+        ("Speed", f"{start['speed_rpm']:.0f} rpm" if start.get("speed_rpm") else "—"),
+        ("Discharge pressure (gauge)", fmt(start.get("discharge_pressure_pa"), "pressure", unit_system)),
+        ("Suction pressure (gauge)", fmt(start.get("suction_pressure_pa"), "pressure", unit_system)),
+        ("Pump differential", fmt(start.get("pump_differential_pa"), "pressure", unit_system)),
+        ("Shaft power", fmt(start.get("shaft_power_w"), "power", unit_system)),
+        ("NPSH available / required", f"{fmt(start.get('npsh_available_m'), 'head', unit_system)} / "
+                                      f"{fmt(start.get('npsh_required_m'), 'head', unit_system)}"),
+        ("Relief recirculation", fmt(start.get("relief_flow_m3_s"), "volume_flow", unit_system)),
+    ]
+    right.table(pd.DataFrame(rows, columns=["Item", "Value"]), hide_index=True)
+
+
+def line_view(bundle: dict, unit_system: str) -> None:
+    profile = bundle.get("profile")
+    if profile is None:
+        st.info("No profile along the line: the pump does not move the product at the start.")
+        return
+    st.plotly_chart(figures.line_figure(profile, bundle["segments"], unit_system,
+                                        touch_limit_k=bundle.get("touch_limit_k")), key="line_chart")
+    st.caption("At the starting operating point. Dotted lines: segment boundaries. The rating line is each "
+               "segment's own rating or its ASME B16.5 flange rating at the product temperature, whichever is lower.")
+    st.markdown("#### Segments of the discharge route")
+    st.dataframe(tables.segments_frame(bundle["segments"], unit_system).round(2), hide_index=True, width="stretch")
+    with st.expander("Profile table (step ends and mid-steps)"):
+        st.dataframe(tables.profile_frame(profile, bundle["segments"], unit_system).round(3), hide_index=True,
+                     width="stretch")
+
+
+def time_view(bundle: dict, unit_system: str) -> None:
+    plan = bundle["plan"]
+    st.plotly_chart(figures.timeline_figure(plan, unit_system, bundle.get("destination_max_level")), key="time_chart")
+    cold = plan["startup"].get("push_cold") or {}
+    if plan["startup"].get("mode") == "push_cold":
+        st.markdown("#### Push-cold start-up (the plan starts this way)")
+    else:
+        st.markdown("#### Push-cold start-up (the alternative to pre-warming)")
+    st.caption(cold.get("message", ""))
+    rows = bundle.get("push_cold_rows") or {}
+    if rows.get("time_s"):
+        st.dataframe(tables.push_cold_frame(rows, unit_system).round(3), hide_index=True, width="stretch")
+        st.plotly_chart(figures.push_cold_figure(rows, unit_system), key="push_cold_chart")
+    with st.expander("Timeline table"):
+        st.dataframe(tables.timeline_frame(plan, unit_system).round(3), hide_index=True, width="stretch")
+
+
+def product_view(bundle: dict, unit_system: str) -> None:
+    curve = bundle["product"]
+    st.plotly_chart(figures.viscosity_figure(curve, unit_system), key="product_chart")
+    params = ", ".join(f"{k} = {v:.6g}" for k, v in curve["parameters"].items())
+    rows = [
+        ("Product", curve["name"] + (" — illustrative preset" if curve.get("illustrative")
+                                     and "illustrative" not in curve["name"].lower() else "")),
+        ("Law", f"{curve['law']} ({params})"),
+        ("Fit", f"RMS log residual {curve['rms_log_residual']:.3g}; largest deviation "
+                f"{100 * curve['max_relative_residual']:.1f} % over {curve['n_points']} points"),
+        ("Fitted range", f"{fmt(curve.get('t_min'), 'temperature', unit_system)} to "
+                         f"{fmt(curve.get('t_max'), 'temperature', unit_system)}"),
+        ("No-flow temperature", fmt(curve["no_flow_temperature"], "temperature", unit_system)),
+        ("Highest allowed temperature", fmt(curve["max_temperature"], "temperature", unit_system)),
+        ("Density at 20 °C", fmt(curve["density_at_20c"], "density", unit_system)),
+        ("Specific heat at 20 °C", fmt(curve["specific_heat_at_20c"], "specific_heat", unit_system)),
+        ("Thermal conductivity at 20 °C", fmt(curve["conductivity_at_20c"], "conductivity", unit_system)),
+        ("Rheology", curve["rheology"]),
+    ]
+    st.table(pd.DataFrame(rows, columns=["Item", "Value"]), hide_index=True)
+    points = pd.DataFrame({
+        with_unit("Temperature", "temperature", unit_system):
+            [to_display(t, "temperature", unit_system) for t in curve["lab_temperature"]],
+        with_unit("Viscosity", "dynamic_viscosity", unit_system):
+            [to_display(v, "dynamic_viscosity", unit_system) for v in curve["lab_viscosity"]],
+    })
+    st.markdown("#### Lab points (edit them under Inputs → Product)")
+    st.dataframe(points.round(2), hide_index=True, width="stretch")
+
+
+# ---------------------------------------------------------------------------------------- comparison
+
+def _lever_options(scenario: Scenario) -> list[str]:
+    kind = scenario.tracing.kind
+    levers = []
+    if kind == "steam":
+        levers.append("steam_pressure")
+    if kind != "none":
+        levers.append("setpoint")
+    levers += ["pump_speed", "flow_limit"]
+    return levers
+
+
+def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_system: str) -> None:
+    """Plans at several values of a lever (tracing setpoint first); the recommended row is starred."""
+    if scenario is None or scenario_json is None:
+        st.info("Fix the inputs first: the comparison runs on a valid scenario.")
+        return
+    try:
+        import planner.compare  # noqa: F401
+    except ImportError:
+        st.info("The setpoint comparison is not available yet in this version of the planner.")
+        return
+    levers = _lever_options(scenario)
+    gen = st.session_state.get("gen", 0)
+    a, b, c = st.columns([1, 2, 1])
+    lever = a.selectbox("Compare", levers, format_func=lambda k: LEVERS[k][0], key=f"cmp_lever{gen}")
+    kind = LEVERS[lever][1]
+    defaults = default_comparison_values(scenario, lever)
+    digits = 0 if kind in ("temperature", "rotational_speed") else 1
+    default_text = ", ".join(f"{to_display(v, kind, unit_system):.{digits}f}" for v in defaults)
+    text = b.text_input(f"Values [{label(kind, unit_system)}]", value=default_text, key=f"cmp_values{gen}|{unit_system}|{lever}",
+                        help="a list (40, 45, 50) or START:STOP:STEP (40:70:5)")
+    sensitivity = c.checkbox("With sensitivity", value=False, key=f"cmp_sens{gen}",
+                             help="also with the ambient ±10 K and the viscosity ±20 % (five times the work)")
+    run = st.button("Compare", type="primary", key=f"cmp_run{gen}")
+    if run:
+        from planner.compare import parse_range
+
+        try:
+            values_display = parse_range(text)
+        except ValueError as exc:
+            st.error(str(exc))
+            return
+        values_si = tuple(from_display(v, kind, unit_system) for v in values_display)
+        total = len(values_si) * (5 if sensitivity else 1)
+        with st.status(f"Working out {total} plans…", expanded=True) as status:
+            bar = st.progress(0.0, text=f"0/{total} plans")
+
+            def progress(done, n):
+                bar.progress(min(1.0, done / max(n, 1)), text=f"{done}/{n} plans")
+
+            result = cached_comparison(scenario_json, lever, values_si, sensitivity, _progress=progress)
+            bar.progress(1.0, text=f"{total}/{total} plans")
+            status.update(label="Comparison done" if "error" not in result else "Comparison failed",
+                          state="complete" if "error" not in result else "error", expanded=False)
+        st.session_state["comparison"] = {"json": scenario_json, "result": result}
+    saved = st.session_state.get("comparison")
+    if not saved:
+        st.caption("Choose the values and press Compare: each value is a whole plan.")
+        return
+    result = saved["result"]
+    if saved["json"] != scenario_json:
+        st.warning("The inputs have changed since this comparison: press Compare to run it again.")
+    if "error" in result:
+        st.error(result["error"])
+        return
+    kind = result["kind"]
+    if result.get("recommended") is not None:
+        st.success(f"Recommended: **{fmt(result['rows'][result['recommended']]['value'], kind, unit_system)}** — "
+                   f"{result['reason']}")
+    else:
+        st.error(result["reason"] or "no value can be recommended")
+    frame = tables.comparison_frame(result, kind, unit_system)
+    errors = [r.get("error", "") for r in result["rows"]]
+    if any(errors):
+        frame["Note"] = errors
+    recommended = result.get("recommended")
+
+    def highlight(row):
+        colour = "background-color: #fcf3cf" if row.name == recommended else ""
+        return [colour] * len(row)
+
+    st.dataframe(frame.style.apply(highlight, axis=1).format(precision=2, na_rep="—"), hide_index=True, width="stretch")
+    st.plotly_chart(figures.comparison_figure(result, kind, unit_system), key="comparison_chart")
+    if result.get("sensitivity"):
+        st.markdown("#### Sensitivity")
+        rows = [(case["case"], fmt(case.get("recommended_value"), kind, unit_system), case.get("reason", ""))
+                for case in result["sensitivity"]]
+        st.dataframe(pd.DataFrame(rows, columns=["Case", "Recommended", "Why"]), hide_index=True, width="stretch")
+        fig = figures.sensitivity_figure(result, kind, unit_system)
+        if fig is not None:
+            st.plotly_chart(fig, key="sensitivity_chart")

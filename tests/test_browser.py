@@ -1,0 +1,250 @@
+"""The dashboard in a real browser: Debian's Chromium driven by Playwright against a headless server.
+
+The key figures on the page must equal the command line's (``python -m planner plan DEMO --json``,
+the documented JSON).  Screenshots of each view go to ``test-artifacts/`` (gitignored), with the
+measured time from a setpoint change to the updated plan in ``test-artifacts/timing.txt``.
+Outside CI a missing /usr/bin/chromium skips these tests; in CI (CI=true) it fails them.
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import re
+import signal
+import socket
+import statistics
+import subprocess
+import sys
+import time
+import urllib.request
+from pathlib import Path
+
+import pytest
+
+from conftest import DEMO_FILES, ROOT
+from planner.plan import make_plan, with_changes
+from planner.scenario import load_scenario
+
+CHROMIUM = Path("/usr/bin/chromium")
+ARTIFACTS = ROOT / "test-artifacts"
+IN_CI = os.environ.get("CI", "").strip().lower() in ("1", "true", "yes")
+LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update",
+               "--disable-sync", "--no-first-run"]
+VIEWS = ["Plan", "Inputs", "Along the line", "Over time", "Setpoint comparison", "Product"]
+
+
+def _require_chromium() -> None:
+    if CHROMIUM.exists() and os.access(CHROMIUM, os.X_OK):
+        return
+    if IN_CI:
+        pytest.fail(f"{CHROMIUM} is missing in CI: .ci/run installs Debian's chromium before the tests")
+    pytest.skip(f"{CHROMIUM} is not installed (apt-get install chromium); the browser test needs it")
+
+
+def _free_port() -> int:
+    with socket.socket(socket.AF_INET, socket.SOCK_STREAM) as s:
+        s.bind(("127.0.0.1", 0))
+        return s.getsockname()[1]
+
+
+@pytest.fixture(scope="module")
+def server(tmp_path_factory):
+    _require_chromium()
+    port = _free_port()
+    log_path = tmp_path_factory.mktemp("streamlit") / "server.log"
+    log = open(log_path, "w")
+    proc = subprocess.Popen(
+        [sys.executable, "-m", "streamlit", "run", "dashboard/app.py", "--server.headless", "true",
+         "--server.port", str(port), "--server.address", "127.0.0.1", "--browser.gatherUsageStats", "false"],
+        cwd=ROOT, stdout=log, stderr=subprocess.STDOUT, start_new_session=True)
+    url = f"http://127.0.0.1:{port}"
+    try:
+        deadline = time.monotonic() + 90
+        while True:
+            try:
+                with urllib.request.urlopen(url + "/_stcore/health", timeout=2) as response:
+                    if response.read().decode().strip() == "ok":
+                        break
+            except OSError:
+                pass
+            if proc.poll() is not None or time.monotonic() > deadline:
+                raise RuntimeError(f"the dashboard server did not start:\n{log_path.read_text()[-3000:]}")
+            time.sleep(0.3)
+        yield url
+    finally:
+        # the server's own process group: the server and any comparison workers it forked
+        try:
+            os.killpg(proc.pid, signal.SIGTERM)
+            proc.wait(timeout=15)
+        except ProcessLookupError:
+            pass
+        except subprocess.TimeoutExpired:
+            os.killpg(proc.pid, signal.SIGKILL)
+            proc.wait(timeout=15)
+        log.close()
+
+
+@pytest.fixture(scope="module")
+def browser(server):
+    from playwright.sync_api import sync_playwright
+
+    playwright = sync_playwright().start()
+    chromium = None
+    try:
+        chromium = playwright.chromium.launch(executable_path=str(CHROMIUM), args=LAUNCH_ARGS)
+        yield chromium
+    finally:
+        if chromium is not None:
+            chromium.close()
+        playwright.stop()
+
+
+@pytest.fixture
+def page(browser, server):
+    context = browser.new_context(viewport={"width": 1440, "height": 2200})
+    page = context.new_page()
+    page.set_default_timeout(90_000)
+    try:
+        page.goto(server)
+        page.get_by_test_id("stMetricLabel").first.wait_for()
+        yield page
+    finally:
+        context.close()
+
+
+def metrics(page) -> dict[str, str]:
+    out = {}
+    for box in page.get_by_test_id("stMetric").all():
+        label = box.get_by_test_id("stMetricLabel").inner_text().strip()
+        out[label] = box.get_by_test_id("stMetricValue").inner_text().strip()
+    return out
+
+
+def _number(text: str) -> float:
+    match = re.search(r"[-+]?\d[\d,]*\.?\d*", text)
+    assert match, f"no number in {text!r}"
+    return float(match.group(0).replace(",", ""))
+
+
+def cli_plan(path: Path) -> dict:
+    done = subprocess.run([sys.executable, "-m", "planner", "plan", str(path), "--json"], cwd=ROOT,
+                          capture_output=True, text=True, timeout=120)
+    assert done.returncode == 0, done.stderr
+    return json.loads(done.stdout)
+
+
+def expected_key_figures(doc: dict) -> dict[str, tuple[float, float, str]]:
+    """label -> (value in SI display units, half the last shown digit, unit) from the CLI's JSON, with
+    the definitions of the README's Dashboard section."""
+    startup = doc["startup"]
+    push = startup.get("push_cold") if startup["mode"] == "push_cold" else startup.get("after_prewarm")
+    pressures = list(doc["timeline"]["arrays"]["discharge_pressure_pa"]) + [doc["start"]["discharge_pressure_pa"]]
+    if push and push.get("possible"):
+        pressures.append(push["peak_discharge_pressure_pa"])
+    e = doc["energy"]
+    return {
+        "Transfer time": (doc["timeline"]["total_time_s"] / 3600.0, 0.005, "h"),
+        "Start-up + transfer": (doc["total_time_s"] / 3600.0, 0.005, "h"),
+        "Starting flow": (doc["start"]["flow_m3_s"] * 3600.0, 0.005, "m³/h"),
+        "Peak discharge pressure": (max(pressures) / 1e5, 0.005, "bar"),
+        "NPSH margin": (doc["start"]["npsh_margin_m"], 0.005, "m"),
+        "Electrical energy": (e["tracing_kwh"] + e["pump_kwh"] + e["vessel_heating_kwh"], 0.05, "kWh"),
+        "Steam": (e["tracing_steam_kg"] + e["vessel_heating_steam_kg"], 0.5, "kg"),
+        "Total cost": (doc["costs"]["total"], 0.005, doc["costs"]["currency"]),
+    }
+
+
+def test_key_figures_on_the_page_equal_the_cli(page):
+    ARTIFACTS.mkdir(exist_ok=True)
+    doc = cli_plan(DEMO_FILES[0])                      # the page opens on the first demo file
+    page.get_by_text(doc["scenario"]).first.wait_for()
+    shown = metrics(page)
+    page.screenshot(path=str(ARTIFACTS / "browser-key-figures.png"))
+    for label, (value, half_digit, unit) in expected_key_figures(doc).items():
+        assert label in shown, f"{label!r} not on the page: {shown}"
+        assert shown[label].endswith(unit), (label, shown[label])
+        assert _number(shown[label]) == pytest.approx(value, abs=half_digit * 1.001), (label, shown[label])
+
+
+def _open_tab(page, name: str) -> None:
+    page.get_by_role("tab", name=name, exact=True).first.click()
+    page.wait_for_timeout(300)
+    _wait_idle(page)
+
+
+def _wait_idle(page, timeout_s: float = 90.0) -> None:
+    """Until the app has finished its rerun (no running indicator) and charts have drawn."""
+    deadline = time.monotonic() + timeout_s
+    while time.monotonic() < deadline:
+        running = page.locator('[data-testid="stStatusWidget"]').count()
+        skeletons = page.locator('[data-testid="stSkeleton"]').count()
+        if not running and not skeletons:
+            return
+        page.wait_for_timeout(100)
+
+
+def test_each_view_and_the_setpoint_round_trip(page):
+    ARTIFACTS.mkdir(exist_ok=True)
+    for name in VIEWS:
+        _open_tab(page, name)
+        if name == "Setpoint comparison":
+            page.get_by_role("button", name="Compare", exact=True).click()
+            page.get_by_text("Recommended:").first.wait_for(timeout=180_000)
+            _wait_idle(page)
+        if page.locator(".js-plotly-plot").count() == 0 and name in ("Along the line", "Over time", "Product"):
+            page.locator(".js-plotly-plot").first.wait_for()
+        page.wait_for_timeout(800)
+        page.screenshot(path=str(ARTIFACTS / f"view-{re.sub(r'[^a-z]+', '-', name.lower()).strip('-')}.png"))
+        assert page.get_by_text("could not be drawn").count() == 0, name
+    # a setpoint change on the polyol demo, timed from Enter to the updated Transfer time
+    path = ROOT / "demo_scenarios" / "polyol_tank_transfer.toml"
+    scenario = load_scenario(path)
+    page.get_by_test_id("stSidebar").get_by_test_id("stSelectbox").first.click()
+    page.get_by_role("option", name=path.name).click()
+    page.get_by_text(f"demo file {path.name}").first.wait_for()
+    _open_tab(page, "Inputs")
+    _open_tab(page, "Tracing")
+    timings = []
+    for setpoint_c in (30.0, 35.0, 25.0):
+        plan = make_plan(with_changes(scenario, setpoint=setpoint_c + 273.15))
+        expected = f"{plan.timeline.total_time_s / 3600.0:.2f} h"
+        field = page.get_by_role("spinbutton", name="Setpoint [°C]", exact=True)
+        field.fill(f"{setpoint_c:g}")
+        started = time.perf_counter()
+        field.press("Enter")
+        page.wait_for_function(
+            """expected => [...document.querySelectorAll('[data-testid="stMetric"]')].some(m =>
+                   m.innerText.includes('Transfer time') && m.innerText.includes(expected))""", arg=expected)
+        timings.append(time.perf_counter() - started)
+        shown = metrics(page)
+        assert shown["Transfer time"] == expected
+        assert _number(shown["Start-up + transfer"]) == pytest.approx(plan.total_time_s / 3600.0, abs=0.00501)
+        _wait_idle(page)
+    page.screenshot(path=str(ARTIFACTS / "browser-after-setpoint.png"))
+    report = (f"setpoint change -> updated Transfer time in Chromium (new setpoints, uncached plans): "
+              f"{', '.join(f'{t:.3f}' for t in timings)} s; median {statistics.median(timings):.3f} s\n")
+    (ARTIFACTS / "timing.txt").write_text(report)
+    print("\n" + report)
+
+
+def test_report_download_opens_offline(page, browser):
+    ARTIFACTS.mkdir(exist_ok=True)
+    with page.expect_download(timeout=120_000) as download_info:
+        page.get_by_role("button", name="Plan report (HTML, opens offline)").click()
+    target = ARTIFACTS / "plan-report.html"
+    download_info.value.save_as(str(target))
+    text = target.read_text(encoding="utf-8")
+    doc = cli_plan(DEMO_FILES[0])
+    assert doc["scenario"].replace("'", "&#x27;") in text
+    assert f"{doc['timeline']['total_time_s'] / 3600.0:.2f} h" in text
+    # no network at all: the charts must still draw from the inlined plotly.js
+    offline = browser.new_context(offline=True, viewport={"width": 1280, "height": 1800})
+    try:
+        report = offline.new_page()
+        report.goto(target.resolve().as_uri())
+        report.locator(".js-plotly-plot .main-svg").first.wait_for(timeout=60_000)
+        assert report.locator(".js-plotly-plot").count() >= 3
+        report.screenshot(path=str(ARTIFACTS / "report-offline.png"))
+    finally:
+        offline.close()
