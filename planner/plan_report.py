@@ -23,6 +23,14 @@ def _clean(value):
     return value
 
 
+def peak_discharge_pressure(plan: Plan) -> float | None:
+    """Highest gauge pressure at the pump outlet: running (timeline) or pushing the contents out at the start."""
+    values = list(plan.timeline.arrays["discharge_pressure_pa"])
+    if plan.startup_push is not None:
+        values.append(plan.startup_push.peak_discharge_pressure_pa)
+    return float(max(values)) if values else None
+
+
 def start_dict(plan: Plan) -> dict:
     op = plan.start
     point = op.point
@@ -66,6 +74,7 @@ def plan_json(plan: Plan, arrays: bool = True) -> dict:
             "push_cold": {k: v for k, v in plan.push_cold.__dict__.items() if k != "rows"},
         },
         "hold": {k: v for k, v in plan.hold.__dict__.items() if k != "segments"},
+        "peak_discharge_pressure_pa": peak_discharge_pressure(plan),
         "energy": plan.energy,
         "costs": plan.costs,
         "total_time_s": plan.total_time_s,
@@ -73,9 +82,13 @@ def plan_json(plan: Plan, arrays: bool = True) -> dict:
         "caution": STANDING_CAUTION,
     }
     doc["hold"]["segments"] = [s.__dict__ for s in plan.hold.segments]
+    after = plan.after_prewarm
+    doc["startup"]["after_prewarm"] = None if after is None else {k: v for k, v in after.__dict__.items() if k != "rows"}
     if arrays:
         doc["timeline"]["arrays"] = {k: v.tolist() for k, v in t.arrays.items()}
         doc["startup"]["push_cold"]["rows"] = plan.push_cold.rows
+        if after is not None:
+            doc["startup"]["after_prewarm"]["rows"] = after.rows
     return _clean(doc)
 
 
@@ -107,6 +120,11 @@ def plan_text(plan: Plan) -> str:
     lines.append(f"  start-up ({plan.start_mode}): {_h(plan.startup_time_s)}; line starts at {plan.line_start_temperature_k - 273.15:.1f} °C")
     lines.append(f"    pre-warm: {plan.prewarm.message}")
     lines.append(f"    push cold: {plan.push_cold.message}")
+    if plan.after_prewarm is not None:
+        lines.append(f"    after pre-warm: {plan.after_prewarm.message}")
+    peak = peak_discharge_pressure(plan)
+    if peak is not None:
+        lines.append(f"  peak discharge pressure {peak / 1e5:.2f} bar(g) (running or at the start)")
     h = plan.hold
     lines.append(f"  stop: limit {h.limit_temperature_k - 273.15:.1f} °C ({h.limit_reason}); first to reach it with tracing on "
                  f"{hours(h.time_to_limit_traced_s)} ({h.first_to_set_traced}), tracing failed {hours(h.time_to_limit_failed_s)} "
