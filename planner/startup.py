@@ -192,7 +192,8 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
     for row in rows_append:
         for key, value in zip(rows, row):
             rows[key].append(value)
-    message = (f"cold start at {first.flow * 3600:.1f} m³/h and {first.point.discharge_pressure / 1e5:.2f} bar; "
+    message = (f"starting against the line's contents at {start_temperature - 273.15:.0f} °C: "
+               f"{first.flow * 3600:.1f} m³/h and {first.point.discharge_pressure / 1e5:.2f} bar; "
                f"warm product reaches the destination after {time / 3600:.2f} h")
     if relief:
         message += " (relief valve lifts during the start)"
