@@ -156,6 +156,7 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
         t_jacket = t_amb + 0.2 * (t - t_amb) if has_layers else t
         g_out = None
         wall_drift = jacket_drift = 0.0
+        wall_last = jacket_last = None
         mu_wall, mu_wall_at = 1.0, -1.0
 
         slope_previous = None
@@ -164,13 +165,15 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
         for _ in range(n):
             # The coefficients are taken at the step's midpoint state.  On a segment's first step the
             # midpoint is reached by a half step from the start (two evaluations); after that it is
-            # predicted from the previous step's slope (one evaluation), which keeps second order.
+            # predicted with the previous step's coefficients (one evaluation), which keeps second order.
             if slope_previous is None:
                 t_eval = t
                 x_eval = x + 0.25 * dx
                 stages = (0, 1)
             else:
-                t_eval = t + 0.5 * dx * slope_previous
+                # predicted with the last step's own law (exponential approach to its equilibrium):
+                # a linear extrapolation would overshoot where the thermal length is shorter than a step
+                t_eval = _step(heater, t, slope_previous, 0.5 * dx, t_amb)
                 x_eval = x + 0.5 * dx
                 stages = (1,)
             for stage in stages:
@@ -210,7 +213,6 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
                 # the last evaluation extrapolated by its change (one pass usually settles it)
                 t_wall_guess += wall_drift
                 t_jacket += jacket_drift
-                wall_before, jacket_before = t_wall_guess, t_jacket
                 for _it in range(30):
                     if has_layers:
                         t_mean = t_wall_guess + t_jacket
@@ -232,18 +234,23 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
                     t_jacket = new_jacket if has_layers else 0.5 * (t_jacket + new_jacket)
                     if change < 0.02:
                         break
-                wall_drift = t_wall_guess - wall_before if stage else 0.0
-                jacket_drift = t_jacket - jacket_before if stage else 0.0
+                if stage:
+                    # drift of the converged values from the last step's, bounded: a guess, never a driver
+                    if wall_last is not None:
+                        wall_drift = max(-1.0, min(1.0, t_wall_guess - wall_last))
+                        jacket_drift = max(-1.0, min(1.0, t_jacket - jacket_last))
+                    wall_last, jacket_last = t_wall_guess, t_jacket
 
                 c1 = wall.c1
                 g = g_in * (1.0 - c1)
                 t_equilibrium = (wall.t_wall - c1 * t_eval) / (1.0 - c1)
                 mcp = mass_flow * cp
                 if stage == 0:
-                    t_eval = _advance(t, t_equilibrium, g, viscous, mcp, 0.5 * dx)
+                    t_eval = _step(heater, t, (t_equilibrium, g, viscous, mcp, wall, t_eval, g_in, g_out),
+                                   0.5 * dx, t_amb)
                     x_eval = x + 0.5 * dx
-            t_new = _advance(t, t_equilibrium, g, viscous, mcp, dx)
-            slope_previous = (t_new - t) / dx
+            slope_previous = (t_equilibrium, g, viscous, mcp, wall, t_eval, g_in, g_out)
+            t_new = _step(heater, t, slope_previous, dx, t_amb)
 
             grad_total = grad_friction + grad_fittings + grad_static
             p -= grad_total * dx
@@ -324,6 +331,69 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
     else:
         nodes, steps = {}, {}
     return MarchResult(summary, nodes, steps)
+
+
+def _step(heater, t: float, coefficients: tuple, dx: float, t_amb: float) -> float:
+    """Advance the bulk temperature over dx with the step's conductances frozen.
+
+    With g_in, g_out and the viscous source frozen, the product balance is piecewise linear in the
+    bulk temperature: heater at full output below T_low, thermostat holding the wall at the setpoint
+    between T_low and T_off, heater off above T_off (T_off: the bulk temperature whose passive wall is
+    at the setpoint; T_low: where holding would need more than the heater's capacity).  Each linear
+    piece is integrated exactly; where the path reaches a break it continues in the next piece, so a
+    step longer than the thermal length settles where the thermostat holds instead of overshooting.
+    """
+    t_equilibrium, g, viscous, mcp, wall, _, g_in, g_out = coefficients
+    t_end = _advance(t, t_equilibrium, g, viscous, mcp, dx)
+    if not heater.active or heater.setpoint is None:
+        return t_end
+    setpoint = heater.setpoint
+    t_off = (setpoint * (g_in + g_out) - g_out * t_amb) / g_in
+    t_low = setpoint - (heater._capacity_at_setpoint - g_out * (setpoint - t_amb)) / g_in
+    if t_low > t_off:
+        t_low = t_off
+    # the usual case: start and end lie in the regime the coefficients were taken in
+    regime = wall.regime
+    if regime == 2:
+        if t <= t_low + 1e-9 and t_end <= t_low + 1e-9:
+            return t_end
+    elif regime == 0:
+        if t >= t_off - 1e-9 and t_end >= t_off - 1e-9:
+            return t_end
+    elif t_low - 1e-9 <= t <= t_off + 1e-9 and t_low - 1e-9 <= t_end <= t_off + 1e-9:
+        return t_end
+    bounds = (t_low, t_off)
+    remaining = dx
+    for _ in range(4):
+        wall = heater.balance(t, g_in, g_out, t_amb)
+        c1 = wall.c1
+        g = g_in * (1.0 - c1)
+        t_equilibrium = (wall.t_wall - c1 * t) / (1.0 - c1)
+        t_end = _advance(t, t_equilibrium, g, viscous, mcp, remaining)
+        if bounds is None or g <= 1e-12:
+            return t_end
+        low, high = bounds
+        if t < low - 1e-9:
+            edge = low if t_end > low else None
+        elif t > high + 1e-9:
+            edge = high if t_end < high else None
+        else:
+            edge = None  # holding: the target (setpoint plus viscous heating) lies within reach
+            if t_end > high + 1e-9:
+                edge = high
+            elif t_end < low - 1e-9:
+                edge = low
+        if edge is None:
+            return t_end
+        target = t_equilibrium + viscous / g
+        if (target - edge) * (target - t) <= 0.0:
+            return t_end
+        dx_edge = -mcp / g * math.log((target - edge) / (target - t))
+        if not 0.0 <= dx_edge < remaining:
+            return t_end
+        remaining -= dx_edge
+        t = edge + (1e-9 if t_end > edge else -1e-9)
+    return t
 
 
 def _advance(t: float, t_equilibrium: float, g: float, viscous: float, mcp: float, dx: float) -> float:
