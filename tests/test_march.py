@@ -199,3 +199,23 @@ def test_grid_independence_on_every_demo(path):
     fine = evaluate(scenario, line=line, step=DEFAULT_STEP_M / 2).summary
     assert abs(coarse.outlet_temperature_k - fine.outlet_temperature_k) < 0.05
     assert abs(coarse.pressure_drop_pa - fine.pressure_drop_pa) < 0.002 * abs(fine.pressure_drop_pa)
+
+
+@pytest.mark.parametrize("flow", [1e-4, 3e-6, 1e-7])
+def test_trickle_flow_settles_at_the_thermostat_instead_of_oscillating(flow):
+    # A thermal length far shorter than a step: the product must settle where the thermostat holds the
+    # wall (setpoint, heater with capacity to spare), the same with 25 m and 1 m steps.
+    data = base_scenario(product=newtonian_product(mu_pa_s=100.0, density=1100.0, cp=2000.0, k=0.2))
+    data["site"]["ambient_temperature"] = 0.0
+    data["route"]["segments"][0].update(nps="4", length=1500.0,
+                                        insulation=[{"material": "mineral_wool", "thickness": 50}])
+    data["tracing"] = {"kind": "electric_self_regulating", "setpoint": 28.0, "output": "46 W/m"}
+    data["operation"] = {"flow": 1e-3, "inlet_temperature": 1.0}
+    scenario = scenario_from_dict(data)
+    line = line_from_scenario(scenario)
+    coarse = evaluate(scenario, flow=flow, line=line).summary
+    fine = evaluate(scenario, flow=flow, line=line, step=1.0).summary
+    assert coarse.outlet_temperature_k == pytest.approx(fine.outlet_temperature_k, abs=0.05)
+    if flow < 1e-5:
+        assert coarse.outlet_temperature_k == pytest.approx(301.15, abs=0.05)
+        assert coarse.max_jacket_temperature_k < 301.15
