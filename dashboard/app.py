@@ -2,8 +2,9 @@
 
 Layout: the sidebar holds the scenario (demo picker, file import), the unit system, the exports and
 the place for saving and sharing; the page shows the caution, the plan's key figures and the views
-as tabs (Plan, Inputs, Along the line, Over time, Setpoint comparison, Product). Only the open tab
-runs, so an edit recomputes the plan (cached by the scenario's JSON text) and redraws one tab.
+as tabs (Plan, Inputs, Along the line, Over time, Setpoint comparison, Product, Review). Only the open
+tab runs, so an edit recomputes the plan (cached by the scenario's JSON text) and redraws one tab.
+Saved plans, share links and review are in ``sharing.py``; a link in the address opens on the first run.
 """
 
 from __future__ import annotations
@@ -26,6 +27,7 @@ from dashboard import inputs, tables, views  # noqa: E402
 from dashboard.compute import cached_bundle  # noqa: E402
 from dashboard.display import CAUTION_TEXT, SYSTEM_NAMES  # noqa: E402
 from dashboard.report import build_report_html  # noqa: E402
+from dashboard import sharing  # noqa: E402
 from dashboard.sharing import save_share_review  # noqa: E402
 from planner.errors import ScenarioError  # noqa: E402
 from planner.scenario import (  # noqa: E402
@@ -33,7 +35,7 @@ from planner.scenario import (  # noqa: E402
 
 DEMO_DIR = ROOT / "demo_scenarios"
 DEMO_FILES = sorted(DEMO_DIR.glob("*.toml"))
-VIEWS = ["Plan", "Inputs", "Along the line", "Over time", "Setpoint comparison", "Product"]
+VIEWS = ["Plan", "Inputs", "Along the line", "Over time", "Setpoint comparison", "Product", sharing.REVIEW_TAB]
 log = logging.getLogger("dashboard")
 
 
@@ -45,6 +47,7 @@ def _set_work(data: dict, source: str) -> None:
     st.session_state["gen"] = st.session_state.get("gen", 0) + 1
     st.session_state["table_gen"] = {}
     st.session_state.pop("comparison", None)
+    sharing.forget_open_revision()              # another scenario: no saved revision is open any more
 
 
 def load_demo(path: Path) -> None:
@@ -90,7 +93,8 @@ def init_state() -> None:
         st.session_state["unit_system"] = st.session_state.get("unit_system", "SI")
         if DEMO_FILES:
             st.session_state["demo_choice"] = DEMO_FILES[0].name
-            load_demo(DEMO_FILES[0])
+        # a share link (query parameters) opens its scenario or saved revision; else the first demo
+        sharing.read_link_once(_set_work, lambda: load_demo(DEMO_FILES[0]) if DEMO_FILES else None)
         if "work" not in st.session_state:
             st.session_state["work"] = {}
             st.session_state["source"] = "no scenario"
@@ -166,6 +170,7 @@ def main() -> None:
     st.markdown('<style>div[class*="st-key-stale_"] { opacity: 0.45; filter: grayscale(100%); }</style>',
                 unsafe_allow_html=True)
     init_state()
+    sharing.apply_lock()
     unit_system = st.session_state.get("unit_system", "SI")
     scenario, scenario_json, problem_list = validate(st.session_state["work"])
     problems = inputs.Problems(problem_list)
@@ -190,6 +195,7 @@ def main() -> None:
     st.markdown(f"## Viscous Transfer Planner  \n**{_md_escape(name)}**")
     st.caption(f"{st.session_state.get('source', '')} — units: {SYSTEM_NAMES[unit_system]}")
     st.warning(CAUTION_TEXT, icon="⚠️")
+    sharing.page_notices()
     if problem_list:
         st.error(f"**The inputs have {len(problem_list)} problem(s)** — each message is shown beside its field "
                  "under Inputs:\n" + "\n".join(f"- `{p or '(file)'}`: {m}" for p, m in problem_list[:8])
@@ -214,7 +220,9 @@ def main() -> None:
             continue
         with tab:
             try:
-                if title == "Inputs":
+                if title == sharing.REVIEW_TAB:
+                    sharing.review_view(_set_work, unit_system)
+                elif title == "Inputs":
                     inputs.render_inputs(st.container(), problems)
                 elif title == "Setpoint comparison":
                     views.comparison_view(scenario, scenario_json if not stale else None, unit_system)

@@ -123,6 +123,11 @@ def system() -> str:
     return st.session_state.get("unit_system", "SI")
 
 
+def locked() -> bool:
+    """An approved saved revision is open: every input is read-only (``dashboard.sharing.apply_lock``)."""
+    return bool(st.session_state.get("inputs_locked"))
+
+
 def _wkey(path: str) -> str:
     return f"in{st.session_state.get('gen', 0)}|{system()}|{path}"
 
@@ -179,7 +184,7 @@ def number(container, problems: Problems, path: str, field_label: str, kind: str
     container.number_input(
         with_unit(field_label, kind, system()), value=None if value is None else float(value),
         step=STEPS.get((kind, system()), 10.0 ** -min(digits, 2)), format=f"%.{digits}f", key=key, help=help,
-        placeholder="empty: the planner's default" if value is None else None,
+        placeholder="empty: the planner's default" if value is None else None, disabled=locked(),
         on_change=_commit_number, args=(path, kind, key))
     show_problems(container, problems, path, field_label)
 
@@ -190,7 +195,7 @@ def select(container, problems: Problems, path: str, field_label: str, options: 
     index = options.index(raw) if raw in options else None
     key = _wkey(path)
     container.selectbox(field_label, options, index=index, key=key, help=help, format_func=format_func,
-                        on_change=_commit_value, args=(path, key))
+                        disabled=locked(), on_change=_commit_value, args=(path, key))
     show_problems(container, problems, path, field_label)
 
 
@@ -199,7 +204,7 @@ def text(container, problems: Problems, path: str, field_label: str, *, help: st
     raw = get_path(work(), path)
     key = _wkey(path)
     container.text_input(field_label, value="" if raw is None else str(raw), key=key, help=help,
-                         on_change=_commit_value, args=(path, key, optional))
+                         disabled=locked(), on_change=_commit_value, args=(path, key, optional))
     show_problems(container, problems, path, field_label)
 
 
@@ -208,7 +213,7 @@ def checkbox(container, problems: Problems, path: str, field_label: str, *, defa
     raw = get_path(work(), path)
     key = _wkey(path)
     container.checkbox(field_label, value=bool(default if raw is None else raw), key=key, help=help,
-                       on_change=_commit_value, args=(path, key))
+                       disabled=locked(), on_change=_commit_value, args=(path, key))
     show_problems(container, problems, path, field_label)
 
 
@@ -337,8 +342,9 @@ def table(container, problems: Problems, path: str, title: str, columns: tuple, 
     key = f"tb{st.session_state.get('gen', 0)}|{unit_system}|{path}|{generation}"
     if title:
         container.markdown(f"**{title}**" + (f" — {help}" if help else ""))
-    container.data_editor(frame, key=key, num_rows="dynamic", hide_index=True, column_config=config,
-                          on_change=_commit_table, args=(path, key, columns, template), width="stretch")
+    container.data_editor(frame, key=key, num_rows="fixed" if locked() else "dynamic", hide_index=True,
+                          column_config=config, disabled=locked(), on_change=_commit_table,
+                          args=(path, key, columns, template), width="stretch")
     field_titles = {c.field: c.title for c in columns if c.field}
     for problem_path, message in problems.take(path):
         rest = problem_path[len(path):]
@@ -495,6 +501,7 @@ def product_section(c, problems: Problems) -> None:
     current = product.get("preset") if product.get("preset") in PRODUCT_PRESETS else OWN_PRODUCT
     key = _wkey("product.preset")
     c.selectbox("Product", options, index=options.index(current), key=key, on_change=_change_preset, args=(key,),
+                disabled=locked(),
                 help="a preset (illustrative figures) or your own lab data; fields edited below override the preset")
     show_problems(c, problems, "product.preset", "Product")
     if product.get("illustrative"):

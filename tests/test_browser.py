@@ -248,3 +248,34 @@ def test_report_download_opens_offline(page, browser):
         report.screenshot(path=str(ARTIFACTS / "report-offline.png"))
     finally:
         offline.close()
+
+
+def test_share_link_opens_the_same_plan(browser, server):
+    """A packed-scenario link of a demo other than the first (the page's default) opens that scenario and view;
+    its key figures equal ``python -m planner plan <demo> --json``."""
+    from planner.links import link_url, query_for
+
+    ARTIFACTS.mkdir(exist_ok=True)
+    path = DEMO_FILES[1]
+    doc = cli_plan(path)
+    assert doc["scenario"] != load_scenario(DEMO_FILES[0]).name      # else the link would prove nothing
+    url = link_url(server, query_for("line", scenario=load_scenario(path)))
+    assert len(url) <= 2000
+    context = browser.new_context(viewport={"width": 1440, "height": 2200})
+    page = context.new_page()
+    page.set_default_timeout(90_000)
+    try:
+        page.goto(url)
+        page.get_by_text(doc["scenario"]).first.wait_for()
+        page.get_by_test_id("stMetricLabel").first.wait_for()
+        page.get_by_role("tab", name="Along the line", exact=True, selected=True).wait_for()
+        _wait_idle(page)
+        assert page.get_by_text("This link cannot be opened").count() == 0
+        shown = metrics(page)
+        page.screenshot(path=str(ARTIFACTS / "browser-share-link.png"))
+        for label, (value, half_digit, unit) in expected_key_figures(doc).items():
+            assert label in shown, f"{label!r} not on the page: {shown}"
+            assert shown[label].endswith(unit), (label, shown[label])
+            assert _number(shown[label]) == pytest.approx(value, abs=half_digit * 1.001), (label, shown[label])
+    finally:
+        context.close()
