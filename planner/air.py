@@ -38,7 +38,7 @@ _K_C = _K0 * (_T0 + _S_K) / _T0**1.5
 
 # Ideal-gas heat capacity polynomial for air, cp = a + bT + cT^2 + dT^3 [kJ/(kmol K)],
 # 273-1800 K, stated max error 0.72 % (Cengel & Boles, Thermodynamics, Table A-2c) [mem]
-# unverified as a transcription; the tests hold it to 1 % against the reference formulation.
+# unverified as copied; the tests hold it to 1 % against the reference formulation.
 _CP_A = 28.11
 _CP_B = 0.1967e-2
 _CP_C = 0.4802e-5
