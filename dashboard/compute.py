@@ -39,8 +39,6 @@ def cached_comparison(scenario_json: str, lever: str, values_si: tuple, sensitiv
     try:
         scenario = parse_scenario_text(scenario_json, "json")
         return run_comparison(scenario, lever, list(values_si), progress=_progress, sensitivity=sensitivity)
-    except ImportError:
-        return {"error": "the setpoint comparison is not available yet in this version of the planner"}
     except (PlannerError, ValueError, ArithmeticError) as exc:
         return {"error": str(exc)}
     except Exception as exc:  # noqa: BLE001

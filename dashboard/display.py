@@ -14,7 +14,7 @@ from functools import lru_cache
 import numpy as np
 
 from planner.report_text import STANDING_CAUTION
-from planner.units import SI_UNITS, UNIT_SYSTEMS, from_si, registry, to_si, to_si_from_display, unit_label
+from planner.units import SI_UNITS, from_si, registry, to_si, to_si_from_display, unit_label
 
 SYSTEM_NAMES = {"SI": "SI (metric)", "US": "US customary"}
 

@@ -94,16 +94,8 @@ def _findings_html(bundle: dict, system: str) -> str:
     parts = []
     for severity in SEVERITY_ORDER:
         for f in (x for x in findings if x.get("severity") == severity):
-            where = tables.where_text(f, system)
-            value = tables.value_text(f.get("value"), f.get("unit"), system)
-            limit = tables.value_text(f.get("limit"), f.get("unit"), system)
             lines = [f"<b>{html.escape(severity.upper())}: {html.escape(f.get('title', ''))}</b> — {html.escape(f.get('message', ''))}"]
-            if where:
-                lines.append(f"Where: {html.escape(where)}")
-            if value or limit:
-                lines.append(f"Value: {html.escape(value or '—')}" + (f"; limit: {html.escape(limit)}" if limit else ""))
-            if f.get("action"):
-                lines.append(f"What to do: {html.escape(f['action'])}")
+            lines += [html.escape(line) for line in tables.finding_details(f, system)]
             lines.append(f"<code>{html.escape(f.get('code', ''))}</code>")
             parts.append(f'<div class="finding {html.escape(severity)}">' + "<br>".join(lines) + "</div>")
     return "\n".join(parts) or "<p>No findings.</p>"

@@ -8,16 +8,18 @@ the segment boundaries, the findings and the product's viscosity curve. Everythi
 
 from __future__ import annotations
 
-import dataclasses
 import math
 
 import numpy as np
 
+from planner.compare import compare
 from planner.errors import PlannerError
+from planner.findings import assess
 from planner.model import line_from_scenario
 from planner.plan import make_plan
 from planner.plan_report import plan_json
 from planner.products import Product
+from planner.ratings import flange_rating
 from planner.route import build_line
 from planner.scenario import ProductSpec, Scenario, problems_from
 
@@ -68,17 +70,12 @@ def profile_arrays(plan) -> dict | None:
 def findings_of(plan) -> tuple[list[dict] | None, str]:
     """``planner.findings.assess(plan)`` as dicts, or None with the reason."""
     try:
-        from planner.findings import assess
-    except ImportError:
-        return None, "findings are not available yet in this version of the planner"
-    try:
         found = assess(plan)
     except (PlannerError, ValueError) as exc:
         return None, f"findings could not be assessed: {exc}"
     rows = []
     for f in found:
-        row = f.as_dict() if hasattr(f, "as_dict") else dataclasses.asdict(f)
-        rows.append(_plain(row))
+        rows.append(_plain(f.as_dict()))
     return rows, ""
 
 
@@ -88,10 +85,6 @@ def node_ratings(segments, nodes: dict | None) -> np.ndarray | None:
     (``planner.ratings.flange_rating``); NaN where neither is known."""
     if nodes is None:
         return None
-    try:
-        from planner.ratings import flange_rating
-    except ImportError:
-        flange_rating = None
     x, temps = nodes["x"], nodes["temperature"]
     out = np.full(len(x), np.nan)
     for i, (xi, ti) in enumerate(zip(x, temps)):
@@ -100,7 +93,7 @@ def node_ratings(segments, nodes: dict | None) -> np.ndarray | None:
             if seg.x_start - 1e-9 <= xi <= seg.x_end + 1e-9:
                 if seg.pressure_rating is not None:
                     limits.append(seg.pressure_rating)
-                if seg.flange_class is not None and flange_rating is not None:
+                if seg.flange_class is not None:
                     rating = flange_rating(seg.flange_class, float(ti))
                     if rating is not None:
                         limits.append(rating)
@@ -221,11 +214,7 @@ LEVERS = {
 
 def run_comparison(scenario: Scenario, lever: str, values_si: list[float], progress=None,
                    sensitivity: bool = False) -> dict:
-    """``planner.compare.compare`` as plain data with the lever's values in SI (K, Pa, rev/s, m3/s).
-
-    Raises ImportError while the planner has no ``compare`` module."""
-    from planner.compare import compare
-
+    """``planner.compare.compare`` as plain data with the lever's values in SI (K, Pa, rev/s, m3/s)."""
     from .display import from_display, to_display
 
     kind = LEVERS[lever][1]

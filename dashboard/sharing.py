@@ -617,7 +617,6 @@ def _open_panel(set_work, unit_system: str) -> None:
 
 
 def _browse_panel(set_work, unit_system: str) -> None:
-    ss = st.session_state
     st.markdown("#### Saved plans")
     a, b, c, d = st.columns(4)
     search = a.text_input("Name contains", key="rv_q")

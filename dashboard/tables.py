@@ -173,6 +173,22 @@ def where_text(finding: dict, system: str) -> str:
     return ", ".join(parts)
 
 
+def finding_details(finding: dict, system: str) -> list[str]:
+    """The lines under a finding's heading, in display units: where, value and limit, what to do.
+    Shared by the page and the HTML report, which only differ in markup."""
+    lines = []
+    where = where_text(finding, system)
+    if where:
+        lines.append(f"Where: {where}")
+    value = value_text(finding.get("value"), finding.get("unit"), system)
+    limit = value_text(finding.get("limit"), finding.get("unit"), system)
+    if value or limit:
+        lines.append(f"Value: {value or '—'}" + (f"; limit: {limit}" if limit else ""))
+    if finding.get("action"):
+        lines.append(f"What to do: {finding['action']}")
+    return lines
+
+
 def energy_cost_frame(plan: dict, system: str) -> pd.DataFrame:
     e, c = plan["energy"], plan["costs"]
     cur = c.get("currency", "")

@@ -58,16 +58,8 @@ def findings_block(bundle: dict, unit_system: str) -> None:
         box, icon, heading = SEVERITY_STYLE[severity]
         with st.expander(f"{heading} ({len(items)})", icon=icon, expanded=severity in ("stop", "warning")):
             for f in items:
-                where = tables.where_text(f, unit_system)
-                value = tables.value_text(f.get("value"), f.get("unit"), unit_system)
-                limit = tables.value_text(f.get("limit"), f.get("unit"), unit_system)
                 lines = [f"**{f.get('title', '')}** — {f.get('message', '')}"]
-                if where:
-                    lines.append(f"Where: {where}")
-                if value or limit:
-                    lines.append(f"Value: {value or '—'}" + (f"; limit: {limit}" if limit else ""))
-                if f.get("action"):
-                    lines.append(f"What to do: {f['action']}")
+                lines += tables.finding_details(f, unit_system)
                 lines.append(f"`{f.get('code', '')}`")
                 box("  \n".join(lines), icon=icon)
 
@@ -176,11 +168,6 @@ def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_s
     """Plans at several values of a lever (tracing setpoint first); the recommended row is starred."""
     if scenario is None or scenario_json is None:
         st.info("Fix the inputs first: the comparison runs on a valid scenario.")
-        return
-    try:
-        import planner.compare  # noqa: F401
-    except ImportError:
-        st.info("The setpoint comparison is not available yet in this version of the planner.")
         return
     levers = _lever_options(scenario)
     gen = st.session_state.get("gen", 0)

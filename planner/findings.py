@@ -15,7 +15,6 @@ from dataclasses import dataclass
 import numpy as np
 
 from .heat_loss import jacket_temperature
-from .heat_transfer import h_outer_cylinder  # noqa: F401  (documented dependency of jacket_temperature)
 from .plan import Plan
 from .ratings import flange_rating, temperature_class_limit
 from .report_text import STANDING_CAUTION

@@ -7,14 +7,15 @@ Outward path (series resistances per metre of line):
 The jacket temperature sets the surface coefficient, so it is solved by fixed-point iteration
 (insulation dominates, so it converges in a few passes; warm starts along the line make it 1–2).
 
-Inward path: the product's film (``heat_transfer.nu_internal``) plus the pipe wall conduction.
+Inward path: the product's film (``heat_transfer.nu_internal``) plus the pipe wall conduction, worked
+out inline in ``march.py`` where it changes every step.
 """
 
 from __future__ import annotations
 
 import math
 
-from .heat_transfer import h_outer_cylinder, nu_internal
+from .heat_transfer import h_outer_cylinder
 from .route import LineSegment
 
 PI = math.pi
@@ -67,12 +68,3 @@ def jacket_temperature(seg: LineSegment, t_wall: float, tolerance: float = 1e-3,
         # light damping: bare pipes (r_ins = 0) converge without it, thick layers too
         t_jacket = 0.5 * (t_jacket + new) if not seg.layers else new
     return t_jacket, g_out * (t_wall - t_ambient)
-
-
-def inner_conductance(seg: LineSegment, reynolds: float, prandtl: float, conductivity: float,
-                      darcy_f: float, distance_from_inlet: float, viscosity_ratio: float) -> tuple[float, float]:
-    """(conductance product->wall surface [W/(m K)], film coefficient [W/(m2 K)])."""
-    d = seg.inside_diameter
-    nu = nu_internal(reynolds, prandtl, d / max(distance_from_inlet, d), darcy_f, viscosity_ratio)
-    h = nu * conductivity / d
-    return 1.0 / (1.0 / (h * PI * d) + seg.wall_resistance), h

@@ -393,10 +393,9 @@ class Vessel(_Model):
 
 
 def vessel_capacity(v: "Vessel") -> float | None:
+    """Full volume of a closed shape; None where the height is open (vertical cylinder, box)."""
     if v.shape == "horizontal_cylinder":
         return math.pi * v.diameter ** 2 / 4.0 * v.length
-    if v.shape == "box" and v.diameter is None:
-        return None  # open height
     return None
 
 

@@ -16,7 +16,7 @@ import dataclasses
 import math
 from dataclasses import dataclass, field
 
-from .march import Line, march
+from .march import Line
 from .route import LineSegment
 from .system import SystemState, TransferSystem
 from .transients import evolve
@@ -150,7 +150,6 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
                         math.nan, math.nan, math.nan, None, False)
     warm_state = SystemState(system.source.temperature, system.source.initial_volume)
     segments = system.discharge_line.segments
-    length = sum(s.length for s in segments)
     volume = sum(s.area * s.length for s in segments)
     suction_volume = sum(s.area * s.length for s in system.suction_line.segments) if system.suction_line else 0.0
     rows = {"volume_fraction": [], "flow_m3_s": [], "discharge_pressure_pa": [], "pump_differential_pa": [],

@@ -443,7 +443,7 @@ class TransferSystem:
 MIN_FLOW_FRACTION = 1e-3
 
 
-def _bracket_down(function, high: float, guess: float | None, below_is_negative: bool = True):
+def _bracket_down(function, high: float, guess: float | None):
     """Find [a, b] with function(a) < 0 <= function(b), b <= high, searching down from ``high``
     (first in a narrow band around a guess).  None when no sign change is found down to a trickle."""
     if function(high) < 0.0:

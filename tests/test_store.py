@@ -10,7 +10,6 @@ import subprocess
 import sys
 import textwrap
 import threading
-import time
 
 import pytest
 from sqlalchemy.exc import IntegrityError
