@@ -30,7 +30,7 @@ from dashboard.report import build_report_html  # noqa: E402
 from dashboard import sharing  # noqa: E402
 from dashboard.sharing import save_share_review  # noqa: E402
 from planner.errors import ScenarioError  # noqa: E402
-from planner.scenario import (  # noqa: E402
+from planner.scenario.schema import (  # noqa: E402
     Scenario, load_scenario, scenario_from_dict, scenario_to_dict, scenario_to_json, scenario_to_toml)
 
 DEMO_DIR = ROOT / "demo_scenarios"

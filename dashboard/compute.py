@@ -1,6 +1,6 @@
 """Cached planner calls for the pages, keyed by the scenario's canonical JSON text.
 
-The JSON text is ``planner.scenario.scenario_to_json`` of the validated scenario, so unchanged
+The JSON text is ``planner.scenario.schema.scenario_to_json`` of the validated scenario, so unchanged
 inputs (in any unit system) hit the cache and do not recompute.  Planner errors come back as
 ``{"error": message}`` (cached too); they are never raised into the page.
 """
@@ -12,7 +12,7 @@ import logging
 import streamlit as st
 
 from planner.errors import PlannerError, ScenarioError
-from planner.scenario import parse_scenario_text
+from planner.scenario.schema import parse_scenario_text
 
 from .results import build_bundle, run_comparison
 

@@ -1,7 +1,7 @@
 """Display units and number formatting for the dashboard and its report (no Streamlit here).
 
 Every conversion goes through ``planner.units``: ``from_si`` / ``to_si_from_display`` for the kinds
-of ``planner.units.UNIT_SYSTEMS`` and the package's pint registry for the few kinds shown in the same
+of ``planner.scenario.units.UNIT_SYSTEMS`` and the package's pint registry for the few kinds shown in the same
 unit in both systems (pump speed in rpm, displacement in litres, coefficients per m² or per m).
 """
 
@@ -13,8 +13,8 @@ from functools import lru_cache
 
 import numpy as np
 
-from planner.report_text import STANDING_CAUTION
-from planner.units import SI_UNITS, from_si, registry, to_si, to_si_from_display, unit_label
+from planner.reports.text import STANDING_CAUTION
+from planner.scenario.units import SI_UNITS, from_si, registry, to_si, to_si_from_display, unit_label
 
 SYSTEM_NAMES = {"SI": "SI (metric)", "US": "US customary"}
 

@@ -1,7 +1,7 @@
 """The inputs: widgets that edit the working scenario dict, and the messages beside them.
 
 The working scenario lives in ``st.session_state["work"]`` as a plain scenario dict (the form
-``planner.scenario.scenario_to_dict`` writes: numbers in the field's default unit, or strings with
+``planner.scenario.schema.scenario_to_dict`` writes: numbers in the field's default unit, or strings with
 a unit). Each widget shows its field in the chosen unit system and, when the operator changes it,
 writes the new value back as an SI string with its unit (``"333.15 K"``) through an ``on_change``
 callback, so that only edited fields change and every edit survives switching tabs or units.
@@ -20,9 +20,9 @@ from typing import Any, Callable
 import pandas as pd
 import streamlit as st
 
-from planner.materials import INSULATION_MATERIALS
-from planner.presets import PRODUCT_PRESETS
-from planner.scenario import ProductSpec
+from planner.correlations.materials import INSULATION_MATERIALS
+from planner.scenario.presets import PRODUCT_PRESETS
+from planner.scenario.schema import ProductSpec
 
 from . import figures
 from .display import from_display, si_string, stored_to_si, to_display, with_unit

@@ -3,7 +3,7 @@
 Plotly's JavaScript is inlined once in the page head, so the file opens offline (about 5 MB).
 No Streamlit here: ``build_report_html(scenario, bundle, system)`` works from a script too::
 
-    from planner.scenario import load_scenario
+    from planner.scenario.schema import load_scenario
     from dashboard.results import build_bundle
     from dashboard.report import build_report_html
     s = load_scenario("demo_scenarios/syrup_railcar_unload.toml")
@@ -18,7 +18,7 @@ import html
 import pandas as pd
 from plotly.offline import get_plotlyjs
 
-from planner.scenario import Scenario, scenario_to_toml
+from planner.scenario.schema import Scenario, scenario_to_toml
 
 from . import figures, tables
 from .display import CAUTION_TEXT, SYSTEM_NAMES, fmt, key_figures

@@ -1,7 +1,7 @@
 """Planner calls for the dashboard, returning plain data (no Streamlit here).
 
 ``build_bundle(scenario)`` runs the plan once and keeps what the pages and the report draw: the
-documented plan JSON (``planner.plan_report.plan_json``, the same document as
+documented plan JSON (``planner.reports.plan_json.plan_json``, the same document as
 ``python -m planner plan SCENARIO --json``), the profile along the discharge line at the start,
 the segment boundaries, the findings and the product's viscosity curve. Everything is SI.
 """
@@ -12,16 +12,16 @@ import math
 
 import numpy as np
 
-from planner.compare import compare
+from planner.checks.compare import compare
 from planner.errors import PlannerError
-from planner.findings import assess
-from planner.model import line_from_scenario
-from planner.plan import make_plan
-from planner.plan_report import plan_json
-from planner.products import Product
-from planner.ratings import flange_rating
-from planner.route import build_line
-from planner.scenario import ProductSpec, Scenario, problems_from
+from planner.checks.findings import assess
+from planner.scenario.model import line_from_scenario
+from planner.transfer.plan import make_plan
+from planner.reports.plan_json import plan_json
+from planner.line.products import Product
+from planner.correlations.ratings import flange_rating
+from planner.line.route import build_line
+from planner.scenario.schema import ProductSpec, Scenario, problems_from
 
 SEVERITY_ORDER = ("stop", "warning", "caution", "info")   # most severe first, as the pages list them
 
@@ -68,7 +68,7 @@ def profile_arrays(plan) -> dict | None:
 
 
 def findings_of(plan) -> tuple[list[dict] | None, str]:
-    """``planner.findings.assess(plan)`` as dicts, or None with the reason."""
+    """``planner.checks.findings.assess(plan)`` as dicts, or None with the reason."""
     try:
         found = assess(plan)
     except (PlannerError, ValueError) as exc:
@@ -82,7 +82,7 @@ def findings_of(plan) -> tuple[list[dict] | None, str]:
 def node_ratings(segments, nodes: dict | None) -> np.ndarray | None:
     """Pressure rating [Pa gauge] at each node of the start profile: the lower of the segment's own
     rating and its ASME B16.5 flange rating at the product temperature there
-    (``planner.ratings.flange_rating``); NaN where neither is known."""
+    (``planner.correlations.ratings.flange_rating``); NaN where neither is known."""
     if nodes is None:
         return None
     x, temps = nodes["x"], nodes["temperature"]
@@ -214,7 +214,7 @@ LEVERS = {
 
 def run_comparison(scenario: Scenario, lever: str, values_si: list[float], progress=None,
                    sensitivity: bool = False) -> dict:
-    """``planner.compare.compare`` as plain data with the lever's values in SI (K, Pa, rev/s, m3/s)."""
+    """``planner.checks.compare.compare`` as plain data with the lever's values in SI (K, Pa, rev/s, m3/s)."""
     from .display import from_display, to_display
 
     kind = LEVERS[lever][1]

@@ -1,7 +1,7 @@
 """Save / share / review: saved plans, share links and the supervisor's sign-off.
 
 Everything lasting goes through the planner: revisions and the review trail through
-``planner.store.PlanStore`` (one SQLite file; revisions are never overwritten and an approved one
+``planner.records.store.PlanStore`` (one SQLite file; revisions are never overwritten and an approved one
 is immutable in the database itself), links through ``planner.links`` (bounded, validated decoding
 of untrusted query parameters).  This module only lays them out.
 
@@ -32,9 +32,9 @@ import pandas as pd
 import streamlit as st
 
 from planner.errors import PlannerError, ScenarioError
-from planner.links import URL_BUDGET_CHARS, LinkError, fits_in_url, link_url, parse_query, query_for
-from planner.scenario import Scenario, scenario_from_dict, scenario_to_dict, scenario_to_json
-from planner.store import STATES, PlanStore, Revision, StoreError, canonical_json, default_path
+from planner.records.links import URL_BUDGET_CHARS, LinkError, fits_in_url, link_url, parse_query, query_for
+from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_dict, scenario_to_json
+from planner.records.store import STATES, PlanStore, Revision, StoreError, canonical_json, default_path
 
 from .display import J_PER_KWH, fmt, key_figures, number_text
 from .results import SEVERITY_ORDER
@@ -42,7 +42,7 @@ from .results import SEVERITY_ORDER
 log = logging.getLogger(__name__)
 
 REVIEW_TAB = "Review"
-# link view name (planner.links.VIEWS) <-> tab title in app.VIEWS
+# link view name (planner.records.links.VIEWS) <-> tab title in app.VIEWS
 LINK_VIEWS = {"plan": "Plan", "inputs": "Inputs", "line": "Along the line", "time": "Over time",
               "compare": "Setpoint comparison", "product": "Product", "review": REVIEW_TAB}
 TAB_TO_LINK = {tab: view for view, tab in LINK_VIEWS.items()}
@@ -244,7 +244,7 @@ def load_revision(set_work: Callable[[dict, str], None], plan_id: int, number: i
 
 def read_link_once(set_work: Callable[[dict, str], None], load_default: Callable[[], None]) -> None:
     """Open what ``st.query_params`` asks for, once per session; on a bad link show its message and
-    the default scenario.  The link data is untrusted: only ``planner.links.parse_query`` reads it."""
+    the default scenario.  The link data is untrusted: only ``planner.records.links.parse_query`` reads it."""
     ss = st.session_state
     if ss.get("link_read"):
         return

@@ -5,7 +5,7 @@ from __future__ import annotations
 import pandas as pd
 import streamlit as st
 
-from planner.scenario import Scenario
+from planner.scenario.schema import Scenario
 
 from . import figures, tables
 from .compute import cached_comparison
@@ -183,7 +183,7 @@ def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_s
                              help="also with the ambient ±10 K and the viscosity ±20 % (five times the work)")
     run = st.button("Compare", type="primary", key=f"cmp_run{gen}")
     if run:
-        from planner.compare import parse_range
+        from planner.checks.compare import parse_range
 
         try:
             values_display = parse_range(text)

@@ -1,5 +1,5 @@
 """``python -m planner``: see planner.cli."""
 
-from .cli import main
+from planner.cli import main
 
 raise SystemExit(main())

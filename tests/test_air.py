@@ -7,7 +7,7 @@ Lemmon & Jacobsen 2004 viscosity and conductivity), a test-time reference only.
 import pytest
 from iapws.humidAir import Air
 
-from planner.air import (
+from planner.correlations.air import (
     air_conductivity,
     air_density,
     air_heat_capacity,

@@ -23,8 +23,8 @@ from pathlib import Path
 import pytest
 
 from conftest import DEMO_FILES, ROOT
-from planner.plan import make_plan, with_changes
-from planner.scenario import load_scenario
+from planner.transfer.plan import make_plan, with_changes
+from planner.scenario.schema import load_scenario
 
 CHROMIUM = Path("/usr/bin/chromium")
 ARTIFACTS = ROOT / "test-artifacts"
@@ -253,7 +253,7 @@ def test_report_download_opens_offline(page, browser):
 def test_share_link_opens_the_same_plan(browser, server):
     """A packed-scenario link of a demo other than the first (the page's default) opens that scenario and view;
     its key figures equal ``python -m planner plan <demo> --json``."""
-    from planner.links import link_url, query_for
+    from planner.records.links import link_url, query_for
 
     ARTIFACTS.mkdir(exist_ok=True)
     path = DEMO_FILES[1]

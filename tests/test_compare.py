@@ -9,8 +9,8 @@ import sys
 import pytest
 
 from conftest import DEMO_FILES, ROOT
-from planner.compare import compare, parse_range, recommend, shutdown_pool
-from planner.scenario import load_scenario, scenario_from_dict, scenario_to_dict
+from planner.checks.compare import compare, parse_range, recommend, shutdown_pool
+from planner.scenario.schema import load_scenario, scenario_from_dict, scenario_to_dict
 
 SYRUP = ROOT / "demo_scenarios" / "syrup_railcar_unload.toml"
 

@@ -16,10 +16,10 @@ import pytest
 from streamlit.testing.v1 import AppTest
 
 from conftest import DEMO_FILES, ROOT
-from planner.plan import make_plan, with_changes
-from planner.plan_report import plan_json
-from planner.report_text import STANDING_CAUTION
-from planner.scenario import load_scenario
+from planner.transfer.plan import make_plan, with_changes
+from planner.reports.plan_json import plan_json
+from planner.reports.text import STANDING_CAUTION
+from planner.scenario.schema import load_scenario
 
 APP = str(ROOT / "dashboard" / "app.py")
 VIEWS = ["Plan", "Inputs", "Along the line", "Over time", "Setpoint comparison", "Product"]
@@ -236,7 +236,7 @@ def test_table_edits_are_written_back_in_si(monkeypatch):
     import streamlit as st
 
     from dashboard import inputs
-    from planner.scenario import scenario_from_dict, scenario_to_dict
+    from planner.scenario.schema import scenario_from_dict, scenario_to_dict
 
     original = scenario_to_dict(load_scenario(DEMO_FILES[-1]))
     state = {"work": copy.deepcopy(original), "unit_system": "US", "gen": 1}

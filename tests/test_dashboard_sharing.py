@@ -1,8 +1,8 @@
 """Saved plans, share links and review in the dashboard, through streamlit.testing.v1.AppTest.
 
 References: the scenario and plan numbers come from the planner itself (``load_scenario``, ``make_plan`` +
-``plan_json``: the document ``python -m planner plan --json`` prints; ``planner.findings.assess`` for the
-finding counts), link messages from ``planner.links.parse_query``, saved state from ``planner.store.PlanStore``
+``plan_json``: the document ``python -m planner plan --json`` prints; ``planner.checks.findings.assess`` for the
+finding counts), link messages from ``planner.records.links.parse_query``, saved state from ``planner.records.store.PlanStore``
 opened on the same file.  The dashboard must show and store those, not recompute them.  Every test points
 ``PLANNER_DB_PATH`` at a file of its own (the dashboard reads it when it first opens the store).
 """
@@ -18,14 +18,14 @@ import pytest
 from streamlit.testing.v1 import AppTest
 
 from conftest import DEMO_FILES, ROOT
-from planner.findings import assess
-from planner.links import (LINK_VERSION, URL_BUDGET_CHARS, LinkError, fits_in_url, link_url, pack_scenario,
+from planner.checks.findings import assess
+from planner.records.links import (LINK_VERSION, URL_BUDGET_CHARS, LinkError, fits_in_url, link_url, pack_scenario,
                            parse_query, query_for)
-from planner.plan import make_plan, with_changes
-from planner.plan_report import plan_json
-from planner.report_text import STANDING_CAUTION
-from planner.scenario import load_scenario, scenario_from_dict, scenario_to_dict
-from planner.store import PlanStore
+from planner.transfer.plan import make_plan, with_changes
+from planner.reports.plan_json import plan_json
+from planner.reports.text import STANDING_CAUTION
+from planner.scenario.schema import load_scenario, scenario_from_dict, scenario_to_dict
+from planner.records.store import PlanStore
 from test_dashboard import peak_discharge_pressure
 
 APP = str(ROOT / "dashboard" / "app.py")
@@ -104,7 +104,7 @@ def test_a_share_link_opens_the_same_inputs_and_view(path, db):
 
 def _pack_raw(data: bytes) -> str:
     """A well-formed version-1 payload around arbitrary bytes (the format of planner.links)."""
-    from planner.links import _ZDICT_V1
+    from planner.records.links import _ZDICT_V1
 
     packer = zlib.compressobj(9, zlib.DEFLATED, 15, 9, zlib.Z_DEFAULT_STRATEGY, _ZDICT_V1)
     packed = packer.compress(data) + packer.flush()

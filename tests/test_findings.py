@@ -9,12 +9,12 @@ import math
 import pytest
 
 from conftest import base_scenario, newtonian_product
-from planner.findings import assess
-from planner.plan import make_plan
-from planner.pumps import hi_parameter_b
-from planner.ratings import flange_rating, temperature_class_limit
-from planner.scenario import scenario_from_dict
-from planner.steam import saturation_pressure
+from planner.checks.findings import assess
+from planner.transfer.plan import make_plan
+from planner.transfer.pumps import hi_parameter_b
+from planner.correlations.ratings import flange_rating, temperature_class_limit
+from planner.scenario.schema import scenario_from_dict
+from planner.correlations.steam import saturation_pressure
 
 
 def bench(**changes) -> dict:
@@ -285,7 +285,7 @@ def test_centrifugal_viscosity_correction_outside_hi_range():
 
 
 def test_tracing_that_cannot_hold_its_setpoint_at_design_ambient():
-    from planner.heat_loss import jacket_temperature
+    from planner.line.heat_loss import jacket_temperature
 
     def traced(output):
         d = bench()

@@ -6,7 +6,7 @@ fluids is a test-time reference only; planner.fittings carries its own tables.
 import fluids.fittings
 import pytest
 
-from planner.fittings import (
+from planner.correlations.fittings import (
     DARBY_3K,
     HOOPER_2K,
     fitting_coefficients,

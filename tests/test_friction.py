@@ -9,7 +9,7 @@ import math
 import fluids.friction
 import pytest
 
-from planner.friction import (
+from planner.correlations.friction import (
     RE_LAMINAR_MAX,
     RE_TURBULENT_MIN,
     darcy_colebrook,

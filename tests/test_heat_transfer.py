@@ -1,7 +1,7 @@
 """Checks of planner.heat_transfer against ht 1.2.0, iapws 1.5.5 and published values.
 
 ht and iapws are test-time references only; planner.heat_transfer implements the correlations
-itself and takes air properties from planner.air.
+itself and takes air properties from planner.correlations.air.
 """
 
 import math
@@ -12,8 +12,8 @@ from ht.conv_free_immersed import Nu_horizontal_cylinder_Churchill_Chu
 from ht.conv_internal import laminar_entry_Seider_Tate, turbulent_Gnielinski
 from iapws.humidAir import Air
 
-from planner.friction import darcy_friction
-from planner.heat_transfer import (
+from planner.correlations.friction import darcy_friction
+from planner.correlations.heat_transfer import (
     D_OVER_X_MAX,
     NU_LAMINAR_DEVELOPED,
     h_outer_cylinder,

@@ -11,9 +11,9 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from conftest import DEMO_FILES
-from planner.links import (LINK_VERSION, MAX_JSON_BYTES, LinkError, fits_in_url, link_url, pack_scenario,
+from planner.records.links import (LINK_VERSION, MAX_JSON_BYTES, LinkError, fits_in_url, link_url, pack_scenario,
                            parse_query, query_for, unpack_scenario)
-from planner.scenario import Scenario, load_scenario, scenario_to_dict
+from planner.scenario.schema import Scenario, load_scenario, scenario_to_dict
 
 SCENARIOS = [load_scenario(p) for p in DEMO_FILES]
 PAYLOADS = [pack_scenario(s) for s in SCENARIOS]
@@ -56,7 +56,7 @@ def test_clear_messages_for_bad_links():
 
 
 def _pack_raw(data: bytes) -> str:
-    from planner.links import _ZDICT_V1
+    from planner.records.links import _ZDICT_V1
 
     c = zlib.compressobj(9, zlib.DEFLATED, 15, 9, zlib.Z_DEFAULT_STRATEGY, _ZDICT_V1)
     packed = c.compress(data) + c.flush()

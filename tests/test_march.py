@@ -7,10 +7,10 @@ import math
 import pytest
 
 from conftest import DEMO_FILES, base_scenario, newtonian_product
-from planner.march import DEFAULT_STEP_M
-from planner.model import evaluate, line_from_scenario
-from planner.scenario import load_scenario, scenario_from_dict
-from planner.units import GRAVITY
+from planner.line.march import DEFAULT_STEP_M
+from planner.scenario.model import evaluate, line_from_scenario
+from planner.scenario.schema import load_scenario, scenario_from_dict
+from planner.scenario.units import GRAVITY
 
 ID_2IN_SCH40 = 0.05248   # ASME B36.10M NPS 2 Sch 40 inside diameter (REFERENCES.md, fluids.piping)
 OD_2IN = 0.0603

@@ -10,12 +10,12 @@ import sys
 import pytest
 
 from conftest import DEMO_FILES, ROOT, base_scenario, newtonian_product
-from planner.plan import make_plan, with_changes
-from planner.scenario import load_scenario, scenario_from_dict
-from planner.system import SystemState, TransferSystem
-from planner.timeline import run_transfer
-from planner.units import ATMOSPHERE_PA, GRAVITY
-from planner.vessels import cool_contents, level_from_volume
+from planner.transfer.plan import make_plan, with_changes
+from planner.scenario.schema import load_scenario, scenario_from_dict
+from planner.transfer.system import SystemState, TransferSystem
+from planner.transfer.timeline import run_transfer
+from planner.scenario.units import ATMOSPHERE_PA, GRAVITY
+from planner.transfer.vessels import cool_contents, level_from_volume
 
 ID_4IN_SCH40 = 0.10226  # ASME B36.10M via fluids.piping (REFERENCES.md)
 

@@ -8,10 +8,10 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from planner.errors import PlannerError
-from planner.findings import assess
-from planner.plan import make_plan
-from planner.plan_report import plan_json
-from planner.scenario import scenario_from_dict
+from planner.checks.findings import assess
+from planner.transfer.plan import make_plan
+from planner.reports.plan_json import plan_json
+from planner.scenario.schema import scenario_from_dict
 from test_findings import bench
 
 

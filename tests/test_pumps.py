@@ -11,7 +11,7 @@ import numpy as np
 import pytest
 import scipy.constants as sc
 
-from planner.pumps import (
+from planner.transfer.pumps import (
     CentrifugalPump,
     HICorrection,
     PositiveDisplacementPump,

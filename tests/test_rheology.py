@@ -10,7 +10,7 @@ import math
 
 import pytest
 
-from planner.rheology import (
+from planner.correlations.rheology import (
     NonNewtonianFlow,
     fanning_buckingham_reiner,
     fanning_dodge_metzner,

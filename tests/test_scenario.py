@@ -11,10 +11,10 @@ from hypothesis import strategies as st
 
 from conftest import DEMO_FILES, base_scenario
 from planner.errors import ComputationError, ScenarioError
-from planner.model import evaluate
-from planner.scenario import (json_schema, load_scenario, parse_scenario_text, scenario_from_dict,
+from planner.scenario.model import evaluate
+from planner.scenario.schema import (json_schema, load_scenario, parse_scenario_text, scenario_from_dict,
                               scenario_to_dict, scenario_to_json, scenario_to_toml)
-from planner.units import to_si
+from planner.scenario.units import to_si
 
 
 # --- units at the edge (conversion factors: NIST SP 811, Appendix B) -------------------------

@@ -5,7 +5,7 @@ import math
 import pytest
 from iapws.iapws97 import _PSat_T, _TSat_P
 
-from planner.steam import (
+from planner.correlations.steam import (
     P_SAT_MAX,
     P_SAT_MIN,
     T_SAT_MAX,
@@ -114,7 +114,7 @@ def test_latent_heat_against_iapws97(celsius):
     # IAPWS-IF97 h'' - h' via iapws 1.5.5 (test-only reference); Watson form, within 0.6 %
     from iapws import IAPWS97
 
-    from planner.steam import latent_heat
+    from planner.correlations.steam import latent_heat
 
     t = celsius + 273.15
     reference = (IAPWS97(T=t, x=1).h - IAPWS97(T=t, x=0).h) * 1e3

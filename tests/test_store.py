@@ -15,9 +15,9 @@ import pytest
 from sqlalchemy.exc import IntegrityError
 
 from conftest import DEMO_FILES, ROOT
-from planner.plan import with_changes
-from planner.scenario import load_scenario, scenario_to_dict
-from planner.store import MIGRATIONS, PlanStore, StoreError
+from planner.transfer.plan import with_changes
+from planner.scenario.schema import load_scenario, scenario_to_dict
+from planner.records.store import MIGRATIONS, PlanStore, StoreError
 
 SCENARIO = load_scenario(DEMO_FILES[0])
 
@@ -170,7 +170,7 @@ def test_a_killed_writer_leaves_no_half_revision(tmp_path):
         import sys, time
         sys.path.insert(0, {str(ROOT)!r})
         from sqlalchemy import text
-        from planner.store import PlanStore
+        from planner.records.store import PlanStore
         store = PlanStore({str(path)!r})
         conn = store.engine.connect()
         trans = conn.begin()

@@ -12,7 +12,7 @@ import pytest
 from hypothesis import assume, given, settings
 from hypothesis import strategies as st
 
-from planner.viscosity import (
+from planner.correlations.viscosity import (
     AndradeLaw,
     ViscosityFit,
     VogelFulcherTammannLaw,

@@ -21,7 +21,7 @@ accuracy); only the way it is computed differs:
                ``ht.conv_external.Nu_cylinder_Churchill_Bernstein`` combined as (Nf^3 + Nn^3)^(1/3),
                air properties from ``planner.air`` at the film temperature, linearised radiation
                [Churchill & Chu 1975; Churchill & Bernstein 1977 via ht 1.2.0]
-    tracing    ``planner.tracing.Heater.balance`` (untraced / thermostat holding / full output / steam)
+    tracing    ``planner.line.tracing.Heater.balance`` (untraced / thermostat holding / full output / steam)
 
 At every evaluation the jacket temperature is found by ``scipy.optimize.brentq`` from a fresh
 bracket (no warm start); inside each residual the wall temperature (which sets the insulation k
@@ -44,9 +44,9 @@ from ht.conv_internal import laminar_entry_Seider_Tate, turbulent_Gnielinski
 from scipy.integrate import solve_ivp
 from scipy.optimize import brentq
 
-from planner.air import air_conductivity, air_density, air_heat_capacity, air_viscosity
-from planner.fittings import DARBY_3K, HOOPER_2K, HOOPER_NO_SIZE_TERM, fitting_coefficients
-from planner.rheology import pipe_flow_non_newtonian
+from planner.correlations.air import air_conductivity, air_density, air_heat_capacity, air_viscosity
+from planner.correlations.fittings import DARBY_3K, HOOPER_2K, HOOPER_NO_SIZE_TERM, fitting_coefficients
+from planner.correlations.rheology import pipe_flow_non_newtonian
 
 PI = math.pi
 GRAVITY = 9.80665            # standard gravity [m/s2] (CGPM 1901)
@@ -263,7 +263,7 @@ def baseline_march(line, flow: float, inlet_temperature: float, inlet_pressure: 
                    atol: tuple[float, float] = (ATOL_TEMPERATURE, ATOL_PRESSURE)) -> dict:
     """Integrate the steady line with solve_ivp (RK45), segment by segment.
 
-    line: planner.march.Line; flow [m3/s] at the inlet temperature; inlet_temperature [K];
+    line: planner.line.march.Line; flow [m3/s] at the inlet temperature; inlet_temperature [K];
     inlet_pressure gauge [Pa]; fitting_method "hooper"/"darby" (None: recovered per segment).
     Returns a dict with outlet_temperature_k, outlet_pressure_pa, pressure_drop_pa, status,
     sets_at_m, rhs_evaluations, accepted_steps.

@@ -37,9 +37,9 @@ ROOT = Path(__file__).resolve().parents[2]
 if str(ROOT) not in sys.path:
     sys.path.insert(0, str(ROOT))
 
-from planner.march import DEFAULT_STEP_M, march  # noqa: E402
-from planner.model import line_from_scenario  # noqa: E402
-from planner.scenario import scenario_from_dict  # noqa: E402
+from planner.line.march import DEFAULT_STEP_M, march  # noqa: E402
+from planner.scenario.model import line_from_scenario  # noqa: E402
+from planner.scenario.schema import scenario_from_dict  # noqa: E402
 
 from tests.benchmarks.baseline_march import baseline_march  # noqa: E402
 
@@ -184,8 +184,8 @@ def case_steady_march_1km(args) -> dict:
 
 def polyol_plan_scenario(hours: float = 4.0):
     """The 1000 m polyol line with a volume that takes about ``hours`` to move."""
-    from planner.plan import make_plan  # noqa: F401  (import cost outside the timing)
-    from planner.scenario import scenario_to_dict
+    from planner.transfer.plan import make_plan  # noqa: F401  (import cost outside the timing)
+    from planner.scenario.schema import scenario_to_dict
 
     scenario = polyol_1km_scenario()
     data = scenario_to_dict(scenario)
@@ -196,7 +196,7 @@ def polyol_plan_scenario(hours: float = 4.0):
 
 @register("transfer_plan", "full plan: 4 h transfer, 60 timeline steps, 1000 m route + suction, start-up, hold")
 def case_transfer_plan(args) -> dict:
-    from planner.plan import make_plan
+    from planner.transfer.plan import make_plan
 
     scenario = polyol_plan_scenario()
     line = line_from_scenario(scenario)
@@ -226,7 +226,7 @@ def case_transfer_plan(args) -> dict:
 
 @register("setpoint_comparison", "11 setpoints (20-70 degC), full plans with timelines and findings, 1000 m route")
 def case_setpoint_comparison(args) -> dict:
-    from planner.compare import compare, shutdown_pool
+    from planner.checks.compare import compare, shutdown_pool
 
     scenario = polyol_plan_scenario()
     values = [20.0 + 5.0 * i for i in range(11)]

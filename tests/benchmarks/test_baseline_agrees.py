@@ -5,7 +5,7 @@ the outside surface coefficient with fluids 1.3.1 and ht 1.2.0 at every evaluati
 jacket with scipy's brentq and integrates with scipy's adaptive RK45; the march under test uses the
 planner's own correlations and its exponential midpoint step.  Shared between the two (and so not
 checked here): the product property laws, planner.air, the insulation k(T) table and the
-heater law planner.tracing.Heater.balance.
+heater law planner.line.tracing.Heater.balance.
 
 Tolerance: outlet temperature 0.05 K and pressure drop 0.2 %, the accuracy the planner promises
 for its default 10 m step (planner choice: the accuracy target of the steady march).
@@ -25,9 +25,9 @@ pytest.importorskip("ht")
 pytest.importorskip("scipy")
 
 from conftest import DEMO_DIR, DEMO_FILES  # noqa: E402
-from planner.march import march  # noqa: E402
-from planner.model import line_from_scenario  # noqa: E402
-from planner.scenario import load_scenario, scenario_from_dict  # noqa: E402
+from planner.line.march import march  # noqa: E402
+from planner.scenario.model import line_from_scenario  # noqa: E402
+from planner.scenario.schema import load_scenario, scenario_from_dict  # noqa: E402
 from tests.benchmarks.baseline_march import baseline_march  # noqa: E402
 
 TOL_T_K = 0.05

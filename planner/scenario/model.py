@@ -2,11 +2,11 @@
 
 from __future__ import annotations
 
-from .errors import ComputationError
-from .march import DEFAULT_STEP_M, Line, MarchResult, march
-from .products import Product
-from .route import build_line
-from .scenario import Scenario
+from planner.errors import ComputationError
+from planner.line.march import DEFAULT_STEP_M, Line, MarchResult, march
+from planner.line.products import Product
+from planner.line.route import build_line
+from planner.scenario.schema import Scenario
 
 
 def line_from_scenario(scenario: Scenario) -> Line:

@@ -11,9 +11,9 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-from .rheology import gelled_restart_pressure
-from .system import TransferSystem
-from .transients import evolve
+from planner.correlations.rheology import gelled_restart_pressure
+from planner.transfer.system import TransferSystem
+from planner.line.transients import evolve
 
 HOLD_HORIZON_S = 14 * 86400.0
 

@@ -13,7 +13,7 @@ from __future__ import annotations
 
 from math import sqrt
 
-from planner.air import air_conductivity, air_heat_capacity, air_viscosity, R_AIR
+from planner.correlations.air import air_conductivity, air_heat_capacity, air_viscosity, R_AIR
 
 __all__ = [
     "NU_LAMINAR_DEVELOPED",

@@ -20,10 +20,10 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .errors import PlannerError
-from .findings import SEVERITY_RANK, assess, count_by_severity
-from .plan import make_plan, with_changes
-from .scenario import Scenario, scenario_from_dict, scenario_to_dict
+from planner.errors import PlannerError
+from planner.checks.findings import SEVERITY_RANK, assess, count_by_severity
+from planner.transfer.plan import make_plan, with_changes
+from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_dict
 
 LEVERS = {
     # lever: (with_changes keyword, display unit, to SI)

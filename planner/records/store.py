@@ -27,8 +27,8 @@ from pathlib import Path
 from sqlalchemy import create_engine, event, text
 from sqlalchemy.engine import Connection, Engine
 
-from .errors import PlannerError
-from .scenario import Scenario, scenario_from_dict, scenario_to_dict
+from planner.errors import PlannerError
+from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_dict
 
 SCHEMA_VERSION = 2
 DEFAULT_PATH = Path(__file__).resolve().parents[1] / "data" / "plans.sqlite"

@@ -1,7 +1,4 @@
-"""Command line: ``python -m planner evaluate|schema ...``.
-
-Errors print one message naming the field or the reason and exit with status 2; no traceback.
-"""
+"""Commands on one line and one transfer: ``evaluate``, ``plan``, ``compare``, ``schema``."""
 
 from __future__ import annotations
 
@@ -9,14 +6,14 @@ import argparse
 import json
 import sys
 
-from .errors import PlannerError
-from .units import UnitError, to_si
+from planner.errors import PlannerError
+from planner.scenario.units import UnitError, to_si
 
 
 def _evaluate(args) -> int:
-    from .model import evaluate
-    from .report_text import march_table, march_json
-    from .scenario import load_scenario
+    from planner.scenario.model import evaluate
+    from planner.reports.text import march_table, march_json
+    from planner.scenario.schema import load_scenario
 
     scenario = load_scenario(args.scenario)
     flow = to_si(args.flow, "volume_flow", "--flow") if args.flow is not None else None
@@ -34,9 +31,9 @@ def _evaluate(args) -> int:
 
 
 def _plan(args) -> int:
-    from .plan import make_plan
-    from .plan_report import plan_json, plan_text
-    from .scenario import load_scenario
+    from planner.transfer.plan import make_plan
+    from planner.reports.plan_json import plan_json, plan_text
+    from planner.scenario.schema import load_scenario
 
     scenario = load_scenario(args.scenario)
     plan = make_plan(scenario)
@@ -48,8 +45,8 @@ def _plan(args) -> int:
 
 
 def _compare(args) -> int:
-    from .compare import compare, comparison_json, comparison_table, parse_range, shutdown_pool
-    from .scenario import load_scenario
+    from planner.checks.compare import compare, comparison_json, comparison_table, parse_range, shutdown_pool
+    from planner.scenario.schema import load_scenario
 
     scenario = load_scenario(args.scenario)
     choices = [("setpoint", args.setpoints), ("steam_pressure", args.steam_pressures),
@@ -78,15 +75,14 @@ def _compare(args) -> int:
 
 
 def _schema(args) -> int:
-    from .scenario import json_schema
+    from planner.scenario.schema import json_schema
 
     print(json.dumps(json_schema(), indent=2, ensure_ascii=False))
     return 0
 
 
-def build_parser() -> argparse.ArgumentParser:
-    parser = argparse.ArgumentParser(prog="python -m planner", description="Viscous-liquid transfer planner")
-    sub = parser.add_subparsers(dest="command", required=True)
+def register(sub) -> None:
+    """Add this module's sub-commands to the top-level parser's sub-parsers."""
 
     ev = sub.add_parser("evaluate", help="steady march along the line at one flow and inlet temperature")
     ev.add_argument("scenario", help="scenario file (.toml or .json)")
@@ -116,20 +112,3 @@ def build_parser() -> argparse.ArgumentParser:
 
     sc = sub.add_parser("schema", help="print the scenario JSON Schema")
     sc.set_defaults(func=_schema)
-    return parser
-
-
-def main(argv: list[str] | None = None) -> int:
-    parser = build_parser()
-    args = parser.parse_args(argv)
-    if getattr(args, "step", 25.0) is not None and not (0.1 <= getattr(args, "step", 25.0) <= 500.0):
-        print("error: --step must be between 0.1 m and 500 m", file=sys.stderr)
-        return 2
-    try:
-        return args.func(args)
-    except PlannerError as exc:
-        print(f"error: {exc}", file=sys.stderr)
-        return 2
-    except (UnitError, ValueError) as exc:
-        print(f"error: {exc}", file=sys.stderr)
-        return 2

@@ -4,9 +4,9 @@ from __future__ import annotations
 
 import math
 
-from .hold import hours
-from .plan import Plan
-from .report_text import STANDING_CAUTION
+from planner.transfer.hold import hours
+from planner.transfer.plan import Plan
+from planner.reports.text import STANDING_CAUTION
 
 
 def _clean(value):

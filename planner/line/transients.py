@@ -19,10 +19,10 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from .heat_loss import jacket_temperature
-from .products import Product
-from .route import LineSegment
-from .tracing import Heater
+from planner.line.heat_loss import jacket_temperature
+from planner.line.products import Product
+from planner.line.route import LineSegment
+from planner.line.tracing import Heater
 
 STEEL_DENSITY = 7850.0        # kg/m3 carbon steel [handbook]
 STEEL_SPECIFIC_HEAT = 490.0   # J/(kg K) carbon steel at 20-100 degC [handbook, mem]

@@ -9,10 +9,10 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 
-from .fittings import fitting_coefficients
-from .materials import INSULATION_MATERIALS, ROUGHNESS, WALL_CONDUCTIVITY
-from .pipes import parse_nps, pipe_size
-from .scenario import Route, Segment, Site
+from planner.correlations.fittings import fitting_coefficients
+from planner.correlations.materials import INSULATION_MATERIALS, ROUGHNESS, WALL_CONDUCTIVITY
+from planner.correlations.pipes import parse_nps, pipe_size
+from planner.scenario.schema import Route, Segment, Site
 
 HOSE_DEFAULT_WALL_M = 0.012  # reinforced hose wall, for the thermal path only [mem]
 ARM_DEFAULT_WALL_M = 0.006

@@ -10,9 +10,9 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from .scenario import ProductSpec
-from .steam import saturation_pressure
-from .viscosity import AndradeLaw, VogelFulcherTammannLaw, WaltherLaw, fit_viscosity_law
+from planner.scenario.schema import ProductSpec
+from planner.correlations.steam import saturation_pressure
+from planner.correlations.viscosity import AndradeLaw, VogelFulcherTammannLaw, WaltherLaw, fit_viscosity_law
 
 
 @dataclass

@@ -24,8 +24,8 @@ from __future__ import annotations
 
 from typing import NamedTuple
 
-from .scenario import Tracing
-from .steam import saturation_temperature_gauge
+from planner.scenario.schema import Tracing
+from planner.correlations.steam import saturation_temperature_gauge
 
 # Tracer-to-pipe conductance per tracer [W/(m K)], for a 1/2 in tube tracer on a 2-8 in line.
 # Planning figures from memory [mem, unverified]: cement raises contact conductance several-fold.

@@ -12,8 +12,8 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .system import SystemState, TransferSystem
-from .vessels import cool_contents, level_from_volume, wetted_area
+from planner.transfer.system import SystemState, TransferSystem
+from planner.transfer.vessels import cool_contents, level_from_volume, wetted_area
 
 
 @dataclass

@@ -11,15 +11,15 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .errors import ComputationError
-from .hold import Hold, hold_analysis
-from .march import MarchResult
-from .products import Product
-from .scenario import Scenario, scenario_from_dict, scenario_to_dict
-from .startup import Prewarm, PushCold, prewarm, push_cold
-from .steam import latent_heat, saturation_temperature_gauge
-from .system import OperatingPoint, SystemState, TransferSystem
-from .timeline import Timeline, run_transfer
+from planner.errors import ComputationError
+from planner.transfer.hold import Hold, hold_analysis
+from planner.line.march import MarchResult
+from planner.line.products import Product
+from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_dict
+from planner.transfer.startup import Prewarm, PushCold, prewarm, push_cold
+from planner.correlations.steam import latent_heat, saturation_temperature_gauge
+from planner.transfer.system import OperatingPoint, SystemState, TransferSystem
+from planner.transfer.timeline import Timeline, run_transfer
 
 J_PER_KWH = 3.6e6
 DEFAULT_COIL_STEAM_GAUGE_PA = 3.5e5  # vessel coils: assumed supply when the line is not steam traced
@@ -106,7 +106,7 @@ def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | No
         start_profile = point.discharge_result
         _running_temperatures(system, start_profile, point, running)
         if system.suction_line is not None:
-            from .march import march
+            from planner.line.march import march
 
             suction_profile = march(system.suction_line, start.flow, source.temperature,
                                     system.source_pressure(state), step=system.step)

@@ -16,10 +16,10 @@ import dataclasses
 import math
 from dataclasses import dataclass, field
 
-from .march import Line
-from .route import LineSegment
-from .system import SystemState, TransferSystem
-from .transients import evolve
+from planner.line.march import Line
+from planner.line.route import LineSegment
+from planner.transfer.system import SystemState, TransferSystem
+from planner.line.transients import evolve
 
 PREWARM_HORIZON_S = 7 * 86400.0
 PREWARM_MARGIN_K = 1.0  # "ready" within this of the target (the approach is asymptotic)

@@ -14,10 +14,10 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .heat_loss import jacket_temperature
-from .plan import Plan
-from .ratings import flange_rating, temperature_class_limit
-from .report_text import STANDING_CAUTION
+from planner.line.heat_loss import jacket_temperature
+from planner.transfer.plan import Plan
+from planner.correlations.ratings import flange_rating, temperature_class_limit
+from planner.reports.text import STANDING_CAUTION
 
 SEVERITIES = ("info", "caution", "warning", "stop")
 SEVERITY_RANK = {name: i for i, name in enumerate(SEVERITIES)}
@@ -277,7 +277,7 @@ def check_pressures(plan: Plan) -> list[Finding]:
 
 
 def _start_state(plan: Plan):
-    from .system import SystemState
+    from planner.transfer.system import SystemState
 
     return SystemState(plan.scenario.source.temperature, plan.scenario.source.initial_volume)
 

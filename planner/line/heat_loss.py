@@ -15,8 +15,8 @@ from __future__ import annotations
 
 import math
 
-from .heat_transfer import h_outer_cylinder
-from .route import LineSegment
+from planner.correlations.heat_transfer import h_outer_cylinder
+from planner.line.route import LineSegment
 
 PI = math.pi
 

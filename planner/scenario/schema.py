@@ -17,9 +17,9 @@ from typing import Literal, Optional
 import tomli_w
 from pydantic import BaseModel, ConfigDict, Field, ValidationError, field_validator, model_validator
 
-from .errors import ScenarioError
-from .materials import INSULATION_MATERIALS
-from .quantities import Quantity
+from planner.errors import ScenarioError
+from planner.correlations.materials import INSULATION_MATERIALS
+from planner.scenario.quantities import Quantity
 
 SCHEMA_VERSION = 1
 
@@ -96,7 +96,7 @@ class ViscositySpec(_Model):
 
 
 class ProductSpec(_Model):
-    """A liquid product. ``preset`` names an entry of ``planner.presets.PRODUCT_PRESETS``;
+    """A liquid product. ``preset`` names an entry of ``planner.scenario.presets.PRODUCT_PRESETS``;
     fields given beside it override the preset's."""
 
     preset: Optional[str] = None
@@ -123,7 +123,7 @@ class ProductSpec(_Model):
     @classmethod
     def _apply_preset(cls, data):
         if isinstance(data, dict) and data.get("preset"):
-            from .presets import PRODUCT_PRESETS
+            from planner.scenario.presets import PRODUCT_PRESETS
 
             name = data["preset"]
             if name not in PRODUCT_PRESETS:
@@ -157,7 +157,7 @@ class Fitting(_Model):
     @field_validator("type")
     @classmethod
     def _known(cls, value):
-        from .fittings import HOOPER_2K
+        from planner.correlations.fittings import HOOPER_2K
 
         if value not in HOOPER_2K:
             raise ValueError(f"unknown fitting {value!r}; known fittings are {', '.join(sorted(HOOPER_2K))}")
@@ -218,7 +218,7 @@ class Segment(_Model):
 
     @model_validator(mode="after")
     def _size(self):
-        from .pipes import pipe_size
+        from planner.correlations.pipes import pipe_size
 
         if self.nps is not None:
             if self.inside_diameter is not None:
@@ -244,7 +244,7 @@ class Route(_Model):
 
     @model_validator(mode="after")
     def _fittings_in_method(self):
-        from .fittings import fitting_names
+        from planner.correlations.fittings import fitting_names
 
         known = fitting_names(self.fitting_method)
         for i, seg in enumerate(self.segments):

@@ -13,7 +13,7 @@ from __future__ import annotations
 
 import math
 
-from .scenario import Destination, Vessel
+from planner.scenario.schema import Destination, Vessel
 
 
 def _segment_area(radius: float, level: float) -> float:

@@ -23,14 +23,14 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .friction import darcy_friction
-from .heat_loss import insulation_resistance, surface_resistance
-from .heat_transfer import nu_internal
-from .products import Product
-from .rheology import pipe_flow_non_newtonian
-from .route import LineSegment
-from .tracing import Heater
-from .units import GRAVITY
+from planner.correlations.friction import darcy_friction
+from planner.line.heat_loss import insulation_resistance, surface_resistance
+from planner.correlations.heat_transfer import nu_internal
+from planner.line.products import Product
+from planner.correlations.rheology import pipe_flow_non_newtonian
+from planner.line.route import LineSegment
+from planner.line.tracing import Heater
+from planner.scenario.units import GRAVITY
 
 PI = math.pi
 DEFAULT_STEP_M = 25.0

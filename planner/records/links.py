@@ -20,9 +20,9 @@ import zlib
 from dataclasses import dataclass
 from urllib.parse import urlencode
 
-from .errors import ScenarioError
-from .quantities import exact_dump
-from .scenario import Scenario, scenario_from_dict
+from planner.errors import ScenarioError
+from planner.scenario.quantities import exact_dump
+from planner.scenario.schema import Scenario, scenario_from_dict
 
 LINK_VERSION = 1
 MAX_PAYLOAD_CHARS = 12_000          # longer packed text is refused before decoding

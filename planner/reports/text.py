@@ -6,8 +6,8 @@ import math
 
 import numpy as np
 
-from .march import MarchResult
-from .scenario import Scenario
+from planner.line.march import MarchResult
+from planner.scenario.schema import Scenario
 
 STANDING_CAUTION = (
     "Planning estimate only. Follow site procedures, hazardous-area rules and the pressure and "
@@ -54,7 +54,7 @@ def _finite(value):
 
 
 def march_json(scenario: Scenario, result: MarchResult, profiles: bool = False, line_segments=None) -> dict:
-    from .model import line_from_scenario
+    from planner.scenario.model import line_from_scenario
 
     segments = line_segments or line_from_scenario(scenario).segments
     doc = {
@@ -73,7 +73,7 @@ def march_json(scenario: Scenario, result: MarchResult, profiles: bool = False, 
 
 
 def march_table(scenario: Scenario, result: MarchResult) -> str:
-    from .model import line_from_scenario
+    from planner.scenario.model import line_from_scenario
 
     s = result.summary
     segments = line_from_scenario(scenario).segments

@@ -24,13 +24,13 @@ from dataclasses import dataclass, field
 
 from scipy.optimize import brentq
 
-from .march import Line, MarchSummary, march
-from .products import Product
-from .pumps import CentrifugalPump, PositiveDisplacementPump
-from .route import build_line
-from .scenario import Scenario
-from .units import ATMOSPHERE_PA, GRAVITY
-from .vessels import level_from_volume
+from planner.line.march import Line, MarchSummary, march
+from planner.line.products import Product
+from planner.transfer.pumps import CentrifugalPump, PositiveDisplacementPump
+from planner.line.route import build_line
+from planner.scenario.schema import Scenario
+from planner.scenario.units import ATMOSPHERE_PA, GRAVITY
+from planner.transfer.vessels import level_from_volume
 
 HUGE_PRESSURE = 1.0e12  # stands in for "this rate cannot be pushed" (product sets) inside root finding
 
@@ -106,7 +106,7 @@ class TransferSystem:
     def __init__(self, scenario: Scenario, tracing=None, product: Product | None = None, step: float = 25.0):
         missing = [name for name in ("pump", "source", "destination") if getattr(scenario, name) is None]
         if missing:
-            from .errors import ScenarioError
+            from planner.errors import ScenarioError
 
             raise ScenarioError([(name, "a transfer plan needs this section") for name in missing])
         self.scenario = scenario

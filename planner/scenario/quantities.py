@@ -14,7 +14,7 @@ from typing import Annotated
 
 from pydantic import BeforeValidator, PlainSerializer, WithJsonSchema
 
-from .units import DEFAULT_UNITS, SI_UNITS, UnitError, registry, to_si
+from planner.scenario.units import DEFAULT_UNITS, SI_UNITS, UnitError, registry, to_si
 
 _LABELS = {
     "degC": "°C",
@@ -146,7 +146,7 @@ def exact_dump(model, skip_defaults: bool = True) -> dict:
 
     from pydantic import BaseModel
 
-    from .units import SI_UNITS
+    from planner.scenario.units import SI_UNITS
 
     def kind_of(annotation):
         for arg in typing.get_args(annotation):

@@ -1,0 +1,42 @@
+"""Command line: ``python -m planner <command> ...``.
+
+Each module here adds its sub-commands through ``register(sub)``; ``main`` parses and runs them.
+Errors print one message naming the field or the reason and exit with status 2; no traceback.
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+
+from planner.errors import PlannerError
+from planner.scenario.units import UnitError
+
+from planner.cli import line_commands
+
+# One entry per command module, in the order their commands appear in --help.
+COMMAND_MODULES = [line_commands]
+
+
+def build_parser() -> argparse.ArgumentParser:
+    parser = argparse.ArgumentParser(prog="python -m planner", description="Viscous-liquid transfer planner")
+    sub = parser.add_subparsers(dest="command", required=True)
+    for module in COMMAND_MODULES:
+        module.register(sub)
+    return parser
+
+
+def main(argv: list[str] | None = None) -> int:
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    if getattr(args, "step", 25.0) is not None and not (0.1 <= getattr(args, "step", 25.0) <= 500.0):
+        print("error: --step must be between 0.1 m and 500 m", file=sys.stderr)
+        return 2
+    try:
+        return args.func(args)
+    except PlannerError as exc:
+        print(f"error: {exc}", file=sys.stderr)
+        return 2
+    except (UnitError, ValueError) as exc:
+        print(f"error: {exc}", file=sys.stderr)
+        return 2

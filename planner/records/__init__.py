@@ -1,0 +1,2 @@
+"""Saved plans (revisions, review trail) and share links.
+"""
