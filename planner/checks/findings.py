@@ -14,8 +14,11 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from planner.correlations.friction import RE_LAMINAR_MAX, RE_TURBULENT_MIN
 from planner.line.heat_loss import jacket_temperature
 from planner.transfer.plan import Plan
+from planner.transfer.pumps import HI_B_MAX
+from planner.transfer.vessels import destination_level
 from planner.correlations.ratings import flange_rating, temperature_class_limit
 from planner.reports.text import STANDING_CAUTION
 
@@ -25,7 +28,6 @@ SEVERITY_RANK = {name: i for i, name in enumerate(SEVERITIES)}
 # Stated ranges of correlations the march uses (their sources; see heat_transfer.py, rheology.py)
 SIEDER_TATE_PR_MAX = 16700.0       # Sieder & Tate (1936): 0.48 < Pr < 16 700
 GNIELINSKI_PR_MAX = 2000.0         # Gnielinski (1976): 0.5 < Pr < 2000
-HI_B_MAX = 40.0                    # ANSI/HI 9.6.7: B up to 40
 
 
 @dataclass
@@ -334,11 +336,11 @@ def check_flow_regime(plan: Plan) -> list[Finding]:
                                f"{v[i]:.3f} m/s is below {limits.min_velocity:.2f} m/s: long residence, cooling",
                                "Check the line does not cool or settle; a smaller line or higher rate helps.",
                                name, seg.name, float(xs[i]), float(v[i]), limits.min_velocity, "m/s"))
-        transitional = (re >= 2300.0) & (re < 4000.0)
+        transitional = (re > RE_LAMINAR_MAX) & (re < RE_TURBULENT_MIN)
         if transitional.any():
             i = int(np.argmax(transitional))
             out.append(Finding("REGIME-TRANSITIONAL", "caution", "Transitional flow",
-                               f"Re {re[i]:.0f} lies between 2300 and 4000: friction and heat transfer are uncertain",
+                               f"Re {re[i]:.0f} lies between {RE_LAMINAR_MAX:.0f} and {RE_TURBULENT_MIN:.0f}: friction and heat transfer are uncertain",
                                "Read pressures with margin; a different rate moves the flow out of transition.",
                                name, seg.name, float(xs[i]), float(re[i]), None, ""))
     if plan.scenario.tracing.kind != "none":
@@ -347,7 +349,7 @@ def check_flow_regime(plan: Plan) -> list[Finding]:
         for name, seg, steps in _segment_steps(plan):
             if not seg.traced:
                 continue
-            film = np.where(steps["reynolds"] < 2300.0, steps["film_coefficient"], np.inf)
+            film = np.where(steps["reynolds"] <= RE_LAMINAR_MAX, steps["film_coefficient"], np.inf)
             i = int(np.argmin(film))
             if film[i] < poorest.get(name, (np.inf,))[0]:
                 poorest[name] = (float(film[i]), seg.name, float(steps["x"][i]))
@@ -385,7 +387,7 @@ def check_validity(plan: Plan) -> list[Finding]:
         for k in range(len(steps["x"])):
             t = float(np.interp(steps["x"][k], result.nodes["x"], result.nodes["temperature"]))
             pr = product.specific_heat(t) * steps["viscosity"][k] / product.conductivity(t)
-            limit = SIEDER_TATE_PR_MAX if steps["reynolds"][k] < 2300 else GNIELINSKI_PR_MAX
+            limit = SIEDER_TATE_PR_MAX if steps["reynolds"][k] <= RE_LAMINAR_MAX else GNIELINSKI_PR_MAX
             if pr > limit and pr / limit > worst_pr:
                 worst_pr, where = pr / limit, (name, _segment_at(segments, steps["x"][k]).name, float(steps["x"][k]), pr, limit)
     if where is not None:
@@ -472,10 +474,8 @@ def check_times(plan: Plan) -> list[Finding]:
                            "or plan a flush.", value=hold.gelled_restart_pressure_pa,
                            limit=hold.pump_pressure_limit_pa, unit="Pa"))
     dest = plan.scenario.destination
-    levels = plan.timeline.arrays["destination_level_m"]
-    if dest.max_level is not None and len(levels):
-        final = float(levels[-1]) + plan.scenario.source.volume_to_move / plan.timeline.arrays["time_s"].size / (
-            np.pi * dest.diameter ** 2 / 4.0)
+    if dest.max_level is not None and len(plan.timeline.arrays["destination_level_m"]):
+        final = destination_level(dest, plan.timeline.moved_m3)   # after the last increment
         if final > dest.max_level:
             out.append(Finding("OVERFILL", "stop", "Destination overfills",
                                f"the level reaches {final:.2f} m, above the maximum {dest.max_level:.2f} m",
