@@ -39,7 +39,7 @@ NOISE_FLOOR = {"discharge_pressure": 200.0, "suction_pressure": 200.0, "pump_inl
                "outlet_temperature": 0.02, "flow": 0.001}
 UNITS = {"discharge_pressure": "Pa", "suction_pressure": "Pa", "pump_inlet_temperature": "K",
          "outlet_temperature": "K", "flow": "m3/s"}
-MISMATCH_RATIO = 5.0        # residual RMS above this many times the log's noise: the model does not fit
+MISMATCH_RATIO = 3.0        # residual RMS above this many times the log's noise: the model does not fit
 RELATIVE_SE_MAX = 0.25      # standard error above this fraction of the value: not identifiable from the log
 CORRELATION_MAX = 0.95
 DIFF_STEP = 1e-3

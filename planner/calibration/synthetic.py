@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import io
 import math
+from datetime import datetime, timedelta
 
 import numpy as np
 
@@ -41,20 +42,25 @@ def invented_inputs(scenario: Scenario, rows: int, duration_s: float, base_flow:
     return {"time": time, "flow": flow, "source_temperature": source, "ambient_temperature": ambient}
 
 
-def _csv(columns: dict[str, np.ndarray]) -> str:
+def _csv(columns: dict[str, np.ndarray], start: datetime | None = None) -> str:
+    """CSV text; with ``start`` the time column is ISO 8601 timestamps from that moment."""
     names = list(columns)
     out = io.StringIO()
-    out.write(",".join(f"{n} [{UNITS[n][0]}]" for n in names) + "\n")
+    out.write(",".join("time" if n == "time" and start else f"{n} [{UNITS[n][0]}]" for n in names) + "\n")
     scaled = [columns[n] * UNITS[n][1] + UNITS[n][2] for n in names]
-    for row in zip(*scaled):
-        out.write(",".join(f"{v:.6g}" if n != "time" else f"{v:.4f}" for n, v in zip(names, row)) + "\n")
+    for seconds, row in zip(columns["time"], zip(*scaled)):
+        cells = [f"{v:.6g}" if n != "time" else f"{v:.4f}" for n, v in zip(names, row)]
+        if start is not None:
+            cells[names.index("time")] = (start + timedelta(seconds=round(float(seconds)))).isoformat()
+        out.write(",".join(cells) + "\n")
     return out.getvalue()
 
 
 def synthetic_log(scenario: Scenario, factors: dict[str, float], rows: int = 100, duration_s: float = 4 * 3600.0,
                   noise: dict[str, float] | None = None, seed: int = 0, measured=MEASURED_OUT,
-                  inputs: dict | None = None) -> str:
-    """CSV text of the invented transfer replayed at ``factors``, with optional noise [SI std. dev.]."""
+                  inputs: dict | None = None, start: datetime | None = None) -> str:
+    """CSV text of the invented transfer replayed at ``factors``, with optional noise [SI std. dev.];
+    ``start``: write the time as ISO 8601 timestamps from then."""
     inputs = inputs or invented_inputs(with_factors(scenario, factors), rows, duration_s)
     columns = {k: np.asarray(v, dtype=float) for k, v in inputs.items()}
     log = read_log(_csv({**columns, "outlet_temperature": np.full(rows, 300.0)}), "inputs.csv")
@@ -65,7 +71,7 @@ def synthetic_log(scenario: Scenario, factors: dict[str, float], rows: int = 100
     for name in measured:
         sigma = (noise or {}).get(name, 0.0)
         columns[name] = modelled[name] + (rng.normal(0.0, sigma, rows) if sigma > 0 else 0.0)
-    return _csv(columns)
+    return _csv(columns, start)
 
 
 def _pd_speed(scenario: Scenario, factors: dict, columns: dict, modelled: dict) -> np.ndarray:
