@@ -75,6 +75,11 @@ class FitResult:
         return any(r["ratio"] > MISMATCH_RATIO for r in self.residuals.values())
 
 
+def default_factors(scenario: Scenario, log: TransferLog) -> list[str]:
+    """Viscosity and heat loss; and the slip where the log shows it (PD pump, speed logged)."""
+    return list(DEFAULT_FIT) + (["slip_factor"] if pd_slip_applies(scenario, log) else [])
+
+
 def noise_estimate(values: np.ndarray) -> float:
     """Noise standard deviation of a logged series from its second differences (robust) [its unit]."""
     x = np.asarray(values, dtype=float)
@@ -127,11 +132,13 @@ def _residual_function(evaluate, log, names, quantities, sigmas):
     return residuals
 
 
-def fit_calibration(scenario: Scenario, log: TransferLog, names=DEFAULT_FIT, workers: int | None = None) -> FitResult:
-    """Fit the named factors to the log; the other factors stay at the scenario's calibration.
+def fit_calibration(scenario: Scenario, log: TransferLog, names=None, workers: int | None = None) -> FitResult:
+    """Fit the named factors (default: ``default_factors``) to the log; the other factors stay at the
+    scenario's calibration.
     ``workers``: processes to replay the rows in (default: the machine's cores, at most 4)."""
+    names = default_factors(scenario, log) if names is None else list(names)
     with Replayer(scenario, log, workers) as evaluate:
-        return _fit(scenario, log, list(names), evaluate)
+        return _fit(scenario, log, names, evaluate)
 
 
 def _fit(scenario: Scenario, log: TransferLog, names: list[str], evaluate: Replayer) -> FitResult:

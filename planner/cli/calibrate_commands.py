@@ -33,14 +33,14 @@ def _write(args, result) -> str:
 
 
 def _calibrate(args) -> int:
-    from planner.calibration.fit import DEFAULT_FIT, fit_calibration
+    from planner.calibration.fit import fit_calibration
     from planner.calibration.log import read_log_file
     from planner.calibration.report import fit_json, fit_text
     from planner.scenario.schema import load_scenario
 
     scenario = load_scenario(args.scenario)
     log = read_log_file(args.log, args.columns)
-    names = [n.strip() for n in args.fit.split(",") if n.strip()] if args.fit else list(DEFAULT_FIT)
+    names = [n.strip() for n in args.fit.split(",") if n.strip()] if args.fit else None
     result = fit_calibration(scenario, log, names)
     written = None
     refused = None
@@ -70,7 +70,7 @@ def register(sub) -> None:
     cal.add_argument("scenario", help="scenario file with [pump], [source] and [destination] (.toml or .json)")
     cal.add_argument("log", help="CSV log; header cells 'quantity [unit]', e.g. 'time [min]', 'flow [m3/h]'")
     cal.add_argument("--fit", help="factors to fit, comma-separated: viscosity_factor, heat_loss_factor, slip_factor "
-                                   "(default: viscosity_factor,heat_loss_factor)")
+                                   "(default: viscosity_factor,heat_loss_factor, and slip_factor for a PD pump with speed logged)")
     cal.add_argument("--columns", help="TOML file with a [columns] table mapping the log's headers to 'quantity [unit]'")
     cal.add_argument("--json", action="store_true", help="print JSON (SI units)")
     cal.add_argument("--write", metavar="OUT.toml", help="write the scenario with the fitted [calibration] to a new file")
