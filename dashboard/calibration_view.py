@@ -108,8 +108,9 @@ def series_figure(data: dict, system: str) -> go.Figure:
         fig.update_yaxes(title_text=label(kind, system), row=row, col=1)
         fig.update_yaxes(title_text=label(difference_kind, system), row=row, col=2)
     fig.update_xaxes(title_text="time from the first row [h]", row=len(quantities))
-    fig.update_layout(height=260 * len(quantities), margin={"t": 40, "b": 40, "l": 60, "r": 20},
-                      legend={"orientation": "h", "y": 1.04 + 0.02 * len(quantities)})
+    height = 260 * len(quantities)
+    fig.update_layout(height=height, margin={"t": 70, "b": 40, "l": 60, "r": 20},
+                      legend={"orientation": "h", "yanchor": "bottom", "y": 1.0 + 36.0 / height})
     return fig
 
 
@@ -165,6 +166,14 @@ def _apply_and_save(data: dict) -> None:
     sharing._do_save()   # the sidebar's save: same plan name, site, author and revision rules
     kind, text = ss.get("share_msg") or ("error", "Not saved.")
     ss["cal_msg"] = (kind, text if kind != "success" else f"{text} The note names the log and its SHA-256.")
+
+
+def _remove() -> None:
+    ss = st.session_state
+    work = copy.deepcopy(ss.get("work") or {})
+    work.pop("calibration", None)
+    ss["work"] = work
+    ss["cal_msg"] = ("info", "The calibration is removed from the working scenario: plans use the model alone.")
 
 
 def _log_bytes() -> tuple[bytes | None, str]:
@@ -224,6 +233,17 @@ def _show_result(data: dict, unit_system: str) -> None:
     st.plotly_chart(series_figure(data, unit_system), key="cal_series")
 
 
+def _current(scenario) -> None:
+    calibration = scenario.calibration
+    if calibration is None:
+        st.caption("In use now: no calibration (all factors 1).")
+        return
+    origin = f" — fitted to {calibration.source.file}" if calibration.source is not None else ""
+    st.caption(f"In use now: viscosity_factor {calibration.viscosity_factor:.4g}, heat_loss_factor "
+               f"{calibration.heat_loss_factor:.4g}, slip_factor {calibration.slip_factor:.4g}{origin}")
+    st.button("Remove the calibration", key="cal_remove", on_click=_remove)
+
+
 def calibration_view(scenario, scenario_json: str | None, unit_system: str) -> None:
     """The Calibration tab."""
     st.markdown("#### Calibrate the plan to a past transfer")
@@ -241,6 +261,7 @@ def calibration_view(scenario, scenario_json: str | None, unit_system: str) -> N
     message = st.session_state.pop("cal_msg", None)
     if message:
         getattr(st, message[0])(message[1])
+    _current(scenario)
     log_bytes, log_name = _log_bytes()
     if log_bytes is None:
         st.info("Upload a log (or use the demo log) to fit the factors.")
@@ -264,7 +285,3 @@ def calibration_view(scenario, scenario_json: str | None, unit_system: str) -> N
     right.button("Apply and save as a revision", key="cal_save", on_click=_apply_and_save, args=(data,),
                  disabled=blocked or not usable, help="uses the plan name, site and author in the sidebar; "
                                                       "the note names the log and its SHA-256")
-    current = (scenario.calibration.model_dump(mode="json", exclude_none=True)
-               if scenario.calibration is not None else None)
-    st.caption("In use now: " + (", ".join(f"{k} {v:.4g}" for k, v in current.items() if isinstance(v, float))
-                                 if current else "no calibration (all factors 1)"))
