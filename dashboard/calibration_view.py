@@ -11,7 +11,6 @@ edit like any other); "Apply and save as a revision" also saves it through the s
 from __future__ import annotations
 
 import copy
-import hashlib
 import logging
 from pathlib import Path
 
