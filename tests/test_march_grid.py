@@ -18,7 +18,7 @@ import pytest
 
 from conftest import base_scenario
 from planner.line.march import DEFAULT_STEP_M, march
-from planner.scenario.model import line_from_scenario
+from planner.line.model import line_from_scenario
 from planner.scenario.schema import scenario_from_dict
 
 SCENARIOS = 240
