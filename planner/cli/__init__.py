@@ -7,6 +7,7 @@ Errors print one message naming the field or the reason and exit with status 2; 
 from __future__ import annotations
 
 import argparse
+import os
 import sys
 
 from planner.errors import PlannerError
@@ -40,3 +41,9 @@ def main(argv: list[str] | None = None) -> int:
     except (UnitError, ValueError) as exc:
         print(f"error: {exc}", file=sys.stderr)
         return 2
+    except Exception as exc:  # noqa: BLE001  (a bug: one line for the user, the traceback with PLANNER_DEBUG=1)
+        if os.environ.get("PLANNER_DEBUG"):
+            raise
+        print(f"internal error: {type(exc).__name__}: {exc} (please report it with the scenario; "
+              "PLANNER_DEBUG=1 shows the traceback)", file=sys.stderr)
+        return 1

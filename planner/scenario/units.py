@@ -94,8 +94,27 @@ _NUMBER_UNIT = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.
 _POWER_SUFFIX = re.compile(r"\b(m|cm|mm|ft|inch|in|yd)([23])\b")
 
 
+MAX_UNIT_CHARS = 40      # longer unit text is refused unread (the longest unit in use has 19 characters)
+
+
 class UnitError(ValueError):
     """A value whose unit is unknown or of the wrong dimension."""
+
+
+def _temperature_quantity(ureg, number: float, unit: str, kind: str, field: str, value: object):
+    """A temperature as absolute, a temperature difference as a difference, whatever the unit says.
+
+    An absolute temperature given in a difference unit ("55 delta_degC") is refused: read as 55 K it
+    would be -218 degC.  A difference given in degC or degF ("10 degC" as a margin) means 10 K.
+    """
+    quantity = ureg.Quantity(number, unit)
+    names = list(quantity.unit_items())
+    if kind == "temperature" and any(name.startswith("delta_") for name, _ in names):
+        raise UnitError(f"{field}: {value!r} is a temperature difference; give a temperature such as "
+                        "'55 degC', '131 degF' or '328.15 K'")
+    if kind == "temperature_difference" and not quantity._is_multiplicative and len(names) == 1:  # noqa: SLF001
+        quantity = ureg.Quantity(number, "delta_" + names[0][0])
+    return quantity
 
 
 def _normalise_unit(text: str) -> str:
@@ -132,20 +151,29 @@ def to_si(value: object, kind: str, field: str = "value") -> float:
         if not match:
             raise UnitError(f"{field}: cannot read {value!r} as 'number unit' (e.g. '4 in', '55 degC')")
         number = float(match.group(1))
+        if len(match.group(2)) > MAX_UNIT_CHARS:
+            raise UnitError(f"{field}: the unit of {value[:30]!r}... is {len(match.group(2)):,} characters long; "
+                            f"a unit has at most {MAX_UNIT_CHARS} (e.g. '4 in', '55 degC', 'kg/m3')")
         unit = _normalise_unit(match.group(2)) or DEFAULT_UNITS[kind]
     else:
         raise UnitError(f"{field}: expected a number or a 'number unit' string, got {type(value).__name__}")
     if not math.isfinite(number):
         raise UnitError(f"{field}: {value!r} is not a finite number")
     try:
-        quantity = ureg.Quantity(number, unit)
+        if kind in ("temperature", "temperature_difference"):
+            quantity = _temperature_quantity(ureg, number, unit, kind, field, value)
+        else:
+            quantity = ureg.Quantity(number, unit)
         result = quantity.to(SI_UNITS[kind]).magnitude
     except pint.errors.DimensionalityError:
         raise UnitError(
             f"{field}: {value!r} has the wrong dimension; expected a {kind.replace('_', ' ')} "
             f"(e.g. in {DEFAULT_UNITS[kind].replace('**', '')})"
         ) from None
-    except (pint.errors.UndefinedUnitError, AttributeError, TypeError, ValueError, AssertionError):
+    except UnitError:
+        raise
+    except (pint.errors.UndefinedUnitError, AttributeError, TypeError, ValueError, AssertionError,
+            RecursionError, ArithmeticError):
         raise UnitError(f"{field}: unknown unit {unit!r} in {value!r}") from None
     result = float(result)
     if not math.isfinite(result):
