@@ -144,7 +144,10 @@ def to_si(value: object, kind: str, field: str = "value") -> float:
     if isinstance(value, bool):
         raise UnitError(f"{field}: expected a number or a 'number unit' string, got {value!r}")
     if isinstance(value, (int, float)):
-        number = float(value)
+        try:
+            number = float(value)
+        except OverflowError:          # an integer past the float range (JSON and TOML allow any)
+            raise UnitError(f"{field}: an integer of {value.bit_length()} bits is past the range of numbers") from None
         unit = DEFAULT_UNITS[kind]
     elif isinstance(value, str):
         match = _NUMBER_UNIT.match(value)
