@@ -1,6 +1,6 @@
 """Hostile scenarios through the command line: every one ends in a plan or in exit 2, quickly.
 
-Over 1,000 scenarios per run, mutated from the demos and a small generated line (hostile numbers,
+1,000 scenarios per run (``PLANNER_FUZZ_EXAMPLES``), mutated from the demos and a small generated line (hostile numbers,
 unit strings, types, deleted keys, long routes, many segments, many timeline steps) or built from
 scratch, go through ``planner.cli.main`` in this process (``plan``, ``evaluate`` or ``compare``, the
 last with hostile values and sensitivity options too).  Each must end in exit 0 with JSON free of
@@ -22,6 +22,7 @@ import copy
 import io
 import json
 import math
+import os
 import re
 import time
 from collections import Counter
@@ -34,7 +35,7 @@ from planner.cli import main
 from planner.scenario.budget import Budget, use_budget
 from planner.scenario.schema import load_scenario, scenario_to_dict
 
-EXAMPLES = 1100
+EXAMPLES = int(os.environ.get("PLANNER_FUZZ_EXAMPLES", "1000"))
 CASE_SECONDS = 10.0          # process (CPU) time of one case
 CASE_WALL_SECONDS = 30.0     # wall time of one case on a shared machine
 FUZZ_BUDGET = Budget(pass_steps=5_000, plan_steps=20_000, comparison_steps=40_000, comparison_values=5)
@@ -194,7 +195,8 @@ def _run_case(tmp_path, data, command) -> None:
         REFUSED_BY_FIELD[message.split("error: argument ")[1].split(":")[0]] += 1
         return
     assert message.startswith("error: ") and message.strip() != "error:"
-    fields = FIELD_LINE.findall(message.split("\n", 1)[1] if "\n" in message else message[len("error: "):])
+    text = message.strip()
+    fields = FIELD_LINE.findall(text.split("\n", 1)[1] if "\n" in text else text[len("error: "):])
     if fields:
         TALLY["refused by field"] += 1
         REFUSED_BY_FIELD[re.sub(r"\[\d+\]", "[]", fields[0]).split(".")[0]] += 1

@@ -128,6 +128,29 @@ def _normalise_unit(text: str) -> str:
     return text
 
 
+@lru_cache(maxsize=1024)
+def _scale(unit: str, kind: str) -> float | None:
+    """SI value of one ``unit`` when the conversion is a pure scale (pint asked once per unit), else None."""
+    ureg = registry()
+    quantity = ureg.Quantity(1.0, unit)
+    if not quantity._is_multiplicative or any(name.startswith("delta_") for name, _ in quantity.unit_items()):  # noqa: SLF001
+        return None
+    return float(quantity.to(SI_UNITS[kind]).magnitude)
+
+
+def _convert(ureg, number: float, unit: str, kind: str, field: str, value: object) -> float:
+    if kind == "temperature" and unit == "degC":
+        return number + ZERO_CELSIUS_K               # pint's own definition of degC, without the parse
+    scale = _scale(unit, kind)
+    if scale is not None:
+        return number * scale                        # what pint computes for a multiplicative unit
+    if kind in ("temperature", "temperature_difference"):
+        quantity = _temperature_quantity(ureg, number, unit, kind, field, value)
+    else:
+        quantity = ureg.Quantity(number, unit)
+    return quantity.to(SI_UNITS[kind]).magnitude
+
+
 def to_si(value: object, kind: str, field: str = "value") -> float:
     """Convert a number or a "number unit" string of the given kind to its SI float.
 
@@ -163,11 +186,7 @@ def to_si(value: object, kind: str, field: str = "value") -> float:
     if not math.isfinite(number):
         raise UnitError(f"{field}: {value!r} is not a finite number")
     try:
-        if kind in ("temperature", "temperature_difference"):
-            quantity = _temperature_quantity(ureg, number, unit, kind, field, value)
-        else:
-            quantity = ureg.Quantity(number, unit)
-        result = quantity.to(SI_UNITS[kind]).magnitude
+        result = _convert(ureg, number, unit, kind, field, value)
     except pint.errors.DimensionalityError:
         raise UnitError(
             f"{field}: {value!r} has the wrong dimension; expected a {kind.replace('_', ' ')} "
