@@ -53,7 +53,7 @@ def test_pass_steps_count_the_marchs_own_steps():
     scenario = scenario_from_dict(data)
     assert budget.route_steps(scenario.route) == 40 + 2
     assert budget.pass_steps(scenario) == 42 + budget.PASS_OVERHEAD_STEPS
-    from planner.scenario.model import evaluate
+    from planner.line.model import evaluate
 
     assert evaluate(scenario).summary.steps == 42      # the march agrees with the estimate
 

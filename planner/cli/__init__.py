@@ -41,6 +41,11 @@ def main(argv: list[str] | None = None) -> int:
     except (UnitError, ValueError) as exc:
         print(f"error: {exc}", file=sys.stderr)
         return 2
+    except BrokenPipeError:
+        # the reader went away (``... | head``): nothing more to say, and no traceback (the Python
+        # documentation's recipe: point stdout at devnull so the final flush cannot fail again)
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        return 0
     except ArithmeticError as exc:   # e.g. a viscosity law fitted to extreme lab points overflows
         print(f"error: the computation has no answer for these inputs ({type(exc).__name__}: {exc}): they are "
               "beyond what the models can evaluate; check the product's viscosity data and the extreme inputs",

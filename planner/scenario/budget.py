@@ -3,7 +3,7 @@
 Field limits alone do not bound the work (200 segments of 50 km each are all valid fields), so every
 request is costed first and refused past the budget with a message that names the field to reduce.
 The same budget holds for scenario files, share links, the command line and the dashboard: it is
-checked in ``scenario_from_dict`` (every scenario read anywhere), in ``evaluate`` (the march step) and
+checked in ``scenario_from_dict`` (every scenario read anywhere), in ``line.model.evaluate`` (the march step) and
 in ``compare`` (values x sensitivity cases).
 
 Work is counted in *march steps*.  One pass along the line (the discharge route, plus the suction
