@@ -82,7 +82,7 @@ def test_plan_estimate_is_not_below_the_counted_passes_of_a_demo(path, monkeypat
     scenario = load_scenario(path)
     make_plan(scenario)
     passes = budget.plan_passes(scenario.schedule.timeline_steps)
-    assert counted["passes"] <= passes <= 1.5 * counted["passes"]
+    assert counted["passes"] <= passes <= 2.0 * counted["passes"]
 
 
 def test_demos_fit_well_inside_the_default_budget():

@@ -11,7 +11,7 @@ route when there is one) costs its steps — ``max(2, ceil(length / step))`` per
 takes them — plus ``PASS_OVERHEAD_STEPS`` for the set-up of the pass and of the operating-point
 solve around it.  A plan makes about ``PLAN_PASSES_FIXED + PLAN_PASSES_PER_TIMELINE_STEP x
 timeline_steps`` passes (operating point, timeline, both start-ups, hold); those figures are fitted
-to counted passes of the demo scenarios at 10 to 1000 timeline steps (they over-count by 0-20 % above
+to counted passes of the demo scenarios at 10 to 1000 timeline steps (they over-count by up to half above
 60 steps; a plan whose operating point is hard to find, e.g. with the relief lifting, can take three
 times the passes).  A comparison is values x cases plans.  On the project's 2-core machine one step
 takes 4-45 us (laminar hot products cost the most), so a plan at the default budget
