@@ -2,8 +2,9 @@
 
 Roles: ``planner`` (makes, saves and submits plans), ``supervisor`` (also approves or returns other
 people's revisions), ``admin`` (manages accounts; does not plan or review).  Passwords are kept only
-as Argon2id hashes (argon2-cffi's ``PasswordHasher``, its default parameters: RFC 9106's second
-recommended option, 64 MiB, 3 passes).
+as Argon2id hashes (argon2-cffi's ``PasswordHasher`` with the OWASP Password Storage Cheat Sheet's
+Argon2id setting: 19 MiB, 2 passes, 1 lane — light enough that sign-ins on a small shared server do
+not starve it; a hash made with other parameters is redone at the next sign-in).
 
 Failed sign-ins are throttled per account: after ``FREE_ATTEMPTS`` failures in a row each further
 failure locks the account for ``LOCK_BASE_S`` seconds, doubling up to ``LOCK_MAX_S``; while locked a
@@ -64,7 +65,8 @@ class Session:
     expires_at: float
 
 
-_hasher = PasswordHasher()      # Argon2id with the library's default (RFC 9106) parameters
+ARGON2 = {"time_cost": 2, "memory_cost": 19 * 1024, "parallelism": 1}     # OWASP cheat sheet, Argon2id
+_hasher = PasswordHasher(**ARGON2)          # type Argon2id is the library's default
 _DUMMY_HASH = _hasher.hash("not a password of any account")
 
 

@@ -96,7 +96,7 @@ def check_url(value, field: str = "database URL") -> str:
             raise StoreError(f"{field}: options after '?' are not accepted for SQLite; give the file only")
         return f"sqlite:///{check_path(url.database or '', field)}"
     if backend == "postgresql":
-        if url.get_driver_name() not in ("psycopg", "psycopg2") or url.drivername == "postgresql":
+        if url.drivername == "postgresql":
             url = url.set(drivername="postgresql+psycopg")
         if url.get_driver_name() != "psycopg":
             raise StoreError(f"{field}: use the psycopg 3 driver (postgresql+psycopg://...)")
