@@ -142,15 +142,15 @@ def account_panel(container) -> Account | None:
     """The sidebar's Account block; returns the signed-in account (or None)."""
     ss = st.session_state
     container.markdown("**Account**")
-    message = ss.pop("auth_msg", None)
-    if message:
-        getattr(container, message[0])(message[1])
     try:
         account = current_account()
         empty = account is None and _no_accounts_yet()
     except StoreError as exc:
         container.error(f"Accounts are not available: {exc}")
         return None
+    message = ss.pop("auth_msg", None)
+    if message:
+        getattr(container, message[0])(message[1])
     if account is not None:
         container.caption(f"Signed in as **{account.name}** ({account.role}).")
         container.button("Sign out", key="si_out", on_click=_do_sign_out)
