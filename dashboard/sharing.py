@@ -686,7 +686,11 @@ def _browse_panel(set_work, unit_system: str) -> None:
     product = b.text_input("Product contains", key="rv_product")
     site = c.text_input("Site / area contains", key="rv_site")
     state = d.selectbox("State", ["any", *STATES], key="rv_state")
-    rows = store().plans(search=search, product=product, site=site, state="" if state == "any" else state)
+    try:
+        rows = store().plans(search=search, product=product, site=site, state="" if state == "any" else state)
+    except StoreError as exc:
+        st.error(f"Search refused: {exc}")
+        return
     if not rows:
         st.caption("No saved plan matches." if (search or product or site or state != "any") else "No saved plans yet.")
         return

@@ -146,3 +146,14 @@ def test_planning_and_links_need_no_sign_in(db):
     _view(at, "Review")
     assert not at.exception
     assert any("No saved revision is open" in i for i in _texts(at.info))
+
+
+def test_a_search_with_a_nul_character_is_refused_not_matched(db):
+    store, people = _people(db)
+    store.save("Wren discharge", load_scenario(DEMO_FILES[0]), people["ana"])
+    store.save("T-31 to T-07", load_scenario(DEMO_FILES[1]), people["ben"])
+    at = _view(_app(), "Review")
+    at.text_input(key="rv_q").set_value("\x00").run()
+    assert not at.exception
+    assert any("Search refused: search: name: contains a control character" in e for e in _texts(at.error))
+    assert not [f for f in at.dataframe if "Plan" in f.value.columns and "State" in f.value.columns]

@@ -556,3 +556,14 @@ def test_backup_and_restore_keep_the_history_and_the_refusals(store, people, tmp
         with restored.engine.begin() as conn:
             conn.exec_driver_sql("UPDATE revisions SET note = 'x'")
     restored.close()
+
+
+def test_ids_beyond_the_databases_integers_are_not_found(store, people):
+    rev = store.save("p", SCENARIO, people["ana"])
+    for plan_id, number in ((999_999_999_999, 1), (rev.plan_id, 2 ** 31), (0, None), (rev.plan_id, -1)):
+        with pytest.raises(StoreError, match=f"saved plan {plan_id}, .*was not found"):
+            store.revision(plan_id, number)
+    with pytest.raises(StoreError, match="saved plan 999999999999, revision 1, was not found"):
+        store.approve(999_999_999_999, 1, people["sam"])
+    with pytest.raises(StoreError, match="revision 1 is a draft \\(not submitted yet\\)"):
+        store.approve(rev.plan_id, 1, people["sam"])

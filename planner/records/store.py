@@ -298,6 +298,8 @@ class PlanStore:
         note = check_text(note, "note", LIMITS["note"], multiline=True)
         if not name and plan_id is None:
             raise StoreError("a saved plan needs a name")
+        if plan_id is not None:
+            _check_ids(plan_id)
         body = canonical_json(scenario)
         digest = hashlib.sha256(body.encode("utf-8")).hexdigest()
         now = _now()
@@ -341,6 +343,7 @@ class PlanStore:
                         row[8], row[9], row[10], row[11], row[12], row[13])
 
     def revision(self, plan_id: int, number: int | None = None) -> Revision:
+        _check_ids(plan_id, number)
         with self.engine.connect() as conn:
             if number is None:
                 row = conn.execute(text(self._REVISION_SQL + "WHERE r.plan_id = :p ORDER BY r.number DESC LIMIT 1"),
@@ -354,6 +357,7 @@ class PlanStore:
         return self._revision(row)
 
     def revisions(self, plan_id: int) -> list[Revision]:
+        _check_ids(plan_id)
         with self.engine.connect() as conn:
             rows = conn.execute(text(self._REVISION_SQL + "WHERE r.plan_id = :p ORDER BY r.number"), {"p": plan_id}).all()
         return [self._revision(r) for r in rows]
@@ -393,6 +397,7 @@ class PlanStore:
     # -- review -----------------------------------------------------------------------------------
     def _move(self, plan_id: int, number: int, action: str, by, comment: str) -> Revision:
         _, allowed_from, new_state = next(m for m in REVIEW_MOVES if m[0] == action)
+        _check_ids(plan_id, number)
         comment = check_text(comment, "comment", LIMITS["comment"], multiline=True)
         if action == "return" and not comment:
             raise StoreError("returning a revision needs a comment saying what to change")
@@ -423,7 +428,9 @@ class PlanStore:
                        allowed_from: str) -> str:
         last = conn.execute(text('SELECT action, "by", at FROM reviews WHERE revision_id = :r ORDER BY id DESC LIMIT 1'),
                             {"r": revision_id}).first()
-        done = f" by {last[1]} at {last[2]}" if last is not None and state != "draft" else ""
+        if state == "draft":
+            return f"revision {number} is a draft (not submitted yet); '{action}' needs a {allowed_from} revision"
+        done = f" by {last[1]} at {last[2]}" if last is not None else ""
         return (f"revision {number} is already {state}{done}; '{action}' needs a {allowed_from} revision "
                 "(the page may show an older state: reload it)")
 
@@ -453,6 +460,17 @@ class PlanStore:
         first, second = self.revision(plan_id, a), self.revision(plan_id, b)
         return {"inputs": diff_values(json.loads(first.scenario_json), json.loads(second.scenario_json)),
                 "results": diff_values(first.results, second.results)}
+
+
+MAX_ID = 2 ** 31 - 1      # ids are INTEGER on both back ends
+
+
+def _check_ids(plan_id, number=None) -> None:
+    """A plan id or revision number outside the databases' integer range cannot exist."""
+    for value in (plan_id, number):
+        if value is not None and (not isinstance(value, int) or isinstance(value, bool) or not 1 <= value <= MAX_ID):
+            which = "its latest revision" if number is None else f"revision {number}"
+            raise StoreError(f"saved plan {plan_id}, {which}, was not found")
 
 
 def _like(value: str, field: str) -> str:
