@@ -165,3 +165,14 @@ def test_disabling_keeps_history_and_refuses_sign_in(store, book):
     with pytest.raises(Exception, match="accounts are disabled, never deleted"):
         with store.engine.begin() as conn:
             conn.exec_driver_sql("UPDATE accounts SET disabled_at = NULL WHERE name = 'sam'")
+
+
+def test_hostile_sign_in_names_get_the_ordinary_answer(book):
+    book.add("root", "admin", "root-password-1")
+    for name in ("ro\x00ot", "root\x00", "x" * 10_000, "", None, "root' OR '1'='1"):
+        with pytest.raises(StoreError) as refused:
+            book.authenticate(name, "root-password-1")
+        assert str(refused.value) == accounts.WRONG, name
+    with pytest.raises(StoreError, match="account name: contains a control character"):
+        book.disable("ro\x00ot", database_operator=True)
+    assert book.authenticate("root", "root-password-1").name == "root"

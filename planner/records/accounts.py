@@ -116,6 +116,7 @@ class AccountBook:
             return [Account(*row) for row in conn.exec_driver_sql(_ACCOUNT_SQL + "ORDER BY name").all()]
 
     def get(self, name: str) -> Account:
+        name = check_text(name, "account name", NAME_MAX)
         with self.store.engine.connect() as conn:
             row = conn.execute(text(_ACCOUNT_SQL + "WHERE name = :n"), {"n": name}).first()
         if row is None:
@@ -159,6 +160,7 @@ class AccountBook:
 
     def disable(self, name: str, by: Account | None = None, database_operator: bool = False) -> Account:
         """Disable an account: it can no longer sign in and its sessions end; its history stays."""
+        name = check_text(name, "account name", NAME_MAX)
         with self.store.engine.begin() as conn:
             self.store.lock(conn)
             self._admin(conn, by, database_operator, "disabling an account")
@@ -179,11 +181,13 @@ class AccountBook:
     # -- signing in -------------------------------------------------------------------------------
     def authenticate(self, name: str, password: str) -> Account:
         """The account, if the password is right; failures are counted and throttled."""
-        name = (name or "").strip()
+        name = (name or "").strip() if isinstance(name, str) else ""
         password = password if isinstance(password, str) else ""
-        with self.store.engine.connect() as conn:
-            row = conn.execute(text("SELECT id, password_hash, failed_count, locked_until, disabled_at FROM accounts "
-                                    "WHERE name = :n"), {"n": name}).first()
+        row = None
+        if name and len(name) <= NAME_MAX and not any(ord(c) < 32 for c in name):
+            with self.store.engine.connect() as conn:
+                row = conn.execute(text("SELECT id, password_hash, failed_count, locked_until, disabled_at "
+                                        "FROM accounts WHERE name = :n"), {"n": name}).first()
         now = time.time()
         if row is None:
             _verify(_DUMMY_HASH, password)     # the same work as for a real account
