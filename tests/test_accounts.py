@@ -176,3 +176,16 @@ def test_hostile_sign_in_names_get_the_ordinary_answer(book):
     with pytest.raises(StoreError, match="account name: contains a control character"):
         book.disable("ro\x00ot", database_operator=True)
     assert book.authenticate("root", "root-password-1").name == "root"
+
+
+def test_sessions_over_for_a_day_are_cleared_at_the_next_sign_in(store, book):
+    book.add("root", "admin", "root-password-1")
+    old = book.sign_in("root", "root-password-1")
+    recent = book.sign_in("root", "root-password-1")
+    with store.engine.begin() as conn:                  # the first one ended two days ago
+        conn.execute(text("UPDATE sessions SET expires_at = :t, last_seen = :t WHERE token_hash = :h"),
+                     {"t": time.time() - 2 * 86400, "h": accounts._token_hash(old.token)})
+    newest = book.sign_in("root", "root-password-1")
+    with store.engine.connect() as conn:
+        kept = {r[0] for r in conn.exec_driver_sql("SELECT token_hash FROM sessions").all()}
+    assert kept == {accounts._token_hash(recent.token), accounts._token_hash(newest.token)}

@@ -220,6 +220,9 @@ class AccountBook:
         now = time.time()
         expires = now + self.session_s
         with self.store.engine.begin() as conn:
+            # sessions over for a day are of no further use: keep the table small
+            conn.execute(text("DELETE FROM sessions WHERE expires_at < :old OR (ended = 1 AND last_seen < :old)"),
+                         {"old": now - 86400.0})
             conn.execute(text("INSERT INTO sessions (token_hash, account_id, created_at, expires_at, last_seen) "
                               "VALUES (:h, :a, :c, :e, :c)"),
                          {"h": _token_hash(token), "a": account.id, "c": now, "e": expires})
