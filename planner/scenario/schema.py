@@ -129,7 +129,7 @@ class ProductSpec(_Model):
             from planner.scenario.presets import PRODUCT_PRESETS
 
             name = data["preset"]
-            if name not in PRODUCT_PRESETS:
+            if not isinstance(name, str) or name not in PRODUCT_PRESETS:
                 raise ValueError(f"unknown product preset {name!r}; presets are {', '.join(sorted(PRODUCT_PRESETS))}")
             merged = json.loads(json.dumps(PRODUCT_PRESETS[name]))
             merged.update(data)
