@@ -54,6 +54,13 @@ def _show(value_si: float, kind: str) -> str:
     return f"{si_to_default(value_si, kind):g} {default_unit_label(kind)}"
 
 
+class SI(float):
+    """A float already in SI: a quantity field takes it as it is (no default-unit reading), still
+    checking its range.  Typed changes of a validated scenario assign these (``plan.with_changes``)."""
+
+    __slots__ = ()
+
+
 class QuantityKind:
     """Marks a field as a quantity of ``kind`` (SI inside), so exact dumps can name its unit."""
 
@@ -71,8 +78,7 @@ def Quantity(kind: str, *, gt: float | None = None, ge: float | None = None,
     """An annotated float type for a quantity of ``kind``; bounds are given in SI."""
 
     def parse(value: object, info) -> float:
-        field = info.field_name or "value"
-        number = to_si(value, kind, field)
+        number = float(value) if isinstance(value, SI) else to_si(value, kind, None)
         if kind == "temperature" and number <= 0.0:
             raise ValueError(f"{value!r} is at or below absolute zero")
         problems = []
@@ -135,7 +141,7 @@ def _example(kind: str) -> str:
     }.get(kind, "1")
 
 
-__all__ = ["Quantity", "si_to_default", "default_unit_label", "UnitError"]
+__all__ = ["Quantity", "SI", "si_to_default", "default_unit_label", "UnitError"]
 
 
 def exact_dump(model, skip_defaults: bool = True) -> dict:

@@ -109,7 +109,7 @@ def _normalise_unit(text: str) -> str:
     return text
 
 
-def to_si(value: object, kind: str, field: str = "value") -> float:
+def to_si(value: object, kind: str, field: str | None = "value") -> float:
     """Convert a number or a "number unit" string of the given kind to its SI float.
 
     >>> round(to_si("4 in", "length"), 4)
@@ -121,35 +121,42 @@ def to_si(value: object, kind: str, field: str = "value") -> float:
     """
     if kind not in SI_UNITS:
         raise KeyError(f"unknown quantity kind {kind!r}")
+    try:
+        return _to_si(value, kind)
+    except UnitError as exc:
+        raise UnitError(f"{field}: {exc}" if field else str(exc)) from None
+
+
+def _to_si(value: object, kind: str) -> float:
     ureg = registry()
     if isinstance(value, bool):
-        raise UnitError(f"{field}: expected a number or a 'number unit' string, got {value!r}")
+        raise UnitError(f"expected a number or a 'number unit' string, got {value!r}")
     if isinstance(value, (int, float)):
         number = float(value)
         unit = DEFAULT_UNITS[kind]
     elif isinstance(value, str):
         match = _NUMBER_UNIT.match(value)
         if not match:
-            raise UnitError(f"{field}: cannot read {value!r} as 'number unit' (e.g. '4 in', '55 degC')")
+            raise UnitError(f"cannot read {value!r} as 'number unit' (e.g. '4 in', '55 degC')")
         number = float(match.group(1))
         unit = _normalise_unit(match.group(2)) or DEFAULT_UNITS[kind]
     else:
-        raise UnitError(f"{field}: expected a number or a 'number unit' string, got {type(value).__name__}")
+        raise UnitError(f"expected a number or a 'number unit' string, got {type(value).__name__}")
     if not math.isfinite(number):
-        raise UnitError(f"{field}: {value!r} is not a finite number")
+        raise UnitError(f"{value!r} is not a finite number")
     try:
         quantity = ureg.Quantity(number, unit)
         result = quantity.to(SI_UNITS[kind]).magnitude
     except pint.errors.DimensionalityError:
         raise UnitError(
-            f"{field}: {value!r} has the wrong dimension; expected a {kind.replace('_', ' ')} "
+            f"{value!r} has the wrong dimension; expected a {kind.replace('_', ' ')} "
             f"(e.g. in {DEFAULT_UNITS[kind].replace('**', '')})"
         ) from None
     except (pint.errors.UndefinedUnitError, AttributeError, TypeError, ValueError, AssertionError):
-        raise UnitError(f"{field}: unknown unit {unit!r} in {value!r}") from None
+        raise UnitError(f"unknown unit {unit!r} in {value!r}") from None
     result = float(result)
     if not math.isfinite(result):
-        raise UnitError(f"{field}: {value!r} is not a finite number")
+        raise UnitError(f"{value!r} is not a finite number")
     return result
 
 
@@ -184,6 +191,8 @@ UNIT_SYSTEMS: dict[str, dict[str, DisplayUnit]] = {
         "specific_heat": DisplayUnit("kJ/(kg·K)", "kJ/kg/K"),
         "conductivity": DisplayUnit("W/(m·K)", "W/m/K"),
         "head": DisplayUnit("m", "m"),
+        "heat_transfer_coefficient": DisplayUnit("W/(m²·K)", "W/m**2/K"),
+        "rotational_speed": DisplayUnit("rpm", "revolution/minute"),
     },
     "US": {
         "length": DisplayUnit("ft", "ft"),
@@ -205,6 +214,8 @@ UNIT_SYSTEMS: dict[str, dict[str, DisplayUnit]] = {
         "specific_heat": DisplayUnit("BTU/(lb·°F)", "BTU/lb/delta_degF"),
         "conductivity": DisplayUnit("BTU/(h·ft·°F)", "BTU/h/ft/delta_degF"),
         "head": DisplayUnit("ft", "ft"),
+        "heat_transfer_coefficient": DisplayUnit("BTU/(h·ft²·°F)", "BTU/hour/ft**2/delta_degF"),
+        "rotational_speed": DisplayUnit("rpm", "revolution/minute"),
     },
 }
 
