@@ -144,7 +144,7 @@ def sidebar(scenario: Scenario | None, scenario_json: str | None, bundle: dict |
              help="applies to every input, result, table, chart and export")
     sb.header("Export")
     if scenario is not None:
-        sb.download_button("Scenario file (TOML)", data=scenario_to_toml(scenario), file_name=f"{_slug(scenario.name)}.toml",
+        sb.download_button("Scenario file (TOML)", data=scenario_to_toml(scenario, unit_system), file_name=f"{_slug(scenario.name)}.toml",
                            mime="application/toml", key="dl_toml", width="stretch")
     else:
         sb.caption("The scenario file can be exported once the inputs are valid.")

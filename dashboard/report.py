@@ -159,7 +159,7 @@ def build_report_html(scenario: Scenario, bundle: dict, system: str = "SI", gene
 <h2>Charts</h2>
 {''.join(charts)}
 <h2>Appendix: the scenario file (TOML, for <code>python -m planner plan</code>)</h2>
-<pre>{html.escape(scenario_to_toml(scenario))}</pre>
+<pre>{html.escape(scenario_to_toml(scenario, system))}</pre>
 {caution}
 """
     return (f"<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">"

@@ -207,7 +207,7 @@ def test_report_is_self_contained_and_carries_the_cautions():
     assert page.count("<script") >= 2 and re.search(r"<script[^>]*\bsrc\s*=", page) is None   # nothing fetched
     assert "Plotly.newPlot" in page and len(page) > 3_000_000     # plotly.js inlined (about 4.6 MB)
     assert page.count(STANDING_CAUTION) >= 2 and EXTRA_CAUTION in page
-    for k in key_figures(bundle["plan"], bundle["outlet_rating"], "US"):
+    for k in key_figures(bundle, "US"):
         assert k.text in page
     for f in bundle["findings"]:
         assert f["code"] in page

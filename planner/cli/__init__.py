@@ -32,11 +32,18 @@ def main(argv: list[str] | None = None) -> int:
     if getattr(args, "step", 25.0) is not None and not (0.1 <= getattr(args, "step", 25.0) <= 500.0):
         print("error: --step must be between 0.1 m and 500 m", file=sys.stderr)
         return 2
+    system = {"us": "US"}.get(getattr(args, "units", "si"), "SI")
     try:
         return args.func(args)
-    except PlannerError as exc:
-        print(f"error: {exc}", file=sys.stderr)
+    except (PlannerError, UnitError, ValueError) as exc:
+        print(f"error: {_in_units(exc, system)}", file=sys.stderr)
         return 2
-    except (UnitError, ValueError) as exc:
-        print(f"error: {exc}", file=sys.stderr)
-        return 2
+
+
+def _in_units(exc: Exception, system: str) -> str:
+    """An error's message in the user's unit system (its sentence rendered when it carries one)."""
+    from planner.scenario.wording import render
+
+    if len(exc.args) == 1 and isinstance(exc.args[0], str):
+        return render(exc.args[0], system)
+    return str(exc)

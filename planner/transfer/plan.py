@@ -18,6 +18,7 @@ from planner.transfer.hold import Hold, hold_analysis
 from planner.line.march import MarchResult
 from planner.line.products import Product
 from planner.scenario.quantities import SI
+from planner.scenario.wording import Q, Sentence
 from planner.scenario.schema import Scenario, problems_from
 from planner.transfer.startup import Prewarm, PushCold, prewarm, push_cold
 from planner.correlations.steam import latent_heat, saturation_temperature_gauge
@@ -186,9 +187,9 @@ def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | No
     system = TransferSystem(scenario, product=product)
     source = scenario.source
     if source.temperature <= product.no_flow_temperature:
-        raise ComputationError(
-            f"source temperature {source.temperature - 273.15:.1f} °C is at or below the product's no-flow "
-            f"temperature {product.no_flow_temperature - 273.15:.1f} °C: heat the source before transfer")
+        raise ComputationError(Sentence(
+            "source temperature {t} is at or below the product's no-flow temperature {limit}: heat the source before "
+            "transfer", t=Q(source.temperature, "temperature"), limit=Q(product.no_flow_temperature, "temperature")))
     state = SystemState(source.temperature, source.initial_volume)
     start = system.operating_point(state)
     start_profile = suction_profile = None
