@@ -7,6 +7,7 @@ Errors print one message naming the field or the reason and exit with status 2; 
 from __future__ import annotations
 
 import argparse
+import os
 import sys
 
 from planner.errors import PlannerError
@@ -38,6 +39,11 @@ def main(argv: list[str] | None = None) -> int:
     except (PlannerError, UnitError, ValueError) as exc:
         print(f"error: {_in_units(exc, system)}", file=sys.stderr)
         return 2
+    except BrokenPipeError:
+        # the reader went away (``... | head``): nothing more to say, and no traceback (the Python
+        # documentation's recipe: point stdout at devnull so the final flush cannot fail again)
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        return 0
 
 
 def _in_units(exc: Exception, system: str) -> str:

@@ -40,7 +40,7 @@ def _option_value(scenario, text: str | None, option: str, section: str, name: s
 
 def _evaluate(args) -> int:
     from planner.checks.findings import assess_line
-    from planner.scenario.model import evaluate, line_from_scenario
+    from planner.line.model import evaluate, line_from_scenario
     from planner.reports.text import march_table, march_json
     from planner.scenario.schema import load_scenario
 

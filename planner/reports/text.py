@@ -42,7 +42,7 @@ def segment_rows(result: MarchResult, line_segments) -> list[dict]:
 
 def march_json(scenario: Scenario, result: MarchResult, profiles: bool = False, line_segments=None,
                findings: list | None = None) -> dict:
-    from planner.scenario.model import line_from_scenario
+    from planner.line.model import line_from_scenario
 
     segments = line_segments or line_from_scenario(scenario).segments
     doc = {
@@ -96,7 +96,7 @@ def _summary_lines(scenario: Scenario, result: MarchResult, system: str) -> list
 def march_table(scenario: Scenario, result: MarchResult, system: str = "SI", findings: list | None = None) -> str:
     """The march in words and a table by segment, in ``system``; with ``findings``, the first line is the
     worst of them and they follow grouped by severity."""
-    from planner.scenario.model import line_from_scenario
+    from planner.line.model import line_from_scenario
     from planner.scenario.units import unit_label
 
     segments = line_from_scenario(scenario).segments

@@ -38,7 +38,7 @@ if str(ROOT) not in sys.path:
     sys.path.insert(0, str(ROOT))
 
 from planner.line.march import DEFAULT_STEP_M, march  # noqa: E402
-from planner.scenario.model import line_from_scenario  # noqa: E402
+from planner.line.model import line_from_scenario  # noqa: E402
 from planner.scenario.schema import scenario_from_dict  # noqa: E402
 
 from tests.benchmarks.baseline_march import baseline_march  # noqa: E402
