@@ -14,7 +14,7 @@ from functools import lru_cache
 import numpy as np
 
 from planner.checks.caution import STANDING_CAUTION
-from planner.scenario.wording import render
+from planner.scenario.wording import Q, Sentence, render
 from planner.scenario.units import SI_UNITS, from_si, registry, to_si, to_si_from_display, unit_label
 
 SYSTEM_NAMES = {"SI": "SI (metric)", "US": "US customary"}
@@ -34,12 +34,16 @@ _SI_FOR_FIXED = {"rotational_speed": "revolution/second", "displacement": "m**3"
 # people can reach [trade]; site rules may set another figure.
 TOUCH_LIMIT_K = 333.15
 
-EXTRA_CAUTION = (
-    "Surfaces above about 60 °C burn on contact: guard or insulate them. Check hose and loading-arm "
+EXTRA_CAUTION = Sentence(
+    "Surfaces above about {touch} burn on contact: guard or insulate them. Check hose and loading-arm "
     "ratings and their test dates before every transfer. Local codes, site procedures and the advice "
-    "of a licensed engineer take precedence over this plan."
-)
+    "of a licensed engineer take precedence over this plan.", touch=Q(333.15, "temperature", 0))
 CAUTION_TEXT = STANDING_CAUTION + " " + EXTRA_CAUTION
+
+
+def caution_text(system: str = "SI") -> str:
+    """The standing caution and the dashboard's own, in the display system."""
+    return STANDING_CAUTION + " " + render(EXTRA_CAUTION, system)
 
 DECIMALS = {
     "temperature": 1, "temperature_difference": 1, "pressure": 2, "volume_flow": 2, "volume": 1,

@@ -23,7 +23,7 @@ from planner.scenario.schema import Scenario, scenario_to_toml
 from planner.scenario.wording import render
 
 from . import figures, tables
-from .display import CAUTION_TEXT, SYSTEM_NAMES, fmt, key_figures
+from .display import SYSTEM_NAMES, caution_text, fmt, key_figures
 from .results import SEVERITY_ORDER
 
 CSS = """
@@ -116,7 +116,7 @@ def build_report_html(scenario: Scenario, bundle: dict, system: str = "SI", gene
     when = (generated_at or _dt.datetime.now()).strftime("%Y-%m-%d %H:%M")
     plan = bundle["plan"]
     start = plan["start"]
-    caution = f'<div class="caution"><b>Caution.</b> {html.escape(CAUTION_TEXT)}</div>'
+    caution = f'<div class="caution"><b>Caution.</b> {html.escape(caution_text(system))}</div>'
     figs = "".join(
         f'<div class="figure"><div class="label">{html.escape(k.label)}</div><div class="value">{html.escape(k.text)}</div>'
         f'<div class="note">{html.escape(k.note)}</div></div>'

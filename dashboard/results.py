@@ -15,7 +15,7 @@ import numpy as np
 from planner.checks.compare import compare
 from planner.errors import PlannerError
 from planner.checks.findings import assess
-from planner.plain import plain as _plain
+from planner.plain import finite_or_none, plain as _plain
 from planner.reports.findings_text import MOST_SEVERE_FIRST
 from planner.reports.key_figures import key_figures, outlet_rating
 from planner.transfer.plan import make_plan
@@ -107,8 +107,8 @@ def product_curve(spec: ProductSpec, points: int = 121, product: Product | None 
     return {
         "name": spec.name, "law": fit.law, "parameters": dict(fit.parameters),
         "rms_log_residual": fit.rms_log_residual, "max_relative_residual": fit.max_relative_residual,
-        "t_min": fit.t_min if math.isfinite(fit.t_min) else None,
-        "t_max": fit.t_max if math.isfinite(fit.t_max) else None,
+        "t_min": finite_or_none(fit.t_min),
+        "t_max": finite_or_none(fit.t_max),
         "n_points": fit.n_points, "temperature": temps, "viscosity": np.asarray(values),
         "lab_temperature": lab_t, "lab_viscosity": lab_mu,
         "no_flow_temperature": spec.no_flow_temperature, "max_temperature": spec.max_temperature,
