@@ -28,6 +28,7 @@ from dashboard.compute import cached_bundle  # noqa: E402
 from dashboard.display import SYSTEM_NAMES, caution_text  # noqa: E402
 from dashboard.report import build_report_html  # noqa: E402
 from dashboard import sharing  # noqa: E402
+from dashboard import calibration_view  # noqa: E402
 from dashboard.sharing import save_share_review  # noqa: E402
 from planner.errors import ScenarioError  # noqa: E402
 from planner.scenario.schema import (  # noqa: E402
@@ -35,7 +36,8 @@ from planner.scenario.schema import (  # noqa: E402
 
 DEMO_DIR = ROOT / "demo_scenarios"
 DEMO_FILES = sorted(DEMO_DIR.glob("*.toml"))
-VIEWS = ["Plan", "Inputs", "Along the line", "Over time", "Setpoint comparison", "Product", sharing.REVIEW_TAB]
+VIEWS = ["Plan", "Inputs", "Along the line", "Over time", "Setpoint comparison", "Product", calibration_view.TAB,
+         sharing.REVIEW_TAB]
 log = logging.getLogger("dashboard")
 
 
@@ -224,6 +226,8 @@ def main() -> None:
                     sharing.review_view(_set_work, unit_system)
                 elif title == "Inputs":
                     inputs.render_inputs(st.container(), problems)
+                elif title == calibration_view.TAB:
+                    calibration_view.calibration_view(scenario, scenario_json, unit_system)
                 elif title == "Setpoint comparison":
                     views.comparison_view(scenario, scenario_json if not stale else None, unit_system)
                 elif not have_results:

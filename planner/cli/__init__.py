@@ -14,9 +14,10 @@ from planner.errors import PlannerError
 from planner.scenario.units import UnitError
 
 from planner.cli import line_commands
+from planner.cli import calibrate_commands
 
 # One entry per command module, in the order their commands appear in --help.
-COMMAND_MODULES = [line_commands]
+COMMAND_MODULES = [line_commands, calibrate_commands]
 
 
 def build_parser() -> argparse.ArgumentParser:

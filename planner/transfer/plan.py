@@ -16,7 +16,7 @@ from pydantic import ValidationError
 from planner.errors import ComputationError, ScenarioError
 from planner.transfer.hold import Hold, hold_analysis
 from planner.line.march import MarchResult
-from planner.line.products import Product
+from planner.line.products import scenario_product
 from planner.scenario.quantities import SI
 from planner.scenario.wording import Q, Sentence
 from planner.scenario.schema import Scenario, problems_from
@@ -183,7 +183,7 @@ def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | No
               both_startups: bool = True) -> Plan:
     """The whole plan.  ``both_startups=False`` works out only the scenario's chosen start-up mode
     (comparisons); the other option is then marked as not evaluated."""
-    product = Product(scenario.product, viscosity_factor=viscosity_factor)
+    product = scenario_product(scenario, viscosity_factor=viscosity_factor)   # with the [calibration] factor
     system = TransferSystem(scenario, product=product)
     source = scenario.source
     if source.temperature <= product.no_flow_temperature:

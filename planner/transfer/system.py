@@ -25,10 +25,10 @@ from dataclasses import dataclass, field
 from scipy.optimize import brentq
 
 from planner.line.march import Line, MarchSummary, march
-from planner.line.products import Product
+from planner.line.products import Product, scenario_product
 from planner.transfer.pumps import CentrifugalPump, PositiveDisplacementPump
 from planner.line.route import build_line
-from planner.scenario.schema import Scenario
+from planner.scenario.schema import Scenario, calibration_of
 from planner.scenario.units import ATMOSPHERE_PA, GRAVITY
 from planner.scenario.wording import Q, Sentence
 from planner.transfer.vessels import level_from_volume
@@ -91,10 +91,12 @@ class SystemState:
     destination_volume_added: float = 0.0
 
 
-def build_pump(spec):
+def build_pump(spec, slip_factor: float = 1.0):
+    """The pump of a ``PumpSpec``; ``slip_factor`` (the scenario's ``[calibration]``) multiplies PD slip."""
     if spec.kind == "positive_displacement":
         return PositiveDisplacementPump(
-            displacement_m3_per_rev=spec.displacement, speed_rev_s=spec.speed, slip_flow_m3_s=spec.slip_flow,
+            displacement_m3_per_rev=spec.displacement, speed_rev_s=spec.speed,
+            slip_flow_m3_s=spec.slip_flow * slip_factor,
             slip_reference_pressure_pa=spec.slip_reference_pressure,
             slip_reference_viscosity_pa_s=spec.slip_reference_viscosity,
             slip_viscosity_exponent=spec.slip_viscosity_exponent, relief_setting_pa=spec.relief_setting,
@@ -115,12 +117,14 @@ class TransferSystem:
             raise ScenarioError([(name, "a transfer plan needs this section") for name in missing])
         self.scenario = scenario
         self.tracing = tracing or scenario.tracing
-        self.product = product or Product(scenario.product)
-        self.discharge_line = Line(build_line(scenario.route, scenario.site), self.product, self.tracing)
-        self.suction_line = (Line(build_line(scenario.suction, scenario.site), self.product, self.tracing)
-                             if scenario.suction is not None else None)
+        calibration = calibration_of(scenario)
+        self.product = product or scenario_product(scenario)
+        heat_loss_factor = calibration.heat_loss_factor
+        self.discharge_line = Line(build_line(scenario.route, scenario.site, heat_loss_factor), self.product, self.tracing)
+        self.suction_line = (Line(build_line(scenario.suction, scenario.site, heat_loss_factor), self.product,
+                                  self.tracing) if scenario.suction is not None else None)
         self.pump_spec = scenario.pump
-        self.pump = build_pump(scenario.pump)
+        self.pump = build_pump(scenario.pump, calibration.slip_factor)
         self.source = scenario.source
         self.destination = scenario.destination
         self.step = step
