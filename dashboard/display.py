@@ -15,7 +15,7 @@ import numpy as np
 
 from planner.checks.caution import STANDING_CAUTION
 from planner.scenario.wording import Q, Sentence, render
-from planner.scenario.units import SI_UNITS, from_si, registry, to_si, to_si_from_display, unit_label
+from planner.scenario.units import SI_UNITS, UNIT_SYSTEMS, from_si, registry, to_si, to_si_from_display, unit_label
 
 SYSTEM_NAMES = {"SI": "SI (metric)", "US": "US customary"}
 
@@ -97,6 +97,16 @@ def si_string(si_value: float, kind: str) -> str:
     """An SI value as a scenario-file string with its unit, e.g. ``"328.15 K"``."""
     unit = SI_UNITS[kind]
     return f"{float(si_value):.12g} {unit}"
+
+
+def display_string(value: float, kind: str, system: str) -> str:
+    """A number typed in the display unit as a scenario-file string in that unit ("-300 degC", "15 gpm"),
+    so that a problem with it is reported in the unit the user gave."""
+    if kind in FIXED_DISPLAY:
+        unit = FIXED_DISPLAY[kind][1]
+    else:
+        unit = UNIT_SYSTEMS[system][kind].pint_unit
+    return f"{float(value):.12g} {unit}"
 
 
 def stored_to_si(raw, kind: str) -> float | None:

@@ -89,3 +89,19 @@ def test_the_report_headline_follows_the_worst_finding():
 
     summary = page[page.index('<p class="headline'):page.index("<h2>Inputs</h2>")]   # headline, figures, findings
     assert_speaks(html.unescape(re.sub(r"<[^>]+>", " ", summary)), "US")
+
+
+def test_an_input_below_absolute_zero_is_reported_in_the_unit_typed():
+    at = AppTest.from_file(APP, default_timeout=90).run()
+    at.session_state["view"] = "Inputs"
+    at.run()
+    ambient = next(w for w in at.number_input if w.label.startswith("Ambient temperature"))
+    ambient.set_value(-300.0).run()
+    messages = [e.value for e in at.error if "site.ambient_temperature" in e.value]
+    assert messages, [e.value for e in at.error]
+    assert "-300 °C is at or below absolute zero (-273.15 °C)" in messages[0] and " K" not in messages[0]
+    at.radio(key="unit_system").set_value("US").run()
+    ambient = next(w for w in at.number_input if w.label.startswith("Ambient temperature"))
+    ambient.set_value(-500.0).run()
+    messages = [e.value for e in at.error if "site.ambient_temperature" in e.value]
+    assert "-500 °F is at or below absolute zero (-459.67 °F)" in messages[0]

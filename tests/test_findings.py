@@ -497,6 +497,13 @@ def test_contents_below_their_no_flow_temperature_cannot_be_pushed_out():
     assert "COLD-START-IMPOSSIBLE" not in found(standing(15.0))
 
 
+def test_a_calibrated_plan_says_so():
+    d = bench()
+    d["calibration"] = {"viscosity_factor": 1.2}
+    assert found(d)["CALIBRATION-IN-USE"].severity == "info"
+    assert "CALIBRATION-IN-USE" not in found(bench())
+
+
 def test_every_finding_code_was_read_in_both_unit_systems():
     """Run last in this file: the generated scenarios above triggered (and rendered) every code."""
     import re

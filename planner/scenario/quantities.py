@@ -120,7 +120,7 @@ def _given_unit(value: object, kind: str) -> tuple[str | None, str]:
     if isinstance(value, str):
         match = _NUMBER_UNIT.match(value)
         if match and match.group(2).strip():
-            return _normalise_unit(match.group(2)), value.strip()
+            return _normalise_unit(match.group(2)), f"{match.group(1)} {_pretty(_normalise_unit(match.group(2)))}"
         number = match.group(1) if match else value.strip()
         return None, f"{number} {default_unit_label(kind)}"
     return None, f"{value:g} {default_unit_label(kind)}" if isinstance(value, (int, float)) else str(value)
