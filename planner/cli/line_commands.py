@@ -9,6 +9,7 @@ from __future__ import annotations
 import json
 import sys
 
+from planner.scenario.budget import BudgetError
 from planner.scenario.units import UnitError
 
 FAIL_EXIT = 3
@@ -86,8 +87,11 @@ def _lever_values(args, system: str):
     kind = {"setpoint": "temperature", "steam_pressure": "pressure", "pump_speed": "rotational_speed",
             "flow_limit": "volume_flow"}[lever]
     flag = "--" + option.replace("_", "-")
-    values = [to_si(f"{v!r} {units[system]}", kind, flag) for v in parse_range(getattr(args, option))]
-    return lever, values
+    try:
+        numbers = parse_range(getattr(args, option))
+    except ValueError as exc:
+        raise ValueError(f"{flag}: {exc}") from None
+    return lever, [to_si(f"{v!r} {units[system]}", kind, flag) for v in numbers], flag
 
 
 def _compare(args) -> int:
@@ -97,7 +101,7 @@ def _compare(args) -> int:
 
     system = UNIT_CHOICES[args.units]
     scenario = load_scenario(args.scenario)
-    lever, values = _lever_values(args, system)
+    lever, values, option = _lever_values(args, system)
 
     def progress(done, total):
         if not args.json and sys.stderr.isatty():
@@ -106,6 +110,8 @@ def _compare(args) -> int:
     try:
         result = compare(scenario, lever, values, progress=progress, sensitivity=args.sensitivity,
                          ambient_shift=args.ambient_shift, viscosity_uncertainty=args.viscosity_uncertainty / 100.0)
+    except BudgetError as exc:   # name the option the values came from
+        raise BudgetError([(option if field == "values" else field, message) for field, message in exc.problems]) from None
     finally:
         shutdown_pool()
     if args.json:

@@ -78,7 +78,13 @@ def Quantity(kind: str, *, gt: float | None = None, ge: float | None = None,
     """An annotated float type for a quantity of ``kind``; bounds are given in SI."""
 
     def parse(value: object, info) -> float:
-        number = float(value) if isinstance(value, SI) else to_si(value, kind, None)
+        if isinstance(value, SI):
+            number = float(value)
+        else:
+            try:
+                number = to_si(value, kind, "value")
+            except UnitError as exc:   # the path already names the field: drop to_si's own prefix
+                raise ValueError(str(exc).removeprefix("value: ")) from None
         unit, shown = _given_unit(value, kind)
         if kind == "temperature" and number <= 0.0:
             raise ValueError(f"{shown} is at or below absolute zero ({_in_unit(0.0, kind, unit)})")
