@@ -226,6 +226,8 @@ def _show_result(data: dict, unit_system: str) -> None:
     st.dataframe(factors_frame(data), hide_index=True)
     for pair, r in data["correlation"].items():
         st.caption(f"correlation {pair}: {r:+.2f}")
+    for note in data.get("notes", []):
+        st.caption(f"Note: {note}")
     for text in data["warnings"]:
         st.warning(text)
     st.dataframe(residuals_frame(data, unit_system), hide_index=True)

@@ -43,6 +43,7 @@ def test_clean_log_fits_back_two_factors_within_one_percent():
         assert result.factors[name].value == pytest.approx(value, rel=0.01), name
         assert result.factors[name].identifiable
     assert not result.warnings and not result.mismatch
+    assert not result.notes            # source temperature and ambient are in the log
 
 
 def test_clean_log_fits_back_three_factors_with_pd_slip():
@@ -101,6 +102,7 @@ def test_closed_form_laminar_line_fits_measured_over_hagen_poiseuille():
     rows = "".join(f"{i},{q * 3600:.6f},{p / 1e5:.7f}\n" for i, (q, p) in enumerate(zip(flows, measured)))
     log = read_log("time [min],flow [m3/h],discharge_pressure [bar]\n" + rows, "hp.csv")
     result = fit_calibration(scenario, log, ["viscosity_factor"])
+    assert any("source_temperature not logged" in n for n in result.notes)
     expected = float(np.mean(measured / hagen_poiseuille))
     assert result.factors["viscosity_factor"].value == pytest.approx(expected, rel=0.005)
 

@@ -120,6 +120,14 @@ def test_too_few_rows_and_empty_logs_say_so():
         _log("time [min],flow [m3/h],discharge_pressure [bar]\n1,x,3\n2,y,3\n")
 
 
+def test_semicolons_with_decimal_commas():
+    # a European historian export: semicolon-separated, decimal commas
+    text = "time [min];flow [m3/h];discharge_pressure [bar]\n" + "".join(f"{i};12,5;4,75\n" for i in range(5))
+    log = _log(text)
+    assert log.values["flow"][0] == pytest.approx(12.5 / 3600.0)
+    assert log.values["discharge_pressure"][4] == pytest.approx(4.75e5)
+
+
 def test_hash_is_of_the_file_bytes(tmp_path):
     import hashlib
 

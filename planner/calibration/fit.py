@@ -26,8 +26,8 @@ from scipy.optimize import least_squares
 from scipy.stats import t as student_t
 
 from planner.calibration.log import TransferLog
-from planner.calibration.replay import (FACTOR_NAMES, Replay, Replayer, heater_holding_fraction, pd_slip_applies,
-                                        with_factors)
+from planner.calibration.replay import (FACTOR_NAMES, Replay, Replayer, heater_holding_fraction, input_notes,
+                                        pd_slip_applies, with_factors)
 from planner.errors import ComputationError, ScenarioError
 from planner.scenario.schema import Calibration, CalibrationSource, Scenario, calibration_of
 
@@ -166,7 +166,7 @@ def _fit(scenario: Scenario, log: TransferLog, names: list[str], evaluate: Repla
     final = evaluate(dict(zip(names, solution.x)))
     residuals = _residual_table(log, quantities, sigmas, final)
     result = FitResult(scenario, log, factors, correlation, residuals, warnings, final, evaluate.evaluations, dof,
-                       int(final.sets.sum()))
+                       int(final.sets.sum()), input_notes(scenario, log))
     _diagnose(result)
     return result
 

@@ -7,6 +7,9 @@ atmosphere).  ``time`` is a number with its unit (``time [min]``) or, with no un
 ``[ISO 8601]``), timestamps such as ``2026-01-14T06:30:00``.  A column map (TOML, ``[columns]``
 table: ``"historian header" = "quantity [unit]"``) renames other headers.
 
+Cells are separated by commas, semicolons or tabs (from the header line); with semicolons or tabs
+a decimal comma is read too ("4,55").
+
 Every data row is either read or reported with its reason: nothing is dropped silently.  Blank
 cells of a measured quantity keep the row (that quantity is just not compared there).
 """
@@ -219,14 +222,16 @@ def _delimiter(first_line: str) -> str:
     return max(counts, key=counts.get) if max(counts.values()) > 0 else ","
 
 
-def _number(cell: str) -> float:
+def _number(cell: str, decimal_comma: bool = False) -> float:
+    if decimal_comma and "," in cell and "." not in cell:
+        cell = cell.replace(",", ".")
     value = float(cell)
     if not math.isfinite(value):
         raise ValueError(cell)
     return value
 
 
-def _read_row(cells: list[str], columns: dict[int, Column]) -> tuple[dict[str, float], object]:
+def _read_row(cells: list[str], columns: dict[int, Column], decimal_comma: bool = False) -> tuple[dict[str, float], object]:
     """SI values of one row and its timestamp (or None); ValueError with the reason."""
     row: dict[str, float] = {}
     stamp = None
@@ -245,7 +250,7 @@ def _read_row(cells: list[str], columns: dict[int, Column]) -> tuple[dict[str, f
                 raise ValueError(f"time {cell!r} is not an ISO 8601 timestamp") from None
             continue
         try:
-            value = col.offset + col.scale * _number(cell)
+            value = col.offset + col.scale * _number(cell, decimal_comma)
         except ValueError:
             raise ValueError(f"{q} {cell!r} is not a number") from None
         low, high, text = LIMITS.get(q, (-math.inf, math.inf, ""))
@@ -255,7 +260,7 @@ def _read_row(cells: list[str], columns: dict[int, Column]) -> tuple[dict[str, f
     return row, stamp
 
 
-def _parse_rows(reader, columns: dict[int, Column], width: int):
+def _parse_rows(reader, columns: dict[int, Column], width: int, decimal_comma: bool = False):
     """Readable rows, their file lines, timestamps and the problems of the rest."""
     rows, lines, stamps, problems = [], [], [], []
     comments = 0
@@ -272,7 +277,7 @@ def _parse_rows(reader, columns: dict[int, Column], width: int):
             problems.append((line, f"expected {width} cells, found {len(cells)}"))
             continue
         try:
-            row, stamp = _read_row(cells, columns)
+            row, stamp = _read_row(cells, columns, decimal_comma)
         except ValueError as exc:
             problems.append((line, str(exc)))
             continue
@@ -313,14 +318,15 @@ def read_log(data: bytes | str, name: str = "log.csv", column_map: dict[str, str
     body = [ln for ln in text.splitlines() if ln.strip() and not ln.lstrip().startswith("#")]
     if not body:
         raise LogError(f"{name}: the log is empty")
-    reader = csv.reader(io.StringIO(text), delimiter=_delimiter(body[0]))
+    delimiter = _delimiter(body[0])
+    reader = csv.reader(io.StringIO(text), delimiter=delimiter)
     header = None
     for cells in reader:
         if cells and any(c.strip() for c in cells) and not cells[0].lstrip().startswith("#"):
             header = cells
             break
     columns, ignored = _columns(header, column_map)
-    rows, lines, stamps, problems = _parse_rows(reader, columns, len(header))
+    rows, lines, stamps, problems = _parse_rows(reader, columns, len(header), decimal_comma=delimiter != ",")
     total = len(rows) + len(problems)
     if not rows:
         raise LogError(f"{name}: none of its {total} data rows could be read; first reasons: "

@@ -41,6 +41,7 @@ def fit_json(result: FitResult) -> dict:
         "replays": result.evaluations,
         "degrees_of_freedom": result.degrees_of_freedom,
         "warnings": result.warnings,
+        "notes": result.notes,
     }
 
 
@@ -82,6 +83,7 @@ def fit_text(result: FitResult) -> str:
         lines.append(f"  {LABELS[q]:32s} {_in_units(q, row['rms']):>12s} {_in_units(q, row['noise']):>12s} "
                      f"{_in_units(q, row['bias']):>12s} {row['count']:5d}")
     lines.append(f"  ({result.evaluations} replays of the log; residual = logged - modelled)")
+    lines += [f"  note: {n}" for n in result.notes]
     if result.warnings:
         lines += ["", "Warnings:"] + [f"  - {w}" for w in result.warnings]
     return "\n".join(lines)
