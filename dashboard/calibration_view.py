@@ -223,6 +223,9 @@ def _show_result(data: dict, unit_system: str) -> None:
         st.dataframe(pd.DataFrame([{"reason": g["reason"], "rows": g["count"],
                                     "file lines": ", ".join(str(n) for n in g["lines"])} for g in log_info["unreadable"]]),
                      hide_index=True)
+    if log_info.get("rows_pump_stopped"):
+        st.caption(f"{log_info['rows_pump_stopped']} rows with flow 0 (pump stopped): counted for the volumes moved, "
+                   "not replayed.")
     st.dataframe(factors_frame(data), hide_index=True)
     for pair, r in data["correlation"].items():
         st.caption(f"correlation {pair}: {r:+.2f}")

@@ -134,6 +134,30 @@ def test_log_from_another_line_is_reported():
     assert "another product or line" in text or "check that the log is of this product and line" in text
 
 
+def test_a_stop_in_the_log_counts_for_the_volumes_but_is_not_replayed():
+    # a 30-row log at constant flow with the pump stopped for rows 10-14: the moved volume keeps
+    # the stop out, and the fit uses only the running rows
+    from planner.calibration.replay import moved_volume, replay
+
+    scenario = load_scenario(POLYOL)
+    truth = {"viscosity_factor": 1.2, "heat_loss_factor": 0.9}
+    text = synthetic_log(scenario, truth, rows=30, duration_s=2 * 3600.0)
+    lines = text.splitlines()
+    for k in range(11, 16):           # data rows 10..14 (line 0 is the header)
+        cells = lines[k].split(",")
+        cells[1] = "0"
+        lines[k] = ",".join(cells)
+    log = read_log("\n".join(lines) + "\n", "stop.csv")
+    assert log.stopped_rows == 5
+    t, q = log.values["time"], log.values["flow"]
+    assert moved_volume(log)[-1] == pytest.approx(float(np.sum(0.5 * (q[1:] + q[:-1]) * np.diff(t))))
+    modelled = replay(scenario, log, truth).modelled["discharge_pressure"]
+    assert np.isnan(modelled[10:15]).all() and np.isfinite(modelled[:10]).all()
+    result = fit_calibration(scenario, log, ["viscosity_factor"])
+    assert result.residuals["discharge_pressure"]["count"] == 25
+    assert result.factors["viscosity_factor"].value == pytest.approx(1.2, rel=0.02)
+
+
 def test_slip_factor_needs_a_pd_pump_and_logged_speed():
     scenario = load_scenario(POLYOL)
     log = read_log(synthetic_log(scenario, {}, rows=10), "c.csv")

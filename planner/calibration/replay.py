@@ -111,6 +111,8 @@ def replay(scenario: Scenario, log: TransferLog, factors: dict[str, float] | Non
     slip = pd_slip_applies(scenario, log)
     speed = log.values.get("speed")
     for k, i in enumerate(index):
+        if not inputs["flow"][i] > 0.0:
+            continue                 # pump stopped: nothing to replay, NaN stays
         shift = float(inputs["ambient_shift"][i])
         for seg, base in zip(segments, base_ambient):
             seg.ambient_temperature = base + shift
@@ -122,7 +124,7 @@ def replay(scenario: Scenario, log: TransferLog, factors: dict[str, float] | Non
         out["suction_pressure"][k] = point.suction_pressure
         out["pump_inlet_temperature"][k] = point.pump_inlet_temperature
         out["outlet_temperature"][k] = point.outlet_temperature
-        if slip and math.isfinite(speed[i]):
+        if slip and math.isfinite(speed[i]) and speed[i] > 0.0:
             out["flow"][k] = _pd_flow(system, log, i, point, float(speed[i]))
     used = {name: float(getattr(calibration_of(calibrated), name)) for name in FACTOR_NAMES}
     return Replay(used, out, sets)
@@ -146,10 +148,11 @@ def _pd_flow(system: TransferSystem, log: TransferLog, i: int, point, speed: flo
 
 def heater_holding_fraction(scenario: Scenario, log: TransferLog) -> float:
     """Share of the discharge line's traced length where the thermostat holds its setpoint, at the
-    log's middle row: there the heat loss is made up by the heater and hardly shows in temperatures."""
+    log's middle running row: there the heat loss is made up by the heater and hardly shows in temperatures."""
     system = TransferSystem(scenario)
     inputs = _inputs(scenario, log)
-    i = log.rows // 2
+    moving = np.flatnonzero(log.running)
+    i = int(moving[moving.size // 2])
     for seg in _segments(system):
         seg.ambient_temperature += float(inputs["ambient_shift"][i])
     state = SystemState(float(inputs["source_temperature"][i]), float(inputs["source_volume"][i]),

@@ -20,6 +20,7 @@ def log_json(log: TransferLog) -> dict:
     return {
         "file": log.name, "sha256": log.sha256, "rows": log.rows_total, "rows_read": log.rows,
         "rows_unreadable": len(log.problems), "unreadable": log.problem_summary(),
+        "rows_pump_stopped": log.stopped_rows,
         "blank_cells": log.blanks, "ignored_columns": log.ignored_headers,
         "columns": {q: c.header for q, c in log.columns.items()}, "start": log.start,
         "duration_s": float(log.values["time"][-1]),
@@ -63,6 +64,8 @@ def log_lines(log: TransferLog) -> list[str]:
         for group in log.problem_summary():
             where = ", ".join(str(n) for n in group["lines"]) + (" …" if group["count"] > len(group["lines"]) else "")
             lines.append(f"    {group['count']:4d} × {group['reason']} (line {where})")
+    if log.stopped_rows:
+        lines.append(f"  {log.stopped_rows} rows with flow 0 (pump stopped): counted for the volumes moved, not replayed")
     for quantity, count in log.blanks.items():
         lines.append(f"  {quantity}: {count} blank cells (not compared there)")
     if log.ignored_headers:
