@@ -31,6 +31,8 @@ QUANTITY_KIND = {"discharge_pressure": ("pressure", "pressure"), "suction_pressu
 TITLES = {"discharge_pressure": "Discharge pressure (gauge)", "suction_pressure": "Suction pressure (gauge)",
           "pump_inlet_temperature": "Pump inlet temperature", "outlet_temperature": "Outlet temperature",
           "flow": "Flow (PD pump at logged speed)"}
+# a fit replays every row some 15-40 times: the page takes logs up to this size (the command line takes more)
+DASHBOARD_MAX_ROWS = 1500
 log = logging.getLogger("dashboard")
 
 
@@ -50,6 +52,10 @@ def cached_fit(scenario_json: str, log_bytes: bytes, log_name: str, map_text: st
         scenario = parse_scenario_text(scenario_json, "json")
         column_map = column_map_from_dict(tomllib.loads(map_text), "column map") if map_text.strip() else None
         transfer_log = read_log(log_bytes, log_name, column_map)
+        if transfer_log.rows > DASHBOARD_MAX_ROWS:
+            return {"error": f"{log_name} has {transfer_log.rows} readable rows; the page fits logs of up to "
+                             f"{DASHBOARD_MAX_ROWS} rows: resample it (e.g. one row a minute) or use "
+                             "`python -m planner calibrate`"}
         result = fit_calibration(scenario, transfer_log, list(names))
     except tomllib.TOMLDecodeError as exc:
         return {"error": f"the column map cannot be read as TOML: {exc}"}
