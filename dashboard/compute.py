@@ -1,46 +1,68 @@
 """Cached planner calls for the pages, keyed by the scenario's canonical JSON text.
 
 The JSON text is ``planner.scenario.schema.scenario_to_json`` of the validated scenario, so unchanged
-inputs (in any unit system) hit the cache and do not recompute.  Planner errors come back as
-``{"error": message}`` (cached too); they are never raised into the page.
+inputs (in any unit system) hit the cache and do not recompute.  A miss runs in the bounded worker
+pool of ``dashboard.workers`` (one computation per session, a time limit per request, never in the
+server process).  Planner errors come back as ``{"error": message}`` (cached too); a computation
+stopped at its time limit, or refused while every worker is busy, comes back as an error with
+``"transient": True`` and is not cached, so pressing the button again tries again.
 """
 
 from __future__ import annotations
 
-import logging
-
 import streamlit as st
 
-from planner.errors import PlannerError, ScenarioError
-from planner.scenario.schema import parse_scenario_text
+from .workers import pool
 
-from .results import build_bundle, run_comparison
+pool(warm=True)     # the fork server and workers start while the first page is laid out
 
-log = logging.getLogger(__name__)
+
+class _NotCached(Exception):
+    """Carries a transient result out of a cached function, so that Streamlit does not keep it."""
+
+    def __init__(self, result: dict):
+        super().__init__(result.get("error", ""))
+        self.result = result
+
+
+def _session_id() -> str:
+    try:
+        from streamlit.runtime.scriptrunner import get_script_run_ctx
+
+        ctx = get_script_run_ctx()
+        return ctx.session_id if ctx is not None else ""
+    except Exception:  # noqa: BLE001  (outside a Streamlit run: one anonymous session)
+        return ""
+
+
+def _run(kind: str, args: tuple, progress=None) -> dict:
+    result = pool().run(kind, args, session=_session_id(), progress=progress)
+    if result.get("transient"):
+        raise _NotCached(result)
+    return result
 
 
 @st.cache_data(show_spinner=False, max_entries=48)
-def cached_bundle(scenario_json: str) -> dict:
-    try:
-        scenario = parse_scenario_text(scenario_json, "json")
-        return build_bundle(scenario)
-    except ScenarioError as exc:      # e.g. a plan needs [pump], [source] and [destination]
-        return {"error": str(exc), "problems": list(exc.problems)}
-    except (PlannerError, ValueError, ArithmeticError) as exc:
-        return {"error": str(exc)}
-    except Exception as exc:  # noqa: BLE001  (a bug must not put a traceback on the page)
-        log.exception("plan failed")
-        return {"error": f"the planner failed unexpectedly ({type(exc).__name__}: {exc}); "
-                         "please report this scenario to the maintainers"}
+def _bundle(scenario_json: str) -> dict:
+    return _run("plan", (scenario_json,))
 
 
 @st.cache_data(show_spinner=False, max_entries=16)
-def cached_comparison(scenario_json: str, lever: str, values_si: tuple, sensitivity: bool, _progress=None) -> dict:
+def _comparison(scenario_json: str, lever: str, values_si: tuple, sensitivity: bool, _progress=None) -> dict:
+    return _run("comparison", (scenario_json, lever, list(values_si), sensitivity), progress=_progress)
+
+
+def cached_bundle(scenario_json: str) -> dict:
+    """The plan bundle of ``dashboard.results.build_bundle``, or ``{"error": ...}``."""
     try:
-        scenario = parse_scenario_text(scenario_json, "json")
-        return run_comparison(scenario, lever, list(values_si), progress=_progress, sensitivity=sensitivity)
-    except (PlannerError, ValueError, ArithmeticError) as exc:
-        return {"error": str(exc)}
-    except Exception as exc:  # noqa: BLE001
-        log.exception("comparison failed")
-        return {"error": f"the comparison failed unexpectedly ({type(exc).__name__}: {exc})"}
+        return _bundle(scenario_json)
+    except _NotCached as exc:
+        return exc.result
+
+
+def cached_comparison(scenario_json: str, lever: str, values_si: tuple, sensitivity: bool, _progress=None) -> dict:
+    """``dashboard.results.run_comparison`` as plain data, or ``{"error": ...}``."""
+    try:
+        return _comparison(scenario_json, lever, values_si, sensitivity, _progress=_progress)
+    except _NotCached as exc:
+        return exc.result

@@ -540,25 +540,46 @@ def scenario_from_dict(data: dict) -> Scenario:
     if not isinstance(data, dict):
         raise ScenarioError([("", "a scenario must be a table/object at the top level")])
     try:
-        return Scenario.model_validate(data)
+        scenario = Scenario.model_validate(data)
     except ValidationError as exc:
         raise ScenarioError(problems_from(exc)) from None
+    except RecursionError:
+        raise ScenarioError([("", "the scenario is nested too deeply to read")]) from None
+    from planner.scenario.budget import check_plan
+
+    check_plan(scenario)   # the work budget: a scenario that asks for too much is refused here
+    return scenario
+
+
+MAX_SCENARIO_CHARS = 2_000_000   # a scenario file or text longer than this is refused unread
+
+
+def read_scenario_data(text: str, fmt: str) -> object:
+    """The plain data of a TOML or JSON text, or ScenarioError saying why it cannot be read."""
+    if len(text) > MAX_SCENARIO_CHARS:
+        raise ScenarioError([("", f"the {fmt.upper()} text is {len(text):,} characters, more than a scenario "
+                                  f"needs (at most {MAX_SCENARIO_CHARS:,})")])
+    try:
+        return tomllib.loads(text) if fmt == "toml" else json.loads(text)
+    except (tomllib.TOMLDecodeError, json.JSONDecodeError) as exc:
+        raise ScenarioError([("", f"cannot read the {fmt.upper()} file: {exc}")]) from None
+    except RecursionError:
+        raise ScenarioError([("", f"cannot read the {fmt.upper()} file: it is nested too deeply")]) from None
 
 
 def parse_scenario_text(text: str, fmt: str) -> Scenario:
-    try:
-        data = tomllib.loads(text) if fmt == "toml" else json.loads(text)
-    except (tomllib.TOMLDecodeError, json.JSONDecodeError) as exc:
-        raise ScenarioError([("", f"cannot read the {fmt.upper()} file: {exc}")]) from None
-    return scenario_from_dict(data)
+    return scenario_from_dict(read_scenario_data(text, fmt))
 
 
 def load_scenario(path: str | Path) -> Scenario:
     path = Path(path)
     try:
-        text = path.read_text(encoding="utf-8")
+        with path.open("r", encoding="utf-8") as handle:
+            text = handle.read(MAX_SCENARIO_CHARS + 1)
     except OSError as exc:
         raise ScenarioError([("", f"cannot open {path}: {exc.strerror}")]) from None
+    except UnicodeDecodeError:
+        raise ScenarioError([("", f"cannot read {path}: it is not UTF-8 text")]) from None
     fmt = "json" if path.suffix.lower() == ".json" else "toml"
     return parse_scenario_text(text, fmt)
 
