@@ -76,8 +76,8 @@ def test_without_a_log_the_tab_asks_for_one(db):
 
 
 def test_a_log_that_cannot_be_read_shows_its_message():
-    # the page's fit call with the bytes an upload would give: the planner's message, no traceback
-    from dashboard.calibration_view import cached_fit
+    # the page's fit job with the bytes an upload would give: the planner's message, no traceback
+    from dashboard.calibration_data import fit_document as cached_fit
     from planner.scenario.schema import scenario_to_json
 
     scenario_json = scenario_to_json(load_scenario(BARGE))
