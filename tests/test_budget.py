@@ -218,3 +218,20 @@ def test_inside_the_budget_a_plan_still_runs(tmp_path, capsys):
     code, _ = _cli(tmp_path, capsys, data, "plan", "--json")
     assert code == 0
     assert isinstance(scenario_from_dict(data), Scenario)
+
+
+@pytest.mark.parametrize("ambient_c", [-200.0, -95.0, 75.0, 300.0])
+def test_an_ambient_beyond_the_earths_extremes_is_refused_at_the_field(tmp_path, capsys, ambient_c):
+    # the air and viscosity models were given 12 K air before ("Walther law ... beyond floating-point range")
+    data = _demo_dict()
+    data["site"]["ambient_temperature"] = ambient_c
+    code, err = _cli(tmp_path, capsys, data, "plan")
+    assert code == 2 and "site.ambient_temperature:" in err and ("-90 °C" in err or "70 °C" in err)
+
+
+@pytest.mark.parametrize("preset", [{"a": 1}, [1], 3])
+def test_a_preset_that_is_not_a_name_is_refused_at_the_field(preset):
+    data = _demo_dict()
+    data["product"]["preset"] = preset
+    with pytest.raises(ScenarioError, match="unknown product preset"):
+        scenario_from_dict(data)

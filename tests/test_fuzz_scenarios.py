@@ -129,7 +129,7 @@ mutations = st.lists(st.tuples(st.integers(0, 1000), st.integers(0, 10_000), st.
                      min_size=1, max_size=3)
 mutated = st.builds(lambda base, edits: ("mutated", base, edits), st.integers(0, len(BASES) - 1), mutations)
 generated = st.builds(lambda n, length, nps, flow: ("generated", _generated(n, length, nps, flow), []),
-                      st.integers(1, 200), st.sampled_from([0.01, 1.0, 25.0, 500.0, 5000.0, 50_000.0]),
+                      st.sampled_from([1, 2, 5, 20, 200]), st.sampled_from([0.01, 1.0, 25.0, 500.0, 5000.0, 50_000.0]),
                       st.sampled_from(["1", "2", "4", "12"]), st.sampled_from(["0.5 m3/h", "5 m3/h", "400 m3/h"]))
 commands = st.tuples(st.sampled_from(["plan", "plan", "evaluate", "compare"]), st.sampled_from(SETPOINT_TEXTS),
                      st.booleans(), st.sampled_from(SHIFTS), st.sampled_from(UNCERTAINTIES))
@@ -227,10 +227,10 @@ def test_hostile_scenarios_end_in_a_plan_or_exit_2(tmp_path):
     TALLY.clear()
     REFUSED_BY_FIELD.clear()
     SLOWEST[:] = [0.0, 0.0]
-    started = time.perf_counter()
+    started, started_cpu = time.perf_counter(), time.process_time()
     _case_runner(tmp_path)()
-    total = time.perf_counter() - started
-    print(f"\nscenario fuzz: {TALLY['cases']} cases in {total:.0f} s (slowest {SLOWEST[0]:.2f} s process time, "
+    total, total_cpu = time.perf_counter() - started, time.process_time() - started_cpu
+    print(f"\nscenario fuzz: {TALLY['cases']} cases in {total:.0f} s ({total_cpu:.0f} s process time; slowest {SLOWEST[0]:.2f} s process time, "
           f"{SLOWEST[1]:.2f} s wall): accepted "
           f"{TALLY['accepted']}, refused by field {TALLY['refused by field']}, refused otherwise "
           f"{TALLY['refused otherwise']}")

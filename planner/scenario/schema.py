@@ -45,6 +45,9 @@ ConductivitySlope = Quantity("dimensionless", ge=-0.01, le=0.01, description="ch
 DynamicViscosity = Quantity("dynamic_viscosity", gt=0.0, le=1.0e7, description="dynamic viscosity")
 KinematicViscosity = Quantity("kinematic_viscosity", gt=0.0, le=1.0e4, description="kinematic viscosity")
 YieldStress = Quantity("yield_stress", ge=0.0, le=1.0e5, description="yield stress")
+# Air or soil around a line: -90 to +70 degC spans the recorded extremes at the Earth's surface
+# ([mem] unverified: about -89 and +57 degC); the air and viscosity models are not used beyond it.
+Ambient = Quantity("temperature", ge=183.15, le=343.15, description="ambient temperature")
 VapourPressure = Quantity("pressure", ge=0.0, le=1.0e7, description="vapour pressure (absolute)")
 
 
@@ -126,7 +129,7 @@ class ProductSpec(_Model):
             from planner.scenario.presets import PRODUCT_PRESETS
 
             name = data["preset"]
-            if name not in PRODUCT_PRESETS:
+            if not isinstance(name, str) or name not in PRODUCT_PRESETS:
                 raise ValueError(f"unknown product preset {name!r}; presets are {', '.join(sorted(PRODUCT_PRESETS))}")
             merged = json.loads(json.dumps(PRODUCT_PRESETS[name]))
             merged.update(data)
@@ -184,7 +187,7 @@ class Surroundings(_Model):
     """What a run sees outside its jacket; fields left out take the site's values."""
 
     location: Literal["outdoor", "sheltered", "indoor", "buried"] = "outdoor"
-    ambient_temperature: Optional[Temperature] = None
+    ambient_temperature: Optional[Ambient] = None
     wind_speed: Optional[WindSpeed] = None
     burial_depth: Quantity("length", gt=0.05, le=20.0, description="depth of the pipe axis below grade") = 1.0
     soil_conductivity: Quantity("conductivity", gt=0.05, le=5.0, description="soil thermal conductivity") = 1.2
@@ -296,9 +299,9 @@ class Tracing(_Model):
 
 class Site(_Model):
     name: str = Field("", max_length=120)
-    ambient_temperature: Temperature
+    ambient_temperature: Ambient
     wind_speed: WindSpeed = 0.0
-    design_ambient_temperature: Optional[Temperature] = Field(None, description="coldest ambient the plan must hold at; default: ambient")
+    design_ambient_temperature: Optional[Ambient] = Field(None, description="coldest ambient the plan must hold at; default: ambient")
 
 
 class Operation(_Model):
