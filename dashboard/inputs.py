@@ -25,7 +25,7 @@ from planner.scenario.presets import PRODUCT_PRESETS
 from planner.scenario.schema import ProductSpec
 
 from . import figures
-from .display import from_display, si_string, stored_to_si, to_display, with_unit
+from .display import display_string, from_display, si_string, stored_to_si, to_display, with_unit
 from .results import product_preview
 
 OWN_PRODUCT = "(own lab data)"
@@ -148,7 +148,7 @@ def _commit_number(path: str, kind: str | None, key: str) -> None:
     elif kind is None:
         set_path(data, path, float(value))
     else:
-        set_path(data, path, si_string(from_display(float(value), kind, system()), kind))
+        set_path(data, path, display_string(float(value), kind, system()))
 
 
 def _commit_value(path: str, key: str, empty_is_none: bool = False) -> None:
@@ -269,7 +269,7 @@ def _commit_table(path: str, key: str, columns: tuple, template: Callable[[list]
             return
         value = _nan_to_none(value)
         if col.kind and value is not None:
-            value = si_string(from_display(float(value), col.kind, unit_system), col.kind)
+            value = display_string(float(value), col.kind, unit_system)
         elif col.type == "text" and value is not None:
             value = str(value).strip() or None
         elif col.type == "bool":

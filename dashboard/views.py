@@ -9,6 +9,9 @@ from planner.scenario.schema import Scenario
 
 from . import figures, tables
 from .compute import cached_comparison
+from planner.reports.findings_text import headline
+from planner.scenario.wording import render
+
 from .display import fmt, from_display, key_figures, label, to_display, with_unit
 from .results import LEVERS, SEVERITY_ORDER, default_comparison_values
 
@@ -22,7 +25,7 @@ SEVERITY_STYLE = {
 
 def key_figures_strip(bundle: dict, unit_system: str) -> None:
     """The plan's key figures as metrics; labels are stable (tests read them)."""
-    figs = key_figures(bundle["plan"], bundle.get("outlet_rating"), unit_system)
+    figs = key_figures(bundle, unit_system)
     for row in (figs[:4], figs[4:]):
         cols = st.columns(len(row))
         for col, k in zip(cols, row):
@@ -30,18 +33,21 @@ def key_figures_strip(bundle: dict, unit_system: str) -> None:
                        help=k.help or None, border=True)
 
 
-def status_line(bundle: dict) -> None:
+def status_line(bundle: dict, unit_system: str = "SI") -> None:
+    """The plan's state, following its worst finding (a stop is never shown as ok), then the pump's
+    outcome at the start in the user's units."""
     start = bundle["plan"]["start"]
     timeline = bundle["plan"]["timeline"]
-    message = f"At the start: **{start.get('status', '')}** — {start.get('message', '')}"
+    findings = bundle.get("findings") or []
+    head = headline(findings, unit_system)
+    message = f"At the start: **{start.get('status', '')}** — {render(start.get('message', ''), unit_system)}"
     if start.get("flags"):
         message += f" (flags: {', '.join(start['flags'])})"
-    if start.get("status") == "ok" and timeline.get("completed"):
-        st.success(message)
-    elif start.get("status") == "no_flow" or not timeline.get("completed"):
-        st.error(message + ("" if timeline.get("completed") else f"  \nThe transfer stops: {timeline.get('stop_reason', '')}"))
-    else:
-        st.warning(message)
+    if not timeline.get("completed"):
+        message += f"  \nThe transfer stops: {render(timeline.get('stop_reason', ''), unit_system)}"
+    worst = bundle["plan"].get("worst_severity", "info")
+    box = {"stop": st.error, "warning": st.warning, "caution": st.info}.get(worst, st.success)
+    box(f"**{head}**  \n{message}")
 
 
 def findings_block(bundle: dict, unit_system: str) -> None:
@@ -58,14 +64,14 @@ def findings_block(bundle: dict, unit_system: str) -> None:
         box, icon, heading = SEVERITY_STYLE[severity]
         with st.expander(f"{heading} ({len(items)})", icon=icon, expanded=severity in ("stop", "warning")):
             for f in items:
-                lines = [f"**{f.get('title', '')}** — {f.get('message', '')}"]
+                lines = [f"**{f.get('title', '')}** — {render(f.get('message', ''), unit_system)}"]
                 lines += tables.finding_details(f, unit_system)
                 lines.append(f"`{f.get('code', '')}`")
                 box("  \n".join(lines), icon=icon)
 
 
 def plan_view(bundle: dict, unit_system: str) -> None:
-    status_line(bundle)
+    status_line(bundle, unit_system)
     findings_block(bundle, unit_system)
     st.markdown("#### Start-up and stops")
     st.table(tables.startup_hold_frame(bundle["plan"], unit_system), hide_index=True)
@@ -112,7 +118,7 @@ def time_view(bundle: dict, unit_system: str) -> None:
         st.markdown("#### Push-cold start-up (the plan starts this way)")
     else:
         st.markdown("#### Push-cold start-up (the alternative to pre-warming)")
-    st.caption(cold.get("message", ""))
+    st.caption(render(cold.get("message", ""), unit_system))
     rows = bundle.get("push_cold_rows") or {}
     if rows.get("time_s"):
         st.dataframe(tables.push_cold_frame(rows, unit_system).round(3), hide_index=True, width="stretch")
@@ -216,9 +222,9 @@ def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_s
     kind = result["kind"]
     if result.get("recommended") is not None:
         st.success(f"Recommended: **{fmt(result['rows'][result['recommended']]['value'], kind, unit_system)}** — "
-                   f"{result['reason']}")
+                   f"{render(result['reason'], unit_system)}")
     else:
-        st.error(result["reason"] or "no value can be recommended")
+        st.error(render(result["reason"], unit_system) or "no value can be recommended")
     frame = tables.comparison_frame(result, kind, unit_system)
     errors = [r.get("error", "") for r in result["rows"]]
     if any(errors):
@@ -233,7 +239,8 @@ def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_s
     st.plotly_chart(figures.comparison_figure(result, kind, unit_system), key="comparison_chart")
     if result.get("sensitivity"):
         st.markdown("#### Sensitivity")
-        rows = [(case["case"], fmt(case.get("recommended_value"), kind, unit_system), case.get("reason", ""))
+        rows = [(render(case["case"], unit_system), fmt(case.get("recommended_value"), kind, unit_system),
+                 render(case.get("reason", ""), unit_system))
                 for case in result["sensitivity"]]
         st.dataframe(pd.DataFrame(rows, columns=["Case", "Recommended", "Why"]), hide_index=True, width="stretch")
         fig = figures.sensitivity_figure(result, kind, unit_system)

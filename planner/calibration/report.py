@@ -6,14 +6,11 @@ import math
 
 from planner.calibration.fit import FitResult
 from planner.calibration.log import TransferLog
+from planner.plain import plain as _finite   # the package's one NaN-to-None helper
 
 LABELS = {"discharge_pressure": "discharge pressure", "suction_pressure": "suction pressure",
           "pump_inlet_temperature": "pump inlet temperature", "outlet_temperature": "outlet temperature",
           "flow": "flow (PD pump at logged speed)"}
-
-
-def _finite(value):
-    return value if isinstance(value, (int, float)) and math.isfinite(value) else None
 
 
 def log_json(log: TransferLog) -> dict:
