@@ -8,7 +8,8 @@ import streamlit as st
 from planner.scenario.schema import Scenario
 
 from . import figures, tables
-from .compute import cached_comparison
+from . import compute
+from .plaintext import plain
 from .display import fmt, from_display, key_figures, label, to_display, with_unit
 from .results import LEVERS, SEVERITY_ORDER, default_comparison_values
 
@@ -164,11 +165,8 @@ def _lever_options(scenario: Scenario) -> list[str]:
     return levers
 
 
-def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_system: str) -> None:
-    """Plans at several values of a lever (tracing setpoint first); the recommended row is starred."""
-    if scenario is None or scenario_json is None:
-        st.info("Fix the inputs first: the comparison runs on a valid scenario.")
-        return
+def _comparison_controls(scenario: Scenario, unit_system: str) -> tuple[str, str, str, bool, bool]:
+    """The lever, its display kind, the values as typed, the sensitivity box and the Compare button."""
     levers = _lever_options(scenario)
     gen = st.session_state.get("gen", 0)
     a, b, c = st.columns([1, 2, 1])
@@ -177,48 +175,73 @@ def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_s
     defaults = default_comparison_values(scenario, lever)
     digits = 0 if kind in ("temperature", "rotational_speed") else 1
     default_text = ", ".join(f"{to_display(v, kind, unit_system):.{digits}f}" for v in defaults)
-    text = b.text_input(f"Values [{label(kind, unit_system)}]", value=default_text, key=f"cmp_values{gen}|{unit_system}|{lever}",
+    text = b.text_input(f"Values [{label(kind, unit_system)}]", value=default_text,
+                        key=f"cmp_values{gen}|{unit_system}|{lever}",
                         help="a list (40, 45, 50) or START:STOP:STEP (40:70:5)")
     sensitivity = c.checkbox("With sensitivity", value=False, key=f"cmp_sens{gen}",
                              help="also with the ambient ±10 K and the viscosity ±20 % (five times the work)")
     run = st.button("Compare", type="primary", key=f"cmp_run{gen}")
+    return lever, kind, text, sensitivity, run
+
+
+def _run_comparison(scenario_json: str, lever: str, values_si: tuple, sensitivity: bool) -> dict:
+    """The comparison for these inputs: from this process's memory when it has run before, else worked
+    out now with a progress bar (drawn here, outside any cached function, so every repeat works)."""
+    found = compute.cached_comparison_result(scenario_json, lever, values_si, sensitivity)
+    if found is not None:
+        return found
+    total = len(values_si) * (5 if sensitivity else 1)
+    with st.status(f"Working out {total} plans…", expanded=True) as status:
+        bar = st.progress(0.0, text=f"0/{total} plans")
+
+        def progress(done, n):
+            bar.progress(min(1.0, done / max(n, 1)), text=f"{done}/{n} plans")
+
+        result = compute.comparison(scenario_json, lever, values_si, sensitivity, progress=progress)
+        bar.progress(1.0, text=f"{total}/{total} plans")
+        failed = "error" in result
+        status.update(label="Comparison failed" if failed else "Comparison done",
+                      state="error" if failed else "complete", expanded=False)
+    return result
+
+
+def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_system: str) -> None:
+    """Plans at several values of a lever (tracing setpoint first); the recommended row is starred."""
+    if scenario is None or scenario_json is None:
+        st.info("Fix the inputs first: the comparison runs on a valid scenario.")
+        return
+    lever, kind, text, sensitivity, run = _comparison_controls(scenario, unit_system)
     if run:
         from planner.checks.compare import parse_range
 
         try:
             values_display = parse_range(text)
         except ValueError as exc:
-            st.error(str(exc))
+            st.error(plain(str(exc)))
             return
         values_si = tuple(from_display(v, kind, unit_system) for v in values_display)
-        total = len(values_si) * (5 if sensitivity else 1)
-        with st.status(f"Working out {total} plans…", expanded=True) as status:
-            bar = st.progress(0.0, text=f"0/{total} plans")
-
-            def progress(done, n):
-                bar.progress(min(1.0, done / max(n, 1)), text=f"{done}/{n} plans")
-
-            result = cached_comparison(scenario_json, lever, values_si, sensitivity, _progress=progress)
-            bar.progress(1.0, text=f"{total}/{total} plans")
-            status.update(label="Comparison done" if "error" not in result else "Comparison failed",
-                          state="complete" if "error" not in result else "error", expanded=False)
+        result = _run_comparison(scenario_json, lever, values_si, sensitivity)
         st.session_state["comparison"] = {"json": scenario_json, "result": result}
     saved = st.session_state.get("comparison")
     if not saved:
         st.caption("Choose the values and press Compare: each value is a whole plan.")
         return
-    result = saved["result"]
     if saved["json"] != scenario_json:
         st.warning("The inputs have changed since this comparison: press Compare to run it again.")
+    comparison_result(saved["result"], unit_system)
+
+
+def comparison_result(result: dict, unit_system: str) -> None:
+    """A finished comparison: the recommendation, the table, the charts and the sensitivity."""
     if "error" in result:
-        st.error(result["error"])
+        st.error(plain(result["error"]))
         return
     kind = result["kind"]
     if result.get("recommended") is not None:
-        st.success(f"Recommended: **{fmt(result['rows'][result['recommended']]['value'], kind, unit_system)}** — "
-                   f"{result['reason']}")
+        st.success(f"Recommended: **{plain(fmt(result['rows'][result['recommended']]['value'], kind, unit_system))}** — "
+                   f"{plain(result['reason'])}")
     else:
-        st.error(result["reason"] or "no value can be recommended")
+        st.error(plain(result["reason"] or "no value can be recommended"))
     frame = tables.comparison_frame(result, kind, unit_system)
     errors = [r.get("error", "") for r in result["rows"]]
     if any(errors):
@@ -229,7 +252,8 @@ def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_s
         colour = "background-color: #fcf3cf" if row.name == recommended else ""
         return [colour] * len(row)
 
-    st.dataframe(frame.style.apply(highlight, axis=1).format(precision=2, na_rep="—"), hide_index=True, width="stretch")
+    st.dataframe(frame.style.apply(highlight, axis=1).format(precision=2, thousands=",", na_rep="—"),
+                 hide_index=True, width="stretch")
     st.plotly_chart(figures.comparison_figure(result, kind, unit_system), key="comparison_chart")
     if result.get("sensitivity"):
         st.markdown("#### Sensitivity")

@@ -43,6 +43,11 @@ def peak_discharge_pressure(doc: dict) -> float:
     return max(values)
 
 
+def unescaped(markdown: str) -> str:
+    """Markdown source as read: backslash escapes (CommonMark 2.4) and ** dropped."""
+    return re.sub(r"\\(.)", r"\1", markdown).replace("**", "")
+
+
 def _app() -> AppTest:
     return AppTest.from_file(APP, default_timeout=60)
 
@@ -255,3 +260,40 @@ def test_table_edits_are_written_back_in_si(monkeypatch):
     # untouched cells keep their stored values exactly
     assert state["work"]["route"]["segments"][1] == original["route"]["segments"][1]
     assert state["table_gen"]["route.segments"] == 1
+
+
+def _press_compare(at: AppTest, values: str) -> AppTest:
+    field = [w for w in at.text_input if w.label.startswith("Values [")]
+    assert field, [w.label for w in at.text_input]
+    field[0].set_value(values)
+    [b for b in at.button if b.label == "Compare"][0].click()
+    return at.run()
+
+
+def _comparison_shown(at: AppTest) -> str:
+    assert not at.exception
+    broken = [e.value for e in at.error if "could not be drawn" in e.value]
+    assert not broken, broken
+    recommended = [unescaped(s.value) for s in at.success if s.value.startswith("Recommended:")]
+    assert recommended, [e.value for e in at.error] + [s.value for s in at.success]
+    return recommended[0]
+
+
+def test_the_setpoint_comparison_can_be_run_again():
+    """Issue 12.1: the same values twice, again after SI -> US, and in a second session (another
+    browser) that finds the comparison already worked out by the first: each shows the result.
+    The reference is ``planner.checks.compare.compare`` on the same values."""
+    from planner.checks.compare import compare
+
+    path = ROOT / "demo_scenarios" / "polyol_tank_transfer.toml"
+    expected = compare(load_scenario(path), lever="setpoint", values=[30.0, 40.0])
+    best = expected.rows[expected.recommended]["value"]
+    at = _view(_open(path.name), "Setpoint comparison")
+    first = _comparison_shown(_press_compare(at, "30, 40"))
+    assert f"{best:.1f} °C" in first
+    assert _comparison_shown(_press_compare(at, "30, 40")) == first
+    at.radio(key="unit_system").set_value("US").run()
+    again = _comparison_shown(_press_compare(at, "86, 104"))              # the same setpoints in °F
+    assert f"{best * 9 / 5 + 32:.1f} °F" in again
+    other = _view(_open(path.name), "Setpoint comparison")                # a second session
+    assert _comparison_shown(_press_compare(other, "30, 40")) == first
