@@ -26,6 +26,7 @@ from planner.scenario.schema import ProductSpec
 
 from . import figures
 from .display import from_display, si_string, stored_to_si, to_display, with_unit
+from .plaintext import plain
 from .results import product_preview
 
 OWN_PRODUCT = "(own lab data)"
@@ -684,15 +685,36 @@ SECTIONS = [
 ]
 
 
+SECTION_KEY = "input_section"
+
+
+def _section_label(title: str, problems: Problems, prefixes: tuple) -> str:
+    n = sum(problems.count(p) for p in prefixes)
+    return f"⚠️ {title} ({n})" if n else title
+
+
+def _open_section() -> str:
+    """The title of the sub-tab open in the last run (its label may have gained or lost a warning)."""
+    shown = str(st.session_state.get(SECTION_KEY) or "")
+    for title, _, _ in SECTIONS:
+        if shown == title or shown.startswith(f"⚠️ {title} ("):
+            return title
+    return SECTIONS[0][0]
+
+
 def render_inputs(container, problems: Problems) -> None:
-    """All input sections as tabs; a tab whose fields have problems carries a warning sign."""
-    titles = []
-    for title, prefixes, _ in SECTIONS:
-        n = sum(problems.count(p) for p in prefixes)
-        titles.append(f"⚠️ {title} ({n})" if n else title)
-    tabs = container.tabs(titles)
+    """The input sections as sub-tabs (only the open one runs); a sub-tab whose fields have problems
+    carries a warning sign and the count.  The open sub-tab stays open when its label changes (an
+    invalid value adds the warning), so the message stays in view beside its field."""
+    labels = [_section_label(title, problems, prefixes) for title, prefixes, _ in SECTIONS]
+    current = _open_section()
+    default = labels[[title for title, _, _ in SECTIONS].index(current)]
+    tabs = container.tabs(labels, key=SECTION_KEY, default=default, on_change="rerun")
     for tab, (_, _, renderer) in zip(tabs, SECTIONS):
-        renderer(tab, problems)
-    rest = problems.rest()
+        if tab.open is not False:
+            renderer(tab, problems)
+    prefixes = [prefix for _, section_prefixes, _ in SECTIONS for prefix in section_prefixes]
+    rest = [(p, m) for p, m in problems.rest() if not any(_under(p, prefix) for prefix in prefixes)]
     if rest:
-        container.error("Other problems in the scenario:\n" + "\n".join(f"- `{p or '(file)'}`: {m}" for p, m in rest))
+        container.error("Other problems in the scenario:  \n" + "  \n".join(
+            f"{plain(p or '(file)')}: {plain(m)}" for p, m in rest))

@@ -17,6 +17,7 @@ import zlib
 import pytest
 from streamlit.testing.v1 import AppTest
 
+from apptest_inputs import editor_with_column, number_field
 from conftest import DEMO_FILES, ROOT
 from planner.checks.findings import assess
 from planner.records.links import (LINK_VERSION, URL_BUDGET_CHARS, LinkError, fits_in_url, link_url, pack_scenario,
@@ -68,9 +69,7 @@ def _view(at: AppTest, name: str) -> AppTest:
 
 
 def _number_input(at: AppTest, label_start: str):
-    found = [w for w in at.number_input if w.label.startswith(label_start)]
-    assert found, f"no field {label_start!r}; fields: {[w.label for w in at.number_input]}"
-    return found[0]
+    return number_field(at, label_start)
 
 
 def _no_trouble(at: AppTest) -> None:
@@ -97,7 +96,7 @@ def test_a_share_link_opens_the_same_inputs_and_view(path, db):
     _view(at, "Inputs")
     ambient = _number_input(at, "Ambient temperature")
     assert ambient.value == pytest.approx(scenario.site.ambient_temperature - 273.15, abs=1e-9)
-    lengths = [e.value for e in at.get("data_editor") if "Length [m]" in e.value.columns][0]["Length [m]"]
+    lengths = editor_with_column(at, "Length [m]").value["Length [m]"]
     assert list(lengths) == pytest.approx([s.length for s in scenario.route.segments], rel=1e-12)
     assert not db.exists()          # opening and showing a packed link does not touch the plans file
 
