@@ -14,18 +14,45 @@ import html
 import re
 
 # CommonMark: any ASCII punctuation character may be backslash-escaped and then stands for itself
-# (spec 0.31, section 2.4). Escaping all of them also stops GFM autolinks, ``$`` math and ``:name[...]``
-# directives, which all start with punctuation.
-_PUNCTUATION = re.compile(r"([!-/:-@\[-`{-~])")
+# (spec 0.31, section 2.4).  Escaped everywhere: every character that can open markdown, HTML, an
+# entity, a GFM autolink or table, ``$`` math or a Streamlit ``:name[...]`` directive.  Left as they are
+# (so numbers and units read as usual in the source, "6,874.43 m³/h"): , . / - + = % ' " ; ? which only
+# mean something at the start of a line or after "www", handled below.
+_ALWAYS = re.compile(r"([\\`*_\[\]()<>!#|~$:{}&@^])")
+_LINE_START = re.compile(r"^([-+=])(?=\s|[-=]|$)")          # list item, thematic break, setext underline
+_ORDERED = re.compile(r"^(\d{1,9})([.)])(?=\s|$)")          # ordered list item
+_WWW = re.compile(r"(www)\.", re.IGNORECASE)                  # GFM www. autolink
+
+
+def _line(text: str) -> str:
+    text = _ALWAYS.sub(r"\\\1", text.strip())
+    text = _LINE_START.sub(r"\\\1", text)
+    text = _ORDERED.sub(r"\1\\\2", text)
+    return _WWW.sub(r"\1\\.", text)
 
 
 def plain(text) -> str:
     """``text`` (any object, ``str()``-ed) escaped so that markdown shows it literally; line breaks
     become markdown line breaks and leading spaces are dropped (no code blocks)."""
     lines = str("" if text is None else text).replace("\r\n", "\n").replace("\r", "\n").split("\n")
-    return "  \n".join(_PUNCTUATION.sub(r"\\\1", line.strip()) for line in lines)
+    return "  \n".join(_line(line) for line in lines)
 
 
 def plotly_text(text) -> str:
     """``text`` for a plotly title, trace name or annotation: its HTML subset escaped."""
     return html.escape(str("" if text is None else text), quote=False)
+
+
+def plain_table(frame):
+    """A copy of a pandas frame for ``st.table`` (whose cells and headings are markdown): every cell as
+    escaped text, a missing value as "—".  ``st.dataframe`` draws plain text itself: give it the frame."""
+    import math
+
+    def cell(value) -> str:
+        if value is None or (isinstance(value, float) and math.isnan(value)):
+            return "—"
+        return plain(value)
+
+    out = frame.map(cell)
+    out.columns = [plain(c) for c in frame.columns]
+    return out

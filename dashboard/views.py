@@ -5,13 +5,21 @@ from __future__ import annotations
 import pandas as pd
 import streamlit as st
 
+from planner.records.links import VIEWS as LINK_VIEWS
 from planner.scenario.schema import Scenario
 
 from . import figures, tables
 from . import compute
-from .plaintext import plain
-from .display import fmt, from_display, key_figures, label, to_display, with_unit
+from .plaintext import plain, plain_table
+from .display import (fit_quality_text, fmt, from_display, key_figures, label, law_parameters_text, to_display,
+                      with_unit, words)
 from .results import LEVERS, SEVERITY_ORDER, default_comparison_values
+
+# Tab title of each view a link can name (planner.records.links.VIEWS owns the names and their order).
+VIEW_TITLES = {"plan": "Plan", "inputs": "Inputs", "line": "Along the line", "time": "Over time",
+               "compare": "Setpoint comparison", "product": "Product", "review": "Review"}
+TAB_TITLES = [VIEW_TITLES[view] for view in LINK_VIEWS]
+VIEW_OF_TITLE = {title: view for view, title in VIEW_TITLES.items()}
 
 SEVERITY_STYLE = {
     "stop": (st.error, ":material/dangerous:", "Stop — do not start as planned"),
@@ -27,20 +35,20 @@ def key_figures_strip(bundle: dict, unit_system: str) -> None:
     for row in (figs[:4], figs[4:]):
         cols = st.columns(len(row))
         for col, k in zip(cols, row):
-            col.metric(k.label, k.text, delta=k.note or None, delta_color="off", delta_arrow="off",
-                       help=k.help or None, border=True)
+            col.metric(plain(k.label), plain(k.text), delta=plain(k.note) or None, delta_color="off",
+                       delta_arrow="off", help=plain(k.help) or None, border=True)
 
 
 def status_line(bundle: dict) -> None:
     start = bundle["plan"]["start"]
     timeline = bundle["plan"]["timeline"]
-    message = f"At the start: **{start.get('status', '')}** — {start.get('message', '')}"
+    message = f"At the start: **{plain(start.get('status', ''))}** — {plain(start.get('message', ''))}"
     if start.get("flags"):
-        message += f" (flags: {', '.join(start['flags'])})"
+        message += f" (flags: {plain(', '.join(start['flags']))})"
     if start.get("status") == "ok" and timeline.get("completed"):
         st.success(message)
     elif start.get("status") == "no_flow" or not timeline.get("completed"):
-        st.error(message + ("" if timeline.get("completed") else f"  \nThe transfer stops: {timeline.get('stop_reason', '')}"))
+        st.error(message + ("" if timeline.get("completed") else f"  \nThe transfer stops: {plain(timeline.get('stop_reason', ''))}"))
     else:
         st.warning(message)
 
@@ -48,7 +56,7 @@ def status_line(bundle: dict) -> None:
 def findings_block(bundle: dict, unit_system: str) -> None:
     findings = bundle.get("findings")
     if findings is None:
-        st.info(f"Findings: {bundle.get('findings_note') or 'not available yet'}.")
+        st.info(f"Findings: {plain(bundle.get('findings_note') or 'not available yet')}.")
         return
     counts = {s: sum(1 for f in findings if f.get("severity") == s) for s in SEVERITY_ORDER}
     st.markdown("#### Findings  \n" + " · ".join(f"{counts[s]} {s}" for s in SEVERITY_ORDER))
@@ -59,9 +67,9 @@ def findings_block(bundle: dict, unit_system: str) -> None:
         box, icon, heading = SEVERITY_STYLE[severity]
         with st.expander(f"{heading} ({len(items)})", icon=icon, expanded=severity in ("stop", "warning")):
             for f in items:
-                lines = [f"**{f.get('title', '')}** — {f.get('message', '')}"]
-                lines += tables.finding_details(f, unit_system)
-                lines.append(f"`{f.get('code', '')}`")
+                lines = [f"**{plain(f.get('title', ''))}** — {plain(f.get('message', ''))}"]
+                lines += [plain(line) for line in tables.finding_details(f, unit_system)]
+                lines.append(plain(f.get("code", "")))
                 box("  \n".join(lines), icon=icon)
 
 
@@ -69,10 +77,10 @@ def plan_view(bundle: dict, unit_system: str) -> None:
     status_line(bundle)
     findings_block(bundle, unit_system)
     st.markdown("#### Start-up and stops")
-    st.table(tables.startup_hold_frame(bundle["plan"], unit_system), hide_index=True)
+    st.table(plain_table(tables.startup_hold_frame(bundle["plan"], unit_system)), hide_index=True)
     left, right = st.columns(2)
     left.markdown("#### Energy and cost")
-    left.table(tables.energy_cost_frame(bundle["plan"], unit_system), hide_index=True)
+    left.table(plain_table(tables.energy_cost_frame(bundle["plan"], unit_system)), hide_index=True)
     start = bundle["plan"]["start"]
     right.markdown("#### Pump at the start")
     rows = [
@@ -86,7 +94,7 @@ def plan_view(bundle: dict, unit_system: str) -> None:
                                       f"{fmt(start.get('npsh_required_m'), 'head', unit_system)}"),
         ("Relief recirculation", fmt(start.get("relief_flow_m3_s"), "volume_flow", unit_system)),
     ]
-    right.table(pd.DataFrame(rows, columns=["Item", "Value"]), hide_index=True)
+    right.table(plain_table(pd.DataFrame(rows, columns=["Item", "Value"])), hide_index=True)
 
 
 def line_view(bundle: dict, unit_system: str) -> None:
@@ -113,7 +121,7 @@ def time_view(bundle: dict, unit_system: str) -> None:
         st.markdown("#### Push-cold start-up (the plan starts this way)")
     else:
         st.markdown("#### Push-cold start-up (the alternative to pre-warming)")
-    st.caption(cold.get("message", ""))
+    st.caption(plain(cold.get("message", "")))
     rows = bundle.get("push_cold_rows") or {}
     if rows.get("time_s"):
         st.dataframe(tables.push_cold_frame(rows, unit_system).round(3), hide_index=True, width="stretch")
@@ -125,13 +133,11 @@ def time_view(bundle: dict, unit_system: str) -> None:
 def product_view(bundle: dict, unit_system: str) -> None:
     curve = bundle["product"]
     st.plotly_chart(figures.viscosity_figure(curve, unit_system), key="product_chart")
-    params = ", ".join(f"{k} = {v:.6g}" for k, v in curve["parameters"].items())
     rows = [
         ("Product", curve["name"] + (" — illustrative preset" if curve.get("illustrative")
                                      and "illustrative" not in curve["name"].lower() else "")),
-        ("Law", f"{curve['law']} ({params})"),
-        ("Fit", f"RMS log residual {curve['rms_log_residual']:.3g}; largest deviation "
-                f"{100 * curve['max_relative_residual']:.1f} % over {curve['n_points']} points"),
+        ("Law", f"{words(curve['law'])} ({law_parameters_text(curve)})"),
+        ("Fit", fit_quality_text(curve)),
         ("Fitted range", f"{fmt(curve.get('t_min'), 'temperature', unit_system)} to "
                          f"{fmt(curve.get('t_max'), 'temperature', unit_system)}"),
         ("No-flow temperature", fmt(curve["no_flow_temperature"], "temperature", unit_system)),
@@ -139,9 +145,9 @@ def product_view(bundle: dict, unit_system: str) -> None:
         ("Density at 20 °C", fmt(curve["density_at_20c"], "density", unit_system)),
         ("Specific heat at 20 °C", fmt(curve["specific_heat_at_20c"], "specific_heat", unit_system)),
         ("Thermal conductivity at 20 °C", fmt(curve["conductivity_at_20c"], "conductivity", unit_system)),
-        ("Rheology", curve["rheology"]),
+        ("Rheology", words(curve["rheology"])),
     ]
-    st.table(pd.DataFrame(rows, columns=["Item", "Value"]), hide_index=True)
+    st.table(plain_table(pd.DataFrame(rows, columns=["Item", "Value"])), hide_index=True)
     points = pd.DataFrame({
         with_unit("Temperature", "temperature", unit_system):
             [to_display(t, "temperature", unit_system) for t in curve["lab_temperature"]],

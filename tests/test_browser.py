@@ -52,12 +52,15 @@ def _free_port() -> int:
 def server(tmp_path_factory):
     _require_chromium()
     port = _free_port()
-    log_path = tmp_path_factory.mktemp("streamlit") / "server.log"
+    folder = tmp_path_factory.mktemp("streamlit")
+    log_path = folder / "server.log"
     log = open(log_path, "w")
+    # the project's .streamlit/config.toml applies (statistics off, no developer toolbar): not overridden here
+    env = dict(os.environ, PLANNER_DB_PATH=str(folder / "plans.sqlite"))
     proc = subprocess.Popen(
         [sys.executable, "-m", "streamlit", "run", "dashboard/app.py", "--server.headless", "true",
-         "--server.port", str(port), "--server.address", "127.0.0.1", "--browser.gatherUsageStats", "false"],
-        cwd=ROOT, stdout=log, stderr=subprocess.STDOUT, start_new_session=True)
+         "--server.port", str(port), "--server.address", "127.0.0.1"],
+        cwd=ROOT, stdout=log, stderr=subprocess.STDOUT, start_new_session=True, env=env)
     url = f"http://127.0.0.1:{port}"
     try:
         deadline = time.monotonic() + 90
@@ -279,3 +282,125 @@ def test_share_link_opens_the_same_plan(browser, server):
             assert _number(shown[label]) == pytest.approx(value, abs=half_digit * 1.001), (label, shown[label])
     finally:
         context.close()
+
+
+# ------------------------------------------------------------------------------------- nothing leaves the server
+
+OUTSIDE = "198.51.100.7"            # TEST-NET-2 (RFC 5737): never a real server
+PAYLOAD = f"![p](http://{OUTSIDE}/p) **b** <img src=http://{OUTSIDE}/h>"   # fits every name field
+
+
+def _payload_scenario():
+    """The first demo with the payload in every name a scenario carries."""
+    from planner.scenario.schema import scenario_from_dict, scenario_to_dict
+
+    data = scenario_to_dict(load_scenario(DEMO_FILES[0]))
+    data["name"] = "Quay " + PAYLOAD
+    data["route"]["segments"][0]["name"] = "S " + PAYLOAD
+    data["product"]["name"] = "P " + PAYLOAD
+    for part in ("source", "destination", "pump"):
+        if data.get(part):
+            data[part]["name"] = part[0] + " " + PAYLOAD
+    return scenario_from_dict(data)
+
+
+def _outside(requests: list[str], server: str) -> list[str]:
+    return [u for u in requests if not (u.startswith(server) or u.startswith(("data:", "blob:", "file:")))]
+
+
+def _no_rendered_payload(page, where: str) -> None:
+    assert page.locator(f"img[src*='{OUTSIDE}']").count() == 0, where
+    assert page.locator(f"a[href*='{OUTSIDE}']").count() == 0, where
+
+
+def _visit_every_view(page) -> None:
+    for name in VIEWS + ["Review"]:
+        _open_tab(page, name)
+        if name == "Inputs":
+            for section in ("Product", "Route", "Tracing", "Pump", "Source & destination", "Site & limits",
+                            "Costs & schedule"):
+                page.get_by_role("tab", name=section).first.click()
+                page.wait_for_timeout(200)
+                _wait_idle(page)
+                _no_rendered_payload(page, section)
+        if name == "Setpoint comparison":
+            page.get_by_role("button", name="Compare", exact=True).click()
+            page.get_by_text("Recommended:").first.wait_for(timeout=180_000)
+            _wait_idle(page)
+        assert page.get_by_text("could not be drawn").count() == 0, name
+        _no_rendered_payload(page, name)
+
+
+def _save_and_review_with_payload(page) -> None:
+    side = page.get_by_test_id("stSidebar")
+    for label in ("Plan name", "Site / area", "Author"):
+        side.get_by_label(label, exact=True).fill(PAYLOAD)
+        side.get_by_label(label, exact=True).press("Enter")
+        _wait_idle(page)
+    side.get_by_label("Note", exact=True).fill(PAYLOAD)
+    side.get_by_role("button", name="Save plan").click()
+    _wait_idle(page)
+    _open_tab(page, "Review")
+    page.get_by_label("Comment for the reviewer").fill(PAYLOAD)
+    page.get_by_label("Comment for the reviewer").press("Enter")
+    _wait_idle(page)
+    page.get_by_role("button", name="Submit for review").click()
+    _wait_idle(page)
+    page.get_by_label("Reviewer (supervisor)").fill("Sam " + PAYLOAD)
+    page.get_by_label("Reviewer (supervisor)").press("Enter")
+    page.get_by_label("Comment", exact=True).fill(PAYLOAD)
+    page.get_by_label("Comment", exact=True).press("Enter")
+    _wait_idle(page)
+    page.get_by_role("button", name="Return for changes").click()
+    _wait_idle(page)
+    page.get_by_text("was returned for changes").first.wait_for()
+
+
+def test_no_request_leaves_the_server_and_user_text_stays_plain(browser, server, tmp_path):
+    """Issue 12.6: with markdown/HTML image and link payloads in every user-text field (scenario, segment,
+    product, vessel and pump names from a link; plan name, site, author, note and review comments typed;
+    an unknown key in an imported file), no request goes to any origin but the server's, the payload is
+    shown literally, and the framework's Deploy button and statistics are off."""
+    from planner.records.links import link_url, query_for
+
+    context = browser.new_context(viewport={"width": 1280, "height": 2000}, accept_downloads=True)
+    requests: list[str] = []
+    context.on("request", lambda r: requests.append(r.url))
+    page = context.new_page()
+    page.set_default_timeout(90_000)
+    try:
+        page.goto(link_url(server, query_for("line", scenario=_payload_scenario())))
+        page.get_by_test_id("stMetricLabel").first.wait_for()
+        _wait_idle(page)
+        assert page.get_by_text("This link cannot be opened").count() == 0
+        assert page.get_by_text(f"Quay ![p](http://{OUTSIDE}/p)").count() >= 1     # shown as typed
+        assert page.get_by_role("button", name="Deploy").count() == 0
+        _visit_every_view(page)
+        _save_and_review_with_payload(page)
+        _no_rendered_payload(page, "review")
+        assert page.get_by_text(PAYLOAD).count() >= 1
+        page.screenshot(path=str(ARTIFACTS / "browser-plain-text-review.png"), full_page=True)
+        with page.expect_download(timeout=120_000) as download_info:
+            page.get_by_role("button", name="Plan report (HTML, opens offline)").click()
+        report = tmp_path / "report.html"
+        download_info.value.save_as(str(report))
+        # an imported file with the payload as an unknown key (and a name that is markdown)
+        toml_text = DEMO_FILES[0].read_text(encoding="utf-8").replace(
+            "[site]", f'[site]\n"{PAYLOAD}" = 1', 1)
+        page.get_by_test_id("stSidebar").locator("input[type=file]").set_input_files(
+            files=[{"name": "**bold** plan.toml", "mimeType": "application/toml", "buffer": toml_text.encode()}])
+        page.get_by_text("problem(s)").first.wait_for()
+        _wait_idle(page)
+        _open_tab(page, "Inputs")
+        _no_rendered_payload(page, "import")
+        assert page.get_by_text("**bold** plan.toml").count() >= 1
+        page.screenshot(path=str(ARTIFACTS / "browser-plain-text-import.png"), full_page=True)
+        shown = context.new_page()
+        shown.goto(report.resolve().as_uri())
+        shown.locator(".js-plotly-plot .main-svg").first.wait_for(timeout=60_000)
+        _no_rendered_payload(shown, "report")
+        assert shown.get_by_text(f"Quay ![p](http://{OUTSIDE}/p)").count() >= 1
+    finally:
+        context.close()
+    assert requests, "no request was recorded"
+    assert not _outside(requests, server), sorted(set(_outside(requests, server)))

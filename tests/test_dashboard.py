@@ -178,7 +178,7 @@ def test_bad_value_shows_its_message_beside_the_field_and_keeps_the_last_results
     wind = number_field(at, "Wind speed")
     wind.set_value(75.0).run()
     assert not at.exception
-    beside = [e.value for e in at.error if e.value.startswith("**Wind speed**")]
+    beside = [unescaped(e.value) for e in at.error if e.value.startswith("**Wind speed**")]
     assert beside, [e.value for e in at.error]
     assert "must be at most 60 m/s" in beside[0] and "site.wind_speed" in beside[0]
     assert any("last good inputs" in i.value for i in at.info)
@@ -196,7 +196,7 @@ def test_bad_value_shows_its_message_beside_the_field_and_keeps_the_last_results
     open_section(at, "Route")
     row = [e.value for e in at.error if "row 2" in e.value]
     assert row, [e.value for e in at.error]
-    assert "Pipe rack to syrup house" in row[0] and "**Length**" in row[0] and "at least 0.01 m" in row[0]
+    assert "Pipe rack to syrup house" in row[0] and "**Length**" in row[0] and "at least 0.01 m" in unescaped(row[0])
 
 
 def test_report_is_self_contained_and_carries_the_cautions():

@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import base64
 import copy
+import re
 import json
 import zlib
 
@@ -48,7 +49,8 @@ def _app(params: dict | None = None) -> AppTest:
 
 
 def _texts(elements) -> list[str]:
-    return [e.value for e in elements]
+    """The text of markdown elements as a reader sees it (escapes of user text removed)."""
+    return [re.sub(r"\\(.)", r"\1", e.value) for e in elements]
 
 
 def _title(at: AppTest) -> str:
