@@ -130,7 +130,7 @@ def sidebar(scenario: Scenario | None, scenario_json: str | None, bundle: dict |
     sb.header("Scenario")
     names = [p.name for p in DEMO_FILES]
     sb.selectbox("Demo scenario", names, key="demo_choice", on_change=_on_demo_change,
-                 placeholder="not a demo: see “Working on” below",
+                 placeholder="(not a demo: see below)",
                  help="invented scenarios of the fictional Larkspur Quay terminal")
     if sb.button("Reload the demo (drop my edits)", key="reload_demo",
                  disabled=st.session_state.get("demo_choice") is None):
@@ -173,7 +173,7 @@ PAGE_CSS = """<style>
 div[class*="st-key-stale_"] { opacity: 0.45; filter: grayscale(100%); }
 /* key figures: a smaller value font on narrow screens, wrapped rather than cut off */
 [data-testid="stMetricValue"] { font-size: clamp(1.3rem, 1.85vw, 2.1rem); }
-[data-testid="stMetricValue"] *, [data-testid="stMetricDelta"] * {
+[data-testid="stMetricValue"] *, [data-testid="stMetricDelta"] *, [data-testid="stMetricLabel"] * {
     white-space: normal !important; overflow: visible !important; text-overflow: clip !important; }
 [data-testid="stMetricDelta"] { max-width: 100%; height: auto; }
 </style>"""

@@ -17,18 +17,24 @@ import re
 # (spec 0.31, section 2.4).  Escaped everywhere: every character that can open markdown, HTML, an
 # entity, a GFM autolink or table, ``$`` math or a Streamlit ``:name[...]`` directive.  Left as they are
 # (so numbers and units read as usual in the source, "6,874.43 m³/h"): , . / - + = % ' " ; ? which only
-# mean something at the start of a line or after "www", handled below.
+# mean something at the start of a line, handled below.
 _ALWAYS = re.compile(r"([\\`*_\[\]()<>!#|~$:{}&@^])")
 _LINE_START = re.compile(r"^([-+=])(?=\s|[-=]|$)")          # list item, thematic break, setext underline
 _ORDERED = re.compile(r"^(\d{1,9})([.)])(?=\s|$)")          # ordered list item
-_WWW = re.compile(r"(www)\.", re.IGNORECASE)                  # GFM www. autolink
+# GFM autolink literals (``http://…``, ``www.…``, ``name@host.org``) are found in the text after escapes
+# are resolved, so escaping cannot stop them; they only start after whitespace, punctuation or the
+# start of the text.  An invisible WORD JOINER (U+2060, neither) before them, and before "@", keeps
+# them text.
+JOINER = "\u2060"
+_AUTOLINK = re.compile(r"(?=https?\\?:|www\.)", re.IGNORECASE)
 
 
 def _line(text: str) -> str:
     text = _ALWAYS.sub(r"\\\1", text.strip())
     text = _LINE_START.sub(r"\\\1", text)
     text = _ORDERED.sub(r"\1\\\2", text)
-    return _WWW.sub(r"\1\\.", text)
+    text = _AUTOLINK.sub(JOINER, text)
+    return text.replace("\\@", JOINER + "\\@")
 
 
 def plain(text) -> str:
