@@ -29,6 +29,7 @@ from dashboard.compute import cached_bundle  # noqa: E402
 from dashboard.display import CAUTION_TEXT, SYSTEM_NAMES  # noqa: E402
 from dashboard.report import build_report_html  # noqa: E402
 from dashboard import sharing  # noqa: E402
+from dashboard import calibration_view  # noqa: E402
 from dashboard.sharing import save_share_review  # noqa: E402
 from planner.errors import ScenarioError  # noqa: E402
 from planner.scenario.schema import (  # noqa: E402
@@ -251,6 +252,8 @@ def draw_tab(title: str, scenario: Scenario | None, scenario_json: str | None, s
         sharing.review_view(_set_work, unit_system)
     elif title == views.VIEW_TITLES["inputs"]:
         inputs.render_inputs(st.container(), problems)
+    elif title == calibration_view.TAB:
+        calibration_view.calibration_view(scenario, scenario_json, unit_system)
     elif title == views.VIEW_TITLES["compare"]:
         views.comparison_view(scenario, scenario_json if not stale else None, unit_system)
     elif not have_results:

@@ -15,7 +15,7 @@ import numpy as np
 from planner.checks.compare import compare
 from planner.errors import PlannerError
 from planner.checks.findings import assess
-from planner.scenario.model import line_from_scenario
+from planner.line.model import line_from_scenario
 from planner.transfer.plan import make_plan
 from planner.reports.plan_json import plan_json
 from planner.line.products import Product

@@ -17,7 +17,8 @@ from .results import LEVERS, SEVERITY_ORDER, default_comparison_values
 
 # Tab title of each view a link can name (planner.records.links.VIEWS owns the names and their order).
 VIEW_TITLES = {"plan": "Plan", "inputs": "Inputs", "line": "Along the line", "time": "Over time",
-               "compare": "Setpoint comparison", "product": "Product", "review": "Review"}
+               "compare": "Setpoint comparison", "product": "Product", "calibration": "Calibration",
+               "review": "Review"}
 TAB_TITLES = [VIEW_TITLES[view] for view in LINK_VIEWS]
 VIEW_OF_TITLE = {title: view for view, title in VIEW_TITLES.items()}
 

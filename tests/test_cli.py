@@ -52,3 +52,16 @@ def test_schema_prints_json_schema():
     out = run("schema")
     assert out.returncode == 0
     assert json.loads(out.stdout)["title"] == "Scenario"
+
+
+def test_output_cut_short_by_the_reader_is_not_a_traceback():
+    """``python -m planner plan ... | head -1``: a reader that goes away ends the command quietly.
+    The read end is closed before the command has printed anything (importing and planning take
+    far longer than this), so its first write meets a closed pipe."""
+    demo = sorted((ROOT / "demo_scenarios").glob("*.toml"))[0]
+    proc = subprocess.Popen([sys.executable, "-m", "planner", "plan", str(demo)], cwd=ROOT,
+                            stdout=subprocess.PIPE, stderr=subprocess.PIPE)
+    proc.stdout.close()
+    err = proc.stderr.read().decode()
+    assert proc.wait(timeout=120) == 0, err
+    assert "Traceback" not in err and "BrokenPipe" not in err

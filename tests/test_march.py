@@ -8,7 +8,7 @@ import pytest
 
 from conftest import DEMO_FILES, base_scenario, newtonian_product
 from planner.line.march import DEFAULT_STEP_M
-from planner.scenario.model import evaluate, line_from_scenario
+from planner.line.model import evaluate, line_from_scenario
 from planner.scenario.schema import load_scenario, scenario_from_dict
 from planner.scenario.units import GRAVITY
 

@@ -11,7 +11,7 @@ from hypothesis import strategies as st
 
 from conftest import DEMO_FILES, base_scenario
 from planner.errors import ComputationError, ScenarioError
-from planner.scenario.model import evaluate
+from planner.line.model import evaluate
 from planner.scenario.schema import (json_schema, load_scenario, parse_scenario_text, scenario_from_dict,
                               scenario_to_dict, scenario_to_json, scenario_to_toml)
 from planner.scenario.units import to_si

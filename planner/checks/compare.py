@@ -23,7 +23,7 @@ import numpy as np
 from planner.errors import PlannerError
 from planner.checks.findings import SEVERITY_RANK, assess, count_by_severity
 from planner.transfer.plan import make_plan, with_changes
-from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_dict
+from planner.scenario.schema import Scenario
 
 LEVERS = {
     # lever: (with_changes keyword, display unit, to SI)
@@ -69,12 +69,12 @@ def parse_range(text: str) -> list[float]:
                          f"values) or a list 40,50,65") from None
 
 
-def _row(scenario_data: dict, lever: str, value: float, viscosity_factor: float, ambient_shift: float) -> dict:
-    """One comparison row (runs in a worker process: plain data in and out)."""
+def _row(scenario: Scenario, lever: str, value: float, viscosity_factor: float, ambient_shift: float) -> dict:
+    """One comparison row (runs in a worker process: the validated scenario in, plain data out; the
+    scenario is pickled as it is, so a row never parses or validates it again)."""
     keyword, unit, to_si = LEVERS[lever]
     row = {"value": value, "unit": unit, "ok": False}
     try:
-        scenario = scenario_from_dict(scenario_data)
         changed = with_changes(scenario, ambient_shift=ambient_shift, **{keyword: to_si(value)})
         plan = make_plan(changed, viscosity_factor=viscosity_factor, both_startups=False)
         findings = assess(plan)
@@ -128,21 +128,21 @@ def shutdown_pool() -> None:
         _POOL = None
 
 
-def _run_rows(data: dict, lever: str, values: list[float], viscosity_factor: float, ambient_shift: float,
+def _run_rows(scenario: Scenario, lever: str, values: list[float], viscosity_factor: float, ambient_shift: float,
               progress, workers: int | None) -> list[dict]:
     workers = workers if workers is not None else (os.cpu_count() or 1)
     rows: list[dict | None] = [None] * len(values)
     total = len(values)
     if workers > 1 and total >= PARALLEL_MIN_ROWS:
         pool = _pool(min(workers, total))
-        futures = {pool.submit(_row, data, lever, v, viscosity_factor, ambient_shift): i for i, v in enumerate(values)}
+        futures = {pool.submit(_row, scenario, lever, v, viscosity_factor, ambient_shift): i for i, v in enumerate(values)}
         for done, future in enumerate(as_completed(futures), start=1):
             rows[futures[future]] = future.result()
             if progress:
                 progress(done, total)
     else:
         for i, v in enumerate(values):
-            rows[i] = _row(data, lever, v, viscosity_factor, ambient_shift)
+            rows[i] = _row(scenario, lever, v, viscosity_factor, ambient_shift)
             if progress:
                 progress(i + 1, total)
     return rows
@@ -183,7 +183,6 @@ def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | N
     if not values:
         raise ValueError("give at least one value to compare")
     unit = LEVERS[lever][1]
-    data = scenario_to_dict(scenario)
     cases = [(1.0, 0.0, "as given")]
     if sensitivity:
         cases += [(1.0, -ambient_shift, f"ambient {-ambient_shift:+g} K"), (1.0, ambient_shift, f"ambient {ambient_shift:+g} K"),
@@ -198,7 +197,7 @@ def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | N
 
     results = {}
     for factor, shift, label in cases:
-        rows = _run_rows(data, lever, values, factor, shift, step_progress, workers)
+        rows = _run_rows(scenario, lever, values, factor, shift, step_progress, workers)
         offset[0] += len(values)
         results[label] = (rows, *recommend(rows, unit))
     rows, best, runner, reason = results["as given"]

@@ -483,13 +483,30 @@ def check_times(plan: Plan) -> list[Finding]:
     return out
 
 
+def check_calibration(plan: Plan) -> list[Finding]:
+    """Info: the plan applies site factors fitted to a logged transfer, and where they came from."""
+    calibration = plan.scenario.calibration
+    if calibration is None or not calibration.in_use:
+        return []
+    factors = (f"viscosity × {calibration.viscosity_factor:.3g}, heat loss × {calibration.heat_loss_factor:.3g}, "
+               f"pump slip × {calibration.slip_factor:.3g}")
+    source = calibration.source
+    origin = (f"fitted to the log {source.file} (SHA-256 {source.sha256[:12]}…)" if source is not None
+              else "entered by hand (no log named)")
+    when = f" on {calibration.fitted_at}" if calibration.fitted_at else ""
+    return [Finding("CALIBRATION-IN-USE", "info", "Calibration in use",
+                    f"this plan applies the site calibration: {factors}; {origin}{when}",
+                    "Check the calibration still fits this product and line (refit to a recent log with "
+                    "`python -m planner calibrate`); remove [calibration] to plan with the model alone.")]
+
+
 def standing_caution() -> Finding:
     return Finding("PLANNING-ESTIMATE", "info", "Planning estimate", STANDING_CAUTION,
                    "Follow site procedures, hazardous-area rules and pressure ratings; ask a licensed engineer.")
 
 
 CHECKS = (check_operating_point, check_npsh, check_surfaces, check_pressures, check_product_temperature,
-          check_flow_regime, check_validity, check_tracing_capacity, check_times)
+          check_flow_regime, check_validity, check_tracing_capacity, check_times, check_calibration)
 
 
 def assess(plan: Plan) -> list[Finding]:

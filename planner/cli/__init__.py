@@ -7,15 +7,17 @@ Errors print one message naming the field or the reason and exit with status 2; 
 from __future__ import annotations
 
 import argparse
+import os
 import sys
 
 from planner.errors import PlannerError
 from planner.scenario.units import UnitError
 
 from planner.cli import line_commands
+from planner.cli import calibrate_commands
 
 # One entry per command module, in the order their commands appear in --help.
-COMMAND_MODULES = [line_commands]
+COMMAND_MODULES = [line_commands, calibrate_commands]
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -40,3 +42,8 @@ def main(argv: list[str] | None = None) -> int:
     except (UnitError, ValueError) as exc:
         print(f"error: {exc}", file=sys.stderr)
         return 2
+    except BrokenPipeError:
+        # the reader went away (``... | head``): nothing more to say, and no traceback (the Python
+        # documentation's recipe: point stdout at devnull so the final flush cannot fail again)
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        return 0

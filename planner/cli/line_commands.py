@@ -11,7 +11,7 @@ from planner.scenario.units import UnitError, to_si
 
 
 def _evaluate(args) -> int:
-    from planner.scenario.model import evaluate
+    from planner.line.model import evaluate
     from planner.reports.text import march_table, march_json
     from planner.scenario.schema import load_scenario
 

@@ -7,6 +7,10 @@ Outward path (series resistances per metre of line):
 The jacket temperature sets the surface coefficient, so it is solved by fixed-point iteration
 (insulation dominates, so it converges in a few passes; warm starts along the line make it 1–2).
 
+A calibration's ``heat_loss_factor`` (``LineSegment.heat_loss_factor``) divides every outward
+resistance (layers and surface here, soil where the segment is built), so the heat loss at a given
+wall temperature is multiplied by it and the jacket temperature is unchanged.
+
 Inward path: the product's film (``heat_transfer.nu_internal``) plus the pipe wall conduction, worked
 out inline in ``march.py`` where it changes every step.
 """
@@ -29,7 +33,7 @@ def insulation_resistance(seg: LineSegment, t_wall: float, t_jacket: float) -> f
     total = 0.0
     for layer in seg.layers:
         total += layer.log_ratio / (2.0 * PI * layer.conductivity_at(t_mean))
-    return total
+    return total / seg.heat_loss_factor
 
 
 def surface_resistance(seg: LineSegment, t_jacket: float) -> float:
@@ -38,7 +42,7 @@ def surface_resistance(seg: LineSegment, t_jacket: float) -> float:
         return seg.soil_resistance
     h_conv, h_rad = h_outer_cylinder(seg.jacket_diameter, t_jacket, seg.ambient_temperature,
                                      seg.wind_speed, seg.emissivity)
-    return 1.0 / (PI * seg.jacket_diameter * (h_conv + h_rad))
+    return 1.0 / (PI * seg.jacket_diameter * (h_conv + h_rad) * seg.heat_loss_factor)
 
 
 def outer_conductance(seg: LineSegment, t_wall: float, t_jacket: float) -> tuple[float, float]:

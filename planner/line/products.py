@@ -10,7 +10,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from planner.scenario.schema import ProductSpec
+from planner.scenario.schema import ProductSpec, Scenario, calibration_of
 from planner.correlations.steam import saturation_pressure
 from planner.correlations.viscosity import AndradeLaw, VogelFulcherTammannLaw, WaltherLaw, fit_viscosity_law
 
@@ -123,3 +123,9 @@ class Product:
     @property
     def newtonian(self) -> bool:
         return self.rheology == "newtonian"
+
+
+def scenario_product(scenario: Scenario, viscosity_factor: float = 1.0) -> Product:
+    """The scenario's product with its ``[calibration]`` viscosity factor applied (times
+    ``viscosity_factor``, the sensitivity studies' own scaling)."""
+    return Product(scenario.product, viscosity_factor=viscosity_factor * calibration_of(scenario).viscosity_factor)

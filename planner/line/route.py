@@ -63,6 +63,7 @@ class LineSegment:
     flange_class: int | None
     hazardous_area_class: str | None
     spec: Segment = field(repr=False)
+    heat_loss_factor: float = 1.0  # [calibration]: divides every outward resistance (layers, surface, soil)
 
     @property
     def area(self) -> float:
@@ -92,7 +93,8 @@ def _default_roughness(seg: Segment) -> float:
     return ROUGHNESS["stainless_steel" if seg.wall_material == "stainless_steel" else "commercial_steel"]
 
 
-def build_segment(seg: Segment, index: int, x_start: float, site: Site, fitting_method: str) -> LineSegment:
+def build_segment(seg: Segment, index: int, x_start: float, site: Site, fitting_method: str,
+                  heat_loss_factor: float = 1.0) -> LineSegment:
     inside, outside, nominal_in = _diameters(seg)
     roughness = seg.roughness if seg.roughness is not None else _default_roughness(seg)
     fitting_a, fitting_b = fitting_coefficients(
@@ -117,6 +119,7 @@ def build_segment(seg: Segment, index: int, x_start: float, site: Site, fitting_
         # Conduction shape factor of a buried cylinder, S = 2 pi / acosh(2z/D) per metre
         # (Incropera, Fundamentals of Heat and Mass Transfer, Table 4.1, case 2).
         soil_resistance = math.acosh(depth / radius) / (2.0 * math.pi * surroundings.soil_conductivity)
+        soil_resistance /= heat_loss_factor
     traced_fraction = 1.0 - seg.untraced_length / seg.length if seg.traced else 0.0
     return LineSegment(
         index=index, name=seg.name, kind=seg.kind, x_start=x_start, length=seg.length,
@@ -127,14 +130,16 @@ def build_segment(seg: Segment, index: int, x_start: float, site: Site, fitting_
         ambient_temperature=ambient, wind_speed=wind, soil_resistance=soil_resistance,
         traced=seg.traced, traced_fraction=traced_fraction, pressure_rating=seg.pressure_rating,
         flange_class=seg.flange_class, hazardous_area_class=seg.hazardous_area_class, spec=seg,
+        heat_loss_factor=heat_loss_factor,
     )
 
 
-def build_line(route: Route, site: Site) -> list[LineSegment]:
+def build_line(route: Route, site: Site, heat_loss_factor: float = 1.0) -> list[LineSegment]:
+    """``heat_loss_factor`` (the scenario's ``[calibration]``) multiplies heat loss to the surroundings."""
     segments = []
     x = 0.0
     for index, seg in enumerate(route.segments):
-        segments.append(build_segment(seg, index, x, site, route.fitting_method))
+        segments.append(build_segment(seg, index, x, site, route.fitting_method, heat_loss_factor))
         x += seg.length
     return segments
 

@@ -54,7 +54,7 @@ def _finite(value):
 
 
 def march_json(scenario: Scenario, result: MarchResult, profiles: bool = False, line_segments=None) -> dict:
-    from planner.scenario.model import line_from_scenario
+    from planner.line.model import line_from_scenario
 
     segments = line_segments or line_from_scenario(scenario).segments
     doc = {
@@ -73,7 +73,7 @@ def march_json(scenario: Scenario, result: MarchResult, profiles: bool = False, 
 
 
 def march_table(scenario: Scenario, result: MarchResult) -> str:
-    from planner.scenario.model import line_from_scenario
+    from planner.line.model import line_from_scenario
 
     s = result.summary
     segments = line_from_scenario(scenario).segments

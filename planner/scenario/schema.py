@@ -438,6 +438,45 @@ class Limits(_Model):
     poor_film_coefficient: Quantity("heat_transfer_coefficient", ge=0.0, le=1000.0, description="inner film coefficient below which laminar heat transfer counts as poor") = 20.0
 
 
+class CalibrationSource(_Model):
+    """The log a calibration was fitted to: its file name and SHA-256 of its bytes."""
+
+    file: str = Field(min_length=1, max_length=260)
+    sha256: str = Field(pattern=r"^[0-9a-f]{64}$", description="SHA-256 of the log file, 64 lowercase hex digits")
+
+
+class Calibration(_Model):
+    """Site factors fitted to logged transfers (``python -m planner calibrate``); every plan applies
+    them.  Each multiplies one model estimate; 1 leaves the model as it is."""
+
+    viscosity_factor: float = Field(1.0, ge=0.05, le=20.0, description="multiplies the product's viscosity at every temperature [-]")
+    heat_loss_factor: float = Field(1.0, ge=0.01, le=20.0, description="multiplies the line's heat loss to the surroundings [-]")
+    slip_factor: float = Field(1.0, ge=0.0, le=20.0, description="multiplies a positive-displacement pump's slip [-]")
+    source: Optional[CalibrationSource] = None
+    fitted_at: Optional[str] = Field(None, max_length=40, description="when the factors were fitted (ISO 8601, UTC)")
+
+    @field_validator("fitted_at")
+    @classmethod
+    def _iso(cls, value):
+        if value is not None:
+            from datetime import datetime
+
+            try:
+                datetime.fromisoformat(value)
+            except ValueError:
+                raise ValueError(f"fitted_at {value!r} is not an ISO 8601 date and time (e.g. '2026-01-31T14:05:00+00:00')") from None
+        return value
+
+    @property
+    def in_use(self) -> bool:
+        return (self.viscosity_factor, self.heat_loss_factor, self.slip_factor) != (1.0, 1.0, 1.0) or self.source is not None
+
+
+def calibration_of(scenario: "Scenario") -> Calibration:
+    """The scenario's calibration, or the neutral one (all factors 1) when it has none."""
+    return scenario.calibration if scenario.calibration is not None else Calibration()
+
+
 class Scenario(_Model):
     schema_version: int = SCHEMA_VERSION
     name: str = Field(min_length=1, max_length=160)
@@ -454,6 +493,7 @@ class Scenario(_Model):
     costs: Costs = Field(default_factory=Costs)
     schedule: Schedule = Field(default_factory=Schedule)
     limits: Limits = Field(default_factory=Limits)
+    calibration: Optional[Calibration] = Field(None, description="site factors fitted to logged transfers; none: all 1")
 
     @field_validator("schema_version")
     @classmethod

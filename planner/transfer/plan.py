@@ -14,7 +14,7 @@ import numpy as np
 from planner.errors import ComputationError
 from planner.transfer.hold import Hold, hold_analysis
 from planner.line.march import MarchResult
-from planner.line.products import Product
+from planner.line.products import scenario_product
 from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_dict
 from planner.transfer.startup import Prewarm, PushCold, prewarm, push_cold
 from planner.correlations.steam import latent_heat, saturation_temperature_gauge
@@ -90,7 +90,7 @@ def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | No
               both_startups: bool = True) -> Plan:
     """The whole plan.  ``both_startups=False`` works out only the scenario's chosen start-up mode
     (comparisons); the other option is then marked as not evaluated."""
-    product = Product(scenario.product, viscosity_factor=viscosity_factor)
+    product = scenario_product(scenario, viscosity_factor=viscosity_factor)   # with the [calibration] factor
     system = TransferSystem(scenario, product=product)
     source = scenario.source
     if source.temperature <= product.no_flow_temperature:

@@ -25,10 +25,10 @@ from dataclasses import dataclass, field
 from scipy.optimize import brentq
 
 from planner.line.march import Line, MarchSummary, march
-from planner.line.products import Product
+from planner.line.products import Product, scenario_product
 from planner.transfer.pumps import CentrifugalPump, PositiveDisplacementPump
 from planner.line.route import build_line
-from planner.scenario.schema import Scenario
+from planner.scenario.schema import Scenario, calibration_of
 from planner.scenario.units import ATMOSPHERE_PA, GRAVITY
 from planner.transfer.vessels import level_from_volume
 
@@ -72,6 +72,9 @@ class OperatingPoint:
     relief_flow: float = 0.0            # m3/s recirculating through the relief valve
     hi_b: float | None = None           # ANSI/HI 9.6.7 parameter B (centrifugal)
     hi_in_range: bool = True
+    # the solver's best estimate of the exact root (a Newton step past the accepted flow); only for
+    # extrapolating the next guess, never reported: ``flow`` is the evaluated point
+    flow_estimate: float | None = None
 
     @property
     def moving(self) -> bool:
@@ -87,10 +90,12 @@ class SystemState:
     destination_volume_added: float = 0.0
 
 
-def build_pump(spec):
+def build_pump(spec, slip_factor: float = 1.0):
+    """The pump of a ``PumpSpec``; ``slip_factor`` (the scenario's ``[calibration]``) multiplies PD slip."""
     if spec.kind == "positive_displacement":
         return PositiveDisplacementPump(
-            displacement_m3_per_rev=spec.displacement, speed_rev_s=spec.speed, slip_flow_m3_s=spec.slip_flow,
+            displacement_m3_per_rev=spec.displacement, speed_rev_s=spec.speed,
+            slip_flow_m3_s=spec.slip_flow * slip_factor,
             slip_reference_pressure_pa=spec.slip_reference_pressure,
             slip_reference_viscosity_pa_s=spec.slip_reference_viscosity,
             slip_viscosity_exponent=spec.slip_viscosity_exponent, relief_setting_pa=spec.relief_setting,
@@ -111,12 +116,14 @@ class TransferSystem:
             raise ScenarioError([(name, "a transfer plan needs this section") for name in missing])
         self.scenario = scenario
         self.tracing = tracing or scenario.tracing
-        self.product = product or Product(scenario.product)
-        self.discharge_line = Line(build_line(scenario.route, scenario.site), self.product, self.tracing)
-        self.suction_line = (Line(build_line(scenario.suction, scenario.site), self.product, self.tracing)
-                             if scenario.suction is not None else None)
+        calibration = calibration_of(scenario)
+        self.product = product or scenario_product(scenario)
+        heat_loss_factor = calibration.heat_loss_factor
+        self.discharge_line = Line(build_line(scenario.route, scenario.site, heat_loss_factor), self.product, self.tracing)
+        self.suction_line = (Line(build_line(scenario.suction, scenario.site, heat_loss_factor), self.product,
+                                  self.tracing) if scenario.suction is not None else None)
         self.pump_spec = scenario.pump
-        self.pump = build_pump(scenario.pump)
+        self.pump = build_pump(scenario.pump, calibration.slip_factor)
         self.source = scenario.source
         self.destination = scenario.destination
         self.step = step
@@ -124,8 +131,11 @@ class TransferSystem:
         self._slopes: dict[str, float] = {}
         self.plug = None  # (warm head Line, cold tail Line, cold temperature) while a cold plug is pushed out
         self._last_relief_flow: float | None = None
+        self._root_estimate: float | None = None
 
     def _warm_solve(self, kind: str, function, high: float, guess: float | None, ftol: float = 0.0) -> float | None:
+        if self.plug is not None:
+            kind += "/plug"  # the system with a cold plug in the line has a slope of its own
         """Secant iteration from a guess (the previous timeline step), using the slope remembered from
         the last solve of the same kind.  None when it does not settle inside (0, high]: the caller
         then brackets from scratch."""
@@ -133,8 +143,11 @@ class TransferSystem:
             return None
         q0, f0 = guess, function(guess)
         slope = self._slopes.get(kind)
-        if slope and abs(f0 / slope) <= 2e-5 * q0:
-            return q0  # the guess (extrapolated by the caller) already satisfies the tolerance
+        if slope and abs(f0 / slope) <= GUESS_TOLERANCE * q0:
+            # the guess (extrapolated by the caller) already satisfies the tolerance; a Newton step
+            # past it is a better estimate of the root for the caller's next extrapolation
+            self._root_estimate = q0 - f0 / slope
+            return q0
         q1 = q0 - f0 / slope if slope else q0 * 0.99
         for _ in range(8):
             if not high * MIN_FLOW_FRACTION < q1 <= high:
@@ -143,6 +156,7 @@ class TransferSystem:
             if abs(q1 - q0) <= 2e-5 * q1 or abs(f1) <= ftol:
                 if f1 != f0:
                     self._slopes[kind] = (f1 - f0) / (q1 - q0)
+                    self._root_estimate = q1 - f1 * (q1 - q0) / (f1 - f0)
                 return q1
             if f1 == f0:
                 return None
@@ -235,10 +249,13 @@ class TransferSystem:
     def operating_point(self, state: SystemState, guess: float | None = None) -> OperatingPoint:
         cache: dict = {}
         spec = self.pump_spec
+        self._root_estimate = None
         if spec.kind == "positive_displacement":
             op = self._pd_point(state, guess, cache)
         else:
             op = self._centrifugal_point(state, guess, cache)
+        estimate = self._root_estimate
+        op.flow_estimate = estimate if estimate is not None and abs(estimate - op.flow) <= 1e-4 * op.flow else op.flow
         if op.point is not None and op.moving and op.point.sets:
             # e.g. a PD pump without slip "agrees" at any pressure: the line still sets at its rate
             return OperatingPoint("no_flow", 0.0, f"no flow possible: product sets ({op.point.where}) at "
@@ -441,6 +458,10 @@ class TransferSystem:
 
 
 MIN_FLOW_FRACTION = 1e-3
+# A warm guess is accepted when the Newton step from it is below this fraction of the flow: 0.01 %,
+# below any figure a plan reports (flows to 0.1 m³/h, times to 0.01 h) and above the few-1e-5 scatter
+# that the march's own iterations leave in the system curve from one timeline state to the next.
+GUESS_TOLERANCE = 1e-4
 
 
 def _bracket_down(function, high: float, guess: float | None):

@@ -98,9 +98,11 @@ def run_transfer(system: TransferSystem, steps: int | None = None, first_guess: 
             max(state.source_volume - increment, 0.0), state.destination_volume_added + increment)
         time += dt
         moved += increment
-        # next guess: the flow extrapolated from the last two steps (the flow drifts smoothly)
-        previous_flow = points[-2].flow if len(points) >= 2 and points[-2].status == op.status else None
-        guess = max(2.0 * op.flow - previous_flow, 0.5 * op.flow) if previous_flow else op.flow
+        # next guess: the flow extrapolated from the last two steps (the flow drifts smoothly), from
+        # the solver's root estimates so that the tolerance left in one step is not doubled into the next
+        previous = points[-2] if len(points) >= 2 and points[-2].status == op.status else None
+        latest = op.flow_estimate or op.flow
+        guess = max(2.0 * latest - (previous.flow_estimate or previous.flow), 0.5 * op.flow) if previous else latest
     arrays = {k: np.array(v) for k, v in rows.items()}
     return Timeline(arrays, time, moved, completed, reason, statuses, flags, trace_j, pump_j, vessel_j, points,
                     system.evaluations - evaluations_before)

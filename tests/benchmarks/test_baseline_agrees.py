@@ -26,7 +26,7 @@ pytest.importorskip("scipy")
 
 from conftest import DEMO_DIR, DEMO_FILES  # noqa: E402
 from planner.line.march import march  # noqa: E402
-from planner.scenario.model import line_from_scenario  # noqa: E402
+from planner.line.model import line_from_scenario  # noqa: E402
 from planner.scenario.schema import load_scenario, scenario_from_dict  # noqa: E402
 from tests.benchmarks.baseline_march import baseline_march  # noqa: E402
 

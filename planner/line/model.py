@@ -4,14 +4,14 @@ from __future__ import annotations
 
 from planner.errors import ComputationError
 from planner.line.march import DEFAULT_STEP_M, Line, MarchResult, march
-from planner.line.products import Product
+from planner.line.products import scenario_product
 from planner.line.route import build_line
-from planner.scenario.schema import Scenario
+from planner.scenario.schema import Scenario, calibration_of
 
 
 def line_from_scenario(scenario: Scenario) -> Line:
-    product = Product(scenario.product)
-    segments = build_line(scenario.route, scenario.site)
+    product = scenario_product(scenario)
+    segments = build_line(scenario.route, scenario.site, calibration_of(scenario).heat_loss_factor)
     return Line(segments, product, scenario.tracing)
 
 

@@ -1,0 +1,191 @@
+"""Replaying a logged transfer through the planner: the model's pressures and temperatures at each
+logged row, for a given set of calibration factors.
+
+Each row is taken as a steady state of the transfer system (``TransferSystem.at_flow``) at the
+logged flow, with the source temperature and the ambient of that row where the log gives them
+(else the scenario's), and the source and destination volumes moved by the logged flow integrated
+over time (trapezoids).  The model gives the pump's discharge and suction pressures (gauge), the
+pump inlet temperature and the line outlet temperature.  For a positive-displacement pump with a
+logged speed it also gives the delivered flow at that speed — displacement x speed minus slip at the
+differential and viscosity of that row (the logged pressures and pump inlet temperature where given,
+else the modelled ones) — which is what makes the slip factor visible in the log.
+
+The replay is steady: rows while the line is still warming up after a start, or while the flow is
+changing fast, are not steady states, and show up as large residuals.
+"""
+
+from __future__ import annotations
+
+import math
+import multiprocessing
+import os
+from concurrent.futures import ProcessPoolExecutor
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from planner.calibration.log import TransferLog
+from planner.scenario.schema import Calibration, Scenario, calibration_of
+from planner.transfer.system import SystemState, TransferSystem
+
+FACTOR_NAMES = ("viscosity_factor", "heat_loss_factor", "slip_factor")
+PARALLEL_MIN_ROWS = 40       # below this a worker pool costs more than it saves
+
+
+@dataclass
+class Replay:
+    """Modelled values at each readable row of a log [SI], NaN where the model gives none."""
+
+    factors: dict[str, float]
+    modelled: dict[str, np.ndarray]
+    sets: np.ndarray                      # the product sets somewhere in the line at that row
+    notes: list[str] = field(default_factory=list)
+
+
+def with_factors(scenario: Scenario, factors: dict[str, float]) -> Scenario:
+    """The scenario with the given calibration factors (the others kept from its calibration)."""
+    current = calibration_of(scenario).model_dump()
+    current.update({k: float(v) for k, v in factors.items()})
+    return scenario.model_copy(update={"calibration": Calibration(**current)})
+
+
+def moved_volume(log: TransferLog) -> np.ndarray:
+    """Volume moved since the first row [m3]: the logged flow integrated over time (trapezoids)."""
+    t, q = log.values["time"], log.values["flow"]
+    steps = 0.5 * (q[1:] + q[:-1]) * np.diff(t)
+    return np.concatenate([[0.0], np.cumsum(steps)])
+
+
+def pd_slip_applies(scenario: Scenario, log: TransferLog) -> bool:
+    """True when the log shows the slip: a positive-displacement pump with its speed logged."""
+    return scenario.pump is not None and scenario.pump.kind == "positive_displacement" and log.has("speed")
+
+
+def _inputs(scenario: Scenario, log: TransferLog) -> dict[str, np.ndarray]:
+    """Per-row inputs of the replay: flow, source temperature, ambient, volumes."""
+    n = log.rows
+    source = scenario.source
+    t_source = log.values.get("source_temperature", np.full(n, np.nan)).copy()
+    t_source[~np.isfinite(t_source)] = source.temperature
+    ambient = log.values.get("ambient_temperature", np.full(n, np.nan)).copy()
+    ambient[~np.isfinite(ambient)] = scenario.site.ambient_temperature
+    moved = moved_volume(log)
+    return {"flow": log.values["flow"], "source_temperature": t_source, "ambient_shift": ambient - scenario.site.ambient_temperature,
+            "source_volume": np.maximum(source.initial_volume - moved, 1e-3 * source.initial_volume), "moved": moved}
+
+
+def _segments(system: TransferSystem) -> list:
+    lines = [system.discharge_line] + ([system.suction_line] if system.suction_line is not None else [])
+    return [seg for line in lines for seg in line.segments]
+
+
+def replay(scenario: Scenario, log: TransferLog, factors: dict[str, float] | None = None,
+           rows: slice | None = None) -> Replay:
+    """The model at every readable row of ``log`` (or ``rows`` of them) with ``factors`` applied."""
+    calibrated = with_factors(scenario, factors or {})
+    system = TransferSystem(calibrated)
+    inputs = _inputs(scenario, log)
+    index = range(log.rows)[rows] if rows is not None else range(log.rows)
+    segments = _segments(system)
+    base_ambient = [seg.ambient_temperature for seg in segments]
+    names = ("discharge_pressure", "suction_pressure", "pump_inlet_temperature", "outlet_temperature", "flow")
+    out = {name: np.full(len(index), np.nan) for name in names}
+    sets = np.zeros(len(index), dtype=bool)
+    slip = pd_slip_applies(scenario, log)
+    speed = log.values.get("speed")
+    for k, i in enumerate(index):
+        shift = float(inputs["ambient_shift"][i])
+        for seg, base in zip(segments, base_ambient):
+            seg.ambient_temperature = base + shift
+        state = SystemState(float(inputs["source_temperature"][i]), float(inputs["source_volume"][i]),
+                            float(inputs["moved"][i]))
+        point = system.at_flow(float(inputs["flow"][i]), state)
+        sets[k] = point.sets
+        out["discharge_pressure"][k] = point.discharge_pressure
+        out["suction_pressure"][k] = point.suction_pressure
+        out["pump_inlet_temperature"][k] = point.pump_inlet_temperature
+        out["outlet_temperature"][k] = point.outlet_temperature
+        if slip and math.isfinite(speed[i]):
+            out["flow"][k] = _pd_flow(system, log, i, point, float(speed[i]))
+    used = {name: float(getattr(calibration_of(calibrated), name)) for name in FACTOR_NAMES}
+    return Replay(used, out, sets)
+
+
+def _measured_or(log: TransferLog, quantity: str, i: int, modelled: float) -> float:
+    values = log.values.get(quantity)
+    if values is not None and math.isfinite(values[i]):
+        return float(values[i])
+    return modelled
+
+
+def _pd_flow(system: TransferSystem, log: TransferLog, i: int, point, speed: float) -> float:
+    """Delivered flow of the PD pump at the logged speed, at that row's differential and viscosity."""
+    dp = (_measured_or(log, "discharge_pressure", i, point.discharge_pressure)
+          - _measured_or(log, "suction_pressure", i, point.suction_pressure))
+    t_pump = _measured_or(log, "pump_inlet_temperature", i, point.pump_inlet_temperature)
+    mu = system.product.viscosity(t_pump)
+    return system.pump.delivered_flow(dp, mu, speed)
+
+
+def heater_holding_fraction(scenario: Scenario, log: TransferLog) -> float:
+    """Share of the discharge line's traced length where the thermostat holds its setpoint, at the
+    log's middle row: there the heat loss is made up by the heater and hardly shows in temperatures."""
+    system = TransferSystem(scenario)
+    inputs = _inputs(scenario, log)
+    i = log.rows // 2
+    for seg in _segments(system):
+        seg.ambient_temperature += float(inputs["ambient_shift"][i])
+    state = SystemState(float(inputs["source_temperature"][i]), float(inputs["source_volume"][i]),
+                        float(inputs["moved"][i]))
+    steps = system.at_flow(float(inputs["flow"][i]), state, record=True).discharge_result.steps
+    if not len(steps.get("heater_state", [])):
+        return 0.0
+    lengths = np.gradient(steps["x"]) if len(steps["x"]) > 1 else np.ones(1)
+    return float(np.sum(lengths[steps["heater_state"] == 1]) / np.sum(lengths))
+
+
+_WORKER: dict = {}
+
+
+def _worker_init(scenario: Scenario, log: TransferLog) -> None:
+    _WORKER["scenario"], _WORKER["log"] = scenario, log
+
+
+def _worker_replay(factors: dict[str, float], rows: slice) -> Replay:
+    return replay(_WORKER["scenario"], _WORKER["log"], factors, rows)
+
+
+class Replayer:
+    """Repeated replays of one log at different factors, the rows split over worker processes
+    (forked, so they start with the planner loaded) when there are enough of them.  Use as a
+    context manager; ``workers=1`` replays in this process."""
+
+    def __init__(self, scenario: Scenario, log: TransferLog, workers: int | None = None):
+        self.scenario, self.log = scenario, log
+        workers = min(os.cpu_count() or 1, 4) if workers is None else workers
+        self.workers = workers if log.rows >= PARALLEL_MIN_ROWS else 1
+        self.pool = None
+        self.evaluations = 0
+
+    def __enter__(self) -> "Replayer":
+        if self.workers > 1:
+            context = multiprocessing.get_context("fork")
+            self.pool = ProcessPoolExecutor(self.workers, mp_context=context, initializer=_worker_init,
+                                            initargs=(self.scenario, self.log))
+        return self
+
+    def __exit__(self, *exc) -> None:
+        if self.pool is not None:
+            self.pool.shutdown(cancel_futures=True)
+            self.pool = None
+
+    def __call__(self, factors: dict[str, float]) -> Replay:
+        self.evaluations += 1
+        if self.pool is None:
+            return replay(self.scenario, self.log, factors)
+        n = self.log.rows
+        edges = [round(i * n / self.workers) for i in range(self.workers + 1)]
+        futures = [self.pool.submit(_worker_replay, factors, slice(a, b)) for a, b in zip(edges, edges[1:])]
+        parts = [f.result() for f in futures]
+        modelled = {k: np.concatenate([p.modelled[k] for p in parts]) for k in parts[0].modelled}
+        return Replay(parts[0].factors, modelled, np.concatenate([p.sets for p in parts]))

@@ -1,0 +1,87 @@
+"""A calibration fit as JSON (SI) and as a plain-text table (bar, °C, m³/h) for the command line."""
+
+from __future__ import annotations
+
+import math
+
+from planner.calibration.fit import FitResult
+from planner.calibration.log import TransferLog
+
+LABELS = {"discharge_pressure": "discharge pressure", "suction_pressure": "suction pressure",
+          "pump_inlet_temperature": "pump inlet temperature", "outlet_temperature": "outlet temperature",
+          "flow": "flow (PD pump at logged speed)"}
+
+
+def _finite(value):
+    return value if isinstance(value, (int, float)) and math.isfinite(value) else None
+
+
+def log_json(log: TransferLog) -> dict:
+    return {
+        "file": log.name, "sha256": log.sha256, "rows": log.rows_total, "rows_read": log.rows,
+        "rows_unreadable": len(log.problems), "unreadable": log.problem_summary(),
+        "blank_cells": log.blanks, "ignored_columns": log.ignored_headers,
+        "columns": {q: c.header for q, c in log.columns.items()}, "start": log.start,
+        "duration_s": float(log.values["time"][-1]),
+    }
+
+
+def fit_json(result: FitResult) -> dict:
+    """Keys: factors.<name>.value/.low/.high (95 %), residuals.<quantity>.rms [SI], correlation, warnings."""
+    return {
+        "scenario": result.scenario.name,
+        "log": log_json(result.log),
+        "factors": {n: {"value": f.value, "low": f.low, "high": f.high, "standard_error": f.standard_error,
+                        "identifiable": f.identifiable, "at_bound": f.at_bound} for n, f in result.factors.items()},
+        "correlation": result.correlation,
+        "residuals": {q: {k: _finite(v) if k != "unit" else v for k, v in row.items()}
+                      for q, row in result.residuals.items()},
+        "mismatch": result.mismatch,
+        "rows_where_product_sets": result.rows_set,
+        "replays": result.evaluations,
+        "degrees_of_freedom": result.degrees_of_freedom,
+        "warnings": result.warnings,
+    }
+
+
+def _in_units(quantity: str, value: float) -> str:
+    if value is None or not math.isfinite(value):
+        return "—"
+    if quantity.endswith("pressure"):
+        return f"{value / 1e5:.4f} bar"
+    if quantity == "flow":
+        return f"{value * 3600:.3f} m³/h"
+    return f"{value:.3f} K"
+
+
+def log_lines(log: TransferLog) -> list[str]:
+    lines = [f"log {log.name} (SHA-256 {log.sha256[:16]}…): {log.rows} of {log.rows_total} rows read, "
+             f"{log.values['time'][-1] / 3600:.2f} h" + (f" from {log.start}" if log.start else "")]
+    if log.problems:
+        lines.append(f"  {len(log.problems)} rows could not be read:")
+        for group in log.problem_summary():
+            where = ", ".join(str(n) for n in group["lines"]) + (" …" if group["count"] > len(group["lines"]) else "")
+            lines.append(f"    {group['count']:4d} × {group['reason']} (line {where})")
+    for quantity, count in log.blanks.items():
+        lines.append(f"  {quantity}: {count} blank cells (not compared there)")
+    if log.ignored_headers:
+        lines.append(f"  columns not used: {', '.join(log.ignored_headers)}")
+    return lines
+
+
+def fit_text(result: FitResult) -> str:
+    lines = [f"Calibration of {result.scenario.name}", *log_lines(result.log), ""]
+    lines.append(f"  {'factor':18s} {'value':>8s}   95 % interval")
+    for name, f in result.factors.items():
+        note = "" if f.identifiable else "   (not identifiable from this log)"
+        lines.append(f"  {name:18s} {f.value:8.4f}   {f.low:.4f} – {f.high:.4f}{note}")
+    for pair, r in result.correlation.items():
+        lines.append(f"  correlation {pair}: {r:+.2f}")
+    lines += ["", f"  {'residual':32s} {'RMS':>12s} {'log noise':>12s} {'bias':>12s} {'rows':>5s}"]
+    for q, row in result.residuals.items():
+        lines.append(f"  {LABELS[q]:32s} {_in_units(q, row['rms']):>12s} {_in_units(q, row['noise']):>12s} "
+                     f"{_in_units(q, row['bias']):>12s} {row['count']:5d}")
+    lines.append(f"  ({result.evaluations} replays of the log; residual = logged - modelled)")
+    if result.warnings:
+        lines += ["", "Warnings:"] + [f"  - {w}" for w in result.warnings]
+    return "\n".join(lines)

@@ -1,0 +1,79 @@
+"""Command ``calibrate``: fit the scenario's ``[calibration]`` factors to a logged transfer."""
+
+from __future__ import annotations
+
+import json
+import sys
+from pathlib import Path
+
+from planner.errors import PlannerError
+
+
+class WriteRefused(PlannerError):
+    """``--write`` would overwrite a file or store a calibration the log does not support."""
+
+
+def _write(args, result) -> str:
+    from planner.calibration.fit import calibrated_scenario
+    from planner.scenario.schema import save_scenario
+
+    out = Path(args.write)
+    if out.exists() and not args.overwrite:
+        raise WriteRefused(f"--write: {out} exists; choose another name or add --overwrite")
+    if out.resolve() == Path(args.scenario).resolve():
+        raise WriteRefused("--write: give a new file name; the scenario the fit was made on is kept as it is")
+    blocking = [f.name for f in result.factors.values() if f.at_bound]
+    if (result.mismatch or blocking) and not args.force:
+        raise WriteRefused("--write: not written: the model does not reproduce this log (see the warnings); "
+                           "add --force to write the factors anyway")
+    if not any(f.identifiable for f in result.factors.values()):
+        raise WriteRefused("--write: not written: none of the fitted factors is identifiable from this log")
+    save_scenario(calibrated_scenario(result), out)
+    return str(out)
+
+
+def _calibrate(args) -> int:
+    from planner.calibration.fit import fit_calibration
+    from planner.calibration.log import read_log_file
+    from planner.calibration.report import fit_json, fit_text
+    from planner.scenario.schema import load_scenario
+
+    scenario = load_scenario(args.scenario)
+    log = read_log_file(args.log, args.columns)
+    names = [n.strip() for n in args.fit.split(",") if n.strip()] if args.fit else None
+    result = fit_calibration(scenario, log, names)
+    written = None
+    refused = None
+    if args.write:
+        try:
+            written = _write(args, result)
+        except WriteRefused as exc:
+            refused = str(exc)
+    if args.json:
+        data = fit_json(result)
+        data["written"] = written
+        data["write_refused"] = refused
+        print(json.dumps(data, indent=2, ensure_ascii=False))
+    else:
+        print(fit_text(result))
+        if written:
+            print(f"\nwritten: {written} (the scenario with the fitted [calibration])")
+    if refused:
+        print(f"error: {refused}", file=sys.stderr)
+        return 2
+    return 0
+
+
+def register(sub) -> None:
+    """Add ``calibrate`` to the top-level parser's sub-parsers."""
+    cal = sub.add_parser("calibrate", help="fit viscosity, heat-loss and PD slip factors to a logged transfer (CSV)")
+    cal.add_argument("scenario", help="scenario file with [pump], [source] and [destination] (.toml or .json)")
+    cal.add_argument("log", help="CSV log; header cells 'quantity [unit]', e.g. 'time [min]', 'flow [m3/h]'")
+    cal.add_argument("--fit", help="factors to fit, comma-separated: viscosity_factor, heat_loss_factor, slip_factor "
+                                   "(default: viscosity_factor,heat_loss_factor, and slip_factor for a PD pump with speed logged)")
+    cal.add_argument("--columns", help="TOML file with a [columns] table mapping the log's headers to 'quantity [unit]'")
+    cal.add_argument("--json", action="store_true", help="print JSON (SI units)")
+    cal.add_argument("--write", metavar="OUT.toml", help="write the scenario with the fitted [calibration] to a new file")
+    cal.add_argument("--overwrite", action="store_true", help="with --write: replace OUT if it exists")
+    cal.add_argument("--force", action="store_true", help="with --write: write even when the log does not fit the model")
+    cal.set_defaults(func=_calibrate)

@@ -1,0 +1,80 @@
+"""``python -m planner calibrate`` (planner/cli/calibrate_commands.py) on the demo log: JSON keys,
+the written scenario, and errors as one message with exit status 2."""
+
+from __future__ import annotations
+
+import json
+import subprocess
+import sys
+
+import pytest
+
+from conftest import DEMO_DIR, ROOT
+
+BARGE = DEMO_DIR / "fuel_oil_barge_discharge.toml"
+DEMO_LOG = DEMO_DIR / "logs" / "barge_wren_2026-01-14.csv"
+# the factors the demo log was made with (its comment lines; DEVELOPERS.md)
+DEMO_TRUTH = {"viscosity_factor": 1.18, "heat_loss_factor": 1.35, "slip_factor": 1.5}
+
+
+def run(*args):
+    return subprocess.run([sys.executable, "-m", "planner", *args], cwd=ROOT, capture_output=True, text=True,
+                          timeout=300)
+
+
+def test_demo_log_fits_back_and_writes_the_calibration(tmp_path):
+    out_path = tmp_path / "barge_calibrated.toml"
+    out = run("calibrate", str(BARGE), str(DEMO_LOG), "--fit", ",".join(DEMO_TRUTH), "--json", "--write", str(out_path))
+    assert out.returncode == 0, out.stderr
+    doc = json.loads(out.stdout)
+    for name, value in DEMO_TRUTH.items():
+        f = doc["factors"][name]
+        assert f["low"] <= value <= f["high"], (name, f)
+        assert f["low"] <= f["value"] <= f["high"] and f["identifiable"]
+    assert doc["log"]["rows"] == 100 and doc["log"]["rows_read"] == 98
+    assert doc["log"]["unreadable"] == [{"reason": "discharge_pressure 'I/O Timeout' is not a number",
+                                         "count": 2, "lines": [40, 41]}]
+    assert doc["residuals"]["discharge_pressure"]["unit"] == "Pa"
+    assert doc["residuals"]["discharge_pressure"]["rms"] == pytest.approx(4000.0, rel=0.35)   # the noise put in
+    assert set(doc["correlation"]) == {"viscosity_factor/heat_loss_factor", "viscosity_factor/slip_factor",
+                                       "heat_loss_factor/slip_factor"}
+    assert doc["written"] == str(out_path) and not doc["warnings"]
+
+    from planner.checks.findings import assess
+    from planner.scenario.schema import load_scenario
+    from planner.transfer.plan import make_plan
+
+    written = load_scenario(out_path)
+    assert written.calibration.source.file == DEMO_LOG.name
+    assert written.calibration.slip_factor == pytest.approx(doc["factors"]["slip_factor"]["value"])
+    assert "CALIBRATION-IN-USE" in [f.code for f in assess(make_plan(written, steps=10))]
+
+    again = run("calibrate", str(BARGE), str(DEMO_LOG), "--fit", "viscosity_factor", "--write", str(out_path))
+    assert again.returncode == 2 and "exists" in again.stderr and "Traceback" not in again.stderr
+
+
+def test_text_output_lists_factors_residuals_and_unreadable_rows():
+    out = run("calibrate", str(BARGE), str(DEMO_LOG), "--fit", "viscosity_factor")
+    assert out.returncode == 0, out.stderr
+    for words in ("viscosity_factor", "95 % interval", "discharge pressure", "2 rows could not be read",
+                  "line 40, 41", "bar"):
+        assert words in out.stdout
+
+
+@pytest.mark.parametrize("args, words", [
+    ((str(BARGE), "no-such-log.csv"), "cannot open the log"),
+    ((str(BARGE), str(DEMO_LOG), "--fit", "viscosity"), "unknown factor viscosity"),
+    ((str(DEMO_DIR / "polyol_tank_transfer.toml"), str(DEMO_LOG), "--fit", "slip_factor"), "not positive-displacement"),
+    ((str(BARGE), str(DEMO_LOG), "--columns", "no-map.toml"), "--columns: cannot open"),
+])
+def test_errors_are_one_message(args, words):
+    out = run("calibrate", *args)
+    assert out.returncode == 2
+    assert words in out.stderr and "Traceback" not in out.stderr
+
+
+def test_missing_column_names_it(tmp_path):
+    log = tmp_path / "bad.csv"
+    log.write_text("time [min],discharge_pressure [bar]\n" + "".join(f"{i},5\n" for i in range(8)))
+    out = run("calibrate", str(BARGE), str(log))
+    assert out.returncode == 2 and "no flow column" in out.stderr and "Traceback" not in out.stderr

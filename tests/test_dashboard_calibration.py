@@ -1,0 +1,75 @@
+"""The Calibration tab (dashboard/calibration_view.py) through streamlit.testing.v1.AppTest: the demo
+log fitted on the barge demo (the same numbers as ``planner.calibration.fit.fit_calibration``), applied
+to the working scenario, and saved as a revision whose note names the log and its SHA-256
+(checked through ``planner.records.store.PlanStore``); a bad log shows its message."""
+
+from __future__ import annotations
+
+import hashlib
+
+import pytest
+from streamlit.testing.v1 import AppTest
+
+from conftest import DEMO_DIR, ROOT
+from planner.calibration.fit import fit_calibration
+from planner.calibration.log import read_log_file
+from planner.records.store import PlanStore
+from planner.scenario.schema import load_scenario
+
+APP = str(ROOT / "dashboard" / "app.py")
+BARGE = DEMO_DIR / "fuel_oil_barge_discharge.toml"
+DEMO_LOG = DEMO_DIR / "logs" / "barge_wren_2026-01-14.csv"
+
+
+@pytest.fixture
+def db(tmp_path, monkeypatch):
+    path = tmp_path / "plans.sqlite"
+    monkeypatch.setenv("PLANNER_DB_PATH", str(path))
+    return path
+
+
+def _calibration_tab() -> AppTest:
+    at = AppTest.from_file(APP, default_timeout=300).run()
+    at.selectbox(key="demo_choice").set_value(BARGE.name).run()
+    at.session_state["view"] = "Calibration"
+    return at.run()
+
+
+def test_demo_log_fits_applies_and_saves(db):
+    at = _calibration_tab()
+    assert not at.exception, at.exception
+    at.button(key="cal_use_demo").click().run()
+    assert not at.exception, at.exception
+    assert not [e.value for e in at.error]
+    factors = [d.value for d in at.dataframe if "factor" in d.value.columns][0]
+    # the page shows the planner's fit (default factors: viscosity, heat loss and, PD pump, slip)
+    expected = fit_calibration(load_scenario(BARGE), read_log_file(DEMO_LOG))
+    assert set(expected.factors) == {"viscosity_factor", "heat_loss_factor", "slip_factor"}
+    shown = dict(zip(factors["factor"], factors["fitted"]))
+    for name, f in expected.factors.items():
+        assert shown[name] == pytest.approx(f.value, abs=1e-4)
+    assert any("2 rows could not be read" in w.value for w in at.warning)
+    assert len(at.get("plotly_chart")) >= 1
+
+    at.button(key="cal_apply").click().run()
+    calibration = at.session_state["work"]["calibration"]
+    assert calibration["viscosity_factor"] == pytest.approx(expected.factors["viscosity_factor"].value, rel=1e-9)
+    assert calibration["source"]["sha256"] == hashlib.sha256(DEMO_LOG.read_bytes()).hexdigest()
+    assert any("Applied to the working scenario" in s.value for s in at.success)
+    assert any("In use now: viscosity_factor" in c.value for c in at.caption)
+    at.text_input(key="sv_author").input("A. Operator").run()
+    at.button(key="cal_save").click().run()
+    assert not at.exception, at.exception
+    assert any("Saved as revision 1" in s.value for s in at.success), [s.value for s in at.success]
+    store = PlanStore(db)
+    plan = store.plans()[0]
+    revision = store.revision(plan.id, 1)
+    assert DEMO_LOG.name in revision.note and calibration["source"]["sha256"] in revision.note
+    assert revision.scenario.calibration.viscosity_factor == pytest.approx(calibration["viscosity_factor"])
+
+
+def test_a_log_that_cannot_be_read_shows_its_message(db):
+    at = _calibration_tab()
+    at.session_state["cal_demo_log"] = False
+    at.run()
+    assert any("Upload a log" in i.value for i in at.info)
