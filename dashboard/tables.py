@@ -125,7 +125,8 @@ def segments_frame(segments: list[dict], system: str) -> pd.DataFrame:
         with_unit("To", "length", system): [to_display(s["x_end"], "length", system) for s in segments],
         with_unit("Inside diameter", "small_length", system): [to_display(s["inside_diameter"], "small_length", system) for s in segments],
         "Traced": [words(bool(s["traced"])) for s in segments],
-        with_unit("Rating", "pressure", system): [to_display(s["pressure_rating"], "pressure", system) for s in segments],
+        with_unit("Rating", "pressure", system): [number_text(to_display(s["pressure_rating"], "pressure", system), 2)
+                                                  if s["pressure_rating"] is not None else "none given" for s in segments],
         "Flange class": [f"class {s['flange_class']}" if s["flange_class"] else "none given" for s in segments],
         "Location": [words(s["location"]) for s in segments],
     })

@@ -30,6 +30,12 @@ SEVERITY_STYLE = {
 }
 
 
+def data_table(frame: pd.DataFrame, decimals: int = 3) -> None:
+    """A results table: numbers at ``decimals`` with thousands separators, a missing value as "—"
+    (never "None")."""
+    st.dataframe(frame.style.format(precision=decimals, thousands=",", na_rep="—"), hide_index=True, width="stretch")
+
+
 def key_figures_strip(bundle: dict, unit_system: str) -> None:
     """The plan's key figures as metrics; labels are stable (tests read them)."""
     figs = key_figures(bundle["plan"], bundle.get("outlet_rating"), unit_system)
@@ -108,10 +114,9 @@ def line_view(bundle: dict, unit_system: str) -> None:
     st.caption("At the starting operating point. Dotted lines: segment boundaries. The rating line is each "
                "segment's own rating or its ASME B16.5 flange rating at the product temperature, whichever is lower.")
     st.markdown("#### Segments of the discharge route")
-    st.dataframe(tables.segments_frame(bundle["segments"], unit_system).round(2), hide_index=True, width="stretch")
+    data_table(tables.segments_frame(bundle["segments"], unit_system), 2)
     with st.expander("Profile table (step ends and mid-steps)"):
-        st.dataframe(tables.profile_frame(profile, bundle["segments"], unit_system).round(3), hide_index=True,
-                     width="stretch")
+        data_table(tables.profile_frame(profile, bundle["segments"], unit_system))
 
 
 def time_view(bundle: dict, unit_system: str) -> None:
@@ -125,10 +130,10 @@ def time_view(bundle: dict, unit_system: str) -> None:
     st.caption(plain(cold.get("message", "")))
     rows = bundle.get("push_cold_rows") or {}
     if rows.get("time_s"):
-        st.dataframe(tables.push_cold_frame(rows, unit_system).round(3), hide_index=True, width="stretch")
+        data_table(tables.push_cold_frame(rows, unit_system))
         st.plotly_chart(figures.push_cold_figure(rows, unit_system), key="push_cold_chart")
     with st.expander("Timeline table"):
-        st.dataframe(tables.timeline_frame(plan, unit_system).round(3), hide_index=True, width="stretch")
+        data_table(tables.timeline_frame(plan, unit_system))
 
 
 def product_view(bundle: dict, unit_system: str) -> None:
@@ -156,7 +161,7 @@ def product_view(bundle: dict, unit_system: str) -> None:
             [to_display(v, "dynamic_viscosity", unit_system) for v in curve["lab_viscosity"]],
     })
     st.markdown("#### Lab points (edit them under Inputs → Product)")
-    st.dataframe(points.round(2), hide_index=True, width="stretch")
+    data_table(points, 2)
 
 
 # ---------------------------------------------------------------------------------------- comparison
