@@ -436,3 +436,36 @@ def test_unsaved_changes_survive_an_approval_made_in_another_session(db):
     first = store.revision(row.id, 1)
     assert first.state == "approved"
     assert first.scenario.site.wind_speed == pytest.approx(load_scenario(DEMO_FILES[0]).site.wind_speed, rel=1e-12)
+
+
+# ------------------------------------------------------------------------------------- labels follow the state
+
+def _caption_and_working_on(at: AppTest) -> tuple[str, str]:
+    caption = [c for c in _texts(at.caption) if "— units:" in c]
+    working = [c for c in _texts(at.sidebar.caption) if c.startswith("Working on:")]
+    assert caption and working
+    return caption[0], working[0]
+
+
+def test_labels_follow_the_revision_state_and_the_loaded_scenario(db):
+    """Issue 12.3: approved in another session, the caption and the sidebar say "approved" on the next run
+    (not the "draft" of the time it was opened); a share link clears the demo picker."""
+    store = PlanStore(db)
+    scenario = load_scenario(DEMO_FILES[0])
+    saved = store.save("Wren discharge", scenario, "ana", site="jetty 2")
+    at = _app({"plan": str(saved.plan_id), "rev": "1", "view": "plan"})
+    _no_trouble(at)
+    caption, working = _caption_and_working_on(at)
+    assert "revision 1 (draft)" in caption and "revision 1 (draft)" in working
+    assert at.selectbox(key="demo_choice").value is None           # not a demo any more
+    store.submit(saved.plan_id, 1, "ana")
+    store.approve(saved.plan_id, 1, "sam", "fine")                 # another session signs it off
+    at.run()
+    caption, working = _caption_and_working_on(at)
+    assert "revision 1 (approved)" in caption and "revision 1 (approved)" in working, (caption, working)
+    assert not [c for c in (caption, working) if "draft" in c]
+    linked = _app(query_for("plan", scenario=load_scenario(DEMO_FILES[1])))
+    assert linked.selectbox(key="demo_choice").value is None
+    assert "shared link" in _caption_and_working_on(linked)[0]
+    plain_demo = _app()
+    assert plain_demo.selectbox(key="demo_choice").value == DEMO_FILES[0].name
