@@ -280,7 +280,7 @@ def test_each_view_at_both_widths(browser, server, width):
         for name in VIEWS:
             _open_tab(page, name)
             if name == "Setpoint comparison":
-                page.get_by_label("With sensitivity").check()
+                page.get_by_text("With sensitivity", exact=True).click()
                 _wait_idle(page)
                 page.get_by_role("button", name="Compare", exact=True).click()
                 page.get_by_text("Recommended:").first.wait_for(timeout=300_000)
