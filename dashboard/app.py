@@ -10,11 +10,9 @@ Saved plans, share links and review are in ``sharing.py``; a link in the address
 from __future__ import annotations
 
 import copy
-import json
 import logging
 import re
 import sys
-import tomllib
 from pathlib import Path
 
 import streamlit as st
@@ -33,7 +31,8 @@ from dashboard import calibration_view  # noqa: E402
 from dashboard.sharing import save_share_review  # noqa: E402
 from planner.errors import ScenarioError  # noqa: E402
 from planner.scenario.schema import (  # noqa: E402
-    Scenario, load_scenario, scenario_from_dict, scenario_to_dict, scenario_to_json, scenario_to_toml)
+    Scenario, load_scenario, read_scenario_data, scenario_from_dict, scenario_to_dict, scenario_to_json,
+    scenario_to_toml)
 
 DEMO_DIR = ROOT / "demo_scenarios"
 DEMO_FILES = sorted(DEMO_DIR.glob("*.toml"))
@@ -77,11 +76,14 @@ def _on_upload(key: str) -> None:
     if upload is None:
         return
     name = upload.name
-    try:
+    try:   # read_scenario_data: bounded size, nesting refused with a message (planner.scenario.schema)
         text = upload.getvalue().decode("utf-8")
-        data = json.loads(text) if name.lower().endswith(".json") else tomllib.loads(text)
-    except (UnicodeDecodeError, json.JSONDecodeError, tomllib.TOMLDecodeError) as exc:
+        data = read_scenario_data(text, "json" if name.lower().endswith(".json") else "toml")
+    except UnicodeDecodeError as exc:
         st.session_state["load_message"] = ("error", f"{name} cannot be read: {exc}")
+        return
+    except ScenarioError as exc:
+        st.session_state["load_message"] = ("error", f"{name}: {exc.problems[0][1]}")
         return
     if not isinstance(data, dict):
         st.session_state["load_message"] = ("error", f"{name}: a scenario must be a table/object at the top level")

@@ -1,40 +1,62 @@
 """Cached planner calls for the pages, keyed by the scenario's canonical JSON text.
 
 The JSON text is ``planner.scenario.schema.scenario_to_json`` of the validated scenario, so unchanged
-inputs (in any unit system) hit the cache and do not recompute.  Planner errors come back as
-``{"error": message}`` (cached too); they are never raised into the page.
+inputs (in any unit system) hit the cache and do not recompute.  A miss runs in the bounded worker
+pool of ``dashboard.workers`` (one computation per session, a time limit per request, never in the
+server process).  Planner errors come back as ``{"error": message}`` (cached too); a computation
+stopped at its time limit, or refused while every worker is busy, comes back as an error with
+``"transient": True`` and is not cached, so pressing the button again tries again.
 """
 
 from __future__ import annotations
 
 import copy
-import logging
 import threading
 from collections import OrderedDict
 
 import streamlit as st
 
-from planner.errors import PlannerError, ScenarioError
-from planner.scenario.schema import parse_scenario_text
+from .workers import pool
 
-from .results import build_bundle, run_comparison
+pool(warm=True)     # the fork server and workers start while the first page is laid out
 
-log = logging.getLogger(__name__)
+
+class _NotCached(Exception):
+    """Carries a transient result out of a cached function, so that Streamlit does not keep it."""
+
+    def __init__(self, result: dict):
+        super().__init__(result.get("error", ""))
+        self.result = result
+
+
+def _session_id() -> str:
+    try:
+        from streamlit.runtime.scriptrunner import get_script_run_ctx
+
+        ctx = get_script_run_ctx()
+        return ctx.session_id if ctx is not None else ""
+    except Exception:  # noqa: BLE001  (outside a Streamlit run: one anonymous session)
+        return ""
+
+
+def _run(kind: str, args: tuple, progress=None) -> dict:
+    result = pool().run(kind, args, session=_session_id(), progress=progress)
+    if result.get("transient"):
+        raise _NotCached(result)
+    return result
 
 
 @st.cache_data(show_spinner=False, max_entries=48)
+def _bundle(scenario_json: str) -> dict:
+    return _run("plan", (scenario_json,))
+
+
 def cached_bundle(scenario_json: str) -> dict:
+    """The plan bundle of ``dashboard.results.build_bundle``, or ``{"error": ...}``."""
     try:
-        scenario = parse_scenario_text(scenario_json, "json")
-        return build_bundle(scenario)
-    except ScenarioError as exc:      # e.g. a plan needs [pump], [source] and [destination]
-        return {"error": str(exc), "problems": list(exc.problems)}
-    except (PlannerError, ValueError, ArithmeticError) as exc:
-        return {"error": str(exc)}
-    except Exception as exc:  # noqa: BLE001  (a bug must not put a traceback on the page)
-        log.exception("plan failed")
-        return {"error": f"the planner failed unexpectedly ({type(exc).__name__}: {exc}); "
-                         "please report this scenario to the maintainers"}
+        return _bundle(scenario_json)
+    except _NotCached as exc:
+        return exc.result
 
 
 class _Memo:
@@ -81,24 +103,16 @@ def cached_comparison_result(scenario_json: str, lever: str, values_si, sensitiv
 
 
 def comparison(scenario_json: str, lever: str, values_si, sensitivity: bool, progress=None) -> dict:
-    """The comparison (``results.run_comparison``), run once per process for the same inputs.
+    """``dashboard.results.run_comparison`` as plain data, or ``{"error": ...}``; run once per process
+    for the same inputs (a transient error, a time limit or a full pool, is not kept).
 
     ``progress(done, total)`` is called while a new comparison runs (never on a repeat)."""
     key = comparison_key(scenario_json, lever, values_si, sensitivity)
     found = _comparison_memo().get(key)
     if found is not None:
         return found
-    result = _run_comparison(scenario_json, lever, list(key[2]), sensitivity, progress)
-    _comparison_memo().put(key, result)
+    result = pool().run("comparison", (scenario_json, lever, list(key[2]), bool(sensitivity)), session=_session_id(),
+                        progress=progress)
+    if not result.get("transient"):
+        _comparison_memo().put(key, result)
     return result
-
-
-def _run_comparison(scenario_json: str, lever: str, values_si: list, sensitivity: bool, progress) -> dict:
-    try:
-        scenario = parse_scenario_text(scenario_json, "json")
-        return run_comparison(scenario, lever, values_si, progress=progress, sensitivity=sensitivity)
-    except (PlannerError, ValueError, ArithmeticError) as exc:
-        return {"error": str(exc)}
-    except Exception as exc:  # noqa: BLE001
-        log.exception("comparison failed")
-        return {"error": f"the comparison failed unexpectedly ({type(exc).__name__}: {exc})"}

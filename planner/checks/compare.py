@@ -47,26 +47,44 @@ class Comparison:
     sensitivity: dict = field(default_factory=dict)
 
 
-def parse_range(text: str) -> list[float]:
-    """'40:70:5' -> [40, 45, ..., 70]; '40,50,65' -> [40, 50, 65] (display units)."""
-    text = text.strip()
+MAX_RANGE_TEXT = 2000   # characters of a values text
+
+
+def _numbers(parts: list[str]) -> list[float] | None:
     try:
-        if ":" in text:
-            parts = [float(p) for p in text.split(":")]
-            if len(parts) != 3 or parts[2] <= 0 or parts[1] < parts[0]:
-                raise ValueError
-            start, stop, step = parts
-            count = int(math.floor((stop - start) / step + 1e-9)) + 1
-            if count > 101:
-                raise ValueError
-            return [round(start + i * step, 10) for i in range(count)]
-        values = [float(p) for p in text.split(",") if p.strip()]
-        if not values:
-            raise ValueError
-        return values
+        numbers = [float(p) for p in parts]
     except ValueError:
-        raise ValueError(f"cannot read the range {text!r}: give START:STOP:STEP (e.g. 40:70:5, at most 101 "
-                         f"values) or a list 40,50,65") from None
+        return None
+    return numbers if numbers and all(math.isfinite(v) for v in numbers) else None
+
+
+def parse_range(text: str, max_values: int | None = None) -> list[float]:
+    """'40:70:5' -> [40, 45, ..., 70]; '40,50,65' -> [40, 50, 65] (display units); at most ``max_values``
+    (default: the work budget's ``comparison_values``) finite values either way."""
+    from planner.scenario.budget import active_budget
+
+    max_values = max_values or active_budget().comparison_values
+    text = str(text).strip()
+    usage = f"give START:STOP:STEP (e.g. 40:70:5) or a list 40,50,65, at most {max_values} finite values"
+    if len(text) > MAX_RANGE_TEXT:
+        raise ValueError(f"the values are {len(text):,} characters long: {usage}")
+    if ":" in text:
+        parts = _numbers(text.split(":"))
+        if parts is None or len(parts) != 3 or parts[2] <= 0 or parts[1] < parts[0]:
+            raise ValueError(f"cannot read the range {text[:60]!r}: {usage}")
+        start, stop, step = parts
+        spans = (stop - start) / step      # may be inf for absurd ranges: compared before any floor()
+        count = math.floor(spans + 1e-9) + 1 if spans <= max_values else math.inf
+        if count > max_values:
+            raise ValueError(f"{text[:60]!r} makes {spans + 1:,.0f} values, more than the {max_values} allowed: "
+                             "use a coarser step or a shorter range")
+        return [round(start + i * step, 10) for i in range(count)]
+    values = _numbers([p for p in text.split(",") if p.strip()])
+    if values is None:
+        raise ValueError(f"cannot read the values {text[:60]!r}: {usage}")
+    if len(values) > max_values:
+        raise ValueError(f"{len(values):,} values given, more than the {max_values} allowed: give fewer values")
+    return values
 
 
 def _row(scenario: Scenario, lever: str, value: float, viscosity_factor: float, ambient_shift: float) -> dict:
@@ -182,6 +200,7 @@ def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | N
         raise ValueError("the scenario is not steam traced: compare setpoints instead")
     if not values:
         raise ValueError("give at least one value to compare")
+    _check_work(scenario, values, sensitivity, ambient_shift, viscosity_uncertainty)
     unit = LEVERS[lever][1]
     cases = [(1.0, 0.0, "as given")]
     if sensitivity:
@@ -207,6 +226,18 @@ def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | N
             comparison.sensitivity[label] = {"recommended_value": None if b is None else r[b]["value"], "reason": why,
                                              "total_costs": [x["total_cost"] for x in r]}
     return comparison
+
+
+def _check_work(scenario: Scenario, values, sensitivity: bool, ambient_shift: float, viscosity_uncertainty: float) -> None:
+    """Refuse before computing: non-finite values, bad sensitivity options, or work past the budget."""
+    from planner.scenario.budget import BudgetError, comparison_problems, sensitivity_problems
+
+    if not all(isinstance(v, (int, float)) and math.isfinite(v) for v in values):
+        raise BudgetError([("values", "every value to compare must be a finite number")])
+    problems = sensitivity_problems(ambient_shift, viscosity_uncertainty) if sensitivity else []
+    problems += comparison_problems(scenario, len(values), 5 if sensitivity else 1)
+    if problems:
+        raise BudgetError(problems)
 
 
 def comparison_json(comparison: Comparison) -> dict:

@@ -47,3 +47,14 @@ def main(argv: list[str] | None = None) -> int:
         # documentation's recipe: point stdout at devnull so the final flush cannot fail again)
         os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
         return 0
+    except ArithmeticError as exc:   # e.g. a viscosity law fitted to extreme lab points overflows
+        print(f"error: the computation has no answer for these inputs ({type(exc).__name__}: {exc}): they are "
+              "beyond what the models can evaluate; check the product's viscosity data and the extreme inputs",
+              file=sys.stderr)
+        return 2
+    except Exception as exc:  # noqa: BLE001  (a bug: one line for the user, the traceback with PLANNER_DEBUG=1)
+        if os.environ.get("PLANNER_DEBUG"):
+            raise
+        print(f"internal error: {type(exc).__name__}: {exc} (please report it with the scenario; "
+              "PLANNER_DEBUG=1 shows the traceback)", file=sys.stderr)
+        return 1

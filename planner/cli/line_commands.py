@@ -7,6 +7,7 @@ import json
 import sys
 
 from planner.errors import PlannerError
+from planner.scenario.budget import BudgetError
 from planner.scenario.units import UnitError, to_si
 
 
@@ -55,7 +56,12 @@ def _compare(args) -> int:
     if len(given) != 1:
         raise ValueError("give exactly one of --setpoints, --steam-pressures, --pump-speeds, --flow-limits")
     lever, text = given[0]
-    values = parse_range(text)
+    option = "--" + {"setpoint": "setpoints", "steam_pressure": "steam-pressures", "pump_speed": "pump-speeds",
+                      "flow_limit": "flow-limits"}[lever]
+    try:
+        values = parse_range(text)
+    except ValueError as exc:
+        raise ValueError(f"{option}: {exc}") from None
 
     def progress(done, total):
         if not args.json and sys.stderr.isatty():
@@ -64,6 +70,8 @@ def _compare(args) -> int:
     try:
         result = compare(scenario, lever, values, progress=progress, sensitivity=args.sensitivity,
                          ambient_shift=args.ambient_shift, viscosity_uncertainty=args.viscosity_uncertainty / 100.0)
+    except BudgetError as exc:   # name the option the values came from
+        raise BudgetError([(option if field == "values" else field, message) for field, message in exc.problems]) from None
     finally:
         shutdown_pool()
     if args.json:

@@ -18,6 +18,9 @@ def line_from_scenario(scenario: Scenario) -> Line:
 def evaluate(scenario: Scenario, flow: float | None = None, inlet_temperature: float | None = None,
              inlet_pressure: float | None = None, step: float = DEFAULT_STEP_M, line: Line | None = None) -> MarchResult:
     """The steady march for a scenario at its operating flow and inlet temperature (or those given)."""
+    from planner.scenario.budget import check_pass
+
+    check_pass(scenario, step)     # the work budget, before any work
     line = line or line_from_scenario(scenario)
     flow = scenario.operation.flow if flow is None else flow
     t_in = scenario.operation.inlet_temperature if inlet_temperature is None else inlet_temperature

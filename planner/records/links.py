@@ -16,11 +16,13 @@ from __future__ import annotations
 import base64
 import binascii
 import json
+import re
 import zlib
 from dataclasses import dataclass
 from urllib.parse import urlencode
 
 from planner.errors import ScenarioError
+from planner.scenario.budget import BudgetError
 from planner.scenario.quantities import exact_dump
 from planner.scenario.schema import Scenario, scenario_from_dict
 
@@ -61,6 +63,14 @@ _ZDICT_V1 = json.dumps([
 ], separators=(",", ":")).encode()
 
 
+def _ascii_number(text: object, digits: int) -> int | None:
+    """``text`` as a whole number written in 0-9 with at most ``digits`` digits, else None.
+    (``str.isdigit`` also takes '²' and other digits that ``int`` refuses.)"""
+    if isinstance(text, str) and re.fullmatch(r"[0-9]{1,%d}" % digits, text):
+        return int(text)
+    return None
+
+
 class LinkError(ValueError):
     """A share link that cannot be used, with the reason in words."""
 
@@ -94,13 +104,14 @@ def unpack_scenario(payload: object) -> Scenario:
     parts = payload.strip().split(".")
     if len(parts) != 3:
         raise LinkError("the link's scenario data is damaged (expected version.data.check)")
-    version, body, check = parts
-    if not version.isdigit():
+    version_text, body, check = parts
+    version = _ascii_number(version_text, 6)
+    if version is None:
         raise LinkError("the link's scenario data is damaged (no version)")
-    if int(version) > LINK_VERSION:
+    if version > LINK_VERSION:
         raise LinkError(f"the link was made by a newer planner (link version {version}; this one reads "
                         f"{LINK_VERSION}): update the planner")
-    if int(version) < 1:
+    if version < 1:
         raise LinkError(f"unknown link version {version}")
     try:
         packed = base64.urlsafe_b64decode(body + "=" * (-len(body) % 4))
@@ -115,10 +126,9 @@ def unpack_scenario(payload: object) -> Scenario:
             raise LinkError("the link's scenario data is damaged (truncated)")
     except zlib.error:
         raise LinkError("the link's scenario data is damaged (cannot be unpacked)") from None
-    try:
-        expected = int(check, 16)
-    except ValueError:
-        raise LinkError("the link's scenario data is damaged (bad check value)") from None
+    if not re.fullmatch(r"[0-9a-fA-F]{1,8}", check):
+        raise LinkError("the link's scenario data is damaged (bad check value)")
+    expected = int(check, 16)
     if zlib.crc32(text) != expected:
         raise LinkError("the link's scenario data does not match its check value: it was altered or cut")
     try:
@@ -129,6 +139,9 @@ def unpack_scenario(payload: object) -> Scenario:
         raise LinkError("the link's scenario data is not a scenario")
     try:
         return scenario_from_dict(data)
+    except BudgetError as exc:
+        raise LinkError("the link's scenario asks for more work than the planner's budget: " + "; ".join(
+            f"{field}: {message}" for field, message in exc.problems[:5])) from None
     except ScenarioError as exc:
         raise LinkError("the link's scenario is not valid: " + "; ".join(
             f"{field}: {message}" for field, message in exc.problems[:5])) from None
@@ -175,12 +188,14 @@ def parse_query(params: dict) -> SharedView:
         view = "plan"
     plan = one("plan")
     if plan is not None:
-        if not (isinstance(plan, str) and plan.isdigit() and len(plan) <= 12):
-            raise LinkError("the link's plan id is not a number")
+        plan_id = _ascii_number(plan, 12)
+        if plan_id is None:
+            raise LinkError("the link's plan id is not a number (digits 0-9, at most 12)")
         rev = one("rev")
-        if rev is not None and not (isinstance(rev, str) and rev.isdigit() and len(rev) <= 9):
-            raise LinkError("the link's revision is not a number")
-        return SharedView(plan_id=int(plan), revision=int(rev) if rev is not None else None, view=view)
+        revision = None if rev is None else _ascii_number(rev, 9)
+        if rev is not None and revision is None:
+            raise LinkError("the link's revision is not a number (digits 0-9, at most 9)")
+        return SharedView(plan_id=plan_id, revision=revision, view=view)
     payload = one("s")
     if payload is None:
         return SharedView(view=view)

@@ -72,7 +72,10 @@ def Quantity(kind: str, *, gt: float | None = None, ge: float | None = None,
 
     def parse(value: object, info) -> float:
         field = info.field_name or "value"
-        number = to_si(value, kind, field)
+        try:
+            number = to_si(value, kind, field)
+        except UnitError as exc:   # the path already names the field: drop to_si's own prefix
+            raise ValueError(str(exc).removeprefix(f"{field}: ")) from None
         if kind == "temperature" and number <= 0.0:
             raise ValueError(f"{value!r} is at or below absolute zero")
         problems = []

@@ -45,6 +45,9 @@ ConductivitySlope = Quantity("dimensionless", ge=-0.01, le=0.01, description="ch
 DynamicViscosity = Quantity("dynamic_viscosity", gt=0.0, le=1.0e7, description="dynamic viscosity")
 KinematicViscosity = Quantity("kinematic_viscosity", gt=0.0, le=1.0e4, description="kinematic viscosity")
 YieldStress = Quantity("yield_stress", ge=0.0, le=1.0e5, description="yield stress")
+# Air or soil around a line: -90 to +70 degC spans the recorded extremes at the Earth's surface
+# ([mem] unverified: about -89 and +57 degC); the air and viscosity models are not used beyond it.
+Ambient = Quantity("temperature", ge=183.15, le=343.15, description="ambient temperature")
 VapourPressure = Quantity("pressure", ge=0.0, le=1.0e7, description="vapour pressure (absolute)")
 
 
@@ -126,7 +129,7 @@ class ProductSpec(_Model):
             from planner.scenario.presets import PRODUCT_PRESETS
 
             name = data["preset"]
-            if name not in PRODUCT_PRESETS:
+            if not isinstance(name, str) or name not in PRODUCT_PRESETS:
                 raise ValueError(f"unknown product preset {name!r}; presets are {', '.join(sorted(PRODUCT_PRESETS))}")
             merged = json.loads(json.dumps(PRODUCT_PRESETS[name]))
             merged.update(data)
@@ -184,7 +187,7 @@ class Surroundings(_Model):
     """What a run sees outside its jacket; fields left out take the site's values."""
 
     location: Literal["outdoor", "sheltered", "indoor", "buried"] = "outdoor"
-    ambient_temperature: Optional[Temperature] = None
+    ambient_temperature: Optional[Ambient] = None
     wind_speed: Optional[WindSpeed] = None
     burial_depth: Quantity("length", gt=0.05, le=20.0, description="depth of the pipe axis below grade") = 1.0
     soil_conductivity: Quantity("conductivity", gt=0.05, le=5.0, description="soil thermal conductivity") = 1.2
@@ -296,9 +299,9 @@ class Tracing(_Model):
 
 class Site(_Model):
     name: str = Field("", max_length=120)
-    ambient_temperature: Temperature
+    ambient_temperature: Ambient
     wind_speed: WindSpeed = 0.0
-    design_ambient_temperature: Optional[Temperature] = Field(None, description="coldest ambient the plan must hold at; default: ambient")
+    design_ambient_temperature: Optional[Ambient] = Field(None, description="coldest ambient the plan must hold at; default: ambient")
 
 
 class Operation(_Model):
@@ -540,25 +543,46 @@ def scenario_from_dict(data: dict) -> Scenario:
     if not isinstance(data, dict):
         raise ScenarioError([("", "a scenario must be a table/object at the top level")])
     try:
-        return Scenario.model_validate(data)
+        scenario = Scenario.model_validate(data)
     except ValidationError as exc:
         raise ScenarioError(problems_from(exc)) from None
+    except RecursionError:
+        raise ScenarioError([("", "the scenario is nested too deeply to read")]) from None
+    from planner.scenario.budget import check_plan
+
+    check_plan(scenario)   # the work budget: a scenario that asks for too much is refused here
+    return scenario
+
+
+MAX_SCENARIO_CHARS = 2_000_000   # a scenario file or text longer than this is refused unread
+
+
+def read_scenario_data(text: str, fmt: str) -> object:
+    """The plain data of a TOML or JSON text, or ScenarioError saying why it cannot be read."""
+    if len(text) > MAX_SCENARIO_CHARS:
+        raise ScenarioError([("", f"the {fmt.upper()} text is {len(text):,} characters, more than a scenario "
+                                  f"needs (at most {MAX_SCENARIO_CHARS:,})")])
+    try:
+        return tomllib.loads(text) if fmt == "toml" else json.loads(text)
+    except (tomllib.TOMLDecodeError, json.JSONDecodeError) as exc:
+        raise ScenarioError([("", f"cannot read the {fmt.upper()} file: {exc}")]) from None
+    except RecursionError:
+        raise ScenarioError([("", f"cannot read the {fmt.upper()} file: it is nested too deeply")]) from None
 
 
 def parse_scenario_text(text: str, fmt: str) -> Scenario:
-    try:
-        data = tomllib.loads(text) if fmt == "toml" else json.loads(text)
-    except (tomllib.TOMLDecodeError, json.JSONDecodeError) as exc:
-        raise ScenarioError([("", f"cannot read the {fmt.upper()} file: {exc}")]) from None
-    return scenario_from_dict(data)
+    return scenario_from_dict(read_scenario_data(text, fmt))
 
 
 def load_scenario(path: str | Path) -> Scenario:
     path = Path(path)
     try:
-        text = path.read_text(encoding="utf-8")
+        with path.open("r", encoding="utf-8") as handle:
+            text = handle.read(MAX_SCENARIO_CHARS + 1)
     except OSError as exc:
         raise ScenarioError([("", f"cannot open {path}: {exc.strerror}")]) from None
+    except UnicodeDecodeError:
+        raise ScenarioError([("", f"cannot read {path}: it is not UTF-8 text")]) from None
     fmt = "json" if path.suffix.lower() == ".json" else "toml"
     return parse_scenario_text(text, fmt)
 

@@ -94,8 +94,27 @@ _NUMBER_UNIT = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.
 _POWER_SUFFIX = re.compile(r"\b(m|cm|mm|ft|inch|in|yd)([23])\b")
 
 
+MAX_UNIT_CHARS = 40      # longer unit text is refused unread (the longest unit in use has 19 characters)
+
+
 class UnitError(ValueError):
     """A value whose unit is unknown or of the wrong dimension."""
+
+
+def _temperature_quantity(ureg, number: float, unit: str, kind: str, field: str, value: object):
+    """A temperature as absolute, a temperature difference as a difference, whatever the unit says.
+
+    An absolute temperature given in a difference unit ("55 delta_degC") is refused: read as 55 K it
+    would be -218 degC.  A difference given in degC or degF ("10 degC" as a margin) means 10 K.
+    """
+    quantity = ureg.Quantity(number, unit)
+    names = list(quantity.unit_items())
+    if kind == "temperature" and any(name.startswith("delta_") for name, _ in names):
+        raise UnitError(f"{field}: {value!r} is a temperature difference; give a temperature such as "
+                        "'55 degC', '131 degF' or '328.15 K'")
+    if kind == "temperature_difference" and not quantity._is_multiplicative and len(names) == 1:  # noqa: SLF001
+        quantity = ureg.Quantity(number, "delta_" + names[0][0])
+    return quantity
 
 
 def _normalise_unit(text: str) -> str:
@@ -107,6 +126,29 @@ def _normalise_unit(text: str) -> str:
     if text in {"F", "fahrenheit"}:
         text = "degF"
     return text
+
+
+@lru_cache(maxsize=1024)
+def _scale(unit: str, kind: str) -> float | None:
+    """SI value of one ``unit`` when the conversion is a pure scale (pint asked once per unit), else None."""
+    ureg = registry()
+    quantity = ureg.Quantity(1.0, unit)
+    if not quantity._is_multiplicative or any(name.startswith("delta_") for name, _ in quantity.unit_items()):  # noqa: SLF001
+        return None
+    return float(quantity.to(SI_UNITS[kind]).magnitude)
+
+
+def _convert(ureg, number: float, unit: str, kind: str, field: str, value: object) -> float:
+    if kind == "temperature" and unit == "degC":
+        return number + ZERO_CELSIUS_K               # pint's own definition of degC, without the parse
+    scale = _scale(unit, kind)
+    if scale is not None:
+        return number * scale                        # what pint computes for a multiplicative unit
+    if kind in ("temperature", "temperature_difference"):
+        quantity = _temperature_quantity(ureg, number, unit, kind, field, value)
+    else:
+        quantity = ureg.Quantity(number, unit)
+    return quantity.to(SI_UNITS[kind]).magnitude
 
 
 def to_si(value: object, kind: str, field: str = "value") -> float:
@@ -125,27 +167,35 @@ def to_si(value: object, kind: str, field: str = "value") -> float:
     if isinstance(value, bool):
         raise UnitError(f"{field}: expected a number or a 'number unit' string, got {value!r}")
     if isinstance(value, (int, float)):
-        number = float(value)
+        try:
+            number = float(value)
+        except OverflowError:          # an integer past the float range (JSON and TOML allow any)
+            raise UnitError(f"{field}: an integer of {value.bit_length()} bits is past the range of numbers") from None
         unit = DEFAULT_UNITS[kind]
     elif isinstance(value, str):
         match = _NUMBER_UNIT.match(value)
         if not match:
             raise UnitError(f"{field}: cannot read {value!r} as 'number unit' (e.g. '4 in', '55 degC')")
         number = float(match.group(1))
+        if len(match.group(2)) > MAX_UNIT_CHARS:
+            raise UnitError(f"{field}: the unit of {value[:30]!r}... is {len(match.group(2)):,} characters long; "
+                            f"a unit has at most {MAX_UNIT_CHARS} (e.g. '4 in', '55 degC', 'kg/m3')")
         unit = _normalise_unit(match.group(2)) or DEFAULT_UNITS[kind]
     else:
         raise UnitError(f"{field}: expected a number or a 'number unit' string, got {type(value).__name__}")
     if not math.isfinite(number):
         raise UnitError(f"{field}: {value!r} is not a finite number")
     try:
-        quantity = ureg.Quantity(number, unit)
-        result = quantity.to(SI_UNITS[kind]).magnitude
+        result = _convert(ureg, number, unit, kind, field, value)
     except pint.errors.DimensionalityError:
         raise UnitError(
             f"{field}: {value!r} has the wrong dimension; expected a {kind.replace('_', ' ')} "
             f"(e.g. in {DEFAULT_UNITS[kind].replace('**', '')})"
         ) from None
-    except (pint.errors.UndefinedUnitError, AttributeError, TypeError, ValueError, AssertionError):
+    except UnitError:
+        raise
+    except (pint.errors.UndefinedUnitError, AttributeError, TypeError, ValueError, AssertionError,
+            RecursionError, ArithmeticError):
         raise UnitError(f"{field}: unknown unit {unit!r} in {value!r}") from None
     result = float(result)
     if not math.isfinite(result):

@@ -1,0 +1,294 @@
+"""A bounded pool of worker processes for the dashboard's plans and comparisons, with time limits.
+
+No Streamlit here (``compute.py`` wraps it).  Every plan and comparison the pages ask for runs in
+one of ``size`` worker processes (default: the machine's cores), never in the server process, so
+
+- a computation still running past its time limit (``PLAN_SECONDS``, ``COMPARISON_SECONDS``) is
+  stopped — its worker process group is killed and a fresh worker takes its place — and the page
+  gets a message saying what to reduce;
+- one session runs at most one computation at a time, and waits at most ``WAIT_SECONDS`` for a free
+  worker: heavy work of one session cannot take more than one worker, nor queue the others out.
+  While all workers are busy a request is told so and may be retried; it is never queued forever.
+
+Each worker is a fresh interpreter (``python -m dashboard.workers FD``) talking over a socket pair:
+it inherits none of the server's threads, sockets or modules (Streamlit swaps ``__main__`` for the
+page script, so multiprocessing's spawn and forkserver would re-run the page in every worker, and a
+fork would keep the server's listening socket open).  It loads the planner before its first job,
+and runs in its own session and process group: a comparison's own row processes are stopped with it.
+Environment (read at each request): ``PLANNER_WORKERS``, ``PLANNER_PLAN_TIME_LIMIT_S``,
+``PLANNER_COMPARISON_TIME_LIMIT_S``, ``PLANNER_WORKER_WAIT_S``.
+"""
+
+from __future__ import annotations
+
+import atexit
+import logging
+import os
+import signal
+import socket
+import subprocess
+import sys
+import threading
+import time
+from multiprocessing.connection import Connection
+from pathlib import Path
+
+log = logging.getLogger(__name__)
+
+PLAN_SECONDS = 60.0          # a plan still running after this is stopped
+COMPARISON_SECONDS = 180.0   # a comparison still running after this is stopped
+WAIT_SECONDS = 20.0          # longest wait for a free worker before "busy, try again"
+POLL_SECONDS = 0.2
+STARTUP_SECONDS = 120.0      # a new worker interpreter loading the planner (seconds on a loaded machine)
+
+
+def _env_float(name: str, default: float) -> float:
+    try:
+        value = float(os.environ.get(name, ""))
+    except ValueError:
+        return default
+    return value if 0.0 < value < 1e6 else default
+
+
+def limits() -> dict:
+    return {"plan": _env_float("PLANNER_PLAN_TIME_LIMIT_S", PLAN_SECONDS),
+            "comparison": _env_float("PLANNER_COMPARISON_TIME_LIMIT_S", COMPARISON_SECONDS),
+            "wait": _env_float("PLANNER_WORKER_WAIT_S", WAIT_SECONDS)}
+
+
+# ------------------------------------------------------------------------------------------ jobs
+# They run in the worker process; plain data in and out; planner errors become {"error": ...}.
+
+def _failure(exc: BaseException, what: str) -> dict:
+    from planner.errors import PlannerError, ScenarioError
+
+    if isinstance(exc, ScenarioError):          # e.g. past the work budget, or a plan without [pump]
+        return {"error": str(exc), "problems": [list(p) for p in exc.problems]}
+    if isinstance(exc, (PlannerError, ValueError, ArithmeticError, RecursionError)):
+        return {"error": str(exc)}
+    log.exception("%s failed", what)
+    return {"error": f"the {what} failed unexpectedly ({type(exc).__name__}: {exc}); "
+                     "please report this scenario to the maintainers"}
+
+
+def bundle_job(scenario_json: str, progress=None) -> dict:
+    from planner.scenario.schema import parse_scenario_text
+
+    from dashboard.results import build_bundle
+
+    try:
+        return build_bundle(parse_scenario_text(scenario_json, "json"))
+    except Exception as exc:  # noqa: BLE001  (a bug must not put a traceback on the page)
+        return _failure(exc, "plan")
+
+
+def comparison_job(scenario_json: str, lever: str, values_si: list, sensitivity: bool, progress=None) -> dict:
+    from planner.scenario.schema import parse_scenario_text
+
+    from dashboard.results import run_comparison
+
+    try:
+        return run_comparison(parse_scenario_text(scenario_json, "json"), lever, list(values_si),
+                              progress=progress, sensitivity=sensitivity)
+    except Exception as exc:  # noqa: BLE001
+        return _failure(exc, "comparison")
+
+
+JOBS = {"plan": bundle_job, "comparison": comparison_job}
+
+
+def _serve(conn) -> None:
+    """Worker main loop: a job in, progress messages and one result out, until the pipe closes."""
+    signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl-C on the server is the server's to handle
+    import dashboard.results  # noqa: F401  (load the planner before the first job)
+    from planner.scenario.units import registry
+
+    registry()
+    conn.send(("ready",))
+    while True:
+        try:
+            kind, args = conn.recv()
+        except (EOFError, OSError):
+            return
+
+        def progress(done, total):
+            conn.send(("progress", done, total))
+
+        conn.send(("result", JOBS[kind](*args, progress=progress)))
+
+
+# ------------------------------------------------------------------------------------------ pool
+
+ROOT = Path(__file__).resolve().parents[1]
+
+
+class _Worker:
+    """One worker interpreter and the parent's end of its socket pair."""
+
+    def __init__(self):
+        parent, child = socket.socketpair()
+        env = dict(os.environ, PYTHONPATH=os.pathsep.join([str(ROOT), os.environ.get("PYTHONPATH", "")]))
+        self.process = subprocess.Popen([sys.executable, "-m", "dashboard.workers", str(child.fileno())],
+                                        cwd=ROOT, env=env, pass_fds=(child.fileno(),), start_new_session=True,
+                                        stdin=subprocess.DEVNULL)
+        child.close()
+        self.conn = Connection(parent.detach())
+        self.ready = False
+
+    def wait_ready(self, timeout: float) -> bool:
+        """True once the worker has loaded the planner (its first message)."""
+        if not self.ready and self.conn.poll(timeout):
+            self.ready = self.conn.recv() == ("ready",)
+        return self.ready
+
+    def kill(self) -> None:
+        try:
+            os.killpg(self.process.pid, signal.SIGKILL)     # the worker and a comparison's row processes
+        except (ProcessLookupError, PermissionError):
+            pass
+        self.process.wait(timeout=10)
+        self.conn.close()
+
+    def alive(self) -> bool:
+        return self.process.poll() is None
+
+
+class WorkerPool:
+    """At most ``size`` computations at once, one per session, each within its time limit."""
+
+    def __init__(self, size: int | None = None):
+        self.size = size or int(_env_float("PLANNER_WORKERS", os.cpu_count() or 1))
+        self._slots = threading.BoundedSemaphore(self.size)
+        self._lock = threading.Lock()
+        self._idle: list[_Worker] = []
+        self._all: set[_Worker] = set()
+        self._sessions: set[str] = set()
+        self._closed = False
+        self.stopped = 0          # computations stopped at their time limit (for the tests and the log)
+
+    def _take(self) -> _Worker:
+        with self._lock:
+            while self._idle:
+                worker = self._idle.pop()
+                if worker.alive():
+                    return worker
+                self._all.discard(worker)
+        worker = _Worker()                       # outside the lock: starting takes a second or two
+        with self._lock:
+            self._all.add(worker)
+        return worker
+
+    def _give_back(self, worker: _Worker) -> None:
+        with self._lock:
+            self._idle.append(worker)
+
+    def _discard(self, worker: _Worker) -> None:
+        worker.kill()
+        with self._lock:
+            self._all.discard(worker)
+        # a replacement starts loading now, so the next request does not wait for it
+        threading.Thread(target=self.warm, name="planner-worker-replace", daemon=True).start()
+
+    def run(self, kind: str, args: tuple, session: str = "", progress=None, time_limit: float | None = None,
+            wait: float | None = None) -> dict:
+        """The job's result, or ``{"error": ..., "transient": True}`` when it was stopped or not started."""
+        chosen = limits()
+        time_limit = time_limit or chosen[kind]
+        with self._lock:
+            if session in self._sessions:
+                return {"error": "this page is still working on its previous computation: wait for it, then try "
+                                 "again", "transient": True, "busy": True}
+            self._sessions.add(session)
+        try:
+            if not self._slots.acquire(timeout=wait or chosen["wait"]):
+                return {"error": f"the planner is busy with other users' computations (all {self.size} workers in "
+                                 "use): try again in a minute", "transient": True, "busy": True}
+            try:
+                return self._run_in_worker(kind, args, progress, time_limit)
+            finally:
+                self._slots.release()
+        finally:
+            with self._lock:
+                self._sessions.discard(session)
+
+    def _run_in_worker(self, kind: str, args: tuple, progress, time_limit: float) -> dict:
+        worker = self._take()
+        if not worker.wait_ready(STARTUP_SECONDS):
+            self._discard(worker)
+            return {"error": "the planner's worker did not start; try again", "transient": True}
+        deadline = time.monotonic() + time_limit        # the limit counts from the job's start
+        try:
+            worker.conn.send((kind, args))
+            while True:
+                remaining = deadline - time.monotonic()
+                if remaining <= 0:
+                    break
+                if not worker.conn.poll(min(POLL_SECONDS, remaining)):
+                    continue
+                message = worker.conn.recv()
+                if message[0] == "progress":
+                    if progress is not None:
+                        progress(message[1], message[2])
+                    continue
+                self._give_back(worker)
+                return message[1]
+        except (EOFError, OSError, BrokenPipeError) as exc:
+            self._discard(worker)
+            return {"error": f"the {kind} stopped unexpectedly ({type(exc).__name__}); try again", "transient": True}
+        except BaseException:
+            self._discard(worker)     # e.g. the page was left mid-run: the worker cannot be reused safely
+            raise
+        self._discard(worker)
+        self.stopped += 1
+        what = "plan" if kind == "plan" else "comparison"
+        reduce = ("shorten the route or lower the timeline steps (Inputs)" if kind == "plan" else
+                  "compare fewer values, or leave out the sensitivity cases")
+        return {"error": f"the {what} was stopped after {time_limit:g} s, the dashboard's time limit: {reduce}",
+                "transient": True, "timeout": True}
+
+    def warm(self) -> None:
+        """Start the fork server and every worker now (the first page then does not wait for them)."""
+        while True:
+            with self._lock:
+                if self._closed or len(self._all) >= self.size:
+                    return
+            try:
+                worker = _Worker()
+            except OSError:
+                log.exception("starting the planner's workers failed")
+                return
+            with self._lock:
+                closed = self._closed
+                if not closed:
+                    self._all.add(worker)
+                    self._idle.append(worker)
+            if closed:
+                worker.kill()
+                return
+
+    def close(self) -> None:
+        with self._lock:
+            self._closed = True
+            workers, self._all, self._idle = list(self._all), set(), []
+        for worker in workers:
+            worker.kill()
+
+
+_POOL: WorkerPool | None = None
+_POOL_LOCK = threading.Lock()
+
+
+def pool(warm: bool = False) -> WorkerPool:
+    """The server's one pool (made on first use; ``warm``: its workers started in the background)."""
+    global _POOL
+    with _POOL_LOCK:
+        if _POOL is None:
+            _POOL = WorkerPool()
+            atexit.register(_POOL.close)
+            if warm:
+                threading.Thread(target=_POOL.warm, name="planner-workers-warm", daemon=True).start()
+        return _POOL
+
+
+if __name__ == "__main__":       # a worker: python -m dashboard.workers FD
+    _serve(Connection(int(sys.argv[1])))

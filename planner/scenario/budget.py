@@ -1,0 +1,229 @@
+"""The work budget: how much computing one request may ask for, estimated before any is done.
+
+Field limits alone do not bound the work (200 segments of 50 km each are all valid fields), so every
+request is costed first and refused past the budget with a message that names the field to reduce.
+The same budget holds for scenario files, share links, the command line and the dashboard: it is
+checked in ``scenario_from_dict`` (every scenario read anywhere), in ``line.model.evaluate`` (the march step) and
+in ``compare`` (values x sensitivity cases).
+
+Work is counted in *march steps*.  One pass along the line (the discharge route, plus the suction
+route when there is one) costs its steps — ``max(2, ceil(length / step))`` per segment, as the march
+takes them — plus ``PASS_OVERHEAD_STEPS`` for the set-up of the pass and of the operating-point
+solve around it.  A plan makes about ``PLAN_PASSES_FIXED + PLAN_PASSES_PER_TIMELINE_STEP x
+timeline_steps`` passes (operating point, timeline, both start-ups, hold); those figures are fitted
+to counted passes of the demo scenarios at 10 to 1000 timeline steps (they over-count by up to half above
+60 steps; a plan whose operating point is hard to find, e.g. with the relief lifting, can take three
+times the passes).  A comparison is values x cases plans.  On the project's 2-core machine one step
+takes 4-45 us (laminar hot products cost the most), so a plan at the default budget
+(``Budget.plan_steps``) takes about 1-15 s of one core; the demos need 8,000-30,000.
+
+``PLANNER_WORK_BUDGET`` (environment, a positive factor, default 1) scales every step budget for a
+site that wants a tighter or looser server; ``use_budget(Budget(...))`` sets one for a block of code
+(tests use it to keep each fuzz case small).
+"""
+
+from __future__ import annotations
+
+import contextlib
+import contextvars
+import math
+import os
+from dataclasses import dataclass, replace
+
+from planner.errors import ScenarioError
+
+DEFAULT_STEP_M = 25.0                 # the march's default step [m] (planner.line.march.DEFAULT_STEP_M)
+PASS_OVERHEAD_STEPS = 30              # fixed cost of one pass, in march steps (measured on the demos)
+PLAN_PASSES_FIXED = 170               # passes of a plan outside the timeline (start, start-ups, hold)
+PLAN_PASSES_PER_TIMELINE_STEP = 3.5   # passes per timeline step (operating-point solve per increment)
+MIN_TIMELINE_STEPS = 10               # schema's lower limit of schedule.timeline_steps
+ENV_FACTOR = "PLANNER_WORK_BUDGET"
+
+
+@dataclass(frozen=True)
+class Budget:
+    """Largest work one request may ask for [march steps, see the module docstring]."""
+
+    pass_steps: int = 300_000          # one pass along the line (``evaluate``; any plan's pass)
+    plan_steps: int = 300_000          # one plan
+    comparison_steps: int = 3_000_000  # one comparison (all values and sensitivity cases)
+    comparison_values: int = 101       # values of the lever in one comparison
+    max_ambient_shift_k: float = 50.0  # sensitivity: ambient shift [K]
+    max_viscosity_uncertainty: float = 0.9   # sensitivity: viscosity +- fraction (below 1: stays positive)
+
+    def scaled(self, factor: float) -> "Budget":
+        return replace(self, pass_steps=int(self.pass_steps * factor), plan_steps=int(self.plan_steps * factor),
+                       comparison_steps=int(self.comparison_steps * factor))
+
+
+DEFAULT_BUDGET = Budget()
+_ACTIVE: contextvars.ContextVar[Budget | None] = contextvars.ContextVar("planner_work_budget", default=None)
+
+
+class BudgetError(ScenarioError):
+    """A request past the work budget: ``problems`` name the field to reduce and by how much."""
+
+    def __init__(self, problems: list[tuple[str, str]]):
+        super().__init__(problems)
+        lines = [f"{field}: {message}" if field else message for field, message in problems]
+        self.args = ("the request is past the work budget:\n  " + "\n  ".join(lines),)
+
+    def __str__(self) -> str:
+        return self.args[0]
+
+
+def active_budget() -> Budget:
+    """The budget in force: ``use_budget``'s, else the default scaled by ``PLANNER_WORK_BUDGET``."""
+    chosen = _ACTIVE.get()
+    if chosen is not None:
+        return chosen
+    text = os.environ.get(ENV_FACTOR, "").strip()
+    if not text:
+        return DEFAULT_BUDGET
+    try:
+        factor = float(text)
+    except ValueError:
+        factor = math.nan
+    if not (math.isfinite(factor) and 0.0 < factor <= 1000.0):
+        raise BudgetError([("", f"environment {ENV_FACTOR}={text!r} must be a factor above 0 and at most 1000")])
+    return DEFAULT_BUDGET.scaled(factor)
+
+
+@contextlib.contextmanager
+def use_budget(budget: Budget):
+    """Run a block of code under ``budget`` (this thread or task only)."""
+    token = _ACTIVE.set(budget)
+    try:
+        yield budget
+    finally:
+        _ACTIVE.reset(token)
+
+
+# ------------------------------------------------------------------------------------------- estimates
+
+def route_steps(route, step: float = DEFAULT_STEP_M) -> int:
+    """March steps of one pass along ``route`` (a ``schema.Route`` or None) at ``step`` [m]."""
+    if route is None:
+        return 0
+    return sum(max(2, int(math.ceil(seg.length / step - 1e-9))) for seg in route.segments)
+
+
+def pass_steps(scenario, step: float = DEFAULT_STEP_M) -> int:
+    """Work of one pass: discharge and suction steps plus the fixed cost of a pass."""
+    return route_steps(scenario.route, step) + route_steps(scenario.suction, step) + PASS_OVERHEAD_STEPS
+
+
+def plan_passes(timeline_steps: int) -> int:
+    return int(math.ceil(PLAN_PASSES_FIXED + PLAN_PASSES_PER_TIMELINE_STEP * timeline_steps))
+
+
+def plan_steps(scenario, step: float = DEFAULT_STEP_M) -> int:
+    """Estimated work of ``make_plan(scenario)`` [march steps]."""
+    return plan_passes(scenario.schedule.timeline_steps) * pass_steps(scenario, step)
+
+
+def is_plan_scenario(scenario) -> bool:
+    return all(getattr(scenario, name) is not None for name in ("pump", "source", "destination"))
+
+
+# ------------------------------------------------------------------------------------------- checks
+
+def _route_text(scenario, step: float) -> str:
+    routes = [("route", scenario.route), ("suction", scenario.suction)]
+    parts = []
+    for name, route in routes:
+        if route is not None:
+            metres = sum(seg.length for seg in route.segments)
+            length = f"{metres / 1000.0:,.1f} km" if metres >= 1000.0 else f"{metres:,.0f} m"
+            parts.append(f"{name} {length} in {len(route.segments)} segment(s)")
+    return ", ".join(parts) + f", {step:g} m per step"
+
+
+def _route_field(scenario) -> str:
+    suction = route_steps(scenario.suction)
+    return "suction.segments" if suction > route_steps(scenario.route) else "route.segments"
+
+
+def pass_problems(scenario, step: float = DEFAULT_STEP_M, budget: Budget | None = None) -> list[tuple[str, str]]:
+    """One pass along the line against the budget (the work of ``evaluate``)."""
+    budget = budget or active_budget()
+    work = pass_steps(scenario, step)
+    if work <= budget.pass_steps:
+        return []
+    field = "--step" if step < DEFAULT_STEP_M and pass_steps(scenario) <= budget.pass_steps else _route_field(scenario)
+    return [(field, f"one pass along the line is {work:,} march steps ({_route_text(scenario, step)}), past the "
+                    f"work budget of {budget.pass_steps:,}: shorten the route, or use a longer march step")]
+
+
+def plan_problems(scenario, step: float = DEFAULT_STEP_M, budget: Budget | None = None) -> list[tuple[str, str]]:
+    """A whole plan against the budget; empty when it fits."""
+    budget = budget or active_budget()
+    problems = pass_problems(scenario, step, budget)
+    if problems or not is_plan_scenario(scenario):
+        return problems
+    work = plan_steps(scenario, step)
+    if work <= budget.plan_steps:
+        return []
+    steps = scenario.schedule.timeline_steps
+    fewer = budget.plan_steps // pass_steps(scenario, step)
+    most_steps = int((fewer - PLAN_PASSES_FIXED) / PLAN_PASSES_PER_TIMELINE_STEP)
+    text = (f"the plan is estimated at {work:,} march steps (about {plan_passes(steps):,} passes along the line "
+            f"for {steps} timeline steps, {pass_steps(scenario, step):,} steps each: {_route_text(scenario, step)}), "
+            f"past the work budget of {budget.plan_steps:,}")
+    if most_steps >= MIN_TIMELINE_STEPS:
+        return [("schedule.timeline_steps", text + f": lower schedule.timeline_steps to at most {most_steps}, "
+                                                   "or shorten the route")]
+    return [(_route_field(scenario), text + ": shorten the route (or plan it in parts)")]
+
+
+def check_plan(scenario, step: float = DEFAULT_STEP_M) -> None:
+    problems = plan_problems(scenario, step)
+    if problems:
+        raise BudgetError(problems)
+
+
+def check_pass(scenario, step: float = DEFAULT_STEP_M) -> None:
+    problems = pass_problems(scenario, step)
+    if problems:
+        raise BudgetError(problems)
+
+
+def sensitivity_problems(ambient_shift: float, viscosity_uncertainty: float,
+                         budget: Budget | None = None) -> list[tuple[str, str]]:
+    """Sensitivity options of a comparison: finite, and a viscosity that stays positive."""
+    budget = budget or active_budget()
+    problems = []
+    if not (math.isfinite(ambient_shift) and abs(ambient_shift) <= budget.max_ambient_shift_k):
+        problems.append(("--ambient-shift", f"{ambient_shift!r} K: give a finite shift of at most "
+                                            f"{budget.max_ambient_shift_k:g} K"))
+    if not (math.isfinite(viscosity_uncertainty) and 0.0 <= viscosity_uncertainty <= budget.max_viscosity_uncertainty):
+        shown = viscosity_uncertainty * 100.0 if math.isfinite(viscosity_uncertainty) else viscosity_uncertainty
+        problems.append(("--viscosity-uncertainty", f"{shown!r} %: give 0 to {budget.max_viscosity_uncertainty * 100:g} % "
+                                                    "(the scaled viscosity must stay above zero)"))
+    return problems
+
+
+def comparison_problems(scenario, values: int, cases: int, budget: Budget | None = None) -> list[tuple[str, str]]:
+    """A comparison of ``values`` lever values in ``cases`` sensitivity cases against the budget."""
+    budget = budget or active_budget()
+    if values > budget.comparison_values:
+        return [("values", f"{values:,} values to compare, past the work budget of {budget.comparison_values}: "
+                           "give fewer values (a coarser step or a shorter range)")]
+    problems = plan_problems(scenario, budget=budget)
+    if problems:
+        return problems
+    each = plan_steps(scenario) if is_plan_scenario(scenario) else pass_steps(scenario)
+    work = each * values * cases
+    if work <= budget.comparison_steps:
+        return []
+    fit = max(1, budget.comparison_steps // (each * cases))
+    extra = " or leave out the sensitivity cases" if cases > 1 else ""
+    return [("values", f"the comparison is estimated at {work:,} march steps ({values} values x {cases} case(s) x "
+                       f"{each:,} per plan), past the work budget of {budget.comparison_steps:,}: give at most "
+                       f"{fit} values{extra}, or lower schedule.timeline_steps")]
+
+
+def check_comparison(scenario, values: int, cases: int) -> None:
+    problems = comparison_problems(scenario, values, cases)
+    if problems:
+        raise BudgetError(problems)

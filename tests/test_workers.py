@@ -1,0 +1,113 @@
+"""The dashboard's worker pool (``dashboard.workers``): real worker processes, real plans.
+
+A computation past its time limit is stopped with a message and its worker replaced; a second
+session is served while the first one's heavy plan runs; a session runs one computation at a time;
+a full pool says it is busy instead of queueing forever.
+"""
+
+from __future__ import annotations
+
+import threading
+import time
+
+import pytest
+
+from conftest import DEMO_FILES
+from dashboard.workers import WorkerPool
+from planner.scenario.schema import load_scenario, scenario_from_dict, scenario_to_dict, scenario_to_json
+
+SYRUP = next(p for p in DEMO_FILES if "syrup" in p.name)
+LIGHT = scenario_to_json(load_scenario(SYRUP))
+
+
+def _heavy() -> str:
+    """A plan inside the work budget that still takes seconds: 1000 timeline steps on the fuel-oil line."""
+    data = scenario_to_dict(load_scenario(next(p for p in DEMO_FILES if "fuel_oil" in p.name)))
+    data["schedule"]["timeline_steps"] = 1000
+    return scenario_to_json(scenario_from_dict(data))
+
+
+HEAVY = _heavy()
+
+
+@pytest.fixture(scope="module")
+def workers():
+    pool = WorkerPool(2)
+    pool.warm()
+    yield pool
+    pool.close()
+
+
+def test_a_plan_runs_in_a_worker_and_gives_the_bundle(workers):
+    from dashboard.results import build_bundle
+
+    result = workers.run("plan", (LIGHT,), session="s1", time_limit=120)
+    assert "error" not in result
+    direct = build_bundle(load_scenario(SYRUP))
+    assert result["plan"]["timeline"]["total_time_s"] == pytest.approx(direct["plan"]["timeline"]["total_time_s"],
+                                                                       rel=1e-12)
+
+
+def test_a_plan_past_its_time_limit_is_stopped_and_its_worker_replaced(workers):
+    before = workers.stopped
+    started = time.monotonic()
+    result = workers.run("plan", (HEAVY,), session="s2", time_limit=0.5)
+    elapsed = time.monotonic() - started
+    assert result.get("timeout") and result.get("transient")
+    assert "stopped after 0.5 s" in result["error"] and "timeline steps" in result["error"]
+    assert workers.stopped == before + 1
+    assert elapsed < 10.0                       # stopped, not waited out (the plan takes several seconds)
+    again = workers.run("plan", (LIGHT,), session="s2", time_limit=120)   # a fresh worker serves the next one
+    assert "error" not in again
+
+
+def test_a_comparison_reports_progress_and_is_stopped_at_its_limit(workers):
+    seen = []
+    values = [318.15, 323.15, 328.15]
+    result = workers.run("comparison", (LIGHT, "setpoint", values, False), session="s3", time_limit=120,
+                         progress=lambda done, total: seen.append((done, total)))
+    assert "error" not in result and len(result["rows"]) == 3
+    assert seen and seen[-1] == (3, 3)
+    stopped = workers.run("comparison", (HEAVY, "setpoint", values, False), session="s3", time_limit=0.5)
+    assert stopped.get("timeout") and "leave out the sensitivity" in stopped["error"]
+
+
+def test_one_session_runs_one_computation_and_cannot_starve_another(workers):
+    heavy_result = {}
+
+    def heavy():
+        heavy_result["value"] = workers.run("plan", (HEAVY,), session="greedy", time_limit=120)
+
+    thread = threading.Thread(target=heavy)
+    thread.start()
+    time.sleep(0.3)
+    second = workers.run("plan", (HEAVY,), session="greedy", time_limit=120)
+    assert second.get("busy") and "previous computation" in second["error"]
+    other = workers.run("plan", (LIGHT,), session="modest", time_limit=120)
+    assert "error" not in other                 # the other worker served the other session
+    thread.join()
+    assert "error" not in heavy_result["value"]
+
+
+def test_a_full_pool_says_it_is_busy():
+    pool = WorkerPool(1)
+    try:
+        pool.warm()
+        thread = threading.Thread(target=lambda: pool.run("plan", (HEAVY,), session="a", time_limit=120))
+        thread.start()
+        time.sleep(0.3)
+        result = pool.run("plan", (LIGHT,), session="b", wait=0.5)
+        assert result.get("busy") and "busy with other users" in result["error"]
+        thread.join()
+    finally:
+        pool.close()
+
+
+def test_a_planner_error_comes_back_as_a_message(workers):
+    data = scenario_to_dict(load_scenario(SYRUP))
+    del data["pump"]
+    from planner.scenario.schema import Scenario
+
+    text = Scenario.model_validate(data).model_dump_json()
+    result = workers.run("plan", (text,), session="s4", time_limit=120)
+    assert "pump" in result["error"] and not result.get("transient")
