@@ -1,9 +1,10 @@
 """Save / share / review: saved plans, share links and the supervisor's sign-off.
 
 Everything lasting goes through the planner: revisions and the review trail through
-``planner.records.store.PlanStore`` (one SQLite file; revisions are never overwritten and an approved one
-is immutable in the database itself), links through ``planner.links`` (bounded, validated decoding
-of untrusted query parameters).  This module only lays them out.
+``planner.records.store.PlanStore`` (an SQLite file or PostgreSQL; revisions are never overwritten and an
+approved one is immutable in the database itself), links through ``planner.links`` (bounded, validated
+decoding of untrusted query parameters).  This module only lays them out.  Saving and review steps
+are done by the signed-in account (``accounts_ui``): its name goes into the revision and the trail.
 
 Session state used here (all keys are this module's own):
 
@@ -34,7 +35,9 @@ import streamlit as st
 from planner.errors import PlannerError, ScenarioError
 from planner.records.links import URL_BUDGET_CHARS, LinkError, fits_in_url, link_url, parse_query, query_for
 from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_dict, scenario_to_json
-from planner.records.store import STATES, PlanStore, Revision, StoreError, canonical_json, default_path
+from planner.records.store import STATES, PlanStore, Revision, StoreError, canonical_json, database_url
+
+from . import accounts_ui
 
 from .display import J_PER_KWH, fmt, key_figures, number_text
 from .plaintext import plain, plain_table
@@ -78,32 +81,50 @@ RESULT_FIELDS = (
 
 # ------------------------------------------------------------------------------------------ store
 
-def db_path() -> Path:
-    """``st.secrets["planner_db_path"]`` if set, else ``PLANNER_DB_PATH``, else ``data/plans.sqlite``."""
-    value = None
+def _secret(key: str):
     try:
-        if "planner_db_path" in st.secrets:
-            value = st.secrets["planner_db_path"]
+        if key in st.secrets:
+            return st.secrets[key]
     except Exception:  # noqa: BLE001  (no secrets file: st.secrets raises on access)
-        value = None
-    return Path(str(value)).expanduser() if value else default_path()
+        return None
+    return None
+
+
+def db_url() -> str:
+    """The plans database: ``st.secrets["planner_db_url"]`` (an SQLAlchemy URL) or
+    ``st.secrets["planner_db_path"]`` (an SQLite file), else ``PLANNER_DB_URL``, else ``PLANNER_DB_PATH``,
+    else ``data/plans.sqlite``. Raises StoreError for a URL or path that is refused."""
+    url, path = _secret("planner_db_url"), _secret("planner_db_path")
+    if url:
+        return database_url(url=str(url))
+    if path:
+        return database_url(path=Path(str(path)).expanduser())
+    return database_url()
 
 
 @st.cache_resource(show_spinner=False)
-def _open_store(path: str) -> PlanStore:
-    return PlanStore(path)
+def _open_store(url: str) -> PlanStore:
+    return PlanStore(url=url)
 
 
 def store() -> PlanStore:
-    """The process's store for the configured file (opened on first use only). Raises StoreError."""
-    path = db_path()
+    """The process's store for the configured database (opened on first use only). Raises StoreError."""
+    url = db_url()
     try:
-        return _open_store(str(path))
+        return _open_store(url)
     except StoreError:
         raise
     except Exception as exc:  # noqa: BLE001  (unwritable folder, damaged file, ...)
-        log.exception("plans file %s cannot be opened", path)
-        raise StoreError(f"the plans file {path} cannot be opened ({type(exc).__name__}: {exc})") from None
+        log.exception("plans database cannot be opened")
+        raise StoreError(f"the plans database cannot be opened ({type(exc).__name__}: {exc})") from None
+
+
+def store_exists() -> bool:
+    """False only for an SQLite file not made yet (a fresh install: nothing saved, no accounts)."""
+    url = db_url()
+    if url.startswith("sqlite:///"):
+        return Path(url[len("sqlite:///"):]).exists()
+    return True
 
 
 # ------------------------------------------------------------------------------------------ helpers
@@ -365,13 +386,17 @@ def _do_save() -> None:
     if scenario is None:
         _set_msg("share_msg", "error", "The inputs have problems: fix them before saving.")
         return
+    author = accounts_ui.acting_account("save")
+    if author is None:
+        _set_msg("share_msg", "error", "Not saved: sign in to save (sidebar, “Account”).")
+        return
     from .compute import cached_bundle
 
     bundle = cached_bundle(scenario_to_json(scenario))
     ref = _open_ref()
     as_new = bool(ss.get("sv_as_new")) or ref is None
     try:
-        revision = store().save(ss.get("sv_name") or "", scenario, ss.get("sv_author") or "",
+        revision = store().save(ss.get("sv_name") or "", scenario, author,
                                 note=ss.get("sv_note") or "", site=ss.get("sv_site") or "",
                                 results=results_summary(bundle), plan_id=None if as_new else ref["plan_id"])
     except StoreError as exc:
@@ -401,18 +426,22 @@ def _do_open(set_work, plan_id: int, number: int) -> None:
 
 def _do_review(action: str, plan_id: int, number: int) -> None:
     ss = st.session_state
+    who = accounts_ui.acting_account({"submit": "submit", "approve": "approve"}.get(action, "return plans"))
+    if who is None:
+        _set_msg("review_msg", "error", "Not done: sign in first (sidebar, “Account”).")
+        return
     try:
         if action == "submit":
-            store().submit(plan_id, number, ss.get("rv_submit_by") or "", ss.get("rv_submit_comment") or "")
-            text = f"Revision {number} submitted for review."
+            store().submit(plan_id, number, who, ss.get("rv_submit_comment") or "")
+            text = f"Revision {number} submitted for review by {who.name}."
         elif action == "approve":
             if not ss.get("rv_confirm"):
                 raise StoreError("tick the confirmation that you reviewed the plan under the site's procedures")
-            store().approve(plan_id, number, ss.get("rv_reviewer") or "", ss.get("rv_comment") or "")
-            text = f"Revision {number} approved: it is now read-only."
+            store().approve(plan_id, number, who, ss.get("rv_comment") or "")
+            text = f"Revision {number} approved by {who.name}: it is now read-only."
         else:
-            store().return_for_changes(plan_id, number, ss.get("rv_reviewer") or "", ss.get("rv_comment") or "")
-            text = f"Revision {number} returned for changes."
+            store().return_for_changes(plan_id, number, who, ss.get("rv_comment") or "")
+            text = f"Revision {number} returned for changes by {who.name}."
     except StoreError as exc:
         _set_msg("review_msg", "error", f"Not done: {exc}")
         return
@@ -440,6 +469,7 @@ def _show_msg(container, key: str) -> None:
 def save_share_review(container, scenario_json: str | None, bundle: dict | None) -> None:
     """The sidebar's Save / share / review section: what is open, saving, and the share link."""
     ss = st.session_state
+    account = accounts_ui.account_panel(container)
     revision: Revision | None = ss.get("open_rev_obj")
     unchanged = unchanged_since_open(revision)
     _show_msg(container, "share_msg")
@@ -467,7 +497,6 @@ def save_share_review(container, scenario_json: str | None, bundle: dict | None)
                          help="a name and site already saved add a revision to that plan")
     container.text_input("Site / area", key="sv_site", disabled=not as_new, max_chars=120,
                          help="a tag to find the plan by: jetty, tank farm, siding …")
-    container.text_input("Author", key="sv_author", max_chars=120)
     container.text_area("Note", key="sv_note", max_chars=4000, height=68, placeholder="what changed and why")
     if revision is not None:
         container.checkbox("Save as a separate new plan", key="sv_as_new")
@@ -475,10 +504,14 @@ def save_share_review(container, scenario_json: str | None, bundle: dict | None)
         label = f"Save as revision {_next_number(revision)}"
     else:
         label = "Save plan"
-    container.button(label, key="sv_save", on_click=_do_save, disabled=scenario_json is None, width="stretch",
-                     help="saving never overwrites: every save is a new revision")
+    container.button(label, key="sv_save", on_click=_do_save, disabled=scenario_json is None or account is None,
+                     width="stretch", help="saving never overwrites: every save is a new revision")
     if scenario_json is None:
         container.caption("The plan can be saved once the inputs are valid.")
+    elif account is None:
+        container.caption("Sign in (above) to save: the revision records who saved it.")
+    else:
+        container.caption(f"Saved as {account.name}.")
 
     # -- share link
     container.markdown("**Share link** (opens this view)")
@@ -507,7 +540,8 @@ def save_share_review(container, scenario_json: str | None, bundle: dict | None)
     else:
         container.warning(f"These inputs are too long for a link ({len(url):,} characters; at most "
                           f"{URL_BUDGET_CHARS:,}). Save the plan and share its id instead.")
-        container.button("Save and share the id", key="sv_save_share", on_click=_do_save, width="stretch")
+        container.button("Save and share the id", key="sv_save_share", on_click=_do_save, width="stretch",
+                         disabled=account is None)
 
 
 # ------------------------------------------------------------------------------------------ Review tab
@@ -587,6 +621,39 @@ def _open_panel(set_work, unit_system: str) -> None:
     else:
         right.caption("No review steps yet.")
 
+    _history_check(revision)
+    _review_steps(set_work, revision)
+
+
+def _history_check(revision: Revision) -> None:
+    """The open revision and its review records against the recorded history (``plans verify``)."""
+    try:
+        problems = store().revision_problems(revision.plan_id, revision.number)
+    except StoreError as exc:
+        st.error(f"The history check could not run: {exc}")
+        return
+    if problems:
+        st.error("This revision does not match the recorded history — it was changed behind the planner's back; "
+                 "do not rely on it and tell the administrator:\n\n" + "\n".join(f"- {p}" for p in problems))
+    else:
+        st.caption("History check: this revision and its review trail match the recorded history.")
+
+
+def _reviewer_note(revision: Revision, who) -> str | None:
+    """Why the signed-in account cannot approve or return this revision (None: it can)."""
+    if who is None:
+        return "Sign in as a supervisor (sidebar, “Account”) to approve or return this revision."
+    if who.role != "supervisor":
+        return f"Signed in as {who.name} ({who.role}): approving or returning needs a supervisor account."
+    if revision.author_id == who.id:
+        return f"You ({who.name}) authored revision {revision.number}: another supervisor must approve or return it."
+    return None
+
+
+def _review_steps(set_work, revision: Revision) -> None:
+    ss = st.session_state
+    state = revision.state
+    who = accounts_ui.current_account()
     unchanged = unchanged_since_open(revision)
     if not unchanged and state in ("draft", "submitted"):
         st.warning(f"The inputs on screen differ from saved revision {revision.number}: a review step applies to the "
@@ -595,29 +662,25 @@ def _open_panel(set_work, unit_system: str) -> None:
                   args=(set_work, revision.plan_id, revision.number))
     if state == "draft":
         st.markdown("**Submit for review**")
-        if "rv_submit_by" not in ss:
-            ss["rv_submit_by"] = ss.get("sv_author") or revision.author
-        a, b = st.columns([1, 2])
-        a.text_input("Submitted by", key="rv_submit_by", max_chars=120)
-        b.text_input("Comment for the reviewer", key="rv_submit_comment", max_chars=2000)
-        st.button("Submit for review", key="rv_submit", type="primary", disabled=not unchanged,
+        can = who is not None and who.role in ("planner", "supervisor")
+        st.caption(f"Submitted by {who.name} (signed in)." if can else
+                   "Sign in as a planner or supervisor (sidebar, “Account”) to submit this revision.")
+        st.text_input("Comment for the reviewer", key="rv_submit_comment", max_chars=2000)
+        st.button("Submit for review", key="rv_submit", type="primary", disabled=not (unchanged and can),
                   on_click=_do_review, args=("submit", revision.plan_id, revision.number))
     elif state == "submitted":
         st.markdown("**Supervisor's review**")
         st.caption(SIGN_OFF_TEXT)
-        a, b = st.columns([1, 2])
-        a.text_input("Reviewer (supervisor)", key="rv_reviewer", max_chars=120)
-        b.text_input("Comment", key="rv_comment", max_chars=2000,
-                     help="needed to return the plan: say what to change")
+        note = _reviewer_note(revision, who)
+        st.caption(note or f"Reviewing as {who.name} (supervisor, signed in).")
+        st.text_input("Comment", key="rv_comment", max_chars=2000, help="needed to return the plan: say what to change")
         st.checkbox("I reviewed the inputs, the findings and the key figures of this revision under the site's "
                     "procedures; approval is my judgement, the plan is an estimate.", key="rv_confirm")
-        if (ss.get("rv_reviewer") or "").strip() and (ss.get("rv_reviewer") or "").strip() == revision.author:
-            st.caption("The reviewer's name is the author's: follow the site's rule on who may sign off.")
         x, y, _ = st.columns([1, 1, 3])
-        x.button("Approve", key="rv_approve", type="primary", disabled=not unchanged, on_click=_do_review,
-                 args=("approve", revision.plan_id, revision.number))
-        y.button("Return for changes", key="rv_return", disabled=not unchanged, on_click=_do_review,
-                 args=("return", revision.plan_id, revision.number))
+        x.button("Approve", key="rv_approve", type="primary", disabled=not unchanged or note is not None,
+                 on_click=_do_review, args=("approve", revision.plan_id, revision.number))
+        y.button("Return for changes", key="rv_return", disabled=not unchanged or note is not None,
+                 on_click=_do_review, args=("return", revision.plan_id, revision.number))
     elif state == "approved":
         if ss.get("rev_unlocked"):
             st.caption(f"You are changing a copy of the inputs; saving makes a new revision and revision "
@@ -634,7 +697,11 @@ def _browse_panel(set_work, unit_system: str) -> None:
     product = b.text_input("Product contains", key="rv_product")
     site = c.text_input("Site / area contains", key="rv_site")
     state = d.selectbox("State", ["any", *STATES], key="rv_state")
-    rows = store().plans(search=search, product=product, site=site, state="" if state == "any" else state)
+    try:
+        rows = store().plans(search=search, product=product, site=site, state="" if state == "any" else state)
+    except StoreError as exc:
+        st.error(f"Search refused: {exc}")
+        return
     if not rows:
         st.caption("No saved plan matches." if (search or product or site or state != "any") else "No saved plans yet.")
         return

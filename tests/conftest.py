@@ -3,6 +3,8 @@
 from __future__ import annotations
 
 import copy
+import os
+import subprocess
 import sys
 from pathlib import Path
 
@@ -48,3 +50,52 @@ def base_scenario(**overrides) -> dict:
 @pytest.fixture
 def scenario_dict():
     return base_scenario()
+
+
+# -- the plans database on both back ends ---------------------------------------------------------------
+IN_CI = os.environ.get("CI", "").strip().lower() in ("1", "true", "yes")
+
+
+@pytest.fixture(scope="session")
+def pg_server():
+    """A throwaway PostgreSQL server for the whole run (tests/pg_server.py); skipped with the reason when
+    it cannot start, except with CI=true, where that fails the run."""
+    from pg_server import PgServer, PgUnavailable
+
+    server = PgServer()
+    try:
+        server.start()
+    except (PgUnavailable, OSError, subprocess.SubprocessError) as exc:
+        server.stop()
+        if IN_CI:
+            pytest.fail(f"the PostgreSQL test server cannot start in CI: {exc}", pytrace=False)
+        pytest.skip(f"the PostgreSQL test server cannot start: {exc}")
+    yield server
+    server.stop()
+
+
+@pytest.fixture(params=["sqlite", pytest.param("postgres", marks=pytest.mark.postgres)])
+def db_url(request, tmp_path):
+    """An empty plans database: an SQLite file, then a fresh PostgreSQL database."""
+    if request.param == "sqlite":
+        return f"sqlite:///{tmp_path / 'plans.sqlite'}"
+    return request.getfixturevalue("pg_server").new_database()
+
+
+PASSWORDS = {"root": "root-password-1", "ana": "ana-password-1", "ben": "ben-password-1",
+             "sam": "sam-password-1", "sue": "sue-password-1"}
+ROLES_OF = {"root": "admin", "ana": "planner", "ben": "planner", "sam": "supervisor", "sue": "supervisor"}
+
+
+def make_people(store, names=("root", "ana", "ben", "sam", "sue")) -> dict:
+    """Accounts for a test (as ``users add`` makes them): name -> Account.  Signing in is tested in
+    tests/test_accounts.py; the store reads each account's name and role from the database itself."""
+    from planner.records.accounts import AccountBook
+
+    book = AccountBook(store)
+    if book.count() == 0:
+        book.add("root", "admin", PASSWORDS["root"])
+    for name in names:
+        if name != "root":
+            book.add(name, ROLES_OF[name], PASSWORDS[name], database_operator=True)
+    return {name: book.get(name) for name in names}

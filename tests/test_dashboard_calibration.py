@@ -10,7 +10,7 @@ import hashlib
 import pytest
 from streamlit.testing.v1 import AppTest
 
-from conftest import DEMO_DIR, ROOT
+from conftest import DEMO_DIR, ROOT, PASSWORDS, make_people
 from planner.calibration.fit import fit_calibration
 from planner.calibration.log import read_log_file
 from planner.records.store import PlanStore
@@ -57,7 +57,11 @@ def test_demo_log_fits_applies_and_saves(db):
     assert calibration["source"]["sha256"] == hashlib.sha256(DEMO_LOG.read_bytes()).hexdigest()
     assert any("Applied to the working scenario" in s.value for s in at.success)
     assert any("In use now: viscosity_factor" in c.value for c in at.caption)
-    at.text_input(key="sv_author").input("A. Operator").run()
+    make_people(PlanStore(db), ("root", "ana"))      # saving needs a signed-in account
+    at.run()
+    at.text_input(key="si_name").set_value("ana")
+    at.text_input(key="si_password").set_value(PASSWORDS["ana"])
+    at.button(key="si_go").click().run()
     at.button(key="cal_save").click().run()
     assert not at.exception, at.exception
     assert any("Saved as revision 1" in s.value for s in at.success), [s.value for s in at.success]
@@ -65,6 +69,7 @@ def test_demo_log_fits_applies_and_saves(db):
     plan = store.plans()[0]
     revision = store.revision(plan.id, 1)
     assert DEMO_LOG.name in revision.note and calibration["source"]["sha256"] in revision.note
+    assert revision.author == "ana"
     assert revision.scenario.calibration.viscosity_factor == pytest.approx(calibration["viscosity_factor"])
 
 

@@ -4,7 +4,9 @@ References: the scenario and plan numbers come from the planner itself (``load_s
 ``plan_json``: the document ``python -m planner plan --json`` prints; ``planner.checks.findings.assess`` for the
 finding counts), link messages from ``planner.records.links.parse_query``, saved state from ``planner.records.store.PlanStore``
 opened on the same file.  The dashboard must show and store those, not recompute them.  Every test points
-``PLANNER_DB_PATH`` at a file of its own (the dashboard reads it when it first opens the store).
+``PLANNER_DB_PATH`` at a file of its own (the dashboard reads it when it first opens the store).  Saving
+and reviewing need a signed-in account: the tests make accounts as ``users add`` does and sign in through
+the sidebar's form (Argon2id check in ``planner.records.accounts``).
 """
 
 from __future__ import annotations
@@ -19,7 +21,7 @@ import pytest
 from streamlit.testing.v1 import AppTest
 
 from apptest_inputs import editor_with_column, number_field
-from conftest import DEMO_FILES, ROOT
+from conftest import DEMO_FILES, PASSWORDS, ROOT, make_people
 from planner.checks.findings import assess
 from planner.records.links import (LINK_VERSION, URL_BUDGET_CHARS, LinkError, fits_in_url, link_url, pack_scenario,
                            parse_query, query_for)
@@ -170,22 +172,40 @@ def _click(at: AppTest, key: str) -> AppTest:
     return at
 
 
+def _people(db) -> tuple[PlanStore, dict]:
+    store = PlanStore(db)
+    return store, make_people(store)
+
+
+def _sign_in(at: AppTest, name: str, password: str | None = None) -> AppTest:
+    if any(b.key == "si_out" for b in at.button):
+        _click(at, "si_out")
+    at.text_input(key="si_name").set_value(name)
+    at.text_input(key="si_password").set_value(PASSWORDS[name] if password is None else password)
+    _click(at, "si_go")
+    return at
+
+
 def test_save_submit_approve_lock_and_new_revision(db):
     path = DEMO_FILES[0]
     scenario = load_scenario(path)
     at = _app()
     _no_trouble(at)
     assert not db.exists()                                  # nothing saved yet: the file is made on first use
-    at.text_input(key="sv_author").set_value("Ana Operator")
+    assert at.button(key="sv_save").disabled                # and saving needs a sign-in
+    store, people = _people(db)
+    at.run()
+    _sign_in(at, "ana")
+    assert not at.button(key="sv_save").disabled
     at.text_input(key="sv_site").set_value("Jetty 2")
     at.text_area(key="sv_note").set_value("first cut")
     _click(at, "sv_save")
     assert any("Saved as revision 1" in s for s in _texts(at.success)), _texts(at.sidebar.error)
-    store = PlanStore(db)
     [row] = store.plans()
     first = store.revision(row.id, 1)
     assert (first.plan_name, first.site, first.author, first.note, first.state) == \
-        (scenario.name, "Jetty 2", "Ana Operator", "first cut", "draft")
+        (scenario.name, "Jetty 2", "ana", "first cut", "draft")
+    assert first.author_id == people["ana"].id
     assert scenario_to_dict(first.scenario) == scenario_to_dict(scenario)
     # the key figures kept with the revision are the plan's (planner: plan_json, findings.assess)
     plan = make_plan(scenario)
@@ -210,25 +230,28 @@ def test_save_submit_approve_lock_and_new_revision(db):
     # submit, then approve, in the Review tab
     _view(at, "Review")
     _no_trouble(at)
-    at.text_input(key="rv_submit_by").set_value("Ana Operator")
+    assert any("match the recorded history" in c for c in _texts(at.caption))
     _click(at, "rv_submit")
     assert store.revision(row.id, 1).state == "submitted"
-    at.text_input(key="rv_reviewer").set_value("Sam Supervisor")
+    assert store.reviews(row.id, 1)[0].by == "ana"
+    assert at.button(key="rv_approve").disabled               # ana is a planner
+    assert any("needs a supervisor account" in c for c in _texts(at.caption))
+    _sign_in(at, "sam")
     at.text_input(key="rv_comment").set_value("ok for the morning tide")
     _click(at, "rv_approve")                                 # not yet confirmed: refused with a message
     assert store.revision(row.id, 1).state == "submitted"
     assert any("tick the confirmation" in e for e in _texts(at.error))
     assert any("supervisor's judgement" in c and "planning" in c for c in _texts(at.caption))
-    at.text_input(key="rv_reviewer").set_value("Sam Supervisor")
     at.text_input(key="rv_comment").set_value("ok for the morning tide")
     at.checkbox(key="rv_confirm").check()
     _click(at, "rv_approve")
     approved = store.revision(row.id, 1)
     assert approved.state == "approved" and approved.read_only
     [submitted, approval] = store.reviews(row.id, 1)
-    assert (approval.action, approval.by, approval.comment) == ("approve", "Sam Supervisor", "ok for the morning tide")
+    assert (approval.action, approval.by, approval.by_role, approval.comment) == \
+        ("approve", "sam", "supervisor", "ok for the morning tide")
     lock = [s for s in _texts(at.info) + _texts(at.success) if LOCK_WORDS in s]
-    assert lock and "approved by Sam Supervisor at " + approval.at[:10] in lock[0], lock
+    assert lock and "approved by sam at " + approval.at[:10] in lock[0], lock
 
     # the inputs are disabled, and an edit that reaches the page anyway is refused
     _view(at, "Inputs")
@@ -248,6 +271,7 @@ def test_save_submit_approve_lock_and_new_revision(db):
 
     # saving again makes revision 2; revision 1 stays approved and unchanged
     assert at.button(key="sv_save").label == "Save as revision 2"
+    _sign_in(at, "ana")
     at.text_area(key="sv_note").set_value("same inputs, for the evening shift")
     _click(at, "sv_save")
     assert store.count_revisions(row.id) == 2
@@ -255,7 +279,7 @@ def test_save_submit_approve_lock_and_new_revision(db):
     assert again == approved                                   # every field, content hash and state included
     assert [r.action for r in store.reviews(row.id, 1)] == ["submit", "approve"]
     second = store.revision(row.id, 2)
-    assert second.state == "draft" and second.content_hash == approved.content_hash and second.author == "Ana Operator"
+    assert second.state == "draft" and second.content_hash == approved.content_hash and second.author == "ana"
     assert at.session_state["inputs_locked"] is False          # the open revision is now the draft
     assert not _number_input(at, "Wind speed").disabled
 
@@ -286,9 +310,9 @@ def test_a_saved_plan_link_opens_that_revision(db):
     path = DEMO_FILES[-1]
     scenario = load_scenario(path)
     changed = with_changes(scenario, setpoint=scenario.tracing.setpoint + 5.0)
-    store = PlanStore(db)
-    first = store.save("RC-4417 unload", scenario, "ana", site="siding 3", results={"transfer_time_s": 1.0})
-    second = store.save("RC-4417 unload", changed, "ben", site="siding 3", plan_id=first.plan_id)
+    store, people = _people(db)
+    first = store.save("RC-4417 unload", scenario, people["ana"], site="siding 3", results={"transfer_time_s": 1.0})
+    second = store.save("RC-4417 unload", changed, people["ben"], site="siding 3", plan_id=first.plan_id)
     at = _app({"plan": str(first.plan_id), "rev": "1", "view": "review"})
     _no_trouble(at)
     assert not _texts(at.error)
@@ -306,8 +330,8 @@ def test_a_saved_plan_link_opens_that_revision(db):
     assert scenario_from_dict(at.session_state["work"]).tracing.setpoint == pytest.approx(second.scenario.tracing.setpoint)
     assert _number_input(at, "Setpoint").value == pytest.approx(second.scenario.tracing.setpoint - 273.15, abs=1e-9)
     # an approved revision opens locked
-    store.submit(first.plan_id, 1, "ana")
-    store.approve(first.plan_id, 1, "sam", "fine")
+    store.submit(first.plan_id, 1, people["ana"])
+    store.approve(first.plan_id, 1, people["sam"], "fine")
     at = _app({"plan": str(first.plan_id), "rev": "1", "view": "inputs"})
     _no_trouble(at)
     assert any(LOCK_WORDS in i and "approved by sam" in i for i in _texts(at.info))
@@ -315,12 +339,12 @@ def test_a_saved_plan_link_opens_that_revision(db):
 
 
 def test_search_lists_saved_plans_by_name_product_site_and_state(db):
-    store = PlanStore(db)
+    store, people = _people(db)
     fuel, polyol, syrup = (load_scenario(p) for p in DEMO_FILES)
-    store.save("Wren discharge", fuel, "ana", site="jetty")
-    kept = store.save("T-31 to T-07", polyol, "ben", site="tank farm")
-    store.save("RC-4417 unload", syrup, "cai", site="siding 3")
-    store.submit(kept.plan_id, 1, "ben")
+    store.save("Wren discharge", fuel, people["ana"], site="jetty")
+    kept = store.save("T-31 to T-07", polyol, people["ben"], site="tank farm")
+    store.save("RC-4417 unload", syrup, people["sam"], site="siding 3")
+    store.submit(kept.plan_id, 1, people["ben"])
     at = _view(_app(), "Review")
     _no_trouble(at)
 
@@ -345,10 +369,11 @@ def test_search_lists_saved_plans_by_name_product_site_and_state(db):
 
 def test_the_plans_file_can_come_from_the_secrets(db, tmp_path):
     other = tmp_path / "from-secrets.sqlite"
+    _people(other)
     at = AppTest.from_file(APP, default_timeout=90)
     at.secrets["planner_db_path"] = str(other)
     at.run()
-    at.text_input(key="sv_author").set_value("Ana Operator")
+    _sign_in(at, "ana")
     _click(at, "sv_save")
     assert [p.name for p in PlanStore(other).plans()] == [load_scenario(DEMO_FILES[0]).name]
     assert not db.exists()
@@ -372,7 +397,9 @@ def test_a_scenario_too_long_for_a_link_offers_to_share_the_saved_id(db):
     warned = [w for w in _texts(at.sidebar.warning) if "too long for a link" in w]
     assert warned and f"at most {URL_BUDGET_CHARS:,}" in warned[0]
     assert f"{len(link_url('http://localhost:8501', params)):,} characters" in warned[0]
-    at.text_input(key="sv_author").set_value("Ana Operator")
+    _people(db)
+    at.run()
+    _sign_in(at, "ana")
     _click(at, "sv_save_share")
     [row] = PlanStore(db).plans()
     assert any(f"?plan={row.id}&rev=1&view=plan" in c for c in _texts(at.sidebar.code))
@@ -380,36 +407,36 @@ def test_a_scenario_too_long_for_a_link_offers_to_share_the_saved_id(db):
 
 def test_return_for_changes_needs_a_comment_and_is_kept_in_the_trail(db):
     scenario = load_scenario(DEMO_FILES[1])
-    store = PlanStore(db)
-    saved = store.save("T-31 to T-07", scenario, "ben", site="tank farm")
-    store.submit(saved.plan_id, 1, "ben", "ready")
+    store, people = _people(db)
+    saved = store.save("T-31 to T-07", scenario, people["ben"], site="tank farm")
+    store.submit(saved.plan_id, 1, people["ben"], "ready")
     at = _app({"plan": str(saved.plan_id), "rev": "1", "view": "review"})
     _no_trouble(at)
     assert any("supervisor's judgement" in c and "site's procedures" in c for c in _texts(at.caption))
-    at.text_input(key="rv_reviewer").set_value("Sam Supervisor")
+    assert at.button(key="rv_return").disabled                      # nobody signed in yet
+    _sign_in(at, "sam")
     _click(at, "rv_return")                                  # no comment: the store refuses, the page says why
     assert store.revision(saved.plan_id, 1).state == "submitted"
     assert any("needs a comment" in e for e in _texts(at.error)), _texts(at.error)
-    at.text_input(key="rv_reviewer").set_value("Sam Supervisor")
     at.text_input(key="rv_comment").set_value("pre-warm longer: the farm line is exposed")
     _click(at, "rv_return")
     assert store.revision(saved.plan_id, 1).state == "returned"
     assert [(r.action, r.by, r.comment) for r in store.reviews(saved.plan_id, 1)] == [
-        ("submit", "ben", "ready"), ("return", "Sam Supervisor", "pre-warm longer: the farm line is exposed")]
-    assert any("returned for changes by Sam Supervisor" in e and "pre-warm longer" in e for e in _texts(at.error))
+        ("submit", "ben", "ready"), ("return", "sam", "pre-warm longer: the farm line is exposed")]
+    assert any("returned for changes by sam" in e and "pre-warm longer" in e for e in _texts(at.error))
     assert not at.session_state["inputs_locked"]             # returned: change it and save a new revision
 
 
 def test_loading_another_scenario_closes_the_open_revision(db):
+    _people(db)
     at = _app()
-    at.text_input(key="sv_author").set_value("Ana Operator")
+    _sign_in(at, "ana")
     _click(at, "sv_save")
     at.selectbox(key="demo_choice").set_value(DEMO_FILES[1].name).run()
     assert not at.exception
     assert at.session_state["work"] == scenario_to_dict(load_scenario(DEMO_FILES[1]))
     assert any("Not saved yet" in c for c in _texts(at.sidebar.caption))
     assert at.text_input(key="sv_name").value == load_scenario(DEMO_FILES[1]).name
-    at.text_input(key="sv_author").set_value("Ana Operator")
     _click(at, "sv_save")
     plans = PlanStore(db).plans()
     assert sorted((p.name, p.latest) for p in plans) == sorted(
@@ -417,15 +444,15 @@ def test_loading_another_scenario_closes_the_open_revision(db):
 
 
 def test_unsaved_changes_survive_an_approval_made_in_another_session(db):
+    store, people = _people(db)
     at = _app()
-    at.text_input(key="sv_author").set_value("Ana Operator")
+    _sign_in(at, "ana")
     _click(at, "sv_save")
-    store = PlanStore(db)
     [row] = store.plans()
-    store.submit(row.id, 1, "Ana Operator")
+    store.submit(row.id, 1, people["ana"])
     _view(at, "Inputs")
     _number_input(at, "Wind speed").set_value(6.5).run()           # edited, not saved
-    store.approve(row.id, 1, "Sam Supervisor", "ok")                 # meanwhile, the supervisor's session
+    store.approve(row.id, 1, people["sam"], "ok")                    # meanwhile, the supervisor's session
     at.run()
     assert not at.exception
     assert scenario_from_dict(at.session_state["work"]).site.wind_speed == pytest.approx(6.5, rel=1e-12)

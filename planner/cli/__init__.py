@@ -15,9 +15,10 @@ from planner.scenario.units import UnitError
 
 from planner.cli import line_commands
 from planner.cli import calibrate_commands
+from planner.cli import records_commands
 
 # One entry per command module, in the order their commands appear in --help.
-COMMAND_MODULES = [line_commands, calibrate_commands]
+COMMAND_MODULES = [line_commands, calibrate_commands, records_commands]
 
 
 def build_parser() -> argparse.ArgumentParser:

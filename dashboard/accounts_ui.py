@@ -1,0 +1,191 @@
+"""Sign-in for the dashboard: the account panel in the sidebar and the account behind each save or
+review step.
+
+Planning, demos and share links need no sign-in; saving, submitting and reviewing do.  Signing in
+goes through ``planner.records.accounts.AccountBook`` (Argon2id check, throttled failures); the
+session's token lives in ``st.session_state["auth_token"]`` and is checked against the database on
+every use, so an expired session, a sign-out or a disabled account takes effect at once, in every
+dashboard server.  While the database holds no account at all, the panel offers to create the first
+admin (README, "Accounts"); after that, accounts are managed by admins (the panel below) or with
+``python -m planner users``.
+
+Session state used here: ``auth_token``, ``auth_msg`` and the form keys ``si_*``, ``fa_*``, ``ad_*``.
+"""
+
+from __future__ import annotations
+
+import logging
+
+import streamlit as st
+
+from planner.records.accounts import Account, AccountBook
+from planner.records.store import ROLES, StoreError
+
+log = logging.getLogger(__name__)
+
+TOKEN_KEY = "auth_token"
+
+
+def _book() -> AccountBook:
+    from .sharing import store
+
+    return AccountBook(store())
+
+
+def _say(kind: str, message: str) -> None:
+    st.session_state["auth_msg"] = (kind, message)
+
+
+def current_account() -> Account | None:
+    """The signed-in account, checked against the database now; None when nobody is signed in (or the
+    session is over, which is then said in the panel)."""
+    token = st.session_state.get(TOKEN_KEY)
+    if not token:
+        return None
+    try:
+        return _book().session(token)
+    except StoreError as exc:
+        st.session_state.pop(TOKEN_KEY, None)
+        _say("warning", f"Signed out: {exc}")
+        return None
+
+
+def acting_account(what: str) -> Account | None:
+    """The account doing ``what`` (for a callback); None, with a message, when nobody is signed in."""
+    account = current_account()
+    if account is None:
+        _say("error", f"Sign in to {what} (sidebar, “Account”).")
+    return account
+
+
+# ------------------------------------------------------------------------------------------ actions
+
+def _do_sign_in() -> None:
+    ss = st.session_state
+    name, password = ss.get("si_name") or "", ss.get("si_password") or ""
+    ss["si_password"] = ""
+    try:
+        session = _book().sign_in(name, password)
+    except StoreError as exc:
+        _say("error", f"Not signed in: {exc}")
+        return
+    ss[TOKEN_KEY] = session.token
+    _say("success", f"Signed in as {session.account.name} ({session.account.role}).")
+
+
+def _do_sign_out() -> None:
+    token = st.session_state.pop(TOKEN_KEY, None)
+    try:
+        _book().sign_out(token)
+    except StoreError:
+        pass
+    _say("info", "Signed out.")
+
+
+def _do_first_admin() -> None:
+    ss = st.session_state
+    name, password, again = ss.get("fa_name") or "", ss.get("fa_password") or "", ss.get("fa_again") or ""
+    ss["fa_password"] = ss["fa_again"] = ""
+    if password != again:
+        _say("error", "Not created: the two passwords differ.")
+        return
+    try:
+        book = _book()
+        book.add(name, "admin", password)          # refused once any account exists
+        ss[TOKEN_KEY] = book.sign_in(name, password).token
+    except StoreError as exc:
+        _say("error", f"Not created: {exc}")
+        return
+    _say("success", f"Admin account {name.strip()!r} created; you are signed in. Add the planners and "
+                    "supervisors below.")
+
+
+def _do_add_account() -> None:
+    ss = st.session_state
+    admin = acting_account("add accounts")
+    password = ss.get("ad_password") or ""
+    ss["ad_password"] = ""
+    if admin is None:
+        return
+    try:
+        added = _book().add(ss.get("ad_name") or "", ss.get("ad_role") or "planner", password, by=admin)
+    except StoreError as exc:
+        _say("error", f"Not added: {exc}")
+        return
+    ss["ad_name"] = ""
+    _say("success", f"Account {added.name!r} ({added.role}) added.")
+
+
+def _do_disable(name: str) -> None:
+    admin = acting_account("disable accounts")
+    if admin is None:
+        return
+    try:
+        _book().disable(name, by=admin)
+    except StoreError as exc:
+        _say("error", f"Not disabled: {exc}")
+        return
+    _say("success", f"Account {name!r} disabled; its revisions and review records keep its name.")
+
+
+# ------------------------------------------------------------------------------------------ layout
+
+def _no_accounts_yet() -> bool:
+    from .sharing import store_exists
+
+    if not store_exists():          # a fresh install: do not create the plans file just to count
+        return True
+    return _book().count() == 0
+
+
+def account_panel(container) -> Account | None:
+    """The sidebar's Account block; returns the signed-in account (or None)."""
+    ss = st.session_state
+    container.markdown("**Account**")
+    try:
+        account = current_account()
+        empty = account is None and _no_accounts_yet()
+    except StoreError as exc:
+        container.error(f"Accounts are not available: {exc}")
+        return None
+    message = ss.pop("auth_msg", None)
+    if message:
+        getattr(container, message[0])(message[1])
+    if account is not None:
+        container.caption(f"Signed in as **{account.name}** ({account.role}).")
+        container.button("Sign out", key="si_out", on_click=_do_sign_out)
+        if account.role == "admin":
+            _admin_panel(container)
+        return account
+    if empty:
+        container.caption("No accounts yet. Create the first admin here (offered only while no account exists), "
+                          "or with `python -m planner users add NAME --role admin --password-stdin`.")
+        container.text_input("Admin name", key="fa_name", max_chars=60)
+        container.text_input("Password (at least 10 characters)", key="fa_password", type="password", max_chars=256)
+        container.text_input("Password again", key="fa_again", type="password", max_chars=256)
+        container.button("Create the first admin", key="fa_create", on_click=_do_first_admin)
+        return None
+    container.caption("Planning, demos and links need no sign-in; saving, submitting and reviewing do.")
+    container.text_input("Account name", key="si_name", max_chars=60)
+    container.text_input("Password", key="si_password", type="password", max_chars=256)
+    container.button("Sign in", key="si_go", on_click=_do_sign_in)
+    return None
+
+
+def _admin_panel(container) -> None:
+    with container.expander("Accounts (admin)"):
+        try:
+            people = _book().list()
+        except StoreError as exc:
+            st.error(str(exc))
+            return
+        for person in people:
+            left, right = st.columns([3, 1])
+            status = "disabled" if person.disabled_at else "active"
+            left.caption(f"{person.name} — {person.role}, {status}")
+            if person.disabled_at is None and person.role != "admin":
+                right.button("Disable", key=f"ad_disable|{person.name}", on_click=_do_disable, args=(person.name,))
+        st.text_input("New account name", key="ad_name", max_chars=60)
+        st.selectbox("Role", [r for r in ROLES], key="ad_role")
+        st.text_input("Its password (at least 10 characters)", key="ad_password", type="password", max_chars=256)
+        st.button("Add account", key="ad_add", on_click=_do_add_account)

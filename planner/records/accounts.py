@@ -1,0 +1,266 @@
+"""Accounts, sign-in and sessions for the plans database.
+
+Roles: ``planner`` (makes, saves and submits plans), ``supervisor`` (also approves or returns other
+people's revisions), ``admin`` (manages accounts; does not plan or review).  Passwords are kept only
+as Argon2id hashes (argon2-cffi's ``PasswordHasher`` with the OWASP Password Storage Cheat Sheet's
+Argon2id setting: 19 MiB, 2 passes, 1 lane — light enough that sign-ins on a small shared server do
+not starve it; a hash made with other parameters is redone at the next sign-in).
+
+Failed sign-ins are throttled per account: after ``FREE_ATTEMPTS`` failures in a row each further
+failure locks the account for ``LOCK_BASE_S`` seconds, doubling up to ``LOCK_MAX_S``; while locked a
+sign-in is refused without looking at the password.  A name that does not exist gets the same answer
+as a wrong password, after the same hashing work.
+
+A session (the dashboard's sign-in) is a random token whose SHA-256 is kept in ``sessions``; it ends
+after ``SESSION_S`` seconds, after ``IDLE_S`` seconds without use, on sign-out, or when the account is
+disabled.  Disabling keeps the account's row, so every revision and review record still names who
+made it; the database refuses deleting or renaming an account.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import secrets
+import time
+from dataclasses import dataclass
+
+from argon2 import PasswordHasher
+from argon2.exceptions import InvalidHashError, VerificationError, VerifyMismatchError
+from sqlalchemy import text
+
+from planner.records.store import ROLES, PlanStore, StoreError, _now, check_text
+
+FREE_ATTEMPTS = 5
+LOCK_BASE_S = 15.0
+LOCK_MAX_S = 900.0
+SESSION_S = 12 * 3600.0
+IDLE_S = 3600.0
+PASSWORD_MIN, PASSWORD_MAX = 10, 256
+NAME_MAX = 60
+WRONG = "the account name or the password is not right"
+
+
+@dataclass(frozen=True)
+class Account:
+    id: int
+    name: str
+    role: str
+    created_at: str
+    created_by: str
+    disabled_at: str | None
+
+    @property
+    def active(self) -> bool:
+        return self.disabled_at is None
+
+    def as_dict(self) -> dict:
+        return {"name": self.name, "role": self.role, "created_at": self.created_at, "created_by": self.created_by,
+                "disabled": not self.active, "disabled_at": self.disabled_at}
+
+
+@dataclass(frozen=True)
+class Session:
+    token: str
+    account: Account
+    expires_at: float
+
+
+ARGON2 = {"time_cost": 2, "memory_cost": 19 * 1024, "parallelism": 1}     # OWASP cheat sheet, Argon2id
+_hasher = PasswordHasher(**ARGON2)          # type Argon2id is the library's default
+_DUMMY_HASH = _hasher.hash("not a password of any account")
+
+
+def check_name(name) -> str:
+    name = check_text(name, "account name", NAME_MAX)
+    if not name:
+        raise StoreError("account name: empty")
+    if not all(c.isalnum() or c in "._- @" for c in name):
+        raise StoreError("account name: use letters, digits, spaces and . _ - @ only")
+    return name
+
+
+def check_password(password) -> str:
+    if not isinstance(password, str) or not password:
+        raise StoreError("password: empty")
+    if "\x00" in password:
+        raise StoreError("password: contains a NUL character")
+    if len(password) < PASSWORD_MIN:
+        raise StoreError(f"password: {len(password)} characters, at least {PASSWORD_MIN}")
+    if len(password) > PASSWORD_MAX:
+        raise StoreError(f"password: longer than {PASSWORD_MAX} characters")
+    return password
+
+
+def _token_hash(token: str) -> str:
+    return hashlib.sha256(token.encode("utf-8")).hexdigest()
+
+
+_ACCOUNT_SQL = "SELECT id, name, role, created_at, created_by, disabled_at FROM accounts "
+
+
+class AccountBook:
+    """Accounts of one ``PlanStore``. ``session_s``/``idle_s`` override the session limits."""
+
+    def __init__(self, store: PlanStore, session_s: float = SESSION_S, idle_s: float = IDLE_S):
+        self.store = store
+        self.session_s = session_s
+        self.idle_s = idle_s
+
+    # -- listing ----------------------------------------------------------------------------------
+    def count(self) -> int:
+        with self.store.engine.connect() as conn:
+            return conn.exec_driver_sql("SELECT COUNT(*) FROM accounts").scalar_one()
+
+    def list(self) -> list[Account]:
+        with self.store.engine.connect() as conn:
+            return [Account(*row) for row in conn.exec_driver_sql(_ACCOUNT_SQL + "ORDER BY name").all()]
+
+    def get(self, name: str) -> Account:
+        name = check_text(name, "account name", NAME_MAX)
+        with self.store.engine.connect() as conn:
+            row = conn.execute(text(_ACCOUNT_SQL + "WHERE name = :n"), {"n": name}).first()
+        if row is None:
+            raise StoreError(f"there is no account {name!r}")
+        return Account(*row)
+
+    # -- managing ---------------------------------------------------------------------------------
+    def _admin(self, conn, by: Account | None, database_operator: bool, what: str) -> str:
+        """Who manages accounts: an active admin, or whoever runs the command line with the database's
+        own credentials (``database_operator``), or anyone while no account exists (the first admin)."""
+        if database_operator:
+            return "command line"
+        if by is None:
+            raise StoreError(f"{what} needs an admin's sign-in")
+        row = conn.execute(text("SELECT name, role, disabled_at FROM accounts WHERE id = :i"), {"i": by.id}).first()
+        if row is None or row[2] is not None or row[1] != "admin":
+            raise StoreError(f"{what} needs an active admin account")
+        return row[0]
+
+    def add(self, name: str, role: str, password: str, by: Account | None = None,
+            database_operator: bool = False) -> Account:
+        """A new account. The first account must be an admin and may be made by anyone; later ones by
+        an admin (``by``) or the command line (``database_operator``)."""
+        name = check_name(name)
+        if role not in ROLES:
+            raise StoreError(f"role: {role!r} is not one of {', '.join(ROLES)}")
+        digest = _hasher.hash(check_password(password))
+        with self.store.engine.begin() as conn:
+            self.store.lock(conn)
+            first = conn.exec_driver_sql("SELECT COUNT(*) FROM accounts").scalar_one() == 0
+            if first and role != "admin":
+                raise StoreError("the first account must be an admin (--role admin): it manages the others")
+            creator = "first admin" if first and by is None else self._admin(conn, by, database_operator,
+                                                                             "adding an account")
+            if conn.execute(text("SELECT 1 FROM accounts WHERE name = :n"), {"n": name}).first():
+                raise StoreError(f"an account {name!r} exists already (disabled accounts keep their names)")
+            conn.execute(text("INSERT INTO accounts (name, role, password_hash, created_at, created_by) "
+                              "VALUES (:n, :r, :h, :t, :b)"),
+                         {"n": name, "r": role, "h": digest, "t": _now(), "b": creator})
+        return self.get(name)
+
+    def disable(self, name: str, by: Account | None = None, database_operator: bool = False) -> Account:
+        """Disable an account: it can no longer sign in and its sessions end; its history stays."""
+        name = check_text(name, "account name", NAME_MAX)
+        with self.store.engine.begin() as conn:
+            self.store.lock(conn)
+            self._admin(conn, by, database_operator, "disabling an account")
+            row = conn.execute(text("SELECT id, role, disabled_at FROM accounts WHERE name = :n"), {"n": name}).first()
+            if row is None:
+                raise StoreError(f"there is no account {name!r}")
+            if row[2] is not None:
+                raise StoreError(f"the account {name!r} is disabled already (since {row[2]})")
+            if row[1] == "admin":
+                admins = conn.exec_driver_sql("SELECT COUNT(*) FROM accounts WHERE role = 'admin' "
+                                              "AND disabled_at IS NULL").scalar_one()
+                if admins <= 1:
+                    raise StoreError(f"{name!r} is the only active admin: add another admin first")
+            conn.execute(text("UPDATE accounts SET disabled_at = :t WHERE id = :i"), {"t": _now(), "i": row[0]})
+            conn.execute(text("UPDATE sessions SET ended = 1 WHERE account_id = :i"), {"i": row[0]})
+        return self.get(name)
+
+    # -- signing in -------------------------------------------------------------------------------
+    def authenticate(self, name: str, password: str) -> Account:
+        """The account, if the password is right; failures are counted and throttled."""
+        name = (name or "").strip() if isinstance(name, str) else ""
+        password = password if isinstance(password, str) else ""
+        row = None
+        if name and len(name) <= NAME_MAX and not any(ord(c) < 32 for c in name):
+            with self.store.engine.connect() as conn:
+                row = conn.execute(text("SELECT id, password_hash, failed_count, locked_until, disabled_at "
+                                        "FROM accounts WHERE name = :n"), {"n": name}).first()
+        now = time.time()
+        if row is None:
+            _verify(_DUMMY_HASH, password)     # the same work as for a real account
+            raise StoreError(WRONG)
+        account_id, digest, failed, locked_until, disabled_at = row
+        if locked_until is not None and locked_until > now:
+            raise StoreError(f"too many failed sign-ins for {name!r}: try again in {int(locked_until - now) + 1} s")
+        if not _verify(digest, password):
+            self._count_failure(account_id, failed + 1, now)
+            raise StoreError(WRONG)
+        if disabled_at is not None:
+            raise StoreError(f"the account {name!r} is disabled (since {disabled_at})")
+        new_hash = _hasher.hash(password) if _hasher.check_needs_rehash(digest) else digest
+        with self.store.engine.begin() as conn:
+            conn.execute(text("UPDATE accounts SET failed_count = 0, locked_until = NULL, password_hash = :h "
+                              "WHERE id = :i"), {"h": new_hash, "i": account_id})
+        return self.get(name)
+
+    def _count_failure(self, account_id: int, failed: int, now: float) -> None:
+        lock = None
+        if failed >= FREE_ATTEMPTS:
+            lock = now + min(LOCK_MAX_S, LOCK_BASE_S * 2 ** (failed - FREE_ATTEMPTS))
+        with self.store.engine.begin() as conn:
+            conn.execute(text("UPDATE accounts SET failed_count = failed_count + 1, locked_until = :l WHERE id = :i"),
+                         {"l": lock, "i": account_id})
+
+    def sign_in(self, name: str, password: str) -> Session:
+        account = self.authenticate(name, password)
+        token = secrets.token_urlsafe(32)
+        now = time.time()
+        expires = now + self.session_s
+        with self.store.engine.begin() as conn:
+            # sessions over for a day are of no further use: keep the table small
+            conn.execute(text("DELETE FROM sessions WHERE expires_at < :old OR (ended = 1 AND last_seen < :old)"),
+                         {"old": now - 86400.0})
+            conn.execute(text("INSERT INTO sessions (token_hash, account_id, created_at, expires_at, last_seen) "
+                              "VALUES (:h, :a, :c, :e, :c)"),
+                         {"h": _token_hash(token), "a": account.id, "c": now, "e": expires})
+        return Session(token, account, expires)
+
+    def session(self, token: str) -> Account:
+        """The account of a live session; raises StoreError saying why a session is over."""
+        if not isinstance(token, str) or not token:
+            raise StoreError("not signed in")
+        digest = _token_hash(token)
+        with self.store.engine.connect() as conn:
+            row = conn.execute(text("SELECT account_id, expires_at, last_seen, ended FROM sessions "
+                                    "WHERE token_hash = :h"), {"h": digest}).first()
+        now = time.time()
+        if row is None or row[3]:
+            raise StoreError("your sign-in has ended: sign in again")
+        account_id, expires_at, last_seen, _ = row
+        if now >= expires_at or now - last_seen >= self.idle_s:
+            self.sign_out(token)
+            raise StoreError("your sign-in has expired: sign in again")
+        with self.store.engine.connect() as conn:
+            account = Account(*conn.execute(text(_ACCOUNT_SQL + "WHERE id = :i"), {"i": account_id}).first())
+        if not account.active:
+            raise StoreError(f"the account {account.name!r} is disabled")
+        if now - last_seen > 30:
+            with self.store.engine.begin() as conn:
+                conn.execute(text("UPDATE sessions SET last_seen = :t WHERE token_hash = :h"), {"t": now, "h": digest})
+        return account
+
+    def sign_out(self, token: str) -> None:
+        if not token:
+            return
+        with self.store.engine.begin() as conn:
+            conn.execute(text("UPDATE sessions SET ended = 1 WHERE token_hash = :h"), {"h": _token_hash(token)})
+
+
+def _verify(digest: str, password: str) -> bool:
+    try:
+        return _hasher.verify(digest, password)
+    except (VerifyMismatchError, VerificationError, InvalidHashError):
+        return False

@@ -1,0 +1,160 @@
+"""``python -m planner users ...`` and ``plans ...`` on both back ends (SQLite file, throwaway PostgreSQL).
+
+The forms are issue 14's; the exit statuses are the README's (0 done, 2 refused with why, ``plans verify``
+1 on a mismatch).  The flow runs through ``planner.cli.main`` in this process with the password on
+standard input; one run goes through the real entry point (``python -m planner``) in a subprocess.
+The plan figures kept with a revision are checked against ``python -m planner plan --json``'s document
+(``plan_json``).
+"""
+
+from __future__ import annotations
+
+import io
+import json
+import os
+import sqlite3
+import subprocess
+import sys
+
+import pytest
+
+from conftest import DEMO_FILES, ROOT
+from planner.cli import main
+from planner.records.store import PlanStore
+from planner.reports.plan_json import plan_json
+from planner.scenario.schema import load_scenario
+from planner.transfer.plan import make_plan
+
+DEMO = str(DEMO_FILES[0])
+
+
+def run(capsys, monkeypatch, *argv, password: str | None = None) -> tuple[int, str, str]:
+    monkeypatch.setattr(sys, "stdin", io.StringIO("" if password is None else password + "\n"))
+    try:
+        code = main([str(a) for a in argv])
+    except SystemExit as exc:          # argparse usage errors
+        code = exc.code
+    out = capsys.readouterr()
+    return code, out.out, out.err
+
+
+def _setup_people(capsys, monkeypatch, db):
+    for name, role in (("root", "admin"), ("ana", "planner"), ("sam", "supervisor"), ("sue", "supervisor")):
+        code, out, err = run(capsys, monkeypatch, "users", "add", name, "--role", role, "--password-stdin",
+                             "--db", db, password=f"{name}-password-1")
+        assert code == 0 and f"added account {name!r} ({role})" in out, err
+
+
+def test_the_command_line_flow(db_url, capsys, monkeypatch):
+    db = db_url
+    code, out, err = run(capsys, monkeypatch, "users", "add", "ana", "--role", "planner", "--password-stdin",
+                         "--db", db, password="ana-password-1")
+    assert code == 2 and "the first account must be an admin" in err
+    _setup_people(capsys, monkeypatch, db)
+    code, out, _ = run(capsys, monkeypatch, "users", "list", "--json", "--db", db)
+    listed = json.loads(out)
+    assert code == 0 and [(u["name"], u["role"], u["disabled"]) for u in listed] == [
+        ("ana", "planner", False), ("root", "admin", False), ("sam", "supervisor", False), ("sue", "supervisor", False)]
+    # save: prints exactly {"plan_id": <int>, "revision": <int>}
+    code, out, err = run(capsys, monkeypatch, "plans", "save", DEMO, "--name", "Wren discharge", "--user", "ana",
+                         "--password-stdin", "--note", "first cut", "--json", "--db", db, password="ana-password-1")
+    assert code == 0, err
+    saved = json.loads(out)
+    assert saved == {"plan_id": saved["plan_id"], "revision": 1} and isinstance(saved["plan_id"], int)
+    pid = saved["plan_id"]
+    store = PlanStore(url=db)
+    revision = store.revision(pid, 1)
+    assert (revision.author, revision.note, revision.state) == ("ana", "first cut", "draft")
+    doc = plan_json(make_plan(load_scenario(DEMO)))
+    assert revision.results["transfer_time_s"] == pytest.approx(doc["timeline"]["total_time_s"], rel=1e-12)
+    assert revision.results["total_cost"] == pytest.approx(doc["costs"]["total"], rel=1e-12)
+    # wrong password, wrong role, own revision, missing comment: refused with why, status 2
+    refusals = [
+        (("plans", "submit", pid, 1, "--user", "ana", "--password-stdin"), "ana-password-2", "password is not right"),
+        (("plans", "approve", pid, 1, "--user", "sam", "--password-stdin"), "sam-password-1", "needs a submitted"),
+    ]
+    for argv, password, words in refusals:
+        code, _, err = run(capsys, monkeypatch, *argv, "--db", db, password=password)
+        assert code == 2 and words in err, (argv, err)
+    code, out, _ = run(capsys, monkeypatch, "plans", "submit", pid, 1, "--user", "ana", "--password-stdin",
+                       "--comment", "ready", "--db", db, password="ana-password-1")
+    assert code == 0 and "is now submitted (ana)" in out
+    for argv, words in ((("plans", "approve", pid, 1, "--user", "ana"), "'ana' is a planner"),
+                        (("plans", "return", pid, 1, "--user", "sue"), "the following arguments are required: --comment")):
+        code, _, err = run(capsys, monkeypatch, *argv, "--password-stdin", "--db", db, password=f"{argv[5]}-password-1")
+        assert code == 2 and words in err, err
+    code, out, err = run(capsys, monkeypatch, "plans", "approve", pid, 1, "--user", "sam", "--password-stdin",
+                         "--comment", "ok for the tide", "--db", db, password="sam-password-1")
+    assert code == 0 and "is now approved (sam)" in out, err
+    code, _, err = run(capsys, monkeypatch, "plans", "return", pid, 1, "--user", "sue", "--password-stdin",
+                       "--comment", "too late", "--db", db, password="sue-password-1")
+    assert code == 2 and "already approved by sam" in err
+    # list, show, verify
+    code, out, _ = run(capsys, monkeypatch, "plans", "list", "--json", "--db", db)
+    assert [(p["plan_id"], p["name"], p["state"]) for p in json.loads(out)] == [(pid, "Wren discharge", "approved")]
+    code, out, _ = run(capsys, monkeypatch, "plans", "show", pid, 1, "--json", "--db", db)
+    shown = json.loads(out)
+    assert [(r["action"], r["by"], r["role"]) for r in shown["reviews"]] == [("submit", "ana", "planner"),
+                                                                          ("approve", "sam", "supervisor")]
+    assert shown["history_problems"] == []
+    code, out, _ = run(capsys, monkeypatch, "plans", "show", pid, "--db", db)
+    assert code == 0 and "revision 1: approved — saved by ana" in out and "approve  sam (supervisor): ok for the tide" in out
+    code, out, _ = run(capsys, monkeypatch, "plans", "verify", "--db", db)
+    assert code == 0 and "checked 1 revisions and 2 review records (3 history entries): every record matches" in out
+    # disabling keeps the history and ends the account's use
+    code, out, _ = run(capsys, monkeypatch, "users", "disable", "sam", "--db", db)
+    assert code == 0 and "keep its name" in out
+    code, _, err = run(capsys, monkeypatch, "plans", "save", DEMO, "--name", "x", "--user", "sam", "--password-stdin",
+                       "--json", "--db", db, password="sam-password-1")
+    assert code == 2 and "the account 'sam' is disabled" in err
+    assert store.reviews(pid, 1)[-1].by == "sam"
+    _tamper_and_verify(capsys, monkeypatch, store, pid)
+    store.close()
+
+
+def _tamper_and_verify(capsys, monkeypatch, store, pid: int) -> None:
+    """Behind the planner's back: refusals off, an approved revision's note and its approver edited."""
+    if store.dialect == "sqlite":
+        raw = sqlite3.connect(store.path, isolation_level=None)
+        raw.execute("DROP TRIGGER revisions_content_frozen")
+        raw.execute("DROP TRIGGER reviews_append_only")
+    else:
+        import psycopg
+
+        raw = psycopg.connect(store.url.replace("postgresql+psycopg://", "postgresql://"), autocommit=True)
+        raw.execute("ALTER TABLE revisions DISABLE TRIGGER USER")
+        raw.execute("ALTER TABLE reviews DISABLE TRIGGER USER")
+    raw.execute("UPDATE revisions SET note = 'approved as is'")
+    raw.execute("UPDATE reviews SET comment = 'fine' WHERE action = 'approve'")
+    raw.close()
+    code, out, _ = run(capsys, monkeypatch, "plans", "verify", "--db", store.url)
+    assert code == 1
+    assert f"MISMATCH: plan {pid} revision 1 (“Wren discharge”): differs from the recorded history (entry 1)" in out
+    assert f"MISMATCH: review record 2 (approve of plan {pid} revision 1): differs from the recorded history (entry 3)" in out
+    assert "2 record(s) do not match" in out
+    code, out, _ = run(capsys, monkeypatch, "plans", "verify", "--json", "--db", store.url)
+    assert code == 1 and len(json.loads(out)["problems"]) == 2
+
+
+def test_the_real_entry_point_reads_the_environment_and_stdin(tmp_path):
+    env = {**os.environ, "PLANNER_DB_URL": f"sqlite:///{tmp_path / 'cli.sqlite'}", "PYTHONPATH": str(ROOT)}
+    env.pop("PLANNER_DB_PATH", None)
+
+    def planner(*argv, stdin=""):
+        return subprocess.run([sys.executable, "-m", "planner", *argv], input=stdin, capture_output=True, text=True,
+                              env=env, cwd=ROOT, timeout=300)
+
+    done = planner("users", "add", "root", "--role", "admin", "--password-stdin", stdin="root-password-1\n")
+    assert done.returncode == 0, done.stderr
+    done = planner("users", "add", "ana", "--role", "planner", "--password-stdin", stdin="ana-password-1\n")
+    assert done.returncode == 0, done.stderr
+    done = planner("plans", "save", DEMO, "--name", "Env plan", "--user", "ana", "--password-stdin", "--json",
+                   stdin="ana-password-1\n")
+    assert done.returncode == 0 and json.loads(done.stdout) == {"plan_id": 1, "revision": 1}, done.stderr
+    done = planner("plans", "save", DEMO, "--name", "Env plan", "--user", "ana", "--password-stdin", "--json")
+    assert done.returncode == 2 and "no password on standard input" in done.stderr and "Traceback" not in done.stderr
+    done = planner("plans", "verify")
+    assert done.returncode == 0 and "every record matches" in done.stdout
+    for url, words in ((":memory:", "is not a database URL"), ("sqlite:///:memory:", "is not a file")):
+        done = planner("plans", "list", "--db", url)
+        assert done.returncode == 2 and words in done.stderr and "Traceback" not in done.stderr
