@@ -477,16 +477,16 @@ def _caption_and_working_on(at: AppTest) -> tuple[str, str]:
 def test_labels_follow_the_revision_state_and_the_loaded_scenario(db):
     """Issue 12.3: approved in another session, the caption and the sidebar say "approved" on the next run
     (not the "draft" of the time it was opened); a share link clears the demo picker."""
-    store = PlanStore(db)
+    store, people = _people(db)
     scenario = load_scenario(DEMO_FILES[0])
-    saved = store.save("Wren discharge", scenario, "ana", site="jetty 2")
+    saved = store.save("Wren discharge", scenario, people["ana"], site="jetty 2")
     at = _app({"plan": str(saved.plan_id), "rev": "1", "view": "plan"})
     _no_trouble(at)
     caption, working = _caption_and_working_on(at)
     assert "revision 1 (draft)" in caption and "revision 1 (draft)" in working
     assert at.selectbox(key="demo_choice").value is None           # not a demo any more
-    store.submit(saved.plan_id, 1, "ana")
-    store.approve(saved.plan_id, 1, "sam", "fine")                 # another session signs it off
+    store.submit(saved.plan_id, 1, people["ana"])
+    store.approve(saved.plan_id, 1, people["sam"], "fine")         # another session signs it off
     at.run()
     caption, working = _caption_and_working_on(at)
     assert "revision 1 (approved)" in caption and "revision 1 (approved)" in working, (caption, working)
