@@ -24,7 +24,7 @@ if str(ROOT) not in sys.path:
 from dashboard import inputs, tables, views  # noqa: E402
 from dashboard.plaintext import plain  # noqa: E402
 from dashboard.compute import cached_bundle  # noqa: E402
-from dashboard.display import CAUTION_TEXT, SYSTEM_NAMES  # noqa: E402
+from dashboard.display import SYSTEM_NAMES, caution_text  # noqa: E402
 from dashboard.report import build_report_html  # noqa: E402
 from dashboard import sharing  # noqa: E402
 from dashboard import calibration_view  # noqa: E402
@@ -151,7 +151,7 @@ def sidebar(scenario: Scenario | None, scenario_json: str | None, bundle: dict |
              help="applies to every input, result, table, chart and export")
     sb.header("Export")
     if scenario is not None:
-        sb.download_button("Scenario file (TOML)", data=scenario_to_toml(scenario), file_name=f"{_slug(scenario.name)}.toml",
+        sb.download_button("Scenario file (TOML)", data=scenario_to_toml(scenario, unit_system), file_name=f"{_slug(scenario.name)}.toml",
                            mime="application/toml", key="dl_toml", width="stretch")
     else:
         sb.caption("The scenario file can be exported once the inputs are valid.")
@@ -235,7 +235,7 @@ def page_header(scenario: Scenario | None, unit_system: str, problem_list: list,
     name = scenario.name if scenario is not None else (st.session_state["work"].get("name") or "scenario with problems")
     st.markdown(f"## Viscous Transfer Planner  \n**{plain(name)}**")
     st.caption(f"{plain(source_text())} — units: {SYSTEM_NAMES[unit_system]}")
-    st.warning(CAUTION_TEXT, icon="⚠️")
+    st.warning(caution_text(unit_system), icon="⚠️")
     sharing.page_notices()
     if problem_list:
         st.error(f"**The inputs have {len(problem_list)} problem(s)** — each message is shown beside its field "
@@ -299,7 +299,7 @@ def main() -> None:
                 log.exception("view %s failed", title)
                 st.error(f"This view could not be drawn ({type(exc).__name__}: {plain(exc)}). "
                          "The other views still work.")
-    st.caption(CAUTION_TEXT)
+    st.caption(caution_text(unit_system))
 
 
 main()

@@ -11,7 +11,6 @@ edit like any other); "Apply and save as a revision" also saves it through the s
 from __future__ import annotations
 
 import copy
-import logging
 from pathlib import Path
 
 import numpy as np
@@ -20,9 +19,9 @@ import plotly.graph_objects as go
 import streamlit as st
 from plotly.subplots import make_subplots
 
+from dashboard.compute import cached_calibration
 from dashboard.display import convert_array, label, to_display
 from dashboard.plaintext import plain
-from planner.errors import PlannerError
 
 TAB = "Calibration"
 DEMO_LOG = Path(__file__).resolve().parents[1] / "demo_scenarios" / "logs" / "barge_wren_2026-01-14.csv"
@@ -32,40 +31,9 @@ QUANTITY_KIND = {"discharge_pressure": ("pressure", "pressure"), "suction_pressu
 TITLES = {"discharge_pressure": "Discharge pressure (gauge)", "suction_pressure": "Suction pressure (gauge)",
           "pump_inlet_temperature": "Pump inlet temperature", "outlet_temperature": "Outlet temperature",
           "flow": "Flow (PD pump at logged speed)"}
-log = logging.getLogger("dashboard")
 
 
 # ------------------------------------------------------------------------------------------ computing
-
-@st.cache_data(show_spinner=False, max_entries=8)
-def cached_fit(scenario_json: str, log_bytes: bytes, log_name: str, map_text: str, names: tuple) -> dict:
-    """The fit as plain data: ``fit_json`` plus the series and the calibration to apply, or an error."""
-    import tomllib
-
-    from planner.calibration.fit import calibrated_scenario, fit_calibration
-    from planner.calibration.log import column_map_from_dict, read_log
-    from planner.calibration.report import fit_json
-    from planner.scenario.schema import parse_scenario_text
-
-    try:
-        scenario = parse_scenario_text(scenario_json, "json")
-        column_map = column_map_from_dict(tomllib.loads(map_text), "column map") if map_text.strip() else None
-        transfer_log = read_log(log_bytes, log_name, column_map)
-        result = fit_calibration(scenario, transfer_log, list(names))
-    except tomllib.TOMLDecodeError as exc:
-        return {"error": f"the column map cannot be read as TOML: {exc}"}
-    except (PlannerError, ValueError, ArithmeticError) as exc:
-        return {"error": str(exc)}
-    except Exception as exc:  # noqa: BLE001  (never a traceback on the page)
-        log.exception("calibration failed")
-        return {"error": f"the fit failed unexpectedly ({type(exc).__name__}: {exc})"}
-    data = fit_json(result)
-    data["series"] = {"time_s": transfer_log.values["time"].tolist(),
-                      "measured": {q: transfer_log.values[q].tolist() for q in result.residuals},
-                      "modelled": {q: result.replay.modelled[q].tolist() for q in result.residuals}}
-    data["calibration"] = calibrated_scenario(result).calibration.model_dump(mode="json", exclude_none=True)
-    return data
-
 
 def fit_key(scenario, names) -> str:
     """The scenario JSON the fit depends on: the factors being fitted (and the calibration's source
@@ -95,8 +63,8 @@ def series_figure(data: dict, system: str) -> go.Figure:
                         subplot_titles=[t for q in quantities for t in (TITLES[q], f"Residual: {TITLES[q].lower()}")])
     for row, q in enumerate(quantities, start=1):
         kind, difference_kind = QUANTITY_KIND[q]
-        measured = np.asarray(series["measured"][q], dtype=float)
-        modelled = np.asarray(series["modelled"][q], dtype=float)
+        measured = np.array([np.nan if v is None else v for v in series["measured"][q]])
+        modelled = np.array([np.nan if v is None else v for v in series["modelled"][q]])
         fig.add_trace(go.Scatter(x=hours, y=convert_array(measured, kind, system), mode="markers", name="logged",
                                  marker={"size": 4, "color": "#555"}, showlegend=row == 1), row=row, col=1)
         fig.add_trace(go.Scatter(x=hours, y=convert_array(modelled, kind, system), mode="lines", name="modelled",
@@ -224,9 +192,14 @@ def _show_result(data: dict, unit_system: str) -> None:
         st.dataframe(pd.DataFrame([{"reason": g["reason"], "rows": g["count"],
                                     "file lines": ", ".join(str(n) for n in g["lines"])} for g in log_info["unreadable"]]),
                      hide_index=True)
+    if log_info.get("rows_pump_stopped"):
+        st.caption(f"{log_info['rows_pump_stopped']} rows with flow 0 (pump stopped): counted for the volumes moved, "
+                   "not replayed.")
     st.dataframe(factors_frame(data), hide_index=True)
     for pair, r in data["correlation"].items():
         st.caption(f"correlation {pair}: {r:+.2f}")
+    for note in data.get("notes", []):
+        st.caption(f"Note: {note}")
     for text in data["warnings"]:
         st.warning(plain(text))
     st.dataframe(residuals_frame(data, unit_system), hide_index=True)
@@ -270,7 +243,7 @@ def calibration_view(scenario, scenario_json: str | None, unit_system: str) -> N
         st.info("Choose at least one factor to fit.")
         return
     with st.spinner("Replaying the log and fitting…"):
-        data = cached_fit(fit_key(scenario, names), log_bytes, log_name, map_text, tuple(names))
+        data = cached_calibration(fit_key(scenario, names), log_bytes, log_name, map_text, tuple(names))
     if "error" in data:
         st.error(f"**No fit:** {plain(data['error'])}")
         return

@@ -116,3 +116,16 @@ def comparison(scenario_json: str, lever: str, values_si, sensitivity: bool, pro
     if not result.get("transient"):
         _comparison_memo().put(key, result)
     return result
+
+
+@st.cache_data(show_spinner=False, max_entries=8)
+def _calibration(fit_key: str, log_bytes: bytes, log_name: str, map_text: str, names: tuple) -> dict:
+    return _run("calibration", (fit_key, log_bytes, log_name, map_text, list(names)))
+
+
+def cached_calibration(fit_key: str, log_bytes: bytes, log_name: str, map_text: str, names: tuple) -> dict:
+    """``dashboard.calibration_data.fit_document`` (the Calibration tab's fit), or ``{"error": ...}``."""
+    try:
+        return _calibration(fit_key, log_bytes, log_name, map_text, names)
+    except _NotCached as exc:
+        return exc.result

@@ -13,8 +13,9 @@ from functools import lru_cache
 
 import numpy as np
 
-from planner.reports.text import STANDING_CAUTION
-from planner.scenario.units import SI_UNITS, from_si, registry, to_si, to_si_from_display, unit_label
+from planner.checks.caution import STANDING_CAUTION
+from planner.scenario.wording import Q, Sentence, render
+from planner.scenario.units import SI_UNITS, UNIT_SYSTEMS, from_si, registry, to_si, to_si_from_display, unit_label
 
 SYSTEM_NAMES = {"SI": "SI (metric)", "US": "US customary"}
 
@@ -29,12 +30,20 @@ FIXED_DISPLAY = {
 }
 _SI_FOR_FIXED = {"rotational_speed": "revolution/second", "displacement": "m**3"}
 
-EXTRA_CAUTION = (
-    "Surfaces above about 60 °C burn on contact: guard or insulate them. Check hose and loading-arm "
+# The touch limit drawn on jacket temperatures: a common plant limit for unguarded surfaces that
+# people can reach [trade]; site rules may set another figure.
+TOUCH_LIMIT_K = 333.15
+
+EXTRA_CAUTION = Sentence(
+    "Surfaces above about {touch} burn on contact: guard or insulate them. Check hose and loading-arm "
     "ratings and their test dates before every transfer. Local codes, site procedures and the advice "
-    "of a licensed engineer take precedence over this plan."
-)
+    "of a licensed engineer take precedence over this plan.", touch=Q(333.15, "temperature", 0))
 CAUTION_TEXT = STANDING_CAUTION + " " + EXTRA_CAUTION
+
+
+def caution_text(system: str = "SI") -> str:
+    """The standing caution and the dashboard's own, in the display system."""
+    return STANDING_CAUTION + " " + render(EXTRA_CAUTION, system)
 
 DECIMALS = {
     "temperature": 1, "temperature_difference": 1, "pressure": 2, "volume_flow": 2, "volume": 1,
@@ -90,6 +99,16 @@ def si_string(si_value: float, kind: str) -> str:
     return f"{float(si_value):.12g} {unit}"
 
 
+def display_string(value: float, kind: str, system: str) -> str:
+    """A number typed in the display unit as a scenario-file string in that unit ("-300 degC", "15 gpm"),
+    so that a problem with it is reported in the unit the user gave."""
+    if kind in FIXED_DISPLAY:
+        unit = FIXED_DISPLAY[kind][1]
+    else:
+        unit = UNIT_SYSTEMS[system][kind].pint_unit
+    return f"{float(value):.12g} {unit}"
+
+
 def stored_to_si(raw, kind: str) -> float | None:
     """A scenario-dict value (plain number in the default unit, or a unit string) -> SI float."""
     if raw is None:
@@ -119,9 +138,7 @@ def with_unit(text: str, kind: str | None, system: str) -> str:
 
 
 # ---------------------------------------------------------------------------------------------
-# Key figures: the numbers at the top of every page, from the documented plan JSON.
-
-J_PER_KWH = 3.6e6
+# Key figures: the planner's (``planner.reports.key_figures``, SI, kept in the bundle) in display units.
 
 
 @dataclass
@@ -133,83 +150,23 @@ class KeyFigure:
     text: str
     note: str = ""
     help: str = ""
+    possible: bool = True
 
 
-def peak_discharge_pressure(plan: dict) -> float | None:
-    """Highest gauge pressure at the pump discharge in the plan JSON: over the transfer timeline and
-    over the push-out that starts it (the cold contents when the plan starts by pushing them out;
-    the pre-warmed contents when the JSON carries ``startup.after_prewarm``)."""
-    if plan.get("peak_discharge_pressure_pa") is not None:
-        return plan["peak_discharge_pressure_pa"]
-    arrays = plan["timeline"].get("arrays") or {}
-    values = [v for v in arrays.get("discharge_pressure_pa", []) if v is not None]
-    start = plan["start"].get("discharge_pressure_pa")
-    if start is not None:
-        values.append(start)
-    startup = plan["startup"]
-    pushes = []
-    if startup.get("mode") == "push_cold":
-        pushes.append(startup.get("push_cold") or {})
-    else:
-        pushes.append(startup.get("after_prewarm") or {})
-    for push in pushes:
-        if push.get("possible") and push.get("peak_discharge_pressure_pa") is not None:
-            values.append(push["peak_discharge_pressure_pa"])
-    return max(values) if values else None
+def figure_text(k, system: str) -> str:
+    """The value of one planner key figure in ``system``; "not possible: <why>" when its step cannot be
+    carried out (never a partial total)."""
+    if not k.possible:
+        return f"not possible: {render(k.why, system)}"
+    if k.quantity == "money":
+        return f"{number_text(k.value, 2)} {k.unit}".strip()
+    return fmt(k.value, k.quantity, system)
 
 
-def key_figures(plan: dict, rating: dict | None, system: str) -> list[KeyFigure]:
+def key_figures(bundle: dict, system: str) -> list[KeyFigure]:
     """The plan's key figures in the display system, with stable labels."""
-    start = plan["start"]
-    timeline = plan["timeline"]
-    energy = plan["energy"]
-    costs = plan["costs"]
-    window = plan.get("planned_window_s")
-    figures = []
-    transfer = timeline.get("total_time_s")
-    note = "" if timeline.get("completed") else "stopped: " + (timeline.get("stop_reason") or "")
-    figures.append(KeyFigure("transfer_time", "Transfer time", transfer, "time", fmt(transfer, "time", system), note,
-                             "pumping time from the first to the last increment (start-up not included)"))
-    total = plan.get("total_time_s")
-    figures.append(KeyFigure("total_time", "Start-up + transfer", total, "time", fmt(total, "time", system),
-                             f"window {fmt(window, 'time', system)}" if window else "",
-                             "start-up (pre-warm or push-cold) plus transfer, against the planned window"))
-    flow = start.get("flow_m3_s") if start.get("status") != "no_flow" else 0.0
-    figures.append(KeyFigure("start_flow", "Starting flow", flow, "volume_flow", fmt(flow, "volume_flow", system),
-                             start.get("status", ""), "pump and line agree at this flow at the start"))
-    peak = peak_discharge_pressure(plan)
-    limit = (rating or {}).get("value")
-    if limit:
-        share = f" ({100.0 * peak / limit:.0f} %)" if peak is not None else ""
-        rating_note = f"rating {fmt(limit, 'pressure', system)}{share}"
-    else:
-        rating_note = "no rating known at the pump outlet"
-    figures.append(KeyFigure("peak_pressure", "Peak discharge pressure", peak, "pressure", fmt(peak, "pressure", system),
-                             rating_note, "highest gauge pressure at the pump discharge over the transfer and the "
-                             "push-out that starts it, against the rating at the pump outlet"
-                             + (f" ({rating.get('where')})" if limit and rating.get("where") else "")))
-    margin = start.get("npsh_margin_m")
-    figures.append(KeyFigure("npsh_margin", "NPSH margin", margin, "head", fmt(margin, "head", system),
-                             f"required {fmt(start.get('npsh_required_m'), 'head', system)}",
-                             "NPSH available minus required at the start"))
-    kwh = (energy.get("tracing_kwh") or 0.0) + (energy.get("pump_kwh") or 0.0) + (energy.get("vessel_heating_kwh") or 0.0)
-    figures.append(KeyFigure("electrical_energy", "Electrical energy", kwh * J_PER_KWH, "energy",
-                             fmt(kwh * J_PER_KWH, "energy", system), "tracing + pump + vessel heating"))
-    steam = (energy.get("tracing_steam_kg") or 0.0) + (energy.get("vessel_heating_steam_kg") or 0.0)
-    figures.append(KeyFigure("steam", "Steam", steam, "mass", fmt(steam, "mass", system), "tracing + vessel heating"))
-    currency = costs.get("currency", "")
-    total_cost = costs.get("total")
-    figures.append(KeyFigure("total_cost", "Total cost", total_cost, None, f"{number_text(total_cost, 2)} {currency}",
-                             f"demurrage {number_text(costs.get('demurrage'), 2)} {currency}",
-                             "energy at the tariffs plus demurrage"))
-    return figures
-
-
-def seconds_text(seconds: float | None) -> str:
-    """Durations in hours (both systems) for sentences."""
-    if seconds is None:
-        return "—"
-    return f"{seconds / 3600.0:.2f} h"
+    return [KeyFigure(k.key, k.label, k.value, None if k.quantity == "money" else k.quantity, figure_text(k, system),
+                      render(k.note, system), k.help, k.possible) for k in bundle["key_figures"]]
 
 
 # ---------------------------------------------------------------------------------------------

@@ -26,8 +26,8 @@ from planner.scenario.schema import (Destination, ProductSpec, PumpSpec, Route, 
                                      Schedule, Vessel, ViscositySpec, field_choices)
 
 from . import figures
-from .display import (fit_quality_text, from_display, law_parameters_text, si_string, stored_to_si, to_display,
-                      with_unit, words)
+from .display import (display_string, fit_quality_text, from_display, law_parameters_text, si_string, stored_to_si,
+                      to_display, with_unit, words)
 from .plaintext import plain
 from .results import product_preview
 
@@ -151,7 +151,7 @@ def _commit_number(path: str, kind: str | None, key: str) -> None:
     elif kind is None:
         set_path(data, path, float(value))
     else:
-        set_path(data, path, si_string(from_display(float(value), kind, system()), kind))
+        set_path(data, path, display_string(float(value), kind, system()))
 
 
 def _commit_value(path: str, key: str, empty_is_none: bool = False) -> None:
@@ -275,7 +275,7 @@ def _commit_table(path: str, key: str, columns: tuple, template: Callable[[list]
             return
         value = _nan_to_none(value)
         if col.kind and value is not None:
-            value = si_string(from_display(float(value), col.kind, unit_system), col.kind)
+            value = display_string(float(value), col.kind, unit_system)
         elif col.type == "text" and value is not None:
             value = str(value).strip() or None
         elif col.type == "bool":

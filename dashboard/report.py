@@ -18,10 +18,12 @@ import html
 import pandas as pd
 from plotly.offline import get_plotlyjs
 
+from planner.reports.findings_text import headline
 from planner.scenario.schema import Scenario, scenario_to_toml
+from planner.scenario.wording import render
 
 from . import figures, tables
-from .display import CAUTION_TEXT, SYSTEM_NAMES, fmt, key_figures
+from .display import SYSTEM_NAMES, caution_text, fmt, key_figures
 from .results import SEVERITY_ORDER
 
 CSS = """
@@ -40,6 +42,9 @@ th { background: #f4f6f7; }
 .finding { border-left: 6px solid #aab7b8; padding: 0.4rem 0.8rem; margin: 0.4rem 0; background: #fbfcfc; }
 .finding.stop { border-color: #c0392b; background: #fdedec; } .finding.warning { border-color: #e67e22; background: #fef5e7; }
 .finding.caution { border-color: #f1c40f; } .finding.info { border-color: #5dade2; }
+.headline { padding: 0.6rem 1rem; border-left: 6px solid #27ae60; background: #eafaf1; }
+.headline.stop { border-color: #c0392b; background: #fdedec; } .headline.warning { border-color: #e67e22; background: #fef5e7; }
+.headline.caution { border-color: #f1c40f; background: #fefbea; }
 pre { background: #f4f6f7; padding: 0.8rem; overflow-x: auto; font-size: 0.8rem; }
 """
 
@@ -94,7 +99,8 @@ def _findings_html(bundle: dict, system: str) -> str:
     parts = []
     for severity in SEVERITY_ORDER:
         for f in (x for x in findings if x.get("severity") == severity):
-            lines = [f"<b>{html.escape(severity.upper())}: {html.escape(f.get('title', ''))}</b> — {html.escape(f.get('message', ''))}"]
+            lines = [f"<b>{html.escape(severity.upper())}: {html.escape(f.get('title', ''))}</b> — "
+                     f"{html.escape(render(f.get('message', ''), system))}"]
             lines += [html.escape(line) for line in tables.finding_details(f, system)]
             lines.append(f"<code>{html.escape(f.get('code', ''))}</code>")
             parts.append(f'<div class="finding {html.escape(severity)}">' + "<br>".join(lines) + "</div>")
@@ -110,11 +116,11 @@ def build_report_html(scenario: Scenario, bundle: dict, system: str = "SI", gene
     when = (generated_at or _dt.datetime.now()).strftime("%Y-%m-%d %H:%M")
     plan = bundle["plan"]
     start = plan["start"]
-    caution = f'<div class="caution"><b>Caution.</b> {html.escape(CAUTION_TEXT)}</div>'
+    caution = f'<div class="caution"><b>Caution.</b> {html.escape(caution_text(system))}</div>'
     figs = "".join(
         f'<div class="figure"><div class="label">{html.escape(k.label)}</div><div class="value">{html.escape(k.text)}</div>'
         f'<div class="note">{html.escape(k.note)}</div></div>'
-        for k in key_figures(plan, bundle.get("outlet_rating"), system))
+        for k in key_figures(bundle, system))
     charts = []
     if bundle.get("profile") is not None:
         charts.append(_figure_html(figures.line_figure(bundle["profile"], bundle["segments"], system,
@@ -125,17 +131,18 @@ def build_report_html(scenario: Scenario, bundle: dict, system: str = "SI", gene
         charts.append(_figure_html(figures.push_cold_figure(rows, system)))
     charts.append(_figure_html(figures.viscosity_figure(bundle["product"], system)))
     timeline_note = "" if plan["timeline"].get("completed") else (
-        f"<p><b>The transfer stops:</b> {html.escape(plan['timeline'].get('stop_reason') or '')}</p>")
+        f"<p><b>The transfer stops:</b> {html.escape(render(plan['timeline'].get('stop_reason') or '', system))}</p>")
     push_table = _table(tables.push_cold_frame(rows, system)) if rows.get("time_s") else "<p>—</p>"
     body = f"""
 <h1>Transfer plan — {html.escape(scenario.name)}</h1>
 <p class="meta">Viscous Transfer Planner · generated {html.escape(when)} · units: {html.escape(SYSTEM_NAMES.get(system, system))}
  · the numbers equal <code>python -m planner plan SCENARIO --json</code> for the scenario in the appendix</p>
 {caution}
+<p class="headline {html.escape(plan.get('worst_severity', 'info'))}"><b>{html.escape(headline(bundle.get('findings') or [], system))}</b></p>
+<p>At the start: <b>{html.escape(str(start.get('status', '')))}</b> — {html.escape(render(start.get('message', ''), system))}</p>
+{timeline_note}
 <h2>Key figures</h2>
 <div class="figures">{figs}</div>
-<p>At the start: <b>{html.escape(str(start.get('status', '')))}</b> — {html.escape(str(start.get('message', '')))}</p>
-{timeline_note}
 <h2>Findings</h2>
 {_findings_html(bundle, system)}
 <h2>Inputs</h2>
@@ -152,7 +159,7 @@ def build_report_html(scenario: Scenario, bundle: dict, system: str = "SI", gene
 <h2>Charts</h2>
 {''.join(charts)}
 <h2>Appendix: the scenario file (TOML, for <code>python -m planner plan</code>)</h2>
-<pre>{html.escape(scenario_to_toml(scenario))}</pre>
+<pre>{html.escape(scenario_to_toml(scenario, system))}</pre>
 {caution}
 """
     return (f"<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">"

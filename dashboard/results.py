@@ -15,27 +15,15 @@ import numpy as np
 from planner.checks.compare import compare
 from planner.errors import PlannerError
 from planner.checks.findings import assess
-from planner.line.model import line_from_scenario
+from planner.plain import finite_or_none, plain as _plain
+from planner.reports.findings_text import MOST_SEVERE_FIRST
+from planner.reports.key_figures import key_figures, outlet_rating
 from planner.transfer.plan import make_plan
 from planner.reports.plan_json import plan_json
 from planner.line.products import Product
-from planner.correlations.ratings import flange_rating
-from planner.line.route import build_line
 from planner.scenario.schema import ProductSpec, Scenario, problems_from
 
-SEVERITY_ORDER = ("stop", "warning", "caution", "info")   # most severe first, as the pages list them
-
-
-def _plain(value):
-    if isinstance(value, float):
-        return value if math.isfinite(value) else None
-    if isinstance(value, np.generic):
-        return _plain(value.item())
-    if isinstance(value, dict):
-        return {k: _plain(v) for k, v in value.items()}
-    if isinstance(value, (list, tuple)):
-        return [_plain(v) for v in value]
-    return value
+SEVERITY_ORDER = MOST_SEVERE_FIRST   # most severe first, as the pages list them
 
 
 def segment_table(segments) -> list[dict]:
@@ -67,62 +55,37 @@ def profile_arrays(plan) -> dict | None:
     }
 
 
-def findings_of(plan) -> tuple[list[dict] | None, str]:
-    """``planner.checks.findings.assess(plan)`` as dicts, or None with the reason."""
+def findings_of(plan) -> tuple[list | None, list[dict] | None, str]:
+    """``planner.checks.findings.assess(plan)``: the findings and their dicts (messages are Sentences that
+    render in either unit system), or None with the reason."""
     try:
         found = assess(plan)
     except (PlannerError, ValueError) as exc:
-        return None, f"findings could not be assessed: {exc}"
-    rows = []
-    for f in found:
-        rows.append(_plain(f.as_dict()))
-    return rows, ""
+        return None, None, f"findings could not be assessed: {exc}"
+    return found, [_plain(f.as_dict()) for f in found], ""
 
 
 def node_ratings(segments, nodes: dict | None) -> np.ndarray | None:
-    """Pressure rating [Pa gauge] at each node of the start profile: the lower of the segment's own
-    rating and its ASME B16.5 flange rating at the product temperature there
-    (``planner.correlations.ratings.flange_rating``); NaN where neither is known."""
+    """Pressure rating [Pa gauge] at each node of the start profile: ``LineSegment.rating_at`` (the lower
+    of the segment's own rating and its ASME B16.5 flange rating at the product temperature there);
+    NaN where neither is known."""
     if nodes is None:
         return None
     x, temps = nodes["x"], nodes["temperature"]
     out = np.full(len(x), np.nan)
     for i, (xi, ti) in enumerate(zip(x, temps)):
-        limits = []
-        for seg in segments:
-            if seg.x_start - 1e-9 <= xi <= seg.x_end + 1e-9:
-                if seg.pressure_rating is not None:
-                    limits.append(seg.pressure_rating)
-                if seg.flange_class is not None:
-                    rating = flange_rating(seg.flange_class, float(ti))
-                    if rating is not None:
-                        limits.append(rating)
+        limits = [r for seg in segments if seg.x_start - 1e-9 <= xi <= seg.x_end + 1e-9
+                  for r in [seg.rating_at(float(ti))] if r is not None]
         if limits:
             out[i] = min(limits)
     return out
 
 
-def outlet_rating(segments, profile: dict | None) -> dict:
-    """The rating where the discharge pressure acts: the first discharge segment at the pump outlet."""
-    if not segments:
-        return {"value": None, "where": ""}
-    first = segments[0]
-    ratings = profile.get("rating") if profile else None
-    if ratings is not None and len(ratings) and np.isfinite(ratings[0]):
-        value = float(ratings[0])
-    else:
-        value = first.pressure_rating
-    if value is None:
-        return {"value": None, "where": first.name}
-    source = "own rating" if first.pressure_rating is not None and value == first.pressure_rating else (
-        f"ASME B16.5 class {first.flange_class}" if first.flange_class else "own rating")
-    return {"value": value, "where": f"{first.name}, {source}"}
-
-
-def product_curve(spec: ProductSpec, points: int = 121) -> dict:
+def product_curve(spec: ProductSpec, points: int = 121, product: Product | None = None) -> dict:
     """Viscosity (or consistency) against temperature for the product, with its lab points and the
-    fitted range (``Product.fit``: law, t_min, t_max and residuals)."""
-    product = Product(spec)
+    fitted range (``Product.fit``: law, t_min, t_max and residuals).  ``product``: the plan's own
+    product object (built from ``spec`` only when there is no plan, e.g. the Inputs tab's preview)."""
+    product = product or Product(spec)
     fit = product.fit
     lab_t = [p.temperature for p in spec.viscosity.points]
     lab_mu = []
@@ -144,8 +107,8 @@ def product_curve(spec: ProductSpec, points: int = 121) -> dict:
     return {
         "name": spec.name, "law": fit.law, "parameters": dict(fit.parameters),
         "rms_log_residual": fit.rms_log_residual, "max_relative_residual": fit.max_relative_residual,
-        "t_min": fit.t_min if math.isfinite(fit.t_min) else None,
-        "t_max": fit.t_max if math.isfinite(fit.t_max) else None,
+        "t_min": finite_or_none(fit.t_min),
+        "t_max": finite_or_none(fit.t_max),
         "n_points": fit.n_points, "temperature": temps, "viscosity": np.asarray(values),
         "lab_temperature": lab_t, "lab_viscosity": lab_mu,
         "no_flow_temperature": spec.no_flow_temperature, "max_temperature": spec.max_temperature,
@@ -172,26 +135,28 @@ def product_preview(product_data: dict) -> tuple[dict | None, list[tuple[str, st
 def build_bundle(scenario: Scenario) -> dict:
     """Everything the pages show for one scenario (SI). Raises PlannerError/ValueError."""
     plan = make_plan(scenario)
-    doc = plan_json(plan)
-    discharge = line_from_scenario(scenario).segments
-    suction = build_line(scenario.suction, scenario.site) if scenario.suction is not None else []
-    findings, findings_note = findings_of(plan)
+    found, findings, findings_note = findings_of(plan)
+    doc = plan_json(plan, findings=found) if found is not None else plan_json(plan, findings=[])
+    system = plan.system
+    discharge = system.discharge_line.segments
+    suction = system.suction_line.segments if system.suction_line is not None else []
     profile = profile_arrays(plan)
     if profile is not None:
         profile["rating"] = node_ratings(discharge, profile["nodes"])
-    limits = getattr(scenario, "limits", None)
+    rating = outlet_rating(plan)
     return {
         "scenario_name": scenario.name,
         "plan": doc,
+        "key_figures": key_figures(plan),
         "profile": profile,
-        "outlet_rating": outlet_rating(discharge, profile),
-        "touch_limit_k": getattr(limits, "touch_temperature", None),
+        "outlet_rating": {"value": rating.value, "where": rating.where},
+        "touch_limit_k": scenario.limits.touch_temperature,
         "segments": segment_table(discharge),
         "suction_segments": segment_table(suction),
         "push_cold_rows": _plain(plan.push_cold.rows or {}),
         "findings": findings,
         "findings_note": findings_note,
-        "product": product_curve(scenario.product),
+        "product": product_curve(scenario.product, product=system.product),
         "destination_max_level": scenario.destination.max_level if scenario.destination else None,
         "tracing_kind": scenario.tracing.kind,
         "setpoint": scenario.tracing.setpoint,
@@ -203,8 +168,7 @@ def build_bundle(scenario: Scenario) -> dict:
 # Setpoint (or other lever) comparison
 
 LEVERS = {
-    # lever name of planner.compare -> (label, display kind). planner.compare takes and returns the
-    # lever's values in its own units (°C, bar(g), rpm, m³/h): the SI column of the dashboard.
+    # lever name of planner.checks.compare -> (label, display kind); values are SI both ways
     "setpoint": ("Tracing setpoint", "temperature"),
     "steam_pressure": ("Steam pressure", "pressure"),
     "pump_speed": ("Pump speed", "rotational_speed"),
@@ -214,27 +178,13 @@ LEVERS = {
 
 def run_comparison(scenario: Scenario, lever: str, values_si: list[float], progress=None,
                    sensitivity: bool = False) -> dict:
-    """``planner.checks.compare.compare`` as plain data with the lever's values in SI (K, Pa, rev/s, m3/s)."""
-    from .display import from_display, to_display
-
+    """``planner.checks.compare.compare`` as plain data (lever values SI: K, Pa, rev/s, m3/s)."""
     kind = LEVERS[lever][1]
-    values = [round(to_display(v, kind, "SI"), 9) for v in values_si]
-    comparison = compare(scenario, lever=lever, values=values, progress=progress, sensitivity=sensitivity)
-    rows = []
-    for r in comparison.rows:
-        row = _plain({k: v for k, v in dict(r).items() if k != "findings"})
-        row["value"] = from_display(r["value"], kind, "SI")
-        row["findings"] = _plain(r.get("findings", []))
-        rows.append(row)
-    cases = []
-    for name, case in (getattr(comparison, "sensitivity", None) or {}).items():
-        value = case.get("recommended_value") if isinstance(case, dict) else None
-        cases.append({
-            "case": name,
-            "recommended_value": None if value is None else from_display(value, kind, "SI"),
-            "reason": case.get("reason", "") if isinstance(case, dict) else str(case),
-            "total_costs": _plain(case.get("total_costs", [])) if isinstance(case, dict) else [],
-        })
+    comparison = compare(scenario, lever=lever, values=list(values_si), progress=progress, sensitivity=sensitivity)
+    rows = [_plain(dict(r)) for r in comparison.rows]
+    cases = [{"case": name, "recommended_value": case.get("recommended_value"), "reason": case.get("reason", ""),
+              "total_costs": _plain(case.get("total_costs", []))}
+             for name, case in (comparison.sensitivity or {}).items()]
     return {
         "lever": lever, "lever_label": LEVERS[lever][0], "kind": kind, "rows": rows,
         "recommended": comparison.recommended, "runner_up": comparison.runner_up,

@@ -39,7 +39,9 @@ from planner.records.store import STATES, PlanStore, Revision, StoreError, canon
 
 from . import accounts_ui
 
-from .display import J_PER_KWH, fmt, key_figures, number_text
+from planner.transfer.plan import J_PER_KWH
+
+from .display import fmt, number_text
 from .plaintext import plain, plain_table
 from .results import SEVERITY_ORDER
 from .views import VIEW_OF_TITLE, VIEW_TITLES
@@ -134,8 +136,7 @@ def results_summary(bundle: dict | None) -> dict:
     if not bundle or "error" in bundle:
         return {"plan_error": (bundle or {}).get("error", "no plan for these inputs")}
     plan = bundle["plan"]
-    figures = {k.key: k.si for k in key_figures(plan, bundle.get("outlet_rating"), "SI")}
-    energy = figures.get("electrical_energy")
+    figures = {k.key: k.value for k in bundle["key_figures"]}       # the planner's key figures (SI)
     out = {
         "transfer_time_s": figures.get("transfer_time"),
         "total_time_s": figures.get("total_time"),
@@ -145,7 +146,7 @@ def results_summary(bundle: dict | None) -> dict:
         "peak_discharge_pressure_pa": figures.get("peak_pressure"),
         "outlet_rating_pa": (bundle.get("outlet_rating") or {}).get("value"),
         "npsh_margin_m": figures.get("npsh_margin"),
-        "electrical_energy_kwh": None if energy is None else energy / J_PER_KWH,
+        "electrical_energy_kwh": plan["energy"].get("electrical_kwh"),
         "steam_kg": figures.get("steam"),
         "total_cost": figures.get("total_cost"),
         "currency": plan["costs"].get("currency", ""),

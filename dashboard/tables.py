@@ -11,6 +11,9 @@ import numpy as np
 import pandas as pd
 
 from .display import convert_array, fmt, general_number, label, number_text, to_display, with_unit, words
+from planner.reports.findings_text import finding_details as _finding_details
+from planner.scenario.wording import render
+
 from .results import SEVERITY_ORDER
 
 TIMELINE_COLUMNS = [
@@ -132,64 +135,10 @@ def segments_frame(segments: list[dict], system: str) -> pd.DataFrame:
     })
 
 
-def findings_frame(findings: list[dict], system: str) -> pd.DataFrame:
-    rows = []
-    order = {s: i for i, s in enumerate(SEVERITY_ORDER)}
-    for f in sorted(findings, key=lambda f: order.get(f.get("severity"), 99)):
-        rows.append({
-            "Severity": f.get("severity", ""), "Finding": f.get("title", ""), "Where": where_text(f, system),
-            "Value": value_text(f.get("value"), f.get("unit"), system),
-            "Limit": value_text(f.get("limit"), f.get("unit"), system),
-            "What to do": f.get("action", ""),
-        })
-    return pd.DataFrame(rows)
-
-
-# SI unit strings a finding may carry -> display kind
-_UNIT_KINDS = {
-    "K": "temperature", "Pa": "pressure", "m": "length", "m3/s": "volume_flow", "m**3/s": "volume_flow",
-    "W": "power", "s": "time", "Pa s": "dynamic_viscosity", "Pa·s": "dynamic_viscosity", "Pa*s": "dynamic_viscosity",
-    "m3": "volume", "m**3": "volume", "J": "energy", "kg": "mass", "W/m": "linear_power",
-}
-
-
-def value_text(value, unit, system: str) -> str:
-    if value is None:
-        return ""
-    if isinstance(value, bool) or not isinstance(value, (int, float)):
-        return str(value)
-    kind = _UNIT_KINDS.get(unit or "", unit if unit in ("temperature", "pressure", "length", "volume_flow", "head",
-                                                          "power", "time", "temperature_difference") else None)
-    if kind is None:
-        return f"{general_number(value)} {unit or ''}".strip()
-    return fmt(float(value), kind, system)
-
-
-def where_text(finding: dict, system: str) -> str:
-    parts = []
-    if finding.get("line"):
-        parts.append(f"{finding['line']} line")
-    if finding.get("segment"):
-        parts.append(str(finding["segment"]))
-    if finding.get("at_m") is not None:
-        parts.append(f"at {fmt(finding['at_m'], 'length', system, 0)}")
-    return ", ".join(parts)
-
-
 def finding_details(finding: dict, system: str) -> list[str]:
-    """The lines under a finding's heading, in display units: where, value and limit, what to do.
-    Shared by the page and the HTML report, which only differ in markup."""
-    lines = []
-    where = where_text(finding, system)
-    if where:
-        lines.append(f"Where: {where}")
-    value = value_text(finding.get("value"), finding.get("unit"), system)
-    limit = value_text(finding.get("limit"), finding.get("unit"), system)
-    if value or limit:
-        lines.append(f"Value: {value or '—'}" + (f"; limit: {limit}" if limit else ""))
-    if finding.get("action"):
-        lines.append(f"What to do: {finding['action']}")
-    return lines
+    """The lines under a finding's heading in display units (``planner.reports.findings_text``): where,
+    value and limit, what to do.  Shared by the page and the HTML report."""
+    return _finding_details(finding, system)
 
 
 def energy_cost_frame(plan: dict, system: str) -> pd.DataFrame:
@@ -218,7 +167,7 @@ def startup_hold_frame(plan: dict, system: str) -> pd.DataFrame:
     rows = [
         ("Start-up chosen", f"{words(s.get('mode'))}: {hours_or_dash(s.get('time_s'))}"),
         ("Line contents at the start", fmt(s.get("line_start_temperature_k"), "temperature", system)),
-        ("Pre-warm", warm.get("message", "")),
+        ("Pre-warm", render(warm.get("message", ""), system)),
         ("Push cold: first flow", fmt(cold.get("initial_flow_m3_s"), "volume_flow", system)),
         ("Push cold: peak discharge pressure", fmt(cold.get("peak_discharge_pressure_pa"), "pressure", system)),
         ("Push cold: relief lifts", "yes" if cold.get("relief_lifts") else "no"),

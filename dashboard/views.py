@@ -11,6 +11,9 @@ from planner.scenario.schema import Scenario
 from . import figures, tables
 from . import compute
 from .plaintext import plain, plain_table
+from planner.reports.findings_text import headline
+from planner.scenario.wording import render
+
 from .display import (fit_quality_text, fmt, from_display, key_figures, label, law_parameters_text, to_display,
                       with_unit, words)
 from .results import LEVERS, SEVERITY_ORDER, default_comparison_values
@@ -38,7 +41,7 @@ def data_table(frame: pd.DataFrame, decimals: int = 3) -> None:
 
 def key_figures_strip(bundle: dict, unit_system: str) -> None:
     """The plan's key figures as metrics; labels are stable (tests read them)."""
-    figs = key_figures(bundle["plan"], bundle.get("outlet_rating"), unit_system)
+    figs = key_figures(bundle, unit_system)
     for row in (figs[:4], figs[4:]):
         cols = st.columns(len(row))
         for col, k in zip(cols, row):
@@ -46,18 +49,22 @@ def key_figures_strip(bundle: dict, unit_system: str) -> None:
                        delta_arrow="off", help=plain(k.help) or None, border=True)
 
 
-def status_line(bundle: dict) -> None:
+def status_line(bundle: dict, unit_system: str = "SI") -> None:
+    """The plan's state, following its worst finding (a stop is never shown as ok), then the pump's
+    outcome at the start in the user's units."""
     start = bundle["plan"]["start"]
     timeline = bundle["plan"]["timeline"]
-    message = f"At the start: **{plain(start.get('status', ''))}** — {plain(start.get('message', ''))}"
+    findings = bundle.get("findings") or []
+    head = headline(findings, unit_system)
+    message = (f"At the start: **{plain(start.get('status', ''))}** — "
+               f"{plain(render(start.get('message', ''), unit_system))}")
     if start.get("flags"):
         message += f" (flags: {plain(', '.join(start['flags']))})"
-    if start.get("status") == "ok" and timeline.get("completed"):
-        st.success(message)
-    elif start.get("status") == "no_flow" or not timeline.get("completed"):
-        st.error(message + ("" if timeline.get("completed") else f"  \nThe transfer stops: {plain(timeline.get('stop_reason', ''))}"))
-    else:
-        st.warning(message)
+    if not timeline.get("completed"):
+        message += f"  \nThe transfer stops: {plain(render(timeline.get('stop_reason', ''), unit_system))}"
+    worst = bundle["plan"].get("worst_severity", "info")
+    box = {"stop": st.error, "warning": st.warning, "caution": st.info}.get(worst, st.success)
+    box(f"**{plain(head)}**  \n{message}")
 
 
 def findings_block(bundle: dict, unit_system: str) -> None:
@@ -74,14 +81,14 @@ def findings_block(bundle: dict, unit_system: str) -> None:
         box, icon, heading = SEVERITY_STYLE[severity]
         with st.expander(f"{heading} ({len(items)})", icon=icon, expanded=severity in ("stop", "warning")):
             for f in items:
-                lines = [f"**{plain(f.get('title', ''))}** — {plain(f.get('message', ''))}"]
+                lines = [f"**{plain(f.get('title', ''))}** — {plain(render(f.get('message', ''), unit_system))}"]
                 lines += [plain(line) for line in tables.finding_details(f, unit_system)]
                 lines.append(plain(f.get("code", "")))
                 box("  \n".join(lines), icon=icon)
 
 
 def plan_view(bundle: dict, unit_system: str) -> None:
-    status_line(bundle)
+    status_line(bundle, unit_system)
     findings_block(bundle, unit_system)
     st.markdown("#### Start-up and stops")
     st.table(plain_table(tables.startup_hold_frame(bundle["plan"], unit_system)), hide_index=True)
@@ -127,7 +134,7 @@ def time_view(bundle: dict, unit_system: str) -> None:
         st.markdown("#### Push-cold start-up (the plan starts this way)")
     else:
         st.markdown("#### Push-cold start-up (the alternative to pre-warming)")
-    st.caption(plain(cold.get("message", "")))
+    st.caption(plain(render(cold.get("message", ""), unit_system)))
     rows = bundle.get("push_cold_rows") or {}
     if rows.get("time_s"):
         data_table(tables.push_cold_frame(rows, unit_system))
@@ -251,9 +258,9 @@ def comparison_result(result: dict, unit_system: str) -> None:
     kind = result["kind"]
     if result.get("recommended") is not None:
         st.success(f"Recommended: **{plain(fmt(result['rows'][result['recommended']]['value'], kind, unit_system))}** — "
-                   f"{plain(result['reason'])}")
+                   f"{plain(render(result['reason'], unit_system))}")
     else:
-        st.error(plain(result["reason"] or "no value can be recommended"))
+        st.error(plain(render(result["reason"], unit_system) or "no value can be recommended"))
     frame = tables.comparison_frame(result, kind, unit_system)
     errors = [r.get("error", "") for r in result["rows"]]
     if any(errors):
@@ -269,7 +276,8 @@ def comparison_result(result: dict, unit_system: str) -> None:
     st.plotly_chart(figures.comparison_figure(result, kind, unit_system), key="comparison_chart")
     if result.get("sensitivity"):
         st.markdown("#### Sensitivity")
-        rows = [(case["case"], fmt(case.get("recommended_value"), kind, unit_system), case.get("reason", ""))
+        rows = [(render(case["case"], unit_system), fmt(case.get("recommended_value"), kind, unit_system),
+                 render(case.get("reason", ""), unit_system))
                 for case in result["sensitivity"]]
         st.dataframe(pd.DataFrame(rows, columns=["Case", "Recommended", "Why"]), hide_index=True, width="stretch")
         fig = figures.sensitivity_figure(result, kind, unit_system)

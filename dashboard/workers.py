@@ -37,6 +37,7 @@ log = logging.getLogger(__name__)
 
 PLAN_SECONDS = 60.0          # a plan still running after this is stopped
 COMPARISON_SECONDS = 180.0   # a comparison still running after this is stopped
+CALIBRATION_SECONDS = 240.0  # a calibration fit (Calibration tab) still running after this is stopped
 WAIT_SECONDS = 20.0          # longest wait for a free worker before "busy, try again"
 POLL_SECONDS = 0.2
 STARTUP_SECONDS = 120.0      # a new worker interpreter loading the planner (seconds on a loaded machine)
@@ -53,6 +54,7 @@ def _env_float(name: str, default: float) -> float:
 def limits() -> dict:
     return {"plan": _env_float("PLANNER_PLAN_TIME_LIMIT_S", PLAN_SECONDS),
             "comparison": _env_float("PLANNER_COMPARISON_TIME_LIMIT_S", COMPARISON_SECONDS),
+            "calibration": _env_float("PLANNER_CALIBRATION_TIME_LIMIT_S", CALIBRATION_SECONDS),
             "wait": _env_float("PLANNER_WORKER_WAIT_S", WAIT_SECONDS)}
 
 
@@ -94,7 +96,16 @@ def comparison_job(scenario_json: str, lever: str, values_si: list, sensitivity:
         return _failure(exc, "comparison")
 
 
-JOBS = {"plan": bundle_job, "comparison": comparison_job}
+def calibration_job(fit_key: str, log_bytes: bytes, log_name: str, map_text: str, names: list, progress=None) -> dict:
+    from dashboard.calibration_data import fit_document
+
+    try:
+        return fit_document(fit_key, log_bytes, log_name, map_text, names)
+    except Exception as exc:  # noqa: BLE001
+        return _failure(exc, "calibration")
+
+
+JOBS = {"plan": bundle_job, "comparison": comparison_job, "calibration": calibration_job}
 
 
 def _serve(conn) -> None:

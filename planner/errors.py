@@ -15,8 +15,10 @@ class ScenarioError(PlannerError):
     """
 
     def __init__(self, problems: list[tuple[str, str]]):
+        from planner.scenario.labels import named   # the page's words for each field
+
         self.problems = problems
-        lines = [f"{field}: {message}" if field else message for field, message in problems]
+        lines = [f"{named(field)}: {message}" if field else message for field, message in problems]
         super().__init__("scenario is not valid:\n  " + "\n  ".join(lines))
 
 

@@ -167,7 +167,7 @@ def test_a_2_kb_unit_string_is_refused_naming_the_field(tmp_path, capsys):
     data = _demo_dict()
     data["route"]["segments"][0]["length"] = "45 " + "m/m*" * 500 + "m"
     code, err = _cli(tmp_path, capsys, data, "plan")
-    assert code == 2 and "route.segments[0].length:" in err and "a unit has at most 40" in err
+    assert code == 2 and "(route.segments[0].length):" in err and "a unit has at most 40" in err
     with pytest.raises(ScenarioError):                     # the dashboard's import path
         scenario_from_dict(data)
 
@@ -176,7 +176,7 @@ def test_a_temperature_difference_unit_is_refused_for_an_absolute_temperature(tm
     data = _demo_dict()
     data["site"]["ambient_temperature"] = "55 delta_degC"
     code, err = _cli(tmp_path, capsys, data, "plan")
-    assert code == 2 and "site.ambient_temperature:" in err and "temperature difference" in err
+    assert code == 2 and "(site.ambient_temperature):" in err and "temperature difference" in err
 
 
 def test_a_margin_in_degrees_is_a_difference():
@@ -226,7 +226,7 @@ def test_an_ambient_beyond_the_earths_extremes_is_refused_at_the_field(tmp_path,
     data = _demo_dict()
     data["site"]["ambient_temperature"] = ambient_c
     code, err = _cli(tmp_path, capsys, data, "plan")
-    assert code == 2 and "site.ambient_temperature:" in err and ("-90 °C" in err or "70 °C" in err)
+    assert code == 2 and "(site.ambient_temperature):" in err and ("-90 °C" in err or "70 °C" in err)
 
 
 @pytest.mark.parametrize("preset", [{"a": 1}, [1], 3])

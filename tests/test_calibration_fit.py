@@ -43,6 +43,7 @@ def test_clean_log_fits_back_two_factors_within_one_percent():
         assert result.factors[name].value == pytest.approx(value, rel=0.01), name
         assert result.factors[name].identifiable
     assert not result.warnings and not result.mismatch
+    assert not result.notes            # source temperature and ambient are in the log
 
 
 def test_clean_log_fits_back_three_factors_with_pd_slip():
@@ -101,6 +102,7 @@ def test_closed_form_laminar_line_fits_measured_over_hagen_poiseuille():
     rows = "".join(f"{i},{q * 3600:.6f},{p / 1e5:.7f}\n" for i, (q, p) in enumerate(zip(flows, measured)))
     log = read_log("time [min],flow [m3/h],discharge_pressure [bar]\n" + rows, "hp.csv")
     result = fit_calibration(scenario, log, ["viscosity_factor"])
+    assert any("source_temperature not logged" in n for n in result.notes)
     expected = float(np.mean(measured / hagen_poiseuille))
     assert result.factors["viscosity_factor"].value == pytest.approx(expected, rel=0.005)
 
@@ -130,6 +132,30 @@ def test_log_from_another_line_is_reported():
     assert result.mismatch or any(f.at_bound for f in result.factors.values())
     text = " ".join(result.warnings)
     assert "another product or line" in text or "check that the log is of this product and line" in text
+
+
+def test_a_stop_in_the_log_counts_for_the_volumes_but_is_not_replayed():
+    # a 30-row log at constant flow with the pump stopped for rows 10-14: the moved volume keeps
+    # the stop out, and the fit uses only the running rows
+    from planner.calibration.replay import moved_volume, replay
+
+    scenario = load_scenario(POLYOL)
+    truth = {"viscosity_factor": 1.2, "heat_loss_factor": 0.9}
+    text = synthetic_log(scenario, truth, rows=30, duration_s=2 * 3600.0)
+    lines = text.splitlines()
+    for k in range(11, 16):           # data rows 10..14 (line 0 is the header)
+        cells = lines[k].split(",")
+        cells[1] = "0"
+        lines[k] = ",".join(cells)
+    log = read_log("\n".join(lines) + "\n", "stop.csv")
+    assert log.stopped_rows == 5
+    t, q = log.values["time"], log.values["flow"]
+    assert moved_volume(log)[-1] == pytest.approx(float(np.sum(0.5 * (q[1:] + q[:-1]) * np.diff(t))))
+    modelled = replay(scenario, log, truth).modelled["discharge_pressure"]
+    assert np.isnan(modelled[10:15]).all() and np.isfinite(modelled[:10]).all()
+    result = fit_calibration(scenario, log, ["viscosity_factor"])
+    assert result.residuals["discharge_pressure"]["count"] == 25
+    assert result.factors["viscosity_factor"].value == pytest.approx(1.2, rel=0.02)
 
 
 def test_slip_factor_needs_a_pd_pump_and_logged_speed():

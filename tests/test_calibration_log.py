@@ -60,18 +60,26 @@ def test_unreadable_rows_are_counted_with_reasons_and_lines():
     rows += [f"{i},20,{4 + 0.01 * i},40" for i in range(10)]
     rows[3] = "2,twenty,4.02,40"          # line 4: not a number
     rows[5] = "4,20,4.04"                 # line 6: a cell missing
-    rows[6] = "5,0,4.05,40"               # line 7: stopped pump
+    rows[6] = "5,-3,4.05,40"              # line 7: negative flow
     rows[8] = "6.5,20,,40"                # line 9: blank pressure: kept, not compared
     rows[9] = "6.0,20,4.08,40"            # line 10: time goes back
     log = _log("\n".join(rows) + "\n")
     reasons = {g["reason"]: (g["count"], g["lines"]) for g in log.problem_summary()}
     assert reasons["flow 'twenty' is not a number"] == (1, [4])
     assert reasons["expected 4 cells, found 3"] == (1, [6])
-    assert any(r.startswith("flow 0 m3/h: flow must be above 0") and v == (1, [7]) for r, v in reasons.items())
+    assert reasons["flow -3 m3/h: flow must lie between 0 (pump stopped) and 2 m³/s"] == (1, [7])
     assert reasons["time is not after the previous row's"] == (1, [10])
     assert log.rows == 6 and log.rows_total == 10 and len(log.problems) == 4
     assert log.blanks == {"discharge_pressure": 1}
     assert log.rows + len(log.problems) == log.rows_total   # nothing dropped silently
+
+
+def test_rows_with_the_pump_stopped_are_read_but_not_running():
+    text = "time [min],flow [m3/h],discharge_pressure [bar]\n" + "".join(
+        f"{i},{0 if 3 <= i <= 5 else 30},{0.2 if 3 <= i <= 5 else 4.5}\n" for i in range(10))
+    log = _log(text)
+    assert log.rows == 10 and log.stopped_rows == 3 and not log.problems
+    assert log.running.tolist() == [True] * 3 + [False] * 3 + [True] * 4
 
 
 def test_missing_columns_are_named():
@@ -114,10 +122,18 @@ def test_column_map_renames_historian_headers(tmp_path):
 def test_too_few_rows_and_empty_logs_say_so():
     with pytest.raises(LogError, match="is empty"):
         _log("\n# nothing\n")
-    with pytest.raises(LogError, match=r"only 3 of 3 data rows could be read \(at least 5 needed\)"):
+    with pytest.raises(LogError, match=r"only 3 of 3 data rows could be read with the product moving \(at least 5 needed\)"):
         _log("time [min],flow [m3/h],discharge_pressure [bar]\n1,2,3\n2,2,3\n3,2,3\n")
     with pytest.raises(LogError, match="none of its 2 data rows"):
         _log("time [min],flow [m3/h],discharge_pressure [bar]\n1,x,3\n2,y,3\n")
+
+
+def test_semicolons_with_decimal_commas():
+    # a European historian export: semicolon-separated, decimal commas
+    text = "time [min];flow [m3/h];discharge_pressure [bar]\n" + "".join(f"{i};12,5;4,75\n" for i in range(5))
+    log = _log(text)
+    assert log.values["flow"][0] == pytest.approx(12.5 / 3600.0)
+    assert log.values["discharge_pressure"][4] == pytest.approx(4.75e5)
 
 
 def test_hash_is_of_the_file_bytes(tmp_path):

@@ -38,7 +38,7 @@ def test_evaluate_table_and_inlet_temperature_override():
 @pytest.mark.parametrize("args, words", [
     (("evaluate", "no-such-file.toml"), "cannot open"),
     (("evaluate", str(DEMO_FILES[0]), "--flow", "3 m"), "--flow"),
-    (("evaluate", str(DEMO_FILES[0]), "--flow", "-3 m3/h"), "greater than 0"),
+    (("evaluate", str(DEMO_FILES[0]), "--flow", "-3 m3/h"), "out of range"),
     (("evaluate", str(DEMO_FILES[0]), "--inlet-temperature", "-500 degC"), "absolute zero"),
 ])
 def test_errors_exit_nonzero_without_traceback(args, words):

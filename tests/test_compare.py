@@ -23,7 +23,7 @@ def syrup(demurrage: float, exposure_c: float | None = None):
     return scenario_from_dict(data)
 
 
-SETPOINTS = [40.0, 45.0, 50.0, 55.0, 60.0]
+SETPOINTS = [t + 273.15 for t in (40.0, 45.0, 50.0, 55.0, 60.0)]   # compare takes SI values [K]
 
 
 def test_parse_range():
@@ -35,18 +35,21 @@ def test_parse_range():
 
 def test_recommendation_skips_stop_rows_and_says_why():
     rows = [
-        {"value": 40, "ok": True, "has_stop": True, "total_cost": 10.0, "total_time_s": 3600.0, "stop_codes": ["NPSH-SHORT"]},
-        {"value": 50, "ok": True, "has_stop": False, "total_cost": 30.0, "total_time_s": 3600.0, "energy_cost": 5.0,
+        {"value": 313.15, "ok": True, "has_stop": True, "total_cost": 10.0, "total_time_s": 3600.0, "stop_codes": ["NPSH-SHORT"]},
+        {"value": 323.15, "ok": True, "has_stop": False, "total_cost": 30.0, "total_time_s": 3600.0, "energy_cost": 5.0,
          "demurrage": 25.0, "currency": "EUR"},
-        {"value": 60, "ok": True, "has_stop": False, "total_cost": 20.0, "total_time_s": 3600.0, "energy_cost": 8.0,
+        {"value": 333.15, "ok": True, "has_stop": False, "total_cost": 20.0, "total_time_s": 3600.0, "energy_cost": 8.0,
          "demurrage": 12.0, "currency": "EUR"},
     ]
-    best, runner, reason = recommend(rows, "°C")
+    best, runner, reason = recommend(rows, "temperature")
     assert (best, runner) == (2, 1)
-    assert "60 °C" in reason and "runner-up 50 °C" in reason and "1 value(s) excluded" in reason
+    assert "60.0 °C" in reason and "runner-up 50.0 °C" in reason and "1 value(s) excluded" in reason
+    # the same reason in US customary units: 60 degC = 140 degF, 50 degC = 122 degF (exact)
+    assert "140.0 °F" in reason.render("US") and "runner-up 122.0 °F" in reason.render("US")
+    assert "°C" not in reason.render("US")
     for r in rows:
         r["has_stop"], r["stop_codes"] = True, ["FLOW-NONE"]
-    best, runner, reason = recommend(rows, "°C")
+    best, runner, reason = recommend(rows, "temperature")
     assert best is None and "FLOW-NONE" in reason
 
 
@@ -69,7 +72,7 @@ def test_a_stop_level_row_is_never_recommended():
     # Fuel-oil barge: steam tracing through a T3 area (IEC 60079-0: 200 degC).  Higher steam pressure
     # pre-warms faster and so saves demurrage, but above about 14.5 bar(g) the tracer passes 200 degC.
     fuel = ROOT / "demo_scenarios" / "fuel_oil_barge_discharge.toml"
-    c = compare(load_scenario(fuel), "steam_pressure", [4.0, 8.0, 12.0, 15.0, 17.0], workers=1)
+    c = compare(load_scenario(fuel), "steam_pressure", [p * 1e5 for p in (4.0, 8.0, 12.0, 15.0, 17.0)], workers=1)
     stops = [i for i, r in enumerate(c.rows) if r["has_stop"]]
     assert stops == [3, 4]
     assert all("TCLASS-EXCEEDED" in c.rows[i]["stop_codes"] for i in stops)
@@ -90,7 +93,7 @@ def test_parallel_rows_equal_serial_rows():
 
 
 def test_sensitivity_reruns_with_ambient_and_viscosity_moved():
-    c = compare(syrup(85.0), "setpoint", [45.0, 55.0], workers=1, sensitivity=True, ambient_shift=10.0,
+    c = compare(syrup(85.0), "setpoint", [318.15, 328.15], workers=1, sensitivity=True, ambient_shift=10.0,
                 viscosity_uncertainty=0.3)
     assert set(c.sensitivity) == {"ambient -10 K", "ambient +10 K", "viscosity -30 %", "viscosity +30 %"}
     # thicker product: a longer transfer costs more demurrage at every setpoint

@@ -209,8 +209,9 @@ def test_report_is_self_contained_and_carries_the_cautions():
     page = build_report_html(scenario, bundle, "US")
     assert page.count("<script") >= 2 and re.search(r"<script[^>]*\bsrc\s*=", page) is None   # nothing fetched
     assert "Plotly.newPlot" in page and len(page) > 3_000_000     # plotly.js inlined (about 4.6 MB)
-    assert page.count(STANDING_CAUTION) >= 2 and EXTRA_CAUTION in page
-    for k in key_figures(bundle["plan"], bundle["outlet_rating"], "US"):
+    assert page.count(STANDING_CAUTION) >= 2 and EXTRA_CAUTION.render("US") in page
+    assert "about 140 °F burn" in page          # 60 degC = 140 degF (exact)
+    for k in key_figures(bundle, "US"):
         assert k.text in page
     for f in bundle["findings"]:
         assert f["code"] in page

@@ -73,8 +73,23 @@ def test_demo_log_fits_applies_and_saves(db):
     assert revision.scenario.calibration.viscosity_factor == pytest.approx(calibration["viscosity_factor"])
 
 
-def test_a_log_that_cannot_be_read_shows_its_message(db):
+def test_without_a_log_the_tab_asks_for_one(db):
     at = _calibration_tab()
-    at.session_state["cal_demo_log"] = False
-    at.run()
+    assert not at.exception, at.exception
     assert any("Upload a log" in i.value for i in at.info)
+    assert any("In use now: no calibration" in c.value for c in at.caption)
+
+
+def test_a_log_that_cannot_be_read_shows_its_message():
+    # the page's fit job with the bytes an upload would give: the planner's message, no traceback
+    from dashboard.calibration_data import fit_document as cached_fit
+    from planner.scenario.schema import scenario_to_json
+
+    scenario_json = scenario_to_json(load_scenario(BARGE))
+    missing = cached_fit(scenario_json, b"time [min],discharge_pressure [bar]\n1,5\n", "bad.csv", "", ("viscosity_factor",))
+    assert "no flow column" in missing["error"]
+    bad_map = cached_fit(scenario_json, DEMO_LOG.read_bytes(), DEMO_LOG.name, "[columns\n", ("viscosity_factor",))
+    assert "column map cannot be read as TOML" in bad_map["error"]
+    rows = "time [min],flow [m3/h],discharge_pressure [bar]\n" + "".join(f"{i},100,5\n" for i in range(1600))
+    big = cached_fit(scenario_json, rows.encode(), "big.csv", "", ("viscosity_factor",))
+    assert "up to 1500 rows" in big["error"]

@@ -10,6 +10,7 @@ import pytest
 
 from conftest import base_scenario, newtonian_product
 from planner.checks.findings import assess
+from unit_words import assert_speaks, rendered_plan_texts
 from planner.transfer.plan import make_plan
 from planner.transfer.pumps import hi_parameter_b
 from planner.correlations.ratings import flange_rating, temperature_class_limit
@@ -36,9 +37,19 @@ def plan_of(data):
     return make_plan(scenario_from_dict(data))
 
 
+RENDERED_CODES: set[str] = set()
+
+
 def found(data) -> dict:
+    """The findings of the scenario's plan by code.  Every plan built here is also read in both unit
+    systems: the US text has no SI unit word and the SI text no US one (``unit_words``)."""
     plan = plan_of(data)
-    return {f.code: f for f in assess(plan)}
+    findings = assess(plan)
+    for system in ("SI", "US"):
+        for text in rendered_plan_texts(plan, findings, system):
+            assert_speaks(text, system)
+    RENDERED_CODES.update(f.code for f in findings)
+    return {f.code: f for f in findings}
 
 
 def test_clean_scenario_has_only_the_standing_caution():
@@ -405,3 +416,104 @@ def test_b16_5_interpolates_and_refuses_outside_the_table():
 def test_iec_60079_temperature_classes(cls, celsius):
     # IEC 60079-0 maximum surface temperatures [pub, REFERENCES.md]
     assert temperature_class_limit(cls) == pytest.approx(celsius + 273.15)
+
+
+CURVE = [{"flow": 0, "head": 60, "efficiency": 0.0}, {"flow": "40 m3/h", "head": 55, "efficiency": 0.6},
+         {"flow": "80 m3/h", "head": 45, "efficiency": 0.72}, {"flow": "120 m3/h", "head": 28, "efficiency": 0.6}]
+
+
+def centrifugal_bench(**pump):
+    d = bench(product=newtonian_product(mu_pa_s=1e-3, density=1000.0, cp=4000.0, k=0.6))
+    d["pump"] = {"kind": "centrifugal", "speed": "2950 rpm", "curve": CURVE, **pump}
+    d["route"]["segments"][0].update(nps="6", length=30.0, elevation_change=0.0)
+    return d
+
+
+def test_centrifugal_beyond_its_curve_and_a_setpoint_out_of_reach():
+    falling = centrifugal_bench()
+    falling["route"]["segments"][0]["elevation_change"] = -29.0      # the line falls: no head needed at any rate
+    assert found(falling)["PUMP-BEYOND-CURVE"].severity == "warning"
+    longer = centrifugal_bench()
+    longer["route"]["segments"][0].update(nps="3", length=200.0)     # friction meets the curve before its end
+    assert "PUMP-BEYOND-CURVE" not in found(longer)
+
+    def held(rate):
+        d = centrifugal_bench(control="fixed_flow", flow_setpoint=rate)
+        d["route"]["segments"][0].update(nps="3", length=200.0)
+        return d
+
+    assert found(held("100 m3/h"))["FLOW-SETPOINT-SHORT"].severity == "warning"   # above the 55-60 m curve
+    assert "FLOW-SETPOINT-SHORT" not in found(held("20 m3/h"))
+
+
+def test_flange_table_range_below_minus_29_c():
+    # ASME B16.5-2009 Table 2-1.1 starts at -29 degC; below it the rating depends on impact-tested material
+    def cold(celsius):
+        d = bench()
+        d["source"]["temperature"] = celsius
+        d["site"]["ambient_temperature"] = celsius
+        d["schedule"]["line_start_temperature"] = celsius
+        d["route"]["segments"][0]["flange_class"] = 150
+        return d
+
+    assert found(cold(-35.0))["FLANGE-TEMP-RANGE"].severity == "warning"
+    assert "FLANGE-TEMP-RANGE" not in found(cold(-25.0))
+
+
+def cold_start(**pump) -> dict:
+    """Viscosity rising as the product cools (Andrade, b = 3000 K; 0.5 Pa s at 20 degC); the line's
+    contents at -10 degC are pushed out at the start."""
+    d = bench()
+    d["product"]["viscosity"] = {"law": "andrade", "coefficients": {"a": math.log(0.5) - 3000.0 / 293.15, "b": 3000.0}}
+    d["schedule"].update(start_mode="push_cold", line_start_temperature=-10.0)
+    d["site"]["ambient_temperature"] = -10.0
+    d["pump"].update(pump)
+    return d
+
+
+def test_start_up_push_against_ratings_and_the_relief():
+    push = plan_of(cold_start()).startup_push
+    peak = push.peak_discharge_pressure_pa
+
+    def rated(rating):
+        d = cold_start()
+        d["route"]["segments"][0]["pressure_rating"] = f"{rating} Pa"
+        return d
+
+    f = straddle(rated, "PRESSURE-START", "stop", peak)
+    assert f.value == pytest.approx(peak, rel=1e-9) and f.quantity == "pressure"
+    assert "RELIEF-LIFTING-START" in found(cold_start(relief_setting=f"{0.6 * peak} Pa"))
+    assert "RELIEF-LIFTING-START" not in found(cold_start(relief_setting=f"{1.3 * peak} Pa"))
+
+
+def test_contents_below_their_no_flow_temperature_cannot_be_pushed_out():
+    def standing(line_c):
+        d = bench()
+        d["product"]["no_flow_temperature"] = 10.0
+        d["schedule"].update(start_mode="push_cold", line_start_temperature=line_c)
+        return d
+
+    assert found(standing(5.0))["COLD-START-IMPOSSIBLE"].severity == "stop"
+    assert "COLD-START-IMPOSSIBLE" not in found(standing(15.0))
+
+
+def test_a_calibrated_plan_says_so():
+    d = bench()
+    d["calibration"] = {"viscosity_factor": 1.2}
+    assert found(d)["CALIBRATION-IN-USE"].severity == "info"
+    assert "CALIBRATION-IN-USE" not in found(bench())
+
+
+def test_every_finding_code_was_read_in_both_unit_systems():
+    """Run last in this file: the generated scenarios above triggered (and rendered) every code."""
+    import re
+    from pathlib import Path
+
+    import planner.checks.findings as module
+
+    if len(RENDERED_CODES) < 5:
+        pytest.skip("run the whole file: the codes are collected by the tests above")
+    source = Path(module.__file__).read_text(encoding="utf-8")
+    codes = set(re.findall(r'Finding\(\s*"([A-Z0-9-]+)"', source))
+    missing = codes - RENDERED_CODES
+    assert not missing, f"codes no generated scenario triggered: {sorted(missing)}"

@@ -26,8 +26,8 @@ from scipy.optimize import least_squares
 from scipy.stats import t as student_t
 
 from planner.calibration.log import TransferLog
-from planner.calibration.replay import (FACTOR_NAMES, Replay, Replayer, heater_holding_fraction, pd_slip_applies,
-                                        with_factors)
+from planner.calibration.replay import (FACTOR_NAMES, Replay, Replayer, heater_holding_fraction, input_notes,
+                                        pd_slip_applies, with_factors)
 from planner.errors import ComputationError, ScenarioError
 from planner.scenario.schema import Calibration, CalibrationSource, Scenario, calibration_of
 
@@ -83,7 +83,7 @@ def default_factors(scenario: Scenario, log: TransferLog) -> list[str]:
 def noise_estimate(values: np.ndarray) -> float:
     """Noise standard deviation of a logged series from its second differences (robust) [its unit]."""
     x = np.asarray(values, dtype=float)
-    x = x[np.isfinite(x)]
+    x = x[np.isfinite(x)]      # blank cells and rows without a value are left out
     if x.size < 5:
         return 0.0
     d2 = x[2:] - 2.0 * x[1:-1] + x[:-2]
@@ -100,8 +100,8 @@ def compared_quantities(scenario: Scenario, log: TransferLog) -> list[str]:
 def _sigmas(log: TransferLog, quantities: list[str]) -> dict[str, float]:
     sigmas = {}
     for q in quantities:
-        floor = NOISE_FLOOR[q] * (float(np.mean(log.values["flow"])) if q == "flow" else 1.0)
-        sigmas[q] = max(noise_estimate(log.values[q]), floor)
+        floor = NOISE_FLOOR[q] * (float(np.mean(log.values["flow"][log.running])) if q == "flow" else 1.0)
+        sigmas[q] = max(noise_estimate(log.values[q][log.running]), floor)
     return sigmas
 
 
@@ -160,13 +160,13 @@ def _fit(scenario: Scenario, log: TransferLog, names: list[str], evaluate: Repla
         raise
     except (ValueError, ArithmeticError) as exc:
         raise ComputationError(f"the fit failed: {exc}") from None
-    n_points = int(sum(np.isfinite(log.values[q]).sum() for q in quantities))
+    final = evaluate(dict(zip(names, solution.x)))
+    n_points = int(sum(np.isfinite(log.values[q] - final.modelled[q]).sum() for q in quantities))
     dof = max(n_points - len(names), 1)
     factors, correlation, warnings = _statistics(names, solution, dof, lower, upper)
-    final = evaluate(dict(zip(names, solution.x)))
     residuals = _residual_table(log, quantities, sigmas, final)
     result = FitResult(scenario, log, factors, correlation, residuals, warnings, final, evaluate.evaluations, dof,
-                       int(final.sets.sum()))
+                       int(final.sets.sum()), input_notes(scenario, log))
     _diagnose(result)
     return result
 

@@ -7,6 +7,11 @@ atmosphere).  ``time`` is a number with its unit (``time [min]``) or, with no un
 ``[ISO 8601]``), timestamps such as ``2026-01-14T06:30:00``.  A column map (TOML, ``[columns]``
 table: ``"historian header" = "quantity [unit]"``) renames other headers.
 
+Cells are separated by commas, semicolons or tabs (from the header line); with semicolons or tabs
+a decimal comma is read too ("4,55").
+
+Rows with flow 0 (pump stopped) are read: they count for the volumes moved, but are not replayed.
+
 Every data row is either read or reported with its reason: nothing is dropped silently.  Blank
 cells of a measured quantity keep the row (that quantity is just not compared there).
 """
@@ -44,14 +49,14 @@ REQUIRED = ("time", "flow")
 MEASURED = ("discharge_pressure", "suction_pressure", "pump_inlet_temperature", "outlet_temperature")
 # limits a logged value must respect to be read [SI]
 LIMITS: dict[str, tuple[float, float, str]] = {
-    "flow": (0.0, 2.0, "flow must be above 0 (a stopped pump cannot be replayed) and at most 2 m³/s"),
+    "flow": (0.0, 2.0, "flow must lie between 0 (pump stopped) and 2 m³/s"),
     "discharge_pressure": (-1.0e5, 5.0e7, "gauge pressure must lie between -1 bar and 500 bar"),
     "suction_pressure": (-1.0e5, 5.0e7, "gauge pressure must lie between -1 bar and 500 bar"),
     "pump_inlet_temperature": (173.15, 773.15, "temperature must lie between -100 °C and 500 °C"),
     "outlet_temperature": (173.15, 773.15, "temperature must lie between -100 °C and 500 °C"),
     "source_temperature": (173.15, 773.15, "temperature must lie between -100 °C and 500 °C"),
     "ambient_temperature": (173.15, 373.15, "ambient must lie between -100 °C and 100 °C"),
-    "speed": (0.0, 500.0, "speed must be above 0 and at most 30 000 rpm"),
+    "speed": (0.0, 500.0, "speed must lie between 0 and 30 000 rpm"),
 }
 MIN_ROWS = 5
 MAX_ROWS = 5000
@@ -95,6 +100,16 @@ class TransferLog:
 
     def has(self, quantity: str) -> bool:
         return quantity in self.values and bool(np.isfinite(self.values[quantity]).any())
+
+    @property
+    def running(self) -> np.ndarray:
+        """Rows with the product moving; rows with flow 0 (pump stopped) count for the volumes moved
+        but are not replayed."""
+        return self.values["flow"] > 0.0
+
+    @property
+    def stopped_rows(self) -> int:
+        return int(np.sum(~self.running))
 
     @property
     def measured(self) -> list[str]:
@@ -219,14 +234,16 @@ def _delimiter(first_line: str) -> str:
     return max(counts, key=counts.get) if max(counts.values()) > 0 else ","
 
 
-def _number(cell: str) -> float:
+def _number(cell: str, decimal_comma: bool = False) -> float:
+    if decimal_comma and "," in cell and "." not in cell:
+        cell = cell.replace(",", ".")
     value = float(cell)
     if not math.isfinite(value):
         raise ValueError(cell)
     return value
 
 
-def _read_row(cells: list[str], columns: dict[int, Column]) -> tuple[dict[str, float], object]:
+def _read_row(cells: list[str], columns: dict[int, Column], decimal_comma: bool = False) -> tuple[dict[str, float], object]:
     """SI values of one row and its timestamp (or None); ValueError with the reason."""
     row: dict[str, float] = {}
     stamp = None
@@ -245,17 +262,17 @@ def _read_row(cells: list[str], columns: dict[int, Column]) -> tuple[dict[str, f
                 raise ValueError(f"time {cell!r} is not an ISO 8601 timestamp") from None
             continue
         try:
-            value = col.offset + col.scale * _number(cell)
+            value = col.offset + col.scale * _number(cell, decimal_comma)
         except ValueError:
             raise ValueError(f"{q} {cell!r} is not a number") from None
         low, high, text = LIMITS.get(q, (-math.inf, math.inf, ""))
-        if value > high or value < low or (q in ("flow", "speed") and value <= low):
+        if value > high or value < low:
             raise ValueError(f"{q} {cell} {col.unit}: {text}")
         row[q] = value
     return row, stamp
 
 
-def _parse_rows(reader, columns: dict[int, Column], width: int):
+def _parse_rows(reader, columns: dict[int, Column], width: int, decimal_comma: bool = False):
     """Readable rows, their file lines, timestamps and the problems of the rest."""
     rows, lines, stamps, problems = [], [], [], []
     comments = 0
@@ -272,7 +289,7 @@ def _parse_rows(reader, columns: dict[int, Column], width: int):
             problems.append((line, f"expected {width} cells, found {len(cells)}"))
             continue
         try:
-            row, stamp = _read_row(cells, columns)
+            row, stamp = _read_row(cells, columns, decimal_comma)
         except ValueError as exc:
             problems.append((line, str(exc)))
             continue
@@ -313,14 +330,15 @@ def read_log(data: bytes | str, name: str = "log.csv", column_map: dict[str, str
     body = [ln for ln in text.splitlines() if ln.strip() and not ln.lstrip().startswith("#")]
     if not body:
         raise LogError(f"{name}: the log is empty")
-    reader = csv.reader(io.StringIO(text), delimiter=_delimiter(body[0]))
+    delimiter = _delimiter(body[0])
+    reader = csv.reader(io.StringIO(text), delimiter=delimiter)
     header = None
     for cells in reader:
         if cells and any(c.strip() for c in cells) and not cells[0].lstrip().startswith("#"):
             header = cells
             break
     columns, ignored = _columns(header, column_map)
-    rows, lines, stamps, problems = _parse_rows(reader, columns, len(header))
+    rows, lines, stamps, problems = _parse_rows(reader, columns, len(header), decimal_comma=delimiter != ",")
     total = len(rows) + len(problems)
     if not rows:
         raise LogError(f"{name}: none of its {total} data rows could be read; first reasons: "
@@ -328,8 +346,10 @@ def read_log(data: bytes | str, name: str = "log.csv", column_map: dict[str, str
     timestamps = columns[[i for i, c in columns.items() if c.quantity == "time"][0]].timestamps
     times, start = _times(rows, stamps, timestamps)
     keep = _increasing(times, rows, lines, problems)
-    if len(keep) < MIN_ROWS:
-        raise LogError(f"{name}: only {len(keep)} of {total} data rows could be read (at least {MIN_ROWS} needed)")
+    running = sum(1 for i in keep if rows[i]["flow"] > 0.0)
+    if running < MIN_ROWS:
+        raise LogError(f"{name}: only {running} of {total} data rows could be read with the product moving "
+                       f"(at least {MIN_ROWS} needed)")
     if len(keep) > MAX_ROWS:
         raise LogError(f"{name}: {len(keep)} readable rows; the fit takes at most {MAX_ROWS}: resample the log")
     t0 = times[keep[0]]

@@ -3,7 +3,7 @@ logged row, for a given set of calibration factors.
 
 Each row is taken as a steady state of the transfer system (``TransferSystem.at_flow``) at the
 logged flow, with the source temperature and the ambient of that row where the log gives them
-(else the scenario's), and the source and destination volumes moved by the logged flow integrated
+(else the scenario's; a logged ambient replaces the site's ambient, not a segment's own), and the source and destination volumes moved by the logged flow integrated
 over time (trapezoids).  The model gives the pump's discharge and suction pressures (gauge), the
 pump inlet temperature and the line outlet temperature.  For a positive-displacement pump with a
 logged speed it also gives the delivered flow at that speed — displacement x speed minus slip at the
@@ -56,6 +56,22 @@ def moved_volume(log: TransferLog) -> np.ndarray:
     return np.concatenate([[0.0], np.cumsum(steps)])
 
 
+def input_notes(scenario: Scenario, log: TransferLog) -> list[str]:
+    """What the replay takes from the scenario because the log does not give it."""
+    notes = []
+    if not log.has("source_temperature"):
+        notes.append(f"source_temperature not logged: the scenario's {scenario.source.temperature - 273.15:.1f} °C "
+                     "is used at every row")
+    if not log.has("ambient_temperature"):
+        notes.append(f"ambient_temperature not logged: the site's {scenario.site.ambient_temperature - 273.15:.1f} °C "
+                     "is used at every row")
+    elif any(s.surroundings.ambient_temperature is not None for r in (scenario.route, scenario.suction) if r
+             for s in r.segments):
+        notes.append("segments with an ambient of their own (e.g. indoor) keep it; the logged ambient replaces "
+                     "the site's elsewhere")
+    return notes
+
+
 def pd_slip_applies(scenario: Scenario, log: TransferLog) -> bool:
     """True when the log shows the slip: a positive-displacement pump with its speed logged."""
     return scenario.pump is not None and scenario.pump.kind == "positive_displacement" and log.has("speed")
@@ -75,8 +91,9 @@ def _inputs(scenario: Scenario, log: TransferLog) -> dict[str, np.ndarray]:
 
 
 def _segments(system: TransferSystem) -> list:
+    """The segments that see the site's ambient (those with an ambient of their own keep it)."""
     lines = [system.discharge_line] + ([system.suction_line] if system.suction_line is not None else [])
-    return [seg for line in lines for seg in line.segments]
+    return [seg for line in lines for seg in line.segments if seg.spec.surroundings.ambient_temperature is None]
 
 
 def replay(scenario: Scenario, log: TransferLog, factors: dict[str, float] | None = None,
@@ -94,6 +111,8 @@ def replay(scenario: Scenario, log: TransferLog, factors: dict[str, float] | Non
     slip = pd_slip_applies(scenario, log)
     speed = log.values.get("speed")
     for k, i in enumerate(index):
+        if not inputs["flow"][i] > 0.0:
+            continue                 # pump stopped: nothing to replay, NaN stays
         shift = float(inputs["ambient_shift"][i])
         for seg, base in zip(segments, base_ambient):
             seg.ambient_temperature = base + shift
@@ -105,7 +124,7 @@ def replay(scenario: Scenario, log: TransferLog, factors: dict[str, float] | Non
         out["suction_pressure"][k] = point.suction_pressure
         out["pump_inlet_temperature"][k] = point.pump_inlet_temperature
         out["outlet_temperature"][k] = point.outlet_temperature
-        if slip and math.isfinite(speed[i]):
+        if slip and math.isfinite(speed[i]) and speed[i] > 0.0:
             out["flow"][k] = _pd_flow(system, log, i, point, float(speed[i]))
     used = {name: float(getattr(calibration_of(calibrated), name)) for name in FACTOR_NAMES}
     return Replay(used, out, sets)
@@ -129,10 +148,11 @@ def _pd_flow(system: TransferSystem, log: TransferLog, i: int, point, speed: flo
 
 def heater_holding_fraction(scenario: Scenario, log: TransferLog) -> float:
     """Share of the discharge line's traced length where the thermostat holds its setpoint, at the
-    log's middle row: there the heat loss is made up by the heater and hardly shows in temperatures."""
+    log's middle running row: there the heat loss is made up by the heater and hardly shows in temperatures."""
     system = TransferSystem(scenario)
     inputs = _inputs(scenario, log)
-    i = log.rows // 2
+    moving = np.flatnonzero(log.running)
+    i = int(moving[moving.size // 2])
     for seg in _segments(system):
         seg.ambient_temperature += float(inputs["ambient_shift"][i])
     state = SystemState(float(inputs["source_temperature"][i]), float(inputs["source_volume"][i]),

@@ -6,20 +6,18 @@ import math
 
 from planner.calibration.fit import FitResult
 from planner.calibration.log import TransferLog
+from planner.plain import plain as _finite   # the package's one NaN-to-None helper
 
 LABELS = {"discharge_pressure": "discharge pressure", "suction_pressure": "suction pressure",
           "pump_inlet_temperature": "pump inlet temperature", "outlet_temperature": "outlet temperature",
           "flow": "flow (PD pump at logged speed)"}
 
 
-def _finite(value):
-    return value if isinstance(value, (int, float)) and math.isfinite(value) else None
-
-
 def log_json(log: TransferLog) -> dict:
     return {
         "file": log.name, "sha256": log.sha256, "rows": log.rows_total, "rows_read": log.rows,
         "rows_unreadable": len(log.problems), "unreadable": log.problem_summary(),
+        "rows_pump_stopped": log.stopped_rows,
         "blank_cells": log.blanks, "ignored_columns": log.ignored_headers,
         "columns": {q: c.header for q, c in log.columns.items()}, "start": log.start,
         "duration_s": float(log.values["time"][-1]),
@@ -41,6 +39,7 @@ def fit_json(result: FitResult) -> dict:
         "replays": result.evaluations,
         "degrees_of_freedom": result.degrees_of_freedom,
         "warnings": result.warnings,
+        "notes": result.notes,
     }
 
 
@@ -62,6 +61,8 @@ def log_lines(log: TransferLog) -> list[str]:
         for group in log.problem_summary():
             where = ", ".join(str(n) for n in group["lines"]) + (" …" if group["count"] > len(group["lines"]) else "")
             lines.append(f"    {group['count']:4d} × {group['reason']} (line {where})")
+    if log.stopped_rows:
+        lines.append(f"  {log.stopped_rows} rows with flow 0 (pump stopped): counted for the volumes moved, not replayed")
     for quantity, count in log.blanks.items():
         lines.append(f"  {quantity}: {count} blank cells (not compared there)")
     if log.ignored_headers:
@@ -82,6 +83,7 @@ def fit_text(result: FitResult) -> str:
         lines.append(f"  {LABELS[q]:32s} {_in_units(q, row['rms']):>12s} {_in_units(q, row['noise']):>12s} "
                      f"{_in_units(q, row['bias']):>12s} {row['count']:5d}")
     lines.append(f"  ({result.evaluations} replays of the log; residual = logged - modelled)")
+    lines += [f"  note: {n}" for n in result.notes]
     if result.warnings:
         lines += ["", "Warnings:"] + [f"  - {w}" for w in result.warnings]
     return "\n".join(lines)

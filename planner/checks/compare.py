@@ -18,19 +18,19 @@ import os
 from concurrent.futures import ProcessPoolExecutor, as_completed
 from dataclasses import dataclass, field
 
-import numpy as np
-
 from planner.errors import PlannerError
-from planner.checks.findings import SEVERITY_RANK, assess, count_by_severity
+from planner.checks.findings import SEVERITY_RANK, assess, count_by_severity, worst_severity
 from planner.transfer.plan import make_plan, with_changes
+from planner.plain import plain
 from planner.scenario.schema import Scenario
+from planner.scenario.wording import Q, Sentence, format_quantity, render
 
 LEVERS = {
-    # lever: (with_changes keyword, display unit, to SI)
-    "setpoint": ("setpoint", "°C", lambda v: v + 273.15),
-    "steam_pressure": ("steam_pressure", "bar(g)", lambda v: v * 1e5),
-    "pump_speed": ("pump_speed", "rpm", lambda v: v / 60.0),
-    "flow_limit": ("flow_limit", "m³/h", lambda v: v / 3600.0),
+    # lever: (with_changes keyword, quantity kind, SI unit of its values)
+    "setpoint": ("setpoint", "temperature", "K"),
+    "steam_pressure": ("steam_pressure", "pressure", "Pa"),
+    "pump_speed": ("pump_speed", "rotational_speed", "rev/s"),
+    "flow_limit": ("flow_limit", "volume_flow", "m3/s"),
 }
 PARALLEL_MIN_ROWS = 4
 
@@ -38,8 +38,8 @@ PARALLEL_MIN_ROWS = 4
 @dataclass
 class Comparison:
     lever: str
-    unit: str
-    values: list[float]
+    quantity: str             # kind of the lever's values (temperature, pressure, ...)
+    values: list[float]       # SI
     rows: list[dict]
     recommended: int | None
     runner_up: int | None
@@ -59,7 +59,8 @@ def _numbers(parts: list[str]) -> list[float] | None:
 
 
 def parse_range(text: str, max_values: int | None = None) -> list[float]:
-    """'40:70:5' -> [40, 45, ..., 70]; '40,50,65' -> [40, 50, 65] (display units); at most ``max_values``
+    """'40:70:5' -> [40, 45, ..., 70]; '40,50,65' -> [40, 50, 65] (numbers as written: the caller converts
+    them from its unit system to SI); at most ``max_values``
     (default: the work budget's ``comparison_values``) finite values either way."""
     from planner.scenario.budget import active_budget
 
@@ -89,11 +90,11 @@ def parse_range(text: str, max_values: int | None = None) -> list[float]:
 
 def _row(scenario: Scenario, lever: str, value: float, viscosity_factor: float, ambient_shift: float) -> dict:
     """One comparison row (runs in a worker process: the validated scenario in, plain data out; the
-    scenario is pickled as it is, so a row never parses or validates it again)."""
-    keyword, unit, to_si = LEVERS[lever]
+    scenario is pickled as it is, so a row never parses or validates it again; ``value`` SI)."""
+    keyword, _, unit = LEVERS[lever]
     row = {"value": value, "unit": unit, "ok": False}
     try:
-        changed = with_changes(scenario, ambient_shift=ambient_shift, **{keyword: to_si(value)})
+        changed = with_changes(scenario, ambient_shift=ambient_shift, **{keyword: value})
         plan = make_plan(changed, viscosity_factor=viscosity_factor, both_startups=False)
         findings = assess(plan)
     except (PlannerError, ValueError) as exc:
@@ -105,20 +106,19 @@ def _row(scenario: Scenario, lever: str, value: float, viscosity_factor: float, 
     if plan.suction_profile is not None:
         jackets.append(plan.suction_profile.summary.max_jacket_temperature_k)
         sheaths.append(plan.suction_profile.summary.max_sheath_temperature_k)
-    peak = float(np.max(t["discharge_pressure_pa"])) if len(t["discharge_pressure_pa"]) else math.nan
-    if plan.startup_push is not None:
-        peak = max(peak, plan.startup_push.peak_discharge_pressure_pa)
+    peak = plan.peak_discharge_pressure_pa
     counts = count_by_severity(findings)
+    energy = plan.energy.as_dict()
     row.update(
         ok=True, status=plan.start.status, start_flow_m3_s=plan.start.flow,
         transfer_time_s=plan.timeline.total_time_s, startup_time_s=plan.startup_time_s,
-        total_time_s=plan.total_time_s, tracing_kwh=plan.energy["tracing_kwh"],
-        tracing_steam_kg=plan.energy["tracing_steam_kg"], pump_kwh=plan.energy["pump_kwh"],
-        energy_cost=plan.costs["energy"], demurrage=plan.costs["demurrage"], total_cost=plan.costs["total"],
-        currency=plan.costs["currency"], peak_pressure_pa=peak,
+        total_time_s=plan.total_time_s, tracing_kwh=energy["tracing_kwh"],
+        tracing_steam_kg=energy["tracing_steam_kg"], pump_kwh=energy["pump_kwh"],
+        energy_cost=plan.costs.energy, demurrage=plan.costs.demurrage, total_cost=plan.costs.total,
+        currency=plan.costs.currency, peak_pressure_pa=math.nan if peak is None else peak,
         hottest_jacket_k=max(jackets) if jackets else math.nan, hottest_sheath_k=max(sheaths) if sheaths else math.nan,
-        counts=counts, has_stop=counts["stop"] > 0, findings=[f.as_dict() for f in findings],
-        stop_codes=[f.code for f in findings if f.severity == "stop"],
+        counts=counts, has_stop=counts["stop"] > 0, worst_severity=worst_severity(findings),
+        findings=[f.as_dict() for f in findings], stop_codes=[f.code for f in findings if f.severity == "stop"],
     )
     if plan.total_time_s is None:
         row["total_cost"] = math.inf  # the plan cannot be carried out as it stands
@@ -166,7 +166,9 @@ def _run_rows(scenario: Scenario, lever: str, values: list[float], viscosity_fac
     return rows
 
 
-def recommend(rows: list[dict], unit: str) -> tuple[int | None, int | None, str]:
+def recommend(rows: list[dict], quantity: str) -> tuple[int | None, int | None, str]:
+    """The row with the lowest total cost among those with no stop-level finding, the runner-up and
+    the reason (a Sentence: values render in either unit system)."""
     allowed = [i for i, r in enumerate(rows) if r.get("ok") and not r["has_stop"] and math.isfinite(r["total_cost"])]
     if not allowed:
         codes = sorted({c for r in rows for c in r.get("stop_codes", [])} | {"ERROR" for r in rows if not r.get("ok")})
@@ -176,22 +178,27 @@ def recommend(rows: list[dict], unit: str) -> tuple[int | None, int | None, str]
     best = ranked[0]
     runner = ranked[1] if len(ranked) > 1 else None
     r = rows[best]
-    reason = (f"{r['value']:g} {unit}: lowest total cost {r['total_cost']:.2f} {r['currency']} (energy "
-              f"{r['energy_cost']:.2f} + demurrage {r['demurrage']:.2f}, {r['total_time_s'] / 3600:.1f} h) among "
-              f"{len(allowed)} of {len(rows)} values with no stop-level finding")
     excluded = len(rows) - len(allowed)
-    if excluded:
-        reason += f"; {excluded} value(s) excluded for stop-level findings"
-    if runner is not None:
-        rr = rows[runner]
-        reason += f"; runner-up {rr['value']:g} {unit} at {rr['total_cost']:.2f} {rr['currency']}"
+    reason = Sentence("{v}: lowest total cost {cost} {cur} (energy {energy} + demurrage {dem}, {t}) among {n} of "
+                      "{total} values with no stop-level finding{excluded}{runner}",
+                      v=Q(r["value"], quantity, _lever_decimals(quantity)), cost=f"{r['total_cost']:.2f}",
+                      cur=r["currency"], energy=f"{r['energy_cost']:.2f}", dem=f"{r['demurrage']:.2f}",
+                      t=Q(r["total_time_s"], "time"), n=len(allowed), total=len(rows),
+                      excluded=f"; {excluded} value(s) excluded for stop-level findings" if excluded else "",
+                      runner="" if runner is None else Sentence(
+                          "; runner-up {v} at {cost} {cur}", v=Q(rows[runner]["value"], quantity, _lever_decimals(quantity)),
+                          cost=f"{rows[runner]['total_cost']:.2f}", cur=rows[runner]["currency"]))
     return best, runner, reason
+
+
+def _lever_decimals(quantity: str) -> int:
+    return {"temperature": 1, "pressure": 2, "rotational_speed": 0, "volume_flow": 1}.get(quantity, 2)
 
 
 def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | None = None, progress=None,
             workers: int | None = None, sensitivity: bool = False, ambient_shift: float = 10.0,
             viscosity_uncertainty: float = 0.2) -> Comparison:
-    """Rows for each ``values`` (display units: °C, bar(g), rpm, m³/h) of ``lever``."""
+    """Rows for each of ``values`` (SI: K, Pa gauge, rev/s, m3/s) of ``lever``."""
     if lever not in LEVERS:
         raise ValueError(f"unknown lever {lever!r}; levers are {', '.join(LEVERS)}")
     if lever == "setpoint" and scenario.tracing.kind in ("none",):
@@ -201,10 +208,11 @@ def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | N
     if not values:
         raise ValueError("give at least one value to compare")
     _check_work(scenario, values, sensitivity, ambient_shift, viscosity_uncertainty)
-    unit = LEVERS[lever][1]
+    quantity = LEVERS[lever][1]
     cases = [(1.0, 0.0, "as given")]
     if sensitivity:
-        cases += [(1.0, -ambient_shift, f"ambient {-ambient_shift:+g} K"), (1.0, ambient_shift, f"ambient {ambient_shift:+g} K"),
+        shifted = lambda sign: Sentence("ambient {s}{d}", s=sign, d=Q(abs(ambient_shift), "temperature_difference"))  # noqa: E731
+        cases += [(1.0, -ambient_shift, shifted("-")), (1.0, ambient_shift, shifted("+")),
                   (1.0 - viscosity_uncertainty, 0.0, f"viscosity {-viscosity_uncertainty * 100:+g} %"),
                   (1.0 + viscosity_uncertainty, 0.0, f"viscosity {viscosity_uncertainty * 100:+g} %")]
     total = len(values) * len(cases)
@@ -218,9 +226,9 @@ def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | N
     for factor, shift, label in cases:
         rows = _run_rows(scenario, lever, values, factor, shift, step_progress, workers)
         offset[0] += len(values)
-        results[label] = (rows, *recommend(rows, unit))
+        results[label] = (rows, *recommend(rows, quantity))
     rows, best, runner, reason = results["as given"]
-    comparison = Comparison(lever, unit, list(values), rows, best, runner, reason)
+    comparison = Comparison(lever, quantity, list(values), rows, best, runner, reason)
     for label, (r, b, _, why) in results.items():
         if label != "as given":
             comparison.sensitivity[label] = {"recommended_value": None if b is None else r[b]["value"], "reason": why,
@@ -241,44 +249,49 @@ def _check_work(scenario: Scenario, values, sensitivity: bool, ambient_shift: fl
 
 
 def comparison_json(comparison: Comparison) -> dict:
-    def clean(v):
-        if isinstance(v, float) and not math.isfinite(v):
-            return None
-        if isinstance(v, dict):
-            return {k: clean(x) for k, x in v.items()}
-        if isinstance(v, list):
-            return [clean(x) for x in v]
-        return v
-
-    return clean({
-        "lever": comparison.lever, "unit": comparison.unit, "values": comparison.values, "rows": comparison.rows,
+    """The comparison as JSON: lever values and every figure in SI, each row's findings."""
+    return plain({
+        "lever": comparison.lever, "quantity": comparison.quantity, "unit": LEVERS[comparison.lever][2],
+        "values": comparison.values, "rows": comparison.rows,
         "recommended_index": comparison.recommended, "recommended_value":
             None if comparison.recommended is None else comparison.rows[comparison.recommended]["value"],
         "runner_up_index": comparison.runner_up, "reason": comparison.reason, "sensitivity": comparison.sensitivity,
     })
 
 
-def comparison_table(comparison: Comparison) -> str:
+def _row_line(mark: str, r: dict, quantity: str, system: str) -> str:
+    cell = lambda v, kind, d: format_quantity(v, kind, system, d).rsplit(" ", 1)[0]  # noqa: E731
+    k = r["counts"]
+    total_h = "—" if r["total_time_s"] is None else cell(r["total_time_s"], "time", 2)
+    return (f"{mark} {cell(r['value'], quantity, _lever_decimals(quantity)):>8}   "
+            f"{cell(r['start_flow_m3_s'], 'volume_flow', 1):>9}   {cell(r['transfer_time_s'], 'time', 2):>10}   "
+            f"{total_h:>7}   {r['energy_cost']:6.1f}   {r['demurrage']:9.1f}   {r['total_cost']:6.1f}   "
+            f"{cell(r['peak_pressure_pa'], 'pressure', 2):>8}   {cell(r['hottest_jacket_k'], 'temperature', 1):>9}   "
+            f"{k['stop']}/{k['warning']}/{k['caution']}")
+
+
+def comparison_table(comparison: Comparison, system: str = "SI") -> str:
+    """The comparison as a text table in ``system``, with each row's warnings and stops."""
+    from planner.scenario.units import unit_label
+
     c = comparison
-    lines = [f"  {c.lever} [{c.unit}]   flow m³/h   transfer h   total h   energy   demurrage    total   peak bar   "
-             f"jacket °C   stop/warn/caut"]
+    u = lambda kind: unit_label(kind, system)  # noqa: E731
+    lines = [f"  {c.lever} [{u(c.quantity)}]   flow {u('volume_flow')}   transfer h   total h   energy   demurrage"
+             f"    total   peak {u('pressure')}   jacket {u('temperature')}   stop/warn/caut"]
     for i, r in enumerate(c.rows):
         mark = " *" if i == c.recommended else ("  " if i != c.runner_up else " 2")
         if not r.get("ok"):
-            lines.append(f"{mark} {r['value']:>8g}   error: {r.get('error', '')}")
+            lines.append(f"{mark} {format_quantity(r['value'], c.quantity, system)}   error: "
+                         f"{render(r.get('error', ''), system)}")
             continue
-        k = r["counts"]
-        total_h = "—" if r["total_time_s"] is None else f"{r['total_time_s'] / 3600:7.2f}"
-        lines.append(f"{mark} {r['value']:>8g}   {r['start_flow_m3_s'] * 3600:9.1f}   {r['transfer_time_s'] / 3600:10.2f}   "
-                     f"{total_h:>7}   {r['energy_cost']:6.1f}   {r['demurrage']:9.1f}   {r['total_cost']:6.1f}   "
-                     f"{r['peak_pressure_pa'] / 1e5:8.2f}   {r['hottest_jacket_k'] - 273.15:9.1f}   "
-                     f"{k['stop']}/{k['warning']}/{k['caution']}")
+        lines.append(_row_line(mark, r, c.quantity, system))
         severe = [f for f in r["findings"] if SEVERITY_RANK[f["severity"]] >= SEVERITY_RANK["warning"]]
         for f in severe:
-            lines.append(f"             {f['severity']:7s} {f['code']}: {f['message']}")
+            lines.append(f"             {f['severity']:7s} {f['code']}: {render(f['message'], system)}")
     lines.append("")
-    lines.append(f"  recommendation: {c.reason}")
+    lines.append(f"  recommendation: {render(c.reason, system)}")
     for label, s in c.sensitivity.items():
-        value = "none" if s["recommended_value"] is None else f"{s['recommended_value']:g} {c.unit}"
-        lines.append(f"  with {label}: {value}")
+        value = "none" if s["recommended_value"] is None else format_quantity(s["recommended_value"], c.quantity, system,
+                                                                               _lever_decimals(c.quantity))
+        lines.append(f"  with {render(label, system)}: {value}")
     return "\n".join(lines)

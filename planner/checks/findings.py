@@ -14,10 +14,14 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from planner.checks.caution import STANDING_CAUTION
+from planner.correlations.ratings import temperature_class_limit
 from planner.line.heat_loss import jacket_temperature
+from planner.line.march import Line, MarchResult
+from planner.scenario.schema import Scenario
+from planner.scenario.units import SI_UNITS
+from planner.scenario.wording import Q, Sentence, render
 from planner.transfer.plan import Plan
-from planner.correlations.ratings import flange_rating, temperature_class_limit
-from planner.reports.text import STANDING_CAUTION
 
 SEVERITIES = ("info", "caution", "warning", "stop")
 SEVERITY_RANK = {name: i for i, name in enumerate(SEVERITIES)}
@@ -27,9 +31,17 @@ SIEDER_TATE_PR_MAX = 16700.0       # Sieder & Tate (1936): 0.48 < Pr < 16 700
 GNIELINSKI_PR_MAX = 2000.0         # Gnielinski (1976): 0.5 < Pr < 2000
 HI_B_MAX = 40.0                    # ANSI/HI 9.6.7: B up to 40
 
+# SI unit of each quantity kind a finding may carry (for the JSON; "" when dimensionless)
+_SI_LABELS = {"temperature": "K", "pressure": "Pa", "length": "m", "head": "m", "power": "W", "time": "s",
+              "speed": "m/s", "linear_power": "W/m", "heat_transfer_coefficient": "W/(m2 K)",
+              "volume_flow": "m3/s", "volume": "m3", "dimensionless": ""}
+
 
 @dataclass
 class Finding:
+    """One finding.  ``value`` and ``limit`` are SI numbers of the kind ``quantity`` (temperature,
+    pressure, length, ...); ``message`` is a ``Sentence`` that renders in either unit system."""
+
     code: str
     severity: str
     title: str
@@ -40,18 +52,35 @@ class Finding:
     at_m: float | None = None
     value: float | None = None
     limit: float | None = None
-    unit: str = ""
+    quantity: str = ""
 
-    def as_dict(self) -> dict:
-        return dataclasses.asdict(self)
+    @property
+    def unit(self) -> str:
+        """The SI unit of ``value`` and ``limit``."""
+        return _SI_LABELS.get(self.quantity, SI_UNITS.get(self.quantity, ""))
+
+    def where(self) -> dict:
+        return {"line": self.line, "segment": self.segment, "at_m": self.at_m}
+
+    def as_dict(self, system: str | None = None) -> dict:
+        """The finding as the JSON documents carry it (SI numbers); ``system`` renders the message in that
+        unit system, else it stays a ``Sentence`` (text in SI display units)."""
+        return {"code": self.code, "severity": self.severity, "title": self.title,
+                "message": self.message if system is None else render(self.message, system),
+                "where": self.where(), "value": self.value, "limit": self.limit, "quantity": self.quantity,
+                "unit": self.unit, "action": self.action}
 
 
-def _c(kelvin: float) -> str:
-    return f"{kelvin - 273.15:.1f} °C"
+def _t(kelvin: float) -> Q:
+    return Q(kelvin, "temperature")
 
 
-def _bar(pa: float) -> str:
-    return f"{pa / 1e5:.2f} bar"
+def _p(pa: float) -> Q:
+    return Q(pa, "pressure")
+
+
+def _x(metres: float) -> Q:
+    return Q(metres, "length")
 
 
 def _segment_at(segments, x: float):
@@ -61,34 +90,296 @@ def _segment_at(segments, x: float):
     return segments[-1]
 
 
-def _profiles(plan: Plan):
-    """(line name, segments, MarchResult, inlet gauge pressure) for the recorded start profiles."""
+@dataclass
+class LineRun:
+    """One steady march along one line: its name, the line (segments, heaters, product), the result and
+    the gauge pressure its relative pressures are added to."""
+
+    name: str
+    line: Line
+    result: MarchResult
+    base_pressure: float
+
+
+def _profiles(plan: Plan) -> list[LineRun]:
+    """The recorded start profiles.  The discharge line's pressures take the highest running discharge
+    pressure of the timeline with the start's profile shape; the suction's, the source pressure."""
     out = []
     system = plan.system
     if plan.suction_profile is not None and system.suction_line is not None:
-        out.append(("suction", system.suction_line.segments, plan.suction_profile, 0.0))
+        out.append(LineRun("suction", system.suction_line, plan.suction_profile,
+                           system.source_pressure(_start_state(plan))))
     if plan.start_profile is not None:
-        out.append(("discharge", system.discharge_line.segments, plan.start_profile, plan.start.point.discharge_pressure))
+        t = plan.timeline.arrays["discharge_pressure_pa"]
+        peak_running = float(np.max(t)) if len(t) else 0.0
+        base = max(plan.start.point.discharge_pressure, peak_running)
+        out.append(LineRun("discharge", system.discharge_line, plan.start_profile, base))
     return out
 
 
-def _heater_of(plan: Plan, line: str, seg):
-    system = plan.system
-    owner = system.suction_line if line == "suction" else system.discharge_line
-    return owner.heaters[seg.index]
+def _segment_steps(run: LineRun):
+    """(segment, heater, its mid-step values) along one march."""
+    steps = run.result.steps
+    for seg, heater in zip(run.line.segments, run.line.heaters):
+        inside = steps["segment"] == seg.index
+        if inside.any():
+            yield seg, heater, {key: values[inside] for key, values in steps.items()}
 
 
-def _segment_steps(plan: Plan):
-    """(line name, segment, its mid-step values) along the recorded start profiles."""
-    for name, segments, result, _ in _profiles(plan):
-        steps = result.steps
-        for seg in segments:
-            inside = steps["segment"] == seg.index
-            if inside.any():
-                yield name, seg, {key: values[inside] for key, values in steps.items()}
+# -- checks on one line (evaluate and plan) -------------------------------------------------------
+
+def line_surfaces(scenario: Scenario, run: LineRun) -> list[Finding]:
+    """Jacket against the touch limit; heater sheath or steam tracer against the area's temperature
+    class (IEC 60079-0) and the heater's exposure rating."""
+    limits, tracing = scenario.limits, scenario.tracing
+    out = []
+    for seg, heater, steps in _segment_steps(run):
+        jacket, xs = steps["jacket_temperature"], steps["x"]
+        i = int(np.argmax(jacket))
+        if jacket[i] > limits.touch_temperature:
+            out.append(Finding(
+                "SURFACE-HOT", "warning", "Hot surface",
+                Sentence("jacket reaches {t}, above the touch limit {limit}", t=_t(jacket[i]),
+                         limit=_t(limits.touch_temperature)),
+                "Fit personnel protection (guards or extra insulation) and warning signs where people can reach.",
+                run.name, seg.name, float(xs[i]), float(jacket[i]), limits.touch_temperature, "temperature"))
+        if not heater.active:
+            continue
+        j = int(np.argmax(steps["sheath_temperature"]))
+        worst, at = float(steps["sheath_temperature"][j]), float(xs[j])
+        if heater.kind != "steam" and heater.setpoint is not None:
+            # the thermostat lets the heater run flat out until the pipe reaches the setpoint: the
+            # sheath is then hottest (setpoint + full output per run / sheath-to-pipe conductance)
+            at_setpoint = heater.sheath_temperature(heater.setpoint, heater.capacity(heater.setpoint))
+            if at_setpoint > worst:
+                worst, at = at_setpoint, seg.x_start
+        what = "steam tracer" if tracing.kind == "steam" else "heater sheath"
+        if seg.hazardous_area_class:
+            limit = temperature_class_limit(seg.hazardous_area_class)
+            if worst > limit:
+                out.append(Finding(
+                    "TCLASS-EXCEEDED", "stop", "Tracer too hot for the hazardous area",
+                    Sentence("{what} at {t} exceeds {cls} ({limit}, IEC 60079-0)", what=what, t=_t(worst),
+                             cls=seg.hazardous_area_class, limit=_t(limit)),
+                    "Lower the steam pressure or use a heater rated for the area's temperature class, with a "
+                    "limiter where the design needs one; follow the site's hazardous-area rules.",
+                    run.name, seg.name, at, worst, limit, "temperature"))
+        exposure = tracing.max_exposure_temperature
+        if exposure is not None and worst > exposure:
+            out.append(Finding(
+                "HEATER-EXPOSURE", "stop", "Heater above its exposure rating",
+                Sentence("heater sheath at {t} exceeds its maximum exposure temperature {limit}", t=_t(worst),
+                         limit=_t(exposure)),
+                "Lower the setpoint or product temperature, or choose a heater with a higher exposure rating.",
+                run.name, seg.name, at, worst, exposure, "temperature"))
+    return out
 
 
-# -- checks -------------------------------------------------------------------------------------------
+def line_pressures(run: LineRun) -> list[Finding]:
+    """Pressure along the line against each segment's own rating and its ASME B16.5 flange rating at the
+    product temperature there."""
+    out = []
+    nodes = run.result.nodes
+    pressures = run.base_pressure + nodes["pressure"]
+    temps = nodes["temperature"]
+    for seg in run.line.segments:
+        inside = (nodes["x"] >= seg.x_start - 1e-9) & (nodes["x"] <= seg.x_end + 1e-9)
+        if not inside.any():
+            continue
+        p, temp, xs = pressures[inside], temps[inside], nodes["x"][inside]
+        i = int(np.argmax(p))
+        if seg.pressure_rating is not None and p[i] > seg.pressure_rating:
+            kind = {"hose": "hose", "loading_arm": "loading arm"}.get(seg.kind, "pipe")
+            out.append(Finding(
+                "PRESSURE-RATING", "stop", f"Pressure above the {kind} rating",
+                Sentence("{p} at {x} exceeds the {kind} rating {limit}", p=_p(p[i]), x=_x(xs[i]), kind=kind,
+                         limit=_p(seg.pressure_rating)),
+                "Lower the flow or warm the product to cut the pressure; do not exceed the rating.",
+                run.name, seg.name, float(xs[i]), float(p[i]), seg.pressure_rating, "pressure"))
+        if seg.flange_class is not None:
+            out.extend(_flange_findings(run.name, seg, p, temp, xs))
+    return out
+
+
+def _flange_findings(line: str, seg, p, temp, xs) -> list[Finding]:
+    worst = None
+    for k, tk in enumerate(temp):
+        rating = seg.flange_rating_at(float(tk))
+        if rating is None:
+            return [Finding(
+                "FLANGE-TEMP-RANGE", "warning", "Flange rating outside its table",
+                Sentence("product at {t} is outside the ASME B16.5 Group 1.1 table ({low} to {high})",
+                         t=_t(tk), low=_t(273.15 - 29.0), high=_t(273.15 + 450.0)),
+                "Check the flange material's rating at this temperature with the piping engineer.",
+                line, seg.name, float(xs[k]), float(tk), None, "temperature")]
+        if p[k] > rating and (worst is None or p[k] - rating > worst[0]):
+            worst = (p[k] - rating, k, rating)
+    if worst is None:
+        return []
+    _, k, rating = worst
+    return [Finding(
+        "FLANGE-RATING", "stop", "Pressure above the flange rating",
+        Sentence("{p} at {x} exceeds ASME B16.5 Class {cls} (Group 1.1) {limit} at {t}", p=_p(p[k]), x=_x(xs[k]),
+                 cls=seg.flange_class, limit=_p(rating), t=_t(temp[k])),
+        "Lower the pressure, or confirm the flanges' class and material with the piping engineer.",
+        line, seg.name, float(xs[k]), float(p[k]), rating, "pressure")]
+
+
+def line_regime(scenario: Scenario, run: LineRun) -> list[Finding]:
+    """Velocity bounds and transitional flow, segment by segment."""
+    limits = scenario.limits
+    out = []
+    for seg, _, steps in _segment_steps(run):
+        v, xs, re = steps["velocity"], steps["x"], steps["reynolds"]
+        if v.max() > limits.max_velocity:
+            i = int(np.argmax(v))
+            out.append(Finding("VELOCITY-HIGH", "caution", "High velocity",
+                               Sentence("{v} is above {limit}", v=Q(v[i], "speed"), limit=Q(limits.max_velocity, "speed")),
+                               "Expect surge and wear at this rate; consider a larger line or a lower rate.",
+                               run.name, seg.name, float(xs[i]), float(v[i]), limits.max_velocity, "speed"))
+        if v.min() < limits.min_velocity:
+            i = int(np.argmin(v))
+            out.append(Finding("VELOCITY-LOW", "caution", "Very low velocity",
+                               Sentence("{v} is below {limit}: long residence, cooling", v=Q(v[i], "speed", 3),
+                                        limit=Q(limits.min_velocity, "speed")),
+                               "Check the line does not cool or settle; a smaller line or higher rate helps.",
+                               run.name, seg.name, float(xs[i]), float(v[i]), limits.min_velocity, "speed"))
+        transitional = (re >= 2300.0) & (re < 4000.0)
+        if transitional.any():
+            i = int(np.argmax(transitional))
+            out.append(Finding("REGIME-TRANSITIONAL", "caution", "Transitional flow",
+                               Sentence("Re {re} lies between 2300 and 4000: friction and heat transfer are uncertain",
+                                        re=Q(re[i], "dimensionless")),
+                               "Read pressures with margin; a different rate moves the flow out of transition.",
+                               run.name, seg.name, float(xs[i]), float(re[i]), None, "dimensionless"))
+    return out
+
+
+def line_poor_heat(scenario: Scenario, run: LineRun) -> list[Finding]:
+    """One note per traced line: where the laminar inner film is poorest."""
+    if scenario.tracing.kind == "none":
+        return []
+    poorest = None
+    for seg, _, steps in _segment_steps(run):
+        if not seg.traced:
+            continue
+        film = np.where(steps["reynolds"] < 2300.0, steps["film_coefficient"], np.inf)
+        i = int(np.argmin(film))
+        if poorest is None or film[i] < poorest[0]:
+            poorest = (float(film[i]), seg.name, float(steps["x"][i]))
+    limit = scenario.limits.poor_film_coefficient
+    if poorest is None or not poorest[0] < limit:
+        return []
+    film, segment, x = poorest
+    return [Finding("LAMINAR-POOR-HEAT", "info", "Laminar flow, poor heat transfer",
+                    Sentence("inner film coefficient down to {h}: the tracing maintains but barely heats the moving "
+                             "product", h=Q(film, "heat_transfer_coefficient")),
+                    "Heat the product at the source, not with the tracing.",
+                    run.name, segment, x, film, limit, "heat_transfer_coefficient")]
+
+
+def line_product(scenario: Scenario, run: LineRun) -> list[Finding]:
+    """The product setting in the line (the march stopped)."""
+    product = scenario.product
+    if run.result.summary.status != "product_sets":
+        return []
+    where = run.result.summary.sets_at_m
+    return [Finding("PRODUCT-SETS", "stop", "Product sets in the line",
+                    Sentence("the product falls below its no-flow temperature {limit} at {x}",
+                             limit=_t(product.no_flow_temperature), x=_x(where)),
+                    "Raise the setpoint or the product temperature, or move faster.",
+                    run.name, _segment_at(run.line.segments, where).name, where, None, product.no_flow_temperature,
+                    "temperature")]
+
+
+def product_hottest(scenario: Scenario, hottest: list[tuple]) -> list[Finding]:
+    """The hottest product ``(temperature, where, segment, at_m)`` against its maximum and flash point."""
+    product, limits = scenario.product, scenario.limits
+    t_max, where, seg_name, x = max(hottest, key=lambda item: item[0])
+    out = []
+    if t_max > product.max_temperature:
+        out.append(Finding("PRODUCT-TOO-HOT", "warning", "Product above its maximum temperature",
+                           Sentence("the product reaches {t} ({where}), above its maximum {limit}", t=_t(t_max),
+                                    where=where, limit=_t(product.max_temperature)),
+                           "Lower the heating: the product may degrade (colour, cracking, polymerisation).",
+                           where, seg_name, x, t_max, product.max_temperature, "temperature"))
+    if product.flash_point is not None and t_max > product.flash_point - limits.flash_point_margin:
+        out.append(Finding("FLASH-MARGIN", "warning", "Near or above the flash point",
+                           Sentence("the product reaches {t} ({where}); flash point {flash}, wanted {margin} below it",
+                                    t=_t(t_max), where=where, flash=_t(product.flash_point),
+                                    margin=Q(limits.flash_point_margin, "temperature_difference")),
+                           "Keep the product below its flash point less the margin, or treat vapour spaces as hazardous.",
+                           where, seg_name, x, t_max, product.flash_point - limits.flash_point_margin, "temperature"))
+    return out
+
+
+def _run_hottest(run: LineRun) -> tuple:
+    temps = run.result.nodes["temperature"]
+    i = int(np.argmax(temps))
+    x = float(run.result.nodes["x"][i])
+    return float(temps[i]), run.name, _segment_at(run.line.segments, x).name, x
+
+
+def viscosity_range(product, temperatures: list[float]) -> list[Finding]:
+    """The viscosity law used outside its lab points at any of ``temperatures`` [K]."""
+    fit = product.fit
+    outside = [t for t in temperatures if product.is_extrapolation(t)]
+    if not outside:
+        return []
+    worst = max(outside, key=lambda t: max(fit.t_min - t, t - fit.t_max))
+    return [Finding("VISCOSITY-EXTRAPOLATED", "caution", "Viscosity law extrapolated",
+                    Sentence("{t} lies outside the lab points ({low} to {high})", t=_t(worst), low=_t(fit.t_min),
+                             high=_t(fit.t_max)),
+                    "Measure the viscosity at this temperature before relying on the pressures.",
+                    value=worst, limit=fit.t_max if worst > fit.t_max else fit.t_min, quantity="temperature")]
+
+
+def film_correlation_range(product, runs: list[LineRun]) -> list[Finding]:
+    """The product's Prandtl number against the range of the film correlation in use."""
+    worst_ratio, where = 0.0, None
+    for run in runs:
+        steps, nodes = run.result.steps, run.result.nodes
+        for k in range(len(steps["x"])):
+            t = float(np.interp(steps["x"][k], nodes["x"], nodes["temperature"]))
+            pr = product.specific_heat(t) * steps["viscosity"][k] / product.conductivity(t)
+            limit = SIEDER_TATE_PR_MAX if steps["reynolds"][k] < 2300 else GNIELINSKI_PR_MAX
+            if pr > limit and pr / limit > worst_ratio:
+                x = float(steps["x"][k])
+                worst_ratio, where = pr / limit, (run.name, _segment_at(run.line.segments, x).name, x, pr, limit)
+    if where is None:
+        return []
+    name, seg, x, pr, limit = where
+    return [Finding("CORRELATION-RANGE", "caution", "Film correlation beyond its range",
+                    Sentence("Prandtl number {pr} is above the {limit} its correlation was fitted to",
+                             pr=Q(pr, "dimensionless"), limit=Q(limit, "dimensionless")),
+                    "Read the product temperatures along the line with margin.", name, seg, x, pr, limit,
+                    "dimensionless")]
+
+
+def _march_temperatures(runs: list[LineRun]) -> list[float]:
+    values = []
+    for run in runs:
+        temps = run.result.nodes["temperature"]
+        values.extend([float(temps.min()), float(temps.max())])
+    return values
+
+
+def assess_line(scenario: Scenario, line: Line, result: MarchResult, name: str = "route",
+                base_pressure: float = 0.0) -> list[Finding]:
+    """The checks that apply to one line alone (``python -m planner evaluate``), most severe first, the
+    standing caution last: product setting or above its maximum, jacket touch temperature, heater sheath
+    against temperature class and exposure rating, pressure against ratings (``result``'s pressures
+    plus ``base_pressure``, gauge), velocity and regime, viscosity law and film correlation ranges."""
+    run = LineRun(name, line, result, base_pressure)
+    found = line_product(scenario, run) + product_hottest(scenario, [_run_hottest(run)])
+    found += line_surfaces(scenario, run) + line_pressures(run) + line_regime(scenario, run)
+    found += line_poor_heat(scenario, run)
+    found += viscosity_range(line.product, _march_temperatures([run]))
+    found += film_correlation_range(line.product, [run])
+    return _ordered(found)
+
+
+# -- checks on the plan --------------------------------------------------------------------------------
 
 def check_operating_point(plan: Plan) -> list[Finding]:
     op = plan.start
@@ -98,16 +389,7 @@ def check_operating_point(plan: Plan) -> list[Finding]:
                            "Warm the product or the line, lower the static head or destination pressure, or use a "
                            "pump that makes more pressure."))
         if op.point is not None and op.point.sets:
-            summary = op.point.suction if op.point.suction is not None and op.point.suction.status != "ok" \
-                else op.point.discharge
-            line = "suction" if summary is op.point.suction else "discharge"
-            segments = (plan.system.suction_line if line == "suction" else plan.system.discharge_line).segments
-            where = summary.sets_at_m
-            no_flow = plan.scenario.product.no_flow_temperature
-            out.append(Finding("PRODUCT-SETS", "stop", "Product sets in the line",
-                               f"at a trickle the product falls below its no-flow temperature {_c(no_flow)} at "
-                               f"{where:.0f} m", "Raise the setpoint or the product temperature, or insulate.",
-                               line, _segment_at(segments, where).name, where, None, no_flow, "K"))
+            out.extend(_sets_at_trickle(plan))
     elif op.status == "rate_not_reachable":
         out.append(Finding("FLOW-SETPOINT-SHORT", "warning", "Flow setpoint not reachable", op.message,
                            "Accept the lower rate in the plan, raise the product temperature or choose a larger pump."))
@@ -117,19 +399,37 @@ def check_operating_point(plan: Plan) -> list[Finding]:
     elif op.status == "relief_lifting":
         out.append(Finding("RELIEF-LIFTING", "warning", "Relief valve lifting", op.message,
                            "Slow the pump or warm the product: running on the relief heats the product in the pump.",
-                           value=op.point.pump_differential, limit=plan.scenario.pump.relief_setting, unit="Pa"))
+                           value=op.point.pump_differential, limit=plan.scenario.pump.relief_setting,
+                           quantity="pressure"))
     if "motor_overloaded" in op.flags:
         motor = plan.scenario.pump.motor_power
         out.append(Finding("MOTOR-OVERLOAD", "stop", "Motor overloaded",
-                           f"shaft power {op.shaft_power / 1e3:.2f} kW is above the motor rating {motor / 1e3:.2f} kW",
+                           Sentence("shaft power {p} is above the motor rating {limit}", p=Q(op.shaft_power, "power"),
+                                    limit=Q(motor, "power")),
                            "Reduce speed or flow, warm the product, or fit a larger motor.",
-                           value=op.shaft_power, limit=motor, unit="W"))
+                           value=op.shaft_power, limit=motor, quantity="power"))
     if op.hi_b is not None and not op.hi_in_range:
         out.append(Finding("PUMP-HI-RANGE", "warning", "Viscosity correction outside its method",
-                           f"ANSI/HI 9.6.7 parameter B = {op.hi_b:.1f} is above {HI_B_MAX:.0f}: the corrected curve is "
-                           "an extrapolation", "Use the pump maker's viscous performance data, or a PD pump.",
-                           value=op.hi_b, limit=HI_B_MAX))
+                           Sentence("ANSI/HI 9.6.7 parameter B = {b} is above {limit}: the corrected curve is an "
+                                    "extrapolation", b=Q(op.hi_b, "dimensionless", 1), limit=Q(HI_B_MAX, "dimensionless")),
+                           "Use the pump maker's viscous performance data, or a PD pump.",
+                           value=op.hi_b, limit=HI_B_MAX, quantity="dimensionless"))
     return out
+
+
+def _sets_at_trickle(plan: Plan) -> list[Finding]:
+    point = plan.start.point
+    suction_sets = point.suction is not None and point.suction.status != "ok"
+    summary = point.suction if suction_sets else point.discharge
+    line = "suction" if suction_sets else "discharge"
+    segments = (plan.system.suction_line if suction_sets else plan.system.discharge_line).segments
+    where = summary.sets_at_m
+    no_flow = plan.scenario.product.no_flow_temperature
+    return [Finding("PRODUCT-SETS", "stop", "Product sets in the line",
+                    Sentence("at a trickle the product falls below its no-flow temperature {limit} at {x}",
+                             limit=_t(no_flow), x=_x(where)),
+                    "Raise the setpoint or the product temperature, or insulate.",
+                    line, _segment_at(segments, where).name, where, None, no_flow, "temperature")]
 
 
 def check_npsh(plan: Plan) -> list[Finding]:
@@ -138,141 +438,51 @@ def check_npsh(plan: Plan) -> list[Finding]:
         return []
     available, required = op.point.npsh_available, op.npsh_required
     margin = plan.scenario.limits.npsh_margin
+    head = lambda v: Q(v, "head")  # noqa: E731
     if available < required:
         limited = op.npsh_limited_flow
-        rate = f"; the suction can feed about {limited * 3600:.1f} m³/h" if limited else ""
+        rate = Sentence("; the suction can feed about {q}", q=Q(limited, "volume_flow")) if limited else ""
         return [Finding("NPSH-SHORT", "stop", "Suction starved",
-                        f"NPSH available {available:.2f} m is below the {required:.2f} m the pump needs{rate}",
+                        Sentence("NPSH available {a} is below the {r} the pump needs{rate}", a=head(available),
+                                 r=head(required), rate=rate),
                         "Raise the source pressure or level, shorten or enlarge the suction line, warm the product, "
-                        "or slow the pump.", line="suction", value=available, limit=required, unit="m")]
+                        "or slow the pump.", line="suction", value=available, limit=required, quantity="head")]
     if available < required + margin:
         return [Finding("NPSH-MARGIN-LOW", "warning", "Small NPSH margin",
-                        f"NPSH available {available:.2f} m leaves {available - required:.2f} m above the pump's "
-                        f"{required:.2f} m; wanted at least {margin:.2f} m", "Treat the suction as marginal: watch for "
-                        "noise and falling flow; reduce suction losses.", line="suction", value=available,
-                        limit=required + margin, unit="m")]
+                        Sentence("NPSH available {a} leaves {m} above the pump's {r}; wanted at least {want}",
+                                 a=head(available), m=head(available - required), r=head(required), want=head(margin)),
+                        "Treat the suction as marginal: watch for noise and falling flow; reduce suction losses.",
+                        line="suction", value=available, limit=required + margin, quantity="head")]
     return []
 
 
 def check_surfaces(plan: Plan) -> list[Finding]:
-    limits = plan.scenario.limits
-    tracing = plan.scenario.tracing
-    out = []
-    for name, seg, steps in _segment_steps(plan):
-        jacket, xs = steps["jacket_temperature"], steps["x"]
-        i = int(np.argmax(jacket))
-        if jacket[i] > limits.touch_temperature:
-            out.append(Finding(
-                "SURFACE-HOT", "warning", "Hot surface",
-                f"jacket reaches {_c(jacket[i])}, above the touch limit {_c(limits.touch_temperature)}",
-                "Fit personnel protection (guards or extra insulation) and warning signs where people can reach.",
-                name, seg.name, float(xs[i]), float(jacket[i]), limits.touch_temperature, "K"))
-        sheath = steps["sheath_temperature"]
-        j = int(np.argmax(sheath))
-        worst, at = float(sheath[j]), float(xs[j])
-        heater = _heater_of(plan, name, seg)
-        heater_active = heater.active
-        if heater_active and heater.kind != "steam" and heater.setpoint is not None:
-            # the thermostat lets the heater run flat out until the pipe reaches the setpoint: the
-            # sheath is then hottest (setpoint + full output per run / sheath-to-pipe conductance)
-            full = heater.capacity(heater.setpoint)
-            at_setpoint = heater.sheath_temperature(heater.setpoint, full)
-            if at_setpoint > worst:
-                worst, at = at_setpoint, seg.x_start
-        sheath = np.array([worst])
-        j = 0
-        xs = np.array([at])
-        if seg.hazardous_area_class and heater_active:
-            limit = temperature_class_limit(seg.hazardous_area_class)
-            if sheath[j] > limit:
-                out.append(Finding(
-                    "TCLASS-EXCEEDED", "stop", "Tracer too hot for the hazardous area",
-                    f"{'steam tracer' if tracing.kind == 'steam' else 'heater sheath'} at {_c(sheath[j])} exceeds "
-                    f"{seg.hazardous_area_class} ({_c(limit)}, IEC 60079-0)",
-                    "Lower the steam pressure or use a heater rated for the area's temperature class, with a "
-                    "limiter where the design needs one; follow the site's hazardous-area rules.",
-                    name, seg.name, float(xs[j]), float(sheath[j]), limit, "K"))
-        exposure = tracing.max_exposure_temperature
-        if exposure is not None and heater_active and sheath[j] > exposure:
-            out.append(Finding(
-                "HEATER-EXPOSURE", "stop", "Heater above its exposure rating",
-                f"heater sheath at {_c(sheath[j])} exceeds its maximum exposure temperature {_c(exposure)}",
-                "Lower the setpoint or product temperature, or choose a heater with a higher exposure rating.",
-                name, seg.name, float(xs[j]), float(sheath[j]), exposure, "K"))
-    return out
+    return [f for run in _profiles(plan) for f in line_surfaces(plan.scenario, run)]
 
 
 def check_pressures(plan: Plan) -> list[Finding]:
-    out = []
-    t = plan.timeline.arrays
-    peak_running = float(np.max(t["discharge_pressure_pa"])) if len(t["discharge_pressure_pa"]) else 0.0
-    for name, segments, result, inlet in _profiles(plan):
-        nodes = result.nodes
-        base = inlet
-        if name == "discharge":
-            # the highest running discharge pressure of the timeline, with the start's profile shape
-            base = max(inlet, peak_running)
-        if name == "suction":
-            base = plan.system.source_pressure(_start_state(plan))
-        pressures = base + nodes["pressure"]
-        temps = nodes["temperature"]
-        for seg in segments:
-            inside = (nodes["x"] >= seg.x_start - 1e-9) & (nodes["x"] <= seg.x_end + 1e-9)
-            if not inside.any():
-                continue
-            p, temp, xs = pressures[inside], temps[inside], nodes["x"][inside]
-            i = int(np.argmax(p))
-            if seg.pressure_rating is not None and p[i] > seg.pressure_rating:
-                kind = {"hose": "hose", "loading_arm": "loading arm"}.get(seg.kind, "pipe")
-                out.append(Finding(
-                    "PRESSURE-RATING", "stop", f"Pressure above the {kind} rating",
-                    f"{_bar(p[i])} at {xs[i]:.0f} m exceeds the {kind} rating {_bar(seg.pressure_rating)}",
-                    "Lower the flow or warm the product to cut the pressure; do not exceed the rating.",
-                    name, seg.name, float(xs[i]), float(p[i]), seg.pressure_rating, "Pa"))
-            if seg.flange_class is not None:
-                ratings = [flange_rating(seg.flange_class, tk) for tk in temp]
-                worst = None
-                for k, rating in enumerate(ratings):
-                    if rating is None:
-                        out.append(Finding(
-                            "FLANGE-TEMP-RANGE", "warning", "Flange rating outside its table",
-                            f"product at {_c(temp[k])} is outside the ASME B16.5 Group 1.1 table (-29 to 450 °C)",
-                            "Check the flange material's rating at this temperature with the piping engineer.",
-                            name, seg.name, float(xs[k]), float(temp[k]), None, "K"))
-                        break
-                    if p[k] > rating and (worst is None or p[k] - rating > worst[0]):
-                        worst = (p[k] - rating, k, rating)
-                if worst is not None:
-                    _, k, rating = worst
-                    out.append(Finding(
-                        "FLANGE-RATING", "stop", "Pressure above the flange rating",
-                        f"{_bar(p[k])} at {xs[k]:.0f} m exceeds ASME B16.5 Class {seg.flange_class} (Group 1.1) "
-                        f"{_bar(rating)} at {_c(temp[k])}",
-                        "Lower the pressure, or confirm the flanges' class and material with the piping engineer.",
-                        name, seg.name, float(xs[k]), float(p[k]), rating, "Pa"))
-    # the start: pushing the line's contents out (cold, or pre-warmed but cooler than the product)
+    out = [f for run in _profiles(plan) for f in line_pressures(run)]
     push = plan.startup_push
     if push is not None:
+        # the start: pushing the line's contents out (cold, or pre-warmed but cooler than the product)
         seg = plan.system.discharge_line.segments[0]
-        peak = push.peak_discharge_pressure_pa
-        limits = [r for r in (seg.pressure_rating,
-                              flange_rating(seg.flange_class, push.start_temperature_k)
-                              if seg.flange_class else None) if r is not None]
-        if limits and peak > min(limits):
+        peak, limit = push.peak_discharge_pressure_pa, seg.rating_at(push.start_temperature_k)
+        if limit is not None and peak > limit:
             out.append(Finding("PRESSURE-START", "stop", "Start-up pressure above a rating",
-                               f"pushing the line's contents out at {_c(push.start_temperature_k)} needs {_bar(peak)} at "
-                               f"the pump outlet, above {_bar(min(limits))}",
+                               Sentence("pushing the line's contents out at {t} needs {p} at the pump outlet, above "
+                                        "{limit}", t=_t(push.start_temperature_k), p=_p(peak), limit=_p(limit)),
                                "Pre-warm the line (further), or start at a lower rate.",
-                               "discharge", seg.name, 0.0, peak, min(limits), "Pa"))
+                               "discharge", seg.name, 0.0, peak, limit, "pressure"))
         if push.relief_lifts:
             out.append(Finding("RELIEF-LIFTING-START", "caution", "Relief valve lifts at the start",
                                push.message, "Expect a slow start; watch the pump's temperature.", "discharge"))
     dest = plan.scenario.destination
     if dest.max_pressure is not None and dest.pressure > dest.max_pressure:
         out.append(Finding("VESSEL-PRESSURE", "stop", "Destination above its design pressure",
-                           f"tank pressure {_bar(dest.pressure)} exceeds its design {_bar(dest.max_pressure)}",
+                           Sentence("tank pressure {p} exceeds its design {limit}", p=_p(dest.pressure),
+                                    limit=_p(dest.max_pressure)),
                            "Vent the tank to its design pressure before transfer.", value=dest.pressure,
-                           limit=dest.max_pressure, unit="Pa"))
+                           limit=dest.max_pressure, quantity="pressure"))
     return out
 
 
@@ -283,117 +493,29 @@ def _start_state(plan: Plan):
 
 
 def check_product_temperature(plan: Plan) -> list[Finding]:
-    product = plan.scenario.product
-    limits = plan.scenario.limits
-    out = []
+    runs = _profiles(plan)
     hottest = [(plan.scenario.source.temperature, "source", None, None)]
-    t = plan.timeline.arrays
-    if len(t["source_temperature_k"]):
-        k = int(np.argmax(t["source_temperature_k"]))
-        hottest.append((float(t["source_temperature_k"][k]), "source", None, None))
-    for name, segments, result, _ in _profiles(plan):
-        temps = result.nodes["temperature"]
-        i = int(np.argmax(temps))
-        x = float(result.nodes["x"][i])
-        hottest.append((float(temps[i]), name, _segment_at(segments, x).name, x))
-        if result.summary.status == "product_sets":
-            where = result.summary.sets_at_m
-            out.append(Finding("PRODUCT-SETS", "stop", "Product sets in the line",
-                               f"the product falls below its no-flow temperature {_c(product.no_flow_temperature)} at "
-                               f"{where:.0f} m", "Raise the setpoint or the product temperature, or move faster.",
-                               name, _segment_at(segments, where).name, where, None, product.no_flow_temperature, "K"))
-    t_max, where, seg_name, x = max(hottest, key=lambda item: item[0])
-    if t_max > product.max_temperature:
-        out.append(Finding("PRODUCT-TOO-HOT", "warning", "Product above its maximum temperature",
-                           f"the product reaches {_c(t_max)} ({where}), above its maximum {_c(product.max_temperature)}",
-                           "Lower the heating: the product may degrade (colour, cracking, polymerisation).",
-                           where, seg_name, x, t_max, product.max_temperature, "K"))
-    if product.flash_point is not None and t_max > product.flash_point - limits.flash_point_margin:
-        out.append(Finding("FLASH-MARGIN", "warning", "Near or above the flash point",
-                           f"the product reaches {_c(t_max)} ({where}); flash point {_c(product.flash_point)}, wanted "
-                           f"{limits.flash_point_margin:.0f} K below it",
-                           "Keep the product below its flash point less the margin, or treat vapour spaces as hazardous.",
-                           where, seg_name, x, t_max, product.flash_point - limits.flash_point_margin, "K"))
-    return out
+    t = plan.timeline.arrays["source_temperature_k"]
+    if len(t):
+        hottest.append((float(np.max(t)), "source", None, None))
+    hottest += [_run_hottest(run) for run in runs]
+    out = [f for run in runs for f in line_product(plan.scenario, run)]
+    return out + product_hottest(plan.scenario, hottest)
 
 
 def check_flow_regime(plan: Plan) -> list[Finding]:
-    limits = plan.scenario.limits
-    out = []
-    for name, seg, steps in _segment_steps(plan):
-        v, xs, re = steps["velocity"], steps["x"], steps["reynolds"]
-        if v.max() > limits.max_velocity:
-            i = int(np.argmax(v))
-            out.append(Finding("VELOCITY-HIGH", "caution", "High velocity",
-                               f"{v[i]:.2f} m/s is above {limits.max_velocity:.2f} m/s",
-                               "Expect surge and wear at this rate; consider a larger line or a lower rate.",
-                               name, seg.name, float(xs[i]), float(v[i]), limits.max_velocity, "m/s"))
-        if v.min() < limits.min_velocity:
-            i = int(np.argmin(v))
-            out.append(Finding("VELOCITY-LOW", "caution", "Very low velocity",
-                               f"{v[i]:.3f} m/s is below {limits.min_velocity:.2f} m/s: long residence, cooling",
-                               "Check the line does not cool or settle; a smaller line or higher rate helps.",
-                               name, seg.name, float(xs[i]), float(v[i]), limits.min_velocity, "m/s"))
-        transitional = (re >= 2300.0) & (re < 4000.0)
-        if transitional.any():
-            i = int(np.argmax(transitional))
-            out.append(Finding("REGIME-TRANSITIONAL", "caution", "Transitional flow",
-                               f"Re {re[i]:.0f} lies between 2300 and 4000: friction and heat transfer are uncertain",
-                               "Read pressures with margin; a different rate moves the flow out of transition.",
-                               name, seg.name, float(xs[i]), float(re[i]), None, ""))
-    if plan.scenario.tracing.kind != "none":
-        # one note per line: where the traced, laminar film is poorest
-        poorest: dict[str, tuple] = {}
-        for name, seg, steps in _segment_steps(plan):
-            if not seg.traced:
-                continue
-            film = np.where(steps["reynolds"] < 2300.0, steps["film_coefficient"], np.inf)
-            i = int(np.argmin(film))
-            if film[i] < poorest.get(name, (np.inf,))[0]:
-                poorest[name] = (float(film[i]), seg.name, float(steps["x"][i]))
-        for name, (film, segment, x) in poorest.items():
-            if film < limits.poor_film_coefficient:
-                out.append(Finding("LAMINAR-POOR-HEAT", "info", "Laminar flow, poor heat transfer",
-                                   f"inner film coefficient down to {film:.1f} W/(m²·K): the tracing maintains but "
-                                   f"barely heats the moving product", "Heat the product at the source, not with the tracing.",
-                                   name, segment, x, film, limits.poor_film_coefficient, "W/m2K"))
-    return out
+    runs = _profiles(plan)
+    out = [f for run in runs for f in line_regime(plan.scenario, run)]
+    return out + [f for run in runs for f in line_poor_heat(plan.scenario, run)]
 
 
 def check_validity(plan: Plan) -> list[Finding]:
-    product = plan.system.product
-    out = []
-    fit = product.fit
-    t_values = []
-    for _, _, result, _ in _profiles(plan):
-        t_values.extend([float(result.nodes["temperature"].min()), float(result.nodes["temperature"].max())])
-    t_values.append(plan.scenario.source.temperature)
+    runs = _profiles(plan)
+    temperatures = _march_temperatures(runs) + [plan.scenario.source.temperature]
     if plan.startup_push is not None:
-        t_values.append(plan.startup_push.start_temperature_k)   # the line's contents pushed out at the start
-    outside = [t for t in t_values if product.is_extrapolation(t)]
-    if outside:
-        worst = max(outside, key=lambda t: max(fit.t_min - t, t - fit.t_max))
-        out.append(Finding("VISCOSITY-EXTRAPOLATED", "caution", "Viscosity law extrapolated",
-                           f"{_c(worst)} lies outside the lab points ({_c(fit.t_min)} to {_c(fit.t_max)})",
-                           "Measure the viscosity at this temperature before relying on the pressures.",
-                           value=worst, limit=fit.t_max if worst > fit.t_max else fit.t_min, unit="K"))
-    worst_pr = 0.0
-    where = None
-    for name, segments, result, _ in _profiles(plan):
-        steps = result.steps
-        # Prandtl number of the product along the line
-        for k in range(len(steps["x"])):
-            t = float(np.interp(steps["x"][k], result.nodes["x"], result.nodes["temperature"]))
-            pr = product.specific_heat(t) * steps["viscosity"][k] / product.conductivity(t)
-            limit = SIEDER_TATE_PR_MAX if steps["reynolds"][k] < 2300 else GNIELINSKI_PR_MAX
-            if pr > limit and pr / limit > worst_pr:
-                worst_pr, where = pr / limit, (name, _segment_at(segments, steps["x"][k]).name, float(steps["x"][k]), pr, limit)
-    if where is not None:
-        name, seg, x, pr, limit = where
-        out.append(Finding("CORRELATION-RANGE", "caution", "Film correlation beyond its range",
-                           f"Prandtl number {pr:,.0f} is above the {limit:,.0f} its correlation was fitted to",
-                           "Read the product temperatures along the line with margin.", name, seg, x, pr, limit, ""))
-    return out
+        temperatures.append(plan.startup_push.start_temperature_k)   # the line's contents pushed out at the start
+    product = plan.system.product
+    return viscosity_range(product, temperatures) + film_correlation_range(product, runs)
 
 
 def check_tracing_capacity(plan: Plan) -> list[Finding]:
@@ -418,16 +540,16 @@ def check_tracing_capacity(plan: Plan) -> list[Finding]:
             if loss > capacity:
                 out.append(Finding(
                     "TRACING-SHORT", "warning", "Tracing cannot hold the setpoint",
-                    f"at the design ambient {_c(at_design.ambient_temperature)} the line loses {loss:.1f} W/m at "
-                    f"{_c(tracing.setpoint)}, more than the tracing's {capacity:.1f} W/m",
+                    Sentence("at the design ambient {amb} the line loses {loss} at {t}, more than the tracing's {cap}",
+                             amb=_t(at_design.ambient_temperature), loss=Q(loss, "linear_power"),
+                             t=_t(tracing.setpoint), cap=Q(capacity, "linear_power")),
                     "Add insulation or heater output, or accept a lower maintain temperature in cold weather.",
-                    name, seg.name, seg.x_start, loss, capacity, "W/m"))
+                    name, seg.name, seg.x_start, loss, capacity, "linear_power"))
     return out
 
 
-def check_times(plan: Plan) -> list[Finding]:
-    schedule = plan.scenario.schedule
-    window = schedule.planned_window
+def check_startup(plan: Plan) -> list[Finding]:
+    window = plan.scenario.schedule.planned_window
     out = []
     if plan.start_mode == "prewarm" and not plan.prewarm.possible:
         out.append(Finding("PREWARM-IMPOSSIBLE", "stop", "Pre-warm cannot reach its target", plan.prewarm.message,
@@ -437,50 +559,75 @@ def check_times(plan: Plan) -> list[Finding]:
                            plan.push_cold.message, "Pre-warm the line first."))
     if not plan.timeline.completed:
         out.append(Finding("TRANSFER-STOPS", "stop", "Transfer cannot finish",
-                           f"after {plan.timeline.moved_m3:.1f} m³: {plan.timeline.stop_reason}",
+                           Sentence("after {v}: {why}", v=Q(plan.timeline.moved_m3, "volume"),
+                                    why=plan.timeline.stop_reason),
                            "Keep the source warm (heating coils) or raise the setpoint."))
+    hours = lambda v: Q(v, "time")  # noqa: E731
     if plan.startup_time_s is not None and plan.startup_time_s > window:
         out.append(Finding("STARTUP-OVER-WINDOW", "warning", "Start-up longer than the window",
-                           f"start-up takes {plan.startup_time_s / 3600:.1f} h, the planned window is {window / 3600:.1f} h",
+                           Sentence("start-up takes {t}, the planned window is {w}", t=hours(plan.startup_time_s),
+                                    w=hours(window)),
                            "Begin pre-warming earlier, or keep the line maintained between moves.",
-                           value=plan.startup_time_s, limit=window, unit="s"))
+                           value=plan.startup_time_s, limit=window, quantity="time"))
     if plan.total_time_s is not None and plan.total_time_s > window:
         out.append(Finding("TIME-OVER-WINDOW", "warning", "Plan longer than the window",
-                           f"start-up and transfer take {plan.total_time_s / 3600:.1f} h, the planned window is "
-                           f"{window / 3600:.1f} h", "Start earlier, move faster (warmer product), or plan a longer window.",
-                           value=plan.total_time_s, limit=window, unit="s"))
+                           Sentence("start-up and transfer take {t}, the planned window is {w}",
+                                    t=hours(plan.total_time_s), w=hours(window)),
+                           "Start earlier, move faster (warmer product), or plan a longer window.",
+                           value=plan.total_time_s, limit=window, quantity="time"))
+    return out
+
+
+def check_stops(plan: Plan) -> list[Finding]:
     hold = plan.hold
     stop = hold.stop_duration_s
+    hours = lambda v: Q(v, "time")  # noqa: E731
+    out = []
     if hold.time_to_limit_traced_s is not None and hold.time_to_limit_traced_s < stop:
         out.append(Finding("HOLD-SHORT", "warning", "A stop sets the line even with tracing on",
-                           f"{hold.first_to_set_traced} reaches its limit ({_c(hold.limit_temperature_k)}, "
-                           f"{hold.limit_reason}) after {hold.time_to_limit_traced_s / 3600:.1f} h; planned stop "
-                           f"{stop / 3600:.1f} h", "Keep stops shorter, trace and insulate that part, or clear it "
-                           "before stopping.", segment=hold.first_to_set_traced, value=hold.time_to_limit_traced_s,
-                           limit=stop, unit="s"))
+                           Sentence("{seg} reaches its limit ({limit}, {why}) after {t}; planned stop {stop}",
+                                    seg=hold.first_to_set_traced, limit=_t(hold.limit_temperature_k),
+                                    why=hold.limit_reason, t=hours(hold.time_to_limit_traced_s), stop=hours(stop)),
+                           "Keep stops shorter, trace and insulate that part, or clear it before stopping.",
+                           segment=hold.first_to_set_traced, value=hold.time_to_limit_traced_s, limit=stop,
+                           quantity="time"))
     if hold.time_to_limit_failed_s is not None and hold.time_to_limit_failed_s < stop:
         out.append(Finding("HOLD-SHORT-FAILED", "caution", "A stop with failed tracing sets the line",
-                           f"with the tracing off, {hold.first_to_set_failed} reaches its limit after "
-                           f"{hold.time_to_limit_failed_s / 3600:.1f} h; planned stop {stop / 3600:.1f} h",
+                           Sentence("with the tracing off, {seg} reaches its limit after {t}; planned stop {stop}",
+                                    seg=hold.first_to_set_failed, t=hours(hold.time_to_limit_failed_s), stop=hours(stop)),
                            "Have a plan to clear or re-heat the line if the tracing trips.",
-                           segment=hold.first_to_set_failed, value=hold.time_to_limit_failed_s, limit=stop, unit="s"))
+                           segment=hold.first_to_set_failed, value=hold.time_to_limit_failed_s, limit=stop,
+                           quantity="time"))
     if hold.gelled_restart_pressure_pa > 0 and hold.pump_pressure_limit_pa is not None and \
             hold.gelled_restart_pressure_pa > hold.pump_pressure_limit_pa:
         out.append(Finding("RESTART-GELLED", "warning", "A gelled line cannot be restarted by the pump",
-                           f"restart needs about {_bar(hold.gelled_restart_pressure_pa)} (4 τy L / D), the pump gives "
-                           f"at most {_bar(hold.pump_pressure_limit_pa)}", "Do not let the line stand long enough to gel, "
-                           "or plan a flush.", value=hold.gelled_restart_pressure_pa,
-                           limit=hold.pump_pressure_limit_pa, unit="Pa"))
+                           Sentence("restart needs about {p} (4 τy L / D), the pump gives at most {limit}",
+                                    p=_p(hold.gelled_restart_pressure_pa), limit=_p(hold.pump_pressure_limit_pa)),
+                           "Do not let the line stand long enough to gel, or plan a flush.",
+                           value=hold.gelled_restart_pressure_pa, limit=hold.pump_pressure_limit_pa,
+                           quantity="pressure"))
+    return out
+
+
+def check_destination(plan: Plan) -> list[Finding]:
     dest = plan.scenario.destination
     levels = plan.timeline.arrays["destination_level_m"]
-    if dest.max_level is not None and len(levels):
-        final = float(levels[-1]) + plan.scenario.source.volume_to_move / plan.timeline.arrays["time_s"].size / (
-            np.pi * dest.diameter ** 2 / 4.0)
-        if final > dest.max_level:
-            out.append(Finding("OVERFILL", "stop", "Destination overfills",
-                               f"the level reaches {final:.2f} m, above the maximum {dest.max_level:.2f} m",
-                               "Reduce the volume or choose another tank.", value=final, limit=dest.max_level, unit="m"))
-    return out
+    if dest.max_level is None or not len(levels):
+        return []
+    final = float(levels[-1]) + plan.scenario.source.volume_to_move / plan.timeline.arrays["time_s"].size / (
+        np.pi * dest.diameter ** 2 / 4.0)
+    if final <= dest.max_level:
+        return []
+    return [Finding("OVERFILL", "stop", "Destination overfills",
+                    Sentence("the level reaches {v}, above the maximum {limit}", v=Q(final, "length", 2),
+                             limit=Q(dest.max_level, "length", 2)),
+                    "Reduce the volume or choose another tank.", value=final, limit=dest.max_level,
+                    quantity="length")]
+
+
+def check_times(plan: Plan) -> list[Finding]:
+    """Start-up, transfer and stops against the schedule; the destination's level."""
+    return check_startup(plan) + check_stops(plan) + check_destination(plan)
 
 
 def check_calibration(plan: Plan) -> list[Finding]:
@@ -509,18 +656,28 @@ CHECKS = (check_operating_point, check_npsh, check_surfaces, check_pressures, ch
           check_flow_regime, check_validity, check_tracing_capacity, check_times, check_calibration)
 
 
+def _ordered(found: list[Finding]) -> list[Finding]:
+    found = sorted(found, key=lambda f: -SEVERITY_RANK[f.severity])
+    return found + [standing_caution()]
+
+
 def assess(plan: Plan) -> list[Finding]:
     """All findings of a plan, most severe first; the standing caution is always last."""
     found: list[Finding] = []
     for check in CHECKS:
         found.extend(check(plan))
-    found.sort(key=lambda f: -SEVERITY_RANK[f.severity])
-    found.append(standing_caution())
-    return found
+    return _ordered(found)
 
 
-def count_by_severity(findings: list[Finding]) -> dict[str, int]:
+def count_by_severity(findings: list) -> dict[str, int]:
+    """Findings (objects or their dicts) counted by severity."""
     counts = {name: 0 for name in SEVERITIES}
     for f in findings:
-        counts[f.severity] += 1
+        counts[f["severity"] if isinstance(f, dict) else f.severity] += 1
     return counts
+
+
+def worst_severity(findings: list) -> str:
+    """The most severe level among the findings (objects or dicts); "info" when there are none."""
+    levels = [f["severity"] if isinstance(f, dict) else f.severity for f in findings]
+    return max(levels, key=SEVERITY_RANK.__getitem__, default="info")

@@ -35,13 +35,11 @@ def main(argv: list[str] | None = None) -> int:
     if getattr(args, "step", 25.0) is not None and not (0.1 <= getattr(args, "step", 25.0) <= 500.0):
         print("error: --step must be between 0.1 m and 500 m", file=sys.stderr)
         return 2
+    system = {"us": "US"}.get(getattr(args, "units", "si"), "SI")
     try:
         return args.func(args)
-    except PlannerError as exc:
-        print(f"error: {exc}", file=sys.stderr)
-        return 2
-    except (UnitError, ValueError) as exc:
-        print(f"error: {exc}", file=sys.stderr)
+    except (PlannerError, UnitError, ValueError) as exc:
+        print(f"error: {_in_units(exc, system)}", file=sys.stderr)
         return 2
     except BrokenPipeError:
         # the reader went away (``... | head``): nothing more to say, and no traceback (the Python
@@ -59,3 +57,12 @@ def main(argv: list[str] | None = None) -> int:
         print(f"internal error: {type(exc).__name__}: {exc} (please report it with the scenario; "
               "PLANNER_DEBUG=1 shows the traceback)", file=sys.stderr)
         return 1
+
+
+def _in_units(exc: Exception, system: str) -> str:
+    """An error's message in the user's unit system (its sentence rendered when it carries one)."""
+    from planner.scenario.wording import render
+
+    if len(exc.args) == 1 and isinstance(exc.args[0], str):
+        return render(exc.args[0], system)
+    return str(exc)

@@ -1,67 +1,107 @@
-"""Commands on one line and one transfer: ``evaluate``, ``plan``, ``compare``, ``schema``."""
+"""Commands on one line and one transfer: ``evaluate``, ``plan``, ``compare``, ``schema``.
+
+Text output follows ``--units si|us``; JSON is always SI.  ``--fail-on stop|warning`` exits with
+status 3 when a finding of that severity (or worse) is present; otherwise a computed plan exits 0.
+"""
 
 from __future__ import annotations
 
-import argparse
 import json
 import sys
 
-from planner.errors import PlannerError
 from planner.scenario.budget import BudgetError
-from planner.scenario.units import UnitError, to_si
+from planner.scenario.units import UnitError
+
+FAIL_EXIT = 3
+UNIT_CHOICES = {"si": "SI", "us": "US"}
+# the lever options of `compare`: (option, lever, unit of the numbers in SI / US)
+LEVER_OPTIONS = [("setpoints", "setpoint", {"SI": "degC", "US": "degF"}),
+                 ("steam_pressures", "steam_pressure", {"SI": "bar", "US": "psi"}),
+                 ("pump_speeds", "pump_speed", {"SI": "rpm", "US": "rpm"}),
+                 ("flow_limits", "flow_limit", {"SI": "m3/h", "US": "gpm"})]
+
+
+def _exit_code(findings: list, fail_on: str | None) -> int:
+    from planner.checks.findings import SEVERITY_RANK
+
+    if fail_on is None:
+        return 0
+    return FAIL_EXIT if any(SEVERITY_RANK[f.severity] >= SEVERITY_RANK[fail_on] for f in findings) else 0
+
+
+def _option_value(scenario, text: str | None, option: str, section: str, name: str):
+    """An option checked like the scenario file's field ``section.name`` (range, unit dimension); a bare
+    number is refused: the command line has no default unit."""
+    from planner.scenario.option_values import option_quantity
+
+    if text is None:
+        return None
+    return option_quantity(scenario, text, option, section, name)
 
 
 def _evaluate(args) -> int:
-    from planner.line.model import evaluate
+    from planner.checks.findings import assess_line
+    from planner.line.model import evaluate, line_from_scenario
     from planner.reports.text import march_table, march_json
     from planner.scenario.schema import load_scenario
 
+    system = UNIT_CHOICES[args.units]
     scenario = load_scenario(args.scenario)
-    flow = to_si(args.flow, "volume_flow", "--flow") if args.flow is not None else None
-    if flow is not None and not flow > 0:
-        raise UnitError(f"--flow: {args.flow!r} must be greater than 0")
-    t_in = to_si(args.inlet_temperature, "temperature", "--inlet-temperature") if args.inlet_temperature is not None else None
-    if t_in is not None and t_in <= 0:
-        raise UnitError(f"--inlet-temperature: {args.inlet_temperature!r} is below absolute zero")
-    result = evaluate(scenario, flow=flow, inlet_temperature=t_in, step=args.step)
+    flow = _option_value(scenario, args.flow, "--flow", "operation", "flow")
+    t_in = _option_value(scenario, args.inlet_temperature, "--inlet-temperature", "operation", "inlet_temperature")
+    line = line_from_scenario(scenario)
+    result = evaluate(scenario, flow=flow, inlet_temperature=t_in, step=args.step, line=line)
+    findings = assess_line(scenario, line, result, name="route")
     if args.json:
-        print(json.dumps(march_json(scenario, result, profiles=args.profiles), indent=2))
+        print(json.dumps(march_json(scenario, result, profiles=args.profiles, line_segments=line.segments,
+                                    findings=findings), indent=2, ensure_ascii=False))
     else:
-        print(march_table(scenario, result))
-    return 0
+        print(march_table(scenario, result, system, findings))
+    return _exit_code(findings, args.fail_on)
 
 
 def _plan(args) -> int:
+    from planner.checks.findings import assess
     from planner.transfer.plan import make_plan
     from planner.reports.plan_json import plan_json, plan_text
     from planner.scenario.schema import load_scenario
 
     scenario = load_scenario(args.scenario)
     plan = make_plan(scenario)
+    findings = assess(plan)
     if args.json:
-        print(json.dumps(plan_json(plan), indent=2, ensure_ascii=False))
+        print(json.dumps(plan_json(plan, findings=findings), indent=2, ensure_ascii=False))
     else:
-        print(plan_text(plan))
-    return 0
+        print(plan_text(plan, UNIT_CHOICES[args.units], findings))
+    return _exit_code(findings, args.fail_on)
+
+
+def _lever_values(args, system: str):
+    from planner.checks.compare import parse_range
+    from planner.scenario.units import to_si
+
+    given = [(option, lever, units) for option, lever, units in LEVER_OPTIONS if getattr(args, option)]
+    if len(given) != 1:
+        raise ValueError("give exactly one of --setpoints, --steam-pressures, --pump-speeds, --flow-limits")
+    option, lever, units = given[0]
+    kind = {"setpoint": "temperature", "steam_pressure": "pressure", "pump_speed": "rotational_speed",
+            "flow_limit": "volume_flow"}[lever]
+    flag = "--" + option.replace("_", "-")
+    try:
+        numbers = parse_range(getattr(args, option))
+    except ValueError as exc:
+        raise ValueError(f"{flag}: {exc}") from None
+    return lever, [to_si(f"{v!r} {units[system]}", kind, flag) for v in numbers], flag
 
 
 def _compare(args) -> int:
-    from planner.checks.compare import compare, comparison_json, comparison_table, parse_range, shutdown_pool
+    from planner.checks.compare import compare, comparison_json, comparison_table, shutdown_pool
+    from planner.checks.findings import SEVERITY_RANK
     from planner.scenario.schema import load_scenario
 
+    system = UNIT_CHOICES[args.units]
     scenario = load_scenario(args.scenario)
-    choices = [("setpoint", args.setpoints), ("steam_pressure", args.steam_pressures),
-               ("pump_speed", args.pump_speeds), ("flow_limit", args.flow_limits)]
-    given = [(lever, text) for lever, text in choices if text]
-    if len(given) != 1:
-        raise ValueError("give exactly one of --setpoints, --steam-pressures, --pump-speeds, --flow-limits")
-    lever, text = given[0]
-    option = "--" + {"setpoint": "setpoints", "steam_pressure": "steam-pressures", "pump_speed": "pump-speeds",
-                      "flow_limit": "flow-limits"}[lever]
-    try:
-        values = parse_range(text)
-    except ValueError as exc:
-        raise ValueError(f"{option}: {exc}") from None
+    lever, values, option = _lever_values(args, system)
 
     def progress(done, total):
         if not args.json and sys.stderr.isatty():
@@ -78,8 +118,11 @@ def _compare(args) -> int:
         print(json.dumps(comparison_json(result), indent=2, ensure_ascii=False))
     else:
         print(scenario.name)
-        print(comparison_table(result))
-    return 0
+        print(comparison_table(result, system))
+    if args.fail_on is None:
+        return 0
+    hit = any(SEVERITY_RANK[f["severity"]] >= SEVERITY_RANK[args.fail_on] for r in result.rows for f in r.get("findings", []))
+    return FAIL_EXIT if hit else 0
 
 
 def _schema(args) -> int:
@@ -89,33 +132,43 @@ def _schema(args) -> int:
     return 0
 
 
+def _common(parser, json_help: str) -> None:
+    parser.add_argument("--json", action="store_true", help=json_help)
+    parser.add_argument("--units", choices=sorted(UNIT_CHOICES), default="si",
+                        help="unit system of the text output: si (°C, bar, m³/h, m) or us (°F, psi, gpm, ft); "
+                             "JSON is always SI")
+    parser.add_argument("--fail-on", choices=["stop", "warning"], default=None,
+                        help=f"exit with status {FAIL_EXIT} when a finding of this severity (or worse) is present; "
+                             "default: exit 0 for any computed result")
+
+
 def register(sub) -> None:
     """Add this module's sub-commands to the top-level parser's sub-parsers."""
 
     ev = sub.add_parser("evaluate", help="steady march along the line at one flow and inlet temperature")
     ev.add_argument("scenario", help="scenario file (.toml or .json)")
-    ev.add_argument("--flow", help="volume flow, e.g. '40 m3/h' or '176 gpm' (plain number: m3/s); default: the scenario's")
-    ev.add_argument("--inlet-temperature", help="e.g. '55 degC' (plain number: degC); default: the scenario's")
+    ev.add_argument("--flow", help="volume flow with its unit, e.g. '40 m3/h' or '176 gpm'; default: the scenario's")
+    ev.add_argument("--inlet-temperature", help="with its unit, e.g. '55 degC' or '131 degF'; default: the scenario's")
     ev.add_argument("--step", type=float, default=25.0, help="march step [m] (default 25)")
-    ev.add_argument("--json", action="store_true", help="print JSON (SI units, keys documented in README)")
+    _common(ev, "print JSON (SI units, keys documented in README) with the findings")
     ev.add_argument("--profiles", action="store_true", help="with --json: include the profiles along the line")
     ev.set_defaults(func=_evaluate)
 
     pl = sub.add_parser("plan", help="transfer plan: operating point, start-up, timeline, stop/restart, energy and cost")
     pl.add_argument("scenario", help="scenario file with [pump], [source] and [destination]")
-    pl.add_argument("--json", action="store_true", help="print JSON (SI units, keys documented in README)")
+    _common(pl, "print JSON (SI units, keys documented in README) with the findings")
     pl.set_defaults(func=_plan)
 
     cp = sub.add_parser("compare", help="compare setpoints (or steam pressures, pump speeds, flow limits); recommend one")
     cp.add_argument("scenario", help="scenario file with [pump], [source] and [destination]")
-    cp.add_argument("--setpoints", help="trace setpoints in °C: START:STOP:STEP or a list, e.g. 40:70:5")
-    cp.add_argument("--steam-pressures", help="steam pressures in bar(g), e.g. 2:8:1")
+    cp.add_argument("--setpoints", help="trace setpoints in °C (°F with --units us): START:STOP:STEP or a list, e.g. 40:70:5")
+    cp.add_argument("--steam-pressures", help="steam pressures in bar(g) (psig with --units us), e.g. 2:8:1")
     cp.add_argument("--pump-speeds", help="pump speeds in rpm, e.g. 100:200:20")
-    cp.add_argument("--flow-limits", help="flow limits in m³/h, e.g. 10:40:5")
+    cp.add_argument("--flow-limits", help="flow limits in m³/h (gpm with --units us), e.g. 10:40:5")
     cp.add_argument("--sensitivity", action="store_true", help="also rerun with the ambient shifted and the viscosity scaled")
     cp.add_argument("--ambient-shift", type=float, default=10.0, help="sensitivity: ambient shift in K (default 10)")
     cp.add_argument("--viscosity-uncertainty", type=float, default=20.0, help="sensitivity: viscosity ± percent (default 20)")
-    cp.add_argument("--json", action="store_true", help="print JSON")
+    _common(cp, "print JSON (SI: lever values in K, Pa, rev/s, m3/s) with each row's findings")
     cp.set_defaults(func=_compare)
 
     sc = sub.add_parser("schema", help="print the scenario JSON Schema")

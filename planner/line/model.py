@@ -7,6 +7,7 @@ from planner.line.march import DEFAULT_STEP_M, Line, MarchResult, march
 from planner.line.products import scenario_product
 from planner.line.route import build_line
 from planner.scenario.schema import Scenario, calibration_of
+from planner.scenario.wording import Q, Sentence
 
 
 def line_from_scenario(scenario: Scenario) -> Line:
@@ -26,7 +27,7 @@ def evaluate(scenario: Scenario, flow: float | None = None, inlet_temperature: f
     t_in = scenario.operation.inlet_temperature if inlet_temperature is None else inlet_temperature
     p_in = scenario.operation.inlet_pressure if inlet_pressure is None else inlet_pressure
     if t_in <= scenario.product.no_flow_temperature:
-        raise ComputationError(
-            f"inlet temperature {t_in - 273.15:.1f} °C is at or below the product's no-flow temperature "
-            f"{scenario.product.no_flow_temperature - 273.15:.1f} °C: it will not flow")
+        raise ComputationError(Sentence(
+            "inlet temperature {t} is at or below the product's no-flow temperature {limit}: it will not flow",
+            t=Q(t_in, "temperature"), limit=Q(scenario.product.no_flow_temperature, "temperature")))
     return march(line, flow, t_in, p_in, step=step)

@@ -12,6 +12,7 @@ from dataclasses import dataclass, field
 from planner.correlations.fittings import fitting_coefficients
 from planner.correlations.materials import INSULATION_MATERIALS, ROUGHNESS, WALL_CONDUCTIVITY
 from planner.correlations.pipes import parse_nps, pipe_size
+from planner.correlations.ratings import flange_rating
 from planner.scenario.schema import Route, Segment, Site
 
 HOSE_DEFAULT_WALL_M = 0.012  # reinforced hose wall, for the thermal path only [mem]
@@ -72,6 +73,26 @@ class LineSegment:
     @property
     def x_end(self) -> float:
         return self.x_start + self.length
+
+    def flange_rating_at(self, temperature: float) -> float | None:
+        """ASME B16.5 Group 1.1 rating of the segment's flanges at ``temperature`` [K] -> [Pa gauge];
+        None without a flange class or outside the table's temperatures."""
+        return flange_rating(self.flange_class, temperature) if self.flange_class is not None else None
+
+    def rating_at(self, temperature: float) -> float | None:
+        """The pressure the segment may carry with product at ``temperature`` [K]: the lower of its own
+        rating (pipe, hose or arm) and its flange rating there [Pa gauge]; None when neither is known."""
+        limits = [r for r in (self.pressure_rating, self.flange_rating_at(temperature)) if r is not None]
+        return min(limits) if limits else None
+
+    def rating_source_at(self, temperature: float) -> str:
+        """Which rating ``rating_at`` took, in words ("own rating", "ASME B16.5 class 150"), or ""."""
+        rating = self.rating_at(temperature)
+        if rating is None:
+            return ""
+        if self.pressure_rating is not None and rating == self.pressure_rating:
+            return "own rating"
+        return f"ASME B16.5 class {self.flange_class}"
 
 
 def _diameters(seg: Segment) -> tuple[float, float, float]:

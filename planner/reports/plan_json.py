@@ -2,33 +2,13 @@
 
 from __future__ import annotations
 
-import math
-
-from planner.transfer.hold import hours
+from planner.checks.caution import STANDING_CAUTION
+from planner.checks.findings import assess, worst_severity
+from planner.plain import plain
+from planner.reports.findings_text import findings_json, findings_lines, headline
+from planner.reports.key_figures import key_figures, outlet_rating
+from planner.scenario.wording import Q, Sentence, format_quantity, render
 from planner.transfer.plan import Plan
-from planner.reports.text import STANDING_CAUTION
-
-
-def _clean(value):
-    if isinstance(value, float):
-        return value if math.isfinite(value) else None
-    if isinstance(value, dict):
-        return {k: _clean(v) for k, v in value.items()}
-    if isinstance(value, (list, tuple)):
-        return [_clean(v) for v in value]
-    if hasattr(value, "tolist"):
-        return _clean(value.tolist())
-    if isinstance(value, set):
-        return sorted(value)
-    return value
-
-
-def peak_discharge_pressure(plan: Plan) -> float | None:
-    """Highest gauge pressure at the pump outlet: running (timeline) or pushing the contents out at the start."""
-    values = list(plan.timeline.arrays["discharge_pressure_pa"])
-    if plan.startup_push is not None:
-        values.append(plan.startup_push.peak_discharge_pressure_pa)
-    return float(max(values)) if values else None
 
 
 def start_dict(plan: Plan) -> dict:
@@ -53,90 +33,151 @@ def start_dict(plan: Plan) -> dict:
     return doc
 
 
-def plan_json(plan: Plan, arrays: bool = True) -> dict:
+def _startup_dict(plan: Plan, arrays: bool) -> dict:
+    warm, after = plan.prewarm, plan.after_prewarm
+    doc = {
+        "mode": plan.start_mode, "time_s": plan.startup_time_s,
+        "line_start_temperature_k": plan.line_start_temperature_k,
+        "prewarm": {
+            "possible": warm.possible, "time_s": warm.time_s, "target_k": warm.target_k, "energy_j": warm.energy_j,
+            "untraced": warm.untraced, "message": warm.message, "segments": [s.__dict__ for s in warm.segments],
+        },
+        "push_cold": {k: v for k, v in plan.push_cold.__dict__.items() if k != "rows" or arrays},
+        "after_prewarm": None if after is None else {k: v for k, v in after.__dict__.items() if k != "rows" or arrays},
+    }
+    return doc
+
+
+def key_figures_dict(plan: Plan) -> dict:
+    """The key figures (SI): value, or null with the reason in ``why``."""
+    return {k.key: {"value": k.value, "quantity": k.quantity, "possible": k.possible, "why": k.why}
+            for k in key_figures(plan)}
+
+
+def plan_json(plan: Plan, arrays: bool = True, findings: list | None = None) -> dict:
+    """The documented plan JSON (SI).  ``findings`` defaults to ``assess(plan)``."""
+    found = assess(plan) if findings is None else findings
     t = plan.timeline
+    rating = outlet_rating(plan)
     doc = {
         "scenario": plan.scenario.name,
         "units": "SI: K, Pa (gauge), m, m3, m3/s, s, W, J; costs in the scenario's currency",
+        "worst_severity": worst_severity(found),
+        "headline": headline(found),
         "start": start_dict(plan),
         "timeline": {
             "completed": t.completed, "stop_reason": t.stop_reason, "total_time_s": t.total_time_s,
             "moved_m3": t.moved_m3, "steps": len(t.statuses), "statuses": t.statuses, "flags": sorted(t.flags),
         },
-        "startup": {
-            "mode": plan.start_mode, "time_s": plan.startup_time_s,
-            "line_start_temperature_k": plan.line_start_temperature_k,
-            "prewarm": {
-                "possible": plan.prewarm.possible, "time_s": plan.prewarm.time_s, "target_k": plan.prewarm.target_k,
-                "energy_j": plan.prewarm.energy_j, "untraced": plan.prewarm.untraced, "message": plan.prewarm.message,
-                "segments": [s.__dict__ for s in plan.prewarm.segments],
-            },
-            "push_cold": {k: v for k, v in plan.push_cold.__dict__.items() if k != "rows"},
-        },
+        "startup": _startup_dict(plan, arrays),
         "hold": {k: v for k, v in plan.hold.__dict__.items() if k != "segments"},
-        "peak_discharge_pressure_pa": peak_discharge_pressure(plan),
-        "energy": plan.energy,
-        "costs": plan.costs,
+        "peak_discharge_pressure_pa": plan.peak_discharge_pressure_pa,
+        "outlet_rating_pa": rating.value, "outlet_rating_where": rating.where,
+        "energy": plan.energy.as_dict(),
+        "costs": plan.costs.as_dict(),
         "total_time_s": plan.total_time_s,
         "planned_window_s": plan.scenario.schedule.planned_window,
+        "key_figures": key_figures_dict(plan),
+        "findings": findings_json(found),
         "caution": STANDING_CAUTION,
     }
     doc["hold"]["segments"] = [s.__dict__ for s in plan.hold.segments]
-    after = plan.after_prewarm
-    doc["startup"]["after_prewarm"] = None if after is None else {k: v for k, v in after.__dict__.items() if k != "rows"}
     if arrays:
         doc["timeline"]["arrays"] = {k: v.tolist() for k, v in t.arrays.items()}
-        doc["startup"]["push_cold"]["rows"] = plan.push_cold.rows
-        if after is not None:
-            doc["startup"]["after_prewarm"]["rows"] = after.rows
-    return _clean(doc)
+    return plain(doc)
 
 
-def _h(seconds) -> str:
-    return "—" if seconds is None else f"{seconds / 3600:.2f} h"
+def _q(value, kind, system, decimals=None) -> str:
+    return format_quantity(value, kind, system, decimals)
 
 
-def plan_text(plan: Plan) -> str:
-    s = plan.scenario
+def _start_lines(plan: Plan, system: str) -> list[str]:
     op = plan.start
-    lines = [s.name, ""]
-    lines.append(f"  start: {op.status} — {op.message}")
+    lines = [f"  start: {op.status} — {render(op.message, system)}"]
     if op.flags:
         lines.append(f"  flags: {', '.join(op.flags)}")
     if op.point is not None and op.moving:
         p = op.point
-        lines.append(f"  flow {op.flow * 3600:.2f} m³/h, pump differential {p.pump_differential / 1e5:.2f} bar, "
-                     f"discharge {p.discharge_pressure / 1e5:.2f} bar(g), suction {p.suction_pressure / 1e5:.2f} bar(g)")
-        lines.append(f"  NPSH available {p.npsh_available:.2f} m, required {op.npsh_required:.2f} m, "
-                     f"margin {p.npsh_available - op.npsh_required:.2f} m")
-        lines.append(f"  shaft power {op.shaft_power / 1e3:.2f} kW; outlet {p.outlet_temperature - 273.15:.1f} °C")
+        lines.append(f"  flow {_q(op.flow, 'volume_flow', system, 2)}, pump differential "
+                     f"{_q(p.pump_differential, 'pressure', system)}, discharge {_q(p.discharge_pressure, 'pressure', system)} "
+                     f"(gauge), suction {_q(p.suction_pressure, 'pressure', system)} (gauge)")
+        lines.append(f"  NPSH available {_q(p.npsh_available, 'head', system)}, required "
+                     f"{_q(op.npsh_required, 'head', system)}, margin {_q(p.npsh_available - op.npsh_required, 'head', system)}")
+        lines.append(f"  shaft power {_q(op.shaft_power, 'power', system)}; outlet "
+                     f"{_q(p.outlet_temperature, 'temperature', system)}")
+    return lines
+
+
+def _figure_text(k, system: str) -> str:
+    if not k.possible:
+        return f"not possible: {render(k.why, system)}"
+    if k.value is None:
+        return "—"
+    if k.quantity == "money":
+        return f"{k.value:,.2f} {k.unit}"
+    return _q(k.value, k.quantity, system)
+
+
+def _transfer_lines(plan: Plan, system: str) -> list[str]:
     t = plan.timeline
-    lines.append("")
-    lines.append(f"  transfer: {t.moved_m3:.1f} m³ in {_h(t.total_time_s)}" + ("" if t.completed else f" — STOPPED: {t.stop_reason}"))
+    figures = {k.key: k for k in key_figures(plan)}
+    lines = [f"  transfer: {_q(t.moved_m3, 'volume', system)} — {_figure_text(figures['transfer_time'], system)}"]
     if len(t.arrays["flow_m3_s"]):
-        q = t.arrays["flow_m3_s"] * 3600
-        lines.append(f"  flow from {q[0]:.1f} to {q[-1]:.1f} m³/h; source from "
-                     f"{t.arrays['source_temperature_k'][0] - 273.15:.1f} to {t.arrays['source_temperature_k'][-1] - 273.15:.1f} °C")
-    lines.append(f"  start-up ({plan.start_mode}): {_h(plan.startup_time_s)}; line starts at {plan.line_start_temperature_k - 273.15:.1f} °C")
-    lines.append(f"    pre-warm: {plan.prewarm.message}")
-    lines.append(f"    push cold: {plan.push_cold.message}")
+        q, src = t.arrays["flow_m3_s"], t.arrays["source_temperature_k"]
+        lines.append(f"  flow from {_q(q[0], 'volume_flow', system)} to {_q(q[-1], 'volume_flow', system)}; source from "
+                     f"{_q(src[0], 'temperature', system)} to {_q(src[-1], 'temperature', system)}")
+    startup = "not possible" if plan.startup_time_s is None else _q(plan.startup_time_s, "time", system, 2)
+    lines.append(f"  start-up ({plan.start_mode}): {startup}; line starts at "
+                 f"{_q(plan.line_start_temperature_k, 'temperature', system)}")
+    lines.append(f"    pre-warm: {render(plan.prewarm.message, system)}")
+    lines.append(f"    push cold: {render(plan.push_cold.message, system)}")
     if plan.after_prewarm is not None:
-        lines.append(f"    after pre-warm: {plan.after_prewarm.message}")
-    peak = peak_discharge_pressure(plan)
+        lines.append(f"    after pre-warm: {render(plan.after_prewarm.message, system)}")
+    peak = plan.peak_discharge_pressure_pa
     if peak is not None:
-        lines.append(f"  peak discharge pressure {peak / 1e5:.2f} bar(g) (running or at the start)")
+        lines.append(f"  peak discharge pressure {_q(peak, 'pressure', system)} (gauge; running or at the start)")
+    lines.append(f"  total time: {_figure_text(figures['total_time'], system)} against a planned window of "
+                 f"{_q(plan.scenario.schedule.planned_window, 'time', system, 2)}")
+    return lines
+
+
+def _hold_lines(plan: Plan, system: str) -> list[str]:
     h = plan.hold
-    lines.append(f"  stop: limit {h.limit_temperature_k - 273.15:.1f} °C ({h.limit_reason}); first to reach it with tracing on "
-                 f"{hours(h.time_to_limit_traced_s)} ({h.first_to_set_traced}), tracing failed {hours(h.time_to_limit_failed_s)} "
-                 f"({h.first_to_set_failed})")
+    held = lambda v: "holds 14 days" if v is None else _q(v, "time", system)  # noqa: E731
+    lines = [render(Sentence("  stop: limit {t} ({why}); first to reach it with tracing on {a} ({sa}), tracing failed "
+                             "{b} ({sb})", t=Q(h.limit_temperature_k, "temperature"), why=h.limit_reason,
+                             a=held(h.time_to_limit_traced_s), sa=h.first_to_set_traced,
+                             b=held(h.time_to_limit_failed_s), sb=h.first_to_set_failed), system)]
     if h.gelled_restart_pressure_pa > 0:
-        lines.append(f"  gelled restart needs about {h.gelled_restart_pressure_pa / 1e5:.2f} bar (4 τy L / D)")
+        lines.append(f"  gelled restart needs about {_q(h.gelled_restart_pressure_pa, 'pressure', system)} (4 τy L / D)")
+    return lines
+
+
+def _energy_lines(plan: Plan, system: str) -> list[str]:
     e, c = plan.energy, plan.costs
+    lines = [f"  energy: tracing {_q(e.tracing_electric_j, 'energy', system)} / {_q(e.tracing_steam_kg, 'mass', system)} "
+             f"steam, pump {_q(e.pump_j, 'energy', system)}, vessel heating {_q(e.vessel_heating_electric_j, 'energy', system)}"
+             f" / {_q(e.vessel_heating_steam_kg, 'mass', system)} steam"]
+    figures = {k.key: k for k in key_figures(plan)}
+    if c.complete:
+        lines.append(f"  cost: energy {c.energy:,.2f} + demurrage {c.demurrage:,.2f} = {c.total:,.2f} {c.currency}")
+    else:
+        lines.append(f"  cost: {_figure_text(figures['total_cost'], system)}")
+    return lines
+
+
+def plan_text(plan: Plan, system: str = "SI", findings: list | None = None) -> str:
+    """The plan in words: first line the worst finding (STOP and why), then the findings by severity,
+    then the figures, all in ``system`` ("SI" or "US")."""
+    found = assess(plan) if findings is None else findings
+    lines = [headline(found, system), "", plan.scenario.name, ""]
+    lines += findings_lines(found, system)
     lines.append("")
-    lines.append(f"  energy: tracing {e['tracing_kwh']:.1f} kWh / {e['tracing_steam_kg']:.0f} kg steam, pump {e['pump_kwh']:.1f} kWh, "
-                 f"vessel heating {e['vessel_heating_kwh']:.1f} kWh / {e['vessel_heating_steam_kg']:.0f} kg steam")
-    lines.append(f"  cost: energy {c['energy']:.2f} + demurrage {c['demurrage']:.2f} = {c['total']:.2f} {c['currency']}")
-    lines.append(f"  total time {_h(plan.total_time_s)} against a planned window of {_h(s.schedule.planned_window)}")
+    lines += _start_lines(plan, system)
+    lines.append("")
+    lines += _transfer_lines(plan, system) + _hold_lines(plan, system)
+    lines.append("")
+    lines += _energy_lines(plan, system)
     lines.append("")
     lines.append("  " + STANDING_CAUTION)
     return "\n".join(lines)

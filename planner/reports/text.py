@@ -2,22 +2,15 @@
 
 from __future__ import annotations
 
-import math
-
 import numpy as np
 
+from planner.checks.caution import STANDING_CAUTION  # noqa: F401  (re-exported: reports show it)
+from planner.checks.findings import worst_severity
 from planner.line.march import MarchResult
+from planner.plain import finite_or_none
+from planner.reports.findings_text import findings_json, findings_lines, headline
 from planner.scenario.schema import Scenario
-
-STANDING_CAUTION = (
-    "Planning estimate only. Follow site procedures, hazardous-area rules and the pressure and "
-    "temperature ratings of the equipment, and the advice of a licensed engineer. Hot jackets, "
-    "tracers and product can burn; pressurised hoses can burst."
-)
-
-
-def _c(kelvin: float) -> float:
-    return kelvin - 273.15
+from planner.scenario.wording import Q, Sentence, format_quantity, render
 
 
 def segment_rows(result: MarchResult, line_segments) -> list[dict]:
@@ -47,23 +40,22 @@ def segment_rows(result: MarchResult, line_segments) -> list[dict]:
     return rows
 
 
-def _finite(value):
-    if isinstance(value, float) and not math.isfinite(value):
-        return None
-    return value
-
-
-def march_json(scenario: Scenario, result: MarchResult, profiles: bool = False, line_segments=None) -> dict:
+def march_json(scenario: Scenario, result: MarchResult, profiles: bool = False, line_segments=None,
+               findings: list | None = None) -> dict:
     from planner.line.model import line_from_scenario
 
     segments = line_segments or line_from_scenario(scenario).segments
     doc = {
         "scenario": scenario.name,
         "units": "SI: K, Pa (gauge), m, m3/s, kg/s, W, Pa s",
-        "summary": {k: _finite(v) for k, v in result.summary.as_dict().items()},
+        "summary": {k: finite_or_none(v) for k, v in result.summary.as_dict().items()},
         "segments": segment_rows(result, segments),
         "caution": STANDING_CAUTION,
     }
+    if findings is not None:
+        doc["worst_severity"] = worst_severity(findings)
+        doc["headline"] = headline(findings)
+        doc["findings"] = findings_json(findings)
     if profiles:
         doc["profiles"] = {
             "nodes": {k: v.tolist() for k, v in result.nodes.items()},
@@ -72,38 +64,59 @@ def march_json(scenario: Scenario, result: MarchResult, profiles: bool = False, 
     return doc
 
 
-def march_table(scenario: Scenario, result: MarchResult) -> str:
-    from planner.line.model import line_from_scenario
-
+def _summary_lines(scenario: Scenario, result: MarchResult, system: str) -> list[str]:
     s = result.summary
-    segments = line_from_scenario(scenario).segments
-    lines = [f"{scenario.name}", ""]
-    lines.append(f"  flow                 {s.flow_m3_s * 3600:10.2f} m3/h   ({s.mass_flow_kg_s:.2f} kg/s)")
-    lines.append(f"  inlet temperature    {_c(s.inlet_temperature_k):10.2f} °C")
+    q = lambda value, kind, decimals=None: format_quantity(value, kind, system, decimals)  # noqa: E731
+    lines = [f"  flow                 {q(s.flow_m3_s, 'volume_flow', 2)}   ({s.mass_flow_kg_s:.2f} kg/s)"
+             if system == "SI" else f"  flow                 {q(s.flow_m3_s, 'volume_flow', 2)}",
+             f"  inlet temperature    {q(s.inlet_temperature_k, 'temperature', 2)}"]
     if s.status == "product_sets":
-        lines.append(f"  PRODUCT SETS at {s.sets_at_m:.0f} m: it falls below its no-flow temperature "
-                     f"({_c(scenario.product.no_flow_temperature):.1f} °C); figures below stop there")
-    lines.append(f"  outlet temperature   {_c(s.outlet_temperature_k):10.2f} °C")
-    lines.append(f"  min / max bulk       {_c(s.min_bulk_temperature_k):10.2f} / {_c(s.max_bulk_temperature_k):.2f} °C")
-    lines.append(f"  pressure drop        {s.pressure_drop_pa / 1e5:10.3f} bar")
-    lines.append(f"    friction           {s.friction_drop_pa / 1e5:10.3f} bar")
-    lines.append(f"    fittings           {s.fittings_drop_pa / 1e5:10.3f} bar")
-    lines.append(f"    static head        {s.static_drop_pa / 1e5:10.3f} bar")
-    lines.append(f"  viscosity range      {s.min_viscosity_pa_s * 1e3:10.1f} – {s.max_viscosity_pa_s * 1e3:.1f} mPa·s"
-                 + ("   (law extrapolated beyond its lab points)" if s.viscosity_extrapolated else ""))
-    lines.append(f"  laminar share        {s.laminar_fraction * 100:10.0f} %")
-    lines.append(f"  hottest jacket       {_c(s.max_jacket_temperature_k):10.1f} °C at {s.max_jacket_at_m:.0f} m")
-    lines.append(f"  hottest heater       {_c(s.max_sheath_temperature_k):10.1f} °C at {s.max_sheath_at_m:.0f} m")
-    lines.append(f"  trace power          {s.trace_power_w / 1e3:10.2f} kW")
-    lines.append(f"  heat lost            {s.heat_loss_w / 1e3:10.2f} kW")
-    lines.append(f"  viscous heating      {s.viscous_heating_w / 1e3:10.2f} kW")
+        lines.append(render(Sentence("  PRODUCT SETS at {x}: it falls below its no-flow temperature ({t}); figures "
+                                     "below stop there", x=Q(s.sets_at_m, "length"),
+                                     t=Q(scenario.product.no_flow_temperature, "temperature")), system))
+    lines += [
+        f"  outlet temperature   {q(s.outlet_temperature_k, 'temperature', 2)}",
+        f"  min / max bulk       {q(s.min_bulk_temperature_k, 'temperature', 2)} / {q(s.max_bulk_temperature_k, 'temperature', 2)}",
+        f"  pressure drop        {q(s.pressure_drop_pa, 'pressure', 3)}",
+        f"    friction           {q(s.friction_drop_pa, 'pressure', 3)}",
+        f"    fittings           {q(s.fittings_drop_pa, 'pressure', 3)}",
+        f"    static head        {q(s.static_drop_pa, 'pressure', 3)}",
+        f"  viscosity range      {q(s.min_viscosity_pa_s, 'dynamic_viscosity', 1)} – {q(s.max_viscosity_pa_s, 'dynamic_viscosity', 1)}"
+        + ("   (law extrapolated beyond its lab points)" if s.viscosity_extrapolated else ""),
+        f"  laminar share        {s.laminar_fraction * 100:.0f} %",
+        f"  hottest jacket       {q(s.max_jacket_temperature_k, 'temperature')} at {q(s.max_jacket_at_m, 'length')}",
+        f"  hottest heater       {q(s.max_sheath_temperature_k, 'temperature')} at {q(s.max_sheath_at_m, 'length')}",
+        f"  trace power          {q(s.trace_power_w, 'power')}",
+        f"  heat lost            {q(s.heat_loss_w, 'power')}",
+        f"  viscous heating      {q(s.viscous_heating_w, 'power')}",
+    ]
+    return lines
+
+
+def march_table(scenario: Scenario, result: MarchResult, system: str = "SI", findings: list | None = None) -> str:
+    """The march in words and a table by segment, in ``system``; with ``findings``, the first line is the
+    worst of them and they follow grouped by severity."""
+    from planner.line.model import line_from_scenario
+    from planner.scenario.units import unit_label
+
+    segments = line_from_scenario(scenario).segments
+    lines = [] if findings is None else [headline(findings, system), ""]
+    lines += [f"{scenario.name}", ""]
+    if findings is not None:
+        lines += findings_lines(findings, system) + [""]
+    lines += _summary_lines(scenario, result, system)
     lines.append("")
-    header = f"  {'segment':32s} {'end m':>7s} {'T out °C':>9s} {'p bar':>8s} {'max mPa·s':>10s} {'min Re':>8s} {'jacket °C':>9s}"
-    lines.append(header)
+    u = lambda kind: unit_label(kind, system)  # noqa: E731
+    lines.append(f"  {'segment':32s} {'end ' + u('length'):>7s} {'T out ' + u('temperature'):>9s} "
+                 f"{'p ' + u('pressure'):>8s} {'max ' + u('dynamic_viscosity'):>10s} {'min Re':>8s} "
+                 f"{'jacket ' + u('temperature'):>10s}")
     for row in segment_rows(result, segments):
-        lines.append(f"  {row['segment'][:32]:32s} {row['x_end_m']:7.0f} {_c(row['outlet_temperature_k']):9.2f} "
-                     f"{row['pressure_pa'] / 1e5:8.3f} {row['max_viscosity_pa_s'] * 1e3:10.1f} {row['min_reynolds']:8.1f} "
-                     f"{_c(row['max_jacket_temperature_k']):9.1f}")
+        cells = [format_quantity(row[key], kind, system, digits).rsplit(" ", 1)[0] for key, kind, digits in (
+            ("x_end_m", "length", 0), ("outlet_temperature_k", "temperature", 2), ("pressure_pa", "pressure", 3),
+            ("max_viscosity_pa_s", "dynamic_viscosity", 1))]
+        jacket = format_quantity(row["max_jacket_temperature_k"], "temperature", system, 1).rsplit(" ", 1)[0]
+        lines.append(f"  {row['segment'][:32]:32s} {cells[0]:>7s} {cells[1]:>9s} {cells[2]:>8s} {cells[3]:>10s} "
+                     f"{row['min_reynolds']:8.1f} {jacket:>10s}")
     lines.append("")
     lines.append("  pressures are gauge relative to the route inlet pressure; " + STANDING_CAUTION)
     return "\n".join(lines)

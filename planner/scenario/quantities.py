@@ -14,7 +14,7 @@ from typing import Annotated
 
 from pydantic import BeforeValidator, PlainSerializer, WithJsonSchema
 
-from planner.scenario.units import DEFAULT_UNITS, SI_UNITS, UnitError, registry, to_si
+from planner.scenario.units import _NUMBER_UNIT, DEFAULT_UNITS, SI_UNITS, UnitError, _normalise_unit, registry, to_si
 
 _LABELS = {
     "degC": "°C",
@@ -54,6 +54,13 @@ def _show(value_si: float, kind: str) -> str:
     return f"{si_to_default(value_si, kind):g} {default_unit_label(kind)}"
 
 
+class SI(float):
+    """A float already in SI: a quantity field takes it as it is (no default-unit reading), still
+    checking its range.  Typed changes of a validated scenario assign these (``plan.with_changes``)."""
+
+    __slots__ = ()
+
+
 class QuantityKind:
     """Marks a field as a quantity of ``kind`` (SI inside), so exact dumps can name its unit."""
 
@@ -71,24 +78,27 @@ def Quantity(kind: str, *, gt: float | None = None, ge: float | None = None,
     """An annotated float type for a quantity of ``kind``; bounds are given in SI."""
 
     def parse(value: object, info) -> float:
-        field = info.field_name or "value"
-        try:
-            number = to_si(value, kind, field)
-        except UnitError as exc:   # the path already names the field: drop to_si's own prefix
-            raise ValueError(str(exc).removeprefix(f"{field}: ")) from None
+        if isinstance(value, SI):
+            number = float(value)
+        else:
+            try:
+                number = to_si(value, kind, "value")
+            except UnitError as exc:   # the path already names the field: drop to_si's own prefix
+                raise ValueError(str(exc).removeprefix("value: ")) from None
+        unit, shown = _given_unit(value, kind)
         if kind == "temperature" and number <= 0.0:
-            raise ValueError(f"{value!r} is at or below absolute zero")
+            raise ValueError(f"{shown} is at or below absolute zero ({_in_unit(0.0, kind, unit)})")
         problems = []
         if gt is not None and not number > gt:
-            problems.append(f"must be greater than {_show(gt, kind)}")
+            problems.append(f"must be greater than {_in_unit(gt, kind, unit)}")
         if ge is not None and not number >= ge:
-            problems.append(f"must be at least {_show(ge, kind)}")
+            problems.append(f"must be at least {_in_unit(ge, kind, unit)}")
         if lt is not None and not number < lt:
-            problems.append(f"must be less than {_show(lt, kind)}")
+            problems.append(f"must be less than {_in_unit(lt, kind, unit)}")
         if le is not None and not number <= le:
-            problems.append(f"must be at most {_show(le, kind)}")
+            problems.append(f"must be at most {_in_unit(le, kind, unit)}")
         if problems:
-            raise ValueError(f"{value!r} ({_show(number, kind)}) is out of range: " + " and ".join(problems))
+            raise ValueError(f"{shown} is out of range: " + " and ".join(problems))
         return number
 
     limits = []
@@ -106,6 +116,35 @@ def Quantity(kind: str, *, gt: float | None = None, ge: float | None = None,
         PlainSerializer(lambda v: si_to_default(v, kind), return_type=float),
         WithJsonSchema({"anyOf": [{"type": "number"}, {"type": "string"}], "description": text}),
     ]
+
+
+def _given_unit(value: object, kind: str) -> tuple[str | None, str]:
+    """The unit ``value`` was given in (pint spelling; None: the kind's default unit) and the value as the
+    user wrote it, for messages: "-300 degC", "-45 m", "12 (m³/s)"."""
+    if isinstance(value, SI):
+        return SI_UNITS[kind], f"{float(value):.6g} {_pretty(SI_UNITS[kind])}"
+    if isinstance(value, str):
+        match = _NUMBER_UNIT.match(value)
+        if match and match.group(2).strip():
+            return _normalise_unit(match.group(2)), f"{match.group(1)} {_pretty(_normalise_unit(match.group(2)))}"
+        number = match.group(1) if match else value.strip()
+        return None, f"{number} {default_unit_label(kind)}"
+    return None, f"{value:g} {default_unit_label(kind)}" if isinstance(value, (int, float)) else str(value)
+
+
+def _pretty(unit: str) -> str:
+    return _LABELS.get(unit, unit).replace("**3", "³").replace("**2", "²").replace("degC", "°C").replace("degF", "°F")
+
+
+def _in_unit(si_value: float, kind: str, unit: str | None) -> str:
+    """An SI bound in the unit the value was given in (the default unit for plain numbers)."""
+    target = unit or DEFAULT_UNITS[kind]
+    try:
+        number = registry().Quantity(si_value, SI_UNITS[kind]).to(target).magnitude
+    except Exception:  # noqa: BLE001  (a unit pint reads but cannot convert to: fall back to the default)
+        target = DEFAULT_UNITS[kind]
+        number = registry().Quantity(si_value, SI_UNITS[kind]).to(target).magnitude
+    return f"{float(number):.6g} {_pretty(target)}"
 
 
 def _example(kind: str) -> str:
@@ -138,53 +177,91 @@ def _example(kind: str) -> str:
     }.get(kind, "1")
 
 
-__all__ = ["Quantity", "si_to_default", "default_unit_label", "UnitError"]
+__all__ = ["Quantity", "SI", "si_to_default", "default_unit_label", "UnitError"]
 
 
 def exact_dump(model, skip_defaults: bool = True) -> dict:
     """A plain dict of a model in which every quantity is a string carrying its SI value exactly
     ("328.15 K", "0.004166666666666667 m**3/s"), so that validating it gives back the very same floats.
     Fields at their defaults are left out when ``skip_defaults``."""
+    return _dump(model, lambda value, kind: f"{value!r} {SI_UNITS[kind]}", skip_defaults)
+
+
+def _kind_of(annotation):
     import typing
 
+    for arg in typing.get_args(annotation):
+        if isinstance(arg, QuantityKind):
+            return arg.kind
+        found = _kind_of(arg)
+        if found:
+            return found
+    return None
+
+
+def _dump(model, quantity_text, skip_defaults: bool) -> dict:
+    """The fields of a model as plain data; quantities (floats of a known kind) through ``quantity_text``."""
     from pydantic import BaseModel
-
-    from planner.scenario.units import SI_UNITS
-
-    def kind_of(annotation):
-        for arg in typing.get_args(annotation):
-            if isinstance(arg, QuantityKind):
-                return arg.kind
-            found = kind_of(arg)
-            if found:
-                return found
-        return None
 
     def convert(value, kind):
         if value is None:
             return None
         if isinstance(value, BaseModel):
-            return exact_dump(value, skip_defaults)
+            return _dump(value, quantity_text, skip_defaults)
         if isinstance(value, list):
             return [convert(v, kind) for v in value]
         if isinstance(value, dict):
             return {k: convert(v, kind) for k, v in value.items()}
         if kind is not None and isinstance(value, float):
-            return f"{value!r} {SI_UNITS[kind]}"
+            return quantity_text(value, kind)
         return value
 
     out = {}
     for name, field in type(model).model_fields.items():
         value = getattr(model, name)
-        if skip_defaults and not field.is_required():
-            default = field.get_default(call_default_factory=True)
-            if value == default:
-                continue
-        kind = None
-        for meta in field.metadata:
-            if isinstance(meta, QuantityKind):
-                kind = meta.kind
-        if kind is None:
-            kind = kind_of(field.annotation)
+        if value is None:
+            continue
+        if skip_defaults and not field.is_required() and value == field.get_default(call_default_factory=True):
+            continue
+        kind = next((m.kind for m in field.metadata if isinstance(m, QuantityKind)), None) or _kind_of(field.annotation)
         out[name] = convert(value, kind)
     return out
+
+
+# Units a person writes in a scenario file, per unit system (pint spellings this package reads).
+FILE_UNITS = {
+    "SI": {"temperature": "degC", "temperature_difference": "K", "pressure": "bar", "volume_flow": "m3/h",
+           "volume": "m3", "length": "m", "small_length": "mm", "dynamic_viscosity": "mPa*s",
+           "kinematic_viscosity": "mm2/s", "density": "kg/m3", "density_slope": "kg/m3/K", "specific_heat": "kJ/kg/K",
+           "conductivity": "W/m/K", "linear_power": "W/m", "linear_conductance": "W/m/K", "power": "kW",
+           "speed": "m/s", "time": "h", "rotational_speed": "rpm", "displacement": "L", "yield_stress": "Pa",
+           "consistency": "Pa*s", "area": "m2", "heat_transfer_coefficient": "W/m2/K", "mass_flow": "kg/s"},
+    "US": {"temperature": "degF", "temperature_difference": "delta_degF", "pressure": "psi", "volume_flow": "gpm",
+           "volume": "gallon", "length": "ft", "small_length": "in", "dynamic_viscosity": "cP",
+           "kinematic_viscosity": "cSt", "density": "lb/ft3", "density_slope": "lb/ft3/delta_degF",
+           "specific_heat": "BTU/lb/delta_degF", "conductivity": "BTU/h/ft/delta_degF", "linear_power": "W/ft",
+           "linear_conductance": "W/ft/delta_degF", "power": "hp", "speed": "ft/s", "time": "h",
+           "rotational_speed": "rpm", "displacement": "L", "yield_stress": "Pa", "consistency": "Pa*s",
+           "area": "ft2", "heat_transfer_coefficient": "BTU/h/ft2/delta_degF", "mass_flow": "lb/s"},
+}
+
+
+def readable_quantity(si_value: float, kind: str, system: str = "SI"):
+    """``si_value`` as a person writes it in a file ("10 bar", "55 degC", "176 gpm") with the fewest
+    digits that read back to exactly the same float; the exact SI value ("328.15 K") if no display
+    figure does.  Dimensionless values stay numbers."""
+    unit = FILE_UNITS[system].get(kind)
+    if unit is None:
+        return si_value
+    number = registry().Quantity(si_value, SI_UNITS[kind]).to(_normalise_unit(unit)).magnitude
+    for digits in range(6, 18):
+        text = f"{float(number):.{digits}g} {unit}"
+        if to_si(text, kind) == si_value:
+            return text
+    return f"{si_value!r} {SI_UNITS[kind]}"
+
+
+def readable_dump(model, system: str = "SI") -> dict:
+    """A plain dict of a model with every quantity as a unit string of ``system`` (``readable_quantity``),
+    reading back to the very same floats; optional fields left unset are dropped."""
+    return _dump(model, lambda value, kind: readable_quantity(value, kind, system), skip_defaults=False)

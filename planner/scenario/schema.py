@@ -19,7 +19,7 @@ from pydantic import BaseModel, ConfigDict, Field, ValidationError, field_valida
 
 from planner.errors import ScenarioError
 from planner.correlations.materials import INSULATION_MATERIALS
-from planner.scenario.quantities import Quantity
+from planner.scenario.quantities import Quantity, readable_dump
 
 SCHEMA_VERSION = 1
 
@@ -592,17 +592,28 @@ def scenario_to_dict(scenario: Scenario) -> dict:
     return scenario.model_dump(mode="json", exclude_none=True)
 
 
-def scenario_to_toml(scenario: Scenario) -> str:
-    return tomli_w.dumps(scenario_to_dict(scenario))
+def scenario_to_readable_dict(scenario: Scenario, system: str = "SI") -> dict:
+    """The scenario as a person writes it: quantities with their units in ``system`` ("10 bar",
+    "55 degC"; "145 psi", "131 degF"), reading back to exactly the same scenario."""
+    return readable_dump(scenario, system)
+
+
+def scenario_to_toml(scenario: Scenario, system: str = "SI") -> str:
+    """A TOML scenario file with every quantity written with its unit in ``system``."""
+    return tomli_w.dumps(scenario_to_readable_dict(scenario, system))
 
 
 def scenario_to_json(scenario: Scenario) -> str:
     return json.dumps(scenario_to_dict(scenario), indent=2)
 
 
-def save_scenario(scenario: Scenario, path: str | Path) -> None:
+def save_scenario(scenario: Scenario, path: str | Path, system: str = "SI") -> None:
+    """Write the scenario file (JSON or TOML by the suffix) with its quantities in units of ``system``."""
     path = Path(path)
-    text = scenario_to_json(scenario) if path.suffix.lower() == ".json" else scenario_to_toml(scenario)
+    if path.suffix.lower() == ".json":
+        text = json.dumps(scenario_to_readable_dict(scenario, system), indent=2, ensure_ascii=False)
+    else:
+        text = scenario_to_toml(scenario, system)
     path.write_text(text, encoding="utf-8")
 
 

@@ -234,6 +234,8 @@ UNIT_SYSTEMS: dict[str, dict[str, DisplayUnit]] = {
         "specific_heat": DisplayUnit("kJ/(kg·K)", "kJ/kg/K"),
         "conductivity": DisplayUnit("W/(m·K)", "W/m/K"),
         "head": DisplayUnit("m", "m"),
+        "heat_transfer_coefficient": DisplayUnit("W/(m²·K)", "W/m**2/K"),
+        "rotational_speed": DisplayUnit("rpm", "revolution/minute"),
     },
     "US": {
         "length": DisplayUnit("ft", "ft"),
@@ -255,6 +257,8 @@ UNIT_SYSTEMS: dict[str, dict[str, DisplayUnit]] = {
         "specific_heat": DisplayUnit("BTU/(lb·°F)", "BTU/lb/delta_degF"),
         "conductivity": DisplayUnit("BTU/(h·ft·°F)", "BTU/h/ft/delta_degF"),
         "head": DisplayUnit("ft", "ft"),
+        "heat_transfer_coefficient": DisplayUnit("BTU/(h·ft²·°F)", "BTU/hour/ft**2/delta_degF"),
+        "rotational_speed": DisplayUnit("rpm", "revolution/minute"),
     },
 }
 

@@ -14,6 +14,7 @@ from dataclasses import dataclass, field
 from planner.correlations.rheology import gelled_restart_pressure
 from planner.transfer.system import TransferSystem
 from planner.line.transients import evolve
+from planner.scenario.wording import Q, Sentence
 
 HOLD_HORIZON_S = 14 * 86400.0
 
@@ -60,7 +61,7 @@ def limit_temperature(system: TransferSystem) -> tuple[float, str]:
                 else:
                     high = mid
             if high > limit:
-                limit, reason = high, f"limiting viscosity {mu_limit * 1e3:.0f} mPa·s"
+                limit, reason = high, Sentence("limiting viscosity {mu}", mu=Q(mu_limit, "dynamic_viscosity"))
     return limit, reason
 
 

@@ -11,11 +11,15 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from planner.errors import ComputationError
+from pydantic import ValidationError
+
+from planner.errors import ComputationError, ScenarioError
 from planner.transfer.hold import Hold, hold_analysis
 from planner.line.march import MarchResult
 from planner.line.products import scenario_product
-from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_dict
+from planner.scenario.quantities import SI
+from planner.scenario.wording import Q, Sentence
+from planner.scenario.schema import Scenario, problems_from
 from planner.transfer.startup import Prewarm, PushCold, prewarm, push_cold
 from planner.correlations.steam import latent_heat, saturation_temperature_gauge
 from planner.transfer.system import OperatingPoint, SystemState, TransferSystem
@@ -23,6 +27,68 @@ from planner.transfer.timeline import Timeline, run_transfer
 
 J_PER_KWH = 3.6e6
 DEFAULT_COIL_STEAM_GAUGE_PA = 3.5e5  # vessel coils: assumed supply when the line is not steam traced
+
+
+@dataclass(frozen=True)
+class Energy:
+    """Energy of the plan [J, kg]: heat delivered by the tracing and the vessel heating, and how it is
+    bought (electricity or steam), and the pump's shaft energy."""
+
+    tracing_j: float                 # heat put in by the tracing (pre-warm included)
+    tracing_electric_j: float        # of which bought as electricity (0 when steam traced)
+    tracing_steam_kg: float
+    pump_j: float
+    vessel_heating_j: float
+    vessel_heating_electric_j: float
+    vessel_heating_steam_kg: float
+
+    @property
+    def electrical_j(self) -> float:
+        """Electricity bought: tracing, pump and vessel heating [J]."""
+        return self.tracing_electric_j + self.pump_j + self.vessel_heating_electric_j
+
+    @property
+    def steam_kg(self) -> float:
+        """Steam used by the tracing and the vessel heating [kg]."""
+        return self.tracing_steam_kg + self.vessel_heating_steam_kg
+
+    def as_dict(self) -> dict:
+        """The documented ``energy`` keys of the plan JSON (kWh for electricity, as on a bill)."""
+        return {
+            "tracing_j": self.tracing_j, "tracing_kwh": self.tracing_electric_j / J_PER_KWH,
+            "tracing_steam_kg": self.tracing_steam_kg, "pump_j": self.pump_j, "pump_kwh": self.pump_j / J_PER_KWH,
+            "vessel_heating_j": self.vessel_heating_j,
+            "vessel_heating_kwh": self.vessel_heating_electric_j / J_PER_KWH,
+            "vessel_heating_steam_kg": self.vessel_heating_steam_kg,
+            "electrical_j": self.electrical_j, "electrical_kwh": self.electrical_j / J_PER_KWH,
+            "steam_kg": self.steam_kg,
+        }
+
+
+@dataclass(frozen=True)
+class Costs:
+    """Costs of the plan in the scenario's currency; ``complete`` is False when the start-up or the
+    transfer cannot be carried out, and the total then covers only the part that can."""
+
+    currency: str
+    electricity: float
+    steam: float
+    demurrage: float
+    demurrage_hours: float
+    complete: bool
+
+    @property
+    def energy(self) -> float:
+        return self.electricity + self.steam
+
+    @property
+    def total(self) -> float:
+        return self.electricity + self.steam + self.demurrage
+
+    def as_dict(self) -> dict:
+        return {"currency": self.currency, "electricity": self.electricity, "steam": self.steam,
+                "energy": self.energy, "demurrage": self.demurrage, "demurrage_hours": self.demurrage_hours,
+                "total": self.total, "complete": self.complete}
 
 
 @dataclass
@@ -37,8 +103,8 @@ class Plan:
     startup_time_s: float | None
     line_start_temperature_k: float
     hold: Hold
-    energy: dict
-    costs: dict
+    energy: Energy
+    costs: Costs
     total_time_s: float | None
     viscosity_factor: float = 1.0
     suction_profile: MarchResult | None = None
@@ -53,6 +119,17 @@ class Plan:
         return self.after_prewarm if self.after_prewarm is not None and self.after_prewarm.possible else None
 
     @property
+    def peak_discharge_pressure_pa(self) -> float | None:
+        """The one definition of the peak discharge pressure [Pa gauge]: the highest pump-outlet pressure
+        over the transfer timeline and over the push-out that starts it (cold or pre-warmed contents);
+        None when the pump moves nothing at all."""
+        values = [float(v) for v in self.timeline.arrays["discharge_pressure_pa"] if math.isfinite(v)]
+        push = self.startup_push
+        if push is not None and math.isfinite(push.peak_discharge_pressure_pa):
+            values.append(float(push.peak_discharge_pressure_pa))
+        return max(values) if values else None
+
+    @property
     def ok(self) -> bool:
         return self.start.moving and self.timeline.completed
 
@@ -61,29 +138,45 @@ def with_changes(scenario: Scenario, setpoint: float | None = None, steam_pressu
                  pump_speed: float | None = None, flow_limit: float | None = None,
                  ambient_shift: float = 0.0) -> Scenario:
     """A validated copy of the scenario with levers moved (SI arguments: K, Pa gauge, rev/s, m3/s;
-    ``ambient_shift`` in K added to every ambient temperature)."""
-    data = scenario_to_dict(scenario)   # default units; values below are given with their unit
+    ``ambient_shift`` in K added to every ambient temperature).  The copy's fields are assigned as SI
+    floats and checked against the same ranges as a scenario file's."""
+    changed = scenario.model_copy(deep=True)
+    if (pump_speed is not None or flow_limit is not None) and changed.pump is None:
+        raise ScenarioError([("pump", "the scenario has no pump: its speed or flow cannot be changed")])
     if setpoint is not None:
-        data["tracing"]["setpoint"] = f"{setpoint!r} K"
+        _assign(changed.tracing, "tracing", "setpoint", SI(setpoint))
     if steam_pressure is not None:
-        data["tracing"]["steam_pressure"] = f"{steam_pressure!r} Pa"
+        _assign(changed.tracing, "tracing", "steam_pressure", SI(steam_pressure))
     if pump_speed is not None:
-        data["pump"]["speed"] = f"{pump_speed!r} revolution/second"
-        if data["pump"].get("max_speed") is not None and scenario.pump.max_speed < pump_speed:
-            data["pump"]["max_speed"] = f"{pump_speed!r} revolution/second"
+        if changed.pump.max_speed is not None and changed.pump.max_speed < pump_speed:
+            _assign(changed.pump, "pump", "max_speed", SI(pump_speed))
+        _assign(changed.pump, "pump", "speed", SI(pump_speed))
     if flow_limit is not None:
-        data["pump"]["control"] = "fixed_flow"
-        data["pump"]["flow_setpoint"] = f"{flow_limit!r} m**3/s"
+        _assign(changed.pump, "pump", "flow_setpoint", SI(flow_limit))
+        _assign(changed.pump, "pump", "control", "fixed_flow")
     if ambient_shift:
-        site = data["site"]
-        site["ambient_temperature"] += ambient_shift          # degC plain numbers: a shift in K
-        if site.get("design_ambient_temperature") is not None:
-            site["design_ambient_temperature"] += ambient_shift
-        for route in (data["route"], data.get("suction")):
-            for seg in (route or {}).get("segments", []):
-                if seg["surroundings"].get("ambient_temperature") is not None:
-                    seg["surroundings"]["ambient_temperature"] += ambient_shift
-    return scenario_from_dict(data)
+        _shift_ambients(changed, ambient_shift)
+    return changed
+
+
+def _assign(model, path: str, name: str, value) -> None:
+    """Set one field of a scenario section, validated; a bad value raises ScenarioError naming its path."""
+    try:
+        setattr(model, name, value)
+    except ValidationError as exc:
+        raise ScenarioError([(f"{path}.{p}" if p else path, m) for p, m in problems_from(exc)]) from None
+
+
+def _shift_ambients(scenario: Scenario, shift: float) -> None:
+    site = scenario.site
+    _assign(site, "site", "ambient_temperature", SI(site.ambient_temperature + shift))
+    if site.design_ambient_temperature is not None:
+        _assign(site, "site", "design_ambient_temperature", SI(site.design_ambient_temperature + shift))
+    for name, route in (("route", scenario.route), ("suction", scenario.suction)):
+        for i, seg in enumerate(route.segments if route is not None else []):
+            if seg.surroundings.ambient_temperature is not None:
+                _assign(seg.surroundings, f"{name}.segments[{i}].surroundings", "ambient_temperature",
+                        SI(seg.surroundings.ambient_temperature + shift))
 
 
 def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | None = None,
@@ -94,9 +187,9 @@ def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | No
     system = TransferSystem(scenario, product=product)
     source = scenario.source
     if source.temperature <= product.no_flow_temperature:
-        raise ComputationError(
-            f"source temperature {source.temperature - 273.15:.1f} °C is at or below the product's no-flow "
-            f"temperature {product.no_flow_temperature - 273.15:.1f} °C: heat the source before transfer")
+        raise ComputationError(Sentence(
+            "source temperature {t} is at or below the product's no-flow temperature {limit}: heat the source before "
+            "transfer", t=Q(source.temperature, "temperature"), limit=Q(product.no_flow_temperature, "temperature")))
     state = SystemState(source.temperature, source.initial_volume)
     start = system.operating_point(state)
     start_profile = suction_profile = None
@@ -158,40 +251,22 @@ def _steam_latent(scenario: Scenario) -> float:
 
 
 def _energy_and_costs(scenario: Scenario, system: TransferSystem, timeline: Timeline, warm: Prewarm | None,
-                      startup_time: float | None) -> tuple[dict, dict]:
+                      startup_time: float | None) -> tuple[Energy, Costs]:
     tariffs = scenario.costs
     steam_traced = scenario.tracing.kind == "steam"
     latent = _steam_latent(scenario)
     trace_j = timeline.trace_energy_j + (warm.energy_j if warm is not None and warm.possible else 0.0)
     vessel_j = timeline.vessel_heating_energy_j
-    energy = {
-        "tracing_j": trace_j,
-        "tracing_kwh": 0.0 if steam_traced else trace_j / J_PER_KWH,
-        "tracing_steam_kg": trace_j / latent if steam_traced else 0.0,
-        "pump_kwh": timeline.pump_energy_j / J_PER_KWH,
-        "vessel_heating_j": vessel_j,
-        "vessel_heating_kwh": vessel_j / J_PER_KWH if scenario.source.heating_medium == "electric" else 0.0,
-        "vessel_heating_steam_kg": vessel_j / latent if scenario.source.heating_medium == "steam" else 0.0,
-    }
-    electricity = (energy["tracing_kwh"] + energy["pump_kwh"] + energy["vessel_heating_kwh"]) * tariffs.electricity_per_kwh
-    steam_kg = energy["tracing_steam_kg"] + energy["vessel_heating_steam_kg"]
-    steam_cost = steam_kg / 1000.0 * tariffs.steam_per_tonne
+    medium = scenario.source.heating_medium
+    energy = Energy(
+        tracing_j=trace_j, tracing_electric_j=0.0 if steam_traced else trace_j,
+        tracing_steam_kg=trace_j / latent if steam_traced else 0.0, pump_j=timeline.pump_energy_j,
+        vessel_heating_j=vessel_j, vessel_heating_electric_j=vessel_j if medium == "electric" else 0.0,
+        vessel_heating_steam_kg=vessel_j / latent if medium == "steam" else 0.0)
+    electricity = energy.electrical_j / J_PER_KWH * tariffs.electricity_per_kwh
+    steam_cost = energy.steam_kg / 1000.0 * tariffs.steam_per_tonne
     hours_at_berth = ((startup_time or 0.0) + timeline.total_time_s) / 3600.0
-    demurrage = hours_at_berth * tariffs.demurrage_per_hour
-    costs = {
-        "currency": tariffs.currency,
-        "electricity": electricity,
-        "steam": steam_cost,
-        "energy": electricity + steam_cost,
-        "demurrage": demurrage,
-        "demurrage_hours": hours_at_berth,
-        "total": electricity + steam_cost + demurrage,
-        "complete": startup_time is not None and timeline.completed,
-    }
+    costs = Costs(currency=tariffs.currency, electricity=electricity, steam=steam_cost,
+                  demurrage=hours_at_berth * tariffs.demurrage_per_hour, demurrage_hours=hours_at_berth,
+                  complete=startup_time is not None and timeline.completed)
     return energy, costs
-
-
-def finite_or_none(value):
-    if isinstance(value, float) and not math.isfinite(value):
-        return None
-    return value

@@ -20,6 +20,7 @@ from planner.line.march import Line
 from planner.line.route import LineSegment
 from planner.transfer.system import SystemState, TransferSystem
 from planner.line.transients import evolve
+from planner.scenario.wording import Q, Sentence
 
 PREWARM_HORIZON_S = 7 * 86400.0
 PREWARM_MARGIN_K = 1.0  # "ready" within this of the target (the approach is asymptotic)
@@ -92,12 +93,13 @@ def prewarm(system: TransferSystem, start_temperature: float) -> Prewarm:
         short = [s for s in result.segments if s.traced and not s.reached]
         worst = min(short, key=lambda s: s.settles_at_k)
         result.time_s = None
-        result.message = (f"tracing cannot bring {worst.segment} to {target - 273.15 + PREWARM_MARGIN_K:.0f} °C: "
-                          f"it levels off near {worst.settles_at_k - 273.15:.0f} °C")
+        result.message = Sentence("tracing cannot bring {seg} to {t}: it levels off near {settles}", seg=worst.segment,
+                                  t=Q(target + PREWARM_MARGIN_K, "temperature", 0),
+                                  settles=Q(worst.settles_at_k, "temperature", 0))
     else:
-        result.message = f"line ready after {result.time_s / 3600:.1f} h of pre-warming"
+        result.message = Sentence("line ready after {t} of pre-warming", t=Q(result.time_s, "time"))
         if result.untraced:
-            result.message += f"; untraced parts stay cold: {', '.join(result.untraced)}"
+            result.message += Sentence("; untraced parts stay cold: {parts}", parts=", ".join(result.untraced))
     return result
 
 
@@ -141,12 +143,13 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
     product = system.product
     state0 = SystemState(start_temperature, system.source.initial_volume)
     if start_temperature <= product.no_flow_temperature:
-        return PushCold(False, f"the line's contents at {start_temperature - 273.15:.1f} °C are below the no-flow "
-                        f"temperature {product.no_flow_temperature - 273.15:.1f} °C: they will not move; pre-warm first",
+        return PushCold(False, Sentence("the line's contents at {t} are below the no-flow temperature {limit}: they will "
+                                        "not move; pre-warm first", t=Q(start_temperature, "temperature"),
+                                        limit=Q(product.no_flow_temperature, "temperature")),
                         start_temperature, 0.0, "no_flow", math.nan, math.nan, math.nan, None, False)
     first = system.operating_point(state0)
     if not first.moving:
-        return PushCold(False, "cold start: " + first.message, start_temperature, 0.0, first.status,
+        return PushCold(False, Sentence("cold start: {m}", m=first.message), start_temperature, 0.0, first.status,
                         math.nan, math.nan, math.nan, None, False)
     warm_state = SystemState(system.source.temperature, system.source.initial_volume)
     segments = system.discharge_line.segments
@@ -175,7 +178,8 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
             system.plug = (Line(head, product, system.tracing), Line(tail, product, system.tracing), start_temperature)
             op = system.operating_point(warm_state, guess=guess)
             if not op.moving:
-                return PushCold(False, f"with the front at {x:.0f} m: " + op.message, start_temperature, first.flow,
+                return PushCold(False, Sentence("with the front at {x}: {m}", x=Q(x, "length"), m=op.message),
+                                start_temperature, first.flow,
                                 first.status, peak_p, peak_dp, first.point.npsh_available, None, relief, {})
             previous_fraction, previous_flow = rows_append[-1][0], rows_append[-1][1]
             time += (fraction - previous_fraction) * volume / previous_flow
@@ -191,9 +195,10 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
     for row in rows_append:
         for key, value in zip(rows, row):
             rows[key].append(value)
-    message = (f"starting against the line's contents at {start_temperature - 273.15:.0f} °C: "
-               f"{first.flow * 3600:.1f} m³/h and {first.point.discharge_pressure / 1e5:.2f} bar; "
-               f"warm product reaches the destination after {time / 3600:.2f} h")
+    message = Sentence("starting against the line's contents at {t}: {q} and {p}; warm product reaches the "
+                       "destination after {time}", t=Q(start_temperature, "temperature", 0),
+                       q=Q(first.flow, "volume_flow"), p=Q(first.point.discharge_pressure, "pressure"),
+                       time=Q(time, "time", 2))
     if relief:
         message += " (relief valve lifts during the start)"
     return PushCold(True, message, start_temperature, first.flow, first.status, peak_p, peak_dp,

@@ -30,6 +30,7 @@ from planner.transfer.pumps import CentrifugalPump, PositiveDisplacementPump
 from planner.line.route import build_line
 from planner.scenario.schema import Scenario, calibration_of
 from planner.scenario.units import ATMOSPHERE_PA, GRAVITY
+from planner.scenario.wording import Q, Sentence
 from planner.transfer.vessels import level_from_volume
 
 HUGE_PRESSURE = 1.0e12  # stands in for "this rate cannot be pushed" (product sets) inside root finding
@@ -197,7 +198,7 @@ class TransferSystem:
             seg = self.suction_line.segments[-1]
             velocity = mass_flow / (product.density(t_pump) * seg.area)
             if suction_summary.status != "ok":
-                sets, where = True, f"suction line at {suction_summary.sets_at_m:.0f} m"
+                sets, where = True, Sentence("suction line at {x}", x=Q(suction_summary.sets_at_m, "length"))
         else:
             p_suction, t_pump = p_source, t_source
             velocity = 0.0
@@ -213,7 +214,7 @@ class TransferSystem:
                               step=self.step, record=record)
         ds = discharge.summary
         if ds.status != "ok" and not sets:
-            sets, where = True, f"discharge line at {ds.sets_at_m:.0f} m"
+            sets, where = True, Sentence("discharge line at {x}", x=Q(ds.sets_at_m, "length"))
         p_discharge = ds.pressure_drop_pa + self.destination_pressure(state, ds.outlet_temperature_k)
         point = SystemPoint(flow, mass_flow, t_source, t_pump, p_suction, p_discharge, p_discharge - p_suction,
                             npsh_a, ds.outlet_temperature_k, suction_summary, ds, sets, where)
@@ -258,8 +259,8 @@ class TransferSystem:
         op.flow_estimate = estimate if estimate is not None and abs(estimate - op.flow) <= 1e-4 * op.flow else op.flow
         if op.point is not None and op.moving and op.point.sets:
             # e.g. a PD pump without slip "agrees" at any pressure: the line still sets at its rate
-            return OperatingPoint("no_flow", 0.0, f"no flow possible: product sets ({op.point.where}) at "
-                                  f"{op.flow * 3600:.1f} m³/h", op.point)
+            return OperatingPoint("no_flow", 0.0, Sentence("no flow possible: product sets ({where}) at {q}",
+                                                           where=op.point.where, q=Q(op.flow, "volume_flow")), op.point)
         if op.point is not None and op.moving:
             self._suction_checks(op, state)
             self._power_checks(op)
@@ -297,11 +298,11 @@ class TransferSystem:
             else:
                 speed = spec.max_speed or spec.speed
                 fallback = "setpoint flow needs more pressure than the relief setting" if dp < HUGE_PRESSURE else \
-                    f"product sets at the setpoint flow ({point.where})"
+                    Sentence("product sets at the setpoint flow ({where})", where=point.where)
             op = self._pd_fixed_speed(state, guess, cache, speed)
             if op.status == "ok":
                 op.status = "rate_not_reachable"
-            op.message = fallback + "; " + op.message
+            op.message = Sentence("{a}; {b}", a=fallback, b=op.message)
             return op
         return self._pd_fixed_speed(state, guess, cache, speed)
 
@@ -333,9 +334,9 @@ class TransferSystem:
         if q is None and bracket is None:
             q_low = q_theoretical * MIN_FLOW_FRACTION
             point = self._point(q_low, state, cache)
-            reason = (f"product sets ({point.where})" if point.sets else
+            reason = (Sentence("product sets ({where})", where=point.where) if point.sets else
                       "slip returns the whole displacement at the pressure the system needs")
-            return self._no_flow(state, cache, q_low, f"pump cannot move product: {reason}")
+            return self._no_flow(state, cache, q_low, Sentence("pump cannot move product: {r}", r=reason))
         if q is None:
             q = _root(residual, bracket[0], bracket[1])
         point = self._point(q, state, cache)
@@ -347,12 +348,14 @@ class TransferSystem:
                 low = _bracket_down(over_relief, q, None)
                 if low is None:
                     return self._no_flow(state, cache, q * MIN_FLOW_FRACTION,
-                                         f"the line needs more than the relief setting {relief / 1e5:.2f} bar at any rate")
+                                         Sentence("the line needs more than the relief setting {p} at any rate",
+                                                  p=Q(relief, "pressure")))
                 q_relief = _root(over_relief, low[0], low[1])
             self._last_relief_flow = q_relief
             point = self._point(q_relief, state, cache)
             return self._relief_point(q_relief, point, pump.delivered_flow(relief, mu, speed), relief, mu, speed)
-        op = OperatingPoint("ok", q, f"pump and line agree at {q * 3600:.1f} m³/h and {dp / 1e5:.2f} bar", point,
+        op = OperatingPoint("ok", q, Sentence("pump and line agree at {q} and {p}", q=Q(q, "volume_flow"),
+                                              p=Q(dp, "pressure")), point,
                             speed=speed)
         op.shaft_power = pump.shaft_power(dp, mu, speed)
         return op
@@ -360,8 +363,9 @@ class TransferSystem:
     def _relief_point(self, q_relief, point, delivered, relief, mu, speed) -> OperatingPoint:
         op = OperatingPoint(
             "relief_lifting", q_relief,
-            f"relief valve lifting at {relief / 1e5:.2f} bar: the line takes {q_relief * 3600:.1f} m³/h of the "
-            f"{delivered * 3600:.1f} m³/h the pump moves", point, speed=speed)
+            Sentence("relief valve lifting at {p}: the line takes {q} of the {delivered} the pump moves",
+                     p=Q(relief, "pressure"), q=Q(q_relief, "volume_flow"), delivered=Q(delivered, "volume_flow")),
+            point, speed=speed)
         op.relief_flow = max(0.0, delivered - q_relief)
         op.shaft_power = self.pump.shaft_power(relief, mu, speed)
         return op
@@ -385,7 +389,7 @@ class TransferSystem:
             warm = self._warm_solve("centrifugal", lambda x: -head_gap(x), q_max, guess, ftol=1e-4)
         if warm is not None:
             q = warm
-            message = f"pump and line agree at {q * 3600:.1f} m³/h"
+            message = Sentence("pump and line agree at {q}", q=Q(q, "volume_flow"))
         elif spec.control == "fixed_flow" and spec.flow_setpoint <= q_max and head_gap(spec.flow_setpoint) >= 0.0:
             q = spec.flow_setpoint
             message = "flow held at its setpoint; the control valve takes the excess head"
@@ -399,17 +403,17 @@ class TransferSystem:
                 if bracket is None:
                     q_low = q_max * MIN_FLOW_FRACTION
                     point = self._point(q_low, state, cache)
-                    reason = (f"product sets ({point.where})" if point.sets else
-                              f"pump cannot overcome the static head at any rate: the system needs "
-                              f"{point.pump_differential / (rho * GRAVITY):.1f} m, shut-off head is "
-                              f"{pump.shut_off_head(nu):.1f} m")
+                    reason = (Sentence("product sets ({where})", where=point.where) if point.sets else
+                              Sentence("pump cannot overcome the static head at any rate: the system needs {need}, "
+                                       "shut-off head is {shut}", need=Q(point.pump_differential / (rho * GRAVITY), "head", 1),
+                                       shut=Q(pump.shut_off_head(nu), "head", 1)))
                     return self._no_flow(state, cache, q_low, reason)
                 if q is None:
                     q = _root(head_gap, bracket[0], bracket[1])
-                message = f"pump and line agree at {q * 3600:.1f} m³/h"
+                message = Sentence("pump and line agree at {q}", q=Q(q, "volume_flow"))
             if spec.control == "fixed_flow":
                 status = "rate_not_reachable" if status == "ok" else status
-                message = f"setpoint {spec.flow_setpoint * 3600:.1f} m³/h not reachable; " + message
+                message = Sentence("setpoint {q} not reachable; {m}", q=Q(spec.flow_setpoint, "volume_flow"), m=message)
         point = self._point(q, state, cache)
         nu_pump = self.product.kinematic_viscosity(point.pump_inlet_temperature)
         head = pump.head(q, nu_pump)
@@ -421,7 +425,7 @@ class TransferSystem:
 
     def _no_flow(self, state, cache, q_low, message) -> OperatingPoint:
         point = cache.get(round(q_low, 12))
-        return OperatingPoint("no_flow", 0.0, "no flow possible: " + message, point)
+        return OperatingPoint("no_flow", 0.0, Sentence("no flow possible: {m}", m=message), point)
 
     def _suction_checks(self, op: OperatingPoint, state: SystemState) -> None:
         npsh_r = self.pump_spec.npsh_required
