@@ -55,7 +55,9 @@ def test_pass_steps_count_the_marchs_own_steps():
     assert budget.pass_steps(scenario) == 42 + budget.PASS_OVERHEAD_STEPS
     from planner.line.model import evaluate
 
-    assert evaluate(scenario).summary.steps == 42      # the march agrees with the estimate
+    # the march at its default (longest step 100 m, refined where the product changes fast) costs no
+    # more than the estimate here
+    assert evaluate(scenario).summary.steps <= 42
 
 
 @pytest.mark.parametrize("path", DEMO_FILES, ids=[p.stem for p in DEMO_FILES])

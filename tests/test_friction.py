@@ -12,6 +12,7 @@ import pytest
 from planner.correlations.friction import (
     RE_LAMINAR_MAX,
     RE_TURBULENT_MIN,
+    darcy_churchill_1977,
     darcy_colebrook,
     darcy_friction,
     darcy_laminar,
@@ -75,21 +76,24 @@ def test_turbulent_branch_is_colebrook():
     assert darcy_friction(2e5, 2e-4) == pytest.approx(fluids.friction.Colebrook(2e5, 2e-4), rel=1e-9)
 
 
-@pytest.mark.parametrize("rr", [0.0, 1e-4, 1e-3])
-def test_continuity_at_band_edges(rr):
-    # [trade] linear interpolation between 64/2300 and Colebrook(4000) must join both branches
-    eps = 1e-7
-    assert darcy_friction(RE_LAMINAR_MAX * (1 + eps), rr) == pytest.approx(64 / 2300, rel=1e-5)
-    f4000 = fluids.friction.Colebrook(4000.0, rr)  # fluids 1.3.1 Colebrook
-    assert darcy_friction(RE_TURBULENT_MIN * (1 - eps), rr) == pytest.approx(f4000, rel=1e-5)
-    assert darcy_friction(RE_TURBULENT_MIN, rr) == pytest.approx(f4000, rel=1e-9)
+@pytest.mark.parametrize("rr", [0.0, 1e-5, 1e-4, 1e-3, 1e-2])
+@pytest.mark.parametrize("re", [500.0, 3000.0, 1e5, 2301.0, 2800.0, 3500.0, 3999.0])
+def test_churchill_1977_matches_fluids(re, rr):
+    # fluids 1.3.1 Churchill_1977 (Churchill, Chem. Eng. 84 (1977) 91-92)
+    assert darcy_churchill_1977(re, rr) == pytest.approx(fluids.friction.Churchill_1977(re, rr), rel=1e-12)
 
 
-def test_transition_midpoint_is_linear():
-    # [trade] linear in Re: the midpoint of the band is the mean of the two end values
-    f4000 = fluids.friction.Colebrook(4000.0, 0.0)  # fluids 1.3.1 Colebrook
-    mid = 0.5 * (RE_LAMINAR_MAX + RE_TURBULENT_MIN)
-    assert darcy_friction(mid, 0.0) == pytest.approx(0.5 * (64 / 2300 + f4000), rel=1e-12)
+@pytest.mark.parametrize("rr", [0.0, 1e-4, 1e-3, 1e-2])
+def test_transitional_band_is_not_below_churchill_1977(rr):
+    # issue 10 item 4: in 2300 < Re < 4000 the factor is Churchill's all-regime law (fluids 1.3.1
+    # Churchill_1977), never the lower straight-line blend
+    for re in [2300.5 + 1699.0 * k / 40 for k in range(41)]:
+        reference = fluids.friction.Churchill_1977(re, rr)
+        assert darcy_friction(re, rr) >= reference * (1 - 1e-12)
+        assert darcy_friction(re, rr) == pytest.approx(reference, rel=1e-12)
+    # and the branches either side stay Hagen-Poiseuille and Colebrook (fluids 1.3.1 Colebrook)
+    assert darcy_friction(RE_LAMINAR_MAX, rr) == pytest.approx(64 / 2300, rel=1e-15)
+    assert darcy_friction(RE_TURBULENT_MIN, rr) == pytest.approx(fluids.friction.Colebrook(4000.0, rr), rel=1e-9)
 
 
 @pytest.mark.parametrize(

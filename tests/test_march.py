@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import math
 
+import numpy as np
 import pytest
 
 from conftest import DEMO_FILES, base_scenario, newtonian_product
@@ -219,3 +220,77 @@ def test_trickle_flow_settles_at_the_thermostat_instead_of_oscillating(flow):
     if flow < 1e-5:
         assert coarse.outlet_temperature_k == pytest.approx(301.15, abs=0.05)
         assert coarse.max_jacket_temperature_k < 301.15
+
+
+def _wall_held_line(segments: list[dict]) -> dict:
+    # a laminar product of constant properties (viscosity ratio 1) in lines whose wall a
+    # thermostat holds at 60 degC (an electric heater far above the loss); viscous heating is
+    # below 1e-3 of the heat taken up
+    data = base_scenario(product=newtonian_product(mu_pa_s=0.5, density=900.0, cp=2000.0, k=0.15))
+    data["route"]["segments"] = segments
+    data["tracing"] = {"kind": "electric_constant", "setpoint": 60.0, "output": "1500 W/m"}
+    data["site"]["ambient_temperature"] = 20.0
+    data["operation"] = {"flow": "0.094 m3/h", "inlet_temperature": 20.0}
+    return data
+
+
+def test_wall_held_laminar_line_follows_the_graetz_series():
+    # issue 10 item 1: bulk temperature against the Graetz series (Shah & London 1978 eigenvalues
+    # and constants, tests/test_heat_transfer.py) within 2 % of the driving difference at every node
+    from test_heat_transfer import graetz_bulk_theta
+
+    seg = {"name": "run", "nps": "2", "schedule": "40", "length": 200.0,
+           "insulation": [{"material": "mineral_wool", "thickness": 50}]}
+    scenario = scenario_from_dict(_wall_held_line([seg]))
+    result = evaluate(scenario)
+    s = result.summary
+    assert s.laminar_fraction == 1.0 and s.viscous_heating_w < 1e-3 * s.trace_power_w
+    assert result.steps["wall_temperature"] == pytest.approx(333.15, abs=1e-9)
+    pe = 4.0 * s.mass_flow_kg_s * 2000.0 / (math.pi * ID_2IN_SCH40 * 0.15)   # Re Pr = 4 m cp / (pi D k)
+    worst = 0.0
+    for x, t in zip(result.nodes["x"], result.nodes["temperature"]):
+        theta = (333.15 - t) / 40.0
+        worst = max(worst, abs(theta - graetz_bulk_theta(x / (ID_2IN_SCH40 * pe))))
+    assert worst < 0.02
+    assert result.nodes["x"][-1] / (ID_2IN_SCH40 * pe) > 0.3   # the line reaches fully developed flow
+
+
+def test_thermal_entrance_starts_again_at_a_diameter_change():
+    # documented choice: the entrance restarts at a change of inside diameter (the route inlet
+    # and each such change), so the second run follows the series from its own start
+    from test_heat_transfer import graetz_bulk_theta
+
+    first = {"name": "small", "nps": "2", "schedule": "40", "length": 20.0,
+             "insulation": [{"material": "mineral_wool", "thickness": 50}]}
+    second = {"name": "large", "nps": "3", "schedule": "40", "length": 120.0,
+              "insulation": [{"material": "mineral_wool", "thickness": 50}]}
+    result = evaluate(scenario_from_dict(_wall_held_line([first, second])))
+    s = result.summary
+    id_3in = 0.07793   # ASME B36.10M NPS 3 Sch 40 inside diameter (fluids.piping)
+    pe = 4.0 * s.mass_flow_kg_s * 2000.0 / (math.pi * id_3in * 0.15)
+    x, t = result.nodes["x"], result.nodes["temperature"]
+    start = int(np.argmin(abs(x - 20.0)))
+    t_start = t[start]
+    for k in range(start + 1, len(x)):
+        theta = (333.15 - t[k]) / (333.15 - t_start)
+        assert abs(theta - graetz_bulk_theta((x[k] - 20.0) / (id_3in * pe))) < 0.02
+
+
+def test_reynolds_2300_is_laminar_everywhere():
+    # issue 9: one definition of the bands (planner.correlations.friction): friction, the film, the
+    # march's regime record and fractions, and the findings' transitional check agree at Re = 2300
+    from planner.correlations.friction import RE_LAMINAR_MAX, darcy_friction, flow_regime
+    from planner.correlations.heat_transfer import nu_internal
+
+    assert RE_LAMINAR_MAX == 2300.0 and flow_regime(2300.0) == "laminar"
+    assert darcy_friction(2300.0, 1e-4) == pytest.approx(64.0 / 2300.0, rel=1e-15)
+    assert nu_internal(2300.0, 50.0, 64.0 / 2300.0) == pytest.approx(3.66, rel=1e-12)   # laminar branch
+    # a line running at Re = 2300 exactly: constant viscosity, isothermal
+    rho, mu, d = 1000.0, 0.05, ID_2IN_SCH40
+    flow = 2300.0 * mu / (rho * d) * math.pi * d * d / 4.0
+    data = base_scenario(product=newtonian_product(mu_pa_s=mu, density=rho))
+    data["operation"] = {"flow": f"{flow!r} m**3/s", "inlet_temperature": 20.0}
+    result = evaluate(scenario_from_dict(data))
+    assert result.steps["reynolds"] == pytest.approx(2300.0, rel=1e-9)
+    assert result.summary.laminar_fraction == 1.0 and result.summary.transitional_fraction == 0.0
+    assert set(result.steps["flow_regime"]) == {0}

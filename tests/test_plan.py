@@ -179,3 +179,20 @@ def test_plan_json_on_every_demo(path):
     assert len(arrays["time_s"]) >= 50
     assert doc["timeline"]["total_time_s"] > 0
     assert doc["costs"]["total"] == pytest.approx(doc["costs"]["energy"] + doc["costs"]["demurrage"])
+
+
+def test_push_cold_leaves_the_shared_system_unchanged():
+    # issue 9: pushing the cold plug out works on a copy (TransferSystem.with_plug); the system the
+    # timeline and hold use afterwards gives the same operating point as before
+    from planner.transfer.startup import push_cold
+
+    scenario = scenario_from_dict(plan_scenario())
+    system = TransferSystem(scenario)
+    state = SystemState(scenario.source.temperature, scenario.source.initial_volume)
+    before = system.at_flow(0.002, state)
+    push = push_cold(system, scenario.source.temperature - 15.0)
+    assert push.rows or not push.possible
+    assert system.plug is None
+    after = system.at_flow(0.002, state)
+    assert after.discharge_pressure == before.discharge_pressure
+    assert after.outlet_temperature == before.outlet_temperature

@@ -15,6 +15,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from planner.checks.caution import STANDING_CAUTION
+from planner.correlations.friction import RE_LAMINAR_MAX, RE_TURBULENT_MIN
 from planner.correlations.ratings import temperature_class_limit
 from planner.line.heat_loss import jacket_temperature
 from planner.line.march import Line, MarchResult
@@ -22,6 +23,8 @@ from planner.scenario.schema import Scenario
 from planner.scenario.units import SI_UNITS
 from planner.scenario.wording import Q, Sentence, render
 from planner.transfer.plan import Plan
+from planner.transfer.pumps import HI_B_MAX
+from planner.transfer.vessels import destination_level
 
 SEVERITIES = ("info", "caution", "warning", "stop")
 SEVERITY_RANK = {name: i for i, name in enumerate(SEVERITIES)}
@@ -29,7 +32,6 @@ SEVERITY_RANK = {name: i for i, name in enumerate(SEVERITIES)}
 # Stated ranges of correlations the march uses (their sources; see heat_transfer.py, rheology.py)
 SIEDER_TATE_PR_MAX = 16700.0       # Sieder & Tate (1936): 0.48 < Pr < 16 700
 GNIELINSKI_PR_MAX = 2000.0         # Gnielinski (1976): 0.5 < Pr < 2000
-HI_B_MAX = 40.0                    # ANSI/HI 9.6.7: B up to 40
 
 # SI unit of each quantity kind a finding may carry (for the JSON; "" when dimensionless)
 _SI_LABELS = {"temperature": "K", "pressure": "Pa", "length": "m", "head": "m", "power": "W", "time": "s",
@@ -244,7 +246,7 @@ def line_regime(scenario: Scenario, run: LineRun) -> list[Finding]:
                                         limit=Q(limits.min_velocity, "speed")),
                                "Check the line does not cool or settle; a smaller line or higher rate helps.",
                                run.name, seg.name, float(xs[i]), float(v[i]), limits.min_velocity, "speed"))
-        transitional = (re >= 2300.0) & (re < 4000.0)
+        transitional = (re > RE_LAMINAR_MAX) & (re < RE_TURBULENT_MIN)
         if transitional.any():
             i = int(np.argmax(transitional))
             out.append(Finding("REGIME-TRANSITIONAL", "caution", "Transitional flow",
@@ -263,7 +265,7 @@ def line_poor_heat(scenario: Scenario, run: LineRun) -> list[Finding]:
     for seg, _, steps in _segment_steps(run):
         if not seg.traced:
             continue
-        film = np.where(steps["reynolds"] < 2300.0, steps["film_coefficient"], np.inf)
+        film = np.where(steps["reynolds"] <= RE_LAMINAR_MAX, steps["film_coefficient"], np.inf)
         i = int(np.argmin(film))
         if poorest is None or film[i] < poorest[0]:
             poorest = (float(film[i]), seg.name, float(steps["x"][i]))
@@ -342,7 +344,7 @@ def film_correlation_range(product, runs: list[LineRun]) -> list[Finding]:
         for k in range(len(steps["x"])):
             t = float(np.interp(steps["x"][k], nodes["x"], nodes["temperature"]))
             pr = product.specific_heat(t) * steps["viscosity"][k] / product.conductivity(t)
-            limit = SIEDER_TATE_PR_MAX if steps["reynolds"][k] < 2300 else GNIELINSKI_PR_MAX
+            limit = SIEDER_TATE_PR_MAX if steps["reynolds"][k] <= RE_LAMINAR_MAX else GNIELINSKI_PR_MAX
             if pr > limit and pr / limit > worst_ratio:
                 x = float(steps["x"][k])
                 worst_ratio, where = pr / limit, (run.name, _segment_at(run.line.segments, x).name, x, pr, limit)
@@ -614,8 +616,7 @@ def check_destination(plan: Plan) -> list[Finding]:
     levels = plan.timeline.arrays["destination_level_m"]
     if dest.max_level is None or not len(levels):
         return []
-    final = float(levels[-1]) + plan.scenario.source.volume_to_move / plan.timeline.arrays["time_s"].size / (
-        np.pi * dest.diameter ** 2 / 4.0)
+    final = destination_level(dest, plan.timeline.moved_m3)   # after the last increment
     if final <= dest.max_level:
         return []
     return [Finding("OVERFILL", "stop", "Destination overfills",

@@ -1,7 +1,8 @@
 """Convective and radiative heat-transfer correlations for lines and their outside surfaces.
 
-Inside: Sieder-Tate (laminar, developing) with the fully developed floor, Gnielinski (turbulent),
-and a linear blend between them in the transitional band. Outside: Churchill-Chu natural
+Inside: the laminar thermal entrance (Graetz problem: a mean Nusselt number and the local value
+consistent with it), Sieder-Tate's property correction, Gnielinski (turbulent), and a linear blend
+between them in the transitional band. Outside: Churchill-Chu natural
 convection and Churchill-Bernstein cross-flow on a horizontal cylinder, combined, plus
 linearised radiation to surroundings at air temperature.
 
@@ -11,15 +12,22 @@ Temperatures in kelvin.
 
 from __future__ import annotations
 
+import math
 from math import sqrt
 
 from planner.correlations.air import air_conductivity, air_heat_capacity, air_viscosity, R_AIR
+from planner.correlations.constants import GRAVITY
+from planner.correlations.friction import RE_LAMINAR_MAX as _RE_LAM, RE_TURBULENT_MIN as _RE_TURB
 
 __all__ = [
     "NU_LAMINAR_DEVELOPED",
-    "D_OVER_X_MAX",
+    "VISCOSITY_RATIO_MIN",
+    "VISCOSITY_RATIO_MAX",
+    "nu_laminar_thermal_entry_mean",
+    "nu_laminar_local_over",
+    "film_parts",
+    "viscosity_corrected",
     "STEFAN_BOLTZMANN",
-    "G_STANDARD",
     "nu_laminar_sieder_tate",
     "nu_turbulent_gnielinski",
     "nu_internal",
@@ -31,22 +39,17 @@ __all__ = [
 
 NU_LAMINAR_DEVELOPED = 3.66
 """Fully developed laminar Nusselt number in a round tube at constant wall temperature [-]
-(Graetz problem limit, any heat-transfer text)."""
+(Graetz problem limit 3.657, any heat-transfer text)."""
 
-D_OVER_X_MAX = 1.0
-"""Largest D/x used in the laminar entry correlation [-]: the mean Nusselt number of the first
-diameter of a heated length is taken as that over one diameter. Sieder-Tate grows without bound
-as x -> 0; at x < D the loss or gain is set by the upstream fitting, not by a boundary layer,
-so the cap only removes the singularity (planner choice)."""
+VISCOSITY_RATIO_MIN = 0.0044
+VISCOSITY_RATIO_MAX = 9.75
+"""Range of bulk-to-wall viscosity ratio mu/mu_w [-] of Sieder & Tate's data, over which their
+(mu/mu_w)^0.14 correction was fitted [mem] unverified.  ``nu_internal`` bounds the ratio to this
+range (the correction is not extrapolated); the march reports where the ratio lies outside it."""
 
 STEFAN_BOLTZMANN = 5.670374419e-8
 """Stefan-Boltzmann constant [W/(m^2 K^4)] (CODATA 2018, exact in the 2019 SI)."""
 
-G_STANDARD = 9.80665
-"""Standard acceleration of gravity [m/s^2] (CGPM 1901)."""
-
-_RE_LAM = 2300.0  # same band as planner.friction (kept local to avoid a hot-loop lookup)
-_RE_TURB = 4000.0
 _THIRD = 1.0 / 3.0
 
 
@@ -88,51 +91,121 @@ def nu_turbulent_gnielinski(re: float, pr: float, darcy_f: float) -> float:
     return f8 * (re - 1000.0) * pr / (1.0 + 12.7 * sqrt(f8) * (pr ** (2.0 / 3.0) - 1.0))
 
 
-def _nu_laminar(re: float, pr: float, d_over_x: float, viscosity_ratio: float) -> float:
-    if d_over_x > D_OVER_X_MAX:
-        d_over_x = D_OVER_X_MAX
-    nu = 1.86 * (re * pr * d_over_x) ** _THIRD * viscosity_ratio**0.14
-    return nu if nu > NU_LAMINAR_DEVELOPED else NU_LAMINAR_DEVELOPED
+def nu_laminar_thermal_entry_mean(x_star: float) -> float:
+    """Mean Nusselt number of the thermal entrance, laminar flow with a developed velocity profile,
+    uniform wall temperature (the Graetz problem), over the heated length x.
+
+    Nu_m = [ 3.66^3 + 0.7^3 + (1.615 (1/x*)^(1/3) - 0.7)^3 ]^(1/3),   x* = x / (D Re Pr)
+
+    Valid for all x* > 0 (it tends to Leveque's 1.615 x*^(-1/3) near the inlet and to 3.66 far
+    from it); within 0.2 % of the driving difference of the exact Graetz series in the bulk
+    temperature (tests/test_heat_transfer.py).  A developed velocity profile is what a viscous
+    product has: at Pr >> 1 the velocity develops far faster than the temperature.
+
+    x_star: x / (D Re Pr) [-], > 0.  Returns Nu_m = h_m D / k [-].
+    Source: VDI Heat Atlas, 2nd ed. (Springer 2010), chapter G1 (Gnielinski), thermally developing
+    laminar flow at constant wall temperature [mem] unverified equation number; checked against the
+    Graetz series with the eigenvalues and constants of Shah & London (1978).
+    """
+    if not x_star > 0.0:
+        raise ValueError(f"x_star: {x_star!r} is not allowed; it must be > 0")
+    return _x_nu_mean(x_star) / x_star
 
 
-def nu_internal(
-    re: float, pr: float, d_over_x: float, darcy_f: float, viscosity_ratio: float = 1.0
-) -> float:
-    """Mean inside Nusselt number over all regimes for a heated/cooled length x.
+def _x_nu_mean(x_star: float) -> float:
+    """x* Nu_m(x*) of ``nu_laminar_thermal_entry_mean``, finite (zero) at the inlet."""
+    if x_star <= 0.0:
+        return 0.0
+    edge = 1.615 * x_star ** (2.0 / 3.0) - 0.7 * x_star
+    return (_DEVELOPED_CUBES * x_star * x_star * x_star + edge * edge * edge) ** _THIRD
 
-    laminar (Re <= 2300):   Nu = max(3.66, 1.86 (Re Pr D/x')^(1/3) (mu/mu_w)^0.14),
-                            D/x' = min(D/x, D_OVER_X_MAX)
-    turbulent (Re >= 4000): Nu = Gnielinski(Re, Pr, f) (mu/mu_w)^0.11
-                            (property correction for liquids, heating or cooling [trade])
-    transitional:           linear in Re between the laminar value at Re = 2300 and the
-                            turbulent value at Re = 4000 [trade]; the turbulent end uses the
-                            darcy_f passed in, so pass friction.darcy_friction(re, e/D), which
-                            equals the Colebrook value at 4000 and keeps Nu continuous there.
 
-    re: Reynolds number [-], > 0; pr: Prandtl number [-], > 0; d_over_x: inside diameter over
-    the heated length x from the start of heating [-], >= 0 (0 means fully developed; large
-    values near the inlet are capped, see D_OVER_X_MAX); darcy_f: Darcy friction factor at re
-    [-]; viscosity_ratio: bulk over wall viscosity mu/mu_w [-], > 0 (1 if unknown).
+_DEVELOPED_CUBES = NU_LAMINAR_DEVELOPED ** 3 + 0.7 ** 3
+
+
+def nu_laminar_local_over(x_star_from: float, x_star_to: float) -> float:
+    """Mean over [x_from, x_to] of the local laminar Nusselt number consistent with
+    ``nu_laminar_thermal_entry_mean`` (Nu_x = d(x Nu_m)/dx):
+
+        Nu = (x_to* Nu_m(x_to*) - x_from* Nu_m(x_from*)) / (x_to* - x_from*)
+
+    Integrated over any length this gives back the cited mean exactly, so a march in steps of any
+    size transfers the heat the mean says (using the mean from the inlet as the local value would
+    give about 1.5 times it).  x_star_from = 0 gives the mean from the entrance.
+
+    x_star_from, x_star_to: distances from the start of the thermal entrance over D Re Pr [-],
+    0 <= from < to (to = inf: fully developed, 3.66).  Returns Nu [-].
+    """
+    if x_star_to == math.inf:
+        return NU_LAMINAR_DEVELOPED
+    span = x_star_to - x_star_from
+    if span <= 1e-9 * x_star_to:   # a point: the local value itself
+        x_star_from, span = x_star_to * (1.0 - 1e-6), x_star_to * 1e-6
+    return (_x_nu_mean(x_star_to) - _x_nu_mean(x_star_from)) / span
+
+
+def film_parts(re: float, pr: float, darcy_f: float, entry_from_d: float = math.inf,
+               entry_to_d: float = math.inf) -> tuple[float, float, float]:
+    """(laminar Nu without the viscosity correction, turbulent Nu without it, turbulent weight) of
+    ``nu_internal``; the march combines them with the wall viscosity it iterates on."""
+    if re >= _RE_TURB:
+        return 0.0, nu_turbulent_gnielinski(re, pr, darcy_f), 1.0
+    pe = re * pr
+    if entry_to_d == math.inf:
+        nu_lam = NU_LAMINAR_DEVELOPED
+    else:   # nu_laminar_local_over, inline (the march calls this at every step)
+        x_from, x_to = entry_from_d / pe, entry_to_d / pe
+        if x_to - x_from <= 1e-9 * x_to:
+            x_from = x_to * (1.0 - 1e-6)
+        nu_lam = (_x_nu_mean(x_to) - _x_nu_mean(x_from)) / (x_to - x_from)
+    if re <= _RE_LAM:
+        return nu_lam, 0.0, 0.0
+    return nu_lam, nu_turbulent_gnielinski(_RE_TURB, pr, darcy_f), (re - _RE_LAM) / (_RE_TURB - _RE_LAM)
+
+
+def viscosity_corrected(parts: tuple[float, float, float], viscosity_ratio: float) -> float:
+    """Nu of ``film_parts`` with the property correction: laminar x r^0.14 (Sieder-Tate), turbulent
+    x r^0.11 [trade], r = mu/mu_w bounded to VISCOSITY_RATIO_MIN..MAX."""
+    nu_lam, nu_turb, w = parts
+    r = VISCOSITY_RATIO_MIN if viscosity_ratio < VISCOSITY_RATIO_MIN else (
+        VISCOSITY_RATIO_MAX if viscosity_ratio > VISCOSITY_RATIO_MAX else viscosity_ratio)
+    if w == 0.0:
+        return nu_lam * r ** 0.14
+    if w == 1.0:
+        return nu_turb * r ** 0.11
+    return nu_lam * r ** 0.14 + w * (nu_turb * r ** 0.11 - nu_lam * r ** 0.14)
+
+
+def nu_internal(re: float, pr: float, darcy_f: float, viscosity_ratio: float = 1.0,
+                entry_from_d: float = math.inf, entry_to_d: float = math.inf) -> float:
+    """Inside Nusselt number over all regimes, for a stretch [x_from, x_to] of a thermal entrance.
+
+    laminar (Re <= 2300):   Nu = Nu_local(x_from..x_to) (mu/mu_w)^0.14, the local coefficient of
+                            the Graetz problem's mean (``nu_laminar_local_over``) with Sieder and
+                            Tate's property correction [trade]
+    turbulent (Re >= 4000): Nu = Gnielinski(Re, Pr, f) (mu/mu_w)^0.11 (property correction for
+                            liquids, heating or cooling [trade]); fully developed
+    transitional:           linear in Re between the laminar value and the turbulent value at
+                            Re = 4000 (Gnielinski with the darcy_f passed in) [trade]
+    mu/mu_w is bounded to VISCOSITY_RATIO_MIN..VISCOSITY_RATIO_MAX (not extrapolated).
+
+    re: Reynolds number [-], > 0; pr: Prandtl number [-], > 0; darcy_f: Darcy friction factor at
+    re [-]; viscosity_ratio: bulk over wall viscosity [-], > 0 (1 if unknown); entry_from_d,
+    entry_to_d: distances from the start of the thermal entrance (the route inlet or a diameter
+    change) over the inside diameter [-], 0 <= from < to; both inf for fully developed flow.
     Returns Nu = h D / k [-].
-    Sources: as nu_laminar_sieder_tate and nu_turbulent_gnielinski; 3.66 from the Graetz limit.
+    Sources: as nu_laminar_thermal_entry_mean, nu_laminar_sieder_tate, nu_turbulent_gnielinski.
     """
     if not (re > 0.0 and pr > 0.0):
         raise ValueError(
             f"reynolds/prandtl number: Re={re!r}, Pr={pr!r} are not allowed; both must be > 0"
         )
-    if not d_over_x >= 0.0:
-        raise ValueError(f"d_over_x: {d_over_x!r} is not allowed; it must be >= 0")
+    if not (0.0 <= entry_from_d < entry_to_d or entry_from_d == entry_to_d == math.inf):
+        raise ValueError(f"entry_from_d, entry_to_d: {entry_from_d!r}, {entry_to_d!r} are not allowed; "
+                         "need 0 <= from < to")
     if not viscosity_ratio > 0.0:
         raise ValueError(f"viscosity_ratio: {viscosity_ratio!r} is not allowed; it must be > 0")
-    if re <= _RE_LAM:
-        return _nu_laminar(re, pr, d_over_x, viscosity_ratio)
-    turb_corr = viscosity_ratio**0.11
-    if re >= _RE_TURB:
-        return nu_turbulent_gnielinski(re, pr, darcy_f) * turb_corr
-    nu_lam = _nu_laminar(_RE_LAM, pr, d_over_x, viscosity_ratio)
-    nu_turb = nu_turbulent_gnielinski(_RE_TURB, pr, darcy_f) * turb_corr
-    w = (re - _RE_LAM) / (_RE_TURB - _RE_LAM)
-    return nu_lam + w * (nu_turb - nu_lam)
+    return viscosity_corrected(film_parts(re, pr, darcy_f, entry_from_d, entry_to_d), viscosity_ratio)
 
 
 def nu_natural_cylinder_churchill_chu(rayleigh: float, prandtl: float) -> float:
@@ -234,7 +307,7 @@ def h_outer_cylinder(
     pr = air_heat_capacity(t_film) * mu / k
     nu_kin = mu * R_AIR * t_film / 101325.0  # mu / rho, ideal gas at 1 atm
     d = outer_diameter_m
-    ra = G_STANDARD * abs(t_surface - t_air) * d * d * d * pr / (t_film * nu_kin * nu_kin)
+    ra = GRAVITY * abs(t_surface - t_air) * d * d * d * pr / (t_film * nu_kin * nu_kin)
     nu = nu_natural_cylinder_churchill_chu(ra, pr)
     if wind_speed > 0.0:
         nu_f = nu_crossflow_churchill_bernstein(wind_speed * d / nu_kin, pr)

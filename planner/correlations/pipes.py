@@ -41,10 +41,6 @@ def parse_nps(value: object) -> float:
         raise ValueError(f"cannot read NPS {value!r} (e.g. 4, '1-1/2', '3/4')") from None
 
 
-def available_nps(schedule: str) -> list[float]:
-    return list(schedule_lookup[schedule][0]) if schedule in schedule_lookup else []
-
-
 def pipe_size(nps: object, schedule: str) -> PipeSize:
     """Dimensions of NPS ``nps`` in ``schedule``.
 

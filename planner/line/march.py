@@ -4,13 +4,26 @@ Per step of length dx the energy balance of the product is
 
     m cp dT/dx = G (T_eq - T) + S
 
-where G (W/(m K)) and T_eq come from the wall balance of the regime in force (untraced, thermostat
-holding the setpoint, heater at full capacity, steam tracer), linear in T, and S (W/m) is the viscous
-heating, the frictional pressure loss times the volume flow.  The step is taken exactly for frozen
-coefficients (an exponential integrator: stable at any step, even when the thermal length is short)
-with coefficients evaluated at the midpoint state (second-order, like a midpoint Runge–Kutta step).
-Pressure falls by friction (Darcy, or the non-Newtonian laws of ``rheology``), fittings (2-K or 3-K,
-spread evenly over their segment) and static head, integrated with the same midpoint state.
+where G (W/(m K)) and T_eq come from the wall balance of the heater state in force (untraced,
+thermostat holding the setpoint, heater at full capacity, steam tracer), linear in T, and S (W/m) is
+the viscous heating, the frictional pressure loss times the volume flow.  The step is taken exactly
+for frozen coefficients (an exponential integrator: stable at any step, even when the thermal length
+is short) with coefficients evaluated at the midpoint state (second-order, like a midpoint
+Runge–Kutta step).  Pressure falls by friction (Darcy, or the non-Newtonian laws of ``rheology``),
+fittings (2-K or 3-K, spread evenly over their segment) and static head, integrated with the same
+midpoint state.
+
+Within each evaluation the inner film and the wall are solved together: the film's (mu/mu_w)^0.14
+correction takes the wall temperature the wall balance gives, iterated to agreement; the wall and
+jacket temperatures carry over from step to step and across segment boundaries.  The laminar film
+is the local coefficient of the thermal entrance averaged over the step; the entrance starts at the
+route inlet and again at every change of inside diameter.
+
+Step control: steps are at most ``step`` long (at least two per segment) and shrink where the
+product changes fast: the bulk temperature by more than TEMPERATURE_CHANGE_PER_STEP_K (a thermal
+length short against the step) or the log of viscosity by more than LOG_VISCOSITY_CHANGE_PER_STEP
+per step.  Both targets scale with ``step`` / DEFAULT_STEP_M, so a ten-times smaller ``step`` is
+a ten-times finer grid everywhere.
 
 The march stops where the product falls below its no-flow temperature: the line would set there,
 and the pressure beyond is not a meaningful number.
@@ -20,22 +33,31 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from typing import NamedTuple
 
 import numpy as np
 
-from planner.correlations.friction import darcy_friction
-from planner.line.heat_loss import insulation_resistance, surface_resistance
-from planner.correlations.heat_transfer import nu_internal
-from planner.line.products import Product
+from planner.correlations.constants import GRAVITY
+from planner.correlations.friction import RE_LAMINAR_MAX, RE_TURBULENT_MIN, darcy_friction
+from planner.correlations.heat_transfer import (VISCOSITY_RATIO_MAX, VISCOSITY_RATIO_MIN, film_parts,
+                                                 nu_laminar_local_over, viscosity_corrected)
 from planner.correlations.rheology import pipe_flow_non_newtonian
+from planner.line.heat_loss import insulation_resistance, surface_resistance
+from planner.line.products import Product
 from planner.line.route import LineSegment
 from planner.line.tracing import Heater
-from planner.scenario.units import GRAVITY
 
 PI = math.pi
-DEFAULT_STEP_M = 25.0
-REGIME_NAMES = {0: "laminar", 1: "transitional", 2: "turbulent"}
-HEATER_STATE_NAMES = {0: "off / untraced", 1: "holding setpoint", 2: "full output"}
+DEFAULT_STEP_M = 100.0
+TEMPERATURE_CHANGE_PER_STEP_K = 3.0   # at the default step; planner choice (grid test: tests/test_march.py)
+LOG_VISCOSITY_CHANGE_PER_STEP = 0.05  # at the default step: viscosity within about 5 % per step
+ENTRANCE_FIRST_STEP = 0.04           # first step at a thermal entrance, share of the step (film-dominated)
+ENTRANCE_SPLIT_RATIO = 1.5           # a laminar step spanning more than this in distance from the entrance
+LOG_CONDUCTANCE_CHANGE_PER_STEP = 0.1  # at the default step: G (film, wall, outside) within 10 % per step
+WALL_TOLERANCE_K = 0.01               # film/wall/jacket agreement within an evaluation
+RECORDED = ("x", "segment", "viscosity", "reynolds", "flow_regime", "velocity", "wall_temperature",
+            "jacket_temperature", "sheath_temperature", "heat_loss", "trace_power", "heater_state",
+            "film_coefficient", "viscosity_ratio", "pressure_gradient")
 
 
 @dataclass
@@ -70,6 +92,8 @@ class MarchSummary:
     viscosity_extrapolated: bool
     heater_short_fraction: float  # share of traced length where the heater ran at full output below setpoint
     steps: int
+    min_viscosity_ratio: float = 1.0   # bulk over wall viscosity along the line (before bounding)
+    max_viscosity_ratio: float = 1.0
 
     def as_dict(self) -> dict:
         return dict(self.__dict__)
@@ -93,296 +117,584 @@ class Line:
         self.segments = segments
         self.product = product
         self.tracing = tracing
-        self.heaters = [Heater(tracing, s.traced_fraction) for s in segments]
+        self.heaters = [Heater(tracing, s.traced_fraction, s.ambient_temperature) for s in segments]
         self.length = sum(s.length for s in segments)
 
-    def with_tracing(self, tracing) -> "Line":
-        return Line(self.segments, self.product, tracing)
+
+class _Local(NamedTuple):
+    """Everything of one evaluation (a step's midpoint state) the step and the totals need."""
+
+    t_equilibrium: float
+    g: float
+    viscous: float        # W/m dissipated into the product
+    mcp: float
+    wall: object          # tracing.WallBalance
+    t_eval: float
+    g_in: float
+    g_out: float
+    mu: float
+    re: float
+    velocity: float
+    grad_friction: float
+    grad_fittings: float
+    grad_static: float
+    q_out: float
+    h_in: float
+    ratio: float
+    t_jacket: float
+
+
+class _Segment:
+    """A segment's constants as plain floats for the hot loop."""
+
+    __slots__ = ("seg", "heater", "d", "area", "rel_rough", "fit_a", "fit_b", "slope", "t_amb", "wall_r",
+                 "buried", "has_layers", "length", "film_area", "balance", "density", "viscosity",
+                 "specific_heat", "conductivity", "newtonian")
+
+    def __init__(self, seg: LineSegment, heater: Heater, product: Product):
+        self.seg, self.heater = seg, heater
+        self.balance = heater.balance
+        self.density, self.viscosity = product.density, product.viscosity
+        self.specific_heat, self.conductivity = product.specific_heat, product.conductivity
+        self.newtonian = product.newtonian
+        self.d = seg.inside_diameter
+        self.area = PI * self.d * self.d / 4.0
+        self.rel_rough = seg.relative_roughness
+        self.fit_a = seg.fitting_a / seg.length
+        self.fit_b = seg.fitting_b / seg.length
+        self.slope = seg.elevation_change / seg.length
+        self.t_amb = seg.ambient_temperature
+        self.wall_r = seg.wall_resistance
+        self.buried = seg.location == "buried"
+        self.has_layers = bool(seg.layers)
+        self.length = seg.length
+        self.film_area = PI * self.d   # inside surface per metre
+
+
+class _WallState:
+    """The outward path's warm start (wall, jacket, wall viscosity, cached resistances), carried from
+    step to step and across segment boundaries."""
+
+    __slots__ = ("t_wall", "t_jacket", "mu_wall", "mu_wall_at", "surf_at", "r_surf", "ins_at", "r_ins",
+                 "at", "wall_rate", "jacket_rate", "wall_full", "jacket_full", "full_at", "layout")
+
+    def __init__(self, t: float):
+        self.t_wall = t
+        self.t_jacket = t
+        self.mu_wall, self.mu_wall_at = 1.0, -1.0
+        self.layout = None
+
+    def enter(self, s: _Segment) -> None:
+        """New segment: keep the wall; restart the jacket guess where the insulation differs."""
+        seg = s.seg
+        layout = (s.has_layers, seg.jacket_diameter, s.buried)
+        if layout != self.layout:
+            self.t_jacket = s.t_amb + 0.2 * (self.t_wall - s.t_amb) if s.has_layers else self.t_wall
+            self.layout = layout
+        self.surf_at = self.ins_at = -1.0
+        self.r_surf = self.r_ins = 0.0   # no layers: r_ins stays 0
+        self.at = self.wall_rate = self.jacket_rate = 0.0
+        self.wall_full = self.jacket_full = self.full_at = None
+
+
+class _StepControl:
+    """Step lengths following the local rate of change (see the module docstring)."""
+
+    __slots__ = ("max_step", "d_temperature", "d_log_viscosity", "d_log_conductance", "mu_last", "g_last", "dx_last",
+                 "state_last")
+
+    def __init__(self, step: float):
+        scale = step / DEFAULT_STEP_M
+        self.max_step = step
+        self.d_temperature = TEMPERATURE_CHANGE_PER_STEP_K * scale
+        self.d_log_viscosity = LOG_VISCOSITY_CHANGE_PER_STEP * scale
+        self.d_log_conductance = LOG_CONDUCTANCE_CHANGE_PER_STEP * scale
+        self.mu_last, self.g_last, self.state_last = None, 0.0, -1
+        self.dx_last = step
+
+    def first(self, length: float) -> float:
+        """The first step of a segment; G may jump at the boundary (another heat path), so its trend
+        starts afresh."""
+        self.g_last = 0.0
+        return min(self.max_step, 0.5 * length, 2.0 * self.dx_last)
+
+    def entrance(self, dx: float, local: "_Local", from_entry: float, d: float) -> float:
+        """Where the laminar film is a large part of the heat path, steps near a thermal entrance
+        grow with the distance from it: the film, the wall and the outside coefficient all change
+        steeply there, and a long first step would average them wrongly."""
+        if from_entry >= dx or local.re > RE_LAMINAR_MAX or local.g <= 0.0:
+            return dx   # (the limit below is never shorter than the distance from the entrance)
+        share = local.g / (local.h_in * PI * d)     # film resistance over the whole path's
+        weight = 4.0 * share * (1.0 - share)
+        if weight < 0.05:
+            return dx
+        return min(dx, max(from_entry, ENTRANCE_FIRST_STEP * self.max_step) / weight)
+
+    def fit(self, dx: float, t: float, local: "_Local", viscosity) -> float:
+        """A step from ``t`` no longer than ``dx`` whose predicted temperature change (exact for the
+        coefficients at its start: the thermal length mcp/G and the drive) and viscosity change stay
+        within the targets."""
+        g, mcp, viscous = local.g, local.mcp, local.viscous
+        if g > 1e-12:
+            drive = abs(local.t_equilibrium + viscous / g - t)
+            if drive > self.d_temperature:
+                dx = min(dx, -mcp / g * math.log(1.0 - self.d_temperature / drive))
+        elif viscous > 0.0:
+            dx = min(dx, self.d_temperature * mcp / viscous)
+        t_end = _advance(t, local.t_equilibrium, g, viscous, mcp, dx)
+        try:
+            change = abs(math.log(viscosity(t_end) / local.mu)) if t_end != t else 0.0
+        except (ValueError, OverflowError):
+            change = math.inf
+        if change > self.d_log_viscosity:
+            dx *= self.d_log_viscosity / change
+        return max(dx, 1e-3 * self.max_step)
+
+    def after(self, dx: float, t: float, t_new: float, mu: float, g: float, state: int) -> float:
+        """The next step's length after a step of ``dx`` from ``t`` to ``t_new`` (midpoint viscosity
+        mu, bulk-to-surroundings conductance g in heater state ``state``)."""
+        if state != self.state_last:
+            self.g_last, self.state_last = 0.0, state   # G jumps with the heater state: no trend
+        limit = min(self.max_step, 2.0 * dx)
+        change = abs(t_new - t)
+        if change * limit > self.d_temperature * dx:
+            limit = self.d_temperature * dx / change
+        if self.mu_last is not None:
+            between = 0.5 * (dx + self.dx_last)
+            per_metre = abs(math.log(mu / self.mu_last)) / between
+            if per_metre * limit > self.d_log_viscosity:
+                limit = self.d_log_viscosity / per_metre
+            if g > 0.0 and self.g_last > 0.0:
+                # the loss and the viscous heating nearly balance in long viscous lines: their
+                # coefficients must be followed, not just the temperature they leave
+                per_metre = abs(math.log(g / self.g_last)) / between
+                if per_metre * limit > self.d_log_conductance:
+                    limit = self.d_log_conductance / per_metre
+        self.mu_last, self.g_last, self.dx_last = mu, g, dx
+        return max(limit, 1e-3 * self.max_step)
 
 
 def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: float = 0.0,
           step: float = DEFAULT_STEP_M, record: bool = True) -> MarchResult:
     """March the product along ``line`` at volume flow ``flow`` [m3/s] (measured at the inlet
-    temperature) from ``inlet_temperature`` [K] and gauge ``inlet_pressure`` [Pa]."""
+    temperature) from ``inlet_temperature`` [K] and gauge ``inlet_pressure`` [Pa]; ``step`` [m] is
+    the longest step (the grid scale, see the module docstring)."""
     if not flow > 0.0:
         raise ValueError(f"flow must be greater than 0 m3/s, got {flow!r}")
+    if not step > 0.0:
+        raise ValueError(f"step must be greater than 0 m, got {step!r}")
     product = line.product
-    density = product.density
-    viscosity = product.viscosity
-    specific_heat = product.specific_heat
-    conductivity = product.conductivity
-    newtonian = product.newtonian
-    n_index = product.flow_index
-    tau_y = product.yield_stress
-    no_flow = product.no_flow_temperature
-    mass_flow = density(inlet_temperature) * flow
-
-    t = inlet_temperature
-    p = inlet_pressure
-    x = 0.0
-    sum_friction = sum_fittings = sum_static = 0.0
-    sum_trace = sum_loss = sum_viscous = 0.0
-    laminar_len = transitional_len = 0.0
-    short_len = traced_len = 0.0
-    t_min = t_max = t
-    p_max = p
-    mu_min, mu_max = math.inf, 0.0
-    jacket_max, jacket_at = -math.inf, 0.0
-    sheath_max, sheath_at = -math.inf, 0.0
-    status, sets_at = "ok", None
-    n_steps = 0
-
-    if record:
-        node_x, node_t, node_p = [0.0], [t], [p]
-        rec = {k: [] for k in ("x", "segment", "viscosity", "reynolds", "regime", "velocity", "wall_temperature",
-                               "jacket_temperature", "sheath_temperature", "heat_loss", "trace_power",
-                               "heater_state", "film_coefficient", "pressure_gradient")}
-
+    mass_flow = product.density(inlet_temperature) * flow
+    totals = _Totals(inlet_temperature, inlet_pressure)
+    rec = _Record() if record else None
+    wall_state = _WallState(inlet_temperature)
+    control = _StepControl(step)
+    t, p, x = inlet_temperature, inlet_pressure, 0.0
+    entry_x, entry_d = 0.0, None
+    carry = None
     for seg, heater in zip(line.segments, line.heaters):
-        n = max(2, int(math.ceil(seg.length / step - 1e-9)))
-        dx = seg.length / n
-        d = seg.inside_diameter
-        area = PI * d * d / 4.0
-        rel_rough = seg.relative_roughness
-        fit_a_per_m = seg.fitting_a / seg.length
-        fit_b_per_m = seg.fitting_b / seg.length
-        slope = seg.elevation_change / seg.length
-        t_amb = seg.ambient_temperature
-        wall_r = seg.wall_resistance
-        buried = seg.location == "buried"
-        has_layers = bool(seg.layers)
-        # warm start of the outward path for this segment
-        t_wall_guess = t
-        t_jacket = t_amb + 0.2 * (t - t_amb) if has_layers else t
-        g_out = None
-        wall_drift = jacket_drift = 0.0
-        wall_last = jacket_last = None
-        mu_wall, mu_wall_at = 1.0, -1.0
-
-        slope_previous = None
-        surf_at, r_surf = -1.0, 0.0       # cached surface resistance and the jacket temperature it is for
-        ins_at, r_ins_cached = -1.0, 0.0  # cached insulation resistance and the mean temperature it is for
-        for _ in range(n):
-            # The coefficients are taken at the step's midpoint state.  On a segment's first step the
-            # midpoint is reached by a half step from the start (two evaluations); after that it is
-            # predicted with the previous step's coefficients (one evaluation), which keeps second order.
-            if slope_previous is None:
-                t_eval = t
-                x_eval = x + 0.25 * dx
-                stages = (0, 1)
-            else:
-                # predicted with the last step's own law (exponential approach to its equilibrium):
-                # a linear extrapolation would overshoot where the thermal length is shorter than a step
-                t_eval = _step(heater, t, slope_previous, 0.5 * dx, t_amb)
-                x_eval = x + 0.5 * dx
-                stages = (1,)
-            for stage in stages:
-                rho = density(t_eval)
-                velocity = mass_flow / (rho * area)
-                q_volume = mass_flow / rho
-                k_prod = viscosity(t_eval)
-                if newtonian:
-                    mu = k_prod
-                    re = rho * velocity * d / mu
-                    f = darcy_friction(re, rel_rough)
-                    grad_friction = f * rho * velocity * velocity / (2.0 * d)
-                else:
-                    flow_nn = pipe_flow_non_newtonian(rho, velocity, d, k_prod, n_index, tau_y)
-                    re = flow_nn.reynolds
-                    mu = flow_nn.apparent_viscosity
-                    f = 4.0 * flow_nn.fanning
-                    grad_friction = flow_nn.pressure_gradient
-                dyn = 0.5 * rho * velocity * velocity
-                grad_fittings = (fit_a_per_m / re + fit_b_per_m) * dyn
-                grad_static = rho * GRAVITY * slope
-                viscous = (grad_friction + grad_fittings) * q_volume  # W/m dissipated into the product
-
-                cp = specific_heat(t_eval)
-                pr = cp * mu / conductivity(t_eval)
-                if newtonian:
-                    if abs(t_wall_guess - mu_wall_at) > 0.05:
-                        mu_wall, mu_wall_at = viscosity(t_wall_guess), t_wall_guess
-                    ratio = mu / mu_wall
-                else:
-                    ratio = 1.0
-                nu = nu_internal(re, pr, d / max(x_eval, d), f, ratio)
-                h_in = nu * conductivity(t_eval) / d
-                g_in = 1.0 / (1.0 / (h_in * PI * d) + wall_r)
-
-                # outward path and heater: fixed point on the jacket temperature, warm-started from
-                # the last evaluation extrapolated by its change (one pass usually settles it)
-                t_wall_guess += wall_drift
-                t_jacket += jacket_drift
-                for _it in range(30):
-                    if has_layers:
-                        t_mean = t_wall_guess + t_jacket
-                        if abs(t_mean - ins_at) > 0.1:   # k(T_mean) moves little over 0.05 K
-                            r_ins_cached, ins_at = insulation_resistance(seg, t_wall_guess, t_jacket), t_mean
-                        r_ins = r_ins_cached
-                    else:
-                        r_ins = 0.0
-                    if buried:
-                        r_surf = seg.soil_resistance
-                    elif abs(t_jacket - surf_at) > 0.02:  # h(T_jacket) moves little over 0.02 K
-                        r_surf, surf_at = surface_resistance(seg, t_jacket), t_jacket
-                    g_out = 1.0 / (r_ins + r_surf)
-                    wall = heater.balance(t_eval, g_in, g_out, t_amb)
-                    q_out = g_out * (wall.t_wall - t_amb)
-                    new_jacket = wall.t_wall - q_out * r_ins
-                    change = abs(new_jacket - t_jacket) + abs(wall.t_wall - t_wall_guess)
-                    t_wall_guess = wall.t_wall
-                    t_jacket = new_jacket if has_layers else 0.5 * (t_jacket + new_jacket)
-                    if change < 0.02:
-                        break
-                if stage:
-                    # drift of the converged values from the last step's, bounded: a guess, never a driver
-                    if wall_last is not None:
-                        wall_drift = max(-1.0, min(1.0, t_wall_guess - wall_last))
-                        jacket_drift = max(-1.0, min(1.0, t_jacket - jacket_last))
-                    wall_last, jacket_last = t_wall_guess, t_jacket
-
-                c1 = wall.c1
-                g = g_in * (1.0 - c1)
-                t_equilibrium = (wall.t_wall - c1 * t_eval) / (1.0 - c1)
-                mcp = mass_flow * cp
-                if stage == 0:
-                    t_eval = _step(heater, t, (t_equilibrium, g, viscous, mcp, wall, t_eval, g_in, g_out),
-                                   0.5 * dx, t_amb)
-                    x_eval = x + 0.5 * dx
-            slope_previous = (t_equilibrium, g, viscous, mcp, wall, t_eval, g_in, g_out)
-            t_new = _step(heater, t, slope_previous, dx, t_amb)
-
-            grad_total = grad_friction + grad_fittings + grad_static
-            p -= grad_total * dx
-            x += dx
-            n_steps += 1
-            sum_friction += grad_friction * dx
-            sum_fittings += grad_fittings * dx
-            sum_static += grad_static * dx
-            sum_trace += wall.q_trace * dx
-            sum_loss += q_out * dx
-            sum_viscous += viscous * dx
-            if re < 2300.0:
-                laminar_len += dx
-            elif re < 4000.0:
-                transitional_len += dx
-            if heater.active:
-                traced_len += dx
-                if wall.regime == 2 and heater.setpoint is not None and wall.t_wall < heater.setpoint - 0.05:
-                    short_len += dx
-            if mu < mu_min:
-                mu_min = mu
-            if mu > mu_max:
-                mu_max = mu
-            jacket_t = t_jacket if has_layers or buried else wall.t_wall
-            if jacket_t > jacket_max:
-                jacket_max, jacket_at = jacket_t, x - 0.5 * dx
-            sheath = heater.sheath_temperature(wall.t_wall, wall.q_trace) if heater.active else wall.t_wall
-            if sheath > sheath_max:
-                sheath_max, sheath_at = sheath, x - 0.5 * dx
-            t = t_new
-            if t < t_min:
-                t_min = t
-            elif t > t_max:
-                t_max = t
-            if p > p_max:
-                p_max = p
-            if record:
-                node_x.append(x)
-                node_t.append(t)
-                node_p.append(p)
-                rec["x"].append(x - 0.5 * dx)
-                rec["segment"].append(seg.index)
-                rec["viscosity"].append(mu)
-                rec["reynolds"].append(re)
-                rec["regime"].append(0 if re < 2300.0 else (1 if re < 4000.0 else 2))
-                rec["velocity"].append(velocity)
-                rec["wall_temperature"].append(wall.t_wall)
-                rec["jacket_temperature"].append(jacket_t)
-                rec["sheath_temperature"].append(sheath)
-                rec["heat_loss"].append(q_out)
-                rec["trace_power"].append(wall.q_trace)
-                rec["heater_state"].append(wall.regime if heater.active else 0)
-                rec["film_coefficient"].append(h_in)
-                rec["pressure_gradient"].append(grad_total)
-            if t < no_flow:
-                status, sets_at = "product_sets", x
-                break
-        if status != "ok":
+        if entry_d is None or abs(seg.inside_diameter - entry_d) > 1e-9 * entry_d:
+            entry_x, entry_d = x, seg.inside_diameter   # a new thermal entrance
+        s = _Segment(seg, heater, product)
+        wall_state.enter(s)
+        t, p, x, carry = _march_segment(s, product, mass_flow, wall_state, control, totals, rec, t, p, x,
+                                        entry_x, carry)
+        if totals.status != "ok":
             break
+    summary = totals.summary(line, product, flow, mass_flow, inlet_temperature, inlet_pressure, t, p, x)
+    if rec is not None:
+        return MarchResult(summary, rec.nodes(inlet_temperature, inlet_pressure), rec.steps())
+    return MarchResult(summary, {}, {})
 
-    extrapolated = product.is_extrapolation(t_min) or product.is_extrapolation(t_max)
-    summary = MarchSummary(
-        flow_m3_s=flow, mass_flow_kg_s=mass_flow, inlet_temperature_k=inlet_temperature,
-        outlet_temperature_k=t, inlet_pressure_pa=inlet_pressure, outlet_pressure_pa=p,
-        pressure_drop_pa=inlet_pressure - p, friction_drop_pa=sum_friction, fittings_drop_pa=sum_fittings,
-        static_drop_pa=sum_static, min_bulk_temperature_k=t_min, max_bulk_temperature_k=t_max,
-        max_pressure_pa=p_max, max_jacket_temperature_k=jacket_max, max_jacket_at_m=jacket_at,
-        max_sheath_temperature_k=sheath_max, max_sheath_at_m=sheath_at, trace_power_w=sum_trace,
-        heat_loss_w=sum_loss, viscous_heating_w=sum_viscous, min_viscosity_pa_s=mu_min,
-        max_viscosity_pa_s=mu_max, laminar_fraction=laminar_len / max(x, 1e-12),
-        transitional_fraction=transitional_len / max(x, 1e-12), line_length_m=line.length,
-        status=status, sets_at_m=sets_at, viscosity_extrapolated=extrapolated,
-        heater_short_fraction=short_len / traced_len if traced_len > 0 else 0.0, steps=n_steps,
-    )
-    if record:
-        nodes = {"x": np.array(node_x), "temperature": np.array(node_t), "pressure": np.array(node_p)}
-        steps = {k: np.array(v) for k, v in rec.items()}
+
+def _march_segment(s: _Segment, product: Product, mass_flow: float, wall_state: _WallState,
+                   control: _StepControl, totals: "_Totals", rec, t: float, p: float, x: float,
+                   entry_x: float, carry: tuple | None) -> tuple[float, float, float, tuple]:
+    """March over one segment from (t, p) at distance x; returns (t, p, x) at its end (or where the
+    product sets, with ``totals.status`` saying so) and what the next segment may carry on with.
+
+    ``carry``: the last two evaluations of the segment before, used to predict this segment's first
+    midpoint when the heat path is the same (same diameter, layers, surroundings and heating)."""
+    heater, t_amb, d = s.heater, s.t_amb, s.d
+    no_flow = product.no_flow_temperature
+    x_end = x + s.length
+    dx = control.first(s.length)
+    signature = _path_signature(s)
+    previous = older = None
+    at_previous = at_older = 0.0
+    if carry is not None and carry[0] == signature:
+        _, previous, at_previous, older, at_older = carry
+    while x_end - x > 1e-9 * s.length:
+        remaining = x_end - x
+        if dx >= remaining * (1.0 - 1e-9):
+            dx = remaining
+        elif remaining < 1.5 * dx:
+            dx = 0.5 * remaining   # two equal steps rather than a sliver at the end
+        from_d = (x - entry_x) / d
+        if previous is None:
+            # a segment's first step: sized from the rates at its start (nothing is known of this
+            # segment yet), the midpoint then reached by a half step from the start
+            half = _evaluate(s, product, mass_flow, wall_state, t, from_d, from_d + 0.5 * dx / d, x, False)
+            fitted = control.fit(control.entrance(dx, half, x - entry_x, d), t, half, product.viscosity)
+            if fitted < 0.9 * dx:
+                dx = fitted
+                half = _evaluate(s, product, mass_flow, wall_state, t, from_d, from_d + 0.5 * dx / d, x, False)
+            t_mid = _step(heater, t, half, 0.5 * dx, t_amb, half.g, half.viscous)
+            older, at_older = half, x
+        else:
+            # predicted with the last step's own law (exponential approach to its equilibrium; a
+            # linear extrapolation of T would overshoot where the thermal length is shorter than a
+            # step), its conductance and viscous heating carried forward from the last two
+            g, viscous = _extrapolated(previous, older, (x + 0.5 * dx - at_previous) / (at_previous - at_older))
+            t_mid = _step(heater, t, previous, 0.5 * dx, t_amb, g, viscous)
+            older, at_older = previous, at_previous
+        local = _evaluate(s, product, mass_flow, wall_state, t_mid, from_d, from_d + dx / d, x + 0.5 * dx, True)
+        t_new = _step(heater, t, local, dx, t_amb, local.g, local.viscous)
+        grad_total = local.grad_friction + local.grad_fittings + local.grad_static
+        p -= grad_total * dx
+        x += dx
+        sheath = totals.add(s, local, dx, x, p, t_new)
+        if rec is not None:
+            rec.add(s, local, dx, x, t_new, p, grad_total, sheath)
+        previous, at_previous = local, x - 0.5 * dx
+        dx = control.entrance(control.after(dx, t, t_new, local.mu, local.g, local.wall.heater_state), local, x - entry_x, d)
+        t = t_new
+        if t < no_flow:
+            totals.status, totals.sets_at = "product_sets", x
+            break
+    return t, p, x, (signature, previous, at_previous, older, at_older)
+
+
+def _path_signature(s: _Segment) -> tuple:
+    """What a segment's heat path is made of: equal signatures, nothing to re-learn at the boundary."""
+    seg, heater = s.seg, s.heater
+    return (s.d, s.wall_r, tuple((layer.log_ratio, layer.conductivity, layer.material) for layer in seg.layers),
+            seg.location, s.t_amb, seg.wind_speed, seg.emissivity, heater.active, heater.fraction)
+
+
+def _extrapolated(last: _Local, before: _Local, ahead: float) -> tuple[float, float]:
+    """(G, S) of ``last`` carried ``ahead`` (in units of the distance between the two evaluations)
+    along their log-linear trend, each by at most a factor 2 and only within one heater state: the
+    predictor of the next midpoint then errs at second order, not first."""
+    g, viscous = last.g, last.viscous
+    if last.wall.heater_state != before.wall.heater_state:
+        return g, viscous   # G jumps where the heater changes state: no trend to follow
+    if g > 0.0 and before.g > 0.0 and g != before.g:
+        factor = (g / before.g) ** ahead
+        g *= 2.0 if factor > 2.0 else (0.5 if factor < 0.5 else factor)
+    if viscous > 0.0 and before.viscous > 0.0 and viscous != before.viscous:
+        factor = (viscous / before.viscous) ** ahead
+        viscous *= 2.0 if factor > 2.0 else (0.5 if factor < 0.5 else factor)
+    return g, viscous
+
+
+def _evaluate(s: _Segment, product: Product, mass_flow: float, ws: _WallState, t_eval: float,
+              from_d: float, to_d: float, at: float, full_step: bool) -> _Local:
+    """Coefficients at bulk temperature ``t_eval`` for the stretch [from_d, to_d] (distances from
+    the thermal entrance over D), taken as at distance ``at`` [m]: hydraulics, then the film, wall
+    and jacket solved together.  ``full_step``: a step's midpoint (the warm start learns from it)."""
+    d = s.d
+    rho = s.density(t_eval)
+    velocity = mass_flow / (rho * s.area)
+    k_prod = s.viscosity(t_eval)
+    if s.newtonian:
+        mu = k_prod
+        re = rho * velocity * d / mu
+        f = darcy_friction(re, s.rel_rough)
+        grad_friction = f * rho * velocity * velocity / (2.0 * d)
     else:
-        nodes, steps = {}, {}
-    return MarchResult(summary, nodes, steps)
+        flow_nn = pipe_flow_non_newtonian(rho, velocity, d, k_prod, product.flow_index, product.yield_stress)
+        re = flow_nn.reynolds
+        mu = flow_nn.apparent_viscosity
+        f = 4.0 * flow_nn.fanning
+        grad_friction = flow_nn.pressure_gradient
+    grad_fittings = (s.fit_a / re + s.fit_b) * 0.5 * rho * velocity * velocity
+    viscous = (grad_friction + grad_fittings) * mass_flow / rho
+    cp = s.specific_heat(t_eval)
+    conductivity = s.conductivity(t_eval)
+    pr = cp * mu / conductivity
+    parts = film_parts(re, pr, f, from_d, to_d)
+    wall, g_in, g_out, q_out, h_in, ratio = _solve_wall(s, ws, t_eval, mu, parts, conductivity / d, viscous, at)
+    if full_step:
+        # how the converged wall and jacket move along the line: the next warm start follows it
+        if ws.full_at is not None and at > ws.full_at:
+            span = at - ws.full_at
+            ws.wall_rate = (ws.t_wall - ws.wall_full) / span
+            ws.jacket_rate = (ws.t_jacket - ws.jacket_full) / span
+        ws.wall_full, ws.jacket_full, ws.full_at = ws.t_wall, ws.t_jacket, at
+    c1 = wall.c1
+    g = g_in * (1.0 - c1)
+    if parts[2] == 0.0 and to_d > ENTRANCE_SPLIT_RATIO * from_d:
+        g = _entrance_mean_conductance(g, h_in, parts[0], re * pr, from_d, to_d, d)
+    return _Local((wall.t_wall - c1 * t_eval) / (1.0 - c1), g, viscous, mass_flow * cp, wall,
+                  t_eval, g_in, g_out, mu, re, velocity, grad_friction, grad_fittings, rho * GRAVITY * s.slope,
+                  q_out, h_in, ratio, ws.t_jacket)
 
 
-def _step(heater, t: float, coefficients: tuple, dx: float, t_amb: float) -> float:
-    """Advance the bulk temperature over dx with the step's conductances frozen.
+def _entrance_mean_conductance(g: float, h_in: float, nu_step: float, pe: float, from_d: float, to_d: float,
+                               d: float) -> float:
+    """The step's bulk-to-surroundings conductance [W/(m K)] averaged over the thermal entrance.
+
+    Near the entrance the film coefficient varies steeply within a step (as x^(-1/3)); the film is
+    in series with the rest of the path (wall, insulation, air), so the mean of the series
+    conductance is not the conductance of the mean film.  The step is cut into geometric pieces
+    (exact mean film of each from the entrance correlation), each piece's conductance taken with
+    the rest of the path as solved, and the conductances averaged by length."""
+    r_film = 1.0 / (h_in * PI * d)
+    r_rest = 1.0 / g - r_film
+    if r_rest <= 1e-3 * r_film or r_rest >= 20.0 * r_film:
+        return g   # the film is nearly the whole path, or a small part of it: the mean film will do
+    h_per_nu = h_in / nu_step                      # k / D times the viscosity correction
+    low = from_d if from_d > 0.0 else to_d / 32.0
+    pieces = min(6, max(2, int(math.log2(to_d / low)) + 1))
+    factor = (to_d / low) ** (1.0 / pieces)
+    total, a = 0.0, 0.0 if from_d <= 0.0 else from_d
+    edges = [low * factor ** i for i in range(1, pieces + 1)]
+    if from_d <= 0.0:
+        edges.insert(0, low)
+    for b in edges:
+        nu = nu_laminar_local_over(a / pe, b / pe)
+        total += (b - a) / (1.0 / (nu * h_per_nu * PI * d) + r_rest)
+        a = b
+    return total / (to_d - (from_d if from_d > 0.0 else 0.0))
+
+
+def _solve_wall(s: _Segment, ws: _WallState, t_bulk: float, mu: float, parts: tuple, k_over_d: float,
+                viscous: float, at: float):
+    """Film, wall and jacket at one bulk temperature, iterated to agreement (fixed point on the
+    wall and jacket temperatures, warm-started from the last evaluation plus its drift).
+
+    Returns (wall balance, g_in, g_out, heat loss [W/m], film coefficient, mu/mu_wall)."""
+    seg, balance, t_amb, wall_r, has_layers, film_area = s.seg, s.balance, s.t_amb, s.wall_r, s.has_layers, s.film_area
+    newtonian = s.newtonian
+    nu_lam, nu_turb, weight = parts
+    ratio = 1.0
+    ahead = at - ws.at
+    drift = ws.wall_rate * ahead   # warm start: the last solution moved along its trend, at most 1 K
+    t_wall = ws.t_wall + (1.0 if drift > 1.0 else (-1.0 if drift < -1.0 else drift))
+    drift = ws.jacket_rate * ahead
+    t_jacket = ws.t_jacket + (1.0 if drift > 1.0 else (-1.0 if drift < -1.0 else drift))
+    mu_wall, mu_wall_at = ws.mu_wall, ws.mu_wall_at
+    r_ins, ins_at, r_surf, surf_at = ws.r_ins, ws.ins_at, ws.r_surf, ws.surf_at
+    if s.buried:
+        r_surf, surf_at = seg.soil_resistance, math.inf
+    x_prev = r_prev = None
+    for _ in range(40):
+        if newtonian:
+            if abs(t_wall - mu_wall_at) > 0.02:   # mu_w moves little over 0.02 K
+                mu_wall, mu_wall_at = _wall_viscosity(s.viscosity, t_wall), t_wall
+            ratio = mu / mu_wall
+            h_in = (nu_lam * _bounded(ratio) ** 0.14 if weight == 0.0 else viscosity_corrected(parts, ratio)) * k_over_d
+        else:
+            h_in = (nu_lam + weight * (nu_turb - nu_lam)) * k_over_d
+        g_in = 1.0 / (1.0 / (h_in * film_area) + wall_r)
+        if has_layers:
+            t_mean = t_wall + t_jacket
+            if abs(t_mean - ins_at) > 0.1:   # k(T_mean) moves little over 0.05 K
+                r_ins, ins_at = insulation_resistance(seg, t_wall, t_jacket), t_mean
+        if surf_at != math.inf and abs(t_jacket - surf_at) > 0.02:   # h(T_jacket) moves little over 0.02 K
+            r_surf, surf_at = surface_resistance(seg, t_jacket), t_jacket
+        g_out = 1.0 / (r_ins + r_surf)
+        wall = balance(t_bulk, g_in, g_out, t_amb, viscous)
+        q_out = g_out * (wall.t_wall - t_amb)
+        new_jacket = wall.t_wall - q_out * r_ins
+        residual = wall.t_wall - t_wall
+        if has_layers:
+            # the wall is exact for the g_in and g_out it was solved with: what is left of the wall
+            # guess's error is its effect through the film's (mu/mu_w)^0.14 (and, faintly, the
+            # insulation's k at the mean temperature)
+            change = abs(new_jacket - t_jacket) + abs(residual) * (0.14 * abs(math.log(ratio)) + 0.02)
+        else:
+            change = abs(new_jacket - t_jacket) + abs(residual)   # bare: the outside h follows the wall
+        t_jacket = new_jacket   # bare: the jacket is the wall, settled with it below
+        if change < WALL_TOLERANCE_K:
+            break
+        # the film's wall viscosity makes the wall map slow to settle on its own (cold bare lines):
+        # a secant step on the wall temperature, the plain fixed-point step when that looks unsafe
+        step = residual
+        if x_prev is not None and residual != r_prev:
+            secant = -residual * (t_wall - x_prev) / (residual - r_prev)
+            if abs(secant) <= 4.0 * abs(residual):
+                step = secant
+        x_prev, r_prev = t_wall, residual
+        t_wall += step
+        if not has_layers:
+            t_jacket = t_wall
+    ws.t_wall, ws.t_jacket, ws.mu_wall, ws.mu_wall_at, ws.at = t_wall, t_jacket, mu_wall, mu_wall_at, at
+    ws.r_ins, ws.ins_at, ws.r_surf, ws.surf_at = r_ins, ins_at, r_surf, surf_at
+    return wall, g_in, g_out, q_out, h_in, ratio
+
+
+def _bounded(ratio: float) -> float:
+    """mu/mu_w within the range of the film's property correction (heat_transfer.VISCOSITY_RATIO_*)."""
+    return VISCOSITY_RATIO_MIN if ratio < VISCOSITY_RATIO_MIN else (
+        VISCOSITY_RATIO_MAX if ratio > VISCOSITY_RATIO_MAX else ratio)
+
+
+def _wall_viscosity(viscosity, t_wall: float) -> float:
+    """Viscosity at the wall temperature; beyond the law's domain (a VFT law below its c, a value out
+    of floating-point range) the wall counts as set: infinitely viscous (the ratio is then bounded)."""
+    try:
+        return viscosity(t_wall)
+    except (ValueError, OverflowError):
+        return math.inf
+
+
+class _Totals:
+    """Sums and extremes along the line."""
+
+    __slots__ = ("friction", "fittings", "static", "trace", "loss", "viscous", "laminar", "transitional",
+                 "short", "traced", "t_min", "t_max", "p_max", "mu_min", "mu_max", "ratio_min", "ratio_max",
+                 "jacket_max", "jacket_at", "sheath_max", "sheath_at", "status", "sets_at", "n")
+
+    def __init__(self, t: float, p: float):
+        self.friction = self.fittings = self.static = 0.0
+        self.trace = self.loss = self.viscous = 0.0
+        self.laminar = self.transitional = self.short = self.traced = 0.0
+        self.t_min = self.t_max = t
+        self.p_max = p
+        self.mu_min, self.mu_max = math.inf, 0.0
+        self.ratio_min, self.ratio_max = math.inf, 0.0
+        self.jacket_max = self.sheath_max = -math.inf
+        self.jacket_at = self.sheath_at = 0.0
+        self.status, self.sets_at, self.n = "ok", None, 0
+
+    def add(self, s: _Segment, local: _Local, dx: float, x: float, p: float, t_new: float) -> float:
+        """Add one step ending at x; returns the heater sheath temperature of the step."""
+        heater, wall = s.heater, local.wall
+        self.n += 1
+        self.friction += local.grad_friction * dx
+        self.fittings += local.grad_fittings * dx
+        self.static += local.grad_static * dx
+        self.trace += wall.q_trace * dx
+        self.loss += local.q_out * dx
+        self.viscous += local.viscous * dx
+        re = local.re
+        if re <= RE_LAMINAR_MAX:
+            self.laminar += dx
+        elif re < RE_TURBULENT_MIN:
+            self.transitional += dx
+        if heater.active:
+            self.traced += dx
+            if wall.heater_state == 2 and heater.setpoint is not None and wall.t_wall < heater.setpoint - 0.05:
+                self.short += dx
+        mu, ratio = local.mu, local.ratio
+        if mu < self.mu_min:
+            self.mu_min = mu
+        if mu > self.mu_max:
+            self.mu_max = mu
+        if ratio < self.ratio_min:
+            self.ratio_min = ratio
+        if ratio > self.ratio_max:
+            self.ratio_max = ratio
+        jacket = local.t_jacket if s.has_layers or s.buried else wall.t_wall
+        if jacket > self.jacket_max:
+            self.jacket_max, self.jacket_at = jacket, x - 0.5 * dx
+        sheath = heater.sheath_temperature(wall.t_wall, wall.q_trace) if heater.active else wall.t_wall
+        if sheath > self.sheath_max:
+            self.sheath_max, self.sheath_at = sheath, x - 0.5 * dx
+        if t_new < self.t_min:
+            self.t_min = t_new
+        elif t_new > self.t_max:
+            self.t_max = t_new
+        if p > self.p_max:
+            self.p_max = p
+        return sheath
+
+    def summary(self, line: Line, product: Product, flow: float, mass_flow: float, t_in: float, p_in: float,
+                t: float, p: float, x: float) -> MarchSummary:
+        extrapolated = product.is_extrapolation(self.t_min) or product.is_extrapolation(self.t_max)
+        return MarchSummary(
+            flow_m3_s=flow, mass_flow_kg_s=mass_flow, inlet_temperature_k=t_in, outlet_temperature_k=t,
+            inlet_pressure_pa=p_in, outlet_pressure_pa=p, pressure_drop_pa=p_in - p,
+            friction_drop_pa=self.friction, fittings_drop_pa=self.fittings, static_drop_pa=self.static,
+            min_bulk_temperature_k=self.t_min, max_bulk_temperature_k=self.t_max, max_pressure_pa=self.p_max,
+            max_jacket_temperature_k=self.jacket_max, max_jacket_at_m=self.jacket_at,
+            max_sheath_temperature_k=self.sheath_max, max_sheath_at_m=self.sheath_at, trace_power_w=self.trace,
+            heat_loss_w=self.loss, viscous_heating_w=self.viscous, min_viscosity_pa_s=self.mu_min,
+            max_viscosity_pa_s=self.mu_max, laminar_fraction=self.laminar / max(x, 1e-12),
+            transitional_fraction=self.transitional / max(x, 1e-12), line_length_m=line.length,
+            status=self.status, sets_at_m=self.sets_at, viscosity_extrapolated=extrapolated,
+            heater_short_fraction=self.short / self.traced if self.traced > 0 else 0.0, steps=self.n,
+            min_viscosity_ratio=self.ratio_min, max_viscosity_ratio=self.ratio_max,
+        )
+
+
+class _Record:
+    """Profiles along the line: nodes at step ends, values at step midpoints."""
+
+    __slots__ = ("node_x", "node_t", "node_p", "rows")
+
+    def __init__(self):
+        self.node_x, self.node_t, self.node_p = [], [], []
+        self.rows = {k: [] for k in RECORDED}
+
+    def add(self, s: _Segment, local: _Local, dx: float, x: float, t: float, p: float, gradient: float,
+            sheath: float) -> None:
+        wall, re = local.wall, local.re
+        self.node_x.append(x)
+        self.node_t.append(t)
+        self.node_p.append(p)
+        values = (x - 0.5 * dx, s.seg.index, local.mu, re,
+                  0 if re <= RE_LAMINAR_MAX else (1 if re < RE_TURBULENT_MIN else 2), local.velocity,
+                  wall.t_wall, local.t_jacket if s.has_layers or s.buried else wall.t_wall, sheath, local.q_out,
+                  wall.q_trace, wall.heater_state if s.heater.active else 0, local.h_in, local.ratio, gradient)
+        for key, value in zip(RECORDED, values):
+            self.rows[key].append(value)
+
+    def nodes(self, t_in: float, p_in: float) -> dict:
+        return {"x": np.array([0.0] + self.node_x), "temperature": np.array([t_in] + self.node_t),
+                "pressure": np.array([p_in] + self.node_p)}
+
+    def steps(self) -> dict:
+        return {k: np.array(v) for k, v in self.rows.items()}
+
+
+def _step(heater: Heater, t: float, local: _Local, dx: float, t_amb: float, g: float, viscous: float) -> float:
+    """Advance the bulk temperature over dx with the step's conductances frozen (``g`` [W/(m K)] and
+    ``viscous`` [W/m]: the step's G and S, those of ``local`` or predicted from them).
 
     With g_in, g_out and the viscous source frozen, the product balance is piecewise linear in the
-    bulk temperature: heater at full output below T_low, thermostat holding the wall at the setpoint
-    between T_low and T_off, heater off above T_off (T_off: the bulk temperature whose passive wall is
-    at the setpoint; T_low: where holding would need more than the heater's capacity).  Each linear
-    piece is integrated exactly; where the path reaches a break it continues in the next piece, so a
-    step longer than the thermal length settles where the thermostat holds instead of overshooting.
+    bulk temperature: heater at full output below T_low, thermostat holding between T_low and T_off,
+    heater off above T_off (``Heater.switch_points``).  Each linear piece is integrated exactly;
+    where the path reaches a break it continues in the next piece, so a step longer than the thermal
+    length settles where the thermostat holds instead of overshooting.
     """
-    t_equilibrium, g, viscous, mcp, wall, _, g_in, g_out = coefficients
-    t_end = _advance(t, t_equilibrium, g, viscous, mcp, dx)
-    if not heater.active or heater.setpoint is None:
+    mcp, g_in, g_out = local.mcp, local.g_in, local.g_out
+    t_end = _advance(t, local.t_equilibrium, g, viscous, mcp, dx)
+    bounds = heater.switch_points(g_in, g_out, t_amb)
+    if bounds is None:
         return t_end
-    setpoint = heater.setpoint
-    t_off = (setpoint * (g_in + g_out) - g_out * t_amb) / g_in
-    t_low = setpoint - (heater._capacity_at_setpoint - g_out * (setpoint - t_amb)) / g_in
-    if t_low > t_off:
-        t_low = t_off
-    # the usual case: start and end lie in the regime the coefficients were taken in
-    regime = wall.regime
-    if regime == 2:
+    t_low, t_off = bounds
+    # the usual case: start and end lie in the heater state the coefficients were taken in
+    state = local.wall.heater_state
+    if state == 2:
         if t <= t_low + 1e-9 and t_end <= t_low + 1e-9:
             return t_end
-    elif regime == 0:
+    elif state == 0:
         if t >= t_off - 1e-9 and t_end >= t_off - 1e-9:
             return t_end
     elif t_low - 1e-9 <= t <= t_off + 1e-9 and t_low - 1e-9 <= t_end <= t_off + 1e-9:
         return t_end
-    bounds = (t_low, t_off)
     remaining = dx
     for _ in range(4):
-        wall = heater.balance(t, g_in, g_out, t_amb)
+        wall = heater.balance(t, g_in, g_out, t_amb, viscous)
         c1 = wall.c1
         g = g_in * (1.0 - c1)
         t_equilibrium = (wall.t_wall - c1 * t) / (1.0 - c1)
         t_end = _advance(t, t_equilibrium, g, viscous, mcp, remaining)
-        if bounds is None or g <= 1e-12:
+        if g <= 1e-12:
             return t_end
-        low, high = bounds
-        if t < low - 1e-9:
-            edge = low if t_end > low else None
-        elif t > high + 1e-9:
-            edge = high if t_end < high else None
+        if t < t_low - 1e-9:
+            edge = t_low if t_end > t_low else None
+        elif t > t_off + 1e-9:
+            edge = t_off if t_end < t_off else None
         else:
             edge = None  # holding: the target (setpoint plus viscous heating) lies within reach
-            if t_end > high + 1e-9:
-                edge = high
-            elif t_end < low - 1e-9:
-                edge = low
+            if t_end > t_off + 1e-9:
+                edge = t_off
+            elif t_end < t_low - 1e-9:
+                edge = t_low
         if edge is None:
             return t_end
         target = t_equilibrium + viscous / g

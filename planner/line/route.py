@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from functools import cached_property
 
 from planner.correlations.fittings import fitting_coefficients
 from planner.correlations.materials import INSULATION_MATERIALS, ROUGHNESS, WALL_CONDUCTIVITY
@@ -31,7 +32,7 @@ class Layer:
             return self.conductivity
         return INSULATION_MATERIALS[self.material].conductivity_at(mean_temperature)
 
-    @property
+    @cached_property
     def log_ratio(self) -> float:
         return math.log(self.outer_radius / self.inner_radius)
 
@@ -163,7 +164,3 @@ def build_line(route: Route, site: Site, heat_loss_factor: float = 1.0) -> list[
         segments.append(build_segment(seg, index, x, site, route.fitting_method, heat_loss_factor))
         x += seg.length
     return segments
-
-
-def line_length(segments: list[LineSegment]) -> float:
-    return sum(s.length for s in segments)

@@ -11,6 +11,14 @@ the balance solves in closed form.  A thermostat (the setpoint, sensing the pipe
 heater; over a cycle it delivers just what holds the wall at the setpoint, never more than the
 heater's capacity.  When the loss exceeds the capacity the heater stays on and the line cools.
 
+Where the thermostat senses (``Tracing.sensing``):
+- ``pipe_wall`` (default, the usual line-sensing thermostat [trade]): it holds the wall at the
+  setpoint;
+- ``product``: it holds the product at the setpoint: full output below it, off above it, and at it
+  just what keeps the product there (the heat loss less the viscous heating already in the product);
+- ``ambient``: an ambient-sensing controller runs the heater at full output whenever the segment's
+  ambient is below ``switch_temperature`` and switches it off otherwise; there is no pipe setpoint.
+
 Models:
 - constant wattage: P = rated output, independent of temperature;
 - self-regulating: output falling linearly from its rating at 10 degC to zero at the
@@ -32,21 +40,24 @@ from planner.correlations.steam import saturation_temperature_gauge
 STEAM_CONDUCTANCE_BARE = 0.6
 STEAM_CONDUCTANCE_CEMENT = 6.0
 SELF_REGULATING_RATING_TEMPERATURE = 283.15  # output is rated at 10 degC pipe temperature
+PRODUCT_HOLD_BAND_K = 1e-6   # product sensing: within this of the setpoint the thermostat holds
 
 
 class WallBalance(NamedTuple):
     t_wall: float
     q_trace: float     # W per metre of pipe into the wall
-    c1: float          # d t_wall / d t_bulk for the regime in force (for the exponential step)
-    regime: int        # 0 untraced/off, 1 holding the setpoint, 2 at full capacity
+    c1: float          # d t_wall / d t_bulk for the heater state in force (for the exponential step)
+    heater_state: int  # 0 untraced/off, 1 holding the setpoint, 2 at full capacity
 
 
 class Heater:
     """A line's heating as a piecewise-linear output law plus an optional thermostat."""
 
-    def __init__(self, tracing: Tracing, traced_fraction: float = 1.0):
+    def __init__(self, tracing: Tracing, traced_fraction: float = 1.0, ambient_temperature: float | None = None):
+        """``ambient_temperature`` [K]: the segment's, for an ambient-sensing controller."""
         self.kind = tracing.kind
-        self.setpoint = tracing.setpoint
+        self.sensing = tracing.sensing
+        self.setpoint = tracing.setpoint if self.sensing != "ambient" else None
         self.runs = tracing.circuits_per_metre
         self.fraction = traced_fraction
         self.sheath_conductance = tracing.heater_to_pipe_conductance
@@ -73,6 +84,9 @@ class Heater:
         else:
             self.pieces = [(-1e9, 1e9, 0.0, 0.0)]
         self.active = self.kind != "none" and traced_fraction > 0.0
+        if self.sensing == "ambient" and ambient_temperature is not None and \
+                ambient_temperature >= tracing.switch_temperature:
+            self.active = False   # warm weather: the ambient-sensing controller keeps the heater off
         self._capacity_at_setpoint = self.capacity(self.setpoint) if self.setpoint is not None else 0.0
 
     def capacity(self, t_wall: float) -> float:
@@ -82,17 +96,33 @@ class Heater:
                 return max(0.0, alpha - beta * t_wall)
         return 0.0
 
-    def balance(self, t_bulk: float, g_inner: float, g_outer: float, t_ambient: float) -> WallBalance:
+    def balance(self, t_bulk: float, g_inner: float, g_outer: float, t_ambient: float,
+                viscous: float = 0.0) -> WallBalance:
+        """Wall temperature and heater output at bulk temperature ``t_bulk`` [K], conductances per
+        metre [W/(m K)] inward and outward, ``viscous`` heating in the product [W/m] (product sensing)."""
         g_sum = g_inner + g_outer
         passive_wall = (g_inner * t_bulk + g_outer * t_ambient) / g_sum
         if not self.active:
             return WallBalance(passive_wall, 0.0, g_inner / g_sum, 0)
-        if self.setpoint is not None:
-            if passive_wall >= self.setpoint:
-                return WallBalance(passive_wall, 0.0, g_inner / g_sum, 0)
-            need = g_inner * (self.setpoint - t_bulk) + g_outer * (self.setpoint - t_ambient)
-            if need <= self._capacity_at_setpoint:
-                return WallBalance(self.setpoint, need, 0.0, 1)
+        setpoint = self.setpoint
+        if setpoint is not None:
+            if self.sensing == "product":
+                if t_bulk > setpoint + PRODUCT_HOLD_BAND_K:
+                    return WallBalance(passive_wall, 0.0, g_inner / g_sum, 0)
+                if t_bulk >= setpoint - PRODUCT_HOLD_BAND_K:
+                    # holding the product: the wall where the film takes out what viscous heating puts in
+                    t_wall = setpoint - viscous / g_inner
+                    need = g_inner * (t_wall - t_bulk) + g_outer * (t_wall - t_ambient)
+                    if need <= 0.0:
+                        return WallBalance(passive_wall, 0.0, g_inner / g_sum, 0)
+                    if need <= self.capacity(t_wall):
+                        return WallBalance(t_wall, need, 0.0, 1)
+            else:
+                if passive_wall >= setpoint:
+                    return WallBalance(passive_wall, 0.0, g_inner / g_sum, 0)
+                need = g_inner * (setpoint - t_bulk) + g_outer * (setpoint - t_ambient)
+                if need <= self._capacity_at_setpoint:
+                    return WallBalance(setpoint, need, 0.0, 1)
         # Full output: solve alpha - beta T = g_inner (T - t_bulk) + g_outer (T - t_ambient) per piece.
         rhs_const = g_inner * t_bulk + g_outer * t_ambient
         for t_low, t_high, alpha, beta in self.pieces:
@@ -103,6 +133,19 @@ class Heater:
                     break
                 return WallBalance(t, q, g_inner / (g_sum + beta), 2)
         return WallBalance(passive_wall, 0.0, g_inner / g_sum, 0)
+
+    def switch_points(self, g_inner: float, g_outer: float, t_ambient: float) -> tuple[float, float] | None:
+        """Bulk temperatures [K] where the thermostat changes state with these conductances:
+        (t_low, t_off): full output below t_low, holding between, off above t_off.  None without
+        a thermostat."""
+        setpoint = self.setpoint
+        if not self.active or setpoint is None:
+            return None
+        if self.sensing == "product":
+            return setpoint, setpoint
+        t_off = (setpoint * (g_inner + g_outer) - g_outer * t_ambient) / g_inner
+        t_low = setpoint - (self._capacity_at_setpoint - g_outer * (setpoint - t_ambient)) / g_inner
+        return min(t_low, t_off), t_off
 
     def sheath_temperature(self, t_wall: float, q_trace: float) -> float:
         """Heater sheath (electric) or tracer (steam) temperature [K]."""

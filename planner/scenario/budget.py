@@ -32,7 +32,9 @@ from dataclasses import dataclass, replace
 
 from planner.errors import ScenarioError
 
-DEFAULT_STEP_M = 25.0                 # the march's default step [m] (planner.line.march.DEFAULT_STEP_M)
+DEFAULT_STEP_M = 25.0                 # step the work is counted at [m]: a quarter of the march's longest default
+                                      # step (planner.line.march.DEFAULT_STEP_M = 100 m), which refines where
+                                      # the product changes fast, so smooth lines cost fewer steps than counted
 PASS_OVERHEAD_STEPS = 30              # fixed cost of one pass, in march steps (measured on the demos)
 PLAN_PASSES_FIXED = 170               # passes of a plan outside the timeline (start, start-ups, hold)
 PLAN_PASSES_PER_TIMELINE_STEP = 3.5   # passes per timeline step (operating-point solve per increment)

@@ -282,11 +282,17 @@ class Tracing(_Model):
     steam_pressure: Quantity("pressure", ge=0.0, le=4.0e6, description="steam supply pressure (gauge)") = 3.5e5
     heat_transfer_cement: bool = False
     tracer_conductance: Optional[LinearConductance] = Field(None, description="steam tracer-to-pipe conductance per tracer; default from cement choice")
+    sensing: Literal["pipe_wall", "product", "ambient"] = Field(
+        "pipe_wall", description="where the thermostat senses: the pipe wall (holds the wall at the setpoint), the "
+        "product (holds the product at the setpoint) or the ambient (full output below switch_temperature, else off)")
+    switch_temperature: Optional[Temperature] = Field(None, description="ambient sensing: the heater runs below this ambient temperature")
 
     @model_validator(mode="after")
     def _complete(self):
+        if self.sensing == "ambient" and self.switch_temperature is None:
+            raise ValueError("ambient sensing needs switch_temperature (the heater runs below it)")
         if self.kind in ("electric_constant", "electric_self_regulating"):
-            if self.setpoint is None:
+            if self.setpoint is None and self.sensing != "ambient":
                 raise ValueError(f"{self.kind} tracing needs a setpoint")
             if self.kind == "electric_constant" and self.output <= 0:
                 raise ValueError("electric_constant tracing needs its output (W/m) above 0")
@@ -324,6 +330,7 @@ class CurvePoint(_Model):
     flow: Quantity("volume_flow", ge=0.0, le=2.0, description="flow on water")
     head: Head
     efficiency: float = Field(ge=0.0, le=1.0, description="pump efficiency on water [-]")
+    npsh_required: Optional[Quantity("length", ge=0.0, le=100.0, description="NPSH required at this flow")] = None
 
 
 class PumpSpec(_Model):
@@ -357,6 +364,10 @@ class PumpSpec(_Model):
             raise ValueError("a centrifugal pump needs a water curve of at least 3 points, the first at zero flow")
         if self.control == "fixed_flow" and self.flow_setpoint is None:
             raise ValueError("control 'fixed_flow' needs flow_setpoint")
+        given = [p.npsh_required is not None for p in self.curve]
+        if any(given) and not all(given):
+            raise ValueError("curve: give npsh_required at every curve point or at none (then the pump's "
+                             "single npsh_required applies)")
         if self.max_speed is not None and self.max_speed < self.speed:
             raise ValueError("max_speed is below speed")
         return self

@@ -14,8 +14,9 @@ from functools import lru_cache
 
 import pint
 
+from planner.correlations.constants import GRAVITY  # noqa: F401  (re-exported: one definition)
+
 ZERO_CELSIUS_K = 273.15
-GRAVITY = 9.80665  # m/s2, standard gravity (ISO 80000-3)
 ATMOSPHERE_PA = 101325.0
 
 

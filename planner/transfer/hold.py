@@ -11,6 +11,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
+from planner.correlations.constants import GRAVITY
 from planner.correlations.rheology import gelled_restart_pressure
 from planner.transfer.system import TransferSystem
 from planner.line.transients import evolve
@@ -105,7 +106,7 @@ def hold_analysis(system: TransferSystem, running_temperatures: dict[tuple[str, 
     else:
         rho = product.density(system.source.temperature)
         nu = product.kinematic_viscosity(system.source.temperature)
-        pump_limit = system.pump.shut_off_head(nu) * rho * 9.80665
+        pump_limit = system.pump.shut_off_head(nu) * rho * GRAVITY
     return Hold(limit, reason, stop, t_on, t_off, who_on, who_off,
                 all(s.after_stop_traced_k > limit for s in segments),
                 all(s.after_stop_failed_k > limit for s in segments),

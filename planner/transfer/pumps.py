@@ -33,7 +33,7 @@ from bisect import bisect_right
 from dataclasses import dataclass, field
 from typing import Sequence
 
-from planner.scenario.units import GRAVITY
+from planner.correlations.constants import GRAVITY
 
 __all__ = [
     "HI_B_MAX",

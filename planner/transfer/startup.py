@@ -139,6 +139,17 @@ class PushCold:
     rows: dict = field(default_factory=dict)   # front position steps: volume_fraction, flow, pressure, time
 
 
+def _front_position(segments: list[LineSegment], displaced_volume: float) -> float:
+    """Plug flow: the distance [m] where the displaced volume [m3] ends."""
+    acc = 0.0
+    for seg in segments:
+        v = seg.area * seg.length
+        if acc + v >= displaced_volume:
+            return seg.x_start + (displaced_volume - acc) / seg.area
+        acc += v
+    return segments[-1].x_end
+
+
 def push_cold(system: TransferSystem, start_temperature: float, positions: int = 8) -> PushCold:
     product = system.product
     state0 = SystemState(start_temperature, system.source.initial_volume)
@@ -162,35 +173,24 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
     relief = first.status == "relief_lifting"
     rows_append = [(0.0, first.flow, first.point.discharge_pressure, first.point.pump_differential, 0.0, first.status)]
     guess = first.flow
-    original = system.discharge_line
-    try:
-        for k in range(1, positions):
-            fraction = k / positions
-            # plug flow: the front position where the displaced volume equals fraction * volume
-            target_volume, x, acc = fraction * volume, 0.0, 0.0
-            for seg in segments:
-                v = seg.area * seg.length
-                if acc + v >= target_volume:
-                    x = seg.x_start + (target_volume - acc) / seg.area
-                    break
-                acc += v
-            head, tail = split_segments(segments, x)
-            system.plug = (Line(head, product, system.tracing), Line(tail, product, system.tracing), start_temperature)
-            op = system.operating_point(warm_state, guess=guess)
-            if not op.moving:
-                return PushCold(False, Sentence("with the front at {x}: {m}", x=Q(x, "length"), m=op.message),
-                                start_temperature, first.flow,
-                                first.status, peak_p, peak_dp, first.point.npsh_available, None, relief, {})
-            previous_fraction, previous_flow = rows_append[-1][0], rows_append[-1][1]
-            time += (fraction - previous_fraction) * volume / previous_flow
-            rows_append.append((fraction, op.flow, op.point.discharge_pressure, op.point.pump_differential, time, op.status))
-            peak_p = max(peak_p, op.point.discharge_pressure)
-            peak_dp = max(peak_dp, op.point.pump_differential)
-            relief = relief or op.status == "relief_lifting"
-            guess = op.flow
-    finally:
-        system.plug = None
-        system.discharge_line = original
+    for k in range(1, positions):
+        fraction = k / positions
+        x = _front_position(segments, fraction * volume)
+        head, tail = split_segments(segments, x)
+        plugged = system.with_plug(Line(head, product, system.tracing), Line(tail, product, system.tracing),
+                                   start_temperature)
+        op = plugged.operating_point(warm_state, guess=guess)
+        if not op.moving:
+            return PushCold(False, Sentence("with the front at {x}: {m}", x=Q(x, "length"), m=op.message),
+                            start_temperature, first.flow,
+                            first.status, peak_p, peak_dp, first.point.npsh_available, None, relief, {})
+        previous_fraction, previous_flow = rows_append[-1][0], rows_append[-1][1]
+        time += (fraction - previous_fraction) * volume / previous_flow
+        rows_append.append((fraction, op.flow, op.point.discharge_pressure, op.point.pump_differential, time, op.status))
+        peak_p = max(peak_p, op.point.discharge_pressure)
+        peak_dp = max(peak_dp, op.point.pump_differential)
+        relief = relief or op.status == "relief_lifting"
+        guess = op.flow
     time += (1.0 - rows_append[-1][0]) * volume / rows_append[-1][1]
     for row in rows_append:
         for key, value in zip(rows, row):

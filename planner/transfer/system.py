@@ -18,8 +18,8 @@ added to any of them.
 
 from __future__ import annotations
 
+import copy
 import dataclasses
-import math
 from dataclasses import dataclass, field
 
 from scipy.optimize import brentq
@@ -31,7 +31,7 @@ from planner.line.route import build_line
 from planner.scenario.schema import Scenario, calibration_of
 from planner.scenario.units import ATMOSPHERE_PA, GRAVITY
 from planner.scenario.wording import Q, Sentence
-from planner.transfer.vessels import level_from_volume
+from planner.transfer.vessels import destination_level, level_from_volume
 
 HUGE_PRESSURE = 1.0e12  # stands in for "this rate cannot be pushed" (product sets) inside root finding
 
@@ -105,7 +105,8 @@ def build_pump(spec, slip_factor: float = 1.0):
     return CentrifugalPump(
         flows_m3_s=[p.flow for p in spec.curve], heads_m=[p.head for p in spec.curve],
         efficiencies=[p.efficiency for p in spec.curve], speed_rev_s=spec.speed,
-        npsh_required_m=spec.npsh_required, stages=spec.stages)
+        npsh_required_m=(spec.npsh_required if not spec.curve or spec.curve[0].npsh_required is None
+                         else [p.npsh_required for p in spec.curve]), stages=spec.stages)
 
 
 class TransferSystem:
@@ -130,9 +131,17 @@ class TransferSystem:
         self.step = step
         self.evaluations = 0
         self._slopes: dict[str, float] = {}
-        self.plug = None  # (warm head Line, cold tail Line, cold temperature) while a cold plug is pushed out
+        self.plug = None  # (warm head Line, cold tail Line, cold temperature): set only on a with_plug copy
         self._last_relief_flow: float | None = None
         self._root_estimate: float | None = None
+
+    def with_plug(self, head: Line, tail: Line, cold_temperature: float) -> "TransferSystem":
+        """A copy of this system whose discharge line holds a cold plug: a warm head (product from the
+        pump) then a cold tail at ``cold_temperature`` [K].  This system is left unchanged."""
+        plugged = copy.copy(self)
+        plugged.plug = (head, tail, cold_temperature)
+        plugged._slopes = dict(self._slopes)
+        return plugged
 
     def _warm_solve(self, kind: str, function, high: float, guess: float | None, ftol: float = 0.0) -> float | None:
         if self.plug is not None:
@@ -175,13 +184,12 @@ class TransferSystem:
         dest = self.destination
         p = dest.pressure
         if dest.inlet == "bottom":
-            level = dest.initial_level + state.destination_volume_added / (math.pi * dest.diameter ** 2 / 4.0)
+            level = destination_level(dest, state.destination_volume_added)
             p += self.product.density(temperature) * GRAVITY * level
         return p
 
     # -- the system at one flow -----------------------------------------------------------------
-    def at_flow(self, flow: float, state: SystemState, record: bool = False, discharge_line: Line | None = None,
-                discharge_inlet_temperature: float | None = None) -> SystemPoint:
+    def at_flow(self, flow: float, state: SystemState, record: bool = False) -> SystemPoint:
         self.evaluations += 1
         product = self.product
         t_source = state.source_temperature
@@ -205,12 +213,10 @@ class TransferSystem:
         rho_pump = product.density(t_pump)
         npsh_a = ((p_suction + ATMOSPHERE_PA - product.vapour_pressure(t_pump)) / (rho_pump * GRAVITY)
                   + velocity * velocity / (2.0 * GRAVITY))
-        line = discharge_line or self.discharge_line
-        t_discharge_in = t_pump if discharge_inlet_temperature is None else discharge_inlet_temperature
-        if self.plug is not None and discharge_line is None:
+        if self.plug is not None:
             discharge = self._plug_march(mass_flow, t_pump)
         else:
-            discharge = march(line, mass_flow / product.density(t_discharge_in), t_discharge_in, 0.0,
+            discharge = march(self.discharge_line, mass_flow / product.density(t_pump), t_pump, 0.0,
                               step=self.step, record=record)
         ds = discharge.summary
         if ds.status != "ok" and not sets:
@@ -427,15 +433,24 @@ class TransferSystem:
         point = cache.get(round(q_low, 12))
         return OperatingPoint("no_flow", 0.0, Sentence("no flow possible: {m}", m=message), point)
 
+    def npsh_required(self, flow: float) -> float:
+        """NPSH the pump needs at ``flow`` [m3/s] [m]: from the centrifugal pump's NPSHr curve when the
+        curve gives one, else the single figure of the pump data."""
+        if isinstance(self.pump, CentrifugalPump):
+            from_curve = self.pump.npsh_required(flow)
+            if from_curve is not None:
+                return from_curve
+        return self.pump_spec.npsh_required
+
     def _suction_checks(self, op: OperatingPoint, state: SystemState) -> None:
-        npsh_r = self.pump_spec.npsh_required
+        npsh_r = self.npsh_required(op.flow)
         op.npsh_required = npsh_r
         if op.point.npsh_available >= npsh_r:
             return
         op.flags.append("suction_starved")
 
         def margin(q):
-            return self._suction_npsh(q, state) - npsh_r
+            return self._suction_npsh(q, state) - self.npsh_required(q)
 
         q_low = op.flow * 1e-3
         if margin(q_low) < 0.0:
@@ -487,7 +502,7 @@ def _bracket_down(function, high: float, guess: float | None):
     return None
 
 
-def _root(function, low: float, high: float, guess: float | None = None) -> float:
+def _root(function, low: float, high: float) -> float:
     """Root of a function changing sign on [low, high] (Brent's method; values are cached by the caller)."""
     if low == high:
         return low

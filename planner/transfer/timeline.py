@@ -13,7 +13,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from planner.transfer.system import SystemState, TransferSystem
-from planner.transfer.vessels import cool_contents, level_from_volume, wetted_area
+from planner.transfer.vessels import cool_contents, destination_level, level_from_volume, wetted_area
 
 
 @dataclass
@@ -82,8 +82,7 @@ def run_transfer(system: TransferSystem, steps: int | None = None, first_guess: 
         rows["npsh_available_m"].append(point.npsh_available)
         rows["trace_power_w"].append(trace_power)
         rows["source_level_m"].append(level_from_volume(source, state.source_volume))
-        rows["destination_level_m"].append(system.destination.initial_level + state.destination_volume_added / (
-            np.pi * system.destination.diameter ** 2 / 4.0))
+        rows["destination_level_m"].append(destination_level(system.destination, state.destination_volume_added))
         rows["max_line_pressure_pa"].append(point.discharge_pressure)
         statuses.append(op.status)
         trace_j += trace_power * dt

@@ -9,14 +9,16 @@ accuracy); only the way it is computed differs:
         dp/dx     = -(dp/dx_friction + dp/dx_fittings + rho g dz/dx)                           [Pa/m]
 
     friction   Darcy f: 64/Re (Re <= 2300), Colebrook by ``fluids.friction.friction_factor``
-               (Re >= 4000), linear in Re in between (same blend as ``planner.friction``)
-               [Hagen-Poiseuille; Colebrook 1939 via fluids 1.3.1]
+               (Re >= 4000), ``fluids.friction.Churchill_1977`` in between (the bands of
+               ``planner.friction``) [Hagen-Poiseuille; Colebrook 1939; Churchill 1977 via fluids 1.3.1]
     fittings   K of every fitting at the local Re, ``fluids.fittings.Hooper2K`` (Di in inches) or
                ``fluids.fittings.Darby3K`` (NPS), constants from ``planner.fittings``; the segment's
                total K V^2/2 rho spread evenly over its length [Hooper 1981; Darby 1999 via fluids 1.3.1]
-    film       ``ht.conv_internal.laminar_entry_Seider_Tate`` with the 3.66 floor (laminar),
-               ``ht.conv_internal.turbulent_Gnielinski`` x (mu/mu_w)^0.11 (turbulent), linear blend
-               between Re 2300 and 4000 [Sieder & Tate 1936; Gnielinski 1976 via ht 1.2.0]
+    film       laminar: the local Nusselt number d(x Nu_m)/dx of the thermal-entrance mean of the VDI
+               Heat Atlas (G1), differentiated by hand here (ht has no such function), with the
+               entrance restarting at every change of diameter, x (mu/mu_w)^0.14; turbulent:
+               ``ht.conv_internal.turbulent_Gnielinski`` x (mu/mu_w)^0.11; linear blend between
+               Re 2300 and 4000; mu/mu_w bounded to 0.0044..9.75 [Gnielinski 1976 via ht 1.2.0]
     jacket     ``ht.conv_free_immersed.Nu_horizontal_cylinder_Churchill_Chu`` and
                ``ht.conv_external.Nu_cylinder_Churchill_Bernstein`` combined as (Nf^3 + Nn^3)^(1/3),
                air properties from ``planner.air`` at the film temperature, linearised radiation
@@ -40,7 +42,8 @@ from fluids.fittings import Darby3K, Hooper2K
 from fluids.friction import friction_factor
 from ht.conv_external import Nu_cylinder_Churchill_Bernstein
 from ht.conv_free_immersed import Nu_horizontal_cylinder_Churchill_Chu
-from ht.conv_internal import laminar_entry_Seider_Tate, turbulent_Gnielinski
+from fluids.friction import Churchill_1977
+from ht.conv_internal import turbulent_Gnielinski
 from scipy.integrate import solve_ivp
 from scipy.optimize import brentq
 
@@ -54,6 +57,7 @@ STEFAN_BOLTZMANN = 5.670374419e-8  # [W/(m2 K4)] (CODATA 2018)
 RE_LAMINAR_MAX = 2300.0      # [trade], as planner.friction
 RE_TURBULENT_MIN = 4000.0    # [trade], as planner.friction
 NU_LAMINAR_DEVELOPED = 3.66  # Graetz limit, constant wall temperature
+RATIO_MIN, RATIO_MAX = 0.0044, 9.75   # Sieder & Tate's range of mu/mu_w [mem]
 
 # Integrator tolerances: solve_ivp's default rtol, absolute floors in the units of the state.
 # Measured on the three demo scenarios: RK45 is already near its floor there (3-4 accepted steps,
@@ -71,16 +75,13 @@ FITTING_METHODS = ("hooper", "darby")
 
 
 def darcy_friction_baseline(re: float, relative_roughness: float) -> float:
-    """Darcy f over all regimes: 64/Re (Re <= 2300), Colebrook via fluids (Re >= 4000), linear in Re
-    between 64/2300 and f(4000) [trade blend]."""
+    """Darcy f over all regimes: 64/Re (Re <= 2300), Colebrook via fluids (Re >= 4000), Churchill
+    (1977) via fluids in between."""
     if re <= RE_LAMINAR_MAX:
         return 64.0 / re
     if re >= RE_TURBULENT_MIN:
         return friction_factor(Re=re, eD=relative_roughness)
-    f_turb = friction_factor(Re=RE_TURBULENT_MIN, eD=relative_roughness)
-    f_lam = 64.0 / RE_LAMINAR_MAX
-    w = (re - RE_LAMINAR_MAX) / (RE_TURBULENT_MIN - RE_LAMINAR_MAX)
-    return f_lam + w * (f_turb - f_lam)
+    return Churchill_1977(Re=re, eD=relative_roughness)
 
 
 def fittings_k_baseline(fittings: list[tuple[str, float]], method: str, re: float,
@@ -101,22 +102,29 @@ def fittings_k_baseline(fittings: list[tuple[str, float]], method: str, re: floa
     return total
 
 
-def nusselt_internal_baseline(re: float, pr: float, x: float, d: float, darcy_f: float,
+def laminar_local_nu_baseline(x_star: float) -> float:
+    """Local laminar Nu at x* = x/(D Re Pr): d(x* Nu_m)/dx* of Nu_m = [3.66^3 + 0.7^3 +
+    (1.615 x*^(-1/3) - 0.7)^3]^(1/3) (VDI Heat Atlas G1), by hand:
+    F = x* Nu_m = (A x*^3 + E^3)^(1/3), E = 1.615 x*^(2/3) - 0.7 x*, dF/dx* = (A x*^2 + E^2 E') / F^2."""
+    x_star = max(x_star, 1e-12)
+    a = NU_LAMINAR_DEVELOPED ** 3 + 0.7 ** 3
+    e = 1.615 * x_star ** (2.0 / 3.0) - 0.7 * x_star
+    de = 1.615 * (2.0 / 3.0) * x_star ** (-1.0 / 3.0) - 0.7
+    f = (a * x_star ** 3 + e ** 3) ** (1.0 / 3.0)
+    return (a * x_star ** 2 + e * e * de) / (f * f)
+
+
+def nusselt_internal_baseline(re: float, pr: float, x_entry: float, d: float, darcy_f: float,
                               viscosity_ratio: float) -> float:
-    """Inside Nu: Sieder-Tate over heated length max(x, D) with the 3.66 floor, Gnielinski with
-    (mu/mu_w)^0.11, linear blend 2300..4000 (the turbulent end with the f passed in)."""
-    length = max(x, d)
-
-    def laminar(re_l: float) -> float:
-        nu = laminar_entry_Seider_Tate(Re=re_l, Pr=pr, L=length, Di=d, mu=viscosity_ratio, mu_w=1.0)
-        return max(nu, NU_LAMINAR_DEVELOPED)
-
+    """Inside Nu at distance x_entry from the thermal entrance: local laminar Nu x (mu/mu_w)^0.14,
+    Gnielinski x (mu/mu_w)^0.11, linear blend 2300..4000 (the turbulent end with the f passed in)."""
+    ratio = min(max(viscosity_ratio, RATIO_MIN), RATIO_MAX)
+    nu_lam = laminar_local_nu_baseline(x_entry / (d * re * pr)) * ratio ** 0.14
     if re <= RE_LAMINAR_MAX:
-        return laminar(re)
-    corr = viscosity_ratio ** 0.11
+        return nu_lam
+    corr = ratio ** 0.11
     if re >= RE_TURBULENT_MIN:
         return turbulent_Gnielinski(Re=re, Pr=pr, fd=darcy_f) * corr
-    nu_lam = laminar(RE_LAMINAR_MAX)
     nu_turb = turbulent_Gnielinski(Re=RE_TURBULENT_MIN, Pr=pr, fd=darcy_f) * corr
     w = (re - RE_LAMINAR_MAX) / (RE_TURBULENT_MIN - RE_LAMINAR_MAX)
     return nu_lam + w * (nu_turb - nu_lam)
@@ -157,7 +165,8 @@ def _infer_fitting_method(seg) -> str:
 class _SegmentRHS:
     """dT/dx, dp/dx of one segment, everything recomputed at every call."""
 
-    def __init__(self, seg, heater, product, mass_flow: float, method: str):
+    def __init__(self, seg, heater, product, mass_flow: float, method: str, entry_x: float):
+        self.entry_x = entry_x   # where the thermal entrance began (route inlet or a diameter change)
         self.seg = seg
         self.heater = heater
         self.product = product
@@ -179,7 +188,7 @@ class _SegmentRHS:
                                          seg.wind_speed, seg.emissivity)
         return 1.0 / (PI * seg.jacket_diameter * h)
 
-    def _wall_state(self, t_jacket: float, t_bulk: float, film):
+    def _wall_state(self, t_jacket: float, t_bulk: float, film, viscous: float = 0.0):
         """Wall balance at a jacket temperature: (jacket implied by the balance, wall, g_in, q_out)."""
         seg = self.seg
         t_amb = seg.ambient_temperature
@@ -189,7 +198,7 @@ class _SegmentRHS:
             g_in = film(t_wall)
             r_ins = self._insulation_resistance(t_wall, t_jacket)
             g_out = 1.0 / (r_ins + r_surf)
-            wall = self.heater.balance(t_bulk, g_in, g_out, t_amb)
+            wall = self.heater.balance(t_bulk, g_in, g_out, t_amb, viscous)
             done = abs(wall.t_wall - t_wall) < WALL_TOL
             t_wall = wall.t_wall
             if done:
@@ -197,11 +206,11 @@ class _SegmentRHS:
         q_out = g_out * (t_wall - t_amb)
         return t_wall - q_out * r_ins, t_wall, g_in, q_out
 
-    def _solve_jacket(self, t_bulk: float, film):
+    def _solve_jacket(self, t_bulk: float, film, viscous: float = 0.0):
         t_amb = self.seg.ambient_temperature
 
         def residual(tj: float) -> float:
-            return tj - self._wall_state(tj, t_bulk, film)[0]
+            return tj - self._wall_state(tj, t_bulk, film, viscous)[0]
 
         lo = min(t_amb, t_bulk) - 1.0
         hi = max(t_amb, t_bulk) + 1.0
@@ -216,7 +225,7 @@ class _SegmentRHS:
                 lo = max(1.0, lo - 25.0)
                 f_lo = residual(lo)
         tj = brentq(residual, lo, hi, xtol=JACKET_XTOL)
-        return tj, self._wall_state(tj, t_bulk, film)
+        return tj, self._wall_state(tj, t_bulk, film, viscous)
 
     # -- right-hand side ------------------------------------------------------------------------
     def __call__(self, x: float, y) -> list[float]:
@@ -247,12 +256,16 @@ class _SegmentRHS:
         pr = cp * mu / k_liquid
 
         def film(t_wall: float) -> float:
-            ratio = mu / product.viscosity(t_wall) if product.newtonian else 1.0
-            nu = nusselt_internal_baseline(re, pr, x, d, f, ratio)
+            try:
+                mu_wall = product.viscosity(t_wall)
+            except (ValueError, OverflowError):
+                mu_wall = math.inf
+            ratio = mu / mu_wall if product.newtonian else 1.0
+            nu = nusselt_internal_baseline(re, pr, x - self.entry_x, d, f, ratio)
             h_in = nu * k_liquid / d
             return 1.0 / (1.0 / (h_in * PI * d) + seg.wall_resistance)
 
-        _, (_, t_wall, g_in, _) = self._solve_jacket(t, film)
+        _, (_, t_wall, g_in, _) = self._solve_jacket(t, film, viscous)
         dtdx = (g_in * (t_wall - t) + viscous) / (self.mass_flow * cp)
         dpdx = -(grad_friction + grad_fittings + grad_static)
         return [dtdx, dpdx]
@@ -285,9 +298,12 @@ def baseline_march(line, flow: float, inlet_temperature: float, inlet_pressure: 
     status, sets_at = "ok", None
     evaluations = accepted = 0
     x = 0.0
+    entry_x, entry_d = 0.0, None
     for seg, heater in zip(line.segments, line.heaters):
+        if entry_d is None or abs(seg.inside_diameter - entry_d) > 1e-9 * entry_d:
+            entry_x, entry_d = seg.x_start, seg.inside_diameter
         method = fitting_method or _infer_fitting_method(seg)
-        rhs = _SegmentRHS(seg, heater, product, mass_flow, method)
+        rhs = _SegmentRHS(seg, heater, product, mass_flow, method, entry_x)
         sol = solve_ivp(rhs, (seg.x_start, seg.x_start + seg.length), y, method="RK45",
                         rtol=rtol, atol=list(atol), events=sets)
         evaluations += rhs.evaluations

@@ -1,0 +1,73 @@
+"""The layout rules of DEVELOPERS.md, checked on the source itself.
+
+- data flows one way: a module imports only from its own stage or the stages before it;
+- ``planner/`` never imports Streamlit;
+- no function in ``planner/`` or ``dashboard/`` is longer than 80 lines.
+"""
+
+from __future__ import annotations
+
+import ast
+import pathlib
+
+import pytest
+
+ROOT = pathlib.Path(__file__).resolve().parents[1]
+# the stages in data-flow order; a module may import from its own stage and any earlier one
+STAGES = ["errors", "plain", "correlations", "scenario", "line", "transfer", "checks", "calibration", "reports",
+          "records", "cli"]
+MAX_FUNCTION_LINES = 80
+# Known crossings, each with its reason. errors.py names a bad field with the page's label for it,
+# from scenario/labels.py (a table of words that imports nothing but the standard library).
+ALLOWED_CROSSINGS = {("errors", "scenario")}
+
+
+def _modules(folder: str):
+    return sorted(p for p in (ROOT / folder).rglob("*.py") if "__pycache__" not in p.parts)
+
+
+def _stage(module_path: pathlib.Path) -> str:
+    parts = module_path.relative_to(ROOT / "planner").with_suffix("").parts
+    return parts[0]
+
+
+def _planner_imports(tree: ast.AST):
+    for node in ast.walk(tree):
+        if isinstance(node, ast.ImportFrom) and node.module and node.module.startswith("planner."):
+            yield node.lineno, node.module.split(".")[1]
+        elif isinstance(node, ast.Import):
+            for alias in node.names:
+                if alias.name.startswith("planner."):
+                    yield node.lineno, alias.name.split(".")[1]
+
+
+@pytest.mark.parametrize("path", _modules("planner"), ids=lambda p: str(p.relative_to(ROOT)))
+def test_planner_imports_flow_one_way(path):
+    stage = _stage(path)
+    if stage in ("__init__", "__main__"):
+        return
+    rank = STAGES.index(stage)
+    tree = ast.parse(path.read_text())
+    later = [(line, target) for line, target in _planner_imports(tree)
+             if target in STAGES and STAGES.index(target) > rank and (stage, target) not in ALLOWED_CROSSINGS]
+    assert not later, f"{path.name} ({stage}) imports from later stages: {later}"
+
+
+@pytest.mark.parametrize("path", _modules("planner"), ids=lambda p: str(p.relative_to(ROOT)))
+def test_planner_has_no_streamlit(path):
+    tree = ast.parse(path.read_text())
+    names = [a.name for n in ast.walk(tree) if isinstance(n, ast.Import) for a in n.names]
+    names += [n.module for n in ast.walk(tree) if isinstance(n, ast.ImportFrom) and n.module]
+    assert not [n for n in names if n.split(".")[0] == "streamlit"]
+
+
+def test_no_function_longer_than_80_lines():
+    long = []
+    for folder in ("planner", "dashboard"):
+        for path in _modules(folder):
+            for node in ast.walk(ast.parse(path.read_text())):
+                if isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef)):
+                    length = node.end_lineno - node.lineno + 1
+                    if length > MAX_FUNCTION_LINES:
+                        long.append(f"{path.relative_to(ROOT)}:{node.lineno} {node.name} ({length} lines)")
+    assert not long, "functions longer than 80 lines:\n" + "\n".join(long)
