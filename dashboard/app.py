@@ -22,6 +22,7 @@ if str(ROOT) not in sys.path:
     sys.path.insert(0, str(ROOT))
 
 from dashboard import inputs, tables, views  # noqa: E402
+from dashboard.plaintext import plain  # noqa: E402
 from dashboard.compute import cached_bundle  # noqa: E402
 from dashboard.display import SYSTEM_NAMES, caution_text  # noqa: E402
 from dashboard.report import build_report_html  # noqa: E402
@@ -35,8 +36,8 @@ from planner.scenario.schema import (  # noqa: E402
 
 DEMO_DIR = ROOT / "demo_scenarios"
 DEMO_FILES = sorted(DEMO_DIR.glob("*.toml"))
-VIEWS = ["Plan", "Inputs", "Along the line", "Over time", "Setpoint comparison", "Product", calibration_view.TAB,
-         sharing.REVIEW_TAB]
+VIEWS = views.TAB_TITLES            # one tab per view a link can name (planner.records.links.VIEWS)
+DEMO_PREFIX = "demo file "
 log = logging.getLogger("dashboard")
 
 
@@ -45,7 +46,10 @@ log = logging.getLogger("dashboard")
 def _set_work(data: dict, source: str) -> None:
     st.session_state["work"] = data
     st.session_state["source"] = source
+    if not source.startswith(DEMO_PREFIX):
+        st.session_state["demo_choice"] = None      # the picker no longer names a demo that is not shown
     st.session_state["gen"] = st.session_state.get("gen", 0) + 1
+    st.session_state["loaded"] = st.session_state.get("loaded", 0) + 1     # counts scenarios loaded
     st.session_state["table_gen"] = {}
     st.session_state.pop("comparison", None)
     sharing.forget_open_revision()              # another scenario: no saved revision is open any more
@@ -53,10 +57,11 @@ def _set_work(data: dict, source: str) -> None:
 
 def load_demo(path: Path) -> None:
     try:
-        _set_work(scenario_to_dict(load_scenario(path)), f"demo file {path.name}")
+        _set_work(scenario_to_dict(load_scenario(path)), f"{DEMO_PREFIX}{path.name}")
         st.session_state["load_message"] = None
     except ScenarioError as exc:
         st.session_state["load_message"] = ("error", f"{path.name}: {exc}")
+        st.session_state["demo_choice"] = None
 
 
 def _on_demo_change() -> None:
@@ -119,10 +124,6 @@ def validate(work: dict) -> tuple[Scenario | None, str | None, list[tuple[str, s
 
 # ------------------------------------------------------------------------------------------ sidebar
 
-def _md_escape(text: str) -> str:
-    return re.sub(r"([\\`*_{}\[\]<>()#+!|~$])", r"\\\1", text)
-
-
 def _slug(text: str) -> str:
     return re.sub(r"[^A-Za-z0-9]+", "-", text).strip("-").lower()[:60] or "plan"
 
@@ -132,8 +133,10 @@ def sidebar(scenario: Scenario | None, scenario_json: str | None, bundle: dict |
     sb.header("Scenario")
     names = [p.name for p in DEMO_FILES]
     sb.selectbox("Demo scenario", names, key="demo_choice", on_change=_on_demo_change,
+                 placeholder="(not a demo: see below)",
                  help="invented scenarios of the fictional Larkspur Quay terminal")
-    if sb.button("Reload the demo (drop my edits)", key="reload_demo"):
+    if sb.button("Reload the demo (drop my edits)", key="reload_demo",
+                 disabled=st.session_state.get("demo_choice") is None):
         _on_demo_change()
         st.rerun()
     upload_key = "upload"
@@ -141,8 +144,8 @@ def sidebar(scenario: Scenario | None, scenario_json: str | None, bundle: dict |
                      args=(upload_key,), help="the same TOML/JSON files `python -m planner` reads")
     message = st.session_state.get("load_message")
     if message:
-        getattr(sb, message[0])(message[1])
-    sb.caption(f"Working on: {st.session_state.get('source', '')}")
+        getattr(sb, message[0])(plain(message[1]))
+    sb.caption("Working on: " + plain(source_text()))
     sb.header("Units")
     sb.radio("Unit system", list(SYSTEM_NAMES), format_func=SYSTEM_NAMES.get, key="unit_system", horizontal=True,
              help="applies to every input, result, table, chart and export")
@@ -169,51 +172,118 @@ def sidebar(scenario: Scenario | None, scenario_json: str | None, bundle: dict |
 
 # ------------------------------------------------------------------------------------------ page
 
-def main() -> None:
-    st.set_page_config(page_title="Viscous Transfer Planner", layout="wide", page_icon="🛢️")
-    st.markdown('<style>div[class*="st-key-stale_"] { opacity: 0.45; filter: grayscale(100%); }</style>',
-                unsafe_allow_html=True)
-    init_state()
-    sharing.apply_lock()
-    unit_system = st.session_state.get("unit_system", "SI")
-    scenario, scenario_json, problem_list = validate(st.session_state["work"])
-    problems = inputs.Problems(problem_list)
+PAGE_CSS = """<style>
+div[class*="st-key-stale_"] { opacity: 0.45; filter: grayscale(100%); }
+/* key figures: a smaller value font on narrow screens, wrapped rather than cut off */
+[data-testid="stMetricValue"] { font-size: clamp(1.3rem, 1.85vw, 2.1rem); }
+[data-testid="stMetricValue"] *, [data-testid="stMetricDelta"] *, [data-testid="stMetricLabel"] * {
+    white-space: normal !important; overflow: visible !important; text-overflow: clip !important; }
+[data-testid="stMetricDelta"] { max-width: 100%; height: auto; }
+</style>"""
 
+
+def source_text() -> str:
+    """What the page shows: the open saved revision with its state now (it may have been approved
+    since it was opened), else where the working scenario came from."""
+    return sharing.open_revision_text() or st.session_state.get("source", "")
+
+
+@st.cache_resource(show_spinner=False)
+def page_icon():
+    """A small drawn icon (a drum): served by this server, unlike an emoji icon, which the browser
+    would fetch as an image from elsewhere."""
+    from PIL import Image, ImageDraw
+
+    image = Image.new("RGBA", (32, 32), (0, 0, 0, 0))
+    draw = ImageDraw.Draw(image)
+    draw.rounded_rectangle((6, 3, 26, 29), radius=4, fill=(31, 97, 141, 255))
+    for y in (11, 21):
+        draw.line((6, y, 26, y), fill=(214, 234, 248, 255), width=2)
+    return image
+
+
+def plan_results(problem_list: list, scenario_json: str | None) -> tuple[dict | None, dict | None, list]:
+    """The plan of the inputs (or its error), the results to show (the last good ones while the inputs
+    have problems) and the problems with the planner's own added."""
+    ss = st.session_state
     bundle = None
     if scenario_json is not None:
         with st.spinner("Working out the plan…"):
             bundle = cached_bundle(scenario_json)
         if "error" not in bundle:
-            st.session_state["last_good_json"] = scenario_json
+            ss["last_good"] = {"json": scenario_json, "loaded": ss.get("loaded", 0), "source": source_text(),
+                               "name": bundle.get("scenario_name", "")}
         elif bundle.get("problems"):
             problem_list = problem_list + [tuple(p) for p in bundle["problems"]]
-            problems = inputs.Problems(problem_list)
-    stale = bundle is None or "error" in bundle
     shown = bundle
-    if stale and st.session_state.get("last_good_json"):
-        shown = cached_bundle(st.session_state["last_good_json"])
+    if (bundle is None or "error" in bundle) and ss.get("last_good"):
+        shown = cached_bundle(ss["last_good"]["json"])
+    return bundle, shown, problem_list
 
-    sidebar(scenario, scenario_json, bundle, unit_system)
 
+def stale_note() -> str:
+    """Says whose results the greyed figures are: this scenario's last good inputs, or another scenario's."""
+    last = st.session_state.get("last_good") or {}
+    if last.get("loaded") == st.session_state.get("loaded", 0):
+        return f"the last good inputs of this scenario ({plain(last.get('name', ''))})"
+    return (f"**another scenario**, “{plain(last.get('name', ''))}” ({plain(last.get('source', ''))}), "
+            f"not {plain(source_text())}")
+
+
+def page_header(scenario: Scenario | None, unit_system: str, problem_list: list, bundle: dict | None,
+                stale: bool, shown: dict | None) -> None:
     name = scenario.name if scenario is not None else (st.session_state["work"].get("name") or "scenario with problems")
-    st.markdown(f"## Viscous Transfer Planner  \n**{_md_escape(name)}**")
-    st.caption(f"{st.session_state.get('source', '')} — units: {SYSTEM_NAMES[unit_system]}")
+    st.markdown(f"## Viscous Transfer Planner  \n**{plain(name)}**")
+    st.caption(f"{plain(source_text())} — units: {SYSTEM_NAMES[unit_system]}")
     st.warning(caution_text(unit_system), icon="⚠️")
     sharing.page_notices()
     if problem_list:
         st.error(f"**The inputs have {len(problem_list)} problem(s)** — each message is shown beside its field "
-                 "under Inputs:\n" + "\n".join(f"- `{p or '(file)'}`: {m}" for p, m in problem_list[:8])
-                 + ("\n- …" if len(problem_list) > 8 else ""))
+                 "under Inputs:  \n" + "  \n".join(f"• {plain(p or '(file)')}: {plain(m)}" for p, m in problem_list[:8])
+                 + ("  \n• …" if len(problem_list) > 8 else ""))
     if bundle is not None and "error" in bundle and not bundle.get("problems"):
-        st.error(f"**No plan for these inputs:** {bundle['error']}")
+        st.error(f"**No plan for these inputs:** {plain(bundle['error'])}")
     if stale and shown is not None and "error" not in shown:
-        st.info("The figures and views below are from the **last good inputs** (greyed) until the problems are "
-                f"fixed: {shown.get('scenario_name', '')}.")
+        st.info(f"The figures and views below are greyed: they are from {stale_note()}, until the problems are fixed.")
 
-    results_box = st.container(key="stale_results" if stale else "results")
+
+def draw_tab(title: str, scenario: Scenario | None, scenario_json: str | None, shown: dict | None,
+             stale: bool, problems, unit_system: str) -> None:
     have_results = shown is not None and "error" not in shown
-    with results_box:
-        if have_results:
+    if title == sharing.REVIEW_TAB:
+        sharing.review_view(_set_work, unit_system)
+    elif title == views.VIEW_TITLES["inputs"]:
+        inputs.render_inputs(st.container(), problems)
+    elif title == calibration_view.TAB:
+        calibration_view.calibration_view(scenario, scenario_json, unit_system)
+    elif title == views.VIEW_TITLES["compare"]:
+        views.comparison_view(scenario, scenario_json if not stale else None, unit_system)
+    elif not have_results:
+        st.info("No results to show.")
+    else:
+        box = st.container(key=f"stale_{_slug(title)}" if stale else f"view_{_slug(title)}")
+        if stale:
+            box.caption(f"(greyed: from {stale_note()})")
+        with box:
+            {"Plan": views.plan_view, "Along the line": views.line_view, "Over time": views.time_view,
+             "Product": views.product_view}[title](shown, unit_system)
+
+
+def main() -> None:
+    st.set_page_config(page_title="Viscous Transfer Planner", layout="wide", page_icon=page_icon())
+    st.markdown(PAGE_CSS, unsafe_allow_html=True)
+    init_state()
+    sharing.apply_lock()
+    unit_system = st.session_state.get("unit_system", "SI")
+    scenario, scenario_json, problem_list = validate(st.session_state["work"])
+    bundle, shown, problem_list = plan_results(problem_list, scenario_json)
+    problems = inputs.Problems(problem_list)
+    stale = bundle is None or "error" in bundle
+
+    sidebar(scenario, scenario_json, bundle, unit_system)
+    page_header(scenario, unit_system, problem_list, bundle, stale, shown)
+    with st.container(key="stale_results" if stale else "results"):
+        if shown is not None and "error" not in shown:
             views.key_figures_strip(shown, unit_system)
         else:
             st.info("No results yet: fix the inputs to see the plan.")
@@ -224,26 +294,11 @@ def main() -> None:
             continue
         with tab:
             try:
-                if title == sharing.REVIEW_TAB:
-                    sharing.review_view(_set_work, unit_system)
-                elif title == "Inputs":
-                    inputs.render_inputs(st.container(), problems)
-                elif title == calibration_view.TAB:
-                    calibration_view.calibration_view(scenario, scenario_json, unit_system)
-                elif title == "Setpoint comparison":
-                    views.comparison_view(scenario, scenario_json if not stale else None, unit_system)
-                elif not have_results:
-                    st.info("No results to show.")
-                else:
-                    box = st.container(key=f"stale_{_slug(title)}" if stale else f"view_{_slug(title)}")
-                    if stale:
-                        box.caption("(last good inputs)")
-                    with box:
-                        {"Plan": views.plan_view, "Along the line": views.line_view, "Over time": views.time_view,
-                         "Product": views.product_view}[title](shown, unit_system)
+                draw_tab(title, scenario, scenario_json, shown, stale, problems, unit_system)
             except Exception as exc:  # noqa: BLE001  (never a traceback on the page)
                 log.exception("view %s failed", title)
-                st.error(f"This view could not be drawn ({type(exc).__name__}: {exc}). The other views still work.")
+                st.error(f"This view could not be drawn ({type(exc).__name__}: {plain(exc)}). "
+                         "The other views still work.")
     st.caption(caution_text(unit_system))
 
 

@@ -10,6 +10,10 @@ stopped at its time limit, or refused while every worker is busy, comes back as 
 
 from __future__ import annotations
 
+import copy
+import threading
+from collections import OrderedDict
+
 import streamlit as st
 
 from .workers import pool
@@ -47,11 +51,6 @@ def _bundle(scenario_json: str) -> dict:
     return _run("plan", (scenario_json,))
 
 
-@st.cache_data(show_spinner=False, max_entries=16)
-def _comparison(scenario_json: str, lever: str, values_si: tuple, sensitivity: bool, _progress=None) -> dict:
-    return _run("comparison", (scenario_json, lever, list(values_si), sensitivity), progress=_progress)
-
-
 def cached_bundle(scenario_json: str) -> dict:
     """The plan bundle of ``dashboard.results.build_bundle``, or ``{"error": ...}``."""
     try:
@@ -60,12 +59,63 @@ def cached_bundle(scenario_json: str) -> dict:
         return exc.result
 
 
-def cached_comparison(scenario_json: str, lever: str, values_si: tuple, sensitivity: bool, _progress=None) -> dict:
-    """``dashboard.results.run_comparison`` as plain data, or ``{"error": ...}``."""
-    try:
-        return _comparison(scenario_json, lever, values_si, sensitivity, _progress=_progress)
-    except _NotCached as exc:
-        return exc.result
+class _Memo:
+    """A small process-wide store of finished comparisons (least recently used dropped first).
+
+    The comparison is not an ``st.cache_data`` function on purpose: its progress bar is drawn while
+    it runs, and elements drawn inside a cached function are recorded and replayed on the next hit,
+    which fails for a bar created outside it (``CacheReplayClosureError``).  Here the computation
+    draws nothing; the caller's ``progress`` callback is called only while a new comparison runs."""
+
+    def __init__(self, max_entries: int = 16):
+        self.max_entries = max_entries
+        self.items: OrderedDict = OrderedDict()
+        self.lock = threading.Lock()
+
+    def get(self, key):
+        with self.lock:
+            if key not in self.items:
+                return None
+            self.items.move_to_end(key)
+            return copy.deepcopy(self.items[key])
+
+    def put(self, key, value) -> None:
+        with self.lock:
+            self.items[key] = copy.deepcopy(value)
+            self.items.move_to_end(key)
+            while len(self.items) > self.max_entries:
+                self.items.popitem(last=False)
+
+
+@st.cache_resource(show_spinner=False)
+def _comparison_memo() -> _Memo:
+    return _Memo()
+
+
+def comparison_key(scenario_json: str, lever: str, values_si, sensitivity: bool) -> tuple:
+    """Values equal to 9 significant digits are the same comparison (SI and US entries of one value)."""
+    return scenario_json, lever, tuple(float(f"{float(v):.9g}") for v in values_si), bool(sensitivity)
+
+
+def cached_comparison_result(scenario_json: str, lever: str, values_si, sensitivity: bool) -> dict | None:
+    """The finished comparison for these inputs if this process has run it, else None."""
+    return _comparison_memo().get(comparison_key(scenario_json, lever, values_si, sensitivity))
+
+
+def comparison(scenario_json: str, lever: str, values_si, sensitivity: bool, progress=None) -> dict:
+    """``dashboard.results.run_comparison`` as plain data, or ``{"error": ...}``; run once per process
+    for the same inputs (a transient error, a time limit or a full pool, is not kept).
+
+    ``progress(done, total)`` is called while a new comparison runs (never on a repeat)."""
+    key = comparison_key(scenario_json, lever, values_si, sensitivity)
+    found = _comparison_memo().get(key)
+    if found is not None:
+        return found
+    result = pool().run("comparison", (scenario_json, lever, list(key[2]), bool(sensitivity)), session=_session_id(),
+                        progress=progress)
+    if not result.get("transient"):
+        _comparison_memo().put(key, result)
+    return result
 
 
 @st.cache_data(show_spinner=False, max_entries=8)

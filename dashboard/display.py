@@ -167,3 +167,58 @@ def key_figures(bundle: dict, system: str) -> list[KeyFigure]:
     """The plan's key figures in the display system, with stable labels."""
     return [KeyFigure(k.key, k.label, k.value, None if k.quantity == "money" else k.quantity, figure_text(k, system),
                       render(k.note, system), k.help, k.possible) for k in bundle["key_figures"]]
+
+
+# ---------------------------------------------------------------------------------------------
+# Words for codes and numbers of any size (tables and selects show words, never raw codes or None)
+
+WORDS = {
+    # pump and line outcomes (planner.transfer.system), start-up modes, heater and vessel choices
+    "ok": "ok", "relief_lifting": "relief valve lifting", "no_flow": "no flow", "product_sets": "product sets",
+    "rate_not_reachable": "flow setpoint not reachable", "prewarm": "pre-warm the line",
+    "push_cold": "push the cold contents out", "positive_displacement": "positive displacement",
+    "fixed_speed": "fixed speed", "fixed_flow": "fixed flow", "electric_constant": "electric, constant wattage",
+    "electric_self_regulating": "electric, self-regulating", "none": "none", "loading_arm": "loading arm",
+    "horizontal_cylinder": "horizontal cylinder", "vertical_cylinder": "vertical cylinder",
+    "herschel_bulkley": "Herschel–Bulkley", "power_law": "power law", "newtonian": "Newtonian",
+    "andrade": "Andrade", "vft": "Vogel–Fulcher–Tammann", "walther": "Walther (ASTM D341)",
+    "hooper": "Hooper 2-K", "darby": "Darby 3-K", "mineral_wool": "mineral wool",
+    "calcium_silicate": "calcium silicate", "carbon_steel": "carbon steel", "stainless_steel": "stainless steel",
+    "rubber_hose": "rubber hose", "composite_hose": "composite hose",
+}
+
+
+def words(code) -> str:
+    """A code (``relief_lifting``) as words (``relief valve lifting``); None as "—", booleans as yes/no."""
+    if code is None or (isinstance(code, float) and not math.isfinite(code)):
+        return "—"
+    if isinstance(code, bool):
+        return "yes" if code else "no"
+    text = str(code)
+    return WORDS.get(text, text.replace("_", " "))
+
+
+def general_number(value: float | None, significant: int = 4) -> str:
+    """A number of any size without an exponent: ``25,822``, ``14.99``, ``0.01234``; "—" when missing."""
+    if value is None or not math.isfinite(float(value)):
+        return "—"
+    magnitude = abs(float(value))
+    if magnitude == 0.0:
+        return "0"
+    exponent = math.floor(math.log10(magnitude))
+    if exponent >= significant - 1:
+        return f"{value:,.0f}"
+    return f"{value:,.{min(15, significant - 1 - exponent)}f}"
+
+
+def law_parameters_text(curve: dict) -> str:
+    """``a = -6.831, b = 948.6, c = 211.3``: the fitted law's parameters without exponents."""
+    return ", ".join(f"{k} = {general_number(v, 5)}" for k, v in curve["parameters"].items())
+
+
+def fit_quality_text(curve: dict) -> str:
+    """How well the law fits its lab points, in words a person reads."""
+    rms = curve["rms_log_residual"]
+    rms_text = "below 0.001" if rms < 1e-3 else f"{rms:.3f}"
+    return (f"RMS log residual {rms_text}; largest deviation {100 * curve['max_relative_residual']:.1f} % "
+            f"over {curve['n_points']} points")

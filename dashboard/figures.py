@@ -11,7 +11,14 @@ import numpy as np
 import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
-from .display import TOUCH_LIMIT_K, convert_array, label, to_display, with_unit
+from .display import convert_array, label, to_display, with_unit
+from .plaintext import plotly_text
+from .tables import comparison_currency
+
+
+def with_unit_text(title: str, unit: str) -> str:
+    """An axis title with a unit given as text (a currency): ``Total cost [EUR]``."""
+    return f"{title} [{plotly_text(unit)}]"
 
 COLOURS = {
     "temperature": "#c0392b", "viscosity": "#6c3483", "pressure": "#1f618d", "rating": "#e67e22",
@@ -22,10 +29,56 @@ COLOURS = {
 SEGMENT_LINE = dict(color="#909497", width=1, dash="dot")
 
 
+# Least span of a y axis, in SI, by the quantity it shows: a steadier series is drawn on this span
+# around its middle, so that a constant does not look like a trend (a 0.002 bar wobble filling the panel).
+STEADY_SPAN_SI = {"temperature": 2.0, "pressure": 0.2e5, "volume_flow": 1.0 / 3600.0, "length": 0.2,
+                  "time": 360.0, "power": 100.0, "linear_power": 2.0, None: 1.0}
+LEGEND_SPACE_PX = 120           # room under the x-axis title for a legend of up to three rows
+
+
 def _layout(fig: go.Figure, title: str, height: int) -> go.Figure:
-    fig.update_layout(title=dict(text=title, x=0.0, xanchor="left"), height=height,
-                      margin=dict(l=70, r=30, t=70, b=50), legend=dict(orientation="h", y=-0.08),
+    """Title at the top left; the legend at the foot of the figure, under the x-axis title (never on it)."""
+    legend_space = LEGEND_SPACE_PX if any(t.showlegend is not False for t in fig.data) else 0
+    fig.update_layout(title=dict(text=title, x=0.0, xanchor="left"), height=height + legend_space,
+                      margin=dict(l=70, r=30, t=70, b=60 + legend_space),
+                      legend=dict(orientation="h", yref="container", y=0.0, yanchor="bottom", x=0.0, xanchor="left"),
                       hovermode="x unified", template="plotly_white")
+    return fig
+
+
+def _axis_values(fig: go.Figure) -> dict[str, list[float]]:
+    """Finite y values per layout y axis (``yaxis``, ``yaxis2``…): traces and horizontal lines."""
+    values: dict[str, list[float]] = {}
+    for trace in fig.data:
+        name = "yaxis" + (trace.yaxis or "y")[1:]
+        ys = np.asarray([np.nan if v is None else v for v in (trace.y if trace.y is not None else [])], dtype=float)
+        values.setdefault(name, []).extend(ys[np.isfinite(ys)].tolist())
+    for shape in fig.layout.shapes or ():
+        if shape.yref and shape.yref.startswith("y") and " " not in shape.yref and shape.y0 == shape.y1:
+            values.setdefault("yaxis" + shape.yref[1:], []).append(float(shape.y0))
+    return values
+
+
+def steady_axes(fig: go.Figure, kinds: dict[str, str | None], system: str) -> go.Figure:
+    """Give each linear y axis named in ``kinds`` (``{"yaxis": "temperature"}``) at least the span of
+    ``STEADY_SPAN_SI`` for its quantity (and 2 % of its largest value); log axes at least a factor 1.25."""
+    for name, values in _axis_values(fig).items():
+        if name not in kinds or not values:
+            continue
+        low, high = min(values), max(values)
+        axis = fig.layout[name]
+        if axis.type == "log":
+            if low > 0 and high / low < 1.25:
+                mid = 0.5 * (math.log10(low) + math.log10(high))
+                axis.range = [mid - 0.05, mid + 0.05]
+            continue
+        kind = kinds[name]
+        unit_span = STEADY_SPAN_SI.get(kind, 1.0)
+        span = abs(to_display(unit_span, kind, system) - to_display(0.0, kind, system)) if kind else unit_span
+        span = max(span, 0.02 * max(abs(low), abs(high)))
+        if high - low < span:
+            mid = 0.5 * (low + high)
+            axis.range = [mid - 0.5 * span, mid + 0.5 * span]
     return fig
 
 
@@ -42,7 +95,7 @@ def _segment_marks(fig: go.Figure, segments: list[dict], system: str, rows: int)
         text = s["name"] if share >= 0.15 else (f"{n + 1}" if share >= 0.015 else "")
         if text:
             mid = to_display(0.5 * (s["x_start"] + s["x_end"]), "length", system)
-            fig.add_annotation(x=mid, y=1.0, yref="y domain", xref="x", text=text[:28], showarrow=False,
+            fig.add_annotation(x=mid, y=1.0, yref="y domain", xref="x", text=plotly_text(text[:28]), showarrow=False,
                                yanchor="top", font=dict(size=10, color="#566573"), row=1, col=1)
 
 
@@ -65,7 +118,7 @@ def line_figure(profile: dict, segments: list[dict], system: str, product_name: 
     rating = profile.get("rating")
     if rating is not None and np.isfinite(np.asarray(rating, dtype=float)).any():
         fig.add_trace(go.Scatter(x=x_n, y=convert_array(rating, "pressure", system), mode="lines",
-                                 name="rating (own, or ASME B16.5 flange class at the product temperature)",
+                                 name="rating (own or B16.5 flange)",
                                  line=dict(color=COLOURS["rating"], width=3, dash="dash", shape="hv")), row=3, col=1)
     fig.add_trace(go.Scatter(x=x_s, y=convert_array(steps["jacket_temperature"], "temperature", system),
                              name="jacket temperature", line=dict(color=COLOURS["jacket"])), row=4, col=1)
@@ -73,10 +126,11 @@ def line_figure(profile: dict, segments: list[dict], system: str, product_name: 
         fig.add_trace(go.Scatter(x=x_s, y=convert_array(steps["sheath_temperature"], "temperature", system),
                                  name="heater/tracer temperature", line=dict(color=COLOURS["sheath"], dash="dot")),
                       row=4, col=1)
-    touch = to_display(touch_limit_k or TOUCH_LIMIT_K, "temperature", system)
-    fig.add_hline(y=touch, line=dict(color=COLOURS["limit"], dash="dash"), row=4, col=1,
-                  annotation_text=f"touch limit {touch:.0f} {label('temperature', system)}",
-                  annotation_position="top left")
+    if touch_limit_k is not None:           # the scenario's limits.touch_temperature
+        touch = to_display(touch_limit_k, "temperature", system)
+        fig.add_hline(y=touch, line=dict(color=COLOURS["limit"], dash="dash"), row=4, col=1,
+                      annotation_text=f"touch limit {touch:.0f} {label('temperature', system)}",
+                      annotation_position="top left")
     if profile.get("status") == "product_sets" and profile.get("sets_at_m") is not None:
         where = to_display(profile["sets_at_m"], "length", system)
         for r in range(1, 5):
@@ -88,7 +142,9 @@ def line_figure(profile: dict, segments: list[dict], system: str, product_name: 
     fig.update_yaxes(title_text=label("pressure", system), row=3, col=1)
     fig.update_yaxes(title_text=label("temperature", system), row=4, col=1)
     fig.update_xaxes(title_text=with_unit("Distance from the pump", "length", system), row=4, col=1)
-    return _layout(fig, "Along the discharge line at the start" + (f" — {product_name}" if product_name else ""), 980)
+    steady_axes(fig, {"yaxis": "temperature", "yaxis3": "pressure", "yaxis4": "temperature", "yaxis2": None}, system)
+    return _layout(fig, "Along the discharge line at the start"
+                   + (f" — {plotly_text(product_name)}" if product_name else ""), 980)
 
 
 def timeline_figure(plan: dict, system: str, max_level: float | None = None) -> go.Figure:
@@ -122,6 +178,7 @@ def timeline_figure(plan: dict, system: str, max_level: float | None = None) -> 
     fig.update_yaxes(title_text=label("length", system), row=3, col=1)
     fig.update_yaxes(title_text=label("pressure", system), row=4, col=1)
     fig.update_xaxes(title_text=with_unit("Time from the start of pumping", "time", system), row=4, col=1)
+    steady_axes(fig, {"yaxis": "volume_flow", "yaxis2": "temperature", "yaxis3": "length", "yaxis4": "pressure"}, system)
     return _layout(fig, "Over time during the transfer", 900)
 
 
@@ -139,6 +196,7 @@ def push_cold_figure(rows: dict, system: str) -> go.Figure:
     fig.update_yaxes(title_text=label("volume_flow", system), row=1, col=1)
     fig.update_yaxes(title_text=label("pressure", system), row=1, col=2)
     fig.update_xaxes(title_text=with_unit("Time", "time", system))
+    steady_axes(fig, {"yaxis": "volume_flow", "yaxis2": "pressure"}, system)
     return _layout(fig, "Push-cold start-up: the cold contents leave the line", 380)
 
 
@@ -167,7 +225,7 @@ def viscosity_figure(curve: dict, system: str, height: int = 460, compact: bool 
     fig.update_yaxes(type="log", title_text=with_unit(what, "dynamic_viscosity", system)
                      + ("" if curve.get("newtonian", True) else " (×sⁿ⁻¹)"))
     fig.update_xaxes(title_text=with_unit("Temperature", "temperature", system))
-    title = f"{what} against temperature" + ("" if compact else f" — {curve['name']}")
+    title = f"{what} against temperature" + ("" if compact else f" — {plotly_text(curve['name'])}")
     fig = _layout(fig, title, height)
     fig.update_layout(hovermode="closest", legend=dict(orientation="v", x=0.99, xanchor="right", y=0.99,
                                                        yanchor="top", bgcolor="rgba(255,255,255,0.8)"))
@@ -177,6 +235,7 @@ def viscosity_figure(curve: dict, system: str, height: int = 460, compact: bool 
 def comparison_figure(comparison: dict, kind: str, system: str) -> go.Figure:
     """Time, cost, peak pressure and hottest jacket against the lever value; recommended row starred."""
     rows = comparison["rows"]
+    currency = comparison_currency(comparison)
     x = [to_display(r.get("value"), kind, system) for r in rows]
     fig = make_subplots(rows=2, cols=2, shared_xaxes=True, vertical_spacing=0.14,
                         subplot_titles=("Start-up + transfer time", "Total cost", "Peak pressure", "Hottest jacket"))
@@ -199,9 +258,13 @@ def comparison_figure(comparison: dict, kind: str, system: str) -> go.Figure:
                                      showlegend=(r, c) == (1, 1),
                                      marker=dict(symbol="star", size=18, color="#f1c40f", line=dict(color="#000", width=1))),
                           row=r, col=c)
-        fig.update_yaxes(title_text=label(conv_kind, system) if conv_kind else "cost", row=r, col=c)
-    touch = to_display(TOUCH_LIMIT_K, "temperature", system)
-    fig.add_hline(y=touch, line=dict(color=COLOURS["limit"], dash="dash"), row=2, col=2)
+        fig.update_yaxes(title_text=label(conv_kind, system) if conv_kind else plotly_text(currency), row=r, col=c)
+    if comparison.get("touch_limit_k") is not None:       # the scenario's limits.touch_temperature
+        touch = to_display(comparison["touch_limit_k"], "temperature", system)
+        fig.add_hline(y=touch, line=dict(color=COLOURS["limit"], dash="dash"), row=2, col=2,
+                      annotation_text=f"touch limit {touch:.0f} {label('temperature', system)}",
+                      annotation_position="top left")
+    steady_axes(fig, {"yaxis": "time", "yaxis2": None, "yaxis3": "pressure", "yaxis4": "temperature"}, system)
     title = comparison.get("lever_label", "lever")
     fig.update_xaxes(title_text=with_unit(title, kind, system), row=2)
     fig = _layout(fig, f"Comparison over {title.lower()} (✕: a stop finding)", 640)
@@ -229,7 +292,8 @@ def sensitivity_figure(comparison: dict, kind: str, system: str) -> go.Figure | 
         if value is not None:
             fig.add_vline(x=to_display(value, kind, system), line=dict(color=colour, width=1, dash="dash"))
     fig.update_xaxes(title_text=with_unit(comparison.get("lever_label", "value"), kind, system))
-    fig.update_yaxes(title_text="total cost")
+    fig.update_yaxes(title_text=with_unit_text("Total cost", comparison_currency(comparison)))
+    steady_axes(fig, {"yaxis": None}, system)
     fig = _layout(fig, "Sensitivity: total cost with the ambient shifted and the viscosity scaled "
                   "(dashed: each case's recommended value)", 460)
     fig.update_layout(hovermode="closest")

@@ -22,10 +22,13 @@ import streamlit as st
 
 from planner.correlations.materials import INSULATION_MATERIALS
 from planner.scenario.presets import PRODUCT_PRESETS
-from planner.scenario.schema import ProductSpec
+from planner.scenario.schema import (Destination, ProductSpec, PumpSpec, Route, Segment, Surroundings, Tracing,
+                                     Schedule, Vessel, ViscositySpec, field_choices)
 
 from . import figures
-from .display import display_string, from_display, si_string, stored_to_si, to_display, with_unit
+from .display import (display_string, fit_quality_text, from_display, law_parameters_text, si_string, stored_to_si,
+                      to_display, with_unit, words)
+from .plaintext import plain
 from .results import product_preview
 
 OWN_PRODUCT = "(own lab data)"
@@ -164,7 +167,7 @@ def _commit_value(path: str, key: str, empty_is_none: bool = False) -> None:
 def show_problems(container, problems: Problems, path: str, field_label: str) -> None:
     for problem_path, message in problems.take(path):
         where = "" if problem_path == path else f" ({problem_path[len(path):].lstrip('.')})"
-        container.error(f"**{field_label}**{where}: {message}  \n`{problem_path}`", icon="⚠️")
+        container.error(f"**{field_label}**{plain(where)}: {plain(message)}  \n{plain(problem_path)}", icon="⚠️")
 
 
 # ------------------------------------------------------------------------------------------ widgets
@@ -177,7 +180,7 @@ def number(container, problems: Problems, path: str, field_label: str, kind: str
         si = _stored_number(raw, kind)
     except (ValueError, TypeError) as exc:
         si = None
-        container.caption(f"the file's value {raw!r} could not be read: {exc}")
+        container.caption(plain(f"the file's value {raw!r} could not be read: {exc}"))
     value = None if si is None else (to_display(si, kind, system()) if kind else si)
     digits = FORMATS.get(kind, 2) if decimals is None else decimals
     key = _wkey(path)
@@ -189,8 +192,10 @@ def number(container, problems: Problems, path: str, field_label: str, kind: str
     show_problems(container, problems, path, field_label)
 
 
-def select(container, problems: Problems, path: str, field_label: str, options: list, *,
-           help: str | None = None, format_func: Callable = str) -> None:
+def select(container, problems: Problems, path: str, field_label: str, options, *,
+           help: str | None = None, format_func: Callable = words) -> None:
+    """A choice field; ``options`` are the schema's (``field_choices``), shown as words."""
+    options = list(options)
     raw = get_path(work(), path)
     index = options.index(raw) if raw in options else None
     key = _wkey(path)
@@ -228,6 +233,7 @@ class Col:
     type: str = "number"           # number | text | select | bool | readonly
     options: tuple = ()
     help: str = ""
+    format_func: Callable = words   # how a select column shows its options
     field: str = ""                # the scenario field, for messages
 
     def heading(self, unit_system: str) -> str:
@@ -331,7 +337,8 @@ def table(container, problems: Problems, path: str, title: str, columns: tuple, 
             config[heading] = st.column_config.CheckboxColumn(heading, help=col.help or None)
         elif col.type == "select":
             frame[heading] = frame[heading].astype(object)
-            config[heading] = st.column_config.SelectboxColumn(heading, options=list(col.options), help=col.help or None)
+            config[heading] = st.column_config.SelectboxColumn(heading, options=list(col.options), help=col.help or None,
+                                                               format_func=col.format_func)
         elif col.type == "readonly":
             frame[heading] = frame[heading].astype(object)
             config[heading] = st.column_config.TextColumn(heading, disabled=True, help=col.help or None)
@@ -354,10 +361,11 @@ def table(container, problems: Problems, path: str, title: str, columns: tuple, 
             field = match.group(2)
             name = row_name(items[i], i) if row_name and i < len(items) and isinstance(items[i], dict) else f"row {i + 1}"
             field_text = field_titles.get(field.split(".")[0].split("[")[0], field) if field else ""
-            container.error(f"**{title or 'table'}, row {i + 1}** ({name})"
-                            + (f", **{field_text}**" if field_text else "") + f": {message}  \n`{problem_path}`", icon="⚠️")
+            container.error(f"**{title or 'table'}, row {i + 1}** ({plain(name)})"
+                            + (f", **{plain(field_text)}**" if field_text else "")
+                            + f": {plain(message)}  \n{plain(problem_path)}", icon="⚠️")
         else:
-            container.error(f"**{title or 'table'}**: {message}  \n`{problem_path}`", icon="⚠️")
+            container.error(f"**{title or 'table'}**: {plain(message)}  \n{plain(problem_path)}", icon="⚠️")
 
 
 # -- route segments
@@ -420,7 +428,7 @@ def _layers_note(item):
 
 SEGMENT_COLUMNS = (
     Col("Name", _key_get("name"), _key_put("name"), type="text", field="name"),
-    Col("Kind", lambda i: i.get("kind", "pipe"), _key_put("kind"), type="select", options=("pipe", "hose", "loading_arm"),
+    Col("Kind", lambda i: i.get("kind", "pipe"), _key_put("kind"), type="select", options=field_choices(Segment, "kind"),
         field="kind"),
     Col("NPS", lambda i: None if i.get("nps") is None else str(i.get("nps")), _key_put("nps"), type="text", field="nps",
         help="nominal pipe size, e.g. 4 or 1-1/2; leave empty and give the inside diameter instead"),
@@ -439,8 +447,9 @@ SEGMENT_COLUMNS = (
     Col("Rating", _key_get("pressure_rating"), _key_put("pressure_rating"), kind="pressure", field="pressure_rating",
         help="MAWP of the pipe, hose or arm (gauge); hoses and arms need one"),
     Col("Flange class", _key_get("flange_class"), _key_put("flange_class"), type="select",
-        options=(150, 300, 600, 900, 1500, 2500), field="flange_class", help="ASME B16.5 class; empty: none"),
-    Col("Location", _location_get, _location_put, type="select", options=("outdoor", "sheltered", "indoor", "buried"),
+        options=field_choices(Segment, "flange_class"), field="flange_class", help="ASME B16.5 class; empty: none",
+        format_func=lambda c: f"class {c}"),
+    Col("Location", _location_get, _location_put, type="select", options=field_choices(Surroundings, "location"),
         field="surroundings"),
     Col("Fittings", _fittings_text, None, type="readonly", field="fittings", help="edit fittings in the scenario file"),
     Col("More layers", _layers_note, None, type="readonly"),
@@ -501,6 +510,7 @@ def product_section(c, problems: Problems) -> None:
     current = product.get("preset") if product.get("preset") in PRODUCT_PRESETS else OWN_PRODUCT
     key = _wkey("product.preset")
     c.selectbox("Product", options, index=options.index(current), key=key, on_change=_change_preset, args=(key,),
+                format_func=lambda k: PRODUCT_PRESETS[k]["name"] if k in PRODUCT_PRESETS else k,
                 disabled=locked(),
                 help="a preset (illustrative figures) or your own lab data; fields edited below override the preset")
     show_problems(c, problems, "product.preset", "Product")
@@ -508,7 +518,7 @@ def product_section(c, problems: Problems) -> None:
         c.info("Preset figures are illustrative, not a data sheet: enter your product's lab data before a real transfer.")
     left, right = c.columns([6, 5])
     text(left, problems, "product.name", "Product name")
-    select(left, problems, "product.viscosity.law", "Viscosity law", ["andrade", "vft", "walther"],
+    select(left, problems, "product.viscosity.law", "Viscosity law", field_choices(ViscositySpec, "law"),
            help="andrade: 2+ points; vft: 3+ points; walther (ASTM D341, oils): 2+ points")
     table(left, problems, "product.viscosity.points", "Lab points", LAB_POINT_COLUMNS, lambda items: {},
           row_name=lambda item, i: f"point {i + 1}", help="one viscosity per row, dynamic or kinematic")
@@ -517,10 +527,8 @@ def product_section(c, problems: Problems) -> None:
     if curve is not None:
         right.plotly_chart(figures.viscosity_figure(curve, system(), height=380, compact=True),
                            key="product_preview_chart")
-        params = ", ".join(f"{k} = {v:.5g}" for k, v in curve["parameters"].items())
-        right.caption(f"Fitted {curve['law']} law ({params}); RMS log residual {curve['rms_log_residual']:.3g}, "
-                      f"largest deviation {100 * curve['max_relative_residual']:.1f} % over {curve['n_points']} points. "
-                      "Outside the shaded range the law is extrapolated.")
+        right.caption(plain(f"Fitted {words(curve['law'])} law ({law_parameters_text(curve)}); "
+                            f"{fit_quality_text(curve)}. Outside the shaded range the law is extrapolated."))
     else:
         right.info("The curve appears when the product's fields are valid (see the messages on the left).")
     a, b, d = c.columns(3)
@@ -532,14 +540,14 @@ def product_section(c, problems: Problems) -> None:
            help="pour, setting or crystallisation temperature")
     number(b, problems, "product.max_temperature", "Highest allowed temperature", "temperature")
     number(d, problems, "product.flash_point", "Flash point (if any)", "temperature")
-    select(d, problems, "product.rheology", "Rheology", ["newtonian", "power_law", "herschel_bulkley"])
+    select(d, problems, "product.rheology", "Rheology", field_choices(ProductSpec, "rheology"))
     if product.get("rheology", "newtonian") != "newtonian":
         number(d, problems, "product.flow_index", "Flow index n", None)
         number(d, problems, "product.yield_stress", "Yield stress", "yield_stress")
 
 
 def route_section(c, problems: Problems) -> None:
-    select(c, problems, "route.fitting_method", "Fittings method", ["hooper", "darby"],
+    select(c, problems, "route.fitting_method", "Fittings method", field_choices(Route, "fitting_method"),
            help="Hooper 2-K or Darby 3-K loss coefficients")
     table(c, problems, "route.segments", "Discharge route (pump to destination)", SEGMENT_COLUMNS, _new_segment,
           row_name=lambda item, i: item.get("name") or f"segment {i + 1}",
@@ -553,16 +561,11 @@ def route_section(c, problems: Problems) -> None:
     show_problems(c, problems, "suction", "Suction route")
 
 
-TRACING_KINDS = ["none", "electric_constant", "electric_self_regulating", "steam"]
-
-
 def tracing_section(c, problems: Problems) -> None:
     tracing = work().get("tracing") or {}
     kind = tracing.get("kind", "none")
     a, b = c.columns(2)
-    select(a, problems, "tracing.kind", "Tracing", TRACING_KINDS,
-           format_func=lambda k: {"none": "none", "electric_constant": "electric, constant wattage",
-                                  "electric_self_regulating": "electric, self-regulating", "steam": "steam"}[k])
+    select(a, problems, "tracing.kind", "Tracing", field_choices(Tracing, "kind"))
     number(a, problems, "tracing.setpoint", "Setpoint" + (" (optional for steam)" if kind == "steam" else ""),
            "temperature", help="thermostat setpoint on the pipe wall")
     if kind in ("electric_constant", "electric_self_regulating"):
@@ -586,14 +589,13 @@ def pump_section(c, problems: Problems) -> None:
         show_problems(c, problems, "pump", "Pump")
         return
     a, b = c.columns(2)
-    select(a, problems, "pump.kind", "Pump type", ["positive_displacement", "centrifugal"],
-           format_func=lambda k: k.replace("_", " "))
+    select(a, problems, "pump.kind", "Pump type", field_choices(PumpSpec, "kind"))
     text(a, problems, "pump.name", "Pump name")
     number(a, problems, "pump.speed", "Speed", "rotational_speed")
     number(a, problems, "pump.max_speed", "Highest speed (optional)", "rotational_speed")
     number(b, problems, "pump.motor_power", "Motor power", "power")
     number(b, problems, "pump.npsh_required", "NPSH required", "length")
-    select(b, problems, "pump.control", "Control", ["fixed_speed", "fixed_flow"], format_func=lambda k: k.replace("_", " "))
+    select(b, problems, "pump.control", "Control", field_choices(PumpSpec, "control"))
     if pump.get("control") == "fixed_flow":
         number(b, problems, "pump.flow_setpoint", "Flow setpoint", "volume_flow")
     if pump.get("kind") == "centrifugal":
@@ -611,10 +613,9 @@ def vessels_section(c, problems: Problems) -> None:
     a, b = c.columns(2)
     a.markdown("**Source**")
     source = work().get("source") or {}
-    select(a, problems, "source.kind", "Source", ["railcar", "truck", "barge", "tank"])
+    select(a, problems, "source.kind", "Source", field_choices(Vessel, "kind"))
     text(a, problems, "source.name", "Source name")
-    select(a, problems, "source.shape", "Shape", ["horizontal_cylinder", "vertical_cylinder", "box"],
-           format_func=lambda k: k.replace("_", " "))
+    select(a, problems, "source.shape", "Shape", field_choices(Vessel, "shape"))
     shape = source.get("shape", "vertical_cylinder")
     if shape in ("horizontal_cylinder", "vertical_cylinder"):
         number(a, problems, "source.diameter", "Diameter", "length")
@@ -628,14 +629,14 @@ def vessels_section(c, problems: Problems) -> None:
     number(a, problems, "source.outlet_height", "Source bottom above the suction inlet", "length")
     number(a, problems, "source.heat_loss_coefficient", "Shell heat-loss coefficient", "heat_transfer_coefficient")
     number(a, problems, "source.heating_power", "Heating while unloading", "power")
-    select(a, problems, "source.heating_medium", "Heating medium", ["steam", "electric"])
+    select(a, problems, "source.heating_medium", "Heating medium", field_choices(Vessel, "heating_medium"))
     show_problems(a, problems, "source", "Source")
     b.markdown("**Destination**")
     text(b, problems, "destination.name", "Destination name")
     number(b, problems, "destination.diameter", "Tank diameter", "length")
     number(b, problems, "destination.initial_level", "Level at the start", "length")
     number(b, problems, "destination.max_level", "Highest allowed level", "length")
-    select(b, problems, "destination.inlet", "Inlet", ["bottom", "top"])
+    select(b, problems, "destination.inlet", "Inlet", field_choices(Destination, "inlet"))
     show_problems(b, problems, "destination", "Destination")
 
 
@@ -664,8 +665,7 @@ def costs_section(c, problems: Problems) -> None:
     show_problems(a, problems, "costs", "Costs")
     b.markdown("**Planned window and start-up**")
     number(b, problems, "schedule.planned_window", "Planned window", "time")
-    select(b, problems, "schedule.start_mode", "Start-up", ["prewarm", "push_cold"],
-           format_func=lambda k: {"prewarm": "pre-warm the line", "push_cold": "push the cold contents out"}[k])
+    select(b, problems, "schedule.start_mode", "Start-up", field_choices(Schedule, "start_mode"))
     number(b, problems, "schedule.line_start_temperature", "Line contents at the start", "temperature",
            help="empty: the design ambient")
     number(b, problems, "schedule.stop_duration", "Stop to check restart for", "time")
@@ -684,15 +684,36 @@ SECTIONS = [
 ]
 
 
+SECTION_KEY = "input_section"
+
+
+def _section_label(title: str, problems: Problems, prefixes: tuple) -> str:
+    n = sum(problems.count(p) for p in prefixes)
+    return f"⚠️ {title} ({n})" if n else title
+
+
+def _open_section() -> str:
+    """The title of the sub-tab open in the last run (its label may have gained or lost a warning)."""
+    shown = str(st.session_state.get(SECTION_KEY) or "")
+    for title, _, _ in SECTIONS:
+        if shown == title or shown.startswith(f"⚠️ {title} ("):
+            return title
+    return SECTIONS[0][0]
+
+
 def render_inputs(container, problems: Problems) -> None:
-    """All input sections as tabs; a tab whose fields have problems carries a warning sign."""
-    titles = []
-    for title, prefixes, _ in SECTIONS:
-        n = sum(problems.count(p) for p in prefixes)
-        titles.append(f"⚠️ {title} ({n})" if n else title)
-    tabs = container.tabs(titles)
+    """The input sections as sub-tabs (only the open one runs); a sub-tab whose fields have problems
+    carries a warning sign and the count.  The open sub-tab stays open when its label changes (an
+    invalid value adds the warning), so the message stays in view beside its field."""
+    labels = [_section_label(title, problems, prefixes) for title, prefixes, _ in SECTIONS]
+    current = _open_section()
+    default = labels[[title for title, _, _ in SECTIONS].index(current)]
+    tabs = container.tabs(labels, key=SECTION_KEY, default=default, on_change="rerun")
     for tab, (_, _, renderer) in zip(tabs, SECTIONS):
-        renderer(tab, problems)
-    rest = problems.rest()
+        if tab.open is not False:
+            renderer(tab, problems)
+    prefixes = [prefix for _, section_prefixes, _ in SECTIONS for prefix in section_prefixes]
+    rest = [(p, m) for p, m in problems.rest() if not any(_under(p, prefix) for prefix in prefixes)]
     if rest:
-        container.error("Other problems in the scenario:\n" + "\n".join(f"- `{p or '(file)'}`: {m}" for p, m in rest))
+        container.error("Other problems in the scenario:  \n" + "  \n".join(
+            f"{plain(p or '(file)')}: {plain(m)}" for p, m in rest))

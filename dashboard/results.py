@@ -189,6 +189,7 @@ def run_comparison(scenario: Scenario, lever: str, values_si: list[float], progr
         "lever": lever, "lever_label": LEVERS[lever][0], "kind": kind, "rows": rows,
         "recommended": comparison.recommended, "runner_up": comparison.runner_up,
         "reason": comparison.reason or "", "sensitivity": cases,
+        "touch_limit_k": scenario.limits.touch_temperature, "currency": scenario.costs.currency,
     }
 
 

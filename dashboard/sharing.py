@@ -42,15 +42,13 @@ from . import accounts_ui
 from planner.transfer.plan import J_PER_KWH
 
 from .display import fmt, number_text
+from .plaintext import plain, plain_table
 from .results import SEVERITY_ORDER
+from .views import VIEW_OF_TITLE, VIEW_TITLES
 
 log = logging.getLogger(__name__)
 
-REVIEW_TAB = "Review"
-# link view name (planner.records.links.VIEWS) <-> tab title in app.VIEWS
-LINK_VIEWS = {"plan": "Plan", "inputs": "Inputs", "line": "Along the line", "time": "Over time",
-              "compare": "Setpoint comparison", "product": "Product", "review": REVIEW_TAB}
-TAB_TO_LINK = {tab: view for view, tab in LINK_VIEWS.items()}
+REVIEW_TAB = VIEW_TITLES["review"]
 DEFAULT_BASE_URL = "http://localhost:8501"
 
 SIGN_OFF_TEXT = (
@@ -208,7 +206,7 @@ def base_url() -> str:
 
 
 def current_link_view() -> str:
-    return TAB_TO_LINK.get(st.session_state.get("view") or "Plan", "plan")
+    return VIEW_OF_TITLE.get(st.session_state.get("view") or VIEW_TITLES["plan"], "plan")
 
 
 def _validated(work: dict) -> Scenario | None:
@@ -278,7 +276,7 @@ def read_link_once(set_work: Callable[[dict, str], None], load_default: Callable
         params = st.query_params.to_dict()
         if params:
             shared = parse_query(params)
-            view = LINK_VIEWS.get(shared.view)
+            view = VIEW_TITLES.get(shared.view)
             if shared.plan_id is not None:
                 load_revision(set_work, shared.plan_id, shared.revision)
                 loaded = True
@@ -340,18 +338,28 @@ def apply_lock() -> None:
             ss["refused_msg"] = "Edit refused: " + lock_text(revision, trail)
 
 
+def open_revision_text() -> str | None:
+    """The open saved revision as the page names it, with its state as of this run; None if none is open."""
+    revision = st.session_state.get("open_rev_obj")
+    if revision is None:
+        return None
+    text = (f"saved plan “{revision.plan_name}”, revision {revision.number} "
+            f"({STATE_WORDS.get(revision.state, revision.state)})")
+    return text if unchanged_since_open(revision) else text + ", with unsaved changes"
+
+
 def page_notices() -> None:
     """Messages for the whole page: a bad link, a refused edit, the approved lock."""
     ss = st.session_state
     link_message = ss.get("link_message")
     if link_message and link_message[0] == ss.get("gen", 0):
-        st.error(link_message[1], icon="🔗")
+        st.error(plain(link_message[1]), icon="🔗")
     refused = ss.pop("refused_msg", None)
     if refused:
-        st.error(refused, icon="🔒")
+        st.error(plain(refused), icon="🔒")
     revision = ss.get("open_rev_obj")
     if revision is not None and revision.read_only:
-        text = lock_text(revision, ss.get("open_rev_trail") or [])
+        text = plain(lock_text(revision, ss.get("open_rev_trail") or []))
         if ss.get("rev_unlocked"):
             st.info(f"{text} You are changing a copy of its inputs: saving makes revision "
                     f"{_next_number(revision)}; revision {revision.number} stays approved.", icon="🔓")
@@ -400,7 +408,7 @@ def _do_save() -> None:
         _set_msg("share_msg", "error", f"Not saved ({type(exc).__name__}: {exc})")
         return
     _remember_open(revision, ss.get("work") or {})
-    ss["source"] = f"saved plan “{revision.plan_name}”, revision {revision.number} ({revision.state})"
+    ss["source"] = f"saved plan “{revision.plan_name}”, revision {revision.number}"
     ss["sv_note"] = ""
     _set_msg("share_msg", "success", f"Saved as revision {revision.number} of “{revision.plan_name}”"
                                      + (f" ({revision.site})" if revision.site else "") + ".")
@@ -454,7 +462,7 @@ def _do_reopen(set_work, plan_id: int, number: int) -> None:
 def _show_msg(container, key: str) -> None:
     message = st.session_state.pop(key, None)
     if message:
-        getattr(container, message[0])(message[1])
+        getattr(container, message[0])(plain(message[1]))
 
 
 # ------------------------------------------------------------------------------------------ sidebar
@@ -467,11 +475,11 @@ def save_share_review(container, scenario_json: str | None, bundle: dict | None)
     unchanged = unchanged_since_open(revision)
     _show_msg(container, "share_msg")
     if revision is not None:
-        container.markdown(f"**Open:** “{revision.plan_name}”" + (f" ({revision.site})" if revision.site else "")
+        container.markdown(f"**Open:** “{plain(revision.plan_name)}”" + (f" ({plain(revision.site)})" if revision.site else "")
                            + f", revision {revision.number} — **{STATE_WORDS.get(revision.state, revision.state)}**"
                            + ("" if unchanged else "  \n*with unsaved changes*"))
         if revision.read_only:
-            container.caption("🔒 " + lock_text(revision, ss.get("open_rev_trail") or []))
+            container.caption("🔒 " + plain(lock_text(revision, ss.get("open_rev_trail") or [])))
             if not ss.get("rev_unlocked"):
                 container.button("Change the inputs (as a new revision)", key="sv_unlock", on_click=_do_unlock,
                                  width="stretch", help="unlocks the inputs; saving then adds a revision and the "
@@ -523,7 +531,7 @@ def save_share_review(container, scenario_json: str | None, bundle: dict | None)
         scenario = scenario_from_dict(json.loads(scenario_json))
         params = query_for(view, scenario=scenario)
     except (PlannerError, ValueError) as exc:
-        container.caption(f"No link for these inputs: {exc}")
+        container.caption(f"No link for these inputs: {plain(exc)}")
         return
     url = link_url(base, params)
     if fits_in_url(params, base):
@@ -562,17 +570,20 @@ def _value_text(value) -> str:
 
 def diff_frames(diff: dict, a: int, b: int, unit_system: str, currency_a: str = "", currency_b: str = "")\
         -> tuple[pd.DataFrame, pd.DataFrame]:
-    """``PlanStore.diff`` as two tables: the inputs that changed, the figures that changed."""
+    """``PlanStore.diff`` as two tables: the inputs that changed, the figures that changed as shown (a figure
+    whose stored value differs below the shown precision is not listed)."""
     inputs = pd.DataFrame([(path, _value_text(old), _value_text(new)) for path, old, new in diff.get("inputs", [])],
                           columns=["Input", f"Revision {a}", f"Revision {b}"])
     labels = {key: label for key, label, _ in RESULT_FIELDS}
     rows = []
     for key, old, new in diff.get("results", []):
         if key == "currency":
-            rows.append(("Currency", _value_text(old), _value_text(new)))
+            if _value_text(old) != _value_text(new):
+                rows.append(("Currency", _value_text(old), _value_text(new)))
             continue
-        rows.append((labels.get(key, key), result_text(key, old, unit_system, currency_a),
-                     result_text(key, new, unit_system, currency_b)))
+        before, after = result_text(key, old, unit_system, currency_a), result_text(key, new, unit_system, currency_b)
+        if before != after:         # compared at the precision shown: 4.331 m and 4.329 m are both "4.33 m"
+            rows.append((labels.get(key, key), before, after))
     results = pd.DataFrame(rows, columns=["Figure", f"Revision {a}", f"Revision {b}"])
     return inputs, results
 
@@ -585,29 +596,29 @@ def _open_panel(set_work, unit_system: str) -> None:
         st.info("No saved revision is open. Save the plan (sidebar, “Save / share / review”) or open one below.")
         return
     trail = ss.get("open_rev_trail") or []
-    st.markdown(f"**“{revision.plan_name}”**" + (f" — {revision.site}" if revision.site else "")
-                + f", revision {revision.number} · product: {revision.product}")
-    st.caption(f"Saved by {revision.author} at {when_text(revision.created_at)}"
-               + (f" — note: {revision.note}" if revision.note else "")
+    st.markdown(f"**“{plain(revision.plan_name)}”**" + (f" — {plain(revision.site)}" if revision.site else "")
+                + f", revision {revision.number} · product: {plain(revision.product)}")
+    st.caption(f"Saved by {plain(revision.author)} at {when_text(revision.created_at)}"
+               + (f" — note: {plain(revision.note)}" if revision.note else "")
                + f" · content hash {revision.content_hash[:12]}")
     state = revision.state
     if state == "approved":
-        st.success("🔒 " + lock_text(revision, trail))
+        st.success("🔒 " + plain(lock_text(revision, trail)))
     elif state == "submitted":
         st.warning(f"Revision {revision.number} is submitted and awaits the supervisor's review.")
     elif state == "returned":
         last = next((r for r in reversed(trail) if r.action == "return"), None)
         st.error(f"Revision {revision.number} was returned for changes"
-                 + (f" by {last.by} at {when_text(last.at)}: {last.comment}" if last else "")
+                 + (f" by {plain(last.by)} at {when_text(last.at)}: {plain(last.comment)}" if last else "")
                  + ". Change the inputs and save a new revision.")
     else:
         st.info(f"Revision {revision.number} is a draft: submit it for review when it is ready.")
     left, right = st.columns(2)
     left.markdown("**Key figures as saved**")
-    left.table(_results_frame(revision.results, unit_system), hide_index=True)
+    left.table(plain_table(_results_frame(revision.results, unit_system)), hide_index=True)
     right.markdown("**Review trail**")
     if trail:
-        right.table(_trail_frame(trail), hide_index=True)
+        right.table(plain_table(_trail_frame(trail)), hide_index=True)
     else:
         right.caption("No review steps yet.")
 
@@ -752,4 +763,4 @@ def review_view(set_work: Callable[[dict, str], None], unit_system: str) -> None
         _open_panel(set_work, unit_system)
         _browse_panel(set_work, unit_system)
     except StoreError as exc:
-        st.error(f"Saved plans are not available: {exc}")
+        st.error(f"Saved plans are not available: {plain(exc)}")

@@ -10,7 +10,7 @@ import math
 import numpy as np
 import pandas as pd
 
-from .display import convert_array, fmt, label, number_text, to_display, with_unit
+from .display import convert_array, fmt, general_number, label, number_text, to_display, with_unit, words
 from planner.reports.findings_text import finding_details as _finding_details
 from planner.scenario.wording import render
 
@@ -78,6 +78,8 @@ def push_cold_frame(rows: dict, system: str) -> pd.DataFrame:
             values = rows[key]
             if key == "volume_fraction":
                 data[f"{title} [%]"] = [100.0 * v for v in values]
+            elif key == "status":
+                data[title] = [words(v) for v in values]
             else:
                 data[with_unit(title, kind, system)] = _column(values, kind, system)
     return pd.DataFrame(data)
@@ -121,14 +123,15 @@ def segments_frame(segments: list[dict], system: str) -> pd.DataFrame:
     return pd.DataFrame({
         "#": [s["index"] + 1 for s in segments],
         "Segment": [s["name"] for s in segments],
-        "Kind": [s["kind"] for s in segments],
+        "Kind": [words(s["kind"]) for s in segments],
         with_unit("From", "length", system): [to_display(s["x_start"], "length", system) for s in segments],
         with_unit("To", "length", system): [to_display(s["x_end"], "length", system) for s in segments],
         with_unit("Inside diameter", "small_length", system): [to_display(s["inside_diameter"], "small_length", system) for s in segments],
-        "Traced": [s["traced"] for s in segments],
-        with_unit("Rating", "pressure", system): [to_display(s["pressure_rating"], "pressure", system) for s in segments],
-        "Flange class": [s["flange_class"] for s in segments],
-        "Location": [s["location"] for s in segments],
+        "Traced": [words(bool(s["traced"])) for s in segments],
+        with_unit("Rating", "pressure", system): [number_text(to_display(s["pressure_rating"], "pressure", system), 2)
+                                                  if s["pressure_rating"] is not None else "none given" for s in segments],
+        "Flange class": [f"class {s['flange_class']}" if s["flange_class"] else "none given" for s in segments],
+        "Location": [words(s["location"]) for s in segments],
     })
 
 
@@ -162,7 +165,7 @@ def startup_hold_frame(plan: dict, system: str) -> pd.DataFrame:
     hours = lambda v: "holds 14 days" if v is None else f"{v / 3600.0:.2f} h"  # noqa: E731
     hours_or_dash = lambda v: "—" if v is None else f"{v / 3600.0:.2f} h"  # noqa: E731
     rows = [
-        ("Start-up chosen", f"{s.get('mode', '')}: {hours_or_dash(s.get('time_s'))}"),
+        ("Start-up chosen", f"{words(s.get('mode'))}: {hours_or_dash(s.get('time_s'))}"),
         ("Line contents at the start", fmt(s.get("line_start_temperature_k"), "temperature", system)),
         ("Pre-warm", render(warm.get("message", ""), system)),
         ("Push cold: first flow", fmt(cold.get("initial_flow_m3_s"), "volume_flow", system)),
@@ -179,7 +182,14 @@ def startup_hold_frame(plan: dict, system: str) -> pd.DataFrame:
     return pd.DataFrame(rows, columns=["Item", "Value"])
 
 
+def comparison_currency(comparison: dict) -> str:
+    """The scenario's currency (``costs.currency``) of a comparison, for column and axis titles."""
+    return comparison.get("currency") or next((r["currency"] for r in comparison.get("rows", []) if r.get("currency")),
+                                              "") or "cost"
+
+
 def comparison_frame(comparison: dict, kind: str, system: str) -> pd.DataFrame:
+    currency = comparison_currency(comparison)
     rows = []
     for i, r in enumerate(comparison["rows"]):
         counts = r.get("counts") or {}
@@ -193,12 +203,12 @@ def comparison_frame(comparison: dict, kind: str, system: str) -> pd.DataFrame:
             with_unit(comparison.get("lever_label", "Value"), kind, system): to_display(r.get("value"), kind, system),
             with_unit("Start-up + transfer", "time", system): to_display(r.get("total_time_s"), "time", system),
             with_unit("Transfer", "time", system): to_display(r.get("transfer_time_s"), "time", system),
-            "Energy cost": r.get("energy_cost"),
-            "Total cost": r.get("total_cost"),
+            f"Energy cost [{currency}]": r.get("energy_cost"),
+            f"Total cost [{currency}]": r.get("total_cost"),
             with_unit("Peak pressure", "pressure", system): to_display(r.get("peak_pressure_pa"), "pressure", system),
             with_unit("Hottest jacket", "temperature", system): to_display(r.get("hottest_jacket_k"), "temperature", system),
-            "Findings": ", ".join(f"{counts[s]} {s}" for s in SEVERITY_ORDER if counts.get(s)),
-            "Stop": "STOP" if r.get("has_stop") else "",
+            "Findings": ", ".join(f"{counts[s]} {s}" for s in SEVERITY_ORDER if counts.get(s)) or "none",
+            "Stop": "STOP" if r.get("has_stop") else "no",
         })
     return pd.DataFrame(rows)
 

@@ -5,15 +5,25 @@ from __future__ import annotations
 import pandas as pd
 import streamlit as st
 
+from planner.records.links import VIEWS as LINK_VIEWS
 from planner.scenario.schema import Scenario
 
 from . import figures, tables
-from .compute import cached_comparison
+from . import compute
+from .plaintext import plain, plain_table
 from planner.reports.findings_text import headline
 from planner.scenario.wording import render
 
-from .display import fmt, from_display, key_figures, label, to_display, with_unit
+from .display import (fit_quality_text, fmt, from_display, key_figures, label, law_parameters_text, to_display,
+                      with_unit, words)
 from .results import LEVERS, SEVERITY_ORDER, default_comparison_values
+
+# Tab title of each view a link can name (planner.records.links.VIEWS owns the names and their order).
+VIEW_TITLES = {"plan": "Plan", "inputs": "Inputs", "line": "Along the line", "time": "Over time",
+               "compare": "Setpoint comparison", "product": "Product", "calibration": "Calibration",
+               "review": "Review"}
+TAB_TITLES = [VIEW_TITLES[view] for view in LINK_VIEWS]
+VIEW_OF_TITLE = {title: view for view, title in VIEW_TITLES.items()}
 
 SEVERITY_STYLE = {
     "stop": (st.error, ":material/dangerous:", "Stop — do not start as planned"),
@@ -23,14 +33,20 @@ SEVERITY_STYLE = {
 }
 
 
+def data_table(frame: pd.DataFrame, decimals: int = 3) -> None:
+    """A results table: numbers at ``decimals`` with thousands separators, a missing value as "—"
+    (never "None")."""
+    st.dataframe(frame.style.format(precision=decimals, thousands=",", na_rep="—"), hide_index=True, width="stretch")
+
+
 def key_figures_strip(bundle: dict, unit_system: str) -> None:
     """The plan's key figures as metrics; labels are stable (tests read them)."""
     figs = key_figures(bundle, unit_system)
     for row in (figs[:4], figs[4:]):
         cols = st.columns(len(row))
         for col, k in zip(cols, row):
-            col.metric(k.label, k.text, delta=k.note or None, delta_color="off", delta_arrow="off",
-                       help=k.help or None, border=True)
+            col.metric(plain(k.label), plain(k.text), delta=plain(k.note) or None, delta_color="off",
+                       delta_arrow="off", help=plain(k.help) or None, border=True)
 
 
 def status_line(bundle: dict, unit_system: str = "SI") -> None:
@@ -40,20 +56,21 @@ def status_line(bundle: dict, unit_system: str = "SI") -> None:
     timeline = bundle["plan"]["timeline"]
     findings = bundle.get("findings") or []
     head = headline(findings, unit_system)
-    message = f"At the start: **{start.get('status', '')}** — {render(start.get('message', ''), unit_system)}"
+    message = (f"At the start: **{plain(start.get('status', ''))}** — "
+               f"{plain(render(start.get('message', ''), unit_system))}")
     if start.get("flags"):
-        message += f" (flags: {', '.join(start['flags'])})"
+        message += f" (flags: {plain(', '.join(start['flags']))})"
     if not timeline.get("completed"):
-        message += f"  \nThe transfer stops: {render(timeline.get('stop_reason', ''), unit_system)}"
+        message += f"  \nThe transfer stops: {plain(render(timeline.get('stop_reason', ''), unit_system))}"
     worst = bundle["plan"].get("worst_severity", "info")
     box = {"stop": st.error, "warning": st.warning, "caution": st.info}.get(worst, st.success)
-    box(f"**{head}**  \n{message}")
+    box(f"**{plain(head)}**  \n{message}")
 
 
 def findings_block(bundle: dict, unit_system: str) -> None:
     findings = bundle.get("findings")
     if findings is None:
-        st.info(f"Findings: {bundle.get('findings_note') or 'not available yet'}.")
+        st.info(f"Findings: {plain(bundle.get('findings_note') or 'not available yet')}.")
         return
     counts = {s: sum(1 for f in findings if f.get("severity") == s) for s in SEVERITY_ORDER}
     st.markdown("#### Findings  \n" + " · ".join(f"{counts[s]} {s}" for s in SEVERITY_ORDER))
@@ -64,9 +81,9 @@ def findings_block(bundle: dict, unit_system: str) -> None:
         box, icon, heading = SEVERITY_STYLE[severity]
         with st.expander(f"{heading} ({len(items)})", icon=icon, expanded=severity in ("stop", "warning")):
             for f in items:
-                lines = [f"**{f.get('title', '')}** — {render(f.get('message', ''), unit_system)}"]
-                lines += tables.finding_details(f, unit_system)
-                lines.append(f"`{f.get('code', '')}`")
+                lines = [f"**{plain(f.get('title', ''))}** — {plain(render(f.get('message', ''), unit_system))}"]
+                lines += [plain(line) for line in tables.finding_details(f, unit_system)]
+                lines.append(plain(f.get("code", "")))
                 box("  \n".join(lines), icon=icon)
 
 
@@ -74,10 +91,10 @@ def plan_view(bundle: dict, unit_system: str) -> None:
     status_line(bundle, unit_system)
     findings_block(bundle, unit_system)
     st.markdown("#### Start-up and stops")
-    st.table(tables.startup_hold_frame(bundle["plan"], unit_system), hide_index=True)
+    st.table(plain_table(tables.startup_hold_frame(bundle["plan"], unit_system)), hide_index=True)
     left, right = st.columns(2)
     left.markdown("#### Energy and cost")
-    left.table(tables.energy_cost_frame(bundle["plan"], unit_system), hide_index=True)
+    left.table(plain_table(tables.energy_cost_frame(bundle["plan"], unit_system)), hide_index=True)
     start = bundle["plan"]["start"]
     right.markdown("#### Pump at the start")
     rows = [
@@ -91,7 +108,7 @@ def plan_view(bundle: dict, unit_system: str) -> None:
                                       f"{fmt(start.get('npsh_required_m'), 'head', unit_system)}"),
         ("Relief recirculation", fmt(start.get("relief_flow_m3_s"), "volume_flow", unit_system)),
     ]
-    right.table(pd.DataFrame(rows, columns=["Item", "Value"]), hide_index=True)
+    right.table(plain_table(pd.DataFrame(rows, columns=["Item", "Value"])), hide_index=True)
 
 
 def line_view(bundle: dict, unit_system: str) -> None:
@@ -104,10 +121,9 @@ def line_view(bundle: dict, unit_system: str) -> None:
     st.caption("At the starting operating point. Dotted lines: segment boundaries. The rating line is each "
                "segment's own rating or its ASME B16.5 flange rating at the product temperature, whichever is lower.")
     st.markdown("#### Segments of the discharge route")
-    st.dataframe(tables.segments_frame(bundle["segments"], unit_system).round(2), hide_index=True, width="stretch")
+    data_table(tables.segments_frame(bundle["segments"], unit_system), 2)
     with st.expander("Profile table (step ends and mid-steps)"):
-        st.dataframe(tables.profile_frame(profile, bundle["segments"], unit_system).round(3), hide_index=True,
-                     width="stretch")
+        data_table(tables.profile_frame(profile, bundle["segments"], unit_system))
 
 
 def time_view(bundle: dict, unit_system: str) -> None:
@@ -118,25 +134,23 @@ def time_view(bundle: dict, unit_system: str) -> None:
         st.markdown("#### Push-cold start-up (the plan starts this way)")
     else:
         st.markdown("#### Push-cold start-up (the alternative to pre-warming)")
-    st.caption(render(cold.get("message", ""), unit_system))
+    st.caption(plain(render(cold.get("message", ""), unit_system)))
     rows = bundle.get("push_cold_rows") or {}
     if rows.get("time_s"):
-        st.dataframe(tables.push_cold_frame(rows, unit_system).round(3), hide_index=True, width="stretch")
+        data_table(tables.push_cold_frame(rows, unit_system))
         st.plotly_chart(figures.push_cold_figure(rows, unit_system), key="push_cold_chart")
     with st.expander("Timeline table"):
-        st.dataframe(tables.timeline_frame(plan, unit_system).round(3), hide_index=True, width="stretch")
+        data_table(tables.timeline_frame(plan, unit_system))
 
 
 def product_view(bundle: dict, unit_system: str) -> None:
     curve = bundle["product"]
     st.plotly_chart(figures.viscosity_figure(curve, unit_system), key="product_chart")
-    params = ", ".join(f"{k} = {v:.6g}" for k, v in curve["parameters"].items())
     rows = [
         ("Product", curve["name"] + (" — illustrative preset" if curve.get("illustrative")
                                      and "illustrative" not in curve["name"].lower() else "")),
-        ("Law", f"{curve['law']} ({params})"),
-        ("Fit", f"RMS log residual {curve['rms_log_residual']:.3g}; largest deviation "
-                f"{100 * curve['max_relative_residual']:.1f} % over {curve['n_points']} points"),
+        ("Law", f"{words(curve['law'])} ({law_parameters_text(curve)})"),
+        ("Fit", fit_quality_text(curve)),
         ("Fitted range", f"{fmt(curve.get('t_min'), 'temperature', unit_system)} to "
                          f"{fmt(curve.get('t_max'), 'temperature', unit_system)}"),
         ("No-flow temperature", fmt(curve["no_flow_temperature"], "temperature", unit_system)),
@@ -144,9 +158,9 @@ def product_view(bundle: dict, unit_system: str) -> None:
         ("Density at 20 °C", fmt(curve["density_at_20c"], "density", unit_system)),
         ("Specific heat at 20 °C", fmt(curve["specific_heat_at_20c"], "specific_heat", unit_system)),
         ("Thermal conductivity at 20 °C", fmt(curve["conductivity_at_20c"], "conductivity", unit_system)),
-        ("Rheology", curve["rheology"]),
+        ("Rheology", words(curve["rheology"])),
     ]
-    st.table(pd.DataFrame(rows, columns=["Item", "Value"]), hide_index=True)
+    st.table(plain_table(pd.DataFrame(rows, columns=["Item", "Value"])), hide_index=True)
     points = pd.DataFrame({
         with_unit("Temperature", "temperature", unit_system):
             [to_display(t, "temperature", unit_system) for t in curve["lab_temperature"]],
@@ -154,7 +168,7 @@ def product_view(bundle: dict, unit_system: str) -> None:
             [to_display(v, "dynamic_viscosity", unit_system) for v in curve["lab_viscosity"]],
     })
     st.markdown("#### Lab points (edit them under Inputs → Product)")
-    st.dataframe(points.round(2), hide_index=True, width="stretch")
+    data_table(points, 2)
 
 
 # ---------------------------------------------------------------------------------------- comparison
@@ -170,11 +184,8 @@ def _lever_options(scenario: Scenario) -> list[str]:
     return levers
 
 
-def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_system: str) -> None:
-    """Plans at several values of a lever (tracing setpoint first); the recommended row is starred."""
-    if scenario is None or scenario_json is None:
-        st.info("Fix the inputs first: the comparison runs on a valid scenario.")
-        return
+def _comparison_controls(scenario: Scenario, unit_system: str) -> tuple[str, str, str, bool, bool]:
+    """The lever, its display kind, the values as typed, the sensitivity box and the Compare button."""
     levers = _lever_options(scenario)
     gen = st.session_state.get("gen", 0)
     a, b, c = st.columns([1, 2, 1])
@@ -183,48 +194,73 @@ def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_s
     defaults = default_comparison_values(scenario, lever)
     digits = 0 if kind in ("temperature", "rotational_speed") else 1
     default_text = ", ".join(f"{to_display(v, kind, unit_system):.{digits}f}" for v in defaults)
-    text = b.text_input(f"Values [{label(kind, unit_system)}]", value=default_text, key=f"cmp_values{gen}|{unit_system}|{lever}",
+    text = b.text_input(f"Values [{label(kind, unit_system)}]", value=default_text,
+                        key=f"cmp_values{gen}|{unit_system}|{lever}",
                         help="a list (40, 45, 50) or START:STOP:STEP (40:70:5)")
     sensitivity = c.checkbox("With sensitivity", value=False, key=f"cmp_sens{gen}",
                              help="also with the ambient ±10 K and the viscosity ±20 % (five times the work)")
     run = st.button("Compare", type="primary", key=f"cmp_run{gen}")
+    return lever, kind, text, sensitivity, run
+
+
+def _run_comparison(scenario_json: str, lever: str, values_si: tuple, sensitivity: bool) -> dict:
+    """The comparison for these inputs: from this process's memory when it has run before, else worked
+    out now with a progress bar (drawn here, outside any cached function, so every repeat works)."""
+    found = compute.cached_comparison_result(scenario_json, lever, values_si, sensitivity)
+    if found is not None:
+        return found
+    total = len(values_si) * (5 if sensitivity else 1)
+    with st.status(f"Working out {total} plans…", expanded=True) as status:
+        bar = st.progress(0.0, text=f"0/{total} plans")
+
+        def progress(done, n):
+            bar.progress(min(1.0, done / max(n, 1)), text=f"{done}/{n} plans")
+
+        result = compute.comparison(scenario_json, lever, values_si, sensitivity, progress=progress)
+        bar.progress(1.0, text=f"{total}/{total} plans")
+        failed = "error" in result
+        status.update(label="Comparison failed" if failed else "Comparison done",
+                      state="error" if failed else "complete", expanded=False)
+    return result
+
+
+def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_system: str) -> None:
+    """Plans at several values of a lever (tracing setpoint first); the recommended row is starred."""
+    if scenario is None or scenario_json is None:
+        st.info("Fix the inputs first: the comparison runs on a valid scenario.")
+        return
+    lever, kind, text, sensitivity, run = _comparison_controls(scenario, unit_system)
     if run:
         from planner.checks.compare import parse_range
 
         try:
             values_display = parse_range(text)
         except ValueError as exc:
-            st.error(str(exc))
+            st.error(plain(str(exc)))
             return
         values_si = tuple(from_display(v, kind, unit_system) for v in values_display)
-        total = len(values_si) * (5 if sensitivity else 1)
-        with st.status(f"Working out {total} plans…", expanded=True) as status:
-            bar = st.progress(0.0, text=f"0/{total} plans")
-
-            def progress(done, n):
-                bar.progress(min(1.0, done / max(n, 1)), text=f"{done}/{n} plans")
-
-            result = cached_comparison(scenario_json, lever, values_si, sensitivity, _progress=progress)
-            bar.progress(1.0, text=f"{total}/{total} plans")
-            status.update(label="Comparison done" if "error" not in result else "Comparison failed",
-                          state="complete" if "error" not in result else "error", expanded=False)
+        result = _run_comparison(scenario_json, lever, values_si, sensitivity)
         st.session_state["comparison"] = {"json": scenario_json, "result": result}
     saved = st.session_state.get("comparison")
     if not saved:
         st.caption("Choose the values and press Compare: each value is a whole plan.")
         return
-    result = saved["result"]
     if saved["json"] != scenario_json:
         st.warning("The inputs have changed since this comparison: press Compare to run it again.")
+    comparison_result(saved["result"], unit_system)
+
+
+def comparison_result(result: dict, unit_system: str) -> None:
+    """A finished comparison: the recommendation, the table, the charts and the sensitivity."""
     if "error" in result:
-        st.error(result["error"])
+        st.error(plain(result["error"]))
         return
     kind = result["kind"]
     if result.get("recommended") is not None:
-        st.success(f"Recommended: **{fmt(result['rows'][result['recommended']]['value'], kind, unit_system)}** — "
-                   f"{render(result['reason'], unit_system)}")
+        st.success(f"Recommended: **{plain(fmt(result['rows'][result['recommended']]['value'], kind, unit_system))}** — "
+                   f"{plain(render(result['reason'], unit_system))}")
     else:
-        st.error(render(result["reason"], unit_system) or "no value can be recommended")
+        st.error(plain(render(result["reason"], unit_system) or "no value can be recommended"))
     frame = tables.comparison_frame(result, kind, unit_system)
     errors = [r.get("error", "") for r in result["rows"]]
     if any(errors):
@@ -235,7 +271,8 @@ def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_s
         colour = "background-color: #fcf3cf" if row.name == recommended else ""
         return [colour] * len(row)
 
-    st.dataframe(frame.style.apply(highlight, axis=1).format(precision=2, na_rep="—"), hide_index=True, width="stretch")
+    st.dataframe(frame.style.apply(highlight, axis=1).format(precision=2, thousands=",", na_rep="—"),
+                 hide_index=True, width="stretch")
     st.plotly_chart(figures.comparison_figure(result, kind, unit_system), key="comparison_chart")
     if result.get("sensitivity"):
         st.markdown("#### Sensitivity")

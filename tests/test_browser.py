@@ -31,7 +31,8 @@ ARTIFACTS = ROOT / "test-artifacts"
 IN_CI = os.environ.get("CI", "").strip().lower() in ("1", "true", "yes")
 LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update",
                "--disable-sync", "--no-first-run"]
-VIEWS = ["Plan", "Inputs", "Along the line", "Over time", "Setpoint comparison", "Product"]
+VIEWS = ["Plan", "Inputs", "Along the line", "Over time", "Setpoint comparison", "Product", "Calibration",
+         "Review"]
 
 
 def _require_chromium() -> None:
@@ -52,12 +53,15 @@ def _free_port() -> int:
 def server(tmp_path_factory):
     _require_chromium()
     port = _free_port()
-    log_path = tmp_path_factory.mktemp("streamlit") / "server.log"
+    folder = tmp_path_factory.mktemp("streamlit")
+    log_path = folder / "server.log"
     log = open(log_path, "w")
+    # the project's .streamlit/config.toml applies (statistics off, no developer toolbar): not overridden here
+    env = dict(os.environ, PLANNER_DB_PATH=str(folder / "plans.sqlite"))
     proc = subprocess.Popen(
         [sys.executable, "-m", "streamlit", "run", "dashboard/app.py", "--server.headless", "true",
-         "--server.port", str(port), "--server.address", "127.0.0.1", "--browser.gatherUsageStats", "false"],
-        cwd=ROOT, stdout=log, stderr=subprocess.STDOUT, start_new_session=True)
+         "--server.port", str(port), "--server.address", "127.0.0.1"],
+        cwd=ROOT, stdout=log, stderr=subprocess.STDOUT, start_new_session=True, env=env)
     url = f"http://127.0.0.1:{port}"
     try:
         deadline = time.monotonic() + 90
@@ -104,13 +108,66 @@ def browser(server):
 def page(browser, server):
     context = browser.new_context(viewport={"width": 1440, "height": 2200})
     page = context.new_page()
-    page.set_default_timeout(90_000)
+    page.set_default_timeout(180_000)
     try:
         page.goto(server)
         page.get_by_test_id("stMetricLabel").first.wait_for()
         yield page
     finally:
         context.close()
+
+
+# ------------------------------------------------------------------------------------- speed a user feels
+
+TAB_MARKERS = {     # something each view draws: the view has been drawn when it is there
+    "Plan": "text=Start-up and stops", "Inputs": "role=tab[name='Costs & schedule']",
+    "Along the line": ".js-plotly-plot .main-svg", "Over time": "text=Push-cold start-up",
+    "Setpoint comparison": "role=button[name='Compare']", "Product": "text=Lab points",
+    "Calibration": "text=Calibrate the plan to a past transfer", "Review": "text=Saved plans",
+}
+
+
+def _timed_load(browser, server) -> tuple[float, object]:
+    context = browser.new_context(viewport={"width": 1280, "height": 2000})
+    page = context.new_page()
+    page.set_default_timeout(180_000)
+    started = time.perf_counter()
+    page.goto(server)
+    page.get_by_test_id("stMetricValue").first.wait_for()
+    page.locator(TAB_MARKERS["Plan"]).first.wait_for()
+    return time.perf_counter() - started, (context, page)
+
+
+def test_first_load_and_tab_switch_times(browser, server):
+    """Issue 12.7 (measured, not asserted): the first load of a fresh server, the first load of a second
+    browser, and the first visit to each view in it; written to test-artifacts/timing.txt."""
+    ARTIFACTS.mkdir(exist_ok=True)
+    cold, (context, _) = _timed_load(browser, server)
+    context.close()
+    warm, (context, page) = _timed_load(browser, server)
+    tabs = {}
+    try:
+        for name, marker in TAB_MARKERS.items():
+            if name == "Plan":
+                continue
+            started = time.perf_counter()
+            page.get_by_role("tab", name=name, exact=True).first.click()
+            page.locator(marker).first.wait_for()
+            tabs[name] = time.perf_counter() - started
+            _wait_idle(page)
+        started = time.perf_counter()
+        page.get_by_role("tab", name="Plan", exact=True).first.click()
+        page.locator(TAB_MARKERS["Plan"]).first.wait_for()
+        tabs["Plan (again)"] = time.perf_counter() - started
+    finally:
+        context.close()
+    load = os.getloadavg()
+    report = (f"first load, fresh server: {cold:.2f} s; first load, second browser: {warm:.2f} s\n"
+              "first visit to each view: " + ", ".join(f"{k} {v:.2f} s" for k, v in tabs.items()) + "\n"
+              f"(machine load average while measured: {load[0]:.1f} on {os.cpu_count()} cores)\n")
+    (ARTIFACTS / "timing.txt").write_text(report)
+    print("\n" + report)
+    assert cold > 0 and all(v > 0 for v in tabs.values())
 
 
 def metrics(page) -> dict[str, str]:
@@ -175,6 +232,7 @@ def _open_tab(page, name: str) -> None:
 
 def _wait_idle(page, timeout_s: float = 90.0) -> None:
     """Until the app has finished its rerun (no running indicator) and charts have drawn."""
+    page.wait_for_timeout(250)          # let a rerun the last action asked for begin
     deadline = time.monotonic() + timeout_s
     while time.monotonic() < deadline:
         running = page.locator('[data-testid="stStatusWidget"]').count()
@@ -184,19 +242,62 @@ def _wait_idle(page, timeout_s: float = 90.0) -> None:
         page.wait_for_timeout(100)
 
 
-def test_each_view_and_the_setpoint_round_trip(page):
+CLIPPED_JS = """() => [...document.querySelectorAll(
+    '[data-testid="stMetricValue"], [data-testid="stMetricLabel"], [data-testid="stMetricDelta"]')]
+    .flatMap(box => [...box.querySelectorAll('[data-testid="stMarkdownContainer"]')].map(el => {
+        const card = box.closest('[data-testid="stMetric"]').getBoundingClientRect();
+        const r = el.getBoundingClientRect();
+        return (el.scrollWidth > el.clientWidth + 1 || r.right > card.right + 1) ? el.innerText : null; }))
+    .filter(Boolean)"""
+
+OVERLAP_JS = """() => [...document.querySelectorAll('.js-plotly-plot')].flatMap(plot => {
+    const legend = plot.querySelector('g.legend');
+    if (!legend) return [];
+    const L = legend.getBoundingClientRect();
+    return [...plot.querySelectorAll('text')].filter(t => /^[xy]\\d*title$/.test(t.getAttribute('class') || ''))
+        .map(t => [t, t.getBoundingClientRect()])
+        .filter(([t, r]) => r.width > 0 && r.left < L.right && L.left < r.right && r.top < L.bottom && L.top < r.bottom)
+        .map(([t]) => (plot.querySelector('.gtitle') || {}).textContent + ': ' + t.textContent); })"""
+
+
+def _layout_problems(page) -> list[str]:
+    """Key-figure text cut off, and legends drawn over an axis title."""
+    return [f"cut off: {t}" for t in page.evaluate(CLIPPED_JS)] + [f"legend on {t}" for t in page.evaluate(OVERLAP_JS)]
+
+
+@pytest.mark.parametrize("width", [1280, 1920])
+def test_each_view_at_both_widths(browser, server, width):
+    """Issue 12.4: at 1280 and 1920 px every view draws, no key figure is cut off and no legend covers
+    an axis title; the screenshots (whole page) go to test-artifacts/ for a reviewer."""
     ARTIFACTS.mkdir(exist_ok=True)
-    for name in VIEWS:
-        _open_tab(page, name)
-        if name == "Setpoint comparison":
-            page.get_by_role("button", name="Compare", exact=True).click()
-            page.get_by_text("Recommended:").first.wait_for(timeout=180_000)
-            _wait_idle(page)
-        if page.locator(".js-plotly-plot").count() == 0 and name in ("Along the line", "Over time", "Product"):
-            page.locator(".js-plotly-plot").first.wait_for()
-        page.wait_for_timeout(800)
-        page.screenshot(path=str(ARTIFACTS / f"view-{re.sub(r'[^a-z]+', '-', name.lower()).strip('-')}.png"))
-        assert page.get_by_text("could not be drawn").count() == 0, name
+    context = browser.new_context(viewport={"width": width, "height": 2400})   # the page scrolls inside: tall
+    page = context.new_page()
+    page.set_default_timeout(180_000)
+    problems = []
+    try:
+        page.goto(server)
+        page.get_by_test_id("stMetricValue").first.wait_for()
+        for name in VIEWS:
+            _open_tab(page, name)
+            if name == "Setpoint comparison":
+                page.get_by_text("With sensitivity", exact=True).click()
+                _wait_idle(page)
+                page.get_by_role("button", name="Compare", exact=True).click()
+                page.get_by_text("Recommended:").first.wait_for(timeout=300_000)
+                _wait_idle(page)
+            if name in ("Along the line", "Over time", "Product", "Setpoint comparison"):
+                page.locator(".js-plotly-plot .main-svg").first.wait_for()
+            page.wait_for_timeout(800)
+            slug = re.sub(r"[^a-z]+", "-", name.lower()).strip("-")
+            page.screenshot(path=str(ARTIFACTS / f"view-{slug}-{width}.png"))
+            assert page.get_by_text("could not be drawn").count() == 0, name
+            problems += [f"{name}: {p}" for p in _layout_problems(page)]
+    finally:
+        context.close()
+    assert not problems, problems
+
+
+def test_setpoint_round_trip(page):
     # a setpoint change on the polyol demo, timed from Enter to the updated Transfer time
     path = ROOT / "demo_scenarios" / "polyol_tank_transfer.toml"
     scenario = load_scenario(path)
@@ -224,7 +325,8 @@ def test_each_view_and_the_setpoint_round_trip(page):
     page.screenshot(path=str(ARTIFACTS / "browser-after-setpoint.png"))
     report = (f"setpoint change -> updated Transfer time in Chromium (new setpoints, uncached plans): "
               f"{', '.join(f'{t:.3f}' for t in timings)} s; median {statistics.median(timings):.3f} s\n")
-    (ARTIFACTS / "timing.txt").write_text(report)
+    with open(ARTIFACTS / "timing.txt", "a", encoding="utf-8") as out:
+        out.write(report)
     print("\n" + report)
 
 
@@ -263,7 +365,7 @@ def test_share_link_opens_the_same_plan(browser, server):
     assert len(url) <= 2000
     context = browser.new_context(viewport={"width": 1440, "height": 2200})
     page = context.new_page()
-    page.set_default_timeout(90_000)
+    page.set_default_timeout(180_000)
     try:
         page.goto(url)
         page.get_by_text(doc["scenario"]).first.wait_for()
@@ -279,3 +381,133 @@ def test_share_link_opens_the_same_plan(browser, server):
             assert _number(shown[label]) == pytest.approx(value, abs=half_digit * 1.001), (label, shown[label])
     finally:
         context.close()
+
+
+# ------------------------------------------------------------------------------------- nothing leaves the server
+
+OUTSIDE = "198.51.100.7"            # TEST-NET-2 (RFC 5737): never a real server
+PAYLOAD = f"![p](http://{OUTSIDE}/p) **b** <img src=http://{OUTSIDE}/h>"   # fits every name field
+
+
+def _payload_scenario():
+    """The first demo with the payload in every name a scenario carries."""
+    from planner.scenario.schema import scenario_from_dict, scenario_to_dict
+
+    data = scenario_to_dict(load_scenario(DEMO_FILES[0]))
+    data["name"] = "Quay " + PAYLOAD
+    data["route"]["segments"][0]["name"] = "S " + PAYLOAD
+    data["product"]["name"] = "P " + PAYLOAD
+    for part in ("source", "destination", "pump"):
+        if data.get(part):
+            data[part]["name"] = part[0] + " " + PAYLOAD
+    return scenario_from_dict(data)
+
+
+def _outside(requests: list[str], server: str) -> list[str]:
+    return [u for u in requests if not (u.startswith(server) or u.startswith(("data:", "blob:", "file:")))]
+
+
+def _shown_text(page) -> str:
+    """The page's text as a reader sees it (the invisible word joiners that keep user text from
+    becoming links removed)."""
+    return page.evaluate("() => document.body.innerText").replace("\u2060", "")
+
+
+def _no_rendered_payload(page, where: str) -> None:
+    assert page.locator(f"img[src*='{OUTSIDE}']").count() == 0, where
+    assert page.locator(f"a[href*='{OUTSIDE}']").count() == 0, where
+
+
+def _visit_every_view(page) -> None:
+    for name in VIEWS:
+        _open_tab(page, name)
+        if name == "Inputs":
+            for section in ("Product", "Route", "Tracing", "Pump", "Source & destination", "Site & limits",
+                            "Costs & schedule"):
+                page.get_by_role("tab", name=section).last.click()      # the sub-tab, after the views
+                page.wait_for_timeout(200)
+                _wait_idle(page)
+                _no_rendered_payload(page, section)
+        if name == "Setpoint comparison":
+            page.get_by_role("button", name="Compare", exact=True).click()
+            page.get_by_text("Recommended:").first.wait_for(timeout=180_000)
+            _wait_idle(page)
+        assert page.get_by_text("could not be drawn").count() == 0, name
+        _no_rendered_payload(page, name)
+
+
+def _save_and_review_with_payload(page) -> None:
+    side = page.get_by_test_id("stSidebar")
+    for label in ("Plan name", "Site / area", "Author"):
+        side.get_by_label(label, exact=True).fill(PAYLOAD)
+        side.get_by_label(label, exact=True).press("Enter")
+        _wait_idle(page)
+    side.get_by_label("Note", exact=True).fill(PAYLOAD)
+    side.get_by_role("button", name="Save plan").click()
+    _wait_idle(page)
+    _open_tab(page, "Review")
+    page.get_by_label("Comment for the reviewer").fill(PAYLOAD)
+    page.get_by_label("Comment for the reviewer").press("Enter")
+    _wait_idle(page)
+    page.get_by_role("button", name="Submit for review").click()
+    _wait_idle(page)
+    page.get_by_label("Reviewer (supervisor)").fill("Sam " + PAYLOAD)
+    page.get_by_label("Reviewer (supervisor)").press("Enter")
+    _wait_idle(page)
+    page.get_by_label("Comment", exact=True).fill(PAYLOAD)
+    page.get_by_label("Comment", exact=True).press("Enter")
+    _wait_idle(page)
+    page.get_by_role("button", name="Return for changes").click()
+    _wait_idle(page)
+    page.get_by_text("was returned for changes").first.wait_for()
+
+
+def test_no_request_leaves_the_server_and_user_text_stays_plain(browser, server, tmp_path):
+    """Issue 12.6: with markdown/HTML image and link payloads in every user-text field (scenario, segment,
+    product, vessel and pump names from a link; plan name, site, author, note and review comments typed;
+    an unknown key in an imported file), no request goes to any origin but the server's, the payload is
+    shown literally, and the framework's Deploy button and statistics are off."""
+    from planner.records.links import link_url, query_for
+
+    context = browser.new_context(viewport={"width": 1280, "height": 2000}, accept_downloads=True)
+    requests: list[str] = []
+    context.on("request", lambda r: requests.append(r.url))
+    page = context.new_page()
+    page.set_default_timeout(180_000)
+    try:
+        page.goto(link_url(server, query_for("line", scenario=_payload_scenario())))
+        page.get_by_test_id("stMetricLabel").first.wait_for()
+        _wait_idle(page)
+        assert page.get_by_text("This link cannot be opened").count() == 0
+        assert f"Quay {PAYLOAD}" in _shown_text(page)                               # shown as typed
+        assert page.get_by_role("button", name="Deploy").count() == 0
+        _visit_every_view(page)
+        _save_and_review_with_payload(page)
+        _no_rendered_payload(page, "review")
+        assert _shown_text(page).count(PAYLOAD) >= 4                # name, site, note, comment …
+        page.screenshot(path=str(ARTIFACTS / "browser-plain-text-review.png"), full_page=True)
+        with page.expect_download(timeout=120_000) as download_info:
+            page.get_by_role("button", name="Plan report (HTML, opens offline)").click()
+        report = tmp_path / "report.html"
+        download_info.value.save_as(str(report))
+        # an imported file with the payload as an unknown key (and a name that is markdown)
+        toml_text = DEMO_FILES[0].read_text(encoding="utf-8").replace(
+            "[site]", f'[site]\n"{PAYLOAD}" = 1', 1)
+        page.get_by_test_id("stSidebar").locator("input[type=file]").set_input_files(
+            files=[{"name": "**bold** plan.toml", "mimeType": "application/toml", "buffer": toml_text.encode()}])
+        page.get_by_text("problem(s)").first.wait_for()
+        _wait_idle(page)
+        _open_tab(page, "Inputs")
+        _no_rendered_payload(page, "import")
+        assert "**bold** plan.toml" in _shown_text(page)
+        assert "they are from another scenario" in _shown_text(page)       # the greyed figures say whose
+        page.screenshot(path=str(ARTIFACTS / "browser-plain-text-import.png"), full_page=True)
+        shown = context.new_page()
+        shown.goto(report.resolve().as_uri())
+        shown.locator(".js-plotly-plot .main-svg").first.wait_for(timeout=60_000)
+        _no_rendered_payload(shown, "report")
+        assert f"Quay {PAYLOAD}" in _shown_text(shown)
+    finally:
+        context.close()
+    assert requests, "no request was recorded"
+    assert not _outside(requests, server), sorted(set(_outside(requests, server)))

@@ -15,6 +15,7 @@ import numpy as np
 import pytest
 from streamlit.testing.v1 import AppTest
 
+from apptest_inputs import editor_with_column, number_field, open_section
 from conftest import DEMO_FILES, ROOT
 from planner.transfer.plan import make_plan, with_changes
 from planner.reports.plan_json import plan_json
@@ -41,6 +42,11 @@ def peak_discharge_pressure(doc: dict) -> float:
     if push and push.get("possible"):
         values.append(push["peak_discharge_pressure_pa"])
     return max(values)
+
+
+def unescaped(markdown: str) -> str:
+    """Markdown source as read: backslash escapes (CommonMark 2.4) and ** dropped."""
+    return re.sub(r"\\(.)", r"\1", markdown).replace("**", "")
 
 
 def _app() -> AppTest:
@@ -72,9 +78,7 @@ def _view(at: AppTest, name: str) -> AppTest:
 
 
 def _setpoint_input(at: AppTest):
-    found = [w for w in at.number_input if w.label.startswith("Setpoint")]
-    assert found, f"no setpoint field; number fields: {[w.label for w in at.number_input]}"
-    return found[0]
+    return number_field(at, "Setpoint")
 
 
 @pytest.mark.parametrize("path", DEMO_FILES, ids=[p.stem for p in DEMO_FILES])
@@ -148,13 +152,11 @@ def test_us_units_show_the_same_quantities_converted():
     np.testing.assert_allclose(t_us, t_si * 9.0 / 5.0 + 32.0, rtol=1e-9)
     # inputs and tables too: the route table's lengths in ft, the ambient in °F
     _view(at, "Inputs")
-    route = [e.value for e in at.get("data_editor") if any(c.startswith("Length") for c in e.value.columns)]
-    assert route, "no route table"
+    route = editor_with_column(at, "Length [ft]").value
     scenario = load_scenario(path)
-    assert "Length [ft]" in route[0].columns
-    np.testing.assert_allclose(route[0]["Length [ft]"].to_numpy(), [s.length * FT_PER_M for s in scenario.route.segments],
+    np.testing.assert_allclose(route["Length [ft]"].to_numpy(), [s.length * FT_PER_M for s in scenario.route.segments],
                                rtol=1e-9)
-    ambient = [w for w in at.number_input if w.label.startswith("Ambient temperature")][0]
+    ambient = number_field(at, "Ambient temperature")
     assert ambient.label.endswith("[°F]")
     assert ambient.value == pytest.approx((scenario.site.ambient_temperature - 273.15) * 9.0 / 5.0 + 32.0, abs=1e-9)
 
@@ -173,10 +175,10 @@ def test_bad_value_shows_its_message_beside_the_field_and_keeps_the_last_results
     path = ROOT / "demo_scenarios" / "syrup_railcar_unload.toml"
     doc = plan_json(make_plan(load_scenario(path)))
     at = _view(_open(path.name), "Inputs")
-    wind = [w for w in at.number_input if w.label.startswith("Wind speed")][0]
+    wind = number_field(at, "Wind speed")
     wind.set_value(75.0).run()
     assert not at.exception
-    beside = [e.value for e in at.error if e.value.startswith("**Wind speed**")]
+    beside = [unescaped(e.value) for e in at.error if e.value.startswith("**Wind speed**")]
     assert beside, [e.value for e in at.error]
     assert "must be at most 60 m/s" in beside[0] and "site.wind_speed" in beside[0]
     assert any("last good inputs" in i.value for i in at.info)
@@ -191,9 +193,10 @@ def test_bad_value_shows_its_message_beside_the_field_and_keeps_the_last_results
     work["route"]["segments"][1]["length"] = "0 m"
     at.session_state["work"] = work
     _view(at, "Inputs")
+    open_section(at, "Route")
     row = [e.value for e in at.error if "row 2" in e.value]
     assert row, [e.value for e in at.error]
-    assert "Pipe rack to syrup house" in row[0] and "**Length**" in row[0] and "at least 0.01 m" in row[0]
+    assert "Pipe rack to syrup house" in row[0] and "**Length**" in row[0] and "at least 0.01 m" in unescaped(row[0])
 
 
 def test_report_is_self_contained_and_carries_the_cautions():
@@ -256,3 +259,59 @@ def test_table_edits_are_written_back_in_si(monkeypatch):
     # untouched cells keep their stored values exactly
     assert state["work"]["route"]["segments"][1] == original["route"]["segments"][1]
     assert state["table_gen"]["route.segments"] == 1
+
+
+def _press_compare(at: AppTest, values: str) -> AppTest:
+    field = [w for w in at.text_input if w.label.startswith("Values [")]
+    assert field, [w.label for w in at.text_input]
+    field[0].set_value(values)
+    [b for b in at.button if b.label == "Compare"][0].click()
+    return at.run()
+
+
+def _comparison_shown(at: AppTest) -> str:
+    assert not at.exception
+    broken = [e.value for e in at.error if "could not be drawn" in e.value]
+    assert not broken, broken
+    recommended = [unescaped(s.value) for s in at.success if s.value.startswith("Recommended:")]
+    assert recommended, [e.value for e in at.error] + [s.value for s in at.success]
+    return recommended[0]
+
+
+def test_the_setpoint_comparison_can_be_run_again():
+    """Issue 12.1: the same values twice, again after SI -> US, and in a second session (another
+    browser) that finds the comparison already worked out by the first: each shows the result.
+    The reference is ``planner.checks.compare.compare`` on the same values."""
+    from planner.checks.compare import compare
+
+    path = ROOT / "demo_scenarios" / "polyol_tank_transfer.toml"
+    expected = compare(load_scenario(path), lever="setpoint", values=[30.0, 40.0])
+    best = expected.rows[expected.recommended]["value"]
+    at = _view(_open(path.name), "Setpoint comparison")
+    first = _comparison_shown(_press_compare(at, "30, 40"))
+    assert f"{best:.1f} °C" in first
+    assert _comparison_shown(_press_compare(at, "30, 40")) == first
+    at.radio(key="unit_system").set_value("US").run()
+    again = _comparison_shown(_press_compare(at, "86, 104"))              # the same setpoints in °F
+    assert f"{best * 9 / 5 + 32:.1f} °F" in again
+    other = _view(_open(path.name), "Setpoint comparison")                # a second session
+    assert _comparison_shown(_press_compare(other, "30, 40")) == first
+
+
+def test_an_invalid_value_keeps_its_inputs_sub_tab_open():
+    """Issue 12.2: the sub-tab with the field stays open (its label gains the warning) and the message
+    is drawn beside the field; the limit is the schema's (Site.wind_speed at most 60 m/s)."""
+    from dashboard.inputs import SECTION_KEY
+
+    at = _view(_open(DEMO_FILES[0].name), "Inputs")
+    open_section(at, "Site & limits")
+    number_field(at, "Wind speed").set_value(75.0).run()
+    assert not at.exception
+    assert at.session_state[SECTION_KEY] == "⚠️ Site & limits (1)"
+    beside = [e.value for e in at.error if e.value.startswith("**Wind speed**")]
+    assert beside and "60 m/s" in unescaped(beside[0])
+    assert [w for w in at.number_input if w.label.startswith("Wind speed")][0].value == pytest.approx(75.0)
+    # fixing it keeps the sub-tab open too, and the warning goes
+    number_field(at, "Wind speed").set_value(5.0).run()
+    assert at.session_state[SECTION_KEY] == "Site & limits"
+    assert not [e.value for e in at.error if e.value.startswith("**Wind speed**")]

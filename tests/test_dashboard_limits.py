@@ -15,6 +15,7 @@ from __future__ import annotations
 import copy
 import http.client
 import os
+import re
 import socket
 import subprocess
 import sys
@@ -45,7 +46,8 @@ def _app(params: dict) -> AppTest:
 
 
 def _texts(elements) -> list[str]:
-    return [e.value for e in elements]
+    # as a reader sees it: user text reaches markdown escaped (dashboard.plaintext.plain)
+    return [re.sub(r"\\(.)", r"\1", e.value) for e in elements]
 
 
 def _heavy_link() -> dict:

@@ -13,12 +13,14 @@ from __future__ import annotations
 
 import base64
 import copy
+import re
 import json
 import zlib
 
 import pytest
 from streamlit.testing.v1 import AppTest
 
+from apptest_inputs import editor_with_column, number_field
 from conftest import DEMO_FILES, PASSWORDS, ROOT, make_people
 from planner.checks.findings import assess
 from planner.records.links import (LINK_VERSION, URL_BUDGET_CHARS, LinkError, fits_in_url, link_url, pack_scenario,
@@ -49,7 +51,8 @@ def _app(params: dict | None = None) -> AppTest:
 
 
 def _texts(elements) -> list[str]:
-    return [e.value for e in elements]
+    """The text of markdown elements as a reader sees it (escapes of user text removed)."""
+    return [re.sub(r"\\(.)", r"\1", e.value) for e in elements]
 
 
 def _title(at: AppTest) -> str:
@@ -70,9 +73,7 @@ def _view(at: AppTest, name: str) -> AppTest:
 
 
 def _number_input(at: AppTest, label_start: str):
-    found = [w for w in at.number_input if w.label.startswith(label_start)]
-    assert found, f"no field {label_start!r}; fields: {[w.label for w in at.number_input]}"
-    return found[0]
+    return number_field(at, label_start)
 
 
 def _no_trouble(at: AppTest) -> None:
@@ -99,7 +100,7 @@ def test_a_share_link_opens_the_same_inputs_and_view(path, db):
     _view(at, "Inputs")
     ambient = _number_input(at, "Ambient temperature")
     assert ambient.value == pytest.approx(scenario.site.ambient_temperature - 273.15, abs=1e-9)
-    lengths = [e.value for e in at.get("data_editor") if "Length [m]" in e.value.columns][0]["Length [m]"]
+    lengths = editor_with_column(at, "Length [m]").value["Length [m]"]
     assert list(lengths) == pytest.approx([s.length for s in scenario.route.segments], rel=1e-12)
     assert not db.exists()          # opening and showing a packed link does not touch the plans file
 
@@ -462,3 +463,36 @@ def test_unsaved_changes_survive_an_approval_made_in_another_session(db):
     first = store.revision(row.id, 1)
     assert first.state == "approved"
     assert first.scenario.site.wind_speed == pytest.approx(load_scenario(DEMO_FILES[0]).site.wind_speed, rel=1e-12)
+
+
+# ------------------------------------------------------------------------------------- labels follow the state
+
+def _caption_and_working_on(at: AppTest) -> tuple[str, str]:
+    caption = [c for c in _texts(at.caption) if "— units:" in c]
+    working = [c for c in _texts(at.sidebar.caption) if c.startswith("Working on:")]
+    assert caption and working
+    return caption[0], working[0]
+
+
+def test_labels_follow_the_revision_state_and_the_loaded_scenario(db):
+    """Issue 12.3: approved in another session, the caption and the sidebar say "approved" on the next run
+    (not the "draft" of the time it was opened); a share link clears the demo picker."""
+    store, people = _people(db)
+    scenario = load_scenario(DEMO_FILES[0])
+    saved = store.save("Wren discharge", scenario, people["ana"], site="jetty 2")
+    at = _app({"plan": str(saved.plan_id), "rev": "1", "view": "plan"})
+    _no_trouble(at)
+    caption, working = _caption_and_working_on(at)
+    assert "revision 1 (draft)" in caption and "revision 1 (draft)" in working
+    assert at.selectbox(key="demo_choice").value is None           # not a demo any more
+    store.submit(saved.plan_id, 1, people["ana"])
+    store.approve(saved.plan_id, 1, people["sam"], "fine")         # another session signs it off
+    at.run()
+    caption, working = _caption_and_working_on(at)
+    assert "revision 1 (approved)" in caption and "revision 1 (approved)" in working, (caption, working)
+    assert not [c for c in (caption, working) if "draft" in c]
+    linked = _app(query_for("plan", scenario=load_scenario(DEMO_FILES[1])))
+    assert linked.selectbox(key="demo_choice").value is None
+    assert "shared link" in _caption_and_working_on(linked)[0]
+    plain_demo = _app()
+    assert plain_demo.selectbox(key="demo_choice").value == DEMO_FILES[0].name

@@ -630,3 +630,18 @@ def save_scenario(scenario: Scenario, path: str | Path, system: str = "SI") -> N
 
 def json_schema() -> dict:
     return Scenario.model_json_schema()
+
+
+def field_choices(model: type[BaseModel], field: str) -> tuple:
+    """The allowed values of a choice field (its ``Literal[...]``, also inside ``Optional``), in the
+    order the schema lists them: ``field_choices(Tracing, "kind")`` -> ``("none", "electric_constant", ...)``.
+    Raises ValueError for a field that is not a choice."""
+    from typing import get_args, get_origin
+
+    pending = [model.model_fields[field].annotation]
+    while pending:
+        annotation = pending.pop(0)
+        if get_origin(annotation) is Literal:
+            return tuple(get_args(annotation))
+        pending.extend(a for a in get_args(annotation) if a is not type(None))
+    raise ValueError(f"{model.__name__}.{field} is not a choice field")
