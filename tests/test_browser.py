@@ -11,18 +11,18 @@ from __future__ import annotations
 import json
 import os
 import re
-import signal
 import socket
 import statistics
 import subprocess
 import sys
 import time
-import urllib.request
 from pathlib import Path
 
 import pytest
 
-from conftest import DEMO_FILES, ROOT
+from conftest import DEMO_FILES, PASSWORDS, ROOT, make_people
+from dashboard_server import start_dashboard, stop_dashboard, wait_healthy
+from planner.records.store import PlanStore
 from planner.transfer.plan import make_plan, with_changes
 from planner.scenario.schema import load_scenario
 
@@ -50,43 +50,24 @@ def _free_port() -> int:
 
 
 @pytest.fixture(scope="module")
-def server(tmp_path_factory):
+def server_db(tmp_path_factory):
+    """The embedded SQLite file the browser tests' server uses (accounts are made in it by the tests)."""
+    return tmp_path_factory.mktemp("streamlit") / "plans.sqlite"
+
+
+@pytest.fixture(scope="module")
+def server(server_db):
     _require_chromium()
     port = _free_port()
-    folder = tmp_path_factory.mktemp("streamlit")
-    log_path = folder / "server.log"
-    log = open(log_path, "w")
+    log_path = server_db.parent / "server.log"
     # the project's .streamlit/config.toml applies (statistics off, no developer toolbar): not overridden here
-    env = dict(os.environ, PLANNER_DB_PATH=str(folder / "plans.sqlite"))
-    proc = subprocess.Popen(
-        [sys.executable, "-m", "streamlit", "run", "dashboard/app.py", "--server.headless", "true",
-         "--server.port", str(port), "--server.address", "127.0.0.1"],
-        cwd=ROOT, stdout=log, stderr=subprocess.STDOUT, start_new_session=True, env=env)
+    proc, log = start_dashboard(port, log_path, dict(os.environ, PLANNER_DB_PATH=str(server_db)))
     url = f"http://127.0.0.1:{port}"
     try:
-        deadline = time.monotonic() + 90
-        while True:
-            try:
-                with urllib.request.urlopen(url + "/_stcore/health", timeout=2) as response:
-                    if response.read().decode().strip() == "ok":
-                        break
-            except OSError:
-                pass
-            if proc.poll() is not None or time.monotonic() > deadline:
-                raise RuntimeError(f"the dashboard server did not start:\n{log_path.read_text()[-3000:]}")
-            time.sleep(0.3)
+        wait_healthy(url, proc, log_path)
         yield url
     finally:
-        # the server's own process group: the server and any comparison workers it forked
-        try:
-            os.killpg(proc.pid, signal.SIGTERM)
-            proc.wait(timeout=15)
-        except ProcessLookupError:
-            pass
-        except subprocess.TimeoutExpired:
-            os.killpg(proc.pid, signal.SIGKILL)
-            proc.wait(timeout=15)
-        log.close()
+        stop_dashboard(proc, log)
 
 
 @pytest.fixture(scope="module")
@@ -436,39 +417,68 @@ def _visit_every_view(page) -> None:
         _no_rendered_payload(page, name)
 
 
-def _save_and_review_with_payload(page) -> None:
+def _fill(page, label: str, value: str, within=None) -> None:
+    """Type into a labelled field (of ``within``, a part of the page, if given) and wait for the rerun."""
+    field = (within or page).get_by_label(label, exact=True)
+    field.fill(value)
+    field.press("Enter")
+    _wait_idle(page)
+
+
+def _sign_in(page, name: str) -> None:
+    sidebar = page.get_by_test_id("stSidebar")
+    _fill(page, "Account name", name, within=sidebar)
+    _fill(page, "Password", PASSWORDS[name], within=sidebar)
+    sidebar.get_by_role("button", name="Sign in", exact=True).click()
+    sidebar.get_by_text(f"Signed in as {name}").first.wait_for()
+    _wait_idle(page)
+
+
+def _sign_out(page) -> None:
+    page.get_by_test_id("stSidebar").get_by_role("button", name="Sign out", exact=True).click()
+    page.get_by_test_id("stSidebar").get_by_role("button", name="Sign in", exact=True).wait_for()
+    _wait_idle(page)
+
+
+def _save_and_review_with_payload(page, server_db: Path) -> None:
+    """A planner (signed in) saves with the payload as plan name, site and note, and submits with it as
+    the comment; a supervisor (signed in) returns the revision with it as the comment."""
     side = page.get_by_test_id("stSidebar")
-    for label in ("Plan name", "Site / area", "Author"):
-        side.get_by_label(label, exact=True).fill(PAYLOAD)
-        side.get_by_label(label, exact=True).press("Enter")
-        _wait_idle(page)
+    _sign_in(page, "ana")
+    for label in ("Plan name", "Site / area"):
+        _fill(page, label, PAYLOAD, within=side)
     side.get_by_label("Note", exact=True).fill(PAYLOAD)
-    side.get_by_role("button", name="Save plan").click()
+    side.get_by_label("Note", exact=True).press("Control+Enter")
+    _wait_idle(page)
+    side.get_by_role("button", name="Save plan", exact=True).click()
+    page.get_by_text("Saved as revision 1").first.wait_for()
     _wait_idle(page)
     _open_tab(page, "Review")
-    page.get_by_label("Comment for the reviewer").fill(PAYLOAD)
-    page.get_by_label("Comment for the reviewer").press("Enter")
+    _fill(page, "Comment for the reviewer", PAYLOAD)
+    page.get_by_role("button", name="Submit for review", exact=True).click()
+    page.get_by_text("submitted for review by ana").first.wait_for()
     _wait_idle(page)
-    page.get_by_role("button", name="Submit for review").click()
+    _sign_out(page)
+    _sign_in(page, "sam")
+    _open_tab(page, "Review")
+    _fill(page, "Comment", PAYLOAD)
+    page.get_by_role("button", name="Return for changes", exact=True).click()
+    page.get_by_text("returned for changes").first.wait_for()
     _wait_idle(page)
-    page.get_by_label("Reviewer (supervisor)").fill("Sam " + PAYLOAD)
-    page.get_by_label("Reviewer (supervisor)").press("Enter")
-    _wait_idle(page)
-    page.get_by_label("Comment", exact=True).fill(PAYLOAD)
-    page.get_by_label("Comment", exact=True).press("Enter")
-    _wait_idle(page)
-    page.get_by_role("button", name="Return for changes").click()
-    _wait_idle(page)
-    page.get_by_text("was returned for changes").first.wait_for()
+    _no_rendered_payload(page, "review")
+    assert _shown_text(page).count(PAYLOAD) >= 2, "the review comments are not shown as typed"
+    [row] = PlanStore(path=server_db).plans()
+    assert (row.name, row.author) == (PAYLOAD, "ana")
 
 
-def test_no_request_leaves_the_server_and_user_text_stays_plain(browser, server, tmp_path):
+def test_no_request_leaves_the_server_and_user_text_stays_plain(browser, server, server_db, tmp_path):
     """Issue 12.6: with markdown/HTML image and link payloads in every user-text field (scenario, segment,
     product, vessel and pump names from a link; plan name, site, author, note and review comments typed;
     an unknown key in an imported file), no request goes to any origin but the server's, the payload is
     shown literally, and the framework's Deploy button and statistics are off."""
     from planner.records.links import link_url, query_for
 
+    make_people(PlanStore(path=server_db), names=("root", "ana", "sam"))      # before the page opens
     context = browser.new_context(viewport={"width": 1280, "height": 2000}, accept_downloads=True)
     requests: list[str] = []
     context.on("request", lambda r: requests.append(r.url))
@@ -482,8 +492,7 @@ def test_no_request_leaves_the_server_and_user_text_stays_plain(browser, server,
         assert f"Quay {PAYLOAD}" in _shown_text(page)                               # shown as typed
         assert page.get_by_role("button", name="Deploy").count() == 0
         _visit_every_view(page)
-        # saving and reviewing now need signed-in accounts; the payloads in plan name, note and review
-        # comments are not typed here (names come from the account, never a text box)
+        _save_and_review_with_payload(page, server_db)
         with page.expect_download(timeout=120_000) as download_info:
             page.get_by_role("button", name="Plan report (HTML, opens offline)").click()
         report = tmp_path / "report.html"

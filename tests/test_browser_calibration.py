@@ -12,7 +12,7 @@ import sys
 import pytest
 
 from conftest import DEMO_DIR, ROOT
-from test_browser import ARTIFACTS, _number, browser, metrics, page, server  # noqa: F401  (fixtures)
+from test_browser import ARTIFACTS, _number, browser, metrics, page, server, server_db  # noqa: F401  (fixtures)
 
 BARGE = DEMO_DIR / "fuel_oil_barge_discharge.toml"
 DEMO_LOG = DEMO_DIR / "logs" / "barge_wren_2026-01-14.csv"

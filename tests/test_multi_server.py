@@ -10,18 +10,14 @@ read back through ``planner.records.store.PlanStore`` on the same database.
 from __future__ import annotations
 
 import os
-import signal
-import subprocess
-import sys
-import time
-import urllib.request
 
 import pytest
 
-from conftest import DEMO_FILES, PASSWORDS, ROOT, make_people
+from conftest import DEMO_FILES, make_people
+from dashboard_server import start_dashboard, stop_dashboard, wait_healthy
 from planner.records.store import PlanStore
 from planner.scenario.schema import load_scenario
-from test_browser import ARTIFACTS, CHROMIUM, LAUNCH_ARGS, _free_port, _require_chromium, _wait_idle
+from test_browser import ARTIFACTS, CHROMIUM, LAUNCH_ARGS, _fill, _free_port, _require_chromium, _sign_in, _wait_idle
 
 pytestmark = pytest.mark.postgres
 
@@ -36,43 +32,6 @@ def shared(pg_server):
     store.close()
 
 
-def _start(url: str, port: int, log_path):
-    env = {**os.environ, "PLANNER_DB_URL": url}
-    env.pop("PLANNER_DB_PATH", None)
-    log = open(log_path, "w")
-    proc = subprocess.Popen(
-        [sys.executable, "-m", "streamlit", "run", "dashboard/app.py", "--server.headless", "true",
-         "--server.port", str(port), "--server.address", "127.0.0.1", "--browser.gatherUsageStats", "false"],
-        cwd=ROOT, stdout=log, stderr=subprocess.STDOUT, start_new_session=True, env=env)
-    return proc, log
-
-
-def _wait_healthy(base: str, proc, log_path) -> None:
-    deadline = time.monotonic() + 120
-    while True:
-        try:
-            with urllib.request.urlopen(base + "/_stcore/health", timeout=2) as response:
-                if response.read().decode().strip() == "ok":
-                    return
-        except OSError:
-            pass
-        if proc.poll() is not None or time.monotonic() > deadline:
-            raise RuntimeError(f"a dashboard server did not start:\n{log_path.read_text()[-3000:]}")
-        time.sleep(0.3)
-
-
-def _stop(proc, log) -> None:
-    try:
-        os.killpg(proc.pid, signal.SIGTERM)
-        proc.wait(timeout=15)
-    except ProcessLookupError:
-        pass
-    except subprocess.TimeoutExpired:
-        os.killpg(proc.pid, signal.SIGKILL)
-        proc.wait(timeout=15)
-    log.close()
-
-
 @pytest.fixture(scope="module")
 def servers(shared, tmp_path_factory):
     url = shared[0]
@@ -81,14 +40,16 @@ def servers(shared, tmp_path_factory):
     try:
         for i in range(2):
             port = _free_port()
-            proc, log = _start(url, port, folder / f"server-{i}.log")
+            env = {**os.environ, "PLANNER_DB_URL": url}
+            env.pop("PLANNER_DB_PATH", None)
+            proc, log = start_dashboard(port, folder / f"server-{i}.log", env)
             started.append((proc, log, f"http://127.0.0.1:{port}", folder / f"server-{i}.log"))
         for proc, _, base, log_path in started:
-            _wait_healthy(base, proc, log_path)
+            wait_healthy(base, proc, log_path)
         yield [base for _, _, base, _ in started]
     finally:
         for proc, log, _, _ in started:
-            _stop(proc, log)
+            stop_dashboard(proc, log)
 
 
 @pytest.fixture(scope="module")
@@ -114,22 +75,6 @@ def _page(browser, address: str):
     page.get_by_test_id("stMetricLabel").first.wait_for()
     _wait_idle(page)
     return context, page
-
-
-def _fill(page, label: str, value: str) -> None:
-    field = page.get_by_label(label, exact=True)
-    field.fill(value)
-    field.press("Enter")
-    _wait_idle(page)
-
-
-def _sign_in(page, name: str) -> None:
-    sidebar = page.get_by_test_id("stSidebar")
-    _fill(sidebar, "Account name", name)
-    _fill(sidebar, "Password", PASSWORDS[name])
-    sidebar.get_by_role("button", name="Sign in", exact=True).click()
-    sidebar.get_by_text(f"Signed in as {name}").first.wait_for()
-    _wait_idle(page)
 
 
 def _ready_to_approve(page, comment: str) -> None:
