@@ -497,6 +497,23 @@ def test_contents_below_their_no_flow_temperature_cannot_be_pushed_out():
     assert "COLD-START-IMPOSSIBLE" not in found(standing(15.0))
 
 
+def test_a_bare_line_far_colder_than_the_product_leaves_the_film_correlations_range():
+    # Sieder & Tate (1936) property correction, range 0.0044 < mu/mu_w < 9.75 (Incropera & DeWitt, conditions
+    # of eq. 8.57) [from memory]; Andrade b = 12000 K: with the product at 60 degC cooling towards a bare wall
+    # near 0 degC, mu/mu_w falls to about exp(12000 (1/333 - 1/273)) ~ 4e-4
+    def bare(b):
+        d = bench()
+        d["product"]["viscosity"] = {"law": "andrade", "coefficients": {"a": math.log(0.5) - b / 333.15, "b": b}}
+        d["source"]["temperature"] = 60.0
+        d["site"].update(ambient_temperature=-20.0, wind_speed=8.0)
+        d["route"]["segments"][0].update(length=30.0, elevation_change=0.0)
+        return d
+
+    f = found(bare(12000.0))["FILM-VISCOSITY-RATIO"]
+    assert f.severity == "caution" and f.value < f.limit == 0.0044
+    assert "FILM-VISCOSITY-RATIO" not in found(bare(300.0))
+
+
 def test_a_calibrated_plan_says_so():
     d = bench()
     d["calibration"] = {"viscosity_factor": 1.2}

@@ -10,12 +10,14 @@ tables (``ratings``: ASME B16.5, IEC 60079-0) and the equipment data in the scen
 from __future__ import annotations
 
 import dataclasses
+import math
 from dataclasses import dataclass
 
 import numpy as np
 
 from planner.checks.caution import STANDING_CAUTION
 from planner.correlations.friction import RE_LAMINAR_MAX, RE_TURBULENT_MIN
+from planner.correlations.heat_transfer import VISCOSITY_RATIO_MAX, VISCOSITY_RATIO_MIN
 from planner.correlations.ratings import temperature_class_limit
 from planner.line.heat_loss import jacket_temperature
 from planner.line.march import Line, MarchResult
@@ -358,6 +360,35 @@ def film_correlation_range(product, runs: list[LineRun]) -> list[Finding]:
                     "dimensionless")]
 
 
+def film_viscosity_ratio(runs: list[LineRun]) -> list[Finding]:
+    """Bulk-to-wall viscosity ratio outside the range of the film's property correction (Sieder & Tate
+    1936: 0.0044 < mu/mu_w < 9.75): the march holds the correction at the range's edge there, so the film
+    coefficient (and the product temperature it sets) is less certain."""
+    worst, where = 0.0, None
+    for run in runs:
+        steps = run.result.steps
+        for k, ratio in enumerate(steps["viscosity_ratio"]):
+            ratio = float(ratio)
+            if VISCOSITY_RATIO_MIN <= ratio <= VISCOSITY_RATIO_MAX:
+                continue
+            limit = VISCOSITY_RATIO_MIN if ratio < VISCOSITY_RATIO_MIN else VISCOSITY_RATIO_MAX
+            excess = math.inf if ratio <= 0.0 else abs(math.log(ratio / limit))
+            if where is None or excess > worst:
+                x = float(steps["x"][k])
+                worst, where = excess, (run.name, _segment_at(run.line.segments, x).name, x, ratio, limit)
+    if where is None:
+        return []
+    name, seg, x, ratio, limit = where
+    side = "below" if ratio < limit else "above"
+    return [Finding("FILM-VISCOSITY-RATIO", "caution", "Wall viscosity beyond the film correlation's range",
+                    Sentence("bulk-to-wall viscosity ratio {ratio} is " + side + " the {limit} the film's "
+                             "viscosity correction was fitted to; the correction is held at {limit}",
+                             ratio=Q(ratio, "dimensionless"), limit=Q(limit, "dimensionless")),
+                    "Read the product temperatures along this part of the line with margin (a wall much colder "
+                    "or hotter than the product: a bare hose or arm, or strong tracing).",
+                    name, seg, x, ratio, limit, "dimensionless")]
+
+
 def _march_temperatures(runs: list[LineRun]) -> list[float]:
     values = []
     for run in runs:
@@ -377,7 +408,7 @@ def assess_line(scenario: Scenario, line: Line, result: MarchResult, name: str =
     found += line_surfaces(scenario, run) + line_pressures(run) + line_regime(scenario, run)
     found += line_poor_heat(scenario, run)
     found += viscosity_range(line.product, _march_temperatures([run]))
-    found += film_correlation_range(line.product, [run])
+    found += film_correlation_range(line.product, [run]) + film_viscosity_ratio([run])
     return _ordered(found)
 
 
@@ -517,7 +548,7 @@ def check_validity(plan: Plan) -> list[Finding]:
     if plan.startup_push is not None:
         temperatures.append(plan.startup_push.start_temperature_k)   # the line's contents pushed out at the start
     product = plan.system.product
-    return viscosity_range(product, temperatures) + film_correlation_range(product, runs)
+    return viscosity_range(product, temperatures) + film_correlation_range(product, runs) + film_viscosity_ratio(runs)
 
 
 def check_tracing_capacity(plan: Plan) -> list[Finding]:

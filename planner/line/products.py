@@ -25,6 +25,10 @@ class ViscosityFitInfo:
     t_max: float
     n_points: int
 
+# A lab point's temperature is known to a few tenths of a kelvin [common practice: a calibrated bath
+# thermometer]; within 1 K of the outermost point the law is read as measured, not extrapolated.
+EXTRAPOLATION_TOLERANCE = 1.0    # K
+
 
 class Product:
     """Temperature-dependent properties of one product.
@@ -118,7 +122,8 @@ class Product:
         return self.spec.vapour_pressure
 
     def is_extrapolation(self, t: float) -> bool:
-        return t < self.fit.t_min - 1e-9 or t > self.fit.t_max + 1e-9
+        """``t`` [K] more than EXTRAPOLATION_TOLERANCE outside the lab points' temperatures."""
+        return t < self.fit.t_min - EXTRAPOLATION_TOLERANCE or t > self.fit.t_max + EXTRAPOLATION_TOLERANCE
 
     @property
     def newtonian(self) -> bool:

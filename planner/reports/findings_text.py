@@ -65,10 +65,7 @@ def amount_text(value, quantity: str, system: str = "SI") -> str:
         return ""
     if not quantity:
         return f"{value:.4g}"
-    decimals = 0 if quantity == "dimensionless" and abs(value) >= 100 else None
-    if quantity == "dimensionless" and decimals is None:
-        return f"{value:.3g}"
-    return format_quantity(float(value), quantity, system, decimals)
+    return format_quantity(float(value), quantity, system)
 
 
 def finding_details(f, system: str = "SI") -> list[str]:

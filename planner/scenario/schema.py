@@ -19,6 +19,7 @@ from pydantic import BaseModel, ConfigDict, Field, ValidationError, field_valida
 
 from planner.errors import ScenarioError
 from planner.correlations.materials import INSULATION_MATERIALS
+from planner.correlations.viscosity import fit_viscosity_law
 from planner.scenario.quantities import Quantity, readable_dump
 
 SCHEMA_VERSION = 1
@@ -79,6 +80,22 @@ class ViscositySpec(_Model):
     law: Literal["andrade", "vft", "walther"] = "andrade"
     points: list[LabPoint] = Field(default_factory=list)
     coefficients: Optional[dict[str, float]] = None
+
+    @field_validator("points")
+    @classmethod
+    def _falling_with_temperature(cls, points):
+        """Viscosity falls as the temperature rises, for every liquid the planner is for: a lab point
+        that is not below the one at the next lower temperature is a typing or unit error."""
+        for kind in ("viscosity", "kinematic_viscosity"):
+            measured = sorted((p.temperature, getattr(p, kind), i) for i, p in enumerate(points)
+                              if getattr(p, kind) is not None)
+            for (t1, v1, i1), (t2, v2, i2) in zip(measured, measured[1:]):
+                if t2 > t1 and not v2 < v1:
+                    raise ValueError(
+                        f"lab point {i2 + 1} (the warmer) has a {kind.replace('_', ' ')} not below that of lab "
+                        f"point {i1 + 1}: viscosity must fall as the temperature rises; check the values and "
+                        "their units")
+        return points
 
     @model_validator(mode="after")
     def _points_or_coefficients(self):
@@ -146,7 +163,32 @@ class ProductSpec(_Model):
             raise ValueError("a power_law product has no yield stress; choose 'herschel_bulkley'")
         if self.rheology != "newtonian" and self.viscosity.law == "walther":
             raise ValueError("the walther law is for kinematic viscosity of Newtonian oils; use andrade or vft for the consistency")
+        if self.viscosity.law == "vft":
+            self._vft_domain()
         return self
+
+    def density_at(self, t: float) -> float:
+        """Density [kg/m3] at ``t`` [K] (linear in temperature about the reference)."""
+        return self.density + self.density_slope * (t - self.density_reference_temperature)
+
+    def _vft_domain(self) -> None:
+        """A VFT law ln mu = a + b/(T - c) is a viscosity law only for b > 0 (falling with temperature)
+        and T > c; the planner asks for it down to the product's no-flow temperature."""
+        v = self.viscosity
+        if v.coefficients is not None:
+            b, c = v.coefficients["b"], v.coefficients["c"]
+        else:
+            values = [p.viscosity if p.viscosity is not None else p.kinematic_viscosity * self.density_at(p.temperature)
+                      for p in v.points]
+            law = fit_viscosity_law("vft", [p.temperature for p in v.points], values).law
+            b, c = law.b, law.c
+        if not b > 0.0:
+            raise ValueError(f"viscosity: the VFT constant b = {b:.6g} K must be > 0 (viscosity falling as the "
+                             "temperature rises)")
+        if not c < self.no_flow_temperature:
+            raise ValueError(f"viscosity: the VFT constant c = {c:.6g} K must be below the no_flow_temperature "
+                             f"({self.no_flow_temperature:.6g} K): the law has no value at or below c; add a lab point "
+                             "nearer the no-flow temperature or use the andrade law")
 
 
 # ------------------------------------------------------------------------------------------

@@ -21,7 +21,7 @@ SENTENCE_DECIMALS = {
     "temperature": 1, "temperature_difference": 0, "pressure": 2, "volume_flow": 1, "volume": 1,
     "length": 0, "small_length": 1, "head": 2, "time": 1, "power": 2, "linear_power": 1, "speed": 2,
     "heat_transfer_coefficient": 1, "dynamic_viscosity": 0, "kinematic_viscosity": 0, "energy": 1,
-    "mass": 0, "rotational_speed": 0, "density": 1, "dimensionless": 0,
+    "mass": 0, "rotational_speed": 0, "density": 1,
 }
 
 
@@ -35,9 +35,11 @@ def format_quantity(value: float | None, kind: str, system: str = "SI", decimals
     """``"55.0 °C"`` / ``"131.0 °F"`` for an SI value of ``kind``; "—" for a missing value."""
     if value is None or (isinstance(value, float) and not math.isfinite(value)):
         return "—"
+    if kind == "dimensionless":    # a bare number: whole above 100, else three significant figures
+        if decimals is None:
+            return f"{value:,.0f}" if abs(value) >= 100 else f"{value:.3g}"
+        return f"{value:,.{decimals}f}"
     digits = SENTENCE_DECIMALS.get(kind, 2) if decimals is None else decimals
-    if kind == "dimensionless":
-        return f"{value:,.{digits}f}"
     number = from_si(float(value), kind, system)
     return f"{number:,.{digits}f} {UNIT_SYSTEMS[system][kind].label}"
 
