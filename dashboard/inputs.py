@@ -630,6 +630,12 @@ def vessels_section(c, problems: Problems) -> None:
     number(a, problems, "source.heat_loss_coefficient", "Shell heat-loss coefficient", "heat_transfer_coefficient")
     number(a, problems, "source.heating_power", "Heating while unloading", "power")
     select(a, problems, "source.heating_medium", "Heating medium", field_choices(Vessel, "heating_medium"))
+    if get_path(work(), "source.heating_medium") == "electric":
+        number(a, problems, "source.heating_limit_temperature", "Heating cut-out temperature", "temperature",
+               help="the contents are not heated past this; empty: the product's maximum")
+    else:
+        number(a, problems, "source.heating_steam_pressure", "Coil steam pressure (gauge)", "pressure",
+               help="the contents are not heated past its saturation temperature; empty: the tracing's steam, else 3.5 bar")
     show_problems(a, problems, "source", "Source")
     b.markdown("**Destination**")
     text(b, problems, "destination.name", "Destination name")

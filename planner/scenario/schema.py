@@ -432,6 +432,9 @@ class Vessel(_Model):
     heat_loss_coefficient: Quantity("heat_transfer_coefficient", ge=0.0, le=100.0, description="overall U of the shell to ambient") = 1.0
     heating_power: Quantity("power", ge=0.0, le=1.0e7, description="heating coil or jacket power while unloading") = 0.0
     heating_medium: Literal["steam", "electric"] = "steam"
+    heating_steam_pressure: Optional[Quantity("pressure", ge=0.0, le=4.0e6, description="steam coils: supply pressure (gauge); empty: the tracing's steam, else 3.5 bar")] = None
+    heating_limit_temperature: Optional[Temperature] = Field(
+        None, description="electric heating: contents temperature at which its controller switches off; empty: the product's maximum")
 
     @model_validator(mode="after")
     def _geometry(self):

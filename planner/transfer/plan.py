@@ -24,9 +24,9 @@ from planner.transfer.startup import Prewarm, PushCold, prewarm, push_cold
 from planner.correlations.steam import latent_heat, saturation_temperature_gauge
 from planner.transfer.system import OperatingPoint, SystemState, TransferSystem
 from planner.transfer.timeline import Timeline, run_transfer
+from planner.transfer.vessels import coil_steam_pressure
 
 J_PER_KWH = 3.6e6
-DEFAULT_COIL_STEAM_GAUGE_PA = 3.5e5  # vessel coils: assumed supply when the line is not steam traced
 
 
 @dataclass(frozen=True)
@@ -245,8 +245,8 @@ def _running_temperatures(system, profile, point, running):
             running[("suction", seg.index)] = min(point.source_temperature, point.pump_inlet_temperature)
 
 
-def _steam_latent(scenario: Scenario) -> float:
-    pressure = scenario.tracing.steam_pressure if scenario.tracing.kind == "steam" else DEFAULT_COIL_STEAM_GAUGE_PA
+def _steam_latent(pressure: float) -> float:
+    """Latent heat [J/kg] of steam supplied at ``pressure`` (gauge) [Pa]."""
     return latent_heat(saturation_temperature_gauge(pressure))
 
 
@@ -254,7 +254,8 @@ def _energy_and_costs(scenario: Scenario, system: TransferSystem, timeline: Time
                       startup_time: float | None) -> tuple[Energy, Costs]:
     tariffs = scenario.costs
     steam_traced = scenario.tracing.kind == "steam"
-    latent = _steam_latent(scenario)
+    latent = _steam_latent(scenario.tracing.steam_pressure)
+    coil_latent = _steam_latent(coil_steam_pressure(scenario))
     trace_j = timeline.trace_energy_j + (warm.energy_j if warm is not None and warm.possible else 0.0)
     vessel_j = timeline.vessel_heating_energy_j
     medium = scenario.source.heating_medium
@@ -262,7 +263,7 @@ def _energy_and_costs(scenario: Scenario, system: TransferSystem, timeline: Time
         tracing_j=trace_j, tracing_electric_j=0.0 if steam_traced else trace_j,
         tracing_steam_kg=trace_j / latent if steam_traced else 0.0, pump_j=timeline.pump_energy_j,
         vessel_heating_j=vessel_j, vessel_heating_electric_j=vessel_j if medium == "electric" else 0.0,
-        vessel_heating_steam_kg=vessel_j / latent if medium == "steam" else 0.0)
+        vessel_heating_steam_kg=vessel_j / coil_latent if medium == "steam" else 0.0)
     electricity = energy.electrical_j / J_PER_KWH * tariffs.electricity_per_kwh
     steam_cost = energy.steam_kg / 1000.0 * tariffs.steam_per_tonne
     hours_at_berth = ((startup_time or 0.0) + timeline.total_time_s) / 3600.0

@@ -121,6 +121,7 @@ class TransferSystem:
         calibration = calibration_of(scenario)
         self.product = product or scenario_product(scenario)
         heat_loss_factor = calibration.heat_loss_factor
+        self.heat_loss_factor = heat_loss_factor      # the lines' loss and the source shell's (calibration)
         self.discharge_line = Line(build_line(scenario.route, scenario.site, heat_loss_factor), self.product, self.tracing)
         self.suction_line = (Line(build_line(scenario.suction, scenario.site, heat_loss_factor), self.product,
                                   self.tracing) if scenario.suction is not None else None)

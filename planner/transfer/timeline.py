@@ -2,7 +2,7 @@
 
 Each increment dV takes dt = dV / Q with Q the operating point at the increment's start (left
 Riemann sum; exact for a constant flow, first order otherwise, so at least 50 increments are used).
-Meanwhile the source cools (lumped vessel balance, ``vessels.cool_contents``) and its level falls,
+Meanwhile the source cools or is heated (lumped vessel balance, ``vessels.heat_contents``) and its level falls,
 the destination level rises, and tracing, pump and vessel heating draw power.
 """
 
@@ -13,7 +13,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from planner.transfer.system import SystemState, TransferSystem
-from planner.transfer.vessels import cool_contents, destination_level, level_from_volume, wetted_area
+from planner.transfer.vessels import destination_level, heat_contents, level_from_volume, source_heating, wetted_area
 
 
 @dataclass
@@ -41,6 +41,8 @@ def run_transfer(system: TransferSystem, steps: int | None = None, first_guess: 
     state = SystemState(source.temperature, source.initial_volume, 0.0)
     ambient = scenario.site.ambient_temperature
     motor_efficiency = scenario.pump.motor_efficiency
+    heating = source_heating(scenario)
+    shell_u = source.heat_loss_coefficient * system.heat_loss_factor
     rows = {k: [] for k in ("time_s", "moved_m3", "flow_m3_s", "source_temperature_k", "pump_inlet_temperature_k",
                             "outlet_temperature_k", "suction_pressure_pa", "discharge_pressure_pa",
                             "pump_differential_pa", "shaft_power_w", "npsh_available_m", "trace_power_w",
@@ -87,14 +89,14 @@ def run_transfer(system: TransferSystem, steps: int | None = None, first_guess: 
         statuses.append(op.status)
         trace_j += trace_power * dt
         pump_j += op.shaft_power / motor_efficiency * dt
-        vessel_j += source.heating_power * dt
-        # the source cools (or is heated) over the increment, then gives up dV
+        # the source cools (or is heated, no hotter than its medium) over the increment, then gives up dV
         mass = product.density(state.source_temperature) * state.source_volume
-        ua = source.heat_loss_coefficient * wetted_area(source, state.source_volume)
-        state = SystemState(
-            cool_contents(state.source_temperature, mass, product.specific_heat(state.source_temperature), ua,
-                          ambient, source.heating_power, dt),
-            max(state.source_volume - increment, 0.0), state.destination_volume_added + increment)
+        ua = shell_u * wetted_area(source, state.source_volume)
+        t_source, heat_j = heat_contents(state.source_temperature, mass, product.specific_heat(state.source_temperature),
+                                         ua, ambient, heating, dt)
+        vessel_j += heat_j
+        state = SystemState(t_source, max(state.source_volume - increment, 0.0),
+                            state.destination_volume_added + increment)
         time += dt
         moved += increment
         # next guess: the flow extrapolated from the last two steps (the flow drifts smoothly), from

@@ -7,13 +7,27 @@ Lumped vessel model: the contents are well mixed at one temperature T,
 which over a step with frozen m, cp, U A and P is the exponential approach to
 T_eq = T_ambient + P / (U A) with time constant m cp / (U A) (Newton's law of cooling; any heat
 transfer text, e.g. Incropera, lumped capacitance method).
+
+Heating while unloading is limited by its medium (``SourceHeating``):
+- steam coils: a coil passes heat in proportion to the steam-to-contents difference,
+  P = UA_coil (T_sat - T), with UA_coil sized so that it gives the rated power at the starting contents
+  temperature and T_sat the saturation temperature at the coil's supply pressure (IAPWS-IF97).  The
+  contents approach (UA T_amb + UA_coil T_sat) / (UA + UA_coil), never above T_sat.
+- electric: the rated power until the contents reach the controller's cut-out temperature (default the
+  product's maximum), then only what holds them there.
+Each step is solved in closed form and returns the heat the medium delivered.
 """
 
 from __future__ import annotations
 
 import math
 
-from planner.scenario.schema import Destination, Vessel
+from dataclasses import dataclass
+
+from planner.correlations.steam import saturation_temperature_gauge
+from planner.scenario.schema import Destination, Scenario, Vessel
+
+DEFAULT_COIL_STEAM_GAUGE_PA = 3.5e5  # vessel coils: assumed supply when the line is not steam traced
 
 
 def _segment_area(radius: float, level: float) -> float:
@@ -64,6 +78,102 @@ def cool_contents(temperature: float, mass: float, specific_heat: float, ua: flo
         return temperature + heating_power * dt / (mass * specific_heat)
     t_eq = t_ambient + heating_power / ua
     return t_eq + (temperature - t_eq) * math.exp(-ua * dt / (mass * specific_heat))
+
+
+@dataclass(frozen=True)
+class SourceHeating:
+    """The source's heating: ``medium`` "steam" or "electric", ``rated_power`` [W], ``limit_k`` the
+    temperature it cannot heat past [K] (steam saturation; the electric cut-out) and, for steam, the coil
+    conductance ``coil_ua`` [W/K]."""
+
+    medium: str
+    rated_power: float
+    limit_k: float
+    coil_ua: float = 0.0
+
+    @property
+    def active(self) -> bool:
+        return self.rated_power > 0.0
+
+
+def coil_steam_pressure(scenario: Scenario) -> float:
+    """Gauge supply pressure of the source's steam coils [Pa]."""
+    source = scenario.source
+    if source is not None and source.heating_steam_pressure is not None:
+        return source.heating_steam_pressure
+    return scenario.tracing.steam_pressure if scenario.tracing.kind == "steam" else DEFAULT_COIL_STEAM_GAUGE_PA
+
+
+def source_heating(scenario: Scenario) -> SourceHeating:
+    source = scenario.source
+    if source.heating_medium == "steam":
+        t_sat = saturation_temperature_gauge(coil_steam_pressure(scenario))
+        drive = t_sat - source.temperature
+        return SourceHeating("steam", source.heating_power, t_sat,
+                             source.heating_power / drive if drive > 0.0 else 0.0)
+    limit = source.heating_limit_temperature
+    return SourceHeating("electric", source.heating_power,
+                         limit if limit is not None else scenario.product.max_temperature)
+
+
+def _lumped(t: float, mcp: float, ua: float, t_eq_drive: float, power: float, dt: float) -> float:
+    """The lumped balance m cp dT/dt = -ua (T - t_eq_drive) + power over dt (exact)."""
+    if ua <= 0.0:
+        return t + power * dt / mcp
+    t_eq = t_eq_drive + power / ua
+    return t_eq + (t - t_eq) * math.exp(-ua * dt / mcp)
+
+
+def _time_to(t: float, target: float, mcp: float, ua: float, t_amb: float, power: float) -> float:
+    """Seconds for the lumped balance to carry ``t`` to ``target`` (inf if it never gets there)."""
+    if ua <= 0.0:
+        rate = power / mcp
+        return (target - t) / rate if rate != 0.0 and (target - t) / rate >= 0.0 else math.inf
+    t_eq = t_amb + power / ua
+    if (t - t_eq) == 0.0:
+        return math.inf
+    ratio = (target - t_eq) / (t - t_eq)
+    return -mcp / ua * math.log(ratio) if 0.0 < ratio <= 1.0 else math.inf
+
+
+def _electric_step(t: float, mcp: float, ua: float, t_amb: float, heat: SourceHeating, dt: float):
+    power, cut, energy = heat.rated_power, heat.limit_k, 0.0
+    if t < cut:
+        reach = _time_to(t, cut, mcp, ua, t_amb, power)
+        if reach >= dt:
+            return _lumped(t, mcp, ua, t_amb, power, dt), power * dt
+        t, energy, dt = cut, power * reach, dt - reach
+    elif t > cut:
+        reach = _time_to(t, cut, mcp, ua, t_amb, 0.0)     # the heater is off until the contents cool to cut
+        if reach >= dt:
+            return _lumped(t, mcp, ua, t_amb, 0.0, dt), 0.0
+        t, dt = cut, dt - reach
+    hold = ua * (cut - t_amb)                              # the controller holds the cut-out temperature
+    if hold <= 0.0:
+        return _lumped(t, mcp, ua, t_amb, 0.0, dt), energy
+    if hold <= power:
+        return cut, energy + hold * dt
+    return _lumped(t, mcp, ua, t_amb, power, dt), energy + power * dt
+
+
+def heat_contents(temperature: float, mass: float, specific_heat: float, ua: float, t_ambient: float,
+                  heat: SourceHeating, dt: float) -> tuple[float, float]:
+    """Contents temperature after ``dt`` [s] with the shell loss ``ua`` [W/K] and the heating, and the
+    heat the heating delivered [J] (the lumped balance in closed form, coefficients frozen)."""
+    mcp = mass * specific_heat
+    if not heat.active:
+        return cool_contents(temperature, mass, specific_heat, ua, t_ambient, 0.0, dt), 0.0
+    if heat.medium == "electric":
+        return _electric_step(temperature, mcp, ua, t_ambient, heat, dt)
+    g = ua + heat.coil_ua
+    if g <= 0.0:
+        return temperature, 0.0
+    t_eq = (ua * t_ambient + heat.coil_ua * heat.limit_k) / g
+    decay = math.exp(-g * dt / mcp)
+    t_new = t_eq + (temperature - t_eq) * decay
+    # delivered: coil_ua * integral (T_sat - T) dt, T = t_eq + (T0 - t_eq) e^(-t/tau), tau = mcp / g
+    delivered = heat.coil_ua * ((heat.limit_k - t_eq) * dt - (temperature - t_eq) * mcp / g * (1.0 - decay))
+    return t_new, max(delivered, 0.0)
 
 
 def destination_level(dest: Destination, added_volume: float) -> float:
