@@ -514,6 +514,25 @@ def test_a_bare_line_far_colder_than_the_product_leaves_the_film_correlations_ra
     assert "FILM-VISCOSITY-RATIO" not in found(bare(300.0))
 
 
+def test_contents_left_set_after_the_prewarm_stop_the_plan():
+    # an untraced hose whose contents start below the no-flow temperature never warms: nothing can move
+    # (issue 10 item 6; the pre-warm model is tested in tests/test_prewarm_gaps.py)
+    def line(hose_traced):
+        d = bench()
+        d["product"]["no_flow_temperature"] = 10.0
+        d["tracing"] = {"kind": "electric_constant", "setpoint": 40.0, "output": "40 W/m"}
+        d["route"]["segments"][0]["insulation"] = [{"material": "mineral_wool", "thickness": 50}]
+        d["route"]["segments"].append({"name": "hose", "kind": "hose", "inside_diameter": "100 mm", "length": 6.0,
+                                       "pressure_rating": "16 bar", "traced": hose_traced,
+                                       "insulation": [{"material": "mineral_wool", "thickness": 50}]})
+        d["schedule"].update(start_mode="prewarm", line_start_temperature=5.0)
+        return d
+
+    f = found(line(False))["PREWARM-CONTENTS-STUCK"]
+    assert f.severity == "stop" and "hose" in f.message
+    assert "PREWARM-CONTENTS-STUCK" not in found(line(True))
+
+
 def test_a_calibrated_plan_says_so():
     d = bench()
     d["calibration"] = {"viscosity_factor": 1.2}

@@ -587,6 +587,11 @@ def check_startup(plan: Plan) -> list[Finding]:
     if plan.start_mode == "prewarm" and not plan.prewarm.possible:
         out.append(Finding("PREWARM-IMPOSSIBLE", "stop", "Pre-warm cannot reach its target", plan.prewarm.message,
                            "Start by pushing the cold contents out if they can flow, or add heat."))
+    if plan.prewarm_stuck:
+        out.append(Finding("PREWARM-CONTENTS-STUCK", "stop", "The contents cannot move after the pre-warm",
+                           plan.prewarm_stuck,
+                           "Trace the untraced parts (valves, flanges, hoses), warm them by other means, or raise the "
+                           "setpoint; do not start the pump against set contents."))
     if plan.start_mode == "push_cold" and not plan.push_cold.possible:
         out.append(Finding("COLD-START-IMPOSSIBLE", "stop", "The cold contents cannot be pushed out",
                            plan.push_cold.message, "Pre-warm the line first."))

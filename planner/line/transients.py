@@ -9,6 +9,17 @@ C = rho_p cp_p A_inside + m_steel c_steel [J/(m K)]; q_loss from the outward the
 setpoint; at the setpoint the thermostat holds it). Integrated in small exponential steps with the
 coefficients linearised at each step (exact for constant coefficients).
 
+An untraced gap inside a traced segment (valves, flanges: ``untraced_length``) is its own cold spot:
+the traced pipe either side warms at the heater's full output, and the gap warms only by conduction
+along the pipe wall and the contents from its two warm ends (``gap_warmup``), the fin equation
+
+    C dT/dt = kA d2T/dx2 - U (T - T_amb),  T = T_end at both ends of the gap,
+
+whose steady centre temperature is T_amb + (T_end - T_amb) / cosh(m L / 2), m = sqrt(U / kA)
+(Incropera & DeWitt, ch. 3, the fin with both ends held), reached through the sine series of the
+transient (separation of variables; Carslaw & Jaeger, *Conduction of Heat in Solids*, ch. 3), with
+U, kA and C frozen at the mean of the start and end temperatures.  The untraced length of a segment is taken as one gap (the slowest way it can be split).
+
 Lumped means the product's own conduction is taken as fast. For thick, viscous contents the centre
 of a large pipe warms and cools more slowly than this says: treat warm-up times as the shortest
 possible and cool-down times as the longest likely when the heater is on, and read them with margin.
@@ -26,11 +37,17 @@ from planner.line.tracing import Heater
 
 STEEL_DENSITY = 7850.0        # kg/m3 carbon steel [handbook]
 STEEL_SPECIFIC_HEAT = 490.0   # J/(kg K) carbon steel at 20-100 degC [handbook, mem]
+STEEL_CONDUCTIVITY = 45.0     # W/(m K) carbon steel near 100 degC [handbook, mem]
+HOSE_WALL_CONDUCTIVITY = 0.25  # W/(m K) reinforced elastomer [mem]
+
+
+def _metal_area(seg: LineSegment) -> float:
+    return math.pi / 4.0 * (seg.outside_diameter ** 2 - seg.inside_diameter ** 2)
 
 
 def heat_capacity_per_metre(seg: LineSegment, product: Product, temperature: float) -> float:
     inside = product.density(temperature) * product.specific_heat(temperature) * seg.area
-    metal_area = math.pi / 4.0 * (seg.outside_diameter ** 2 - seg.inside_diameter ** 2)
+    metal_area = _metal_area(seg)
     if seg.kind == "hose":
         return inside + metal_area * 1200.0 * 1500.0  # elastomer hose wall [mem]
     return inside + metal_area * STEEL_DENSITY * STEEL_SPECIFIC_HEAT
@@ -90,3 +107,77 @@ def evolve(seg: LineSegment, heater: Heater, product: Product, t_start: float, h
         time += dt
         t = t_new
     return TransientResult(False, None, settles, t, energy)
+
+
+@dataclass
+class GapWarmup:
+    """An untraced gap warmed from its ends: when its centre reaches the target (None: it never does),
+    and the temperature its centre settles at."""
+
+    length_m: float
+    time_s: float | None
+    settles_at_k: float
+    falls_below_s: float | None = None    # starting above the target: when it cools below it (None: never)
+
+
+def gap_warmup(seg: LineSegment, product: Product, gap_m: float, t_start: float, t_ends: float,
+               target: float) -> GapWarmup:
+    """The centre of an untraced gap of ``gap_m`` metres whose ends are held at ``t_ends`` [K] from
+    time 0, starting at ``t_start``: the time it takes to reach ``target`` (0 when it starts there)."""
+    t_amb = seg.ambient_temperature
+    t_mid = 0.5 * (t_start + t_ends)
+    _, q = jacket_temperature(seg, t_mid)
+    u = q / (t_mid - t_amb) if abs(t_mid - t_amb) > 1e-6 else 0.0       # W/(m K) to the surroundings
+    wall_k = HOSE_WALL_CONDUCTIVITY if seg.kind == "hose" else STEEL_CONDUCTIVITY
+    ka = wall_k * _metal_area(seg) + product.conductivity(t_mid) * seg.area          # W m / K along it
+    capacity = heat_capacity_per_metre(seg, product, t_mid)
+    settles, centre = _gap_centre(gap_m, max(u, 0.0), ka, capacity, t_start, t_ends, t_amb)
+    if t_start >= target:
+        # already there; if it settles below the target it cools through it (then: when)
+        below = _crossing(centre, target, rising=False) if settles < target else None
+        return GapWarmup(gap_m, 0.0, settles, below)
+    if settles <= target:
+        return GapWarmup(gap_m, None, settles)
+    return GapWarmup(gap_m, _crossing(centre, target, rising=True), settles)
+
+
+def _crossing(centre, target: float, rising: bool) -> float | None:
+    """When the (monotonic) centre temperature crosses ``target``: bisection on the time."""
+    def before(time: float) -> bool:
+        return centre(time) < target if rising else centre(time) > target
+
+    low, high = 0.0, 1.0
+    while before(high):
+        high *= 2.0
+        if high > GAP_HORIZON_S:
+            return None
+    for _ in range(60):
+        mid = 0.5 * (low + high)
+        low, high = (mid, high) if before(mid) else (low, mid)
+    return high
+
+
+GAP_HORIZON_S = 30 * 86400.0
+GAP_TERMS = 400
+
+
+def _gap_centre(gap_m: float, u: float, ka: float, capacity: float, t_start: float, t_ends: float, t_amb: float):
+    """(steady centre temperature, T_centre(t)) of the fin equation with both ends stepped to ``t_ends`` at t = 0 from a uniform
+    ``t_start``: the steady profile less its sine series, mode n (odd) with coefficient
+    (4 / (n pi)) [(t_amb - t_start) + (t_ends - t_amb) k^2 / (k^2 + m^2)], k = n pi / L, decaying at
+    (u + ka k^2) / capacity; the series is summed in closed form term by term (exact for frozen
+    coefficients)."""
+    m2 = u / ka
+    m_half = math.sqrt(m2) * gap_m / 2.0
+    settles = t_amb + (t_ends - t_amb) / math.cosh(m_half) if m_half < 700.0 else t_amb
+    modes = []
+    for j in range(GAP_TERMS):
+        n = 2 * j + 1
+        k2 = (n * math.pi / gap_m) ** 2
+        amplitude = 4.0 / (n * math.pi) * ((t_amb - t_start) + (t_ends - t_amb) * k2 / (k2 + m2))
+        modes.append(((-1.0) ** j * amplitude, (u + ka * k2) / capacity))
+
+    def centre(time: float) -> float:
+        return settles - sum(a * math.exp(-rate * time) for a, rate in modes if rate * time < 700.0)
+
+    return settles, centre

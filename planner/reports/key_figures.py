@@ -54,6 +54,8 @@ def _not_started_reason(plan: Plan) -> str:
         return plan.start.message
     if plan.start_mode == "prewarm" and not plan.prewarm.possible:
         return Sentence("pre-warm: {m}", m=plan.prewarm.message)
+    if plan.prewarm_stuck:
+        return Sentence("pre-warm: {m}", m=plan.prewarm_stuck)
     if plan.start_mode == "push_cold" and not plan.push_cold.possible:
         return Sentence("push-cold start: {m}", m=plan.push_cold.message)
     if plan.startup_time_s is None:

@@ -119,6 +119,18 @@ class Plan:
         return self.after_prewarm if self.after_prewarm is not None and self.after_prewarm.possible else None
 
     @property
+    def prewarm_stuck(self) -> str:
+        """Why the contents cannot move once the pre-warm is done ("" when they can, and outside the
+        pre-warm mode): set in an untraced part, or too cold or stiff to push out."""
+        if self.start_mode != "prewarm" or not self.prewarm.possible:
+            return ""
+        if self.prewarm.stuck:
+            return self.prewarm.stuck_message
+        if self.after_prewarm is not None and not self.after_prewarm.possible:
+            return Sentence("after pre-warming, the contents cannot be pushed out: {m}", m=self.after_prewarm.message)
+        return ""
+
+    @property
     def peak_discharge_pressure_pa(self) -> float | None:
         """The one definition of the peak discharge pressure [Pa gauge]: the highest pump-outlet pressure
         over the transfer timeline and over the push-out that starts it (cold or pre-warmed contents);
@@ -214,13 +226,18 @@ def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | No
     after_prewarm = None
     if mode == "prewarm":
         startup_time = warm.time_s
-        if warm.possible and start.moving and warm.target_k < source.temperature:
-            # after pre-warming, the line's contents are at the pre-warm target, cooler than the
-            # product: the transfer starts by pushing them out
-            after_prewarm = push_cold(system, warm.target_k)
+        # after pre-warming, the line's contents are at the pre-warm target (or warmer, if they started
+        # so): where that is cooler than the product, the transfer starts by pushing them out
+        contents = max(warm.target_k, line_start)
+        if warm.possible and warm.stuck:
+            startup_time = None                     # contents set in an untraced part: nothing moves
+        elif warm.possible and start.moving and contents < source.temperature:
+            after_prewarm = push_cold(system, contents)
             if after_prewarm.possible:
                 volume = sum(s.area * s.length for s in system.discharge_line.segments)
                 startup_time += max(0.0, after_prewarm.front_time_s - volume / start.flow)
+            else:
+                startup_time = None
     else:
         if cold.possible and start.moving and system.discharge_line is not None:
             volume = sum(s.area * s.length for s in system.discharge_line.segments)

@@ -19,7 +19,8 @@ from dataclasses import dataclass, field
 from planner.line.march import Line
 from planner.line.route import LineSegment
 from planner.transfer.system import SystemState, TransferSystem
-from planner.line.transients import evolve
+from planner.line.tracing import Heater
+from planner.line.transients import evolve, gap_warmup
 from planner.scenario.wording import Q, Sentence
 
 PREWARM_HORIZON_S = 7 * 86400.0
@@ -35,6 +36,7 @@ class PrewarmSegment:
     time_s: float | None
     settles_at_k: float
     energy_j: float
+    gap_m: float = 0.0                      # an untraced gap inside the segment (its own entry)
 
 
 @dataclass
@@ -47,6 +49,8 @@ class Prewarm:
     segments: list[PrewarmSegment] = field(default_factory=list)
     untraced: list[str] = field(default_factory=list)
     message: str = ""
+    stuck: list[str] = field(default_factory=list)      # parts whose contents stay set after the pre-warm
+    stuck_message: str = ""
 
 
 def prewarm_target(system: TransferSystem) -> float | None:
@@ -60,6 +64,47 @@ def prewarm_target(system: TransferSystem) -> float | None:
     return min(system.source.temperature, steam - 5.0) - PREWARM_MARGIN_K
 
 
+def _untraced_entry(result: Prewarm, name: str, seg, start: float, no_flow: float) -> None:
+    """A segment without tracing: its contents stay at the start temperature."""
+    result.untraced.append(f"{name}: {seg.name}")
+    result.segments.append(PrewarmSegment(name, seg.name, False, False, None, start, 0.0))
+    if start <= no_flow:
+        result.stuck.append(f"{name}: {seg.name}")
+
+
+def _traced_entry(result: Prewarm, name: str, seg, heater: Heater, product, start: float, target: float) -> float | None:
+    """The traced length of a segment at the heater's full output; returns when it is ready (None: never)."""
+    traced_m = seg.length - (seg.spec.untraced_length if seg.traced else 0.0)
+    if start >= target:
+        result.segments.append(PrewarmSegment(name, seg.name, True, True, 0.0, start, 0.0))
+        return 0.0
+    r = evolve(seg, heater, product, start, PREWARM_HORIZON_S, True, target=target, rising=True)
+    result.segments.append(PrewarmSegment(name, seg.name, True, r.reached, r.time_s, r.settles_at_k,
+                                          r.energy_j_per_m * traced_m))
+    result.energy_j += r.energy_j_per_m * traced_m
+    if not r.reached:
+        result.possible = False
+        return None
+    return r.time_s
+
+
+def _gap_entry(result: Prewarm, name: str, seg, product, start: float, ends: float, ready_s: float) -> None:
+    """An untraced gap inside a traced segment, warmed from its ends once they are ready: it must rise
+    above the no-flow temperature (by the margin) for the contents to move."""
+    gap = seg.spec.untraced_length
+    target = product.no_flow_temperature + PREWARM_MARGIN_K
+    g = gap_warmup(seg, product, gap, start, ends, target)
+    label = f"{seg.name}, untraced gap"
+    # a gap that starts movable but cools below the no-flow temperature before the line is ready sets
+    reached = g.time_s is not None and not (g.falls_below_s is not None and g.falls_below_s < ready_s)
+    time = ready_s + g.time_s if reached else None
+    result.segments.append(PrewarmSegment(name, label, False, reached, time, g.settles_at_k, 0.0, gap))
+    if not reached:
+        result.stuck.append(f"{name}: {label}")
+    elif time is not None:
+        result.time_s = max(result.time_s, time)
+
+
 def prewarm(system: TransferSystem, start_temperature: float) -> Prewarm:
     target = prewarm_target(system)
     if target is None:
@@ -69,26 +114,30 @@ def prewarm(system: TransferSystem, start_temperature: float) -> Prewarm:
         return Prewarm(start_temperature, start_temperature, False, None, 0.0,
                        message="the line has no tracing: it cannot be pre-warmed")
     result = Prewarm(target, start_temperature, True, 0.0, 0.0)
-    lines = [("suction", system.suction_line), ("discharge", system.discharge_line)]
-    for name, line in lines:
+    no_flow = system.product.no_flow_temperature
+    for name, line in (("suction", system.suction_line), ("discharge", system.discharge_line)):
         if line is None:
             continue
         for seg, heater in zip(line.segments, line.heaters):
             if not heater.active:
-                result.untraced.append(f"{name}: {seg.name}")
-                result.segments.append(PrewarmSegment(name, seg.name, False, False, None, start_temperature, 0.0))
+                _untraced_entry(result, name, seg, start_temperature, no_flow)
                 continue
-            if start_temperature >= target:
-                result.segments.append(PrewarmSegment(name, seg.name, True, True, 0.0, start_temperature, 0.0))
-                continue
-            r = evolve(seg, heater, line.product, start_temperature, PREWARM_HORIZON_S, True, target=target, rising=True)
-            result.segments.append(PrewarmSegment(name, seg.name, True, r.reached, r.time_s, r.settles_at_k,
-                                                  r.energy_j_per_m * seg.length))
-            result.energy_j += r.energy_j_per_m * seg.length
-            if not r.reached:
-                result.possible = False
-            else:
-                result.time_s = max(result.time_s, r.time_s)
+            full = Heater(system.tracing, 1.0, seg.ambient_temperature)   # the traced length at full output
+            ready = _traced_entry(result, name, seg, full, line.product, start_temperature, target)
+            if ready is not None:
+                result.time_s = max(result.time_s, ready)
+                if seg.spec.untraced_length > 0.0 and seg.traced:
+                    _gap_entry(result, name, seg, line.product, start_temperature,
+                               max(target + PREWARM_MARGIN_K, start_temperature), ready)
+    _prewarm_messages(result, target, no_flow)
+    return result
+
+
+def _prewarm_messages(result: Prewarm, target: float, no_flow: float) -> None:
+    if result.stuck:
+        result.stuck_message = Sentence(
+            "after pre-warming, the contents stay at or below the no-flow temperature {t} in: {parts}",
+            t=Q(no_flow, "temperature", 0), parts=", ".join(result.stuck))
     if not result.possible:
         short = [s for s in result.segments if s.traced and not s.reached]
         worst = min(short, key=lambda s: s.settles_at_k)
@@ -100,7 +149,12 @@ def prewarm(system: TransferSystem, start_temperature: float) -> Prewarm:
         result.message = Sentence("line ready after {t} of pre-warming", t=Q(result.time_s, "time"))
         if result.untraced:
             result.message += Sentence("; untraced parts stay cold: {parts}", parts=", ".join(result.untraced))
-    return result
+        gaps = [s for s in result.segments if s.gap_m > 0.0]
+        if gaps:
+            pieces = {f"p{i}": Sentence("{seg} ({length}) near {t}", seg=s.segment, length=Q(s.gap_m, "length", 1),
+                                        t=Q(s.settles_at_k, "temperature", 0))
+                      for i, s in enumerate(gaps)}
+            result.message += Sentence("; untraced gaps settle: " + ", ".join("{" + k + "}" for k in pieces), **pieces)
 
 
 # -- push the cold plug out ------------------------------------------------------------------
