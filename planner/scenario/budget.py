@@ -50,12 +50,14 @@ class Budget:
     plan_steps: int = 300_000          # one plan
     comparison_steps: int = 3_000_000  # one comparison (all values and sensitivity cases)
     comparison_values: int = 101       # values of the lever in one comparison
+    calibration_steps: int = 20_000_000   # one calibration fit (log rows x replays x steps a row)
     max_ambient_shift_k: float = 50.0  # sensitivity: ambient shift [K]
     max_viscosity_uncertainty: float = 0.9   # sensitivity: viscosity +- fraction (below 1: stays positive)
 
     def scaled(self, factor: float) -> "Budget":
         return replace(self, pass_steps=int(self.pass_steps * factor), plan_steps=int(self.plan_steps * factor),
-                       comparison_steps=int(self.comparison_steps * factor))
+                       comparison_steps=int(self.comparison_steps * factor),
+                       calibration_steps=int(self.calibration_steps * factor))
 
 
 DEFAULT_BUDGET = Budget()
@@ -227,5 +229,36 @@ def comparison_problems(scenario, values: int, cases: int, budget: Budget | None
 
 def check_comparison(scenario, values: int, cases: int) -> None:
     problems = comparison_problems(scenario, values, cases)
+    if problems:
+        raise BudgetError(problems)
+
+
+MIN_LOG_ROWS = 5                      # planner.calibration.log.MIN_ROWS: rows a fit needs at least
+
+
+def calibration_problems(scenario, rows: int, evaluations: int, factors: int,
+                         budget: Budget | None = None) -> list[tuple[str, str]]:
+    """A calibration fit against the budget: every row of the log is one pass along the line, and
+    the fit replays the whole log at most ``evaluations`` times (``planner.calibration.fit``'s bound
+    for ``factors`` fitted factors)."""
+    budget = budget or active_budget()
+    problems = pass_problems(scenario, budget=budget)
+    if problems:
+        return problems
+    each = pass_steps(scenario)
+    work = rows * evaluations * each
+    if work <= budget.calibration_steps:
+        return []
+    text = (f"the fit is estimated at {work:,} march steps ({rows:,} log rows x up to {evaluations} replays of the "
+            f"log for {factors} factor(s) x {each:,} steps a row: {_route_text(scenario, DEFAULT_STEP_M)}), past the "
+            f"work budget of {budget.calibration_steps:,}")
+    most_rows = budget.calibration_steps // (evaluations * each)
+    if most_rows < MIN_LOG_ROWS:
+        return [(_route_field(scenario), text + ": shorten the route, or fit fewer factors (--fit)")]
+    return [("log", text + f": resample the log to at most {most_rows:,} rows, or fit fewer factors (--fit)")]
+
+
+def check_calibration(scenario, rows: int, evaluations: int, factors: int) -> None:
+    problems = calibration_problems(scenario, rows, evaluations, factors)
     if problems:
         raise BudgetError(problems)
