@@ -13,7 +13,10 @@ solve around it.  A plan makes about ``PLAN_PASSES_FIXED + PLAN_PASSES_PER_TIMEL
 timeline_steps`` passes (operating point, timeline, both start-ups, hold); those figures are fitted
 to counted passes of the demo scenarios at 10 to 1000 timeline steps (they over-count by up to half above
 60 steps; a plan whose operating point is hard to find, e.g. with the relief lifting, can take three
-times the passes).  A comparison is values x cases plans.  On the project's 2-core machine one step
+times the passes).  The march's own steps are adaptive (up to 100 m, finer where the product
+changes fast), so the 25 m count is a margin: the demo plans take a third to a seventh of their
+estimate, while the hardest generated lines of tests/test_march_grid.py take up to 8 times the count
+of one pass (tests/test_budget.py measures both).  A comparison is values x cases plans.  On the project's 2-core machine one step
 takes 4-45 us (laminar hot products cost the most), so a plan at the default budget
 (``Budget.plan_steps``) takes about 1-15 s of one core; the demos need 8,000-30,000.
 
