@@ -74,6 +74,15 @@ def test_heat_capacity_flat_below_fit_range():
     assert air_heat_capacity(200.0) == pytest.approx(Air(T=200.0, P=0.101325).cp * 1000, rel=0.01)
 
 
+def test_heat_capacity_flat_above_fit_range():
+    # above 1800 K (the fit's upper limit) the cubic is held at 1800 K: it fell to a negative cp above
+    # about 3,730 K, which gave a negative Prandtl and Rayleigh number (issue 13: "Ra=-96..." with no
+    # field named).  At 1800 K the fit is within 0.5 % of iapws 1.5.5 humidAir.Air (1.2367 kJ/(kg K))
+    assert air_heat_capacity(4000.0) == air_heat_capacity(8000.0) == air_heat_capacity(1800.0)
+    assert air_heat_capacity(1800.0) == pytest.approx(Air(T=1800.0, P=0.101325).cp * 1000, rel=0.005)
+    assert air_prandtl(8000.0) > 0.0
+
+
 @pytest.mark.parametrize("bad", [0.0, -5.0, float("nan")])
 def test_bad_temperature_raises(bad):
     for fn in (air_viscosity, air_conductivity, air_density, air_heat_capacity, air_prandtl):

@@ -78,3 +78,46 @@ def test_missing_column_names_it(tmp_path):
     log.write_text("time [min],discharge_pressure [bar]\n" + "".join(f"{i},5\n" for i in range(8)))
     out = run("calibrate", str(BARGE), str(log))
     assert out.returncode == 2 and "no flow column" in out.stderr and "Traceback" not in out.stderr
+
+
+def _long_log(path, rows: int) -> None:
+    """The demo log's readable data rows repeated (times shifted on) to ``rows`` rows."""
+    lines = DEMO_LOG.read_text(encoding="utf-8").splitlines()
+    header = [ln for ln in lines if ln and not ln.startswith("#")][0]
+    data = [ln.split(",") for ln in lines if ln and ln[0].isdigit() and "I/O" not in ln]
+    out = ["time [s]," + header.split(",", 1)[1]]
+    for i in range(rows):
+        out.append(",".join([str(60 * i)] + data[i % len(data)][1:]))
+    path.write_text("\n".join(out) + "\n", encoding="utf-8")
+
+
+def test_a_log_past_the_work_budget_is_refused_before_any_fitting(tmp_path):
+    """Rows x most replays x steps a row (planner.scenario.budget.calibration_problems): 5,000 rows
+    with three factors is past the default budget of 20,000,000 steps; the message names the log, says
+    how many rows would do, and that many rows are inside the budget."""
+    from planner.calibration.fit import max_evaluations
+    from planner.scenario import budget
+    from planner.scenario.schema import load_scenario
+
+    log = tmp_path / "long.csv"
+    _long_log(log, 5000)
+    out = run("calibrate", str(BARGE), str(log), "--fit", ",".join(DEMO_TRUTH))
+    assert out.returncode == 2 and "Traceback" not in out.stderr
+    assert "log: the fit is estimated at" in out.stderr and "5,000 log rows x up to 161 replays" in out.stderr
+    assert "work budget of 20,000,000" in out.stderr and "fit fewer factors (--fit)" in out.stderr
+    most = int(out.stderr.split("resample the log to at most ")[1].split(" rows")[0].replace(",", ""))
+    scenario = load_scenario(BARGE)
+    assert max_evaluations(3) == 161
+    assert budget.calibration_problems(scenario, most, 161, 3) == []
+    assert budget.calibration_problems(scenario, most + 1, 161, 3) != []
+
+
+def test_the_demo_fit_stays_inside_its_bound_on_replays():
+    """The bound the budget counts (planner.calibration.fit.max_evaluations) against the replays a
+    real fit makes: the demo log with all three factors takes 30 (measured), the bound is 161."""
+    from planner.calibration.fit import fit_calibration, max_evaluations
+    from planner.calibration.log import read_log_file
+    from planner.scenario.schema import load_scenario
+
+    result = fit_calibration(load_scenario(BARGE), read_log_file(DEMO_LOG), list(DEMO_TRUTH), workers=1)
+    assert 10 <= result.evaluations <= max_evaluations(3)

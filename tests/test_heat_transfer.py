@@ -12,6 +12,7 @@ from ht.conv_free_immersed import Nu_horizontal_cylinder_Churchill_Chu
 from ht.conv_internal import laminar_entry_Seider_Tate, turbulent_Gnielinski
 from iapws.humidAir import Air
 
+from planner.correlations.air import air_conductivity, air_prandtl, air_viscosity
 from planner.correlations.friction import darcy_friction
 from planner.correlations.heat_transfer import (
     NU_LAMINAR_DEVELOPED,
@@ -291,6 +292,23 @@ def test_outer_cylinder_equal_temperatures():
     # with wind the forced term takes over and stays finite
     h_wind, _ = h_outer_cylinder(0.2, 290.0, 290.0, 3.0, 0.9)
     assert h_wind == pytest.approx(_h_conv_reference(0.2, 290.0, 290.0, 3.0), rel=0.02)
+
+
+def test_outer_cylinder_far_above_the_air_fits():
+    # regression (issue 13): a bare 1/2" line under 20 kW/m of constant-wattage tracing and almost no
+    # flow has its wall solve visit jacket temperatures of several thousand kelvin; at 8000 K the air
+    # cp cubic was negative, so Ra < 0 and the planner stopped with "Ra=-9..." naming no field.  Now h
+    # is Churchill-Chu (ht 1.2.0 Nu_horizontal_cylinder_Churchill_Chu) on the planner's own air
+    # properties at the film temperature, cp held at its 1800 K value: the same recipe, no reference air.
+    d, ts, ta = 0.0213, 8000.0, 293.15
+    h_c, h_r = h_outer_cylinder(d, ts, ta, 0.0, 0.01)
+    tf = 0.5 * (ts + ta)
+    pr = air_prandtl(tf)
+    nu_kin = air_viscosity(tf) * 287.05 * tf / 101325.0
+    gr = 9.80665 * (ts - ta) * d**3 / (tf * nu_kin**2)
+    assert pr > 0.0 and h_c == pytest.approx(Nu_horizontal_cylinder_Churchill_Chu(pr, gr) * air_conductivity(tf) / d,
+                                              rel=1e-9)
+    assert h_r == pytest.approx(0.01 * SIGMA * (ts**2 + ta**2) * (ts + ta), rel=1e-12)
 
 
 def test_outer_cylinder_bad_inputs():

@@ -140,7 +140,8 @@ def test_fuzzed_payloads_are_all_accepted_or_refused_with_a_message():
     ({"plan": "١٢"}, "plan id is not a number"),          # Arabic-Indic digits: isdigit() says yes
     ({"plan": "12", "rev": "³"}, "revision is not a number"),
     ({"plan": "1" * 13}, "plan id is not a number"),
-    ({"s": "²." + PAYLOADS[0].split(".", 1)[1]}, "no version"),
+    ({"s": "²." + PAYLOADS[0].split(".", 1)[1]}, "its version is not a number: digits 0-9, at most 6"),
+    ({"s": "0." + PAYLOADS[0].split(".", 1)[1]}, "the link's version is 0: this planner reads link versions 1 to"),
     ({"s": PAYLOADS[0].rsplit(".", 1)[0] + ".²"}, "bad check value"),
 ])
 def test_unusual_digits_are_refused_with_the_planners_message(params, words):

@@ -29,6 +29,7 @@ from planner.calibration.log import TransferLog
 from planner.calibration.replay import (FACTOR_NAMES, Replay, Replayer, heater_holding_fraction, input_notes,
                                         pd_slip_applies, with_factors)
 from planner.errors import ComputationError, ScenarioError
+from planner.scenario.budget import check_calibration
 from planner.scenario.schema import Calibration, CalibrationSource, Scenario, calibration_of
 
 BOUNDS: dict[str, tuple[float, float]] = {"viscosity_factor": (0.1, 10.0), "heat_loss_factor": (0.05, 10.0),
@@ -43,6 +44,15 @@ MISMATCH_RATIO = 3.0        # residual RMS above this many times the log's noise
 RELATIVE_SE_MAX = 0.25      # standard error above this fraction of the value: not identifiable from the log
 CORRELATION_MAX = 0.95
 DIFF_STEP = 1e-3
+MAX_NFEV = 40               # least_squares' limit on its own evaluations (the 2-point Jacobian's come on top)
+
+
+def max_evaluations(factors: int) -> int:
+    """Most replays of the whole log one fit of ``factors`` factors can make: ``least_squares`` (trf)
+    stops at ``MAX_NFEV`` evaluations of its own, makes at most one Jacobian per evaluation at
+    ``factors`` evaluations each (2-point differences, not counted in its ``nfev``), and the fitted
+    factors are replayed once more for the result."""
+    return MAX_NFEV * (factors + 1) + 1
 
 
 @dataclass
@@ -137,15 +147,20 @@ def fit_calibration(scenario: Scenario, log: TransferLog, names=None, workers: i
     scenario's calibration.
     ``workers``: processes to replay the rows in (default: the machine's cores, at most 4)."""
     names = default_factors(scenario, log) if names is None else list(names)
-    with Replayer(scenario, log, workers) as evaluate:
+    _check_sections(scenario)
+    _check_names(scenario, log, names)
+    check_calibration(scenario, log.rows, max_evaluations(len(names)), len(names))   # before any work
+    with Replayer(scenario, log, workers, max_evaluations(len(names))) as evaluate:
         return _fit(scenario, log, names, evaluate)
 
 
-def _fit(scenario: Scenario, log: TransferLog, names: list[str], evaluate: Replayer) -> FitResult:
-    if scenario.pump is None or scenario.source is None or scenario.destination is None:
-        missing = [s for s in ("pump", "source", "destination") if getattr(scenario, s) is None]
+def _check_sections(scenario: Scenario) -> None:
+    missing = [s for s in ("pump", "source", "destination") if getattr(scenario, s) is None]
+    if missing:
         raise ScenarioError([(s, "replaying a logged transfer needs this section") for s in missing])
-    _check_names(scenario, log, names)
+
+
+def _fit(scenario: Scenario, log: TransferLog, names: list[str], evaluate: Replayer) -> FitResult:
     quantities = compared_quantities(scenario, log)
     sigmas = _sigmas(log, quantities)
     fun = _residual_function(evaluate, log, names, quantities, sigmas)
@@ -155,7 +170,7 @@ def _fit(scenario: Scenario, log: TransferLog, names: list[str], evaluate: Repla
     x0 = np.clip([max(getattr(current, n), 0.05) for n in names], lower + 1e-6, upper - 1e-6)
     try:
         solution = least_squares(fun, x0, bounds=(lower, upper), method="trf", diff_step=DIFF_STEP,
-                                 x_scale=1.0, xtol=1e-5, ftol=1e-8, gtol=1e-8, max_nfev=40)
+                                 x_scale=1.0, xtol=1e-5, ftol=1e-8, gtol=1e-8, max_nfev=MAX_NFEV)
     except ComputationError:
         raise
     except (ValueError, ArithmeticError) as exc:

@@ -25,6 +25,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from planner.calibration.log import TransferLog
+from planner.errors import ComputationError
 from planner.scenario.schema import Calibration, Scenario, calibration_of
 from planner.transfer.system import SystemState, TransferSystem
 
@@ -180,8 +181,10 @@ class Replayer:
     (forked, so they start with the planner loaded) when there are enough of them.  Use as a
     context manager; ``workers=1`` replays in this process."""
 
-    def __init__(self, scenario: Scenario, log: TransferLog, workers: int | None = None):
+    def __init__(self, scenario: Scenario, log: TransferLog, workers: int | None = None,
+                 max_evaluations: int | None = None):
         self.scenario, self.log = scenario, log
+        self.max_evaluations = max_evaluations   # the work budget was checked for this many replays
         workers = min(os.cpu_count() or 1, 4) if workers is None else workers
         self.workers = workers if log.rows >= PARALLEL_MIN_ROWS else 1
         self.pool = None
@@ -201,6 +204,9 @@ class Replayer:
 
     def __call__(self, factors: dict[str, float]) -> Replay:
         self.evaluations += 1
+        if self.max_evaluations is not None and self.evaluations > self.max_evaluations:
+            raise ComputationError(f"the fit asked for more than the {self.max_evaluations} replays of the log its "
+                                   "work budget was checked for; fit fewer factors (--fit)")
         if self.pool is None:
             return replay(self.scenario, self.log, factors)
         n = self.log.rows

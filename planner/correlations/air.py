@@ -45,6 +45,9 @@ _CP_C = 0.4802e-5
 _CP_D = -1.966e-9
 _M_AIR = 28.97  # [kg/kmol], as used with that table
 _CP_T_MIN = 273.15  # [K], the fit's lower limit; below it cp of air is flat (about 1.006 kJ/kg K)
+_CP_T_MAX = 1800.0  # [K], the fit's upper limit; above it cp is held at its 1800 K value (the cubic
+                    # turns down past about 2,400 K and is negative above 3,730 K: a negative Prandtl
+                    # and Rayleigh number for a jacket the wall solve visits above about 7,000 K)
 
 
 def _check_t(t: float) -> None:
@@ -99,7 +102,9 @@ def air_heat_capacity(t: float) -> float:
 
     cp = (a + b T + c T^2 + d T^3) / M,  a = 28.11, b = 0.1967e-2, c = 0.4802e-5,
     d = -1.966e-9 [kJ/(kmol K)], M = 28.97 kg/kmol; T below 273.15 K is evaluated at 273.15 K
-    (the fit's lower limit; cp of air changes by under 0.2 % from 200 K to 273 K).
+    (the fit's lower limit; cp of air changes by under 0.2 % from 200 K to 273 K) and T above
+    1800 K at 1800 K (the fit's upper limit: past it the cubic falls and turns negative, while the
+    real cp keeps rising; the flat value keeps every Prandtl number positive for any film temperature).
 
     Within 1 % of the reference formulation over 200-600 K at 1 atm.
     t: temperature [K]. Returns cp [J/(kg K)].
@@ -108,6 +113,8 @@ def air_heat_capacity(t: float) -> float:
     _check_t(t)
     if t < _CP_T_MIN:
         t = _CP_T_MIN
+    elif t > _CP_T_MAX:
+        t = _CP_T_MAX
     return 1000.0 * (_CP_A + t * (_CP_B + t * (_CP_C + t * _CP_D))) / _M_AIR
 
 

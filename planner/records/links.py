@@ -107,12 +107,12 @@ def unpack_scenario(payload: object) -> Scenario:
     version_text, body, check = parts
     version = _ascii_number(version_text, 6)
     if version is None:
-        raise LinkError("the link's scenario data is damaged (no version)")
+        raise LinkError("the link's scenario data is damaged (its version is not a number: digits 0-9, at most 6)")
     if version > LINK_VERSION:
         raise LinkError(f"the link was made by a newer planner (link version {version}; this one reads "
                         f"{LINK_VERSION}): update the planner")
     if version < 1:
-        raise LinkError(f"unknown link version {version}")
+        raise LinkError(f"the link's version is {version}: this planner reads link versions 1 to {LINK_VERSION}")
     try:
         packed = base64.urlsafe_b64decode(body + "=" * (-len(body) % 4))
     except (binascii.Error, ValueError):

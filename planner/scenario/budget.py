@@ -13,7 +13,10 @@ solve around it.  A plan makes about ``PLAN_PASSES_FIXED + PLAN_PASSES_PER_TIMEL
 timeline_steps`` passes (operating point, timeline, both start-ups, hold); those figures are fitted
 to counted passes of the demo scenarios at 10 to 1000 timeline steps (they over-count by up to half above
 60 steps; a plan whose operating point is hard to find, e.g. with the relief lifting, can take three
-times the passes).  A comparison is values x cases plans.  On the project's 2-core machine one step
+times the passes).  The march's own steps are adaptive (up to 100 m, finer where the product
+changes fast), so the 25 m count is a margin: the demo plans take a third to a seventh of their
+estimate, while the hardest generated lines of tests/test_march_grid.py take up to 8 times the count
+of one pass (tests/test_budget.py measures both).  A comparison is values x cases plans.  On the project's 2-core machine one step
 takes 4-45 us (laminar hot products cost the most), so a plan at the default budget
 (``Budget.plan_steps``) takes about 1-15 s of one core; the demos need 8,000-30,000.
 
@@ -50,12 +53,14 @@ class Budget:
     plan_steps: int = 300_000          # one plan
     comparison_steps: int = 3_000_000  # one comparison (all values and sensitivity cases)
     comparison_values: int = 101       # values of the lever in one comparison
+    calibration_steps: int = 20_000_000   # one calibration fit (log rows x replays x steps a row)
     max_ambient_shift_k: float = 50.0  # sensitivity: ambient shift [K]
     max_viscosity_uncertainty: float = 0.9   # sensitivity: viscosity +- fraction (below 1: stays positive)
 
     def scaled(self, factor: float) -> "Budget":
         return replace(self, pass_steps=int(self.pass_steps * factor), plan_steps=int(self.plan_steps * factor),
-                       comparison_steps=int(self.comparison_steps * factor))
+                       comparison_steps=int(self.comparison_steps * factor),
+                       calibration_steps=int(self.calibration_steps * factor))
 
 
 DEFAULT_BUDGET = Budget()
@@ -227,5 +232,36 @@ def comparison_problems(scenario, values: int, cases: int, budget: Budget | None
 
 def check_comparison(scenario, values: int, cases: int) -> None:
     problems = comparison_problems(scenario, values, cases)
+    if problems:
+        raise BudgetError(problems)
+
+
+MIN_LOG_ROWS = 5                      # planner.calibration.log.MIN_ROWS: rows a fit needs at least
+
+
+def calibration_problems(scenario, rows: int, evaluations: int, factors: int,
+                         budget: Budget | None = None) -> list[tuple[str, str]]:
+    """A calibration fit against the budget: every row of the log is one pass along the line, and
+    the fit replays the whole log at most ``evaluations`` times (``planner.calibration.fit``'s bound
+    for ``factors`` fitted factors)."""
+    budget = budget or active_budget()
+    problems = pass_problems(scenario, budget=budget)
+    if problems:
+        return problems
+    each = pass_steps(scenario)
+    work = rows * evaluations * each
+    if work <= budget.calibration_steps:
+        return []
+    text = (f"the fit is estimated at {work:,} march steps ({rows:,} log rows x up to {evaluations} replays of the "
+            f"log for {factors} factor(s) x {each:,} steps a row: {_route_text(scenario, DEFAULT_STEP_M)}), past the "
+            f"work budget of {budget.calibration_steps:,}")
+    most_rows = budget.calibration_steps // (evaluations * each)
+    if most_rows < MIN_LOG_ROWS:
+        return [(_route_field(scenario), text + ": shorten the route, or fit fewer factors (--fit)")]
+    return [("log", text + f": resample the log to at most {most_rows:,} rows, or fit fewer factors (--fit)")]
+
+
+def check_calibration(scenario, rows: int, evaluations: int, factors: int) -> None:
+    problems = calibration_problems(scenario, rows, evaluations, factors)
     if problems:
         raise BudgetError(problems)
