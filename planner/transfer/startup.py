@@ -244,7 +244,12 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
         peak_p = max(peak_p, op.point.discharge_pressure)
         peak_dp = max(peak_dp, op.point.pump_differential)
         relief = relief or op.status == "relief_lifting"
-        guess = op.flow
+        # next guess: the flow extrapolated along the front positions (it rises smoothly as cold
+        # product leaves), from the solver's own root estimates as the timeline does
+        latest = op.flow_estimate or op.flow
+        guess = latest
+        if len(rows_append) >= 3 and rows_append[-2][5] == op.status:
+            guess = max(2.0 * latest - rows_append[-2][1], 0.5 * latest)
     time += (1.0 - rows_append[-1][0]) * volume / rows_append[-1][1]
     for row in rows_append:
         for key, value in zip(rows, row):
