@@ -200,7 +200,7 @@ def _show_result(data: dict, unit_system: str) -> None:
         st.caption(f"correlation {pair}: {r:+.2f}")
     for note in data.get("notes", []):
         st.caption(f"Note: {note}")
-    for text in data["warnings"]:
+    for text in data.get("warnings_by_system", {}).get(unit_system, data["warnings"]):
         st.warning(plain(text))
     st.dataframe(residuals_frame(data, unit_system), hide_index=True)
     st.plotly_chart(series_figure(data, unit_system), key="cal_series")

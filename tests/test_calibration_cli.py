@@ -10,6 +10,7 @@ import sys
 import pytest
 
 from conftest import DEMO_DIR, ROOT
+from unit_words import assert_speaks
 
 BARGE = DEMO_DIR / "fuel_oil_barge_discharge.toml"
 DEMO_LOG = DEMO_DIR / "logs" / "barge_wren_2026-01-14.csv"
@@ -121,3 +122,18 @@ def test_the_demo_fit_stays_inside_its_bound_on_replays():
 
     result = fit_calibration(load_scenario(BARGE), read_log_file(DEMO_LOG), list(DEMO_TRUTH), workers=1)
     assert 10 <= result.evaluations <= max_evaluations(3)
+
+
+def test_text_output_speaks_the_chosen_unit_system():
+    # issue 11: every output speaks the user's units; US text shows psi, °F differences and gpm only
+    scenario = DEMO_DIR / "fuel_oil_barge_discharge.toml"
+    log = DEMO_DIR / "logs" / "barge_wren_2026-01-14.csv"
+    si, us = (run("calibrate", str(scenario), str(log), "--units", units) for units in ("si", "us"))
+    assert si.returncode == us.returncode == 0, us.stderr
+    assert " bar " in si.stdout and " psi " in us.stdout and " gpm " in us.stdout and " °F " in us.stdout
+    assert_speaks(us.stdout, "US")
+    assert_speaks(si.stdout, "SI")
+    # the residuals are the same numbers: discharge pressure RMS in bar x 14.5038 = psi (NIST SP 811)
+    si_row = next(line for line in si.stdout.splitlines() if line.strip().startswith("discharge pressure"))
+    us_row = next(line for line in us.stdout.splitlines() if line.strip().startswith("discharge pressure"))
+    assert float(us_row.split()[2]) == pytest.approx(float(si_row.split()[2]) * 14.5038, rel=2e-3)

@@ -31,6 +31,7 @@ from planner.calibration.replay import (FACTOR_NAMES, Replay, Replayer, heater_h
 from planner.errors import ComputationError, ScenarioError
 from planner.scenario.budget import check_calibration
 from planner.scenario.schema import Calibration, CalibrationSource, Scenario, calibration_of
+from planner.scenario.wording import Q, Sentence
 
 BOUNDS: dict[str, tuple[float, float]] = {"viscosity_factor": (0.1, 10.0), "heat_loss_factor": (0.05, 10.0),
                                           "slip_factor": (0.0, 10.0)}
@@ -40,6 +41,11 @@ NOISE_FLOOR = {"discharge_pressure": 200.0, "suction_pressure": 200.0, "pump_inl
                "outlet_temperature": 0.02, "flow": 0.001}
 UNITS = {"discharge_pressure": "Pa", "suction_pressure": "Pa", "pump_inlet_temperature": "K",
          "outlet_temperature": "K", "flow": "m3/s"}
+# the kind of each residual (a difference: pressures and flows as such, temperatures as differences)
+# and the decimals it is shown with
+RESIDUAL_KINDS = {"discharge_pressure": ("pressure", 4), "suction_pressure": ("pressure", 4),
+                  "pump_inlet_temperature": ("temperature_difference", 3),
+                  "outlet_temperature": ("temperature_difference", 3), "flow": ("volume_flow", 3)}
 MISMATCH_RATIO = 3.0        # residual RMS above this many times the log's noise: the model does not fit
 RELATIVE_SE_MAX = 0.25      # standard error above this fraction of the value: not identifiable from the log
 CORRELATION_MAX = 0.95
@@ -248,21 +254,14 @@ def _diagnose(result: FitResult) -> None:
                                f"{factor.value:.3g} in the fit and is not written to [calibration] from this log")
     for q, row in result.residuals.items():
         if row["ratio"] > MISMATCH_RATIO:
-            result.warnings.append(
-                f"{q}: residual RMS {_fmt(q, row['rms'])} is {row['ratio']:.0f} times the log's noise "
-                f"({_fmt(q, row['noise'])}): the model does not reproduce this log — is it from another product or line, "
-                "or from a start-up or stop the steady replay cannot follow?")
+            kind, digits = RESIDUAL_KINDS[q]
+            result.warnings.append(Sentence(
+                q + ": residual RMS {rms} is {ratio} times the log's noise ({noise}): the model does not reproduce "
+                "this log — is it from another product or line, or from a start-up or stop the steady replay cannot "
+                "follow?", rms=Q(row["rms"], kind, digits), ratio=Q(row["ratio"], "dimensionless", 0),
+                noise=Q(row["noise"], kind, digits)))
     if result.rows_set:
         result.warnings.append(f"at {result.rows_set} rows the modelled product sets in the line; those rows do not fit")
-
-
-def _fmt(quantity: str, value: float) -> str:
-    unit = UNITS[quantity]
-    if unit == "Pa":
-        return f"{value / 1e5:.3g} bar"
-    if unit == "m3/s":
-        return f"{value * 3600:.3g} m³/h"
-    return f"{value:.3g} K"
 
 
 def calibrated_scenario(result: FitResult, when: datetime | None = None) -> Scenario:

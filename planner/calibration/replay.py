@@ -28,6 +28,7 @@ from planner.calibration.log import TransferLog
 from planner.errors import ComputationError
 from planner.scenario.schema import Calibration, Scenario, calibration_of
 from planner.transfer.system import SystemState, TransferSystem
+from planner.scenario.wording import Q, Sentence
 
 FACTOR_NAMES = ("viscosity_factor", "heat_loss_factor", "slip_factor")
 PARALLEL_MIN_ROWS = 40       # below this a worker pool costs more than it saves
@@ -61,11 +62,11 @@ def input_notes(scenario: Scenario, log: TransferLog) -> list[str]:
     """What the replay takes from the scenario because the log does not give it."""
     notes = []
     if not log.has("source_temperature"):
-        notes.append(f"source_temperature not logged: the scenario's {scenario.source.temperature - 273.15:.1f} °C "
-                     "is used at every row")
+        notes.append(Sentence("source_temperature not logged: the scenario's {t} is used at every row",
+                              t=Q(scenario.source.temperature, "temperature")))
     if not log.has("ambient_temperature"):
-        notes.append(f"ambient_temperature not logged: the site's {scenario.site.ambient_temperature - 273.15:.1f} °C "
-                     "is used at every row")
+        notes.append(Sentence("ambient_temperature not logged: the site's {t} is used at every row",
+                              t=Q(scenario.site.ambient_temperature, "temperature")))
     elif any(s.surroundings.ambient_temperature is not None for r in (scenario.route, scenario.suction) if r
              for s in r.segments):
         notes.append("segments with an ambient of their own (e.g. indoor) keep it; the logged ambient replaces "

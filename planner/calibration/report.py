@@ -1,12 +1,14 @@
-"""A calibration fit as JSON (SI) and as a plain-text table (bar, °C, m³/h) for the command line."""
+"""A calibration fit as JSON (SI; its warnings also rendered in each unit system) and as a plain-text
+table for the command line in either unit system."""
 
 from __future__ import annotations
 
 import math
 
-from planner.calibration.fit import FitResult
+from planner.calibration.fit import RESIDUAL_KINDS, FitResult
 from planner.calibration.log import TransferLog
 from planner.plain import plain as _finite   # the package's one NaN-to-None helper
+from planner.scenario.wording import SYSTEMS, format_quantity, render
 
 LABELS = {"discharge_pressure": "discharge pressure", "suction_pressure": "suction pressure",
           "pump_inlet_temperature": "pump inlet temperature", "outlet_temperature": "outlet temperature",
@@ -38,19 +40,17 @@ def fit_json(result: FitResult) -> dict:
         "rows_where_product_sets": result.rows_set,
         "replays": result.evaluations,
         "degrees_of_freedom": result.degrees_of_freedom,
-        "warnings": result.warnings,
-        "notes": result.notes,
+        "warnings": [render(w, "SI") for w in result.warnings],
+        "warnings_by_system": {system: [render(w, system) for w in result.warnings] for system in SYSTEMS},
+        "notes": [render(n, "SI") for n in result.notes],
     }
 
 
-def _in_units(quantity: str, value: float) -> str:
+def _in_units(quantity: str, value: float, system: str = "SI") -> str:
     if value is None or not math.isfinite(value):
         return "—"
-    if quantity.endswith("pressure"):
-        return f"{value / 1e5:.4f} bar"
-    if quantity == "flow":
-        return f"{value * 3600:.3f} m³/h"
-    return f"{value:.3f} K"
+    kind, digits = RESIDUAL_KINDS[quantity]
+    return format_quantity(value, kind, system, digits)
 
 
 def log_lines(log: TransferLog) -> list[str]:
@@ -70,7 +70,7 @@ def log_lines(log: TransferLog) -> list[str]:
     return lines
 
 
-def fit_text(result: FitResult) -> str:
+def fit_text(result: FitResult, system: str = "SI") -> str:
     lines = [f"Calibration of {result.scenario.name}", *log_lines(result.log), ""]
     lines.append(f"  {'factor':18s} {'value':>8s}   95 % interval")
     for name, f in result.factors.items():
@@ -80,10 +80,11 @@ def fit_text(result: FitResult) -> str:
         lines.append(f"  correlation {pair}: {r:+.2f}")
     lines += ["", f"  {'residual':32s} {'RMS':>12s} {'log noise':>12s} {'bias':>12s} {'rows':>5s}"]
     for q, row in result.residuals.items():
-        lines.append(f"  {LABELS[q]:32s} {_in_units(q, row['rms']):>12s} {_in_units(q, row['noise']):>12s} "
-                     f"{_in_units(q, row['bias']):>12s} {row['count']:5d}")
+        lines.append(f"  {LABELS[q]:32s} {_in_units(q, row['rms'], system):>12s} "
+                     f"{_in_units(q, row['noise'], system):>12s} {_in_units(q, row['bias'], system):>12s} "
+                     f"{row['count']:5d}")
     lines.append(f"  ({result.evaluations} replays of the log; residual = logged - modelled)")
-    lines += [f"  note: {n}" for n in result.notes]
+    lines += [f"  note: {render(n, system)}" for n in result.notes]
     if result.warnings:
-        lines += ["", "Warnings:"] + [f"  - {w}" for w in result.warnings]
+        lines += ["", "Warnings:"] + [f"  - {render(w, system)}" for w in result.warnings]
     return "\n".join(lines)

@@ -7,6 +7,7 @@ import sys
 from pathlib import Path
 
 from planner.errors import PlannerError
+from planner.cli.line_commands import UNIT_CHOICES
 
 
 class WriteRefused(PlannerError):
@@ -55,7 +56,7 @@ def _calibrate(args) -> int:
         data["write_refused"] = refused
         print(json.dumps(data, indent=2, ensure_ascii=False))
     else:
-        print(fit_text(result))
+        print(fit_text(result, UNIT_CHOICES[args.units]))
         if written:
             print(f"\nwritten: {written} (the scenario with the fitted [calibration])")
     if refused:
@@ -73,6 +74,9 @@ def register(sub) -> None:
                                    "(default: viscosity_factor,heat_loss_factor, and slip_factor for a PD pump with speed logged)")
     cal.add_argument("--columns", help="TOML file with a [columns] table mapping the log's headers to 'quantity [unit]'")
     cal.add_argument("--json", action="store_true", help="print JSON (SI units)")
+    cal.add_argument("--units", choices=sorted(UNIT_CHOICES), default="si",
+                     help="unit system of the text output: si (bar, K differences, m³/h) or us (psi, °F differences, "
+                          "gpm); JSON is always SI")
     cal.add_argument("--write", metavar="OUT.toml", help="write the scenario with the fitted [calibration] to a new file")
     cal.add_argument("--overwrite", action="store_true", help="with --write: replace OUT if it exists")
     cal.add_argument("--force", action="store_true", help="with --write: write even when the log does not fit the model")

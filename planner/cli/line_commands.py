@@ -10,7 +10,7 @@ import json
 import sys
 
 from planner.scenario.budget import BudgetError
-from planner.scenario.units import UnitError
+
 
 FAIL_EXIT = 3
 UNIT_CHOICES = {"si": "SI", "us": "US"}
