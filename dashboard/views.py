@@ -257,8 +257,8 @@ def comparison_result(result: dict, unit_system: str) -> None:
         return
     kind = result["kind"]
     if result.get("recommended") is not None:
-        st.success(f"Recommended: **{plain(fmt(result['rows'][result['recommended']]['value'], kind, unit_system))}** — "
-                   f"{plain(render(result['reason'], unit_system))}")
+        # the reason starts with the recommended value ("45 °C: lowest total cost ...")
+        st.success(f"Recommended: {plain(render(result['reason'], unit_system))}")
     else:
         st.error(plain(render(result["reason"], unit_system) or "no value can be recommended"))
     frame = tables.comparison_frame(result, kind, unit_system)
