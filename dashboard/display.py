@@ -47,7 +47,7 @@ def caution_text(system: str = "SI") -> str:
 
 DECIMALS = {
     "temperature": 1, "temperature_difference": 1, "pressure": 2, "volume_flow": 2, "volume": 1,
-    "length": 1, "small_length": 1, "head": 2, "time": 2, "energy": 1, "mass": 0, "power": 2,
+    "length": 1, "small_length": 1, "head": 2, "time": 2, "energy": 1, "mass": 0, "power": 2, "heat_rate": 2, "mass_flow": 2,
     "dynamic_viscosity": 1, "kinematic_viscosity": 1, "density": 1, "linear_power": 1, "speed": 2,
     "rotational_speed": 0, "displacement": 2, "heat_transfer_coefficient": 2, "specific_heat": 3,
     "conductivity": 3, "linear_conductance": 2,

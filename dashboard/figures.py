@@ -32,7 +32,7 @@ SEGMENT_LINE = dict(color="#909497", width=1, dash="dot")
 # Least span of a y axis, in SI, by the quantity it shows: a steadier series is drawn on this span
 # around its middle, so that a constant does not look like a trend (a 0.002 bar wobble filling the panel).
 STEADY_SPAN_SI = {"temperature": 2.0, "pressure": 0.2e5, "volume_flow": 1.0 / 3600.0, "length": 0.2,
-                  "time": 360.0, "power": 100.0, "linear_power": 2.0, None: 1.0}
+                  "time": 360.0, "power": 100.0, "heat_rate": 100.0, "linear_power": 2.0, None: 1.0}
 LEGEND_SPACE_PX = 120           # room under the x-axis title for a legend of up to three rows
 
 

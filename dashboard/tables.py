@@ -30,7 +30,7 @@ TIMELINE_COLUMNS = [
     ("max_line_pressure_pa", "Highest line pressure", "pressure"),
     ("shaft_power_w", "Shaft power", "power"),
     ("npsh_available_m", "NPSH available", "head"),
-    ("trace_power_w", "Trace power", "power"),
+    ("trace_power_w", "Trace power", "heat_rate"),
     ("source_level_m", "Source level", "length"),
     ("destination_level_m", "Destination level", "length"),
 ]

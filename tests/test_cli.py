@@ -65,3 +65,22 @@ def test_output_cut_short_by_the_reader_is_not_a_traceback():
     err = proc.stderr.read().decode()
     assert proc.wait(timeout=120) == 0, err
     assert "Traceback" not in err and "BrokenPipe" not in err
+
+
+def test_evaluate_in_us_units_gives_mass_flow_and_heat_in_us_units():
+    # issue 11: the US text had no mass flow and showed heat in hp. 1 lb = 0.45359237 kg and
+    # 1 BTU/h = 0.29307107 W (NIST SP 811, appendix B)
+    path = DEMO_FILES[1]
+    doc = json.loads(run("evaluate", str(path), "--json").stdout)["summary"]
+    out = run("evaluate", str(path), "--units", "us")
+    assert out.returncode == 0, out.stderr
+    from unit_words import assert_speaks
+
+    assert_speaks(out.stdout, "US")
+    flow_line = next(line for line in out.stdout.splitlines() if line.strip().startswith("flow "))
+    lb_h = float(flow_line.split("(")[1].split()[0].replace(",", ""))
+    assert lb_h == pytest.approx(doc["mass_flow_kg_s"] * 3600 / 0.45359237, abs=1.0)
+    heat_line = next(line for line in out.stdout.splitlines() if line.strip().startswith("heat lost"))
+    assert heat_line.endswith("BTU/h")
+    btu_h = float(heat_line.split()[2].replace(",", ""))
+    assert btu_h == pytest.approx(doc["heat_loss_w"] / 0.29307107, abs=1.0)

@@ -67,8 +67,9 @@ def march_json(scenario: Scenario, result: MarchResult, profiles: bool = False, 
 def _summary_lines(scenario: Scenario, result: MarchResult, system: str) -> list[str]:
     s = result.summary
     q = lambda value, kind, decimals=None: format_quantity(value, kind, system, decimals)  # noqa: E731
-    lines = [f"  flow                 {q(s.flow_m3_s, 'volume_flow', 2)}   ({s.mass_flow_kg_s:.2f} kg/s)"
-             if system == "SI" else f"  flow                 {q(s.flow_m3_s, 'volume_flow', 2)}",
+    rate_digits = 2 if system == "SI" else 0        # kg/s and kW; lb/h and BTU/h
+    lines = [f"  flow                 {q(s.flow_m3_s, 'volume_flow', 2)}   "
+             f"({q(s.mass_flow_kg_s, 'mass_flow', rate_digits)})",
              f"  inlet temperature    {q(s.inlet_temperature_k, 'temperature', 2)}"]
     if s.status == "product_sets":
         lines.append(render(Sentence("  PRODUCT SETS at {x}: it falls below its no-flow temperature ({t}); figures "
@@ -86,9 +87,9 @@ def _summary_lines(scenario: Scenario, result: MarchResult, system: str) -> list
         f"  laminar share        {s.laminar_fraction * 100:.0f} %",
         f"  hottest jacket       {q(s.max_jacket_temperature_k, 'temperature')} at {q(s.max_jacket_at_m, 'length')}",
         f"  hottest heater       {q(s.max_sheath_temperature_k, 'temperature')} at {q(s.max_sheath_at_m, 'length')}",
-        f"  trace power          {q(s.trace_power_w, 'power')}",
-        f"  heat lost            {q(s.heat_loss_w, 'power')}",
-        f"  viscous heating      {q(s.viscous_heating_w, 'power')}",
+        f"  trace power          {q(s.trace_power_w, 'heat_rate', rate_digits)}",
+        f"  heat lost            {q(s.heat_loss_w, 'heat_rate', rate_digits)}",
+        f"  viscous heating      {q(s.viscous_heating_w, 'heat_rate', rate_digits)}",
     ]
     return lines
 

@@ -228,6 +228,8 @@ UNIT_SYSTEMS: dict[str, dict[str, DisplayUnit]] = {
         "density": DisplayUnit("kg/m³", "kg/m**3"),
         "linear_power": DisplayUnit("W/m", "W/m"),
         "power": DisplayUnit("kW", "kW"),
+        "heat_rate": DisplayUnit("kW", "kW"),
+        "mass_flow": DisplayUnit("kg/s", "kg/s"),
         "speed": DisplayUnit("m/s", "m/s"),
         "time": DisplayUnit("h", "h"),
         "energy": DisplayUnit("kWh", "kWh"),
@@ -251,6 +253,8 @@ UNIT_SYSTEMS: dict[str, dict[str, DisplayUnit]] = {
         "density": DisplayUnit("lb/ft³", "lb/ft**3"),
         "linear_power": DisplayUnit("W/ft", "W/ft"),
         "power": DisplayUnit("hp", "hp"),
+        "heat_rate": DisplayUnit("BTU/h", "BTU/hour"),
+        "mass_flow": DisplayUnit("lb/h", "lb/hour"),
         "speed": DisplayUnit("ft/s", "ft/s"),
         "time": DisplayUnit("h", "h"),
         "energy": DisplayUnit("kWh", "kWh"),
@@ -265,6 +269,7 @@ UNIT_SYSTEMS: dict[str, dict[str, DisplayUnit]] = {
 
 _SI_FOR_DISPLAY = {
     "energy": "J",
+    "heat_rate": "W",
     "mass": "kg",
     "head": "m",
 }
