@@ -205,8 +205,16 @@ def viscosity_figure(curve: dict, system: str, height: int = 460, compact: bool 
     lab points, the fitted range shaded, and the no-flow and maximum temperatures."""
     fig = go.Figure()
     t = convert_array(curve["temperature"], "temperature", system)
+    factor = curve.get("viscosity_factor", 1.0)
+    if curve.get("viscosity_as_fitted") is not None:
+        fig.add_trace(go.Scatter(x=t, y=convert_array(curve["viscosity_as_fitted"], "dynamic_viscosity", system),
+                                 name=f"fitted {curve['law']} law (lab points)",
+                                 line=dict(color=COLOURS["fit"], dash="dot")))
+        name = f"in the plan: calibrated × {factor:.3g}"
+    else:
+        name = f"fitted {curve['law']} law"
     fig.add_trace(go.Scatter(x=t, y=convert_array(curve["viscosity"], "dynamic_viscosity", system),
-                             name=f"fitted {curve['law']} law", line=dict(color=COLOURS["fit"])))
+                             name=name, line=dict(color=COLOURS["fit"])))
     if curve["lab_temperature"]:
         fig.add_trace(go.Scatter(x=convert_array(curve["lab_temperature"], "temperature", system),
                                  y=convert_array(curve["lab_viscosity"], "dynamic_viscosity", system),

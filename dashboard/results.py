@@ -81,10 +81,21 @@ def node_ratings(segments, nodes: dict | None) -> np.ndarray | None:
     return out
 
 
+def _curve(viscosity, temps) -> list[float]:
+    values = []
+    for t in temps:
+        try:
+            values.append(viscosity(float(t)))
+        except (ValueError, OverflowError, ZeroDivisionError):
+            values.append(math.nan)
+    return values
+
+
 def product_curve(spec: ProductSpec, points: int = 121, product: Product | None = None) -> dict:
     """Viscosity (or consistency) against temperature for the product, with its lab points and the
     fitted range (``Product.fit``: law, t_min, t_max and residuals).  ``product``: the plan's own
-    product object (built from ``spec`` only when there is no plan, e.g. the Inputs tab's preview)."""
+    product object (built from ``spec`` only when there is no plan, e.g. the Inputs tab's preview); its
+    calibrated ``viscosity_factor`` scales the curve, and the law as fitted is kept beside it."""
     product = product or Product(spec)
     fit = product.fit
     lab_t = [p.temperature for p in spec.viscosity.points]
@@ -98,18 +109,17 @@ def product_curve(spec: ProductSpec, points: int = 121, product: Product | None 
     low = min([spec.no_flow_temperature] + finite_range) - 5.0
     high = max([spec.max_temperature] + finite_range) + 5.0
     temps = np.linspace(low, high, points)
-    values = []
-    for t in temps:
-        try:
-            values.append(product.viscosity(float(t)))
-        except (ValueError, OverflowError, ZeroDivisionError):
-            values.append(math.nan)
+    values = _curve(product.viscosity, temps)
+    factor = product.viscosity_factor
+    # the law as fitted to the lab points, when the plan's product carries a calibration factor
+    as_fitted = _curve(Product(spec).viscosity, temps) if factor != 1.0 else None
     return {
         "name": spec.name, "law": fit.law, "parameters": dict(fit.parameters),
         "rms_log_residual": fit.rms_log_residual, "max_relative_residual": fit.max_relative_residual,
         "t_min": finite_or_none(fit.t_min),
         "t_max": finite_or_none(fit.t_max),
         "n_points": fit.n_points, "temperature": temps, "viscosity": np.asarray(values),
+        "viscosity_factor": factor, "viscosity_as_fitted": None if as_fitted is None else np.asarray(as_fitted),
         "lab_temperature": lab_t, "lab_viscosity": lab_mu,
         "no_flow_temperature": spec.no_flow_temperature, "max_temperature": spec.max_temperature,
         "newtonian": spec.rheology == "newtonian", "rheology": spec.rheology, "illustrative": spec.illustrative,

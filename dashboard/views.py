@@ -151,6 +151,8 @@ def product_view(bundle: dict, unit_system: str) -> None:
                                      and "illustrative" not in curve["name"].lower() else "")),
         ("Law", f"{words(curve['law'])} ({law_parameters_text(curve)})"),
         ("Fit", fit_quality_text(curve)),
+        ("Calibration", "none: the law as fitted" if curve.get("viscosity_factor", 1.0) == 1.0 else
+         f"viscosity × {curve['viscosity_factor']:.4g} (the scenario's [calibration]) at every temperature"),
         ("Fitted range", f"{fmt(curve.get('t_min'), 'temperature', unit_system)} to "
                          f"{fmt(curve.get('t_max'), 'temperature', unit_system)}"),
         ("No-flow temperature", fmt(curve["no_flow_temperature"], "temperature", unit_system)),
