@@ -8,6 +8,7 @@ back.  Plain numbers in a scenario file mean the field's documented default unit
 from __future__ import annotations
 
 import math
+import functools
 import re
 from dataclasses import dataclass
 from functools import lru_cache
@@ -275,24 +276,29 @@ _SI_FOR_DISPLAY = {
 }
 
 
-def from_si(value: float, kind: str, system: str = "SI") -> float:
-    """Convert an SI float to the display unit of ``kind`` in the unit system ``system``."""
+@functools.lru_cache(maxsize=None)
+def _display_factor(kind: str, system: str) -> float:
+    """Display units per SI unit of ``kind`` (every kind but the absolute temperature is a pure
+    scale): worked out once with pint, then a multiplication (messages format many quantities)."""
     unit = UNIT_SYSTEMS[system][kind]
     si_unit = SI_UNITS.get(kind) or _SI_FOR_DISPLAY[kind]
+    return float(registry().Quantity(1.0, si_unit).to(unit.pint_unit).magnitude)
+
+
+def from_si(value: float, kind: str, system: str = "SI") -> float:
+    """Convert an SI float to the display unit of ``kind`` in the unit system ``system``."""
     if kind == "temperature":
         celsius = value - ZERO_CELSIUS_K
         return celsius if system == "SI" else celsius * 9.0 / 5.0 + 32.0
-    return float(registry().Quantity(value, si_unit).to(unit.pint_unit).magnitude)
+    return float(value) * _display_factor(kind, system)
 
 
 def to_si_from_display(value: float, kind: str, system: str = "SI") -> float:
     """Inverse of :func:`from_si`."""
-    unit = UNIT_SYSTEMS[system][kind]
-    si_unit = SI_UNITS.get(kind) or _SI_FOR_DISPLAY[kind]
     if kind == "temperature":
         celsius = value if system == "SI" else (value - 32.0) * 5.0 / 9.0
         return celsius + ZERO_CELSIUS_K
-    return float(registry().Quantity(value, unit.pint_unit).to(si_unit).magnitude)
+    return float(value) / _display_factor(kind, system)
 
 
 def unit_label(kind: str, system: str = "SI") -> str:
