@@ -16,6 +16,7 @@ import numpy as np
 from planner.checks.caution import STANDING_CAUTION
 from planner.scenario.wording import Q, Sentence, render
 from planner.scenario.units import SI_UNITS, UNIT_SYSTEMS, from_si, registry, to_si, to_si_from_display, unit_label
+from planner.transfer.system import OUTCOME_WORDS
 
 SYSTEM_NAMES = {"SI": "SI (metric)", "US": "US customary"}
 
@@ -174,8 +175,7 @@ def key_figures(bundle: dict, system: str) -> list[KeyFigure]:
 
 WORDS = {
     # pump and line outcomes (planner.transfer.system), start-up modes, heater and vessel choices
-    "ok": "ok", "relief_lifting": "relief valve lifting", "no_flow": "no flow", "product_sets": "product sets",
-    "rate_not_reachable": "flow setpoint not reachable", "prewarm": "pre-warm the line",
+    **OUTCOME_WORDS, "prewarm": "pre-warm the line",
     "push_cold": "push the cold contents out", "positive_displacement": "positive displacement",
     "fixed_speed": "fixed speed", "fixed_flow": "fixed flow", "electric_constant": "electric, constant wattage",
     "electric_self_regulating": "electric, self-regulating", "none": "none", "loading_arm": "loading arm",

@@ -23,7 +23,7 @@ from planner.scenario.schema import Scenario, scenario_to_toml
 from planner.scenario.wording import render
 
 from . import figures, tables
-from .display import SYSTEM_NAMES, caution_text, fmt, key_figures
+from .display import SYSTEM_NAMES, caution_text, fmt, key_figures, words
 from .results import SEVERITY_ORDER
 
 CSS = """
@@ -139,7 +139,7 @@ def build_report_html(scenario: Scenario, bundle: dict, system: str = "SI", gene
  · the numbers equal <code>python -m planner plan SCENARIO --json</code> for the scenario in the appendix</p>
 {caution}
 <p class="headline {html.escape(plan.get('worst_severity', 'info'))}"><b>{html.escape(headline(bundle.get('findings') or [], system))}</b></p>
-<p>At the start: <b>{html.escape(str(start.get('status', '')))}</b> — {html.escape(render(start.get('message', ''), system))}</p>
+<p>At the start: <b>{html.escape(words(start.get('status', '')))}</b> — {html.escape(render(start.get('message', ''), system))}</p>
 {timeline_note}
 <h2>Key figures</h2>
 <div class="figures">{figs}</div>

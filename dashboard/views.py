@@ -45,8 +45,14 @@ def key_figures_strip(bundle: dict, unit_system: str) -> None:
     for row in (figs[:4], figs[4:]):
         cols = st.columns(len(row))
         for col, k in zip(cols, row):
-            col.metric(plain(k.label), plain(k.text), delta=plain(k.note) or None, delta_color="off",
+            if k.possible:
+                col.metric(plain(k.label), plain(k.text), delta=plain(k.note) or None, delta_color="off",
+                           delta_arrow="off", help=plain(k.help) or None, border=True)
+                continue
+            # "not possible" in the figure's place, the reason beneath it at reading size
+            col.metric(plain(k.label), "not possible", delta=plain(k.note) or None, delta_color="off",
                        delta_arrow="off", help=plain(k.help) or None, border=True)
+            col.caption(plain(k.text.removeprefix("not possible: ")))
 
 
 def status_line(bundle: dict, unit_system: str = "SI") -> None:
@@ -56,7 +62,7 @@ def status_line(bundle: dict, unit_system: str = "SI") -> None:
     timeline = bundle["plan"]["timeline"]
     findings = bundle.get("findings") or []
     head = headline(findings, unit_system)
-    message = (f"At the start: **{plain(start.get('status', ''))}** — "
+    message = (f"At the start: **{plain(words(start.get('status', '')))}** — "
                f"{plain(render(start.get('message', ''), unit_system))}")
     if start.get("flags"):
         message += f" (flags: {plain(', '.join(start['flags']))})"

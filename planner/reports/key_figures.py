@@ -11,6 +11,7 @@ from dataclasses import dataclass
 
 from planner.scenario.wording import Q, Sentence
 from planner.transfer.plan import Plan
+from planner.transfer.system import OUTCOME_WORDS
 
 
 @dataclass(frozen=True)
@@ -93,7 +94,7 @@ def _pump(plan: Plan) -> list[KeyFigure]:
         note = "no rating known at the pump outlet"
     margin = op.point.npsh_available - op.npsh_required if op.point is not None else None
     return [
-        KeyFigure("start_flow", "Starting flow", flow, "volume_flow", note=op.status,
+        KeyFigure("start_flow", "Starting flow", flow, "volume_flow", note=OUTCOME_WORDS.get(op.status, op.status),
                   help="pump and line agree at this flow at the start"),
         KeyFigure("peak_pressure", "Peak discharge pressure", peak, "pressure", note=note,
                   help="highest gauge pressure at the pump discharge over the transfer and the push-out that "

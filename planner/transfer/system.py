@@ -36,6 +36,12 @@ from planner.transfer.vessels import destination_level, level_from_volume
 HUGE_PRESSURE = 1.0e12  # stands in for "this rate cannot be pushed" (product sets) inside root finding
 
 
+# The outcomes and flags above in words (what a page, a report or a key figure shows for each code).
+OUTCOME_WORDS = {"ok": "ok", "no_flow": "no flow", "relief_lifting": "relief valve lifting",
+                 "rate_not_reachable": "flow setpoint not reachable", "beyond_curve": "beyond the pump curve",
+                 "product_sets": "product sets", "motor_overloaded": "motor overloaded",
+                 "suction_starved": "suction starved"}
+
 @dataclass
 class SystemPoint:
     flow: float                  # m3/s at the source temperature
