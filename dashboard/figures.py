@@ -11,7 +11,7 @@ import numpy as np
 import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
-from .display import convert_array, label, to_display, with_unit
+from .display import convert_array, label, to_display, with_unit, words
 from .plaintext import plotly_text
 from .tables import comparison_currency
 
@@ -208,11 +208,11 @@ def viscosity_figure(curve: dict, system: str, height: int = 460, compact: bool 
     factor = curve.get("viscosity_factor", 1.0)
     if curve.get("viscosity_as_fitted") is not None:
         fig.add_trace(go.Scatter(x=t, y=convert_array(curve["viscosity_as_fitted"], "dynamic_viscosity", system),
-                                 name=f"fitted {curve['law']} law (lab points)",
+                                 name=f"fitted {words(curve['law'])} law (lab points)",
                                  line=dict(color=COLOURS["fit"], dash="dot")))
         name = f"in the plan: calibrated × {factor:.3g}"
     else:
-        name = f"fitted {curve['law']} law"
+        name = f"fitted {words(curve['law'])} law"
     fig.add_trace(go.Scatter(x=t, y=convert_array(curve["viscosity"], "dynamic_viscosity", system),
                              name=name, line=dict(color=COLOURS["fit"])))
     if curve["lab_temperature"]:
