@@ -94,3 +94,21 @@ def test_the_demos_still_start():
         plan = make_plan(load_scenario(path))
         assert not plan.prewarm_stuck, path.name
         assert plan.startup_time_s is not None, path.name
+
+
+def test_a_long_stop_sets_the_contents_of_a_gap_while_the_traced_pipe_holds():
+    # the same cold spot during a stop with the tracing on: the traced pipe holds 55 degC, the 6 m gap
+    # between its ends cools towards its fin temperature (here about 8 degC after 48 h, below the
+    # syrup's 15 degC no-flow temperature): the hold check names the gap, not "holds"
+    data = scenario_to_dict(load_scenario(SYRUP))
+    data["route"]["segments"][0]["untraced_length"] = 6.0
+    data["schedule"]["stop_duration"] = 48 * 3600.0
+    data["suction"] = None
+    plan = make_plan(scenario_from_dict(data))
+    by_name = {s.segment: s for s in plan.hold.segments}
+    assert by_name["Siding header"].time_to_limit_traced_s is None            # the traced pipe holds
+    gap = by_name["Siding header, untraced gap"]
+    assert gap.time_to_limit_traced_s is not None and gap.time_to_limit_traced_s < 48 * 3600.0
+    assert gap.after_stop_traced_k < plan.system.product.no_flow_temperature
+    [short] = [f for f in assess(plan) if f.code == "HOLD-SHORT"]
+    assert "untraced gap" in short.message

@@ -124,14 +124,7 @@ def gap_warmup(seg: LineSegment, product: Product, gap_m: float, t_start: float,
                target: float) -> GapWarmup:
     """The centre of an untraced gap of ``gap_m`` metres whose ends are held at ``t_ends`` [K] from
     time 0, starting at ``t_start``: the time it takes to reach ``target`` (0 when it starts there)."""
-    t_amb = seg.ambient_temperature
-    t_mid = 0.5 * (t_start + t_ends)
-    _, q = jacket_temperature(seg, t_mid)
-    u = q / (t_mid - t_amb) if abs(t_mid - t_amb) > 1e-6 else 0.0       # W/(m K) to the surroundings
-    wall_k = HOSE_WALL_CONDUCTIVITY if seg.kind == "hose" else STEEL_CONDUCTIVITY
-    ka = wall_k * _metal_area(seg) + product.conductivity(t_mid) * seg.area          # W m / K along it
-    capacity = heat_capacity_per_metre(seg, product, t_mid)
-    settles, centre = _gap_centre(gap_m, max(u, 0.0), ka, capacity, t_start, t_ends, t_amb)
+    settles, centre = _gap_model(seg, product, gap_m, t_start, t_ends)
     if t_start >= target:
         # already there; if it settles below the target it cools through it (then: when)
         below = _crossing(centre, target, rising=False) if settles < target else None
@@ -139,6 +132,25 @@ def gap_warmup(seg: LineSegment, product: Product, gap_m: float, t_start: float,
     if settles <= target:
         return GapWarmup(gap_m, None, settles)
     return GapWarmup(gap_m, _crossing(centre, target, rising=True), settles)
+
+
+def gap_centre_after(seg: LineSegment, product: Product, gap_m: float, t_start: float, t_ends: float,
+                     time_s: float) -> float:
+    """The centre temperature [K] of the gap ``time_s`` seconds after its ends were set to ``t_ends``."""
+    return _gap_model(seg, product, gap_m, t_start, t_ends)[1](time_s)
+
+
+def _gap_model(seg: LineSegment, product: Product, gap_m: float, t_start: float, t_ends: float):
+    """(steady centre temperature, centre temperature against time) of a gap, with the loss, the axial
+    conductance and the heat capacity per metre frozen at the mean of the start and end temperatures."""
+    t_amb = seg.ambient_temperature
+    t_mid = 0.5 * (t_start + t_ends)
+    _, q = jacket_temperature(seg, t_mid)
+    u = q / (t_mid - t_amb) if abs(t_mid - t_amb) > 1e-6 else 0.0       # W/(m K) to the surroundings
+    wall_k = HOSE_WALL_CONDUCTIVITY if seg.kind == "hose" else STEEL_CONDUCTIVITY
+    ka = wall_k * _metal_area(seg) + product.conductivity(t_mid) * seg.area          # W m / K along it
+    capacity = heat_capacity_per_metre(seg, product, t_mid)
+    return _gap_centre(gap_m, max(u, 0.0), ka, capacity, t_start, t_ends, t_amb)
 
 
 def _crossing(centre, target: float, rising: bool) -> float | None:

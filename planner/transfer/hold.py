@@ -14,7 +14,8 @@ from dataclasses import dataclass, field
 from planner.correlations.constants import GRAVITY
 from planner.correlations.rheology import gelled_restart_pressure
 from planner.transfer.system import TransferSystem
-from planner.line.transients import evolve
+from planner.line.tracing import Heater
+from planner.line.transients import evolve, gap_centre_after, gap_warmup
 from planner.scenario.wording import Q, Sentence
 
 HOLD_HORIZON_S = 14 * 86400.0
@@ -78,16 +79,15 @@ def hold_analysis(system: TransferSystem, running_temperatures: dict[tuple[str, 
             continue
         for seg, heater in zip(line.segments, line.heaters):
             t0 = running_temperatures.get((name, seg.index), system.source.temperature)
-            results = {}
-            for on in (True, False):
-                if t0 <= limit:
-                    results[on] = (0.0, t0)
-                    continue
-                to_limit = evolve(seg, heater, product, t0, HOLD_HORIZON_S, on, target=limit, rising=False)
-                after = evolve(seg, heater, product, t0, stop, on)
-                results[on] = (to_limit.time_s if to_limit.reached else None, after.temperature_at_end_k)
+            gap = seg.spec.untraced_length if seg.traced and heater.active else 0.0
+            if gap > 0.0:       # the traced length at full output; the gap its own cold spot
+                heater = Heater(system.tracing, 1.0, seg.ambient_temperature)
+            results = {on: _cooling(seg, heater, product, t0, limit, stop, on) for on in (True, False)}
             segments.append(HoldSegment(name, seg.name, t0, limit, results[True][0], results[False][0],
                                         results[True][1], results[False][1]))
+            if gap > 0.0:
+                segments.append(_gap_hold(name, seg, product, gap, t0, limit, stop, results[True][1],
+                                          results[False]))
             if product.yield_stress > 0.0:
                 gelled += gelled_restart_pressure(product.yield_stress, seg.length, seg.inside_diameter)
 
@@ -111,6 +111,28 @@ def hold_analysis(system: TransferSystem, running_temperatures: dict[tuple[str, 
                 all(s.after_stop_traced_k > limit for s in segments),
                 all(s.after_stop_failed_k > limit for s in segments),
                 gelled, pump_limit, segments)
+
+
+def _cooling(seg, heater, product, t0: float, limit: float, stop: float, on: bool) -> tuple[float | None, float]:
+    """(seconds to the limit or None, temperature at the end of the stop) of a lumped metre."""
+    if t0 <= limit:
+        return 0.0, t0
+    to_limit = evolve(seg, heater, product, t0, HOLD_HORIZON_S, on, target=limit, rising=False)
+    after = evolve(seg, heater, product, t0, stop, on)
+    return (to_limit.time_s if to_limit.reached else None), after.temperature_at_end_k
+
+
+def _gap_hold(name: str, seg, product, gap: float, t0: float, limit: float, stop: float, traced_after: float,
+              failed: tuple[float | None, float]) -> HoldSegment:
+    """An untraced gap during a stop: with the tracing on, its ends stay at the traced pipe's
+    temperature and the gap cools towards its fin temperature (``transients.gap_warmup``); with the
+    tracing failed it cools like the rest of the segment."""
+    label = f"{seg.name}, untraced gap"
+    if t0 <= limit:
+        return HoldSegment(name, label, t0, limit, 0.0, 0.0, t0, t0)
+    warm = gap_warmup(seg, product, gap, t0, traced_after, limit)
+    after = gap_centre_after(seg, product, gap, t0, traced_after, stop)
+    return HoldSegment(name, label, t0, limit, warm.falls_below_s, failed[0], min(after, t0), failed[1])
 
 
 def hours(value: float | None) -> str:
