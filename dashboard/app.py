@@ -21,9 +21,10 @@ ROOT = Path(__file__).resolve().parents[1]
 if str(ROOT) not in sys.path:
     sys.path.insert(0, str(ROOT))
 
+# first: importing compute starts the first worker, which loads the planner while the imports below run
+from dashboard.compute import cached_bundle  # noqa: E402
 from dashboard import inputs, tables, views  # noqa: E402
 from dashboard.plaintext import plain  # noqa: E402
-from dashboard.compute import cached_bundle  # noqa: E402
 from dashboard.display import SYSTEM_NAMES, caution_text  # noqa: E402
 from dashboard.report import build_report_html  # noqa: E402
 from dashboard import sharing  # noqa: E402
@@ -151,7 +152,7 @@ def sidebar(scenario: Scenario | None, scenario_json: str | None, bundle: dict |
              help="applies to every input, result, table, chart and export")
     sb.header("Export")
     if scenario is not None:
-        sb.download_button("Scenario file (TOML)", data=scenario_to_toml(scenario, unit_system), file_name=f"{_slug(scenario.name)}.toml",
+        sb.download_button("Scenario file (TOML)", data=lambda: scenario_to_toml(scenario, unit_system), file_name=f"{_slug(scenario.name)}.toml",
                            mime="application/toml", key="dl_toml", width="stretch")
     else:
         sb.caption("The scenario file can be exported once the inputs are valid.")

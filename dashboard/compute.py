@@ -18,7 +18,8 @@ import streamlit as st
 
 from .workers import pool
 
-pool(warm=True)     # the fork server and workers start while the first page is laid out
+pool(warm=True)     # the first worker loads the planner while the server imports the page's modules
+                    # (app.py imports this module first); the others start when first needed
 
 
 class _NotCached(Exception):

@@ -198,7 +198,7 @@ class WorkerPool:
         with self._lock:
             self._all.discard(worker)
         # a replacement starts loading now, so the next request does not wait for it
-        threading.Thread(target=self.warm, name="planner-worker-replace", daemon=True).start()
+        threading.Thread(target=self.spare, name="planner-worker-replace", daemon=True).start()
 
     def run(self, kind: str, args: tuple, session: str = "", progress=None, time_limit: float | None = None,
             wait: float | None = None) -> dict:
@@ -257,11 +257,23 @@ class WorkerPool:
         return {"error": f"the {what} was stopped after {time_limit:g} s, the dashboard's time limit: {reduce}",
                 "transient": True, "timeout": True}
 
-    def warm(self) -> None:
-        """Start the fork server and every worker now (the first page then does not wait for them)."""
+    def spare(self) -> None:
+        """Start one worker now unless one is idle already or the pool is full: the next request then
+        does not wait for an interpreter to load the planner.  The server starts one when it lays out
+        its first page (``pool(warm=True)``) and after stopping a worker; the others start when a
+        request finds no idle worker, so a fresh server does not load the planner ``size`` times over
+        while its first page is being drawn."""
+        with self._lock:
+            if self._closed or self._idle or len(self._all) >= self.size:
+                return
+        self.warm(1)
+
+    def warm(self, count: int | None = None) -> None:
+        """Start workers now until the pool has ``count`` of them (default: all ``size``)."""
+        target = min(self.size, count or self.size)
         while True:
             with self._lock:
-                if self._closed or len(self._all) >= self.size:
+                if self._closed or len(self._all) >= target:
                     return
             try:
                 worker = _Worker()
@@ -290,14 +302,14 @@ _POOL_LOCK = threading.Lock()
 
 
 def pool(warm: bool = False) -> WorkerPool:
-    """The server's one pool (made on first use; ``warm``: its workers started in the background)."""
+    """The server's one pool (made on first use; ``warm``: its first worker started in the background)."""
     global _POOL
     with _POOL_LOCK:
         if _POOL is None:
             _POOL = WorkerPool()
             atexit.register(_POOL.close)
             if warm:
-                threading.Thread(target=_POOL.warm, name="planner-workers-warm", daemon=True).start()
+                threading.Thread(target=_POOL.spare, name="planner-workers-warm", daemon=True).start()
         return _POOL
 
 

@@ -111,3 +111,27 @@ def test_a_planner_error_comes_back_as_a_message(workers):
     text = Scenario.model_validate(data).model_dump_json()
     result = workers.run("plan", (text,), session="s4", time_limit=120)
     assert "pump" in result["error"] and not result.get("transient")
+
+
+def test_a_fresh_pool_starts_one_worker_and_the_next_when_two_sessions_compute_at_once():
+    """The server starts one worker for its first page (``spare``), not one per core; the second starts
+    when a second session computes while the first worker is busy."""
+    pool = WorkerPool(2)
+    try:
+        pool.spare()
+        pool.spare()                                    # one is idle already: no second one
+        assert len(pool._all) == 1
+        first = pool.run("plan", (LIGHT,), session="a", time_limit=120)
+        assert "error" not in first and len(pool._all) == 1     # the spare served it
+        heavy = {}
+        thread = threading.Thread(target=lambda: heavy.update(r=pool.run("plan", (HEAVY,), session="a",
+                                                                         time_limit=120)))
+        thread.start()
+        time.sleep(0.3)
+        second = pool.run("plan", (LIGHT,), session="b", time_limit=120)
+        thread.join()
+        assert "error" not in second and "error" not in heavy["r"]
+        assert len(pool._all) == 2
+        assert first["plan"]["timeline"]["total_time_s"] == second["plan"]["timeline"]["total_time_s"]
+    finally:
+        pool.close()
