@@ -9,7 +9,11 @@ dashboard server.  While the database holds no account at all, the panel offers 
 admin (README, "Accounts"); after that, accounts are managed by admins (the panel below) or with
 ``python -m planner users``.
 
-Session state used here: ``auth_token``, ``auth_msg`` and the form keys ``si_*``, ``fa_*``, ``ad_*``.
+The admin panel disables and enables accounts, changes roles and sets passwords (each recorded as an
+account event by ``AccountBook``; the last active admin is kept); every signed-in account may change
+its own password with its current one.
+
+Session state used here: ``auth_token``, ``auth_msg`` and the form keys ``si_*``, ``fa_*``, ``ad_*``, ``pw_*``.
 """
 
 from __future__ import annotations
@@ -128,6 +132,68 @@ def _do_disable(name: str) -> None:
     _say("success", f"Account {name!r} disabled; its revisions and review records keep its name.")
 
 
+def _do_enable(name: str) -> None:
+    admin = acting_account("enable accounts")
+    if admin is None:
+        return
+    try:
+        _book().enable(name, by=admin)
+    except StoreError as exc:
+        _say("error", f"Not enabled: {exc}")
+        return
+    _say("success", f"Account {name!r} enabled again.")
+
+
+def _do_set_role() -> None:
+    ss = st.session_state
+    admin = acting_account("change roles")
+    if admin is None:
+        return
+    name, role = ss.get("ad_target") or "", ss.get("ad_new_role") or ""
+    try:
+        changed = _book().set_role(name, role, by=admin)
+    except StoreError as exc:
+        _say("error", f"Role not changed: {exc}")
+        return
+    _say("success", f"Account {changed.name!r} is now a{'n' if changed.role[0] in 'aeiou' else ''} {changed.role}.")
+
+
+def _do_set_password() -> None:
+    ss = st.session_state
+    admin = acting_account("set passwords")
+    password = ss.get("ad_new_password") or ""
+    ss["ad_new_password"] = ""
+    if admin is None:
+        return
+    name = ss.get("ad_target") or ""
+    try:
+        _book().set_password(name, password, by=admin)
+    except StoreError as exc:
+        _say("error", f"Password not set: {exc}")
+        return
+    _say("success", f"New password set for {name!r}; its sign-ins have ended.")
+
+
+def _do_change_own_password() -> None:
+    ss = st.session_state
+    me = acting_account("change your password")
+    current, new, again = ss.get("pw_current") or "", ss.get("pw_new") or "", ss.get("pw_again") or ""
+    ss["pw_current"] = ss["pw_new"] = ss["pw_again"] = ""
+    if me is None:
+        return
+    if new != again:
+        _say("error", "Password not changed: the two new passwords differ.")
+        return
+    try:
+        book = _book()
+        book.set_password(me.name, new, by=me, current_password=current)
+        ss[TOKEN_KEY] = book.sign_in(me.name, new).token        # the change ended every sign-in, this one too
+    except StoreError as exc:
+        _say("error", f"Password not changed: {exc}")
+        return
+    _say("success", "Your password is changed; other sign-ins of your account have ended.")
+
+
 # ------------------------------------------------------------------------------------------ layout
 
 def _no_accounts_yet() -> bool:
@@ -154,8 +220,9 @@ def account_panel(container) -> Account | None:
     if account is not None:
         container.caption(f"Signed in as **{account.name}** ({account.role}).")
         container.button("Sign out", key="si_out", on_click=_do_sign_out)
+        _own_password(container)
         if account.role == "admin":
-            _admin_panel(container)
+            _admin_panel(container, account)
         return account
     if empty:
         container.caption("No accounts yet. Create the first admin here (offered only while no account exists), "
@@ -172,7 +239,15 @@ def account_panel(container) -> Account | None:
     return None
 
 
-def _admin_panel(container) -> None:
+def _own_password(container) -> None:
+    with container.expander("Change my password"):
+        st.text_input("Current password", key="pw_current", type="password", max_chars=256)
+        st.text_input("New password (at least 10 characters)", key="pw_new", type="password", max_chars=256)
+        st.text_input("New password again", key="pw_again", type="password", max_chars=256)
+        st.button("Change my password", key="pw_change", on_click=_do_change_own_password)
+
+
+def _admin_panel(container, me: Account) -> None:
     with container.expander("Accounts (admin)"):
         try:
             people = _book().list()
@@ -183,8 +258,18 @@ def _admin_panel(container) -> None:
             left, right = st.columns([3, 1])
             status = "disabled" if person.disabled_at else "active"
             left.caption(f"{person.name} — {person.role}, {status}")
-            if person.disabled_at is None and person.role != "admin":
+            if person.disabled_at is not None:
+                right.button("Enable", key=f"ad_enable|{person.name}", on_click=_do_enable, args=(person.name,))
+            elif person.name != me.name:
                 right.button("Disable", key=f"ad_disable|{person.name}", on_click=_do_disable, args=(person.name,))
+        st.markdown("**Change an account**")
+        st.selectbox("Account", [p.name for p in people], key="ad_target")
+        st.selectbox("New role", list(ROLES), key="ad_new_role")
+        st.button("Set role", key="ad_set_role", on_click=_do_set_role)
+        st.text_input("New password for it (at least 10 characters)", key="ad_new_password", type="password",
+                      max_chars=256)
+        st.button("Set password", key="ad_set_password", on_click=_do_set_password)
+        st.markdown("**Add an account**")
         st.text_input("New account name", key="ad_name", max_chars=60)
         st.selectbox("Role", [r for r in ROLES], key="ad_role")
         st.text_input("Its password (at least 10 characters)", key="ad_password", type="password", max_chars=256)

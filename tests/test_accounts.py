@@ -9,6 +9,7 @@ parameters are the OWASP Password Storage Cheat Sheet's Argon2id setting (m = 19
 
 from __future__ import annotations
 
+import hashlib
 import time
 
 import argon2
@@ -189,3 +190,101 @@ def test_sessions_over_for_a_day_are_cleared_at_the_next_sign_in(store, book):
     with store.engine.connect() as conn:
         kept = {r[0] for r in conn.exec_driver_sql("SELECT token_hash FROM sessions").all()}
     assert kept == {accounts._token_hash(recent.token), accounts._token_hash(newest.token)}
+
+
+def _events(store) -> list[tuple]:
+    with store.engine.connect() as conn:
+        return [tuple(r) for r in conn.exec_driver_sql('SELECT name, action, role, disabled_at IS NOT NULL, "by" '
+                                                       "FROM account_events ORDER BY id").all()]
+
+
+def test_enabling_roles_and_passwords_are_recorded_and_checked(store, book):
+    root = book.add("root", "admin", "root-password-1")
+    ana = book.add("ana", "planner", "ana-password-1", by=root)
+    book.disable("ana", by=root)
+    with pytest.raises(StoreError, match="enabling an account needs an admin's sign-in"):
+        book.enable("ana")
+    assert book.enable("ana", by=root).active
+    with pytest.raises(StoreError, match="the account 'ana' is active already"):
+        book.enable("ana", by=root)
+    with pytest.raises(StoreError, match="changing a role needs an active admin account"):
+        book.set_role("ana", "supervisor", by=ana)                  # nobody raises their own role
+    assert book.set_role("ana", "supervisor", by=root).role == "supervisor"
+    with pytest.raises(StoreError, match="'ana' is a supervisor already"):
+        book.set_role("ana", "supervisor", by=root)
+    with pytest.raises(StoreError, match="role: 'boss' is not one of"):
+        book.set_role("ana", "boss", by=root)
+    # the last active admin stays one; with a second admin the first may step down
+    with pytest.raises(StoreError, match="'root' is the only active admin: add another admin first"):
+        book.set_role("root", "planner", by=root)
+    book.set_role("ana", "admin", database_operator=True)
+    assert book.set_role("root", "supervisor", by=book.get("ana")).role == "supervisor"
+    with pytest.raises(StoreError, match="'ana' is the only active admin"):
+        book.disable("ana", database_operator=True)
+    assert _events(store) == [
+        ("root", "add", "admin", False, "first admin"), ("ana", "add", "planner", False, "root"),
+        ("ana", "disable", "planner", True, "root"), ("ana", "enable", "planner", False, "root"),
+        ("ana", "role", "supervisor", False, "root"), ("ana", "role", "admin", False, "command line"),
+        ("root", "role", "supervisor", False, "ana")]
+    assert store.verify().ok
+
+
+def test_passwords_are_set_by_an_admin_or_by_the_account_with_its_current_one(store, book):
+    root = book.add("root", "admin", "root-password-1")
+    book.add("ana", "planner", "ana-password-1", by=root)
+    ben = book.add("ben", "planner", "ben-password-1", by=root)
+    ana = book.authenticate("ana", "ana-password-1")
+    session = book.sign_in("ana", "ana-password-1")
+    with pytest.raises(StoreError, match="changing your password needs your current password"):
+        book.set_password("ana", "ana-password-2", by=ana, current_password="wrong-password")
+    book.set_password("ana", "ana-password-2", by=ana, current_password="ana-password-1")
+    with pytest.raises(StoreError, match="not right"):
+        book.authenticate("ana", "ana-password-1")
+    assert book.authenticate("ana", "ana-password-2").name == "ana"
+    with pytest.raises(StoreError, match="ended"):                # a new password ends the sign-ins
+        book.session(session.token)
+    with pytest.raises(StoreError, match="setting another account's password needs an active admin account"):
+        book.set_password("ana", "ben-chose-this-1", by=ben)
+    book.set_password("ana", "root-chose-this-1", by=root)
+    assert argon2.PasswordHasher().verify(_hash_of(store, "ana"), "root-chose-this-1")
+    book.set_password("ana", "cli-chose-this-1", database_operator=True)
+    assert book.authenticate("ana", "cli-chose-this-1").name == "ana"
+    with pytest.raises(StoreError, match="password: 5 characters, at least 10"):
+        book.set_password("ana", "short", by=root)
+    assert [e[:2] + (e[4],) for e in _events(store)][3:] == [("ana", "password", "ana"), ("ana", "password", "root"),
+                                                           ("ana", "password", "command line")]
+    # each event keeps the SHA-256 of the hash then set (hashlib), not the hash itself
+    with store.engine.connect() as conn:
+        digest = conn.exec_driver_sql("SELECT password_digest FROM account_events ORDER BY id DESC").first()[0]
+        kept = [r[0] for r in conn.exec_driver_sql("SELECT password_digest FROM account_events").all()]
+    assert digest == hashlib.sha256(_hash_of(store, "ana").encode()).hexdigest()
+    assert _hash_of(store, "ana") not in kept
+    assert store.verify().ok
+
+
+def test_a_raw_sql_role_change_is_refused_and_named(store, book):
+    """Raw SQL with the refusals on: refused. With them off (owner rights): named by verify, and the
+    account's sign-in and admin rights are refused until it matches again."""
+    root = book.add("root", "admin", "root-password-1")
+    book.add("ana", "planner", "ana-password-1", by=root)
+    session = book.sign_in("ana", "ana-password-1")
+    with pytest.raises(Exception, match="their role and state change only with their account event"):
+        with store.engine.begin() as conn:
+            conn.exec_driver_sql("UPDATE accounts SET role = 'admin' WHERE name = 'ana'")
+    with store.engine.begin() as conn:
+        if store.dialect == "sqlite":
+            conn.exec_driver_sql("DROP TRIGGER accounts_follow_events")
+        else:
+            conn.exec_driver_sql("ALTER TABLE accounts DISABLE TRIGGER USER")
+        conn.exec_driver_sql("UPDATE accounts SET role = 'admin' WHERE name = 'ana'")
+    assert store.verify().problems == ["account 'ana': its role is 'admin' but its recorded events say 'planner'"]
+    with pytest.raises(StoreError, match="the account 'ana' does not match the recorded history"):
+        book.session(session.token)
+    with pytest.raises(StoreError, match="the account 'ana' does not match the recorded history"):
+        book.authenticate("ana", "ana-password-1")
+    with pytest.raises(StoreError, match="the account 'ana' does not match"):
+        book.add("eve", "admin", "eve-password-1", by=book.get("ana"))
+    # an admin puts it back through the planner: recorded, and it matches again
+    book.set_role("ana", "planner", by=root)
+    assert store.verify().ok
+    assert book.authenticate("ana", "ana-password-1").role == "planner"

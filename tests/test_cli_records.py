@@ -100,7 +100,8 @@ def test_the_command_line_flow(db_url, capsys, monkeypatch):
     code, out, _ = run(capsys, monkeypatch, "plans", "show", pid, "--db", db)
     assert code == 0 and "revision 1: approved — saved by ana" in out and "approve  sam (supervisor): ok for the tide" in out
     code, out, _ = run(capsys, monkeypatch, "plans", "verify", "--db", db)
-    assert code == 0 and "checked 1 revisions and 2 review records (3 history entries): every record matches" in out
+    assert code == 0 and ("checked 1 revisions, 2 review records and 4 accounts (4 account events; 7 history "
+                          "entries): every record matches") in out
     # disabling keeps the history and ends the account's use
     code, out, _ = run(capsys, monkeypatch, "users", "disable", "sam", "--db", db)
     assert code == 0 and "keep its name" in out
@@ -108,32 +109,79 @@ def test_the_command_line_flow(db_url, capsys, monkeypatch):
                        "--json", "--db", db, password="sam-password-1")
     assert code == 2 and "the account 'sam' is disabled" in err
     assert store.reviews(pid, 1)[-1].by == "sam"
+    _account_commands(capsys, monkeypatch, db)
     _tamper_and_verify(capsys, monkeypatch, store, pid)
     store.close()
 
 
+def _account_commands(capsys, monkeypatch, db) -> None:
+    """users enable / role / password: each done, each recorded, the last admin kept, refusals with why."""
+    steps = [
+        (("users", "enable", "sam"), None, 0, "enabled account 'sam' (supervisor)"),
+        (("users", "enable", "sam"), None, 2, "the account 'sam' is active already"),
+        (("users", "role", "ana", "--role", "supervisor"), None, 0, "account 'ana' is now a supervisor"),
+        (("users", "role", "root", "--role", "planner"), None, 2, "'root' is the only active admin"),
+        (("users", "role", "ana", "--role", "boss"), None, 2, "invalid choice: 'boss'"),
+        (("users", "role", "nobody", "--role", "planner"), None, 2, "there is no account 'nobody'"),
+        (("users", "password", "sue", "--password-stdin"), "sue-password-2", 0, "new password set for 'sue'"),
+        (("users", "password", "sue", "--password-stdin"), "short", 2, "password: 5 characters, at least 10"),
+        (("users", "password", "sue", "--password-stdin"), None, 2, "no password on standard input"),
+    ]
+    for argv, password, status, words in steps:
+        code, out, err = run(capsys, monkeypatch, *argv, "--db", db, password=password)
+        assert code == status and words in (out if status == 0 else err), (argv, out, err)
+    code, out, _ = run(capsys, monkeypatch, "users", "list", "--json", "--db", db)
+    assert [(u["name"], u["role"], u["disabled"]) for u in json.loads(out)] == [
+        ("ana", "supervisor", False), ("root", "admin", False), ("sam", "supervisor", False), ("sue", "supervisor", False)]
+    for user, password, status in (("sue", "sue-password-1", 2), ("sue", "sue-password-2", 0), ("sam", "sam-password-1", 0)):
+        code, _, err = run(capsys, monkeypatch, "plans", "save", DEMO, "--name", f"by {user}", "--user", user,
+                           "--password-stdin", "--json", "--db", db, password=password)
+        assert code == status, (user, err)
+    code, out, _ = run(capsys, monkeypatch, "plans", "verify", "--json", "--db", db)
+    found = json.loads(out)
+    assert code == 0 and (found["accounts"], found["account_events"], found["revisions"]) == (4, 8, 3), found
+    assert found["entries"] == 4 + 1 + 2 + 1 + 3 + 2         # added, saved, reviewed, disabled, 3 changes, 2 saves
+
+
 def _tamper_and_verify(capsys, monkeypatch, store, pid: int) -> None:
     """Behind the planner's back: refusals off, an approved revision's note and its approver edited."""
+    import argon2
+
     if store.dialect == "sqlite":
         raw = sqlite3.connect(store.path, isolation_level=None)
-        raw.execute("DROP TRIGGER revisions_content_frozen")
-        raw.execute("DROP TRIGGER reviews_append_only")
+        for trigger in ("revisions_content_frozen", "reviews_append_only", "accounts_follow_events"):
+            raw.execute(f"DROP TRIGGER {trigger}")
     else:
         import psycopg
 
         raw = psycopg.connect(store.url.replace("postgresql+psycopg://", "postgresql://"), autocommit=True)
-        raw.execute("ALTER TABLE revisions DISABLE TRIGGER USER")
-        raw.execute("ALTER TABLE reviews DISABLE TRIGGER USER")
-    raw.execute("UPDATE revisions SET note = 'approved as is'")
+        for table in ("revisions", "reviews", "accounts"):
+            raw.execute(f"ALTER TABLE {table} DISABLE TRIGGER USER")
+    raw.execute(f"UPDATE revisions SET note = 'approved as is' WHERE plan_id = {pid}")
     raw.execute("UPDATE reviews SET comment = 'fine' WHERE action = 'approve'")
     raw.close()
     code, out, _ = run(capsys, monkeypatch, "plans", "verify", "--db", store.url)
     assert code == 1
-    assert f"MISMATCH: plan {pid} revision 1 (“Wren discharge”): differs from the recorded history (entry 1)" in out
-    assert f"MISMATCH: review record 2 (approve of plan {pid} revision 1): differs from the recorded history (entry 3)" in out
+    assert f"MISMATCH: plan {pid} revision 1 (“Wren discharge”): differs from the recorded history (entry 5)" in out
+    assert f"MISMATCH: review record 2 (approve of plan {pid} revision 1): differs from the recorded history (entry 7)" in out
     assert "2 record(s) do not match" in out
+    # an account's role and another's password hash changed with raw SQL: named by verify, refused in use
+    known = argon2.PasswordHasher().hash("mallory-password-1")
+    raw = sqlite3.connect(store.path, isolation_level=None) if store.dialect == "sqlite" else \
+        psycopg.connect(store.url.replace("postgresql+psycopg://", "postgresql://"), autocommit=True)
+    raw.execute("UPDATE accounts SET role = 'admin' WHERE name = 'sam'")
+    raw.execute(f"UPDATE accounts SET password_hash = '{known}' WHERE name = 'sue'")
+    raw.close()
+    code, out, _ = run(capsys, monkeypatch, "plans", "verify", "--db", store.url)
+    assert code == 1 and "4 record(s) do not match" in out, out
+    assert "MISMATCH: account 'sam': its role is 'admin' but its recorded events say 'supervisor'" in out
+    assert ("MISMATCH: account 'sue': its password hash is not the one its recorded events say (changed behind "
+            "the planner's back)") in out
+    code, _, err = run(capsys, monkeypatch, "plans", "save", DEMO, "--name", "x", "--user", "sue", "--password-stdin",
+                       "--json", "--db", store.url, password="mallory-password-1")
+    assert code == 2 and "the account 'sue' does not match the recorded history" in err, err
     code, out, _ = run(capsys, monkeypatch, "plans", "verify", "--json", "--db", store.url)
-    assert code == 1 and len(json.loads(out)["problems"]) == 2
+    assert code == 1 and len(json.loads(out)["problems"]) == 4
 
 
 def test_the_real_entry_point_reads_the_environment_and_stdin(tmp_path):

@@ -157,3 +157,40 @@ def test_a_search_with_a_nul_character_is_refused_not_matched(db):
     assert not at.exception
     assert any("Search refused: search: name: contains a control character" in e for e in _texts(at.error))
     assert not [f for f in at.dataframe if "Plan" in f.value.columns and "State" in f.value.columns]
+
+
+def test_the_admin_panel_enables_changes_roles_and_sets_passwords(db):
+    store, people = _people(db)
+    book = AccountBook(store)
+    at = _app()
+    _sign_in(at, "root")
+    _click(at, "ad_disable|ben")
+    assert book.get("ben").disabled_at is not None
+    assert not [b for b in at.button if b.key == "ad_disable|root"]          # not oneself
+    _click(at, "ad_enable|ben")
+    assert book.get("ben").active and any("Account 'ben' enabled again" in m for m in _texts(at.sidebar.success))
+    at.selectbox(key="ad_target").set_value("ana")
+    at.selectbox(key="ad_new_role").set_value("supervisor")
+    _click(at, "ad_set_role")
+    assert book.get("ana").role == "supervisor"
+    at.selectbox(key="ad_target").set_value("root")
+    at.selectbox(key="ad_new_role").set_value("planner")
+    _click(at, "ad_set_role")
+    assert any("'root' is the only active admin" in e for e in _texts(at.sidebar.error)), _sidebar_texts(at)
+    at.selectbox(key="ad_target").set_value("ben")
+    at.text_input(key="ad_new_password").set_value("ben-password-2")
+    _click(at, "ad_set_password")
+    assert book.authenticate("ben", "ben-password-2").name == "ben"
+    # ben changes his own password with the current one and stays signed in
+    _sign_in(at, "ben", "ben-password-2")
+    at.text_input(key="pw_current").set_value("ben-password-2")
+    at.text_input(key="pw_new").set_value("ben-password-3")
+    at.text_input(key="pw_again").set_value("ben-password-3")
+    _click(at, "pw_change")
+    assert any("Your password is changed" in m for m in _texts(at.sidebar.success)), _sidebar_texts(at)
+    assert any("Signed in as **ben**" in c for c in _texts(at.sidebar.caption))
+    assert book.authenticate("ben", "ben-password-3").name == "ben"
+    with store.engine.connect() as conn:
+        actions = [r[0] for r in conn.exec_driver_sql("SELECT action FROM account_events ORDER BY id").all()]
+    assert actions[5:] == ["disable", "enable", "role", "password", "password"]
+    assert store.verify().ok

@@ -5,7 +5,8 @@ supervisors, killed writers, and the database location refusing odd paths.
 
 References: review rules from issue 14 (roles; nobody approves their own revision); the refusals from
 ``planner.records.migrations``; the chain's hashes are recomputed here with ``hashlib.sha256`` over the
-documented record layout (``planner.records.chain`` docstring), not through the module.
+documented record layout (``planner.records.chain`` docstring), not through the module; an account
+event keeps the SHA-256 of the account's password hash, checked here with ``hashlib`` too.
 """
 
 from __future__ import annotations
@@ -180,11 +181,17 @@ def _expected_chain(store) -> list[str]:
                     "ON p.id = r.plan_id WHERE r.id = :i"), {"i": record_id}).one()
                 keys = ("id", "plan_id", "plan_name", "site", "number", "scenario_json", "results_json", "product",
                         "author", "author_id", "note", "created_at", "content_hash")
-            else:
+            elif kind == "review":
                 row = conn.execute(text('SELECT id, revision_id, action, "by", by_id, by_role, comment, at, '
                                         "from_state, to_state FROM reviews WHERE id = :i"), {"i": record_id}).one()
                 keys = ("id", "revision_id", "action", "by", "by_id", "by_role", "comment", "at", "from_state",
                         "to_state")
+            else:
+                row = conn.execute(text('SELECT id, account_id, action, name, role, password_digest, created_at, '
+                                        'created_by, disabled_at, "by", by_id, at FROM account_events WHERE id = :i'),
+                                   {"i": record_id}).one()
+                keys = ("id", "account_id", "action", "name", "role", "password_digest", "created_at", "created_by",
+                        "disabled_at", "by", "by_id", "at")
             body = json.dumps({"kind": kind, **dict(zip(keys, row))}, sort_keys=True, separators=(",", ":"),
                               ensure_ascii=False)
             prev = hashlib.sha256(f"{prev}\n{body}".encode()).hexdigest()
@@ -199,7 +206,8 @@ def test_verify_names_each_record_changed_behind_the_planners_back(store, people
     two = store.save("Polyol", load_scenario(DEMO_FILES[1]), people["ben"])
     store.submit(two.plan_id, 1, people["ben"], "ready")
     found = store.verify()
-    assert found.ok and (found.revisions, found.reviews, found.entries) == (2, 3, 5)
+    assert found.ok and (found.revisions, found.reviews, found.entries) == (2, 3, 10)      # + 5 accounts added
+    assert (found.accounts, found.account_events) == (5, 5)
     with store.engine.connect() as conn:
         stored = [r[0] for r in conn.exec_driver_sql("SELECT hash FROM chain ORDER BY seq").all()]
     assert stored == _expected_chain(store) and found.head == stored[-1]
@@ -220,12 +228,12 @@ def test_verify_names_each_record_changed_behind_the_planners_back(store, people
     found = store.verify()
     assert not found.ok
     assert found.problems == [
-        f"plan {one.plan_id} revision 1 (“Wren”): differs from the recorded history (entry 1)",
-        f"review record 2 (approve of plan {one.plan_id} revision 1): differs from the recorded history (entry 3)",
+        f"plan {one.plan_id} revision 1 (“Wren”): differs from the recorded history (entry 6)",
+        f"review record 2 (approve of plan {one.plan_id} revision 1): differs from the recorded history (entry 8)",
         f"plan {two.plan_id} revision 1 (“Polyol”): shows 'approved' but its review trail leads to 'submitted'",
     ], found.problems
     assert store.revision_problems(two.plan_id, 1) == [found.problems[2]]
-    assert store.revision_problems(one.plan_id, 1) == [p.replace(" (entry 1)", "").replace(" (entry 3)", "")
+    assert store.revision_problems(one.plan_id, 1) == [p.replace(" (entry 6)", "").replace(" (entry 8)", "")
                                                        for p in found.problems[:2]]
 
 
@@ -297,7 +305,7 @@ def test_migration_from_version_1(tmp_path):
     path = tmp_path / "old.sqlite"
     _v1_file(path)
     store = PlanStore(path)
-    assert store.schema_version() == 3
+    assert store.schema_version() == 4
     assert store.count_revisions() == 1
     found = store.verify()          # the old records are in the history, in the order they were made
     assert found.ok and (found.revisions, found.reviews, found.entries) == (1, 1, 2), found.problems
@@ -325,7 +333,7 @@ def test_migration_on_postgresql_from_version_1(pg_server):
                           "VALUES (1, 1, '{}', 'a', '2025-01-01T00:00:00+00:00')"))
     engine.dispose()
     store = PlanStore(url=url)
-    assert store.schema_version() == 3 and store.count_revisions() == 1 and store.verify().ok
+    assert store.schema_version() == 4 and store.count_revisions() == 1 and store.verify().ok
     people = make_people(store, ("root", "ana"))
     assert store.save("old", SCENARIO, people["ana"]).number == 2
     store.close()
@@ -567,3 +575,147 @@ def test_ids_beyond_the_databases_integers_are_not_found(store, people):
         store.approve(999_999_999_999, 1, people["sam"])
     with pytest.raises(StoreError, match="revision 1 is a draft \\(not submitted yet\\)"):
         store.approve(rev.plan_id, 1, people["sam"])
+
+
+# --- accounts in the recorded history ----------------------------------------------------------------
+
+def _accounts_unguarded(connection, store) -> None:
+    """The attacker turns off the refusals on the accounts table (owner rights on the database)."""
+    if store.dialect == "sqlite":
+        connection.execute("DROP TRIGGER accounts_follow_events")
+    else:
+        connection.execute("ALTER TABLE accounts DISABLE TRIGGER USER")
+
+
+def test_account_changes_behind_the_planners_back_are_named_and_not_obeyed(store, people):
+    import argon2
+
+    book = AccountBook(store)
+    book.disable("sue", by=people["root"])
+    rev = store.save("Wren", SCENARIO, people["ben"])
+    store.submit(rev.plan_id, 1, people["ben"])
+    assert store.verify().ok
+    with store.engine.connect() as conn:
+        disabled_at = conn.exec_driver_sql("SELECT disabled_at FROM accounts WHERE name = 'sue'").scalar_one()
+    known = argon2.PasswordHasher().hash("mallory-password-1")       # a hash whose password the attacker knows
+    connection = raw(store)
+    try:
+        _accounts_unguarded(connection, store)
+        connection.execute("UPDATE accounts SET role = 'supervisor' WHERE name = 'ana'")
+        connection.execute(f"UPDATE accounts SET password_hash = '{known}' WHERE name = 'sam'")
+        connection.execute("UPDATE accounts SET disabled_at = NULL WHERE name = 'sue'")
+    finally:
+        connection.close()
+    found = store.verify()
+    assert found.problems == [
+        "account 'ana': its role is 'supervisor' but its recorded events say 'planner'",
+        "account 'sam': its password hash is not the one its recorded events say (changed behind the planner's back)",
+        f"account 'sue': it is active but its recorded events say disabled (since {disabled_at})",
+    ], found.problems
+    # the approval checks use the recorded role and state, not the row's
+    for who in ("ana", "sue"):
+        with pytest.raises(StoreError, match=f"the account '{who}' does not match the recorded history .*approving "
+                                             "is refused"):
+            store.approve(rev.plan_id, 1, people[who])
+    with pytest.raises(StoreError, match="the account 'sam' does not match the recorded history"):
+        book.authenticate("sam", "mallory-password-1")
+    assert store.revision(rev.plan_id, 1).state == "submitted"
+    with pytest.raises(StoreError, match="the account 'ana' does not match"):       # nor can admin rights be taken
+        book.add("eve", "admin", "eve-password-1", by=people["ana"])
+
+
+def test_a_forged_account_event_is_named(store, people):
+    """Raw SQL that adds an account event and then the change it allows: the database takes the change
+    (the event is the latest), but the event is not in the chain, and the acting check refuses ana."""
+    rev = store.save("Wren", SCENARIO, people["ben"])
+    store.submit(rev.plan_id, 1, people["ben"])
+    connection = raw(store)
+    try:
+        connection.execute('INSERT INTO account_events (account_id, action, name, role, password_digest, created_at, '
+                           'created_by, disabled_at, "by", by_id, at) SELECT id, \'role\', name, \'supervisor\', '
+                           "'x', created_at, created_by, disabled_at, 'mallory', NULL, 't' FROM accounts "
+                           "WHERE name = 'ana'")
+        connection.execute("UPDATE accounts SET role = 'supervisor' WHERE name = 'ana'")
+        for sql in ("UPDATE account_events SET role = 'admin'", "DELETE FROM account_events",
+                    "UPDATE accounts SET role = 'admin' WHERE name = 'ben'"):
+            with pytest.raises(raw_errors()):
+                connection.execute(sql)
+    finally:
+        connection.close()
+    found = store.verify()
+    assert found.problems == [
+        "account event 6 ('ana' role set to supervisor): not in the recorded history (added behind the planner's back)",
+        "account 'ana': its role is 'supervisor' but its recorded events say 'planner'"], found.problems
+    with pytest.raises(StoreError, match="the account 'ana' does not match the recorded history"):
+        store.approve(rev.plan_id, 1, people["ana"])
+
+
+def _v3_database(url: str, dialect: str) -> None:
+    """A database as the version 3 planner left it: its migrations, accounts without events (ana's hash
+    made with argon2-cffi's default parameters, as an older setting would), a chained revision and review."""
+    import argon2
+
+    from planner.records import accounts, chain
+
+    ours, default = argon2.PasswordHasher(**accounts.ARGON2), argon2.PasswordHasher()
+    engine = create_engine(url)
+    with engine.begin() as conn:
+        for version in (1, 2, 3):
+            MIGRATIONS[version](conn, dialect)
+        conn.execute(text("INSERT INTO meta (key, value) VALUES ('schema_version', '3')"))
+        for name, role, by, hasher in (("root", "admin", "first admin", ours), ("ana", "planner", "root", default),
+                                       ("sam", "supervisor", "root", ours), ("old", "planner", "root", ours)):
+            conn.execute(text("INSERT INTO accounts (name, role, password_hash, created_at, created_by) "
+                              "VALUES (:n, :r, :h, '2026-01-01T00:00:00+00:00', :b)"),
+                         {"n": name, "r": role, "h": hasher.hash(f"{name}-password-1"), "b": by})
+        conn.exec_driver_sql("UPDATE accounts SET disabled_at = '2026-02-01T00:00:00+00:00' WHERE name = 'old'")
+        conn.exec_driver_sql("INSERT INTO plans (name, site, created_at, created_by) VALUES ('old plan', '', 't', 'ana')")
+        conn.execute(text("INSERT INTO revisions (plan_id, number, scenario_json, author, author_id, created_at, "
+                          "content_hash) VALUES (1, 1, :s, 'ana', 2, '2026-03-01T00:00:00+00:00', '')"),
+                     {"s": json.dumps(scenario_to_dict(SCENARIO))})
+        chain.append(conn, "revision", 1)
+        conn.exec_driver_sql('INSERT INTO reviews (revision_id, action, "by", by_id, by_role, comment, at, '
+                             "from_state, to_state) VALUES (1, 'submit', 'ana', 2, 'planner', '', "
+                             "'2026-03-01T00:01:00+00:00', 'draft', 'submitted')")
+        conn.exec_driver_sql("UPDATE revisions SET state = 'submitted' WHERE id = 1")
+        chain.append(conn, "review", 1)
+    engine.dispose()
+
+
+def test_migration_from_version_3_records_every_account(db_url):
+    dialect = "postgresql" if db_url.startswith("postgresql") else "sqlite"
+    _v3_database(db_url, dialect)
+    store = PlanStore(url=db_url)
+    try:
+        assert store.schema_version() == 4
+        found = store.verify()
+        assert found.ok, found.problems
+        assert (found.revisions, found.reviews, found.accounts, found.account_events, found.entries) == (1, 1, 4, 4, 6)
+        with store.engine.connect() as conn:
+            events = conn.exec_driver_sql('SELECT name, action, role, disabled_at, "by" FROM account_events '
+                                          "ORDER BY id").all()
+            digest = conn.exec_driver_sql("SELECT password_digest FROM account_events WHERE name = 'sam'").scalar_one()
+            sam_hash = conn.exec_driver_sql("SELECT password_hash FROM accounts WHERE name = 'sam'").scalar_one()
+        assert [tuple(e) for e in events] == [
+            ("root", "recorded", "admin", None, "schema version 4"), ("ana", "recorded", "planner", None, "schema version 4"),
+            ("sam", "recorded", "supervisor", None, "schema version 4"),
+            ("old", "recorded", "planner", "2026-02-01T00:00:00+00:00", "schema version 4")]
+        assert digest == hashlib.sha256(sam_hash.encode()).hexdigest()
+        book = AccountBook(store)
+        sam = book.authenticate("sam", "sam-password-1")
+        assert store.approve(1, 1, sam, "checked after the upgrade").state == "approved"
+        ana = book.authenticate("ana", "ana-password-1")           # her older hash is redone: a 'rehash' event
+        with store.engine.connect() as conn:
+            assert conn.exec_driver_sql("SELECT action FROM account_events ORDER BY id DESC").first()[0] == "rehash"
+        assert store.save("old plan", SCENARIO, ana).number == 2
+        assert book.enable("old", database_operator=True).active
+        found = store.verify()
+        assert found.ok and found.account_events == 6, found.problems
+        with pytest.raises(IntegrityError):            # the chain's refusals came back with the copied table
+            with store.engine.begin() as conn:
+                conn.exec_driver_sql("UPDATE chain SET hash = 'x'")
+        with pytest.raises(IntegrityError):
+            with store.engine.begin() as conn:
+                conn.exec_driver_sql("UPDATE accounts SET role = 'admin' WHERE name = 'ana'")
+    finally:
+        store.close()

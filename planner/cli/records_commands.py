@@ -1,15 +1,15 @@
-"""Commands on accounts and saved plans: ``users add|list|disable`` and
+"""Commands on accounts and saved plans: ``users add|list|disable|enable|role|password`` and
 ``plans save|submit|approve|return|list|show|verify``.
 
 The database: ``--db URL`` (an SQLAlchemy URL, ``sqlite:///file`` or ``postgresql+psycopg://...``), else
 ``PLANNER_DB_URL``, else the embedded SQLite file (``planner.records.store``).  Passwords come from
 standard input only (``--password-stdin``: one line), never from the command line, where other users
 of the machine could read them.  Refused actions print why and exit with status 2; ``plans verify``
-exits 1 when a record does not match the recorded history.
+exits 1 when a record or an account does not match the recorded history.
 
 ``users`` commands act with the database's own credentials: whoever can run them against a database
 could change it directly, so they need no sign-in of their own (keep the database URL and file
-protected).  ``plans`` commands act as ``--user``, signed in with that account's password.
+protected).  Each change is still an account event in the recorded history, made "by command line".  ``plans`` commands act as ``--user``, signed in with that account's password.
 """
 
 from __future__ import annotations
@@ -95,6 +95,30 @@ def _users_disable(args) -> int:
 
     account = AccountBook(_store(args)).disable(args.name, database_operator=True)
     print(f"disabled account {account.name!r}; its revisions and review records keep its name")
+    return 0
+
+
+def _users_enable(args) -> int:
+    from planner.records.accounts import AccountBook
+
+    account = AccountBook(_store(args)).enable(args.name, database_operator=True)
+    print(f"enabled account {account.name!r} ({account.role})")
+    return 0
+
+
+def _users_role(args) -> int:
+    from planner.records.accounts import AccountBook
+
+    account = AccountBook(_store(args)).set_role(args.name, args.role, database_operator=True)
+    print(f"account {account.name!r} is now a{'n' if account.role[0] in 'aeiou' else ''} {account.role}")
+    return 0
+
+
+def _users_password(args) -> int:
+    from planner.records.accounts import AccountBook
+
+    account = AccountBook(_store(args)).set_password(args.name, _password().rstrip("\r"), database_operator=True)
+    print(f"new password set for {account.name!r}; its sign-ins have ended")
     return 0
 
 
@@ -218,8 +242,9 @@ def _plans_verify(args) -> int:
             print(f"MISMATCH: {problem}")
         verdict = "every record matches the recorded history" if found.ok else \
             f"{len(found.problems)} record(s) do not match the recorded history"
-        print(f"checked {found.revisions} revisions and {found.reviews} review records ({found.entries} history "
-              f"entries): {verdict}; chain head {found.head}")
+        print(f"checked {found.revisions} revisions, {found.reviews} review records and {found.accounts} accounts "
+              f"({found.account_events} account events; {found.entries} history entries): {verdict}; "
+              f"chain head {found.head}")
     return 0 if found.ok else 1
 
 
@@ -238,7 +263,7 @@ def _signed(parser: argparse.ArgumentParser) -> None:
 
 
 def _register_users(sub, db) -> None:
-    users = sub.add_parser("users", help="accounts: add, list, disable", parents=[db])
+    users = sub.add_parser("users", help="accounts: add, list, disable, enable, role, password", parents=[db])
     users_sub = users.add_subparsers(dest="users_command", required=True)
     add = users_sub.add_parser("add", parents=[db], help="add an account (the first one must be an admin)")
     add.add_argument("name")
@@ -252,6 +277,18 @@ def _register_users(sub, db) -> None:
     disable = users_sub.add_parser("disable", parents=[db], help="disable an account (its history stays)")
     disable.add_argument("name")
     disable.set_defaults(func=_guarded(_users_disable))
+    enable = users_sub.add_parser("enable", parents=[db], help="enable a disabled account again")
+    enable.add_argument("name")
+    enable.set_defaults(func=_guarded(_users_enable))
+    role = users_sub.add_parser("role", parents=[db], help="give an account another role")
+    role.add_argument("name")
+    role.add_argument("--role", required=True, choices=ROLES)
+    role.set_defaults(func=_guarded(_users_role))
+    password = users_sub.add_parser("password", parents=[db], help="set an account's password (its sign-ins end)")
+    password.add_argument("name")
+    password.add_argument("--password-stdin", required=True, action="store_true",
+                          help="read the new password as one line from standard input")
+    password.set_defaults(func=_guarded(_users_password))
 
 
 def _register_plans(sub, db) -> None:

@@ -15,6 +15,13 @@ A session (the dashboard's sign-in) is a random token whose SHA-256 is kept in `
 after ``SESSION_S`` seconds, after ``IDLE_S`` seconds without use, on sign-out, or when the account is
 disabled.  Disabling keeps the account's row, so every revision and review record still names who
 made it; the database refuses deleting or renaming an account.
+
+Every change to an account (added, disabled, enabled, a new role, a new password or a redone hash) is
+an account event in the recorded history (``planner.records.chain``).  Managing accounts, signing in
+and every planner step use the account's role and state as its recorded events say, and refuse an
+account whose row does not match them.  An admin (or the command line) enables accounts, changes
+roles and sets passwords; an account may change its own password with its current one; the last
+active admin cannot be disabled or given another role.
 """
 
 from __future__ import annotations
@@ -28,7 +35,8 @@ from argon2 import PasswordHasher
 from argon2.exceptions import InvalidHashError, VerificationError, VerifyMismatchError
 from sqlalchemy import text
 
-from planner.records.store import ROLES, PlanStore, StoreError, _now, check_text
+from planner.records import chain
+from planner.records.store import ROLES, PlanStore, StoreError, _now, check_text, verified_account
 
 FREE_ATTEMPTS = 5
 LOCK_BASE_S = 15.0
@@ -124,17 +132,33 @@ class AccountBook:
         return Account(*row)
 
     # -- managing ---------------------------------------------------------------------------------
-    def _admin(self, conn, by: Account | None, database_operator: bool, what: str) -> str:
-        """Who manages accounts: an active admin, or whoever runs the command line with the database's
-        own credentials (``database_operator``), or anyone while no account exists (the first admin)."""
+    def _admin(self, conn, by: Account | None, database_operator: bool, what: str) -> tuple[str, int | None]:
+        """Who manages accounts (name, id): an active admin (role and state as the account's recorded
+        events say), or whoever runs the command line with the database's own credentials
+        (``database_operator``), or anyone while no account exists (the first admin)."""
         if database_operator:
-            return "command line"
-        if by is None:
+            return "command line", None
+        if by is None or not isinstance(getattr(by, "id", None), int):
             raise StoreError(f"{what} needs an admin's sign-in")
-        row = conn.execute(text("SELECT name, role, disabled_at FROM accounts WHERE id = :i"), {"i": by.id}).first()
-        if row is None or row[2] is not None or row[1] != "admin":
+        recorded = verified_account(conn, by.id, what)
+        if recorded["disabled_at"] is not None or recorded["role"] != "admin":
             raise StoreError(f"{what} needs an active admin account")
-        return row[0]
+        return recorded["name"], by.id
+
+    def _target(self, conn, name: str) -> tuple[int, str, str | None]:
+        """(id, role, disabled_at) of the account called ``name``, row-locked on PostgreSQL."""
+        row = conn.execute(text("SELECT id, role, disabled_at FROM accounts WHERE name = :n" + self.store.for_update),
+                           {"n": name}).first()
+        if row is None:
+            raise StoreError(f"there is no account {name!r}")
+        return row[0], row[1], row[2]
+
+    @staticmethod
+    def _keep_an_admin(conn, name: str, what: str) -> None:
+        admins = conn.exec_driver_sql("SELECT COUNT(*) FROM accounts WHERE role = 'admin' "
+                                      "AND disabled_at IS NULL").scalar_one()
+        if admins <= 1:
+            raise StoreError(f"{name!r} is the only active admin: add another admin first ({what} refused)")
 
     def add(self, name: str, role: str, password: str, by: Account | None = None,
             database_operator: bool = False) -> Account:
@@ -149,13 +173,15 @@ class AccountBook:
             first = conn.exec_driver_sql("SELECT COUNT(*) FROM accounts").scalar_one() == 0
             if first and role != "admin":
                 raise StoreError("the first account must be an admin (--role admin): it manages the others")
-            creator = "first admin" if first and by is None else self._admin(conn, by, database_operator,
-                                                                             "adding an account")
+            creator, creator_id = ("first admin", None) if first and by is None else \
+                self._admin(conn, by, database_operator, "adding an account")
             if conn.execute(text("SELECT 1 FROM accounts WHERE name = :n"), {"n": name}).first():
                 raise StoreError(f"an account {name!r} exists already (disabled accounts keep their names)")
-            conn.execute(text("INSERT INTO accounts (name, role, password_hash, created_at, created_by) "
-                              "VALUES (:n, :r, :h, :t, :b)"),
-                         {"n": name, "r": role, "h": digest, "t": _now(), "b": creator})
+            now = _now()
+            account_id = conn.execute(text("INSERT INTO accounts (name, role, password_hash, created_at, created_by) "
+                                           "VALUES (:n, :r, :h, :t, :b) RETURNING id"),
+                                      {"n": name, "r": role, "h": digest, "t": now, "b": creator}).scalar_one()
+            chain.account_event(conn, account_id, "add", creator, creator_id, now)
         return self.get(name)
 
     def disable(self, name: str, by: Account | None = None, database_operator: bool = False) -> Account:
@@ -163,19 +189,67 @@ class AccountBook:
         name = check_text(name, "account name", NAME_MAX)
         with self.store.engine.begin() as conn:
             self.store.lock(conn)
-            self._admin(conn, by, database_operator, "disabling an account")
-            row = conn.execute(text("SELECT id, role, disabled_at FROM accounts WHERE name = :n"), {"n": name}).first()
-            if row is None:
-                raise StoreError(f"there is no account {name!r}")
-            if row[2] is not None:
-                raise StoreError(f"the account {name!r} is disabled already (since {row[2]})")
-            if row[1] == "admin":
-                admins = conn.exec_driver_sql("SELECT COUNT(*) FROM accounts WHERE role = 'admin' "
-                                              "AND disabled_at IS NULL").scalar_one()
-                if admins <= 1:
-                    raise StoreError(f"{name!r} is the only active admin: add another admin first")
-            conn.execute(text("UPDATE accounts SET disabled_at = :t WHERE id = :i"), {"t": _now(), "i": row[0]})
-            conn.execute(text("UPDATE sessions SET ended = 1 WHERE account_id = :i"), {"i": row[0]})
+            who, who_id = self._admin(conn, by, database_operator, "disabling an account")
+            account_id, role, disabled_at = self._target(conn, name)
+            if disabled_at is not None:
+                raise StoreError(f"the account {name!r} is disabled already (since {disabled_at})")
+            if role == "admin":
+                self._keep_an_admin(conn, name, "disabling it")
+            now = _now()
+            chain.account_event(conn, account_id, "disable", who, who_id, now, disabled_at=now)
+            conn.execute(text("UPDATE sessions SET ended = 1 WHERE account_id = :i"), {"i": account_id})
+        return self.get(name)
+
+    def enable(self, name: str, by: Account | None = None, database_operator: bool = False) -> Account:
+        """Enable a disabled account again (its failed sign-ins are forgotten)."""
+        name = check_text(name, "account name", NAME_MAX)
+        with self.store.engine.begin() as conn:
+            self.store.lock(conn)
+            who, who_id = self._admin(conn, by, database_operator, "enabling an account")
+            account_id, _, disabled_at = self._target(conn, name)
+            if disabled_at is None:
+                raise StoreError(f"the account {name!r} is active already")
+            chain.account_event(conn, account_id, "enable", who, who_id, _now(), disabled_at=None)
+            conn.execute(text("UPDATE accounts SET failed_count = 0, locked_until = NULL WHERE id = :i"),
+                         {"i": account_id})
+        return self.get(name)
+
+    def set_role(self, name: str, role: str, by: Account | None = None, database_operator: bool = False) -> Account:
+        """Give an account another role; the last active admin keeps being one."""
+        name = check_text(name, "account name", NAME_MAX)
+        if role not in ROLES:
+            raise StoreError(f"role: {role!r} is not one of {', '.join(ROLES)}")
+        with self.store.engine.begin() as conn:
+            self.store.lock(conn)
+            who, who_id = self._admin(conn, by, database_operator, "changing a role")
+            account_id, old_role, disabled_at = self._target(conn, name)
+            if old_role == role:
+                raise StoreError(f"the account {name!r} is a{'n' if role[0] in 'aeiou' else ''} {role} already")
+            if old_role == "admin" and disabled_at is None:
+                self._keep_an_admin(conn, name, f"making it a {role}")
+            chain.account_event(conn, account_id, "role", who, who_id, _now(), role=role)
+        return self.get(name)
+
+    def set_password(self, name: str, password: str, by: Account | None = None, database_operator: bool = False,
+                     current_password: str | None = None) -> Account:
+        """A new password: set by an admin or the command line, or by the account itself with its
+        current password.  The account's sign-ins end."""
+        name = check_text(name, "account name", NAME_MAX)
+        digest = _hasher.hash(check_password(password))
+        with self.store.engine.begin() as conn:
+            self.store.lock(conn)
+            account_id, _, _ = self._target(conn, name)
+            if not database_operator and by is not None and getattr(by, "id", None) == account_id:
+                recorded = verified_account(conn, account_id, "changing a password")
+                stored = conn.execute(text("SELECT password_hash FROM accounts WHERE id = :i"),
+                                      {"i": account_id}).scalar_one()
+                if recorded["disabled_at"] is not None or not _verify(stored, current_password or ""):
+                    raise StoreError("changing your password needs your current password (and an active account)")
+                who, who_id = recorded["name"], account_id
+            else:
+                who, who_id = self._admin(conn, by, database_operator, "setting another account's password")
+            chain.account_event(conn, account_id, "password", who, who_id, _now(), password_hash=digest)
+            conn.execute(text("UPDATE sessions SET ended = 1 WHERE account_id = :i"), {"i": account_id})
         return self.get(name)
 
     # -- signing in -------------------------------------------------------------------------------
@@ -200,11 +274,21 @@ class AccountBook:
             raise StoreError(WRONG)
         if disabled_at is not None:
             raise StoreError(f"the account {name!r} is disabled (since {disabled_at})")
-        new_hash = _hasher.hash(password) if _hasher.check_needs_rehash(digest) else digest
         with self.store.engine.begin() as conn:
-            conn.execute(text("UPDATE accounts SET failed_count = 0, locked_until = NULL, password_hash = :h "
-                              "WHERE id = :i"), {"h": new_hash, "i": account_id})
+            verified_account(conn, account_id, "signing in")      # a hash swapped by raw SQL lets nobody in
+            conn.execute(text("UPDATE accounts SET failed_count = 0, locked_until = NULL WHERE id = :i"),
+                         {"i": account_id})
+        if _hasher.check_needs_rehash(digest):
+            self._rehash(account_id, digest, _hasher.hash(password))
         return self.get(name)
+
+    def _rehash(self, account_id: int, old_hash: str, new_hash: str) -> None:
+        """A hash made with other Argon2 parameters is redone (an account event, like any new hash)."""
+        with self.store.engine.begin() as conn:
+            self.store.lock(conn)
+            row = conn.execute(text("SELECT name, password_hash FROM accounts WHERE id = :i"), {"i": account_id}).one()
+            if row[1] == old_hash:          # not changed meanwhile
+                chain.account_event(conn, account_id, "rehash", row[0], account_id, _now(), password_hash=new_hash)
 
     def _count_failure(self, account_id: int, failed: int, now: float) -> None:
         lock = None
@@ -245,6 +329,7 @@ class AccountBook:
             raise StoreError("your sign-in has expired: sign in again")
         with self.store.engine.connect() as conn:
             account = Account(*conn.execute(text(_ACCOUNT_SQL + "WHERE id = :i"), {"i": account_id}).first())
+            verified_account(conn, account_id, "your sign-in")
         if not account.active:
             raise StoreError(f"the account {account.name!r} is disabled")
         if now - last_seen > 30:

@@ -13,7 +13,12 @@ What the database itself refuses (triggers, version 3), so that raw SQL cannot d
 - inserting a review record that does not follow from the revision's current state (a forged
   approval of a draft, a second approval), and moving a revision's state without its review record;
 - renaming or deleting a plan or an account (accounts are disabled, never deleted, so their history
-  stays readable), changing an account's role, or enabling a disabled account again.
+  stays readable); from version 4, changing an account's role or its disabled state unless the change
+  is the account's latest account event (version 3 refused them outright); changing or deleting an
+  account event.
+
+Version 4 adds the account events (``planner.records.chain``): the history of each account's role,
+state and password; an existing database gets one event per account recording it as found.
 """
 
 from __future__ import annotations
@@ -35,6 +40,9 @@ MSG_REVIEW = "this review record does not follow from the revision's current sta
 MSG_PLANS = "a saved plan's name and site are fixed and plans are never deleted"
 MSG_CHAIN = "the recorded history is append-only"
 MSG_ACCOUNTS = "accounts are disabled, never deleted or renamed, and their role is fixed"
+MSG_ACCOUNTS_V4 = ("accounts are disabled, never deleted or renamed; their role and state change only with "
+                   "their account event")
+MSG_ACCOUNT_EVENTS = "account events are append-only"
 
 
 def _q(message: str) -> str:
@@ -274,4 +282,98 @@ def _v3(conn: Connection, dialect: str = "sqlite") -> None:
         _sqlite_triggers(conn)
 
 
-MIGRATIONS = {1: _v1, 2: _v2, 3: _v3}
+# -- version 4: account events in the recorded history -------------------------------------------------
+
+ACCOUNT_EVENTS_TABLE = """CREATE TABLE account_events (
+    id {id},
+    account_id INTEGER NOT NULL REFERENCES accounts(id),
+    action TEXT NOT NULL CHECK (action IN ('recorded','add','disable','enable','role','password','rehash')),
+    name TEXT NOT NULL,
+    role TEXT NOT NULL CHECK (role IN ('planner','supervisor','admin')),
+    password_digest TEXT NOT NULL,
+    created_at TEXT NOT NULL, created_by TEXT NOT NULL,
+    disabled_at TEXT,
+    "by" TEXT NOT NULL, by_id INTEGER REFERENCES accounts(id), at TEXT NOT NULL)"""
+CHAIN_KINDS_V4 = "CHECK (kind IN ('revision','review','account'))"
+# the account's latest event (by id) says the role and disabled state the row is being given
+_LATEST_EVENT = ("EXISTS (SELECT 1 FROM account_events e WHERE e.account_id = NEW.id AND e.role = NEW.role "
+                 "AND e.disabled_at {same} NEW.disabled_at AND e.id = (SELECT MAX(id) FROM account_events "
+                 "WHERE account_id = NEW.id))")
+
+
+def _v4_sqlite(conn: Connection) -> None:
+    """SQLite cannot change a CHECK: the chain is copied into a table that allows account entries."""
+    def refuse(name, when_event, message, when=""):
+        return (f"CREATE TRIGGER {name} {when_event} " + (f"WHEN {when} " if when else "")
+                + f"BEGIN SELECT RAISE(ABORT, '{_q(message)}'); END")
+
+    _run(conn, [
+        f"""CREATE TABLE chain_v4 (
+            seq INTEGER PRIMARY KEY,
+            kind TEXT NOT NULL {CHAIN_KINDS_V4},
+            record_id INTEGER NOT NULL,
+            prev_hash TEXT NOT NULL, hash TEXT NOT NULL,
+            UNIQUE (kind, record_id))""",
+        "INSERT INTO chain_v4 (seq, kind, record_id, prev_hash, hash) SELECT seq, kind, record_id, prev_hash, hash "
+        "FROM chain ORDER BY seq",
+        "DROP TABLE chain",             # its triggers go with it (DROP TABLE fires no DELETE trigger)
+        "ALTER TABLE chain_v4 RENAME TO chain",
+        refuse("chain_insert_new", "BEFORE INSERT ON chain", MSG_CHAIN, "EXISTS (SELECT 1 FROM chain WHERE seq = NEW.seq)"),
+        refuse("chain_append_only", "BEFORE UPDATE ON chain", MSG_CHAIN),
+        refuse("chain_never_deleted", "BEFORE DELETE ON chain", MSG_CHAIN),
+        "DROP TRIGGER accounts_fixed",
+        "DROP TRIGGER accounts_stay_disabled",
+        refuse("accounts_fixed", "BEFORE UPDATE OF id, name, created_at, created_by ON accounts", MSG_ACCOUNTS_V4),
+        refuse("accounts_follow_events", "BEFORE UPDATE OF role, disabled_at ON accounts", MSG_ACCOUNTS_V4,
+               f"NOT {_LATEST_EVENT.format(same='IS')}"),
+        refuse("account_events_insert_new", "BEFORE INSERT ON account_events", MSG_ACCOUNT_EVENTS,
+               "EXISTS (SELECT 1 FROM account_events WHERE id = NEW.id)"),
+        refuse("account_events_append_only", "BEFORE UPDATE ON account_events", MSG_ACCOUNT_EVENTS),
+        refuse("account_events_never_deleted", "BEFORE DELETE ON account_events", MSG_ACCOUNT_EVENTS),
+    ])
+
+
+def _v4_postgresql(conn: Connection) -> None:
+    account_update = (
+        "IF NEW.id IS DISTINCT FROM OLD.id OR NEW.name IS DISTINCT FROM OLD.name OR NEW.created_at IS DISTINCT FROM "
+        f"OLD.created_at OR NEW.created_by IS DISTINCT FROM OLD.created_by THEN {_pg_raise(MSG_ACCOUNTS_V4)} END IF;\n"
+        "IF (NEW.role IS DISTINCT FROM OLD.role OR NEW.disabled_at IS DISTINCT FROM OLD.disabled_at) AND NOT "
+        f"{_LATEST_EVENT.format(same='IS NOT DISTINCT FROM')} THEN {_pg_raise(MSG_ACCOUNTS_V4)} END IF;\nRETURN NEW;")
+    event_insert = ("IF EXISTS (SELECT 1 FROM account_events WHERE id = NEW.id) "
+                    f"THEN {_pg_raise(MSG_ACCOUNT_EVENTS)} END IF;\nRETURN NEW;")
+    message = _q(MSG_ACCOUNT_EVENTS)
+    _run(conn, [
+        "ALTER TABLE chain DROP CONSTRAINT chain_kind_check",
+        f"ALTER TABLE chain ADD CONSTRAINT chain_kind_check {CHAIN_KINDS_V4}",
+        _pg_function("planner_account_update", account_update),
+        _pg_function("planner_account_event_insert", event_insert),
+        "CREATE TRIGGER account_events_insert BEFORE INSERT ON account_events FOR EACH ROW "
+        "EXECUTE FUNCTION planner_account_event_insert()",
+        "CREATE TRIGGER account_events_append_only BEFORE UPDATE ON account_events FOR EACH ROW "
+        f"EXECUTE FUNCTION planner_refuse('{message}')",
+        "CREATE TRIGGER account_events_never_deleted BEFORE DELETE ON account_events FOR EACH ROW "
+        f"EXECUTE FUNCTION planner_refuse('{message}')",
+        "CREATE TRIGGER account_events_never_truncated BEFORE TRUNCATE ON account_events FOR EACH STATEMENT "
+        f"EXECUTE FUNCTION planner_refuse('{message}')",
+    ])
+
+
+def _v4(conn: Connection, dialect: str = "sqlite") -> None:
+    """Account events, chained like revisions and review records; every existing account gets one
+    ``recorded`` event (its state as found), chained after the existing records in account order."""
+    from datetime import datetime, timezone
+
+    from planner.records.chain import account_event
+
+    _run(conn, [ACCOUNT_EVENTS_TABLE.format(id=_id(dialect)),
+                "CREATE INDEX account_events_by_account ON account_events (account_id)"])
+    if dialect == "postgresql":
+        _v4_postgresql(conn)
+    else:
+        _v4_sqlite(conn)
+    now = datetime.now(timezone.utc).isoformat(timespec="seconds")
+    for (account_id,) in conn.exec_driver_sql("SELECT id FROM accounts ORDER BY id").all():
+        account_event(conn, account_id, "recorded", "schema version 4", None, now)
+
+
+MIGRATIONS = {1: _v1, 2: _v2, 3: _v3, 4: _v4}

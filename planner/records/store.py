@@ -9,8 +9,11 @@ changing the plan means a new revision.  Every step is done by a signed-in accou
 return, and nobody approves or returns a revision they authored.  The names in revisions and in the
 review trail are the accounts' names, read from the database in the same transaction.
 
-Every revision and review record is also entered in a hash chain (``planner.records.chain``);
-``verify`` recomputes it and names each record changed behind the planner's back.
+Every revision, review record and account event is also entered in a hash chain
+(``planner.records.chain``); ``verify`` recomputes it and names each record changed behind the planner's
+back, and each account whose role, state or password hash is not what its events say.  The acting
+account is checked against its recorded events before every step, so a role given by raw SQL is not
+obeyed.
 
 Back ends: an SQLite file (default) or PostgreSQL 15 through psycopg 3.  The database: the ``url``
 argument (an SQLAlchemy URL), else ``path`` (an SQLite file), else the ``PLANNER_DB_URL`` environment
@@ -40,7 +43,7 @@ from planner.records import chain
 from planner.records.migrations import MIGRATIONS, REVIEW_MOVES
 from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_dict
 
-SCHEMA_VERSION = 3
+SCHEMA_VERSION = 4
 DEFAULT_PATH = Path(__file__).resolve().parents[1] / "data" / "plans.sqlite"
 STATES = ("draft", "submitted", "approved", "returned")
 ROLES = ("planner", "supervisor", "admin")
@@ -271,22 +274,21 @@ class PlanStore:
 
     # -- who acts ---------------------------------------------------------------------------------
     def acting(self, conn: Connection, by, action: str) -> tuple[int, str, str]:
-        """(id, name, role) of the account doing ``action``, read from the database now: an active
-        account whose role allows it.  ``by`` is an ``accounts.Account`` (from a sign-in)."""
+        """(id, name, role) of the account doing ``action``, read from the database now and checked
+        against its recorded account events: an active account whose role allows it.  ``by`` is an
+        ``accounts.Account`` (from a sign-in)."""
         account_id = getattr(by, "id", None)
         if not isinstance(account_id, int):
             raise StoreError(f"{ACTION_WORDS.get(action, action)} needs a signed-in account")
-        row = conn.execute(text("SELECT id, name, role, disabled_at FROM accounts WHERE id = :i"),
-                           {"i": account_id}).first()
-        if row is None:
-            raise StoreError(f"{ACTION_WORDS.get(action, action)}: account {account_id} does not exist")
-        if row[3] is not None:
-            raise StoreError(f"the account {row[1]!r} is disabled: it cannot do anything any more")
+        recorded = verified_account(conn, account_id, ACTION_WORDS.get(action, action))
+        name, role = recorded["name"], recorded["role"]
+        if recorded["disabled_at"] is not None:
+            raise StoreError(f"the account {name!r} is disabled: it cannot do anything any more")
         allowed = REVIEW_ROLES if action in ("approve", "return") else SAVE_ROLES
-        if row[2] not in allowed:
-            raise StoreError(f"{row[1]!r} is a{'n' if row[2][0] in 'aeiou' else ''} {row[2]}: "
+        if role not in allowed:
+            raise StoreError(f"{name!r} is a{'n' if role[0] in 'aeiou' else ''} {role}: "
                              f"{ACTION_WORDS.get(action, action)} needs a {' or '.join(allowed)} account")
-        return row[0], row[1], row[2]
+        return account_id, name, role
 
     # -- saving -----------------------------------------------------------------------------------
     def save(self, name: str, scenario: Scenario, by, note: str = "", site: str = "",
@@ -445,7 +447,7 @@ class PlanStore:
 
     # -- the recorded history ---------------------------------------------------------------------
     def verify(self) -> chain.Verification:
-        """Every revision and review record against the hash chain (``planner.records.chain``)."""
+        """Every revision, review record and account against the hash chain (``planner.records.chain``)."""
         with self.engine.connect() as conn:
             return chain.verify(conn)
 
@@ -460,6 +462,20 @@ class PlanStore:
         first, second = self.revision(plan_id, a), self.revision(plan_id, b)
         return {"inputs": diff_values(json.loads(first.scenario_json), json.loads(second.scenario_json)),
                 "results": diff_values(first.results, second.results)}
+
+
+def verified_account(conn: Connection, account_id: int, what: str) -> dict:
+    """The account's state (name, role, disabled_at ...) as its recorded events say, refused when its
+    row or its latest event does not match the recorded history (a role given or a password hash
+    swapped behind the planner's back)."""
+    recorded, problems = chain.recorded_account(conn, account_id)
+    if recorded is None and problems == [f"account {account_id} does not exist"]:
+        raise StoreError(f"{what}: account {account_id} does not exist")
+    if problems:
+        name = conn.execute(text("SELECT name FROM accounts WHERE id = :i"), {"i": account_id}).scalar_one()
+        raise StoreError(f"the account {name!r} does not match the recorded history ({'; '.join(problems)}): "
+                         f"{what} is refused; an admin should run  python -m planner plans verify")
+    return recorded
 
 
 MAX_ID = 2 ** 31 - 1      # ids are INTEGER on both back ends
