@@ -36,7 +36,12 @@ GaugePressure = Quantity("pressure", ge=-1.0e5, le=5.0e7, description="gauge pre
 Rating = Quantity("pressure", gt=0.0, le=5.0e7, description="pressure rating (gauge)")
 Flow = Quantity("volume_flow", ge=1.0e-6, le=2.0, description="volumetric flow rate")
 WindSpeed = Quantity("speed", ge=0.0, le=60.0, description="wind speed")
-LinearPower = Quantity("linear_power", ge=0.0, le=2000.0, description="heater output per metre of pipe")
+# Electric trace heaters deliver up to a few hundred W per metre of heater run (mineral-insulated series
+# cables are the strongest; polymer self-regulating and power-limiting heaters stay below about 100 W/m)
+# [common practice, from memory]; all runs together are held to HEAT_PER_METRE_MAX per metre of pipe.
+HEATER_OUTPUT_MAX_W_M = 500.0
+HEAT_PER_METRE_MAX_W_M = 2000.0
+LinearPower = Quantity("linear_power", ge=0.0, le=HEATER_OUTPUT_MAX_W_M, description="heater output per metre of heater run")
 LinearConductance = Quantity("linear_conductance", gt=0.0, le=1000.0, description="conductance per metre")
 Density = Quantity("density", gt=100.0, le=5000.0, description="density")
 DensitySlope = Quantity("density_slope", ge=-10.0, le=10.0, description="change of density per kelvin")
@@ -328,6 +333,21 @@ class Tracing(_Model):
         "pipe_wall", description="where the thermostat senses: the pipe wall (holds the wall at the setpoint), the "
         "product (holds the product at the setpoint) or the ambient (full output below switch_temperature, else off)")
     switch_temperature: Optional[Temperature] = Field(None, description="ambient sensing: the heater runs below this ambient temperature")
+
+    @field_validator("circuits_per_metre")
+    @classmethod
+    def _heat_per_metre(cls, runs: float, info):
+        """All runs together: at most HEAT_PER_METRE_MAX_W_M per metre of pipe (the output fields are
+        validated before this one)."""
+        if info.data.get("kind") not in ("electric_constant", "electric_self_regulating"):
+            return runs
+        curve = info.data.get("output_curve") or []
+        per_run = max([info.data.get("output") or 0.0] + [point.output for point in curve])
+        if runs * per_run > HEAT_PER_METRE_MAX_W_M:
+            raise ValueError(f"{runs:g} runs x {per_run:g} W/m = {runs * per_run:,.0f} W per metre of pipe, above the "
+                             f"{HEAT_PER_METRE_MAX_W_M:,.0f} W/m electric tracing can put into a pipe: give at most "
+                             f"{HEAT_PER_METRE_MAX_W_M / per_run:.3g} runs per metre, or lower tracing.output")
+        return runs
 
     @model_validator(mode="after")
     def _complete(self):
