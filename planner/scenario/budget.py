@@ -133,6 +133,36 @@ def is_plan_scenario(scenario) -> bool:
     return all(getattr(scenario, name) is not None for name in ("pump", "source", "destination"))
 
 
+# ------------------------------------------------------------------------------------------- the step meter
+
+STEP_METER_FACTOR = 20        # a march may take this many times its count (the hardest measured: 8 times)
+STEP_METER_FLOOR = 1_000      # ... and never fewer steps than this (short lines with many thermal entrances)
+COUNT_STEPS_PER_MARCH_STEP = 4   # the count is at a quarter of the march's longest step (25 m at its 100 m)
+
+
+def march_step_count(lengths, step: float) -> int:
+    """The estimate's count of one march over segments of ``lengths`` [m] at the march's longest
+    ``step`` [m]: ``max(2, ceil(length / (step / 4)))`` each, the 25 m count at the default step and
+    finer with a finer march (whose step control then takes proportionally more steps)."""
+    grid = step / COUNT_STEPS_PER_MARCH_STEP
+    return sum(max(2, int(math.ceil(length / grid - 1e-9))) for length in lengths)
+
+
+def march_step_limit(count: int, budget: Budget | None = None) -> int:
+    """The most steps one march of ``count`` counted steps may take before the meter stops it."""
+    budget = budget or active_budget()
+    return min(budget.pass_steps, max(STEP_METER_FLOOR, STEP_METER_FACTOR * count))
+
+
+def past_meter(field: str, steps: int, count: int, where: str, line_text: str) -> BudgetError:
+    """The march stopped by its step meter: ``steps`` taken against ``count`` counted, at ``where``."""
+    return BudgetError([(field, f"the march along the line stopped at {where} after {steps:,} steps, {steps / count:.0f} "
+                                f"times the {count:,} counted for it ({line_text}; the work budget allows a march at most "
+                                f"{STEP_METER_FACTOR} times its count, and at most {active_budget().pass_steps:,} steps): "
+                                "the product changes too fast along the line for the step control; shorten the route "
+                                "or split the plan, or use a longer march step (--step)")])
+
+
 # ------------------------------------------------------------------------------------------- checks
 
 def _route_text(scenario, step: float) -> str:
