@@ -94,6 +94,22 @@ def test_heat_per_metre_limits_hold_electric_tracing_only():
     assert scenario_from_dict(data).tracing.circuits_per_metre == 10.0
 
 
+@pytest.mark.parametrize("edit, words", [
+    # the fuzz run found "efficiencies: [0.0, 0.42, 0.61, 0.68, 0.0, 0.5] is not allowed" from the pump
+    # model, naming no field: the curve is now checked where it is given
+    (lambda c: c[4].update(efficiency=0.0), "point 5's efficiency is 0"),
+    (lambda c: c[0].update(flow="5 m3/h"), "starts at zero flow"),
+    (lambda c: c[2].update(flow="20 m3/h"), "point 3's flow is not above point 2's"),
+    (lambda c: c[0].update(efficiency=0.9), "highest efficiency is at shut-off"),
+])
+def test_a_pump_curve_the_model_cannot_take_is_refused_at_the_curve(edit, words):
+    polyol = next(p for p in DEMO_FILES if "polyol" in p.name)
+    data = scenario_to_dict(load_scenario(polyol))
+    edit(data["pump"]["curve"])
+    problems = _problems(data)
+    assert words in problems["pump.curve"], problems
+
+
 def test_all_bad_fields_are_reported_at_once():
     data = base_scenario()
     data["route"]["segments"][0]["length"] = 0

@@ -418,6 +418,26 @@ class PumpSpec(_Model):
     curve: list[CurvePoint] = Field(default_factory=list)
     stages: int = Field(1, ge=1, le=20)
 
+    @field_validator("curve")
+    @classmethod
+    def _water_curve(cls, curve: list[CurvePoint]):
+        """What the pump model (transfer.pumps.CentrifugalPump) needs of the water curve, said at the curve."""
+        if not curve:
+            return curve
+        flows = [point.flow for point in curve]
+        if flows[0] != 0.0:
+            raise ValueError(f"the first point's flow is {flows[0]!r} m3/s: the water curve starts at zero flow (shut-off)")
+        for i in range(1, len(curve)):
+            if not flows[i] > flows[i - 1]:
+                raise ValueError(f"point {i + 1}'s flow is not above point {i}'s: give the points in order of "
+                                 "strictly increasing flow")
+            if not curve[i].efficiency > 0.0:
+                raise ValueError(f"point {i + 1}'s efficiency is 0: only the shut-off point (the first) may have 0; "
+                                 "give the others above 0 and at most 1")
+        if max(range(len(curve)), key=lambda i: curve[i].efficiency) == 0:
+            raise ValueError("the highest efficiency is at shut-off: it must be at a flow above 0 (point 2 or later)")
+        return curve
+
     @model_validator(mode="after")
     def _complete(self):
         if self.kind == "positive_displacement" and self.displacement is None:
