@@ -27,6 +27,12 @@ a ten-times finer grid everywhere.
 
 The march stops where the product falls below its no-flow temperature: the line would set there,
 and the pressure beyond is not a meaningful number.
+
+Two guards cost one integer compare a step: past TEMPERATURE_CEILING_K (heater sheath, pipe wall or
+product; the schema's highest temperature) the march stops with a ComputationError naming the
+heating inputs to change, and past its step meter (``scenario.budget.march_step_limit``: 20 times
+the count the work budget makes for the line, at most the pass budget) with a BudgetError naming the
+route.
 """
 
 from __future__ import annotations

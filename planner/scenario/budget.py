@@ -20,6 +20,10 @@ of one pass (tests/test_budget.py measures both).  A comparison is values x case
 takes 4-45 us (laminar hot products cost the most), so a plan at the default budget
 (``Budget.plan_steps``) takes about 1-15 s of one core; the demos need 8,000-30,000.
 
+The march meters its own steps against its count (``march_step_limit``): a line that is far harder
+for the step control than counted is stopped at ``STEP_METER_FACTOR`` times its count (or at the
+pass budget) with a message naming the route, so an estimate that is wrong cannot tie up the server.
+
 ``PLANNER_WORK_BUDGET`` (environment, a positive factor, default 1) scales every step budget for a
 site that wants a tighter or looser server; ``use_budget(Budget(...))`` sets one for a block of code
 (tests use it to keep each fuzz case small).
