@@ -290,3 +290,42 @@ def test_hard_lines_take_at_most_ten_times_the_counted_steps_of_a_pass():
     ratios.sort()
     assert ratios[len(ratios) // 2] <= 1.5
     assert ratios[-1] <= 10.0
+
+
+# ------------------------------------------------------------------------------------- the step meter
+
+def _hardest_generated_line():
+    # seed 119 of tests/test_march_grid.py: 336 march steps against a count of 42 (measured), the
+    # worst of the 240 hard lines
+    from test_march_grid import generated_scenario
+
+    return scenario_from_dict(generated_scenario(119))
+
+
+def test_the_march_meters_its_steps_against_its_count(monkeypatch):
+    from planner.line.model import evaluate
+
+    scenario = _hardest_generated_line()
+    count = budget.march_step_count([seg.length for seg in scenario.route.segments], 100.0)
+    assert count == budget.route_steps(scenario.route) == 42
+    assert evaluate(scenario).summary.steps == 336          # at the default meter: 20 x 42 = 840 allowed
+    monkeypatch.setattr(budget, "STEP_METER_FLOOR", 0)
+    monkeypatch.setattr(budget, "STEP_METER_FACTOR", 8)     # 336 allowed: the march ends on its last one
+    assert evaluate(scenario).summary.steps == 336
+    monkeypatch.setattr(budget, "STEP_METER_FACTOR", 4)     # 168 allowed: stopped half way, naming the route
+    with pytest.raises(BudgetError) as caught:
+        evaluate(scenario)
+    (field, message), = caught.value.problems
+    assert field == "route.segments"
+    assert "after 168 steps, 4 times the 42 counted" in message and "shorten the route" in message
+
+
+def test_a_march_past_the_pass_budget_is_stopped_though_its_estimate_fits(tmp_path, capsys):
+    # the estimate (42 counted + 30 set-up) is inside a pass budget of 200 steps; the march's own
+    # 336 steps are not: the meter stops it at 200 and the command line exits 2 naming the route
+    scenario = _hardest_generated_line()
+    assert budget.pass_steps(scenario) == 72
+    with use_budget(Budget(pass_steps=200)):
+        code, err = _cli(tmp_path, capsys, scenario_to_dict(scenario), "evaluate")
+    assert code == 2
+    assert "route.segments" in err and "after 200 steps" in err and "at most 200 steps" in err

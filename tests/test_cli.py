@@ -84,3 +84,33 @@ def test_evaluate_in_us_units_gives_mass_flow_and_heat_in_us_units():
     assert heat_line.endswith("BTU/h")
     btu_h = float(heat_line.split()[2].replace(",", ""))
     assert btu_h == pytest.approx(doc["heat_loss_w"] / 0.29307107, abs=1.0)
+
+
+def _refusal(capsys, *argv) -> str:
+    from planner.cli import main
+
+    assert main(list(argv)) == 2
+    err = capsys.readouterr().err
+    assert err.startswith("error: ") and "Traceback" not in err
+    return err
+
+
+def test_compare_lever_refusals_say_what_is_allowed(capsys, tmp_path):
+    # issue 13: "give exactly one of ..." and "the scenario has no tracing ..." named no limit
+    polyol = next(p for p in DEMO_FILES if "polyol" in p.name)
+    for extra in ([], ["--setpoints", "40", "--pump-speeds", "3"]):
+        err = _refusal(capsys, "compare", str(polyol), *extra)
+        assert "given: " + ("none" if not extra else "--setpoints, --pump-speeds") in err
+        assert "START:STOP:STEP" in err and "at most 101 values" in err
+    err = _refusal(capsys, "compare", str(polyol), "--steam-pressures", "3,4")
+    assert "tracing.kind is 'electric_constant'" in err and "compare setpoints instead" in err
+    from conftest import base_scenario
+
+    from planner.scenario.schema import load_scenario, scenario_to_dict
+
+    data = scenario_to_dict(load_scenario(polyol))
+    data["tracing"] = base_scenario()["tracing"]            # {"kind": "none"}
+    path = tmp_path / "untraced.json"
+    path.write_text(json.dumps(data), encoding="utf-8")
+    err = _refusal(capsys, "compare", str(path), "--setpoints", "40,50")
+    assert "tracing.kind is 'none'" in err and "compare pump speeds or flow limits" in err

@@ -169,6 +169,24 @@ def test_relief_lifting_and_motor_overload():
     straddle(motor, "MOTOR-OVERLOAD", "stop", power)
 
 
+def test_product_far_above_its_maximum_is_a_stop():
+    # planner choice PRODUCT_FAR_ABOVE_MAX_K = 50 K: so far past its maximum the product is not the
+    # liquid its data describe (issue 13: a line at 405 degC with a maximum of 80 degC was a warning)
+    from planner.checks.findings import PRODUCT_FAR_ABOVE_MAX_K
+
+    assert PRODUCT_FAR_ABOVE_MAX_K == 50.0
+    hottest = 363.15   # the source at 90 degC is the hottest product of hot_bench
+
+    def maximum(t):
+        d = hot_bench()
+        d["product"]["max_temperature"] = f"{t} K"
+        return d
+
+    far, near = found(maximum(hottest - 50.5)), found(maximum(hottest - 49.5))
+    assert far["PRODUCT-TOO-HOT"].severity == "stop" and far["PRODUCT-TOO-HOT"].value == pytest.approx(hottest)
+    assert near["PRODUCT-TOO-HOT"].severity == "warning"
+
+
 def test_npsh_short_and_small_margin():
     npsh = plan_of(bench()).start.point.npsh_available
 

@@ -224,11 +224,11 @@ def test_trickle_flow_settles_at_the_thermostat_instead_of_oscillating(flow):
 
 def _wall_held_line(segments: list[dict]) -> dict:
     # a laminar product of constant properties (viscosity ratio 1) in lines whose wall a
-    # thermostat holds at 60 degC (an electric heater far above the loss); viscous heating is
+    # thermostat holds at 60 degC (three 500 W/m runs, far above the loss); viscous heating is
     # below 1e-3 of the heat taken up
     data = base_scenario(product=newtonian_product(mu_pa_s=0.5, density=900.0, cp=2000.0, k=0.15))
     data["route"]["segments"] = segments
-    data["tracing"] = {"kind": "electric_constant", "setpoint": 60.0, "output": "1500 W/m"}
+    data["tracing"] = {"kind": "electric_constant", "setpoint": 60.0, "output": "500 W/m", "circuits_per_metre": 3}
     data["site"]["ambient_temperature"] = 20.0
     data["operation"] = {"flow": "0.094 m3/h", "inlet_temperature": 20.0}
     return data
@@ -294,3 +294,46 @@ def test_reynolds_2300_is_laminar_everywhere():
     assert result.steps["reynolds"] == pytest.approx(2300.0, rel=1e-9)
     assert result.summary.laminar_fraction == 1.0 and result.summary.transitional_fraction == 0.0
     assert set(result.steps["flow_regime"]) == {0}
+
+
+def _bare_half_inch_with_ambient_sensing(output_w_m: float, runs: float) -> dict:
+    # a bare 1/2" line at a trickle, its heater switched by the ambient only (full output whatever the
+    # wall): nothing holds the wall, so the heat the product cannot take up drives it up
+    data = base_scenario()
+    data["route"]["segments"] = [{"name": "bare", "nps": "1/2", "schedule": "40", "length": 50.0}]
+    data["tracing"] = {"kind": "electric_constant", "output": f"{output_w_m} W/m", "circuits_per_metre": runs,
+                       "sensing": "ambient", "switch_temperature": 30.0}
+    data["operation"] = {"flow": "0.01 m3/h", "inlet_temperature": 20.0}
+    return data
+
+
+def test_a_wall_past_the_temperature_ceiling_is_refused_naming_the_heating():
+    # issue 13: 20 kW/m on a bare 1/2" line gave a wall of 4,568 K and a plan marked ok.  Now the
+    # input is refused (tests/test_scenario.py) and, within the input limits, a sheath, wall or
+    # product past the schema's 773.15 K (500 degC) stops the march with the inputs to change
+    from planner.errors import ComputationError
+    from planner.line.march import TEMPERATURE_CEILING_K
+
+    assert TEMPERATURE_CEILING_K == 773.15   # scenario.schema.Temperature's upper limit
+    with pytest.raises(ComputationError) as caught:
+        evaluate(scenario_from_dict(_bare_half_inch_with_ambient_sensing(500.0, 3)))
+    text = str(caught.value)
+    assert "heater sheath reaches" in text and "past the 500.0 °C" in text and "'bare'" in text
+    assert "tracing.output" in text and "tracing.circuits_per_metre" in text and "tracing.sensing" in text
+    reached = float(text.split("reaches ")[1].split(" °C")[0].replace(",", ""))
+    assert 500.0 < reached < 520.0   # stopped at the first step past the ceiling, not thousands of K on
+    # the same line with a tenth of the heat runs: the product takes it up below the ceiling
+    result = evaluate(scenario_from_dict(_bare_half_inch_with_ambient_sensing(150.0, 1)))
+    assert result.ok and result.summary.max_sheath_temperature_k < TEMPERATURE_CEILING_K
+
+
+def test_the_command_line_refuses_a_line_past_the_ceiling_with_exit_2(tmp_path, capsys):
+    import json
+
+    from planner.cli import main
+
+    path = tmp_path / "hot.json"
+    path.write_text(json.dumps(_bare_half_inch_with_ambient_sensing(500.0, 3)), encoding="utf-8")
+    assert main(["evaluate", str(path)]) == 2
+    err = capsys.readouterr().err
+    assert err.startswith("error: the heater sheath reaches") and "Traceback" not in err

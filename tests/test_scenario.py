@@ -67,6 +67,16 @@ def _problems(data) -> dict[str, str]:
     (lambda d: d.update(schema_version=99), "schema_version", "newer than this planner"),
     (lambda d: d["route"]["segments"][0].update(colour="red"), "route.segments[0].colour", "unknown field"),
     (lambda d: d["tracing"].update(kind="electric_constant"), "tracing", "needs a setpoint"),
+    # electric trace heaters: up to a few hundred W per metre of heater run [common practice, from
+    # memory]; the issue-13 line had 2,000 W/m x 10 runs (20 kW per metre of a 1/2" pipe)
+    (lambda d: d["tracing"].update(kind="electric_constant", setpoint=40.0, output="2000 W/m", circuits_per_metre=10),
+     "tracing.output", "must be at most 500 W/m"),
+    (lambda d: d["tracing"].update(kind="electric_constant", setpoint=40.0, output="400 W/m", circuits_per_metre=6),
+     "tracing.circuits_per_metre", "6 runs x 400 W/m = 2,400 W per metre of pipe, above the 2,000 W/m"),
+    (lambda d: d["tracing"].update(kind="electric_self_regulating", setpoint=40.0, circuits_per_metre=5,
+                                   output_curve=[{"temperature": 10.0, "output": 450.0},
+                                                 {"temperature": 90.0, "output": 50.0}]),
+     "tracing.circuits_per_metre", "give at most 4.44 runs per metre"),
 ])
 def test_bad_input_names_the_field_and_the_limit(mutate, field, words):
     data = base_scenario()
@@ -74,6 +84,30 @@ def test_bad_input_names_the_field_and_the_limit(mutate, field, words):
     problems = _problems(data)
     assert field in problems, problems
     assert words in problems[field]
+
+
+def test_heat_per_metre_limits_hold_electric_tracing_only():
+    data = base_scenario()
+    data["tracing"] = {"kind": "electric_constant", "setpoint": 40.0, "output": "500 W/m", "circuits_per_metre": 4}
+    assert scenario_from_dict(data).tracing.output == 500.0      # 2,000 W/m of pipe: at the limit
+    data["tracing"] = {"kind": "steam", "output": "500 W/m", "circuits_per_metre": 10}   # output unused by steam
+    assert scenario_from_dict(data).tracing.circuits_per_metre == 10.0
+
+
+@pytest.mark.parametrize("edit, words", [
+    # the fuzz run found "efficiencies: [0.0, 0.42, 0.61, 0.68, 0.0, 0.5] is not allowed" from the pump
+    # model, naming no field: the curve is now checked where it is given
+    (lambda c: c[4].update(efficiency=0.0), "point 5's efficiency is 0"),
+    (lambda c: c[0].update(flow="5 m3/h"), "starts at zero flow"),
+    (lambda c: c[2].update(flow="20 m3/h"), "point 3's flow is not above point 2's"),
+    (lambda c: c[0].update(efficiency=0.9), "highest efficiency is at shut-off"),
+])
+def test_a_pump_curve_the_model_cannot_take_is_refused_at_the_curve(edit, words):
+    polyol = next(p for p in DEMO_FILES if "polyol" in p.name)
+    data = scenario_to_dict(load_scenario(polyol))
+    edit(data["pump"]["curve"])
+    problems = _problems(data)
+    assert words in problems["pump.curve"], problems
 
 
 def test_all_bad_fields_are_reported_at_once():

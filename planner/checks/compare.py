@@ -202,11 +202,16 @@ def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | N
     if lever not in LEVERS:
         raise ValueError(f"unknown lever {lever!r}; levers are {', '.join(LEVERS)}")
     if lever == "setpoint" and scenario.tracing.kind in ("none",):
-        raise ValueError("the scenario has no tracing: there is no setpoint to compare")
+        raise ValueError("tracing.kind is 'none': the scenario has no tracing, so there is no setpoint to compare; "
+                         "compare pump speeds or flow limits, or give the scenario tracing (tracing.kind "
+                         "'electric_constant', 'electric_self_regulating' or 'steam')")
     if lever == "steam_pressure" and scenario.tracing.kind != "steam":
-        raise ValueError("the scenario is not steam traced: compare setpoints instead")
+        raise ValueError(f"tracing.kind is {scenario.tracing.kind!r}: steam pressures are compared only on steam "
+                         "tracing (tracing.kind 'steam'); compare setpoints instead")
     if not values:
-        raise ValueError("give at least one value to compare")
+        from planner.scenario.budget import active_budget
+
+        raise ValueError(f"values: give at least one value to compare (at most {active_budget().comparison_values})")
     _check_work(scenario, values, sensitivity, ambient_shift, viscosity_uncertainty)
     quantity = LEVERS[lever][1]
     cases = [(1.0, 0.0, "as given")]

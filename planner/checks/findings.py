@@ -29,6 +29,7 @@ from planner.transfer.pumps import HI_B_MAX
 from planner.transfer.vessels import destination_level
 
 SEVERITIES = ("info", "caution", "warning", "stop")
+PRODUCT_FAR_ABOVE_MAX_K = 50.0   # the product this far past its maximum is a stop, not a warning (planner choice)
 SEVERITY_RANK = {name: i for i, name in enumerate(SEVERITIES)}
 
 # Stated ranges of correlations the march uses (their sources; see heat_transfer.py, rheology.py)
@@ -301,7 +302,17 @@ def product_hottest(scenario: Scenario, hottest: list[tuple]) -> list[Finding]:
     product, limits = scenario.product, scenario.limits
     t_max, where, seg_name, x = max(hottest, key=lambda item: item[0])
     out = []
-    if t_max > product.max_temperature:
+    if t_max > product.max_temperature + PRODUCT_FAR_ABOVE_MAX_K:
+        # far past its maximum the product is no longer the liquid its data describe (it degrades, boils
+        # or cracks): not a plan to run
+        out.append(Finding("PRODUCT-TOO-HOT", "stop", "Product far above its maximum temperature",
+                           Sentence("the product reaches {t} ({where}), more than {margin} above its maximum {limit}",
+                                    t=_t(t_max), where=where, margin=Q(PRODUCT_FAR_ABOVE_MAX_K, "temperature_difference"),
+                                    limit=_t(product.max_temperature)),
+                           "Lower the heating (tracing.output, tracing.circuits_per_metre, the setpoint or the steam "
+                           "pressure) or the product temperature: the product's data do not hold this far above its "
+                           "maximum.", where, seg_name, x, t_max, product.max_temperature, "temperature"))
+    elif t_max > product.max_temperature:
         out.append(Finding("PRODUCT-TOO-HOT", "warning", "Product above its maximum temperature",
                            Sentence("the product reaches {t} ({where}), above its maximum {limit}", t=_t(t_max),
                                     where=where, limit=_t(product.max_temperature)),

@@ -48,7 +48,8 @@ def main(argv: list[str] | None = None) -> int:
         return 0
     except ArithmeticError as exc:   # e.g. a viscosity law fitted to extreme lab points overflows
         print(f"error: the computation has no answer for these inputs ({type(exc).__name__}: {exc}): they are "
-              "beyond what the models can evaluate; check the product's viscosity data and the extreme inputs",
+              "beyond what the models can evaluate; check the product's viscosity data (product.viscosity) and the "
+              "extreme inputs (temperatures, operation.flow, the route's lengths and diameters)",
               file=sys.stderr)
         return 2
     except Exception as exc:  # noqa: BLE001  (a bug: one line for the user, the traceback with PLANNER_DEBUG=1)

@@ -82,7 +82,12 @@ def _lever_values(args, system: str):
 
     given = [(option, lever, units) for option, lever, units in LEVER_OPTIONS if getattr(args, option)]
     if len(given) != 1:
-        raise ValueError("give exactly one of --setpoints, --steam-pressures, --pump-speeds, --flow-limits")
+        from planner.scenario.budget import active_budget
+
+        named = ", ".join("--" + option.replace("_", "-") for option, _, _ in given) or "none"
+        raise ValueError(f"give exactly one of --setpoints, --steam-pressures, --pump-speeds or --flow-limits (given: "
+                         f"{named}), as a list (--setpoints 40,50,60) or a range START:STOP:STEP (--setpoints 40:70:5), "
+                         f"at most {active_budget().comparison_values} values")
     option, lever, units = given[0]
     kind = {"setpoint": "temperature", "steam_pressure": "pressure", "pump_speed": "rotational_speed",
             "flow_limit": "volume_flow"}[lever]

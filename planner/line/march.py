@@ -27,6 +27,12 @@ a ten-times finer grid everywhere.
 
 The march stops where the product falls below its no-flow temperature: the line would set there,
 and the pressure beyond is not a meaningful number.
+
+Two guards cost one integer compare a step: past TEMPERATURE_CEILING_K (heater sheath, pipe wall or
+product; the schema's highest temperature) the march stops with a ComputationError naming the
+heating inputs to change, and past its step meter (``scenario.budget.march_step_limit``: 20 times
+the count the work budget makes for the line, at most the pass budget) with a BudgetError naming the
+route.
 """
 
 from __future__ import annotations
@@ -38,6 +44,7 @@ from typing import NamedTuple
 import numpy as np
 
 from planner.correlations.constants import GRAVITY
+from planner.errors import ComputationError
 from planner.correlations.friction import RE_LAMINAR_MAX, RE_TURBULENT_MIN, darcy_friction
 from planner.correlations.heat_transfer import (VISCOSITY_RATIO_MAX, VISCOSITY_RATIO_MIN, film_parts,
                                                  nu_laminar_local_over, viscosity_corrected)
@@ -46,6 +53,8 @@ from planner.line.heat_loss import insulation_resistance, surface_resistance
 from planner.line.products import Product
 from planner.line.route import LineSegment
 from planner.line.tracing import Heater
+from planner.scenario.budget import march_step_count, march_step_limit, past_meter
+from planner.scenario.wording import Q, Sentence
 
 PI = math.pi
 DEFAULT_STEP_M = 100.0
@@ -55,6 +64,8 @@ ENTRANCE_FIRST_STEP = 0.04           # first step at a thermal entrance, share o
 ENTRANCE_SPLIT_RATIO = 1.5           # a laminar step spanning more than this in distance from the entrance
 LOG_CONDUCTANCE_CHANGE_PER_STEP = 0.1  # at the default step: G (film, wall, outside) within 10 % per step
 WALL_TOLERANCE_K = 0.01               # film/wall/jacket agreement within an evaluation
+TEMPERATURE_CEILING_K = 773.15        # the schema's highest temperature (scenario.schema.Temperature): the
+                                      # models (air, insulation, product data) are not meant past it
 RECORDED = ("x", "segment", "viscosity", "reynolds", "flow_regime", "velocity", "wall_temperature",
             "jacket_temperature", "sheath_temperature", "heat_loss", "trace_power", "heater_state",
             "film_coefficient", "viscosity_ratio", "pressure_gradient")
@@ -113,10 +124,11 @@ class MarchResult:
 class Line:
     """Segments, product and heating bundled for repeated marches (the heaters are built once)."""
 
-    def __init__(self, segments: list[LineSegment], product: Product, tracing):
+    def __init__(self, segments: list[LineSegment], product: Product, tracing, name: str = "route"):
         self.segments = segments
         self.product = product
         self.tracing = tracing
+        self.name = name   # the scenario section of its segments ("route" or "suction"), for messages
         self.heaters = [Heater(tracing, s.traced_fraction, s.ambient_temperature) for s in segments]
         self.length = sum(s.length for s in segments)
 
@@ -285,7 +297,8 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
         raise ValueError(f"step must be greater than 0 m, got {step!r}")
     product = line.product
     mass_flow = product.density(inlet_temperature) * flow
-    totals = _Totals(inlet_temperature, inlet_pressure)
+    count = march_step_count([seg.length for seg in line.segments], step)
+    totals = _Totals(inlet_temperature, inlet_pressure, march_step_limit(count))
     rec = _Record() if record else None
     wall_state = _WallState(inlet_temperature)
     control = _StepControl(step)
@@ -299,8 +312,10 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
         wall_state.enter(s)
         t, p, x, carry = _march_segment(s, product, mass_flow, wall_state, control, totals, rec, t, p, x,
                                         entry_x, carry)
-        if totals.status != "ok":
+        if totals.status != "ok" or totals.n >= totals.max_steps:
             break
+    if totals.n >= totals.max_steps:
+        _stopped(line, totals, count, step, x)
     summary = totals.summary(line, product, flow, mass_flow, inlet_temperature, inlet_pressure, t, p, x)
     if rec is not None:
         return MarchResult(summary, rec.nodes(inlet_temperature, inlet_pressure), rec.steps())
@@ -362,7 +377,42 @@ def _march_segment(s: _Segment, product: Product, mass_flow: float, wall_state: 
         if t < no_flow:
             totals.status, totals.sets_at = "product_sets", x
             break
+        if totals.n >= totals.max_steps:   # the step meter (also set to 0 past the temperature ceiling)
+            break
     return t, p, x, (signature, previous, at_previous, older, at_older)
+
+
+def _stopped(line: Line, totals: "_Totals", count: int, step: float, x: float) -> None:
+    """The march stopped early: past the temperature ceiling (ComputationError naming the inputs to
+    change) or past its step meter (BudgetError naming the route)."""
+    where = f"{x:,.1f} m ({_segment_name(line, x)!r})"
+    if totals.hot_at is None:
+        if x >= line.length * (1.0 - 1e-9):
+            return   # the meter's last step was the line's last
+        text = f"{line.length:,.0f} m in {len(line.segments)} segment(s), longest step {step:g} m"
+        raise past_meter(f"{line.name}.segments", totals.n, count, where, text)
+    what, value = totals.hot_at
+    kind = line.tracing.kind if line.tracing is not None else "none"
+    if kind == "steam":
+        change = "lower tracing.steam_pressure or tracing.circuits_per_metre, or raise operation.flow"
+    elif kind == "none":
+        change = "lower the inlet temperature or operation.flow (viscous heating)"
+    else:
+        change = ("lower tracing.output or tracing.circuits_per_metre, hold the pipe wall with a thermostat "
+                  "(tracing.sensing = \"pipe_wall\" and a setpoint), or raise operation.flow")
+    raise ComputationError(Sentence(
+        "the {what} reaches {t} at {where} along the {line}, past the {limit} the planner's models hold to: the heat "
+        "put in is far more than the line can lose; {change}", what=what, t=Q(value, "temperature"), where=where,
+        line=line.name, limit=Q(TEMPERATURE_CEILING_K, "temperature"), change=change))
+
+
+def _segment_name(line: Line, x: float) -> str:
+    end = 0.0
+    for seg in line.segments:
+        end += seg.length
+        if x <= end + 1e-9:
+            return seg.name
+    return line.segments[-1].name
 
 
 def _path_signature(s: _Segment) -> tuple:
@@ -545,9 +595,10 @@ class _Totals:
 
     __slots__ = ("friction", "fittings", "static", "trace", "loss", "viscous", "laminar", "transitional",
                  "short", "traced", "t_min", "t_max", "p_max", "mu_min", "mu_max", "ratio_min", "ratio_max",
-                 "jacket_max", "jacket_at", "sheath_max", "sheath_at", "status", "sets_at", "n")
+                 "jacket_max", "jacket_at", "sheath_max", "sheath_at", "status", "sets_at", "n", "max_steps",
+                 "hot_at")
 
-    def __init__(self, t: float, p: float):
+    def __init__(self, t: float, p: float, max_steps: int):
         self.friction = self.fittings = self.static = 0.0
         self.trace = self.loss = self.viscous = 0.0
         self.laminar = self.transitional = self.short = self.traced = 0.0
@@ -558,6 +609,8 @@ class _Totals:
         self.jacket_max = self.sheath_max = -math.inf
         self.jacket_at = self.sheath_at = 0.0
         self.status, self.sets_at, self.n = "ok", None, 0
+        self.max_steps = max_steps   # the step meter; 0 once past TEMPERATURE_CEILING_K (the march stops)
+        self.hot_at = None           # (what, temperature [K]) past the ceiling
 
     def add(self, s: _Segment, local: _Local, dx: float, x: float, p: float, t_new: float) -> float:
         """Add one step ending at x; returns the heater sheath temperature of the step."""
@@ -591,15 +644,23 @@ class _Totals:
         if jacket > self.jacket_max:
             self.jacket_max, self.jacket_at = jacket, x - 0.5 * dx
         sheath = heater.sheath_temperature(wall.t_wall, wall.q_trace) if heater.active else wall.t_wall
-        if sheath > self.sheath_max:
+        if sheath > self.sheath_max:   # the sheath (or steam tracer) is the hottest of the path when heated
             self.sheath_max, self.sheath_at = sheath, x - 0.5 * dx
+            if sheath > TEMPERATURE_CEILING_K:
+                self.past_ceiling("heater sheath" if heater.active else "pipe wall", sheath)
         if t_new < self.t_min:
             self.t_min = t_new
         elif t_new > self.t_max:
             self.t_max = t_new
+            if t_new > TEMPERATURE_CEILING_K:
+                self.past_ceiling("product", t_new)
         if p > self.p_max:
             self.p_max = p
         return sheath
+
+    def past_ceiling(self, what: str, temperature: float) -> None:
+        if self.hot_at is None:
+            self.hot_at, self.max_steps = (what, temperature), 0
 
     def summary(self, line: Line, product: Product, flow: float, mass_flow: float, t_in: float, p_in: float,
                 t: float, p: float, x: float) -> MarchSummary:

@@ -20,6 +20,10 @@ of one pass (tests/test_budget.py measures both).  A comparison is values x case
 takes 4-45 us (laminar hot products cost the most), so a plan at the default budget
 (``Budget.plan_steps``) takes about 1-15 s of one core; the demos need 8,000-30,000.
 
+The march meters its own steps against its count (``march_step_limit``): a line that is far harder
+for the step control than counted is stopped at ``STEP_METER_FACTOR`` times its count (or at the
+pass budget) with a message naming the route, so an estimate that is wrong cannot tie up the server.
+
 ``PLANNER_WORK_BUDGET`` (environment, a positive factor, default 1) scales every step budget for a
 site that wants a tighter or looser server; ``use_budget(Budget(...))`` sets one for a block of code
 (tests use it to keep each fuzz case small).
@@ -131,6 +135,36 @@ def plan_steps(scenario, step: float = DEFAULT_STEP_M) -> int:
 
 def is_plan_scenario(scenario) -> bool:
     return all(getattr(scenario, name) is not None for name in ("pump", "source", "destination"))
+
+
+# ------------------------------------------------------------------------------------------- the step meter
+
+STEP_METER_FACTOR = 20        # a march may take this many times its count (the hardest measured: 8 times)
+STEP_METER_FLOOR = 1_000      # ... and never fewer steps than this (short lines with many thermal entrances)
+COUNT_STEPS_PER_MARCH_STEP = 4   # the count is at a quarter of the march's longest step (25 m at its 100 m)
+
+
+def march_step_count(lengths, step: float) -> int:
+    """The estimate's count of one march over segments of ``lengths`` [m] at the march's longest
+    ``step`` [m]: ``max(2, ceil(length / (step / 4)))`` each, the 25 m count at the default step and
+    finer with a finer march (whose step control then takes proportionally more steps)."""
+    grid = step / COUNT_STEPS_PER_MARCH_STEP
+    return sum(max(2, int(math.ceil(length / grid - 1e-9))) for length in lengths)
+
+
+def march_step_limit(count: int, budget: Budget | None = None) -> int:
+    """The most steps one march of ``count`` counted steps may take before the meter stops it."""
+    budget = budget or active_budget()
+    return min(budget.pass_steps, max(STEP_METER_FLOOR, STEP_METER_FACTOR * count))
+
+
+def past_meter(field: str, steps: int, count: int, where: str, line_text: str) -> BudgetError:
+    """The march stopped by its step meter: ``steps`` taken against ``count`` counted, at ``where``."""
+    return BudgetError([(field, f"the march along the line stopped at {where} after {steps:,} steps, {steps / count:.0f} "
+                                f"times the {count:,} counted for it ({line_text}; the work budget allows a march at most "
+                                f"{STEP_METER_FACTOR} times its count, and at most {active_budget().pass_steps:,} steps): "
+                                "the product changes too fast along the line for the step control; shorten the route "
+                                "or split the plan, or use a longer march step (--step)")])
 
 
 # ------------------------------------------------------------------------------------------- checks

@@ -36,7 +36,12 @@ GaugePressure = Quantity("pressure", ge=-1.0e5, le=5.0e7, description="gauge pre
 Rating = Quantity("pressure", gt=0.0, le=5.0e7, description="pressure rating (gauge)")
 Flow = Quantity("volume_flow", ge=1.0e-6, le=2.0, description="volumetric flow rate")
 WindSpeed = Quantity("speed", ge=0.0, le=60.0, description="wind speed")
-LinearPower = Quantity("linear_power", ge=0.0, le=2000.0, description="heater output per metre of pipe")
+# Electric trace heaters deliver up to a few hundred W per metre of heater run (mineral-insulated series
+# cables are the strongest; polymer self-regulating and power-limiting heaters stay below about 100 W/m)
+# [common practice, from memory]; all runs together are held to HEAT_PER_METRE_MAX per metre of pipe.
+HEATER_OUTPUT_MAX_W_M = 500.0
+HEAT_PER_METRE_MAX_W_M = 2000.0
+LinearPower = Quantity("linear_power", ge=0.0, le=HEATER_OUTPUT_MAX_W_M, description="heater output per metre of heater run")
 LinearConductance = Quantity("linear_conductance", gt=0.0, le=1000.0, description="conductance per metre")
 Density = Quantity("density", gt=100.0, le=5000.0, description="density")
 DensitySlope = Quantity("density_slope", ge=-10.0, le=10.0, description="change of density per kelvin")
@@ -329,6 +334,21 @@ class Tracing(_Model):
         "product (holds the product at the setpoint) or the ambient (full output below switch_temperature, else off)")
     switch_temperature: Optional[Temperature] = Field(None, description="ambient sensing: the heater runs below this ambient temperature")
 
+    @field_validator("circuits_per_metre")
+    @classmethod
+    def _heat_per_metre(cls, runs: float, info):
+        """All runs together: at most HEAT_PER_METRE_MAX_W_M per metre of pipe (the output fields are
+        validated before this one)."""
+        if info.data.get("kind") not in ("electric_constant", "electric_self_regulating"):
+            return runs
+        curve = info.data.get("output_curve") or []
+        per_run = max([info.data.get("output") or 0.0] + [point.output for point in curve])
+        if runs * per_run > HEAT_PER_METRE_MAX_W_M:
+            raise ValueError(f"{runs:g} runs x {per_run:g} W/m = {runs * per_run:,.0f} W per metre of pipe, above the "
+                             f"{HEAT_PER_METRE_MAX_W_M:,.0f} W/m electric tracing can put into a pipe: give at most "
+                             f"{HEAT_PER_METRE_MAX_W_M / per_run:.3g} runs per metre, or lower tracing.output")
+        return runs
+
     @model_validator(mode="after")
     def _complete(self):
         if self.sensing == "ambient" and self.switch_temperature is None:
@@ -397,6 +417,26 @@ class PumpSpec(_Model):
     npsh_required: Quantity("length", ge=0.0, le=100.0, description="NPSH required (PD: net inlet pressure required as head)") = 3.0
     curve: list[CurvePoint] = Field(default_factory=list)
     stages: int = Field(1, ge=1, le=20)
+
+    @field_validator("curve")
+    @classmethod
+    def _water_curve(cls, curve: list[CurvePoint]):
+        """What the pump model (transfer.pumps.CentrifugalPump) needs of the water curve, said at the curve."""
+        if not curve:
+            return curve
+        flows = [point.flow for point in curve]
+        if flows[0] != 0.0:
+            raise ValueError(f"the first point's flow is {flows[0]!r} m3/s: the water curve starts at zero flow (shut-off)")
+        for i in range(1, len(curve)):
+            if not flows[i] > flows[i - 1]:
+                raise ValueError(f"point {i + 1}'s flow is not above point {i}'s: give the points in order of "
+                                 "strictly increasing flow")
+            if not curve[i].efficiency > 0.0:
+                raise ValueError(f"point {i + 1}'s efficiency is 0: only the shut-off point (the first) may have 0; "
+                                 "give the others above 0 and at most 1")
+        if max(range(len(curve)), key=lambda i: curve[i].efficiency) == 0:
+            raise ValueError("the highest efficiency is at shut-off: it must be at a flow above 0 (point 2 or later)")
+        return curve
 
     @model_validator(mode="after")
     def _complete(self):

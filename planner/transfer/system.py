@@ -130,7 +130,7 @@ class TransferSystem:
         self.heat_loss_factor = heat_loss_factor      # the lines' loss and the source shell's (calibration)
         self.discharge_line = Line(build_line(scenario.route, scenario.site, heat_loss_factor), self.product, self.tracing)
         self.suction_line = (Line(build_line(scenario.suction, scenario.site, heat_loss_factor), self.product,
-                                  self.tracing) if scenario.suction is not None else None)
+                                  self.tracing, name="suction") if scenario.suction is not None else None)
         self.pump_spec = scenario.pump
         self.pump = build_pump(scenario.pump, calibration.slip_factor)
         self.source = scenario.source
