@@ -227,12 +227,14 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
     relief = first.status == "relief_lifting"
     rows_append = [(0.0, first.flow, first.point.discharge_pressure, first.point.pump_differential, 0.0, first.status)]
     guess = first.flow
+    previous_plug = None
     for k in range(1, positions):
         fraction = k / positions
         x = _front_position(segments, fraction * volume)
         head, tail = split_segments(segments, x)
         plugged = system.with_plug(Line(head, product, system.tracing), Line(tail, product, system.tracing),
-                                   start_temperature)
+                                   start_temperature, slopes_from=previous_plug)
+        previous_plug = plugged
         op = plugged.operating_point(warm_state, guess=guess)
         if not op.moving:
             return PushCold(False, Sentence("with the front at {x}: {m}", x=Q(x, "length"), m=op.message),

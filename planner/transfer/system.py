@@ -142,12 +142,15 @@ class TransferSystem:
         self._last_relief_flow: float | None = None
         self._root_estimate: float | None = None
 
-    def with_plug(self, head: Line, tail: Line, cold_temperature: float) -> "TransferSystem":
+    def with_plug(self, head: Line, tail: Line, cold_temperature: float,
+                  slopes_from: "TransferSystem | None" = None) -> "TransferSystem":
         """A copy of this system whose discharge line holds a cold plug: a warm head (product from the
-        pump) then a cold tail at ``cold_temperature`` [K].  This system is left unchanged."""
+        pump) then a cold tail at ``cold_temperature`` [K].  This system is left unchanged.
+        ``slopes_from``: a plugged system of the previous front position, whose remembered slopes
+        start this one's solves."""
         plugged = copy.copy(self)
         plugged.plug = (head, tail, cold_temperature)
-        plugged._slopes = dict(self._slopes)
+        plugged._slopes = dict((slopes_from or self)._slopes)
         return plugged
 
     def _warm_solve(self, kind: str, function, high: float, guess: float | None, ftol: float = 0.0) -> float | None:
@@ -178,6 +181,12 @@ class TransferSystem:
             if f1 == f0:
                 return None
             slope = (f1 - f0) / (q1 - q0)
+            if abs(f1 / slope) <= GUESS_TOLERANCE * q1:
+                # the secant's next step would move less than the tolerance: q1 is the answer (the
+                # same acceptance as for a guess), the step past it the caller's root estimate
+                self._slopes[kind] = slope
+                self._root_estimate = q1 - f1 / slope
+                return q1
             q0, f0, q1 = q1, f1, q1 - f1 / slope
         return None
 
