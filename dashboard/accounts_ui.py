@@ -120,58 +120,46 @@ def _do_add_account() -> None:
     _say("success", f"Account {added.name!r} ({added.role}) added.")
 
 
-def _do_disable(name: str) -> None:
-    admin = acting_account("disable accounts")
+def _admin_action(what: str, refused: str, act, done) -> None:
+    """One administrator action: the signed-in admin (refused with why otherwise), ``act(book, admin)``,
+    then ``done(result)`` as the success message or the store's refusal after ``refused``."""
+    admin = acting_account(what)
     if admin is None:
         return
     try:
-        _book().disable(name, by=admin)
+        result = act(_book(), admin)
     except StoreError as exc:
-        _say("error", f"Not disabled: {exc}")
+        _say("error", f"{refused}: {exc}")
         return
-    _say("success", f"Account {name!r} disabled; its revisions and review records keep its name.")
+    _say("success", done(result))
+
+
+def _do_disable(name: str) -> None:
+    _admin_action("disable accounts", "Not disabled", lambda book, admin: book.disable(name, by=admin),
+                  lambda _: f"Account {name!r} disabled; its revisions and review records keep its name.")
 
 
 def _do_enable(name: str) -> None:
-    admin = acting_account("enable accounts")
-    if admin is None:
-        return
-    try:
-        _book().enable(name, by=admin)
-    except StoreError as exc:
-        _say("error", f"Not enabled: {exc}")
-        return
-    _say("success", f"Account {name!r} enabled again.")
+    _admin_action("enable accounts", "Not enabled", lambda book, admin: book.enable(name, by=admin),
+                  lambda _: f"Account {name!r} enabled again.")
 
 
 def _do_set_role() -> None:
     ss = st.session_state
-    admin = acting_account("change roles")
-    if admin is None:
-        return
     name, role = ss.get("ad_target") or "", ss.get("ad_new_role") or ""
-    try:
-        changed = _book().set_role(name, role, by=admin)
-    except StoreError as exc:
-        _say("error", f"Role not changed: {exc}")
-        return
-    _say("success", f"Account {changed.name!r} is now a{'n' if changed.role[0] in 'aeiou' else ''} {changed.role}.")
+    _admin_action("change roles", "Role not changed", lambda book, admin: book.set_role(name, role, by=admin),
+                  lambda changed: f"Account {changed.name!r} is now a{'n' if changed.role[0] in 'aeiou' else ''} "
+                                  f"{changed.role}.")
 
 
 def _do_set_password() -> None:
     ss = st.session_state
-    admin = acting_account("set passwords")
     password = ss.get("ad_new_password") or ""
-    ss["ad_new_password"] = ""
-    if admin is None:
-        return
+    ss["ad_new_password"] = ""          # cleared whatever happens
     name = ss.get("ad_target") or ""
-    try:
-        _book().set_password(name, password, by=admin)
-    except StoreError as exc:
-        _say("error", f"Password not set: {exc}")
-        return
-    _say("success", f"New password set for {name!r}; its sign-ins have ended.")
+    _admin_action("set passwords", "Password not set",
+                  lambda book, admin: book.set_password(name, password, by=admin),
+                  lambda _: f"New password set for {name!r}; its sign-ins have ended.")
 
 
 def _do_change_own_password() -> None:

@@ -13,6 +13,7 @@ import subprocess
 import sys
 import time
 import urllib.request
+from contextlib import contextmanager
 from pathlib import Path
 
 from conftest import ROOT
@@ -53,3 +54,19 @@ def stop_dashboard(proc, log) -> None:
         os.killpg(proc.pid, signal.SIGKILL)
         proc.wait(timeout=15)
     log.close()
+
+
+@contextmanager
+def chromium_browser(executable: Path, args: list[str]):
+    """Debian's Chromium driven by Playwright, closed on exit."""
+    from playwright.sync_api import sync_playwright
+
+    playwright = sync_playwright().start()
+    chromium = None
+    try:
+        chromium = playwright.chromium.launch(executable_path=str(executable), args=args)
+        yield chromium
+    finally:
+        if chromium is not None:
+            chromium.close()
+        playwright.stop()

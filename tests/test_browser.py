@@ -21,7 +21,7 @@ from pathlib import Path
 import pytest
 
 from conftest import DEMO_FILES, PASSWORDS, ROOT, make_people
-from dashboard_server import start_dashboard, stop_dashboard, wait_healthy
+from dashboard_server import chromium_browser, start_dashboard, stop_dashboard, wait_healthy
 from planner.records.store import PlanStore
 from planner.transfer.plan import make_plan, with_changes
 from planner.scenario.schema import load_scenario
@@ -72,17 +72,8 @@ def server(server_db):
 
 @pytest.fixture(scope="module")
 def browser(server):
-    from playwright.sync_api import sync_playwright
-
-    playwright = sync_playwright().start()
-    chromium = None
-    try:
-        chromium = playwright.chromium.launch(executable_path=str(CHROMIUM), args=LAUNCH_ARGS)
+    with chromium_browser(CHROMIUM, LAUNCH_ARGS) as chromium:
         yield chromium
-    finally:
-        if chromium is not None:
-            chromium.close()
-        playwright.stop()
 
 
 @pytest.fixture

@@ -14,7 +14,7 @@ import os
 import pytest
 
 from conftest import DEMO_FILES, make_people
-from dashboard_server import start_dashboard, stop_dashboard, wait_healthy
+from dashboard_server import chromium_browser, start_dashboard, stop_dashboard, wait_healthy
 from planner.records.store import PlanStore
 from planner.scenario.schema import load_scenario
 from test_browser import ARTIFACTS, CHROMIUM, LAUNCH_ARGS, _fill, _free_port, _require_chromium, _sign_in, _wait_idle
@@ -54,17 +54,8 @@ def servers(shared, tmp_path_factory):
 
 @pytest.fixture(scope="module")
 def browser(servers):
-    from playwright.sync_api import sync_playwright
-
-    playwright = sync_playwright().start()
-    chromium = None
-    try:
-        chromium = playwright.chromium.launch(executable_path=str(CHROMIUM), args=LAUNCH_ARGS)
+    with chromium_browser(CHROMIUM, LAUNCH_ARGS) as chromium:
         yield chromium
-    finally:
-        if chromium is not None:
-            chromium.close()
-        playwright.stop()
 
 
 def _page(browser, address: str):
