@@ -50,9 +50,6 @@ class Product:
         self.no_flow_temperature = spec.no_flow_temperature
         self.max_temperature = spec.max_temperature
         self.flash_point = spec.flash_point
-        self._rho_ref = spec.density
-        self._t_ref = spec.density_reference_temperature
-        self._rho_slope = spec.density_slope
         self._cp = spec.specific_heat
         self._cp_slope = spec.specific_heat_slope
         self._k = spec.thermal_conductivity
@@ -95,7 +92,8 @@ class Product:
 
     # -- properties -------------------------------------------------------------------------
     def density(self, t: float) -> float:
-        return self._rho_ref + self._rho_slope * (t - self._t_ref)
+        """Density [kg/m3] at ``t`` [K]: the spec's one definition (``ProductSpec.density_at``)."""
+        return self.spec.density_at(t)
 
     def specific_heat(self, t: float) -> float:
         return self._cp + self._cp_slope * (t - 293.15)

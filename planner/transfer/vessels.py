@@ -74,10 +74,7 @@ def wetted_area(vessel: Vessel, volume: float) -> float:
 def cool_contents(temperature: float, mass: float, specific_heat: float, ua: float, t_ambient: float,
                   heating_power: float, dt: float) -> float:
     """Contents temperature after ``dt`` seconds of the lumped balance (exact for frozen coefficients)."""
-    if ua <= 0.0:
-        return temperature + heating_power * dt / (mass * specific_heat)
-    t_eq = t_ambient + heating_power / ua
-    return t_eq + (temperature - t_eq) * math.exp(-ua * dt / (mass * specific_heat))
+    return _lumped(temperature, mass * specific_heat, ua, t_ambient, heating_power, dt)
 
 
 @dataclass(frozen=True)
