@@ -122,6 +122,12 @@ def line_figure(profile: dict, segments: list[dict], system: str, product_name: 
                                  line=dict(color=COLOURS["rating"], width=3, dash="dash", shape="hv")), row=3, col=1)
     fig.add_trace(go.Scatter(x=x_s, y=convert_array(steps["jacket_temperature"], "temperature", system),
                              name="jacket temperature", line=dict(color=COLOURS["jacket"])), row=4, col=1)
+    entrances = profile.get("entrance_jackets") or []
+    if entrances:
+        fig.add_trace(go.Scatter(x=convert_array([e[0] for e in entrances], "length", system),
+                                 y=convert_array([e[1] for e in entrances], "temperature", system), mode="markers",
+                                 name="jacket where a thermal entrance starts (thin film: wall near the product)",
+                                 marker=dict(color=COLOURS["jacket"], symbol="diamond", size=8)), row=4, col=1)
     if "sheath_temperature" in steps:
         fig.add_trace(go.Scatter(x=x_s, y=convert_array(steps["sheath_temperature"], "temperature", system),
                                  name="heater/tracer temperature", line=dict(color=COLOURS["sheath"], dash="dot")),

@@ -49,6 +49,8 @@ def profile_arrays(plan) -> dict | None:
     return {
         "nodes": {"x": nodes["x"], "temperature": nodes["temperature"], "pressure": nodes["pressure"] + discharge},
         "steps": steps,
+        # (x [m], jacket [K]) where each thermal entrance starts: the jacket's highest value there
+        "entrance_jackets": sorted(result.entrance_jackets.values()),
         "status": result.summary.status,
         "sets_at_m": result.summary.sets_at_m,
         "summary": _plain(result.summary.as_dict()),

@@ -141,13 +141,14 @@ def line_surfaces(scenario: Scenario, run: LineRun) -> list[Finding]:
     for seg, heater, steps in _segment_steps(run):
         jacket, xs = steps["jacket_temperature"], steps["x"]
         i = int(np.argmax(jacket))
-        if jacket[i] > limits.touch_temperature:
+        hottest, at = run.result.jacket_peak(seg.index, float(jacket[i]), float(xs[i]))
+        if hottest > limits.touch_temperature:
             out.append(Finding(
                 "SURFACE-HOT", "warning", "Hot surface",
-                Sentence("jacket reaches {t}, above the touch limit {limit}", t=_t(jacket[i]),
+                Sentence("jacket reaches {t}, above the touch limit {limit}", t=_t(hottest),
                          limit=_t(limits.touch_temperature)),
                 "Fit personnel protection (guards or extra insulation) and warning signs where people can reach.",
-                run.name, seg.name, float(xs[i]), float(jacket[i]), limits.touch_temperature, "temperature"))
+                run.name, seg.name, at, hottest, limits.touch_temperature, "temperature"))
         if not heater.active:
             continue
         j = int(np.argmax(steps["sheath_temperature"]))

@@ -53,14 +53,15 @@ from planner.line.heat_loss import insulation_resistance, surface_resistance
 from planner.line.products import Product
 from planner.line.route import LineSegment
 from planner.line.tracing import Heater
-from planner.scenario.budget import march_step_count, march_step_limit, past_meter
+from planner.scenario.budget import MARCH_STEP_M, march_step_count, march_step_limit, past_meter
 from planner.scenario.wording import Q, Sentence
 
 PI = math.pi
-DEFAULT_STEP_M = 100.0
+DEFAULT_STEP_M = MARCH_STEP_M            # 100 m: single passes and plans alike (grid test: tests/test_march_grid.py)
 TEMPERATURE_CHANGE_PER_STEP_K = 3.0   # at the default step; planner choice (grid test: tests/test_march.py)
 LOG_VISCOSITY_CHANGE_PER_STEP = 0.05  # at the default step: viscosity within about 5 % per step
 ENTRANCE_FIRST_STEP = 0.04           # first step at a thermal entrance, share of the step (film-dominated)
+THERMOSTAT_ENTRANCE_WEIGHT = 0.5     # entrance steps under a thermostat: at most twice the distance from it
 ENTRANCE_SPLIT_RATIO = 1.5           # a laminar step spanning more than this in distance from the entrance
 LOG_CONDUCTANCE_CHANGE_PER_STEP = 0.1  # at the default step: G (film, wall, outside) within 10 % per step
 WALL_TOLERANCE_K = 0.01               # film/wall/jacket agreement within an evaluation
@@ -115,10 +116,20 @@ class MarchResult:
     summary: MarchSummary
     nodes: dict = field(repr=False)   # x, temperature, pressure at step ends (and the inlet)
     steps: dict = field(repr=False)   # step-midpoint values: x, viscosity, reynolds, ...
+    # segment index -> (x [m], jacket [K]) where a thermal entrance starts (``_entrance_jacket``)
+    entrance_jackets: dict = field(default_factory=dict, repr=False)
 
     @property
     def ok(self) -> bool:
         return self.summary.status == "ok"
+
+    def jacket_peak(self, seg_index: int, jacket_max: float, at: float) -> tuple[float, float]:
+        """(jacket [K], x [m]): the hottest of a segment's mid-step ``jacket_max`` at ``at`` and its
+        entrance value, where the segment starts a thermal entrance."""
+        entrance = self.entrance_jackets.get(seg_index)
+        if entrance is not None and entrance[1] > jacket_max:
+            return entrance[1], entrance[0]
+        return jacket_max, at
 
 
 class Line:
@@ -161,7 +172,7 @@ class _Segment:
 
     __slots__ = ("seg", "heater", "d", "area", "rel_rough", "fit_a", "fit_b", "slope", "t_amb", "wall_r",
                  "buried", "has_layers", "length", "film_area", "balance", "density", "viscosity",
-                 "specific_heat", "conductivity", "newtonian")
+                 "specific_heat", "conductivity", "newtonian", "thermostat")
 
     def __init__(self, seg: LineSegment, heater: Heater, product: Product):
         self.seg, self.heater = seg, heater
@@ -181,6 +192,7 @@ class _Segment:
         self.has_layers = bool(seg.layers)
         self.length = seg.length
         self.film_area = PI * self.d   # inside surface per metre
+        self.thermostat = heater.active and heater.setpoint is not None
 
 
 class _WallState:
@@ -230,14 +242,19 @@ class _StepControl:
         self.g_last = 0.0
         return min(self.max_step, 0.5 * length, 2.0 * self.dx_last)
 
-    def entrance(self, dx: float, local: "_Local", from_entry: float, d: float) -> float:
+    def entrance(self, dx: float, local: "_Local", from_entry: float, d: float, thermostat: bool) -> float:
         """Where the laminar film is a large part of the heat path, steps near a thermal entrance
         grow with the distance from it: the film, the wall and the outside coefficient all change
-        steeply there, and a long first step would average them wrongly."""
+        steeply there, and a long first step would average them wrongly.  Under a thermostat
+        (``thermostat``) the heater's output is the difference of what the wall loses outward and
+        what the film takes in, so it follows the steep film even where the film is a small part of
+        the path (and the heater is off where the film alone holds the wall): the steps grow so too."""
         if from_entry >= dx or local.re > RE_LAMINAR_MAX or local.g <= 0.0:
             return dx   # (the limit below is never shorter than the distance from the entrance)
         share = local.g / (local.h_in * PI * d)     # film resistance over the whole path's
         weight = 4.0 * share * (1.0 - share)
+        if thermostat and weight < THERMOSTAT_ENTRANCE_WEIGHT:
+            weight = THERMOSTAT_ENTRANCE_WEIGHT
         if weight < 0.05:
             return dx
         return min(dx, max(from_entry, ENTRANCE_FIRST_STEP * self.max_step) / weight)
@@ -305,10 +322,13 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
     t, p, x = inlet_temperature, inlet_pressure, 0.0
     entry_x, entry_d = 0.0, None
     carry = None
+    entrances: dict[int, tuple[float, float]] = {}
     for seg, heater in zip(line.segments, line.heaters):
+        s = _Segment(seg, heater, product)
         if entry_d is None or abs(seg.inside_diameter - entry_d) > 1e-9 * entry_d:
             entry_x, entry_d = x, seg.inside_diameter   # a new thermal entrance
-        s = _Segment(seg, heater, product)
+            entrances[seg.index] = (x, _entrance_jacket(s, t))
+            totals.jacket_seen(entrances[seg.index][1], x)
         wall_state.enter(s)
         t, p, x, carry = _march_segment(s, product, mass_flow, wall_state, control, totals, rec, t, p, x,
                                         entry_x, carry)
@@ -318,8 +338,8 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
         _stopped(line, totals, count, step, x)
     summary = totals.summary(line, product, flow, mass_flow, inlet_temperature, inlet_pressure, t, p, x)
     if rec is not None:
-        return MarchResult(summary, rec.nodes(inlet_temperature, inlet_pressure), rec.steps())
-    return MarchResult(summary, {}, {})
+        return MarchResult(summary, rec.nodes(inlet_temperature, inlet_pressure), rec.steps(), entrances)
+    return MarchResult(summary, {}, {}, entrances)
 
 
 def _march_segment(s: _Segment, product: Product, mass_flow: float, wall_state: _WallState,
@@ -350,7 +370,7 @@ def _march_segment(s: _Segment, product: Product, mass_flow: float, wall_state: 
             # a segment's first step: sized from the rates at its start (nothing is known of this
             # segment yet), the midpoint then reached by a half step from the start
             half = _evaluate(s, product, mass_flow, wall_state, t, from_d, from_d + 0.5 * dx / d, x, False)
-            fitted = control.fit(control.entrance(dx, half, x - entry_x, d), t, half, product.viscosity)
+            fitted = control.fit(control.entrance(dx, half, x - entry_x, d, s.thermostat), t, half, product.viscosity)
             if fitted < 0.9 * dx:
                 dx = fitted
                 half = _evaluate(s, product, mass_flow, wall_state, t, from_d, from_d + 0.5 * dx / d, x, False)
@@ -372,7 +392,8 @@ def _march_segment(s: _Segment, product: Product, mass_flow: float, wall_state: 
         if rec is not None:
             rec.add(s, local, dx, x, t_new, p, grad_total, sheath)
         previous, at_previous = local, x - 0.5 * dx
-        dx = control.entrance(control.after(dx, t, t_new, local.mu, local.g, local.wall.heater_state), local, x - entry_x, d)
+        dx = control.entrance(control.after(dx, t, t_new, local.mu, local.g, local.wall.heater_state), local, x - entry_x, d,
+                               s.thermostat)
         t = t_new
         if t < no_flow:
             totals.status, totals.sets_at = "product_sets", x
@@ -575,6 +596,29 @@ def _solve_wall(s: _Segment, ws: _WallState, t_bulk: float, mu: float, parts: tu
     return wall, g_in, g_out, q_out, h_in, ratio
 
 
+def _entrance_jacket(s: _Segment, t_bulk: float) -> float:
+    """The jacket temperature (bare: the wall's) where a thermal entrance starts, product at ``t_bulk``.
+
+    Toward an entrance the local laminar film coefficient grows without bound (Graetz), so the wall
+    there follows the heat path with the film's resistance gone, only the pipe wall's own left: the
+    jacket's highest value near the entrance, whatever the grid.  A step's midpoint only approaches
+    it as the first step shrinks (the barge demo's inlet: 35 °C at a 4 m first step, 49 °C at 6 cm);
+    taken here, the hottest jacket, and the touch check on it, no longer depend on the step."""
+    seg, t_amb = s.seg, s.t_amb
+    g_in = 1.0 / s.wall_r if s.wall_r > 0.0 else 1e9
+    t_wall = t_bulk
+    t_jacket = t_amb + 0.2 * (t_bulk - t_amb) if s.has_layers else t_bulk
+    for _ in range(60):
+        r_ins = insulation_resistance(seg, t_wall, t_jacket)
+        g_out = 1.0 / (r_ins + surface_resistance(seg, t_jacket))
+        t_wall = s.balance(t_bulk, g_in, g_out, t_amb, 0.0).t_wall
+        new = t_wall - g_out * (t_wall - t_amb) * r_ins
+        if abs(new - t_jacket) < 1e-3:
+            return new
+        t_jacket = new if s.has_layers else 0.5 * (t_jacket + new)   # bare: damped, as heat_loss does
+    return t_jacket
+
+
 def _bounded(ratio: float) -> float:
     """mu/mu_w within the range of the film's property correction (heat_transfer.VISCOSITY_RATIO_*)."""
     return VISCOSITY_RATIO_MIN if ratio < VISCOSITY_RATIO_MIN else (
@@ -640,9 +684,7 @@ class _Totals:
             self.ratio_min = ratio
         if ratio > self.ratio_max:
             self.ratio_max = ratio
-        jacket = local.t_jacket if s.has_layers or s.buried else wall.t_wall
-        if jacket > self.jacket_max:
-            self.jacket_max, self.jacket_at = jacket, x - 0.5 * dx
+        self.jacket_seen(local.t_jacket if s.has_layers or s.buried else wall.t_wall, x - 0.5 * dx)
         sheath = heater.sheath_temperature(wall.t_wall, wall.q_trace) if heater.active else wall.t_wall
         if sheath > self.sheath_max:   # the sheath (or steam tracer) is the hottest of the path when heated
             self.sheath_max, self.sheath_at = sheath, x - 0.5 * dx
@@ -657,6 +699,10 @@ class _Totals:
         if p > self.p_max:
             self.p_max = p
         return sheath
+
+    def jacket_seen(self, jacket: float, at: float) -> None:
+        if jacket > self.jacket_max:
+            self.jacket_max, self.jacket_at = jacket, at
 
     def past_ceiling(self, what: str, temperature: float) -> None:
         if self.hot_at is None:

@@ -32,7 +32,8 @@ def segment_rows(result: MarchResult, line_segments) -> list[dict]:
             "pressure_pa": float(result.nodes["pressure"][end]),
             "max_viscosity_pa_s": float(steps["viscosity"][inside].max()),
             "min_reynolds": float(steps["reynolds"][inside].min()),
-            "max_jacket_temperature_k": float(steps["jacket_temperature"][inside].max()),
+            "max_jacket_temperature_k": result.jacket_peak(seg.index, float(steps["jacket_temperature"][inside].max()),
+                                                           0.0)[0],
             "max_sheath_temperature_k": float(steps["sheath_temperature"][inside].max()),
             "heat_loss_w": float((steps["heat_loss"][inside]).sum() * seg.length / inside.sum()),
             "trace_power_w": float((steps["trace_power"][inside]).sum() * seg.length / inside.sum()),
@@ -60,6 +61,7 @@ def march_json(scenario: Scenario, result: MarchResult, profiles: bool = False, 
         doc["profiles"] = {
             "nodes": {k: v.tolist() for k, v in result.nodes.items()},
             "steps": {k: v.tolist() for k, v in result.steps.items()},
+            "entrance_jackets": [{"x_m": x, "jacket_temperature_k": t} for x, t in sorted(result.entrance_jackets.values())],
         }
     return doc
 
