@@ -124,7 +124,8 @@ def test_a_1000_km_route_in_a_share_link_is_refused_before_any_work():
 def test_evaluate_with_a_fine_step_is_refused_naming_the_step(tmp_path, capsys):
     data = base_scenario(route={"segments": [{"name": "a", "nps": "2", "length": 50_000.0}]})
     code, err = _cli(tmp_path, capsys, data, "evaluate", "--step", "0.1", "--json")
-    assert code == 2 and "--step:" in err and "500,030 march steps" in err
+    # counted at a quarter of the 0.1 m march step, as the march's meter counts: 50 km / 0.025 m + 30
+    assert code == 2 and "--step:" in err and "2,000,030 march steps" in err
 
 
 @pytest.mark.parametrize("text, words", [
@@ -262,15 +263,17 @@ def _count_march_steps(monkeypatch) -> dict:
 
 @pytest.mark.parametrize("path", DEMO_FILES, ids=[p.stem for p in DEMO_FILES])
 def test_plan_estimate_is_not_below_the_measured_march_steps_of_a_demo(path, monkeypatch):
-    """The budget counts steps at 25 m while the march takes adaptive steps of up to 100 m: for the
-    demos the estimate is 3-7 times the steps their plans really take (measured 7,674 / 6,326 / 2,261
-    against 23,940 / 28,120 / 14,820), never below them and not more than ten times above."""
+    """The budget counts steps at 25 m while the march takes adaptive steps of up to 100 m, plans
+    as single passes: for the demos the estimate is 10-15 times the steps their plans really take
+    (measured 2,360 / 2,350 / 986 against 23,940 / 28,120 / 14,820: easy lines, where the steps
+    reach their longest), never below them and not more than twenty times above (the margin is for
+    hard lines: the next test)."""
     from planner.transfer.plan import make_plan
 
     counted = _count_march_steps(monkeypatch)
     scenario = load_scenario(path)
     make_plan(scenario)
-    assert counted["steps"] <= budget.plan_steps(scenario) <= 10 * counted["steps"]
+    assert counted["steps"] <= budget.plan_steps(scenario) <= 20 * counted["steps"]
 
 
 def test_hard_lines_take_at_most_ten_times_the_counted_steps_of_a_pass():

@@ -32,7 +32,8 @@ def build_parser() -> argparse.ArgumentParser:
 def main(argv: list[str] | None = None) -> int:
     parser = build_parser()
     args = parser.parse_args(argv)
-    if getattr(args, "step", 25.0) is not None and not (0.1 <= getattr(args, "step", 25.0) <= 500.0):
+    step = getattr(args, "step", None)
+    if step is not None and not (0.1 <= step <= 500.0):
         print("error: --step must be between 0.1 m and 500 m", file=sys.stderr)
         return 2
     system = {"us": "US"}.get(getattr(args, "units", "si"), "SI")

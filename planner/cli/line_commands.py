@@ -9,7 +9,7 @@ from __future__ import annotations
 import json
 import sys
 
-from planner.scenario.budget import BudgetError
+from planner.scenario.budget import MARCH_STEP_M, BudgetError
 
 
 FAIL_EXIT = 3
@@ -154,7 +154,9 @@ def register(sub) -> None:
     ev.add_argument("scenario", help="scenario file (.toml or .json)")
     ev.add_argument("--flow", help="volume flow with its unit, e.g. '40 m3/h' or '176 gpm'; default: the scenario's")
     ev.add_argument("--inlet-temperature", help="with its unit, e.g. '55 degC' or '131 degF'; default: the scenario's")
-    ev.add_argument("--step", type=float, default=25.0, help="march step [m] (default 25)")
+    ev.add_argument("--step", type=float, default=MARCH_STEP_M,
+                    help=f"longest march step [m] (default {MARCH_STEP_M:g}, as plans use; refined where the product "
+                         "changes fast)")
     _common(ev, "print JSON (SI units, keys documented in README) with the findings")
     ev.add_argument("--profiles", action="store_true", help="with --json: include the profiles along the line")
     ev.set_defaults(func=_evaluate)

@@ -7,15 +7,15 @@ checked in ``scenario_from_dict`` (every scenario read anywhere), in ``line.mode
 in ``compare`` (values x sensitivity cases).
 
 Work is counted in *march steps*.  One pass along the line (the discharge route, plus the suction
-route when there is one) costs its steps — ``max(2, ceil(length / step))`` per segment, as the march
-takes them — plus ``PASS_OVERHEAD_STEPS`` for the set-up of the pass and of the operating-point
+route when there is one) costs its counted steps — ``max(2, ceil(length / (step / 4)))`` per
+segment for a march whose longest step is ``step`` (25 m a step at the default 100 m) — plus ``PASS_OVERHEAD_STEPS`` for the set-up of the pass and of the operating-point
 solve around it.  A plan makes about ``PLAN_PASSES_FIXED + PLAN_PASSES_PER_TIMELINE_STEP x
 timeline_steps`` passes (operating point, timeline, both start-ups, hold); those figures are fitted
 to counted passes of the demo scenarios at 10 to 1000 timeline steps (they over-count by up to half above
 60 steps; a plan whose operating point is hard to find, e.g. with the relief lifting, can take three
 times the passes).  The march's own steps are adaptive (up to 100 m, finer where the product
-changes fast), so the 25 m count is a margin: the demo plans take a third to a seventh of their
-estimate, while the hardest generated lines of tests/test_march_grid.py take up to 8 times the count
+changes fast), so the 25 m count is a margin: the demo plans take a tenth to a fifteenth of their
+estimate (plans march on the same 100 m grid as single passes), while the hardest generated lines of tests/test_march_grid.py take up to 8 times the count
 of one pass (tests/test_budget.py measures both).  A comparison is values x cases plans.  On the project's 2-core machine one step
 takes 4-45 us (laminar hot products cost the most), so a plan at the default budget
 (``Budget.plan_steps``) takes about 1-15 s of one core; the demos need 8,000-30,000.
@@ -39,8 +39,9 @@ from dataclasses import dataclass, replace
 
 from planner.errors import ScenarioError
 
-DEFAULT_STEP_M = 25.0                 # step the work is counted at [m]: a quarter of the march's longest default
-                                      # step (planner.line.march.DEFAULT_STEP_M = 100 m), which refines where
+MARCH_STEP_M = 100.0                  # the march's longest step by default [m] (planner.line.march.DEFAULT_STEP_M
+                                      # is this one figure: single passes and plans march on the same grid); the
+                                      # work is counted at a quarter of it (COUNT_STEPS_PER_MARCH_STEP), the march refines where
                                       # the product changes fast, so smooth lines cost fewer steps than counted
 PASS_OVERHEAD_STEPS = 30              # fixed cost of one pass, in march steps (measured on the demos)
 PLAN_PASSES_FIXED = 170               # passes of a plan outside the timeline (start, start-ups, hold)
@@ -112,14 +113,15 @@ def use_budget(budget: Budget):
 
 # ------------------------------------------------------------------------------------------- estimates
 
-def route_steps(route, step: float = DEFAULT_STEP_M) -> int:
-    """March steps of one pass along ``route`` (a ``schema.Route`` or None) at ``step`` [m]."""
+def route_steps(route, step: float = MARCH_STEP_M) -> int:
+    """Counted march steps of one pass along ``route`` (a ``schema.Route`` or None) for a march whose
+    longest step is ``step`` [m] (counted at a quarter of it, as the march's step meter counts)."""
     if route is None:
         return 0
-    return sum(max(2, int(math.ceil(seg.length / step - 1e-9))) for seg in route.segments)
+    return march_step_count([seg.length for seg in route.segments], step)
 
 
-def pass_steps(scenario, step: float = DEFAULT_STEP_M) -> int:
+def pass_steps(scenario, step: float = MARCH_STEP_M) -> int:
     """Work of one pass: discharge and suction steps plus the fixed cost of a pass."""
     return route_steps(scenario.route, step) + route_steps(scenario.suction, step) + PASS_OVERHEAD_STEPS
 
@@ -128,7 +130,7 @@ def plan_passes(timeline_steps: int) -> int:
     return int(math.ceil(PLAN_PASSES_FIXED + PLAN_PASSES_PER_TIMELINE_STEP * timeline_steps))
 
 
-def plan_steps(scenario, step: float = DEFAULT_STEP_M) -> int:
+def plan_steps(scenario, step: float = MARCH_STEP_M) -> int:
     """Estimated work of ``make_plan(scenario)`` [march steps]."""
     return plan_passes(scenario.schedule.timeline_steps) * pass_steps(scenario, step)
 
@@ -177,7 +179,7 @@ def _route_text(scenario, step: float) -> str:
             metres = sum(seg.length for seg in route.segments)
             length = f"{metres / 1000.0:,.1f} km" if metres >= 1000.0 else f"{metres:,.0f} m"
             parts.append(f"{name} {length} in {len(route.segments)} segment(s)")
-    return ", ".join(parts) + f", {step:g} m per step"
+    return ", ".join(parts) + f", counted at {step / COUNT_STEPS_PER_MARCH_STEP:g} m a step (march step {step:g} m)"
 
 
 def _route_field(scenario) -> str:
@@ -185,18 +187,18 @@ def _route_field(scenario) -> str:
     return "suction.segments" if suction > route_steps(scenario.route) else "route.segments"
 
 
-def pass_problems(scenario, step: float = DEFAULT_STEP_M, budget: Budget | None = None) -> list[tuple[str, str]]:
+def pass_problems(scenario, step: float = MARCH_STEP_M, budget: Budget | None = None) -> list[tuple[str, str]]:
     """One pass along the line against the budget (the work of ``evaluate``)."""
     budget = budget or active_budget()
     work = pass_steps(scenario, step)
     if work <= budget.pass_steps:
         return []
-    field = "--step" if step < DEFAULT_STEP_M and pass_steps(scenario) <= budget.pass_steps else _route_field(scenario)
+    field = "--step" if step < MARCH_STEP_M and pass_steps(scenario) <= budget.pass_steps else _route_field(scenario)
     return [(field, f"one pass along the line is {work:,} march steps ({_route_text(scenario, step)}), past the "
                     f"work budget of {budget.pass_steps:,}: shorten the route, or use a longer march step")]
 
 
-def plan_problems(scenario, step: float = DEFAULT_STEP_M, budget: Budget | None = None) -> list[tuple[str, str]]:
+def plan_problems(scenario, step: float = MARCH_STEP_M, budget: Budget | None = None) -> list[tuple[str, str]]:
     """A whole plan against the budget; empty when it fits."""
     budget = budget or active_budget()
     problems = pass_problems(scenario, step, budget)
@@ -217,13 +219,13 @@ def plan_problems(scenario, step: float = DEFAULT_STEP_M, budget: Budget | None 
     return [(_route_field(scenario), text + ": shorten the route (or plan it in parts)")]
 
 
-def check_plan(scenario, step: float = DEFAULT_STEP_M) -> None:
+def check_plan(scenario, step: float = MARCH_STEP_M) -> None:
     problems = plan_problems(scenario, step)
     if problems:
         raise BudgetError(problems)
 
 
-def check_pass(scenario, step: float = DEFAULT_STEP_M) -> None:
+def check_pass(scenario, step: float = MARCH_STEP_M) -> None:
     problems = pass_problems(scenario, step)
     if problems:
         raise BudgetError(problems)
@@ -287,7 +289,7 @@ def calibration_problems(scenario, rows: int, evaluations: int, factors: int,
     if work <= budget.calibration_steps:
         return []
     text = (f"the fit is estimated at {work:,} march steps ({rows:,} log rows x up to {evaluations} replays of the "
-            f"log for {factors} factor(s) x {each:,} steps a row: {_route_text(scenario, DEFAULT_STEP_M)}), past the "
+            f"log for {factors} factor(s) x {each:,} steps a row: {_route_text(scenario, MARCH_STEP_M)}), past the "
             f"work budget of {budget.calibration_steps:,}")
     most_rows = budget.calibration_steps // (evaluations * each)
     if most_rows < MIN_LOG_ROWS:

@@ -15,7 +15,7 @@ from pydantic import ValidationError
 
 from planner.errors import ComputationError, ScenarioError
 from planner.transfer.hold import Hold, hold_analysis
-from planner.line.march import MarchResult
+from planner.line.march import DEFAULT_STEP_M, MarchResult
 from planner.line.products import scenario_product
 from planner.scenario.quantities import SI
 from planner.scenario.wording import Q, Sentence
@@ -192,11 +192,12 @@ def _shift_ambients(scenario: Scenario, shift: float) -> None:
 
 
 def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | None = None,
-              both_startups: bool = True) -> Plan:
+              both_startups: bool = True, march_step: float = DEFAULT_STEP_M) -> Plan:
     """The whole plan.  ``both_startups=False`` works out only the scenario's chosen start-up mode
-    (comparisons); the other option is then marked as not evaluated."""
+    (comparisons); the other option is then marked as not evaluated.  ``march_step`` [m]: the
+    longest step of every march of the plan (the grid test makes it finer)."""
     product = scenario_product(scenario, viscosity_factor=viscosity_factor)   # with the [calibration] factor
-    system = TransferSystem(scenario, product=product)
+    system = TransferSystem(scenario, product=product, step=march_step)
     source = scenario.source
     if source.temperature <= product.no_flow_temperature:
         raise ComputationError(Sentence(

@@ -24,7 +24,7 @@ from dataclasses import dataclass, field
 
 from scipy.optimize import brentq
 
-from planner.line.march import Line, MarchSummary, march
+from planner.line.march import DEFAULT_STEP_M, Line, MarchSummary, march
 from planner.line.products import Product, scenario_product
 from planner.transfer.pumps import CentrifugalPump, PositiveDisplacementPump
 from planner.line.route import build_line
@@ -116,7 +116,7 @@ def build_pump(spec, slip_factor: float = 1.0):
 
 
 class TransferSystem:
-    def __init__(self, scenario: Scenario, tracing=None, product: Product | None = None, step: float = 25.0):
+    def __init__(self, scenario: Scenario, tracing=None, product: Product | None = None, step: float = DEFAULT_STEP_M):
         missing = [name for name in ("pump", "source", "destination") if getattr(scenario, name) is None]
         if missing:
             from planner.errors import ScenarioError
