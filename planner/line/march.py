@@ -49,7 +49,7 @@ from planner.correlations.friction import RE_LAMINAR_MAX, RE_TURBULENT_MIN, darc
 from planner.correlations.heat_transfer import (VISCOSITY_RATIO_MAX, VISCOSITY_RATIO_MIN, film_parts,
                                                  nu_laminar_local_over, viscosity_corrected)
 from planner.correlations.rheology import pipe_flow_non_newtonian
-from planner.line.heat_loss import insulation_resistance, surface_resistance
+from planner.line.heat_loss import insulation_resistance, outer_conductance, surface_resistance
 from planner.line.products import Product
 from planner.line.route import LineSegment
 from planner.line.tracing import Heater
@@ -609,8 +609,7 @@ def _entrance_jacket(s: _Segment, t_bulk: float) -> float:
     t_wall = t_bulk
     t_jacket = t_amb + 0.2 * (t_bulk - t_amb) if s.has_layers else t_bulk
     for _ in range(60):
-        r_ins = insulation_resistance(seg, t_wall, t_jacket)
-        g_out = 1.0 / (r_ins + surface_resistance(seg, t_jacket))
+        g_out, r_ins = outer_conductance(seg, t_wall, t_jacket)
         t_wall = s.balance(t_bulk, g_in, g_out, t_amb, 0.0).t_wall
         new = t_wall - g_out * (t_wall - t_amb) * r_ins
         if abs(new - t_jacket) < 1e-3:
