@@ -72,3 +72,17 @@ def test_a_plan_on_the_default_grid_agrees_with_one_eight_times_finer(make):
         assert math.isclose(rel_c[name], value, rel_tol=tolerance, abs_tol=1e-9), (name, rel_c[name], value)
     for name, value in temp_f.items():
         assert abs(temp_c[name] - value) <= TOL_T_K, (name, temp_c[name], value)
+
+
+def test_a_fine_grid_plan_is_not_stalled_by_the_wall_solve():
+    """On a 2 m grid the syrup demo's plan used to stop at its step meter (5,080 steps at 35 m of a
+    127 m line): the wall viscosity was taken up to 0.3 K from the wall the evaluation ended with, G
+    jittered by 0.2 % from step to step and the step control, whose G target is 0.2 % per step at
+    that grid, kept halving the step.  Now mu_w is taken within 0.02 K of the final wall
+    (``march.WALL_VISCOSITY_BAND_K``); the fine plan runs and agrees with the default one."""
+    scenario = load_scenario(next(p for p in DEMO_FILES if p.stem == "syrup_railcar_unload"))
+    coarse, fine = make_plan(scenario), make_plan(scenario, march_step=2.0)
+    # 955 steps measured (every target is 50 times tighter than at the default 100 m); the meter allows 5,080
+    assert fine.start_profile.summary.steps < 2_000
+    assert math.isclose(coarse.timeline.total_time_s, fine.timeline.total_time_s, rel_tol=TOL_REL)
+    assert math.isclose(coarse.energy.tracing_j, fine.energy.tracing_j, rel_tol=TOL_TRACING_REL)

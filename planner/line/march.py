@@ -65,6 +65,9 @@ THERMOSTAT_ENTRANCE_WEIGHT = 0.5     # entrance steps under a thermostat: at mos
 ENTRANCE_SPLIT_RATIO = 1.5           # a laminar step spanning more than this in distance from the entrance
 LOG_CONDUCTANCE_CHANGE_PER_STEP = 0.1  # at the default step: G (film, wall, outside) within 10 % per step
 WALL_TOLERANCE_K = 0.01               # film/wall/jacket agreement within an evaluation
+WALL_VISCOSITY_BAND_K = 0.02          # mu_w is taken within this of the wall the evaluation ends with: a wall
+                                      # viscosity left 0.3 K off made G jitter by 0.2 % from step to step,
+                                      # which the step control then chased on fine grids (a thermostat holding)
 TEMPERATURE_CEILING_K = 773.15        # the schema's highest temperature (scenario.schema.Temperature): the
                                       # models (air, insulation, product data) are not meant past it
 RECORDED = ("x", "segment", "viscosity", "reynolds", "flow_regime", "velocity", "wall_temperature",
@@ -552,7 +555,7 @@ def _solve_wall(s: _Segment, ws: _WallState, t_bulk: float, mu: float, parts: tu
     x_prev = r_prev = None
     for _ in range(40):
         if newtonian:
-            if abs(t_wall - mu_wall_at) > 0.02:   # mu_w moves little over 0.02 K
+            if abs(t_wall - mu_wall_at) > WALL_VISCOSITY_BAND_K:   # mu_w moves little over 0.02 K
                 mu_wall, mu_wall_at = _wall_viscosity(s.viscosity, t_wall), t_wall
             ratio = mu / mu_wall
             h_in = (nu_lam * _bounded(ratio) ** 0.14 if weight == 0.0 else viscosity_corrected(parts, ratio)) * k_over_d
@@ -578,7 +581,7 @@ def _solve_wall(s: _Segment, ws: _WallState, t_bulk: float, mu: float, parts: tu
         else:
             change = abs(new_jacket - t_jacket) + abs(residual)   # bare: the outside h follows the wall
         t_jacket = new_jacket   # bare: the jacket is the wall, settled with it below
-        if change < WALL_TOLERANCE_K:
+        if change < WALL_TOLERANCE_K and (not newtonian or abs(wall.t_wall - mu_wall_at) <= WALL_VISCOSITY_BAND_K):
             break
         # the film's wall viscosity makes the wall map slow to settle on its own (cold bare lines):
         # a secant step on the wall temperature, the plain fixed-point step when that looks unsafe
