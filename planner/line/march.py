@@ -61,7 +61,7 @@ DEFAULT_STEP_M = MARCH_STEP_M            # 100 m: single passes and plans alike 
 TEMPERATURE_CHANGE_PER_STEP_K = 3.0   # at the default step; planner choice (grid test: tests/test_march.py)
 LOG_VISCOSITY_CHANGE_PER_STEP = 0.05  # at the default step: viscosity within about 5 % per step
 ENTRANCE_FIRST_STEP = 0.04           # first step at a thermal entrance, share of the step (film-dominated)
-THERMOSTAT_ENTRANCE_WEIGHT = 0.5     # entrance steps under a thermostat: at most twice the distance from it
+THERMOSTAT_ENTRANCE_WEIGHT = 1.0     # entrance steps under a thermostat: no longer than the distance from it
 ENTRANCE_SPLIT_RATIO = 1.5           # a laminar step spanning more than this in distance from the entrance
 LOG_CONDUCTANCE_CHANGE_PER_STEP = 0.1  # at the default step: G (film, wall, outside) within 10 % per step
 WALL_TOLERANCE_K = 0.01               # film/wall/jacket agreement within an evaluation
@@ -249,14 +249,15 @@ class _StepControl:
         """Where the laminar film is a large part of the heat path, steps near a thermal entrance
         grow with the distance from it: the film, the wall and the outside coefficient all change
         steeply there, and a long first step would average them wrongly.  Under a thermostat
-        (``thermostat``) the heater's output is the difference of what the wall loses outward and
-        what the film takes in, so it follows the steep film even where the film is a small part of
-        the path (and the heater is off where the film alone holds the wall): the steps grow so too."""
+        (``thermostat``), holding or off, the heater's output is the difference of what the wall loses
+        outward and what the film takes in, so it follows the steep film even where the film is a
+        small part of the path (and the heater is off where the film alone holds the wall): the steps
+        grow so too.  At full output the heater gives what it can whatever the film."""
         if from_entry >= dx or local.re > RE_LAMINAR_MAX or local.g <= 0.0:
             return dx   # (the limit below is never shorter than the distance from the entrance)
         share = local.g / (local.h_in * PI * d)     # film resistance over the whole path's
         weight = 4.0 * share * (1.0 - share)
-        if thermostat and weight < THERMOSTAT_ENTRANCE_WEIGHT:
+        if thermostat and weight < THERMOSTAT_ENTRANCE_WEIGHT and local.wall.heater_state != 2:
             weight = THERMOSTAT_ENTRANCE_WEIGHT
         if weight < 0.05:
             return dx
