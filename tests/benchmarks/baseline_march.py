@@ -325,3 +325,71 @@ def baseline_march(line, flow: float, inlet_temperature: float, inlet_pressure: 
         "rhs_evaluations": evaluations,
         "accepted_steps": accepted,
     }
+
+
+REFERENCE_STEPS = 400   # the reference march's steps over the whole line
+
+
+class _WarmJacketRHS(_SegmentRHS):
+    """The same right-hand side with the jacket found the way a plain scalar march would: fixed-point
+    iteration from the last evaluation's jacket (damped on bare pipe), to JACKET_XTOL."""
+
+    def __init__(self, *args, jacket: float | None = None):
+        super().__init__(*args)
+        self.jacket = jacket
+
+    def _solve_jacket(self, t_bulk: float, film, viscous: float = 0.0):
+        tj = t_bulk if self.jacket is None or not self.seg.layers else self.jacket
+        damping = 1.0 if self.seg.layers else 0.5
+        state = self._wall_state(tj, t_bulk, film, viscous)
+        for _ in range(200):
+            new = tj + damping * (state[0] - tj)
+            if abs(new - tj) < JACKET_XTOL:
+                tj = new
+                break
+            tj = new
+            state = self._wall_state(tj, t_bulk, film, viscous)
+        self.jacket = tj
+        return tj, state
+
+
+def reference_march_rk4(line, flow: float, inlet_temperature: float, inlet_pressure: float = 0.0,
+                        fitting_method: str | None = None, steps: int = REFERENCE_STEPS) -> dict:
+    """A plain fixed-step march: classical fourth-order Runge–Kutta, ``steps`` equal steps over the
+    line (shared among the segments by length, at least one each), the same general-purpose
+    right-hand side as ``baseline_march`` with the jacket warm-started from the last evaluation.
+
+    The speed benchmark's unit of cost: ratios against one call of this, in the same run."""
+    product = line.product
+    mass_flow = product.density(inlet_temperature) * flow
+    no_flow = product.no_flow_temperature
+    t, p = inlet_temperature, inlet_pressure
+    entry_x, entry_d = 0.0, None
+    jacket = None
+    evaluations = 0
+    status, sets_at = "ok", None
+    for seg, heater in zip(line.segments, line.heaters):
+        if entry_d is None or abs(seg.inside_diameter - entry_d) > 1e-9 * entry_d:
+            entry_x, entry_d = seg.x_start, seg.inside_diameter
+        rhs = _WarmJacketRHS(seg, heater, product, mass_flow, fitting_method or _infer_fitting_method(seg),
+                             entry_x, jacket=jacket)
+        n = max(1, round(steps * seg.length / line.length))
+        h = seg.length / n
+        x = seg.x_start
+        for _ in range(n):
+            k1 = rhs(x, (t, p))
+            k2 = rhs(x + 0.5 * h, (t + 0.5 * h * k1[0], p))
+            k3 = rhs(x + 0.5 * h, (t + 0.5 * h * k2[0], p))
+            k4 = rhs(x + h, (t + h * k3[0], p))
+            t += h / 6.0 * (k1[0] + 2.0 * k2[0] + 2.0 * k3[0] + k4[0])
+            p += h / 6.0 * (k1[1] + 2.0 * k2[1] + 2.0 * k3[1] + k4[1])
+            x += h
+            if t < no_flow:
+                status, sets_at = "product_sets", x
+                break
+        evaluations += rhs.evaluations
+        jacket = rhs.jacket
+        if status != "ok":
+            break
+    return {"outlet_temperature_k": t, "outlet_pressure_pa": p, "pressure_drop_pa": inlet_pressure - p,
+            "status": status, "sets_at_m": sets_at, "rhs_evaluations": evaluations}

@@ -1,0 +1,51 @@
+"""The engine computes what the engine before its speed rewrite computed (recorded in
+tests/reference/engine_reference.json by ``python -m tests.engine_reference --record ead602d``, the
+commit named in the file): temperatures within 0.05 K; pressures, flows, times, powers and energies
+within 0.2 % (the planner's accuracy target for the steady march, planner choice; the same as the
+grid tests tests/test_march_grid.py and tests/test_plan_grid.py)."""
+
+from __future__ import annotations
+
+import json
+import math
+
+import pytest
+
+from engine_reference import (DEMO_DIR, MARCH_FIGURES, PLAN_FIGURES, REFERENCE_FILE, load_scenario, march_figures,
+                              plan_figures, push_cold_variant)
+
+TOL_T_K = 0.05
+TOL_REL = 2e-3
+REFERENCE = json.loads(REFERENCE_FILE.read_text(encoding="utf-8"))
+
+
+def _agree(kinds: dict, now: dict, then: dict, where: str) -> None:
+    for name, kind in kinds.items():
+        a, b = now[name], then[name]
+        if a is None or b is None:
+            assert a is b, (where, name, a, b)
+        elif kind == "temperature":
+            assert abs(a - b) <= TOL_T_K, (where, name, a, b)
+        else:
+            assert math.isclose(a, b, rel_tol=TOL_REL, abs_tol=1e-9), (where, name, a, b)
+
+
+def test_the_reference_names_its_commit_and_holds_200_lines():
+    assert REFERENCE["commit"] and len(REFERENCE["lines"]) == 200 and len(REFERENCE["plans"]) == 6
+
+
+@pytest.mark.parametrize("block", range(4))
+def test_generated_lines_march_as_recorded(block):
+    seeds = sorted(REFERENCE["lines"], key=int)[block::4]
+    for seed in seeds:
+        now = march_figures(int(seed))
+        assert now is not None, seed
+        _agree(MARCH_FIGURES, now, REFERENCE["lines"][seed], f"line {seed}")
+
+
+@pytest.mark.parametrize("name", sorted(REFERENCE["plans"]))
+def test_demo_plans_as_recorded(name):
+    stem = name.removesuffix("-push-cold-15C")
+    path = DEMO_DIR / f"{stem}.toml"
+    scenario = push_cold_variant(path) if name != stem else load_scenario(path)
+    _agree(PLAN_FIGURES, plan_figures(scenario), REFERENCE["plans"][name], name)
