@@ -15,7 +15,7 @@ from planner.calibration.replay import with_factors
 from planner.calibration.synthetic import synthetic_log
 from planner.checks.findings import assess
 from planner.errors import ComputationError
-from planner.line.heat_loss import jacket_temperature
+from planner.line.heat_path import jacket_temperature
 from planner.line.model import line_from_scenario
 from planner.scenario.schema import load_scenario, scenario_from_dict, scenario_to_dict
 from planner.transfer.plan import make_plan

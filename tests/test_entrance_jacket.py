@@ -1,4 +1,4 @@
-"""The hottest jacket where a thermal entrance starts (``planner.line.march._entrance_jacket``).
+"""The hottest jacket where a thermal entrance starts (``planner.line.heat_path.entrance_jacket``).
 
 Toward a thermal entrance the local laminar film coefficient grows without bound (Graetz-Leveque:
 Nu_x ~ x^(-1/3); Incropera & DeWitt, *Fundamentals of Heat and Mass Transfer*, sec. 8.4) [from
@@ -6,7 +6,7 @@ memory], so the pipe wall there is at the product's temperature less only the wa
 resistance.  The jacket is then what the outward path gives with the wall at the product's
 temperature: the surface-temperature calculation of insulation practice, which takes the pipe at
 the process temperature (ASTM C680's method; common practice).  The independent check here is
-``heat_loss.jacket_temperature``, the outward path solved on its own, with the steel wall's conduction
+``heat_path.jacket_temperature``, the outward path solved on its own, with the steel wall's conduction
 resistance ln(D_o/D_i) / (2 pi k) in series (Fourier's law for a cylinder) between the product and it.
 """
 
@@ -16,7 +16,7 @@ import pytest
 
 from conftest import DEMO_DIR, base_scenario
 from planner.checks.findings import assess_line
-from planner.line.heat_loss import jacket_temperature
+from planner.line.heat_path import jacket_temperature
 from planner.line.march import march
 from planner.line.model import line_from_scenario
 from planner.scenario.schema import load_scenario, scenario_from_dict, scenario_to_dict

@@ -314,7 +314,7 @@ def test_centrifugal_viscosity_correction_outside_hi_range():
 
 
 def test_tracing_that_cannot_hold_its_setpoint_at_design_ambient():
-    from planner.line.heat_loss import jacket_temperature
+    from planner.line.heat_path import jacket_temperature
 
     def traced(output):
         d = bench()

@@ -312,7 +312,7 @@ def test_a_wall_past_the_temperature_ceiling_is_refused_naming_the_heating():
     # input is refused (tests/test_scenario.py) and, within the input limits, a sheath, wall or
     # product past the schema's 773.15 K (500 degC) stops the march with the inputs to change
     from planner.errors import ComputationError
-    from planner.line.march import TEMPERATURE_CEILING_K
+    from planner.scenario.schema import TEMPERATURE_CEILING_K
 
     assert TEMPERATURE_CEILING_K == 773.15   # scenario.schema.Temperature's upper limit
     with pytest.raises(ComputationError) as caught:

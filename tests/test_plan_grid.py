@@ -75,7 +75,7 @@ def test_a_fine_grid_plan_is_not_stalled_by_the_wall_solve():
     127 m line): the wall viscosity was taken up to 0.3 K from the wall the evaluation ended with, G
     jittered by 0.2 % from step to step and the step control, whose G target is 0.2 % per step at
     that grid, kept halving the step.  Now mu_w is taken within 0.02 K of the final wall
-    (``march.WALL_VISCOSITY_BAND_K``); the fine plan runs and agrees with the default one."""
+    (``heat_path.WALL_VISCOSITY_BAND_K``); the fine plan runs and agrees with the default one."""
     scenario = load_scenario(next(p for p in DEMO_FILES if p.stem == "syrup_railcar_unload"))
     coarse, fine = make_plan(scenario), make_plan(scenario, march_step=2.0)
     # 955 steps measured (every target is 50 times tighter than at the default 100 m); the meter allows 5,080

@@ -24,6 +24,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from planner.line.tracing import HEATER_HOLDING
 from planner.calibration.log import TransferLog
 from planner.errors import ComputationError
 from planner.scenario.schema import Calibration, Scenario, calibration_of
@@ -163,7 +164,7 @@ def heater_holding_fraction(scenario: Scenario, log: TransferLog) -> float:
     if not len(steps.get("heater_state", [])):
         return 0.0
     lengths = np.gradient(steps["x"]) if len(steps["x"]) > 1 else np.ones(1)
-    return float(np.sum(lengths[steps["heater_state"] == 1]) / np.sum(lengths))
+    return float(np.sum(lengths[steps["heater_state"] == HEATER_HOLDING]) / np.sum(lengths))
 
 
 _WORKER: dict = {}

@@ -19,7 +19,7 @@ from planner.checks.caution import STANDING_CAUTION
 from planner.correlations.friction import RE_LAMINAR_MAX, RE_TURBULENT_MIN
 from planner.correlations.heat_transfer import VISCOSITY_RATIO_MAX, VISCOSITY_RATIO_MIN
 from planner.correlations.ratings import temperature_class_limit
-from planner.line.heat_loss import jacket_temperature
+from planner.line.heat_path import jacket_temperature
 from planner.line.march import Line, MarchResult
 from planner.scenario.schema import Scenario
 from planner.scenario.units import SI_UNITS

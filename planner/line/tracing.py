@@ -43,11 +43,18 @@ SELF_REGULATING_RATING_TEMPERATURE = 283.15  # output is rated at 10 degC pipe t
 PRODUCT_HOLD_BAND_K = 1e-6   # product sensing: within this of the setpoint the thermostat holds
 
 
+# The heater's state at a wall balance (plain ints: the march compares them at every step)
+HEATER_OFF = 0        # untraced, or the thermostat has switched the heater off
+HEATER_HOLDING = 1    # the thermostat holds its setpoint: the heater gives just what that needs
+HEATER_FULL = 2       # the heater gives all it can at this wall temperature
+HEATER_STATE_WORDS = {HEATER_OFF: "off", HEATER_HOLDING: "holding", HEATER_FULL: "full output"}
+
+
 class WallBalance(NamedTuple):
     t_wall: float
-    q_trace: float     # W per metre of pipe into the wall
-    c1: float          # d t_wall / d t_bulk for the heater state in force (for the exponential step)
-    heater_state: int  # 0 untraced/off, 1 holding the setpoint, 2 at full capacity
+    q_trace: float          # W per metre of pipe into the wall
+    wall_follows_bulk: float   # d t_wall / d t_bulk in the heater state in force (the exponential step)
+    heater_state: int       # HEATER_OFF, HEATER_HOLDING or HEATER_FULL
 
 
 class Heater:
@@ -103,26 +110,26 @@ class Heater:
         g_sum = g_inner + g_outer
         passive_wall = (g_inner * t_bulk + g_outer * t_ambient) / g_sum
         if not self.active:
-            return WallBalance(passive_wall, 0.0, g_inner / g_sum, 0)
+            return WallBalance(passive_wall, 0.0, g_inner / g_sum, HEATER_OFF)
         setpoint = self.setpoint
         if setpoint is not None:
             if self.sensing == "product":
                 if t_bulk > setpoint + PRODUCT_HOLD_BAND_K:
-                    return WallBalance(passive_wall, 0.0, g_inner / g_sum, 0)
+                    return WallBalance(passive_wall, 0.0, g_inner / g_sum, HEATER_OFF)
                 if t_bulk >= setpoint - PRODUCT_HOLD_BAND_K:
                     # holding the product: the wall where the film takes out what viscous heating puts in
                     t_wall = setpoint - viscous / g_inner
                     need = g_inner * (t_wall - t_bulk) + g_outer * (t_wall - t_ambient)
                     if need <= 0.0:
-                        return WallBalance(passive_wall, 0.0, g_inner / g_sum, 0)
+                        return WallBalance(passive_wall, 0.0, g_inner / g_sum, HEATER_OFF)
                     if need <= self.capacity(t_wall):
-                        return WallBalance(t_wall, need, 0.0, 1)
+                        return WallBalance(t_wall, need, 0.0, HEATER_HOLDING)
             else:
                 if passive_wall >= setpoint:
-                    return WallBalance(passive_wall, 0.0, g_inner / g_sum, 0)
+                    return WallBalance(passive_wall, 0.0, g_inner / g_sum, HEATER_OFF)
                 need = g_inner * (setpoint - t_bulk) + g_outer * (setpoint - t_ambient)
                 if need <= self._capacity_at_setpoint:
-                    return WallBalance(setpoint, need, 0.0, 1)
+                    return WallBalance(setpoint, need, 0.0, HEATER_HOLDING)
         # Full output: solve alpha - beta T = g_inner (T - t_bulk) + g_outer (T - t_ambient) per piece.
         rhs_const = g_inner * t_bulk + g_outer * t_ambient
         for t_low, t_high, alpha, beta in self.pieces:
@@ -131,8 +138,8 @@ class Heater:
                 q = alpha - beta * t
                 if q <= 0.0:
                     break
-                return WallBalance(t, q, g_inner / (g_sum + beta), 2)
-        return WallBalance(passive_wall, 0.0, g_inner / g_sum, 0)
+                return WallBalance(t, q, g_inner / (g_sum + beta), HEATER_FULL)
+        return WallBalance(passive_wall, 0.0, g_inner / g_sum, HEATER_OFF)
 
     def switch_points(self, g_inner: float, g_outer: float, t_ambient: float) -> tuple[float, float] | None:
         """Bulk temperatures [K] where the thermostat changes state with these conductances:

@@ -5,7 +5,7 @@ A metre of line (product, pipe metal) at one temperature T obeys
     C dT/dt = P_heater(T) - q_loss(T)
 
 C = rho_p cp_p A_inside + m_steel c_steel [J/(m K)]; q_loss from the outward thermal path
-(``heat_loss.jacket_temperature``), P_heater the tracing's capacity at T (full output below the
+(``heat_path.jacket_temperature``), P_heater the tracing's capacity at T (full output below the
 setpoint; at the setpoint the thermostat holds it). Integrated in small exponential steps with the
 coefficients linearised at each step (exact for constant coefficients).
 
@@ -30,7 +30,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from planner.line.heat_loss import jacket_temperature
+from planner.line.heat_path import jacket_temperature
 from planner.line.products import Product
 from planner.line.route import LineSegment
 from planner.line.tracing import Heater

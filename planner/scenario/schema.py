@@ -24,8 +24,12 @@ from planner.scenario.quantities import Quantity, readable_dump
 
 SCHEMA_VERSION = 1
 
+# The highest temperature the planner's models are meant for (air, insulation, product data): the
+# schema's highest input, and a stop wherever a plan computes past it.
+TEMPERATURE_CEILING_K = 773.15
+
 # Quantity types with the limits a planner can defend; bounds in SI.
-Temperature = Quantity("temperature", gt=0.0, le=773.15, description="temperature")
+Temperature = Quantity("temperature", gt=0.0, le=TEMPERATURE_CEILING_K, description="temperature")
 Length = Quantity("length", ge=0.01, le=50_000.0, description="length along the line")
 Elevation = Quantity("length", ge=-500.0, le=500.0, description="rise from segment inlet to outlet (negative: falls)")
 Thickness = Quantity("small_length", gt=0.0, le=0.5, description="thickness")
