@@ -33,7 +33,7 @@ import math
 from planner.correlations.heat_transfer import VISCOSITY_RATIO_MAX, VISCOSITY_RATIO_MIN, viscosity_corrected
 from planner.line.heat_loss import insulation_resistance, surface_resistance
 from planner.line.route import LineSegment
-from planner.line.tracing import HEATER_FULL, Heater, WallBalance
+from planner.line.tracing import HEATER_OFF, Heater, WallBalance
 
 PI = math.pi
 WALL_TOLERANCE_K = 0.01          # film/wall/jacket agreement within an evaluation
@@ -80,12 +80,6 @@ class HeatPath:
         if value is None:
             value = self._surface[key] = surface_resistance(self.seg, key / SURFACE_GRID_PER_K)
         return value
-
-    def wall_balance(self, t_bulk: float, g_in: float, g_out: float, viscous: float) -> WallBalance:
-        if self.heater is None:
-            g_sum = g_in + g_out
-            return WallBalance((g_in * t_bulk + g_out * self.t_ambient) / g_sum, 0.0, g_in / g_sum, 0)
-        return self.heater.balance(t_bulk, g_in, g_out, self.t_ambient, viscous)
 
 
 class WarmStart:
@@ -158,6 +152,8 @@ def settle(path: HeatPath, start: WarmStart, t_bulk: float, viscous: float, at: 
     t_jacket = start.t_jacket + (1.0 if drift > 1.0 else (-1.0 if drift < -1.0 else drift))
     mu_wall, mu_wall_at = start.mu_wall, start.mu_wall_at
     r_ins, ins_at, r_surf, surf_at = start.r_insulation, start.insulation_at, start.r_surface, start.surface_at
+    heater = path.heater
+    balance = heater.balance if heater is not None else None
     x_prev = r_prev = None
     for _ in range(MAX_ITERATIONS):
         if newtonian:
@@ -178,7 +174,11 @@ def settle(path: HeatPath, start: WarmStart, t_bulk: float, viscous: float, at: 
         if abs(t_jacket - surf_at) > 0.02:
             r_surf, surf_at = path.surface_resistance(t_jacket), t_jacket
         g_out = 1.0 / (r_ins + r_surf)
-        wall = path.wall_balance(t_bulk, g_inner, g_out, viscous)
+        if balance is None:
+            g_sum = g_inner + g_out
+            wall = WallBalance((g_inner * t_bulk + g_out * t_amb) / g_sum, 0.0, g_inner / g_sum, HEATER_OFF)
+        else:
+            wall = balance(t_bulk, g_inner, g_out, t_amb, viscous)
         q_out = g_out * (wall.t_wall - t_amb)
         new_jacket = wall.t_wall - q_out * r_ins
         residual = wall.t_wall - t_wall
@@ -253,5 +253,5 @@ def wall_viscosity(viscosity, t_wall: float) -> float:
         return math.inf
 
 
-__all__ = ["HEATER_FULL", "HeatPath", "WarmStart", "entrance_jacket", "jacket_temperature", "settle",
+__all__ = ["HeatPath", "WarmStart", "entrance_jacket", "jacket_temperature", "settle",
            "wall_viscosity"]

@@ -30,6 +30,9 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+import numpy as np
+from scipy.optimize import brentq
+
 from planner.line.heat_path import jacket_temperature
 from planner.line.products import Product
 from planner.line.route import LineSegment
@@ -154,19 +157,19 @@ def _gap_model(seg: LineSegment, product: Product, gap_m: float, t_start: float,
 
 
 def _crossing(centre, target: float, rising: bool) -> float | None:
-    """When the (monotonic) centre temperature crosses ``target``: bisection on the time."""
-    def before(time: float) -> bool:
-        return centre(time) < target if rising else centre(time) > target
+    """When the (monotonic) centre temperature crosses ``target``: the first doubling of the time
+    that passes it brackets the crossing, Brent's method finds it (to a millisecond)."""
+    def past(time: float) -> float:
+        return centre(time) - target if rising else target - centre(time)
 
     low, high = 0.0, 1.0
-    while before(high):
-        high *= 2.0
+    while past(high) < 0.0:
+        low, high = high, 2.0 * high
         if high > GAP_HORIZON_S:
             return None
-    for _ in range(60):
-        mid = 0.5 * (low + high)
-        low, high = (mid, high) if before(mid) else (low, mid)
-    return high
+    if past(low) >= 0.0:
+        return low
+    return brentq(past, low, high, xtol=1e-3, rtol=1e-12)
 
 
 GAP_HORIZON_S = 30 * 86400.0
@@ -182,14 +185,15 @@ def _gap_centre(gap_m: float, u: float, ka: float, capacity: float, t_start: flo
     m2 = u / ka
     m_half = math.sqrt(m2) * gap_m / 2.0
     settles = t_amb + (t_ends - t_amb) / math.cosh(m_half) if m_half < 700.0 else t_amb
-    modes = []
-    for j in range(GAP_TERMS):
-        n = 2 * j + 1
-        k2 = (n * math.pi / gap_m) ** 2
-        amplitude = 4.0 / (n * math.pi) * ((t_amb - t_start) + (t_ends - t_amb) * k2 / (k2 + m2))
-        modes.append(((-1.0) ** j * amplitude, (u + ka * k2) / capacity))
+    n = 2.0 * np.arange(GAP_TERMS) + 1.0
+    k2 = (n * math.pi / gap_m) ** 2
+    signs = np.where(np.arange(GAP_TERMS) % 2 == 0, 1.0, -1.0)
+    amplitudes = signs * 4.0 / (n * math.pi) * ((t_amb - t_start) + (t_ends - t_amb) * k2 / (k2 + m2))
+    rates = (u + ka * k2) / capacity
 
     def centre(time: float) -> float:
-        return settles - sum(a * math.exp(-rate * time) for a, rate in modes if rate * time < 700.0)
+        exponents = rates * time
+        live = exponents < 700.0
+        return settles - float(np.dot(amplitudes[live], np.exp(-exponents[live])))
 
     return settles, centre

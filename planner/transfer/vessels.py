@@ -49,14 +49,24 @@ def level_from_volume(vessel: Vessel, volume: float) -> float:
     full = math.pi * radius * radius
     if target >= full:
         return 2.0 * radius
+    # Newton's method on the wetted cross-section A(h), whose slope is the chord 2 sqrt(2 r h - h^2),
+    # kept inside a bisection bracket (A is monotone in h)
     low, high = 0.0, 2.0 * radius
-    for _ in range(60):  # bisection: area is monotone in level
-        mid = 0.5 * (low + high)
-        if _segment_area(radius, mid) < target:
-            low = mid
+    level = 2.0 * radius * target / full
+    for _ in range(60):
+        error = _segment_area(radius, level) - target
+        if error < 0.0:
+            low = level
         else:
-            high = mid
-    return 0.5 * (low + high)
+            high = level
+        chord = 2.0 * math.sqrt(max(0.0, 2.0 * radius * level - level * level))
+        following = level - error / chord if chord > 0.0 else -1.0
+        if not low < following < high:
+            following = 0.5 * (low + high)
+        if abs(following - level) <= 1e-13 * radius:
+            return following
+        level = following
+    return level
 
 
 def wetted_area(vessel: Vessel, volume: float) -> float:

@@ -28,6 +28,7 @@ import cProfile
 import io
 import json
 import pstats
+import statistics
 import sys
 import time
 import tomllib
@@ -286,6 +287,83 @@ def case_calibration_fit(args) -> dict:
             + "; ".join(f"{n} {v:.4f} ({lo:.4f}–{hi:.4f}), truth {truth[n]}" for n, (v, lo, hi) in factors.items()),
         ],
     }
+
+
+ENGINE_GOALS = {"march_default_step": (">=", 300.0), "march_equal_resolution": (">=", 20.0),
+                "plan": ("<=", 0.5), "setpoint_comparison": ("<=", 3.0)}
+
+
+def _line_of_length(length_m: float):
+    """The polyol demo's line stretched (or shortened) to ``length_m`` by its longest segment."""
+    data = tomllib.loads((DEMO_DIR / "polyol_tank_transfer.toml").read_text(encoding="utf-8"))
+    lengths = [seg.length for seg in scenario_from_dict(data).route.segments]
+    longest = max(range(len(lengths)), key=lengths.__getitem__)
+    data["route"]["segments"][longest]["length"] = lengths[longest] + length_m - sum(lengths)
+    return scenario_from_dict(data)
+
+
+def _median_time(fn, repeats: int) -> float:
+    times = []
+    for _ in range(repeats):
+        t0 = time.perf_counter()
+        fn()
+        times.append(time.perf_counter() - t0)
+    return statistics.median(times)
+
+
+@register("engine", "the engine against the plain RK4 reference march (400 steps): march at the default step and "
+                    "at equal resolution, one plan, an 11-setpoint comparison on 2 workers; medians of rounds")
+def case_engine(args) -> dict:
+    from planner.checks.compare import compare, shutdown_pool
+    from planner.scenario.schema import load_scenario
+    from planner.transfer.plan import make_plan
+    from tests.benchmarks.baseline_march import REFERENCE_STEPS, reference_march_rk4
+
+    rounds = max(3, args.baseline_repeats)
+    cases = {}
+    for length in (600.0, 1000.0):
+        scenario = _line_of_length(length)
+        line = line_from_scenario(scenario)
+        op = scenario.operation
+        method = scenario.route.fitting_method
+        cases[length] = (line, op, method)
+    demos = {p.stem: load_scenario(p) for p in sorted(DEMO_DIR.glob("*.toml"))}
+    comparison = polyol_plan_scenario()
+    values = [293.15 + 5.0 * i for i in range(11)]
+    compare(comparison, "setpoint", values[:2], workers=2)       # starts the worker pool outside the timing
+    ratios = {name: [] for name in ENGINE_GOALS}
+    try:
+        for _ in range(rounds):   # each round times every measure against its own reference marches
+            for length, (line, op, method) in cases.items():
+                ref = _median_time(lambda: reference_march_rk4(line, op.flow, op.inlet_temperature,
+                                                               op.inlet_pressure, method), 1)
+                default = _median_time(lambda: march(line, op.flow, op.inlet_temperature, op.inlet_pressure,
+                                                     record=False), 20)
+                fine = _median_time(lambda: march(line, op.flow, op.inlet_temperature, op.inlet_pressure,
+                                                  step=line.length / REFERENCE_STEPS, record=False), 3)
+                ratios["march_default_step"].append(ref / default)
+                ratios["march_equal_resolution"].append(ref / fine)
+                if length == 1000.0:
+                    for scenario in demos.values():
+                        ratios["plan"].append(_median_time(lambda: make_plan(scenario), 1) / ref)
+                    ratios["setpoint_comparison"].append(
+                        _median_time(lambda: compare(comparison, "setpoint", values, workers=2), 1) / ref)
+    finally:
+        shutdown_pool()
+    figures = {"rounds": rounds, "unit": f"reference_march_rk4: classical RK4, {REFERENCE_STEPS} steps, "
+                                                "600 m and 1000 m polyol lines"}
+    lines = [f"   unit: one reference march ({figures['unit']}), timed in the same round"]
+    for name, (sense, goal) in ENGINE_GOALS.items():
+        values_ = sorted(ratios[name])
+        median = statistics.median(values_)
+        met = median >= goal if sense == ">=" else median <= goal
+        figures[name] = {"median": median, "min": values_[0], "max": values_[-1], "goal": f"{sense} {goal:g}",
+                         "met": met}
+        unit = "x faster than one reference march" if sense == ">=" else "reference marches"
+        lines.append(f"   {name:24s} median {median:8.2f} (range {values_[0]:.2f}-{values_[-1]:.2f}) {unit}; "
+                     f"goal {sense} {goal:g}: {'met' if met else 'NOT met'}")
+    figures["report_lines"] = lines
+    return figures
 
 
 # -- report ------------------------------------------------------------------------------------------
