@@ -407,7 +407,7 @@ def read_log_file(path: str | Path, columns: str | Path | None = None) -> Transf
         with path.open("rb") as handle:
             data = handle.read(MAX_BYTES + 1)
     except OSError as exc:
-        raise LogError(f"log: cannot open {quoted(str(path))}: {exc.strerror}") from None
+        raise LogError(f"log: cannot open the log {quoted(str(path))}: {exc.strerror}") from None
     if len(data) > MAX_BYTES:
         raise LogError(f"log: {quoted(path.name, 40)} is larger than {MAX_BYTES / 1e6:.0f} MB, the limit for a log; "
                        "resample it (e.g. one row a minute)")
