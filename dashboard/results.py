@@ -200,7 +200,8 @@ def run_comparison(scenario: Scenario, lever: str, values_si: list[float], progr
     return {
         "lever": lever, "lever_label": LEVERS[lever][0], "kind": kind, "rows": rows,
         "recommended": comparison.recommended, "runner_up": comparison.runner_up,
-        "reason": comparison.reason or "", "sensitivity": cases,
+        "reason": comparison.reason or "", "sensitivity": cases, "tied": list(comparison.tied),
+        "end_of_range": comparison.end_of_range,
         "touch_limit_k": scenario.limits.touch_temperature, "currency": scenario.costs.currency,
     }
 

@@ -198,6 +198,8 @@ def comparison_frame(comparison: dict, kind: str, system: str) -> pd.DataFrame:
             mark = "★"
         elif i == comparison.get("runner_up"):
             mark = "2nd"
+        if i != comparison.get("recommended") and i in comparison.get("tied", []):
+            mark = "≈ " + mark if mark else "≈"     # no clear difference in cost from the recommended row
         rows.append({
             "": mark,
             with_unit(comparison.get("lever_label", "Value"), kind, system): to_display(r.get("value"), kind, system),

@@ -5,6 +5,7 @@ from __future__ import annotations
 import pandas as pd
 import streamlit as st
 
+from planner.errors import PlannerError
 from planner.records.links import VIEWS as LINK_VIEWS
 from planner.scenario.schema import Scenario
 
@@ -14,7 +15,7 @@ from .plaintext import plain, plain_table
 from planner.reports.findings_text import headline
 from planner.scenario.wording import render
 
-from .display import (fit_quality_text, fmt, from_display, key_figures, label, law_parameters_text, to_display,
+from .display import (fit_quality_text, fmt, key_figures, label, law_parameters_text, to_display,
                       with_unit, words)
 from .results import LEVERS, SEVERITY_ORDER, default_comparison_values
 
@@ -240,13 +241,13 @@ def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_s
     lever, kind, text, sensitivity, run = _comparison_controls(scenario, unit_system)
     if run:
         from planner.checks.compare import parse_range
+        from planner.checks.lever_values import typed_values
 
-        try:
-            values_display = parse_range(text)
-        except ValueError as exc:
+        try:   # each value checked against the lever's field in the unit typed, none twice
+            values_si = tuple(typed_values(scenario, lever, parse_range(text), unit_system, "Values"))
+        except (ValueError, PlannerError) as exc:
             st.error(plain(str(exc)))
             return
-        values_si = tuple(from_display(v, kind, unit_system) for v in values_display)
         result = _run_comparison(scenario_json, lever, values_si, sensitivity)
         st.session_state["comparison"] = {"json": scenario_json, "result": result}
     saved = st.session_state.get("comparison")
@@ -269,6 +270,8 @@ def comparison_result(result: dict, unit_system: str) -> None:
         st.success(f"Recommended: {plain(render(result['reason'], unit_system))}")
     else:
         st.error(plain(render(result["reason"], unit_system) or "no value can be recommended"))
+    if result.get("end_of_range"):
+        st.info(plain(render(result["end_of_range"], unit_system)))
     frame = tables.comparison_frame(result, kind, unit_system)
     errors = [r.get("error", "") for r in result["rows"]]
     if any(errors):

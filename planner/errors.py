@@ -24,3 +24,24 @@ class ScenarioError(PlannerError):
 
 class ComputationError(PlannerError):
     """A computation that has no answer for these inputs, with the reason in words."""
+
+
+QUOTE_CHARS = 80   # at most this many characters of the user's input are echoed in a message
+
+
+def quoted(value: object, limit: int = QUOTE_CHARS) -> str:
+    """The user's input as a message quotes it: its ``repr``, cut to about ``limit`` characters with the
+    full length said, so a refusal never echoes a whole file or a 100 kB field back.
+
+    >>> quoted("5 m)")
+    "'5 m)'"
+    >>> quoted("x" * 5000)[-24:]
+    "xxx'… (5,000 characters)"
+    """
+    if isinstance(value, int) and not isinstance(value, bool) and value.bit_length() > 4 * limit:
+        return f"an integer of about {int(value.bit_length() * 0.30103) + 1:,} digits"   # repr may refuse it
+    text = repr(value)
+    if len(text) <= limit:
+        return text
+    size = f" ({len(value):,} characters)" if isinstance(value, (str, bytes)) else ""
+    return text[:limit - 1] + "'…" + size if isinstance(value, (str, bytes)) else text[:limit - 1] + "…"

@@ -67,7 +67,7 @@ def test_unreadable_rows_are_counted_with_reasons_and_lines():
     reasons = {g["reason"]: (g["count"], g["lines"]) for g in log.problem_summary()}
     assert reasons["flow 'twenty' is not a number"] == (1, [4])
     assert reasons["expected 4 cells, found 3"] == (1, [6])
-    assert reasons["flow -3 m3/h: flow must lie between 0 (pump stopped) and 2 m³/s"] == (1, [7])
+    assert reasons["flow -3 m3/h: flow must be 0 (pump stopped) or between 0.0036 m³/h (1e-6 m³/s) and 2 m³/s"] == (1, [7])
     assert reasons["time is not after the previous row's"] == (1, [10])
     assert log.rows == 6 and log.rows_total == 10 and len(log.problems) == 4
     assert log.blanks == {"discharge_pressure": 1}

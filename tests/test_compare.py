@@ -9,7 +9,7 @@ import sys
 import pytest
 
 from conftest import DEMO_FILES, ROOT
-from planner.checks.compare import compare, parse_range, recommend, shutdown_pool
+from planner.checks.compare import TIE_BAND, compare, parse_range, recommend, shutdown_pool
 from planner.scenario.schema import load_scenario, scenario_from_dict, scenario_to_dict
 
 SYRUP = ROOT / "demo_scenarios" / "syrup_railcar_unload.toml"
@@ -53,19 +53,24 @@ def test_recommendation_skips_stop_rows_and_says_why():
     assert best is None and "FLOW-NONE" in reason
 
 
+def _gentlest_within_the_band(c, key: str) -> None:
+    """The recommendation is the lowest setpoint whose ``key`` is within TIE_BAND of the best allowed row's
+    (costs here move with that one figure)."""
+    allowed = [i for i, r in enumerate(c.rows) if not r["has_stop"] and r["total_time_s"] is not None]
+    best = min(c.rows[i][key] for i in allowed)
+    within = [i for i in allowed if c.rows[i][key] <= best * (1 + TIE_BAND) + 1e-9]
+    assert c.recommended == min(within, key=lambda i: c.rows[i]["value"])
+
+
 def test_without_demurrage_the_cheapest_energy_setpoint_wins():
     c = compare(syrup(0.0), "setpoint", SETPOINTS, workers=1)
-    allowed = [i for i, r in enumerate(c.rows) if not r["has_stop"] and r["total_time_s"] is not None]
-    cheapest = min(c.rows[i]["energy_cost"] for i in allowed)
-    assert c.rows[c.recommended]["energy_cost"] == pytest.approx(cheapest, rel=1e-9)   # ties are allowed
+    _gentlest_within_the_band(c, "energy_cost")
     assert c.rows[c.recommended]["demurrage"] == 0.0
 
 
 def test_with_huge_demurrage_the_fastest_allowed_setpoint_wins():
     c = compare(syrup(1.0e5), "setpoint", SETPOINTS, workers=1)
-    allowed = [i for i, r in enumerate(c.rows) if not r["has_stop"] and r["total_time_s"] is not None]
-    fastest = min(allowed, key=lambda i: c.rows[i]["total_time_s"])
-    assert c.rows[c.recommended]["total_time_s"] == pytest.approx(c.rows[fastest]["total_time_s"], rel=1e-6)
+    _gentlest_within_the_band(c, "total_time_s")
 
 
 def test_a_stop_level_row_is_never_recommended():
@@ -117,3 +122,50 @@ def test_compare_cli_on_every_demo(path):
     text = subprocess.run([sys.executable, "-m", "planner", "compare", str(path), *args], cwd=ROOT,
                           capture_output=True, text=True, timeout=300)
     assert text.returncode == 0 and "recommendation:" in text.stdout
+
+
+def _row(value_k: float, cost: float) -> dict:
+    return {"value": value_k, "ok": True, "has_stop": False, "total_cost": cost, "total_time_s": 20_800.0,
+            "energy_cost": 14.9, "demurrage": cost - 14.9, "currency": "EUR"}
+
+
+def test_near_equal_costs_are_no_clear_difference_and_the_gentler_value_is_recommended():
+    # issue 20.4: the syrup demo starred 45 degC over 25 degC on 0.05 EUR of 506 EUR (0.01 %)
+    rows = [_row(298.15, 505.99), _row(318.15, 505.94)]
+    best, runner, reason = recommend(rows, "temperature")
+    assert (best, runner) == (0, 1)
+    assert reason.startswith("25.0 °C: no clear difference in total cost among 2 values (505.94 to 505.99 EUR, "
+                             "within 1 % of the lowest): the gentlest, 25.0 °C, is recommended")
+    # just outside the band (1 % of 505.94 is 5.06 EUR) the cheaper one wins again
+    best, _, reason = recommend([_row(298.15, 505.94 + 5.07), _row(318.15, 505.94)], "temperature")
+    assert best == 1 and "lowest total cost 505.94 EUR" in reason
+    best, _, _ = recommend([_row(298.15, 505.94 + 5.05), _row(318.15, 505.94)], "temperature")
+    assert best == 0
+
+
+def test_the_syrup_demo_says_no_clear_difference_in_text_json_and_notes_the_end_of_the_range():
+    from planner.checks.compare import comparison_json, comparison_table
+
+    c = compare(load_scenario(SYRUP), "setpoint", [298.15, 318.15], workers=1)
+    assert c.recommended == 0 and c.tied == [0, 1]
+    doc = comparison_json(c)
+    assert doc["no_clear_difference"] and doc["tied_indices"] == [0, 1]
+    assert doc["tie_band"] == {"relative": 0.01, "at_least": 0.005}
+    assert doc["end_of_range"].startswith("25.0 °C is at the end of the range you gave (its lowest value)")
+    text = comparison_table(c, "US")
+    assert "no clear difference" in text and "note: 77.0 °F is at the end of the range you gave" in text
+
+
+def test_a_recommendation_at_the_top_of_the_range_says_extend_it():
+    # issue 20.4: on the barge the recommended steam pressure was always the top of the typed range
+    fuel = ROOT / "demo_scenarios" / "fuel_oil_barge_discharge.toml"
+    c = compare(load_scenario(fuel), "steam_pressure", [p * 1e5 for p in (2.0, 4.0, 6.0)], workers=1)
+    assert c.recommended == 2 and not c.tied
+    assert c.end_of_range == ("6.00 bar is at the end of the range you gave (its highest value): a value above it may "
+                              "be better still; extend the range above 6.00 bar to see")
+    from planner.checks.compare import end_of_range_note
+
+    assert end_of_range_note([2e5, 6e5, 4e5], 2, "pressure") is None               # inside the range given
+    assert end_of_range_note([2e5, 6e5, 4e5], 0, "pressure").startswith("2.00 bar is at the end of the range you gave "
+                                                                        "(its lowest value): a value below it may be")
+    assert end_of_range_note([2e5, 6e5], 1, "pressure", extendable=lambda p: p <= 6e5) is None   # the field's end

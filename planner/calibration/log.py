@@ -30,7 +30,7 @@ from pathlib import Path
 
 import numpy as np
 
-from planner.errors import PlannerError
+from planner.errors import PlannerError, quoted
 from planner.scenario.units import ATMOSPHERE_PA, UnitError, to_si
 
 # quantity -> unit kind (planner.scenario.units)
@@ -47,9 +47,11 @@ QUANTITIES: dict[str, str] = {
 }
 REQUIRED = ("time", "flow")
 MEASURED = ("discharge_pressure", "suction_pressure", "pump_inlet_temperature", "outlet_temperature")
-# limits a logged value must respect to be read [SI]
+# limits a logged value must respect to be read [SI]; a running flow is at least the scenario's smallest
+# operation.flow (MIN_RUNNING_FLOW): below it (1e-320 m³/s) the line's Reynolds number has no value
+MIN_RUNNING_FLOW = 1.0e-6
 LIMITS: dict[str, tuple[float, float, str]] = {
-    "flow": (0.0, 2.0, "flow must lie between 0 (pump stopped) and 2 m³/s"),
+    "flow": (0.0, 2.0, "flow must be 0 (pump stopped) or between 0.0036 m³/h (1e-6 m³/s) and 2 m³/s"),
     "discharge_pressure": (-1.0e5, 5.0e7, "gauge pressure must lie between -1 bar and 500 bar"),
     "suction_pressure": (-1.0e5, 5.0e7, "gauge pressure must lie between -1 bar and 500 bar"),
     "pump_inlet_temperature": (173.15, 773.15, "temperature must lie between -100 °C and 500 °C"),
@@ -61,6 +63,7 @@ LIMITS: dict[str, tuple[float, float, str]] = {
 MIN_ROWS = 5
 MAX_ROWS = 5000
 MAX_BYTES = 20_000_000
+MAX_COLUMN_MAP_BYTES = 100_000
 _HEADER = re.compile(r"^\s*([A-Za-z][A-Za-z0-9_ ]*?)\s*(?:\[(.*)\])?\s*$")
 _TIMESTAMP_UNITS = {"", "iso", "iso8601", "iso 8601", "timestamp"}
 
@@ -127,12 +130,21 @@ def read_column_map(path: str | Path) -> dict[str, str]:
     """``[columns]`` of a TOML file: historian header -> ``quantity [unit]``."""
     path = Path(path)
     try:
-        data = tomllib.loads(path.read_text(encoding="utf-8"))
+        with path.open("rb") as handle:
+            raw = handle.read(MAX_COLUMN_MAP_BYTES + 1)
+        if len(raw) > MAX_COLUMN_MAP_BYTES:
+            raise LogError(f"--columns: {quoted(str(path))} is larger than {MAX_COLUMN_MAP_BYTES // 1000} kB; a column "
+                           "map is a short [columns] table")
+        data = tomllib.loads(raw.decode("utf-8-sig"))
     except OSError as exc:
-        raise LogError(f"--columns: cannot open {path}: {exc.strerror}") from None
+        raise LogError(f"--columns: cannot open {quoted(str(path))}: {exc.strerror}") from None
+    except UnicodeDecodeError:
+        raise LogError(f"--columns: {quoted(str(path))} is not UTF-8 text") from None
     except tomllib.TOMLDecodeError as exc:
-        raise LogError(f"--columns: cannot read {path} as TOML: {exc}") from None
-    return column_map_from_dict(data, str(path))
+        raise LogError(f"--columns: cannot read {quoted(str(path))} as TOML: {exc}") from None
+    except ValueError:         # an integer past Python's digit limit
+        raise LogError(f"--columns: cannot read {quoted(str(path))} as TOML: it holds a number too long to read") from None
+    return column_map_from_dict(data, "--columns")
 
 
 def column_map_from_dict(data: dict, where: str = "column map") -> dict[str, str]:
@@ -142,8 +154,8 @@ def column_map_from_dict(data: dict, where: str = "column map") -> dict[str, str
     out = {}
     for header, target in table.items():
         if not isinstance(target, str):
-            raise LogError(f"{where}: columns.{header!r} must be a string like \"flow [m3/h]\"")
-        _parse_header(target, f"{where}: columns.{header!r}", strict=True)
+            raise LogError(f"{where}: columns.{quoted(header, 40)} must be a string like \"flow [m3/h]\"")
+        _parse_header(target, f"{where}: columns.{quoted(header, 40)}", strict=True)
         out[str(header).strip()] = target
     return out
 
@@ -154,12 +166,12 @@ def _parse_header(text: str, where: str, strict: bool = False) -> tuple[str, str
     match = _HEADER.match(text or "")
     if not match:
         if strict:
-            raise LogError(f"{where}: {text!r} does not read 'quantity [unit]', e.g. 'flow [m3/h]'")
+            raise LogError(f"{where}: {quoted(text)} does not read 'quantity [unit]', e.g. 'flow [m3/h]'")
         return None
     quantity = match.group(1).strip().lower().replace(" ", "_")
     if quantity not in QUANTITIES:
         if strict:
-            raise LogError(f"{where}: unknown quantity {quantity!r}; quantities are {', '.join(QUANTITIES)}")
+            raise LogError(f"{where}: unknown quantity {quoted(quantity, 40)}; quantities are {', '.join(QUANTITIES)}")
         return None
     return quantity, (match.group(2) or "").strip()
 
@@ -170,7 +182,7 @@ def _unit_map(quantity: str, unit: str, header: str) -> Column:
     if quantity == "time" and unit.lower() in _TIMESTAMP_UNITS:
         return Column(quantity, header, unit, timestamps=True)
     if not unit:
-        raise LogError(f"column {header!r}: give the unit in brackets, e.g. '{quantity} [{_example_unit(kind)}]'")
+        raise LogError(f"column {quoted(header, 40)}: give the unit in brackets, e.g. '{quantity} [{_example_unit(kind)}]'")
     shift = 0.0
     text = unit
     if kind == "pressure":
@@ -181,8 +193,8 @@ def _unit_map(quantity: str, unit: str, header: str) -> Column:
                 text, shift = {"kpa": "kPa", "mpa": "MPa", "pa": "Pa"}.get(base, base), atmosphere
                 break
     try:
-        zero = to_si(f"0 {text}", kind, f"column {header!r}")
-        one = to_si(f"1 {text}", kind, f"column {header!r}")
+        zero = to_si(f"0 {text}", kind, f"column {quoted(header, 40)}")
+        one = to_si(f"1 {text}", kind, f"column {quoted(header, 40)}")
     except UnitError as exc:
         raise LogError(str(exc)) from None
     return Column(quantity, header, unit, scale=one - zero, offset=zero + shift)
@@ -200,19 +212,19 @@ def _columns(header: list[str], column_map: dict[str, str] | None) -> tuple[dict
     seen: dict[str, str] = {}
     for index, cell in enumerate(header):
         cell = cell.strip()
-        parsed = _parse_header(mapped.get(cell, cell), f"column {cell!r}")
+        parsed = _parse_header(mapped.get(cell, cell), f"column {quoted(cell, 40)}")
         if parsed is None:
             if cell:
                 ignored.append(cell)
             continue
         quantity, unit = parsed
         if quantity in seen:
-            raise LogError(f"columns {seen[quantity]!r} and {cell!r} both give {quantity}; keep one")
+            raise LogError(f"columns {quoted(seen[quantity], 40)} and {quoted(cell, 40)} both give {quantity}; keep one")
         seen[quantity] = cell
         found[index] = _unit_map(quantity, unit, cell)
     missing = [q for q in REQUIRED if q not in seen]
     if missing:
-        hint = f" (columns not understood: {', '.join(repr(h) for h in ignored[:8])}; map them with --columns)" if ignored else ""
+        hint = f" (columns not understood: {', '.join(quoted(h, 40) for h in ignored[:8])}; map them with --columns)" if ignored else ""
         raise LogError(f"the log has no {' or '.join(missing)} column; header cells read 'quantity [unit]', "
                        f"e.g. 'time [min]', 'flow [m3/h]'{hint}")
     if not any(q in seen for q in MEASURED):
@@ -221,6 +233,18 @@ def _columns(header: list[str], column_map: dict[str, str] | None) -> tuple[dict
 
 
 def _decode(data: bytes) -> str:
+    """The log's text: UTF-16 when it starts with a UTF-16 byte-order mark (spreadsheets' "Unicode text"),
+    else UTF-8 (a byte-order mark dropped), else Windows-1252; binary data is refused."""
+    if data[:2] in (b"\xff\xfe", b"\xfe\xff"):
+        try:
+            return data.decode("utf-16")
+        except UnicodeDecodeError:
+            raise LogError("the log starts with a UTF-16 byte-order mark but is not UTF-16 text; export it as "
+                           "CSV (UTF-8)") from None
+    nul = data.find(b"\x00")
+    if nul >= 0:
+        raise LogError(f"the log is not a text CSV file (a NUL byte at byte {nul + 1:,}: binary data); export the "
+                       "log as CSV text")
     for encoding in ("utf-8-sig", "cp1252"):
         try:
             return data.decode(encoding)
@@ -259,15 +283,15 @@ def _read_row(cells: list[str], columns: dict[int, Column], decimal_comma: bool 
             try:
                 stamp = datetime.fromisoformat(cell)
             except ValueError:
-                raise ValueError(f"time {cell!r} is not an ISO 8601 timestamp") from None
+                raise ValueError(f"time {quoted(cell, 40)} is not an ISO 8601 timestamp") from None
             continue
         try:
             value = col.offset + col.scale * _number(cell, decimal_comma)
         except ValueError:
-            raise ValueError(f"{q} {cell!r} is not a number") from None
+            raise ValueError(f"{q} {quoted(cell, 40)} is not a number") from None
         low, high, text = LIMITS.get(q, (-math.inf, math.inf, ""))
-        if value > high or value < low:
-            raise ValueError(f"{q} {cell} {col.unit}: {text}")
+        if value > high or value < low or (q == "flow" and 0.0 < value < MIN_RUNNING_FLOW):
+            raise ValueError(f"{q} {cell if len(cell) <= 30 else quoted(cell, 30)} {col.unit}: {text}")
         row[q] = value
     return row, stamp
 
@@ -322,14 +346,26 @@ def _increasing(times, rows, lines, problems):
 
 
 def read_log(data: bytes | str, name: str = "log.csv", column_map: dict[str, str] | None = None) -> TransferLog:
-    """Read a logged transfer from the bytes (or text) of a CSV file; see the module docstring."""
+    """Read a logged transfer from the bytes (or text) of a CSV file; see the module docstring.  Every
+    refusal is a LogError starting ``log: `` (or ``--columns: ``)."""
+    try:
+        return _read_log(data, name, column_map)
+    except csv.Error as exc:     # e.g. a field past the csv module's limit: a file that is not a log
+        raise LogError(f"log: {quoted(name, 40)} cannot be read as CSV ({exc}); export the log as CSV text") from None
+    except LogError as exc:
+        if str(exc).startswith(("log", "--columns", "column map")):
+            raise
+        raise LogError(f"log: {exc}") from None
+
+
+def _read_log(data: bytes | str, name: str, column_map: dict[str, str] | None) -> TransferLog:
     raw = data.encode("utf-8") if isinstance(data, str) else bytes(data)
     if len(raw) > MAX_BYTES:
         raise LogError(f"the log is {len(raw) / 1e6:.0f} MB; the limit is {MAX_BYTES / 1e6:.0f} MB")
     text = _decode(raw)
     body = [ln for ln in text.splitlines() if ln.strip() and not ln.lstrip().startswith("#")]
     if not body:
-        raise LogError(f"{name}: the log is empty")
+        raise LogError(f"{quoted(name, 40)}: the log is empty")
     delimiter = _delimiter(body[0])
     reader = csv.reader(io.StringIO(text), delimiter=delimiter)
     header = None
@@ -341,17 +377,17 @@ def read_log(data: bytes | str, name: str = "log.csv", column_map: dict[str, str
     rows, lines, stamps, problems = _parse_rows(reader, columns, len(header), decimal_comma=delimiter != ",")
     total = len(rows) + len(problems)
     if not rows:
-        raise LogError(f"{name}: none of its {total} data rows could be read; first reasons: "
+        raise LogError(f"{quoted(name, 40)}: none of its {total} data rows could be read; first reasons: "
                        + "; ".join(f"line {ln}: {why}" for ln, why in problems[:3]))
     timestamps = columns[[i for i, c in columns.items() if c.quantity == "time"][0]].timestamps
     times, start = _times(rows, stamps, timestamps)
     keep = _increasing(times, rows, lines, problems)
     running = sum(1 for i in keep if rows[i]["flow"] > 0.0)
     if running < MIN_ROWS:
-        raise LogError(f"{name}: only {running} of {total} data rows could be read with the product moving "
+        raise LogError(f"{quoted(name, 40)}: only {running} of {total} data rows could be read with the product moving "
                        f"(at least {MIN_ROWS} needed)")
     if len(keep) > MAX_ROWS:
-        raise LogError(f"{name}: {len(keep)} readable rows; the fit takes at most {MAX_ROWS}: resample the log")
+        raise LogError(f"{quoted(name, 40)}: {len(keep)} readable rows; the fit takes at most {MAX_ROWS}: resample the log")
     t0 = times[keep[0]]
     values = {"time": np.array([times[i] - t0 for i in keep])}
     for col in columns.values():
@@ -365,10 +401,15 @@ def read_log(data: bytes | str, name: str = "log.csv", column_map: dict[str, str
 
 
 def read_log_file(path: str | Path, columns: str | Path | None = None) -> TransferLog:
+    """Read a log file; at most MAX_BYTES are read (``/dev/zero`` or a huge file is refused, not loaded)."""
     path = Path(path)
     try:
-        data = path.read_bytes()
+        with path.open("rb") as handle:
+            data = handle.read(MAX_BYTES + 1)
     except OSError as exc:
-        raise LogError(f"cannot open the log {path}: {exc.strerror}") from None
+        raise LogError(f"log: cannot open the log {quoted(str(path))}: {exc.strerror}") from None
+    if len(data) > MAX_BYTES:
+        raise LogError(f"log: {quoted(path.name, 40)} is larger than {MAX_BYTES / 1e6:.0f} MB, the limit for a log; "
+                       "resample it (e.g. one row a minute)")
     column_map = read_column_map(columns) if columns is not None else None
     return read_log(data, path.name, column_map)

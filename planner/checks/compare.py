@@ -45,6 +45,8 @@ class Comparison:
     runner_up: int | None
     reason: str
     sensitivity: dict = field(default_factory=dict)
+    tied: list[int] = field(default_factory=list)      # rows with no clear difference in cost (TIE_BAND)
+    end_of_range: str | None = None                     # the note when the recommendation is at an end
 
 
 MAX_RANGE_TEXT = 2000   # characters of a values text
@@ -166,29 +168,105 @@ def _run_rows(scenario: Scenario, lever: str, values: list[float], viscosity_fac
     return rows
 
 
+# Rows whose total cost is within TIE_BAND of the lowest show no clear difference.  Why 1 %: the plans
+# themselves are held to 0.2 % (times, energies and costs against an eight-times finer grid,
+# tests/test_plan_grid.py), and the inputs a cost is made of are known far less well (viscosity to tens of
+# per cent, the sensitivity's default 20 %; demurrage and energy prices); a difference five times the
+# figures' own numerical precision and far inside their input uncertainty is no reason to run hotter,
+# harder or faster.  Among tied rows the gentlest setting is recommended: for every lever that is the
+# lowest value (lower setpoint or steam pressure: less heat, cooler jackets, further from the product's
+# maximum; lower pump speed or flow limit: lower pressures and velocities).
+TIE_BAND = 0.01
+TIE_FLOOR = 0.005         # [currency] costs are shown to 0.01: a band never narrower than their rounding
+
+
+def tie_band(lowest_cost: float) -> float:
+    """The width [currency] within which a row's total cost is no clear difference from ``lowest_cost``."""
+    return max(TIE_BAND * abs(lowest_cost), TIE_FLOOR)
+
+
 def recommend(rows: list[dict], quantity: str) -> tuple[int | None, int | None, str]:
-    """The row with the lowest total cost among those with no stop-level finding, the runner-up and
-    the reason (a Sentence: values render in either unit system)."""
+    """The row with the lowest total cost among those with no stop-level finding (the gentlest, i.e. lowest
+    value, of the rows within ``tie_band`` of it), the runner-up and the reason (a Sentence: values render
+    in either unit system)."""
     allowed = [i for i, r in enumerate(rows) if r.get("ok") and not r["has_stop"] and math.isfinite(r["total_cost"])]
     if not allowed:
         codes = sorted({c for r in rows for c in r.get("stop_codes", [])} | {"ERROR" for r in rows if not r.get("ok")})
         return None, None, ("no value can be recommended: every row has a stop-level finding "
                             f"({', '.join(codes) or 'plan cannot be completed'})")
     ranked = sorted(allowed, key=lambda i: (rows[i]["total_cost"], rows[i]["total_time_s"] or math.inf))
-    best = ranked[0]
-    runner = ranked[1] if len(ranked) > 1 else None
+    tied = tied_rows(rows, allowed)
+    best = min(tied, key=lambda i: rows[i]["value"])
+    others = [i for i in ranked if i != best]
+    runner = others[0] if others else None
     r = rows[best]
     excluded = len(rows) - len(allowed)
-    reason = Sentence("{v}: lowest total cost {cost} {cur} (energy {energy} + demurrage {dem}, {t}) among {n} of "
-                      "{total} values with no stop-level finding{excluded}{runner}",
-                      v=Q(r["value"], quantity, _lever_decimals(quantity)), cost=f"{r['total_cost']:.2f}",
-                      cur=r["currency"], energy=f"{r['energy_cost']:.2f}", dem=f"{r['demurrage']:.2f}",
+    decimals = _lever_decimals(quantity)
+    choice = Sentence("{v}: lowest total cost {cost} {cur}", v=Q(r["value"], quantity, decimals),
+                      cost=f"{r['total_cost']:.2f}", cur=r["currency"])
+    if len(tied) > 1:
+        cheapest = rows[ranked[0]]
+        choice = Sentence("{v}: no clear difference in total cost among {k} values ({low} to {high} {cur}, within "
+                          "{band} % of the lowest): the gentlest, {v}, is recommended at {cost} {cur}",
+                          v=Q(r["value"], quantity, decimals), k=len(tied), low=f"{cheapest['total_cost']:.2f}",
+                          high=f"{max(rows[i]['total_cost'] for i in tied):.2f}", cur=r["currency"],
+                          band=f"{TIE_BAND * 100:g}", cost=f"{r['total_cost']:.2f}")
+    reason = Sentence("{choice} (energy {energy} + demurrage {dem}, {t}) among {n} of "
+                      "{total} values with no stop-level finding{excluded}{runner}", choice=choice,
+                      energy=f"{r['energy_cost']:.2f}", dem=f"{r['demurrage']:.2f}",
                       t=Q(r["total_time_s"], "time"), n=len(allowed), total=len(rows),
                       excluded=f"; {excluded} value(s) excluded for stop-level findings" if excluded else "",
                       runner="" if runner is None else Sentence(
-                          "; runner-up {v} at {cost} {cur}", v=Q(rows[runner]["value"], quantity, _lever_decimals(quantity)),
+                          "; runner-up {v} at {cost} {cur}", v=Q(rows[runner]["value"], quantity, decimals),
                           cost=f"{rows[runner]['total_cost']:.2f}", cur=rows[runner]["currency"]))
     return best, runner, reason
+
+
+def tied_rows(rows: list[dict], allowed: list[int] | None = None) -> list[int]:
+    """Indices of the allowed rows whose total cost is within ``tie_band`` of the lowest (in value order)."""
+    if allowed is None:
+        allowed = [i for i, r in enumerate(rows) if r.get("ok") and not r["has_stop"] and math.isfinite(r["total_cost"])]
+    if not allowed:
+        return []
+    lowest = min(rows[i]["total_cost"] for i in allowed)
+    return sorted((i for i in allowed if rows[i]["total_cost"] - lowest <= tie_band(lowest)), key=lambda i: rows[i]["value"])
+
+
+def end_of_range_note(values: list[float], best: int | None, quantity: str, tied: bool = False,
+                      extendable=lambda value: True) -> Sentence | None:
+    """A note when the recommended value is the lowest or highest of the values given: the best may lie
+    beyond the range, so the user should extend it.  None inside the range, for a single value, or when
+    ``extendable(value one step beyond)`` says the lever's field takes nothing beyond."""
+    if best is None or len(values) < 2:
+        return None
+    ordered = sorted(values)
+    value = values[best]
+    if value == ordered[-1]:
+        end, way, beyond = "highest", "above", 2 * ordered[-1] - ordered[-2]
+    elif value == ordered[0]:
+        end, way, beyond = "lowest", "below", 2 * ordered[0] - ordered[1]
+    else:
+        return None
+    if not extendable(beyond):
+        return None
+    better = "do as well" if tied else "be better still"
+    return Sentence("{v} is at the end of the range you gave (its {end} value): a value {way} it may {better}; extend "
+                    "the range {way} {v} to see", v=Q(value, quantity, _lever_decimals(quantity)), end=end, way=way,
+                    better=better)
+
+
+def _extendable(scenario: Scenario, lever: str):
+    """Whether the lever's field takes a value (SI) at all: the range can be extended to it."""
+    from planner.checks.lever_values import check_values
+
+    def takes(value: float) -> bool:
+        try:
+            check_values(scenario, lever, [value])
+        except PlannerError:
+            return False
+        return True
+
+    return takes
 
 
 def _lever_decimals(quantity: str) -> int:
@@ -212,7 +290,7 @@ def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | N
         from planner.scenario.budget import active_budget
 
         raise ValueError(f"values: give at least one value to compare (at most {active_budget().comparison_values})")
-    _check_work(scenario, values, sensitivity, ambient_shift, viscosity_uncertainty)
+    _check_work(scenario, lever, values, sensitivity, ambient_shift, viscosity_uncertainty)
     quantity = LEVERS[lever][1]
     cases = [(1.0, 0.0, "as given")]
     if sensitivity:
@@ -233,7 +311,11 @@ def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | N
         offset[0] += len(values)
         results[label] = (rows, *recommend(rows, quantity))
     rows, best, runner, reason = results["as given"]
-    comparison = Comparison(lever, quantity, list(values), rows, best, runner, reason)
+    tied = tied_rows(rows) if best is not None else []
+    tied = tied if len(tied) > 1 else []
+    comparison = Comparison(lever, quantity, list(values), rows, best, runner, reason, tied=tied,
+                            end_of_range=end_of_range_note(list(values), best, quantity, bool(tied),
+                                                           _extendable(scenario, lever)))
     for label, (r, b, _, why) in results.items():
         if label != "as given":
             comparison.sensitivity[label] = {"recommended_value": None if b is None else r[b]["value"], "reason": why,
@@ -241,8 +323,11 @@ def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | N
     return comparison
 
 
-def _check_work(scenario: Scenario, values, sensitivity: bool, ambient_shift: float, viscosity_uncertainty: float) -> None:
-    """Refuse before computing: non-finite values, bad sensitivity options, or work past the budget."""
+def _check_work(scenario: Scenario, lever: str, values, sensitivity: bool, ambient_shift: float,
+                viscosity_uncertainty: float) -> None:
+    """Refuse before computing: values the lever's field refuses or given twice, bad sensitivity options, or
+    work past the budget."""
+    from planner.checks.lever_values import check_values
     from planner.scenario.budget import BudgetError, comparison_problems, sensitivity_problems
 
     if not all(isinstance(v, (int, float)) and math.isfinite(v) for v in values):
@@ -251,6 +336,7 @@ def _check_work(scenario: Scenario, values, sensitivity: bool, ambient_shift: fl
     problems += comparison_problems(scenario, len(values), 5 if sensitivity else 1)
     if problems:
         raise BudgetError(problems)
+    check_values(scenario, lever, values)      # each value as its field takes it, none twice
 
 
 def comparison_json(comparison: Comparison) -> dict:
@@ -260,7 +346,10 @@ def comparison_json(comparison: Comparison) -> dict:
         "values": comparison.values, "rows": comparison.rows,
         "recommended_index": comparison.recommended, "recommended_value":
             None if comparison.recommended is None else comparison.rows[comparison.recommended]["value"],
-        "runner_up_index": comparison.runner_up, "reason": comparison.reason, "sensitivity": comparison.sensitivity,
+        "runner_up_index": comparison.runner_up, "reason": comparison.reason,
+        "no_clear_difference": bool(comparison.tied), "tied_indices": comparison.tied,
+        "tie_band": {"relative": TIE_BAND, "at_least": TIE_FLOOR}, "end_of_range": comparison.end_of_range,
+        "sensitivity": comparison.sensitivity,
     })
 
 
@@ -295,6 +384,8 @@ def comparison_table(comparison: Comparison, system: str = "SI") -> str:
             lines.append(f"             {f['severity']:7s} {f['code']}: {render(f['message'], system)}")
     lines.append("")
     lines.append(f"  recommendation: {render(c.reason, system)}")
+    if c.end_of_range:
+        lines.append(f"  note: {render(c.end_of_range, system)}")
     for label, s in c.sensitivity.items():
         value = "none" if s["recommended_value"] is None else format_quantity(s["recommended_value"], c.quantity, system,
                                                                                _lever_decimals(c.quantity))

@@ -6,7 +6,7 @@ import json
 import sys
 from pathlib import Path
 
-from planner.errors import PlannerError
+from planner.errors import PlannerError, quoted
 from planner.cli.line_commands import UNIT_CHOICES
 
 
@@ -19,9 +19,13 @@ def _write(args, result) -> str:
     from planner.scenario.schema import save_scenario
 
     out = Path(args.write)
-    if out.exists() and not args.overwrite:
-        raise WriteRefused(f"--write: {out} exists; choose another name or add --overwrite")
-    if out.resolve() == Path(args.scenario).resolve():
+    try:
+        exists, same = out.exists(), out.resolve() == Path(args.scenario).resolve()
+    except (OSError, RuntimeError) as exc:     # a name too long, a loop of links
+        raise WriteRefused(f"--write: cannot use {quoted(args.write)}: {getattr(exc, 'strerror', None) or exc}") from None
+    if exists and not args.overwrite:
+        raise WriteRefused(f"--write: {quoted(str(out))} exists; choose another name or add --overwrite")
+    if same:
         raise WriteRefused("--write: give a new file name; the scenario the fit was made on is kept as it is")
     blocking = [f.name for f in result.factors.values() if f.at_bound]
     if (result.mismatch or blocking) and not args.force:
@@ -29,7 +33,11 @@ def _write(args, result) -> str:
                            "add --force to write the factors anyway")
     if not any(f.identifiable for f in result.factors.values()):
         raise WriteRefused("--write: not written: none of the fitted factors is identifiable from this log")
-    save_scenario(calibrated_scenario(result), out)
+    try:
+        save_scenario(calibrated_scenario(result), out)
+    except OSError as exc:     # a full disk, a folder that is not there or not writable
+        raise WriteRefused(f"--write: cannot write {quoted(str(out))}: {exc.strerror or exc}; nothing was written "
+                           "(an existing file is left as it was)") from None
     return str(out)
 
 

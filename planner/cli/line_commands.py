@@ -14,11 +14,10 @@ from planner.scenario.budget import MARCH_STEP_M, BudgetError
 
 FAIL_EXIT = 3
 UNIT_CHOICES = {"si": "SI", "us": "US"}
-# the lever options of `compare`: (option, lever, unit of the numbers in SI / US)
-LEVER_OPTIONS = [("setpoints", "setpoint", {"SI": "degC", "US": "degF"}),
-                 ("steam_pressures", "steam_pressure", {"SI": "bar", "US": "psi"}),
-                 ("pump_speeds", "pump_speed", {"SI": "rpm", "US": "rpm"}),
-                 ("flow_limits", "flow_limit", {"SI": "m3/h", "US": "gpm"})]
+# the lever options of `compare`: (option, lever); their numbers are in the display unit of --units
+# (planner.scenario.units.UNIT_SYSTEMS: °C, bar, rpm, m³/h or °F, psi, rpm, gpm)
+LEVER_OPTIONS = [("setpoints", "setpoint"), ("steam_pressures", "steam_pressure"), ("pump_speeds", "pump_speed"),
+                 ("flow_limits", "flow_limit")]
 
 
 def _exit_code(findings: list, fail_on: str | None) -> int:
@@ -76,27 +75,25 @@ def _plan(args) -> int:
     return _exit_code(findings, args.fail_on)
 
 
-def _lever_values(args, system: str):
+def _lever_values(args, scenario, system: str):
     from planner.checks.compare import parse_range
-    from planner.scenario.units import to_si
+    from planner.checks.lever_values import typed_values
 
-    given = [(option, lever, units) for option, lever, units in LEVER_OPTIONS if getattr(args, option)]
+    given = [(option, lever) for option, lever in LEVER_OPTIONS if getattr(args, option)]
     if len(given) != 1:
         from planner.scenario.budget import active_budget
 
-        named = ", ".join("--" + option.replace("_", "-") for option, _, _ in given) or "none"
+        named = ", ".join("--" + option.replace("_", "-") for option, _ in given) or "none"
         raise ValueError(f"give exactly one of --setpoints, --steam-pressures, --pump-speeds or --flow-limits (given: "
                          f"{named}), as a list (--setpoints 40,50,60) or a range START:STOP:STEP (--setpoints 40:70:5), "
                          f"at most {active_budget().comparison_values} values")
-    option, lever, units = given[0]
-    kind = {"setpoint": "temperature", "steam_pressure": "pressure", "pump_speed": "rotational_speed",
-            "flow_limit": "volume_flow"}[lever]
+    option, lever = given[0]
     flag = "--" + option.replace("_", "-")
     try:
         numbers = parse_range(getattr(args, option))
     except ValueError as exc:
         raise ValueError(f"{flag}: {exc}") from None
-    return lever, [to_si(f"{v!r} {units[system]}", kind, flag) for v in numbers], flag
+    return lever, typed_values(scenario, lever, numbers, system, flag), flag
 
 
 def _compare(args) -> int:
@@ -106,7 +103,7 @@ def _compare(args) -> int:
 
     system = UNIT_CHOICES[args.units]
     scenario = load_scenario(args.scenario)
-    lever, values, option = _lever_values(args, system)
+    lever, values, option = _lever_values(args, scenario, system)
 
     def progress(done, total):
         if not args.json and sys.stderr.isatty():

@@ -150,6 +150,8 @@ def walther_z_to_cst(z: float) -> float:
     the round trip is exact to rounding.
     """
     w = z - 0.7
+    if w >= 1.0e3:  # the correction is exp(-3e8) = 0; w**3 would overflow past about 5e102
+        return w
     if w >= 6.0:  # D341's correction terms are below 1e-14 relative here
         return w - math.exp(-0.7487 - 3.295 * w + 0.6119 * w * w - 0.3193 * w * w * w)
     nu = w - math.exp(-0.7487 - 3.295 * w + 0.6119 * w * w - 0.3193 * w * w * w)

@@ -24,7 +24,7 @@ from urllib.parse import urlencode
 from planner.errors import ScenarioError
 from planner.scenario.budget import BudgetError
 from planner.scenario.quantities import exact_dump
-from planner.scenario.schema import Scenario, scenario_from_dict
+from planner.scenario.schema import Scenario, read_scenario_data, scenario_from_dict
 
 LINK_VERSION = 1
 MAX_PAYLOAD_CHARS = 12_000          # longer packed text is refused before decoding
@@ -124,6 +124,8 @@ def unpack_scenario(payload: object) -> Scenario:
             if inflater.unconsumed_tail:
                 raise LinkError(f"the link's scenario is too large once unpacked (over {MAX_JSON_BYTES // 1024} kB)")
             raise LinkError("the link's scenario data is damaged (truncated)")
+        if inflater.unused_data:
+            raise LinkError(f"the link's scenario data is damaged ({len(inflater.unused_data):,} bytes after its end)")
     except zlib.error:
         raise LinkError("the link's scenario data is damaged (cannot be unpacked)") from None
     if not re.fullmatch(r"[0-9a-fA-F]{1,8}", check):
@@ -132,8 +134,8 @@ def unpack_scenario(payload: object) -> Scenario:
     if zlib.crc32(text) != expected:
         raise LinkError("the link's scenario data does not match its check value: it was altered or cut")
     try:
-        data = json.loads(text.decode("utf-8"))
-    except (UnicodeDecodeError, json.JSONDecodeError, RecursionError):
+        data = read_scenario_data(text.decode("utf-8"), "json")
+    except (UnicodeDecodeError, ScenarioError, RecursionError):
         raise LinkError("the link's scenario data is damaged (not JSON)") from None
     if not isinstance(data, dict):
         raise LinkError("the link's scenario data is not a scenario")

@@ -8,6 +8,7 @@ import re
 
 from pydantic import ValidationError
 
+from planner.errors import quoted
 from planner.scenario.schema import Scenario, problems_from
 from planner.scenario.units import UnitError
 
@@ -19,7 +20,7 @@ def option_quantity(scenario: Scenario, text: str, option: str, section: str, na
     """The SI value of ``text`` for the field ``section.name``; UnitError naming ``option`` otherwise."""
     if _BARE_NUMBER.match(text):
         example = EXAMPLES.get(name, "a number with its unit")
-        raise UnitError(f"{option}: {text.strip()!r} has no unit; give the unit too, e.g. {example}")
+        raise UnitError(f"{option}: {quoted(text.strip())} has no unit; give the unit too, e.g. {example}")
     copy = getattr(scenario, section).model_copy()
     try:
         setattr(copy, name, text)

@@ -8,8 +8,10 @@ temperatures in degC and insulation thickness in mm) or strings with units ("4 i
 
 from __future__ import annotations
 
+import contextlib
 import json
 import math
+import re
 import tomllib
 from pathlib import Path
 from typing import Literal, Optional
@@ -19,8 +21,9 @@ from pydantic import BaseModel, ConfigDict, Field, ValidationError, field_valida
 
 from planner.errors import ScenarioError
 from planner.correlations.materials import INSULATION_MATERIALS
-from planner.correlations.viscosity import fit_viscosity_law
+from planner.correlations.viscosity import AndradeLaw, WaltherLaw, fit_viscosity_law, walther_cst_to_z
 from planner.scenario.quantities import Quantity, readable_dump
+from planner.scenario.units import LongInteger
 
 SCHEMA_VERSION = 1
 
@@ -57,7 +60,8 @@ KinematicViscosity = Quantity("kinematic_viscosity", gt=0.0, le=1.0e4, descripti
 YieldStress = Quantity("yield_stress", ge=0.0, le=1.0e5, description="yield stress")
 # Air or soil around a line: -90 to +70 degC spans the recorded extremes at the Earth's surface
 # ([mem] unverified: about -89 and +57 degC); the air and viscosity models are not used beyond it.
-Ambient = Quantity("temperature", ge=183.15, le=343.15, description="ambient temperature")
+COLDEST_K = 183.15     # the lowest ambient temperature a scenario may give: a wall can be that cold
+Ambient = Quantity("temperature", ge=COLDEST_K, le=343.15, description="ambient temperature")
 VapourPressure = Quantity("pressure", ge=0.0, le=1.0e7, description="vapour pressure (absolute)")
 
 
@@ -124,6 +128,13 @@ class ViscositySpec(_Model):
         return self
 
 
+def _point_value(point: LabPoint, density: float, kinematic: bool) -> float:
+    """A lab point's viscosity as the law takes it: kinematic [m2/s] for walther, dynamic [Pa s] otherwise."""
+    if kinematic:
+        return point.kinematic_viscosity if point.kinematic_viscosity is not None else point.viscosity / density
+    return point.viscosity if point.viscosity is not None else point.kinematic_viscosity * density
+
+
 class ProductSpec(_Model):
     """A liquid product. ``preset`` names an entry of ``planner.scenario.presets.PRODUCT_PRESETS``;
     fields given beside it override the preset's."""
@@ -174,7 +185,37 @@ class ProductSpec(_Model):
             raise ValueError("the walther law is for kinematic viscosity of Newtonian oils; use andrade or vft for the consistency")
         if self.viscosity.law == "vft":
             self._vft_domain()
+        else:
+            self._law_has_values()
         return self
+
+    def _law_has_values(self) -> None:
+        """An Andrade or Walther law must give a finite viscosity from the coldest temperature a scenario
+        allows anywhere (``COLDEST_K``: a wall at the coldest ambient) to the product's maximum; a Walther
+        fit needs every lab point inside the ASTM D341 range (Z > 1, about 0.11 cSt and up)."""
+        v = self.viscosity
+        if v.coefficients is not None:
+            law = {"andrade": AndradeLaw, "walther": WaltherLaw}[v.law](v.coefficients["a"], v.coefficients["b"])
+            given = f"the {v.law} law with a = {v.coefficients['a']:.6g}, b = {v.coefficients['b']:.6g}"
+        else:
+            kinematic = v.law == "walther"
+            values = [_point_value(p, self.density_at(p.temperature), kinematic) for p in v.points]
+            for i, value in enumerate(values):
+                if kinematic and not walther_cst_to_z(value * 1e6) > 1.0:
+                    raise ValueError(f"viscosity.points[{i}]: lab point {i + 1} has a kinematic viscosity of "
+                                     f"{value * 1e6:.3g} cSt, below the ASTM D341 range of the walther law (Z > 1: "
+                                     "about 0.11 cSt and up); use the andrade law for so thin a liquid")
+            law = fit_viscosity_law(v.law, [p.temperature for p in v.points], values).law
+            given = f"the {v.law} law fitted to the lab points"
+        for t in (COLDEST_K, self.max_temperature):
+            try:
+                value = law.value(t)
+            except (ValueError, ArithmeticError):
+                value = math.nan
+            if not (math.isfinite(value) and value > 0.0):
+                raise ValueError(f"viscosity: {given} has no finite viscosity at {t - 273.15:.6g} °C (the planner "
+                                 f"needs one from {COLDEST_K - 273.15:g} °C, the coldest ambient, to the product's "
+                                 "max_temperature); check the coefficients or lab points and their units")
 
     def density_at(self, t: float) -> float:
         """Density [kg/m3] at ``t`` [K] (linear in temperature about the reference)."""
@@ -187,8 +228,7 @@ class ProductSpec(_Model):
         if v.coefficients is not None:
             b, c = v.coefficients["b"], v.coefficients["c"]
         else:
-            values = [p.viscosity if p.viscosity is not None else p.kinematic_viscosity * self.density_at(p.temperature)
-                      for p in v.points]
+            values = [_point_value(p, self.density_at(p.temperature), False) for p in v.points]
             law = fit_viscosity_law("vft", [p.temperature for p in v.points], values).law
             b, c = law.b, law.c
         if not b > 0.0:
@@ -657,13 +697,51 @@ def scenario_from_dict(data: dict) -> Scenario:
 MAX_SCENARIO_CHARS = 2_000_000   # a scenario file or text longer than this is refused unread
 
 
+LONG_INTEGER_DIGITS = 4000      # below Python's int-to-str limit (4,300 digits)
+_LONG_INTEGER_MARK = "\x00long integer:"
+_LONG_TOML_INTEGER = re.compile(r"(?<![\w.\"'])[+-]?[0-9][0-9_]{%d,}(?![\w.\"'])" % LONG_INTEGER_DIGITS)
+
+
+def json_integer(digits: str):
+    """``json.loads``'s ``parse_int``: a LongInteger past ``LONG_INTEGER_DIGITS`` digits (never Python's
+    int-to-str ValueError, which names no field)."""
+    return int(digits) if len(digits) <= LONG_INTEGER_DIGITS else LongInteger(len(digits.lstrip("+-")))
+
+
+def _toml_with_long_integers(text: str) -> object:
+    """TOML whose integers may be too long for Python: each such integer is read as a LongInteger,
+    so that the field it was given for is refused by name (tomllib has no integer hook)."""
+    marked = _LONG_TOML_INTEGER.sub(lambda m: json.dumps(f"{_LONG_INTEGER_MARK}{len(m.group(0).lstrip('+-'))}"), text)
+    return _unmark(tomllib.loads(marked))
+
+
+def _unmark(data):
+    if isinstance(data, dict):
+        return {k: _unmark(v) for k, v in data.items()}
+    if isinstance(data, list):
+        return [_unmark(v) for v in data]
+    if isinstance(data, str) and data.startswith(_LONG_INTEGER_MARK):
+        return LongInteger(int(data[len(_LONG_INTEGER_MARK):]))
+    return data
+
+
 def read_scenario_data(text: str, fmt: str) -> object:
-    """The plain data of a TOML or JSON text, or ScenarioError saying why it cannot be read."""
+    """The plain data of a TOML or JSON text, or ScenarioError saying why it cannot be read.  A leading
+    byte-order mark is dropped; an integer too long for Python is kept as a ``LongInteger`` (refused by
+    its field's validator, which names the field)."""
     if len(text) > MAX_SCENARIO_CHARS:
         raise ScenarioError([("", f"the {fmt.upper()} text is {len(text):,} characters, more than a scenario "
                                   f"needs (at most {MAX_SCENARIO_CHARS:,})")])
+    text = text.removeprefix("\ufeff")
     try:
-        return tomllib.loads(text) if fmt == "toml" else json.loads(text)
+        if fmt == "json":
+            return json.loads(text, parse_int=json_integer)
+        try:
+            return tomllib.loads(text)
+        except ValueError as exc:
+            if isinstance(exc, tomllib.TOMLDecodeError) or not _LONG_TOML_INTEGER.search(text):
+                raise
+            return _toml_with_long_integers(text)
     except (tomllib.TOMLDecodeError, json.JSONDecodeError) as exc:
         raise ScenarioError([("", f"cannot read the {fmt.upper()} file: {exc}")]) from None
     except RecursionError:
@@ -714,7 +792,31 @@ def save_scenario(scenario: Scenario, path: str | Path, system: str = "SI") -> N
         text = json.dumps(scenario_to_readable_dict(scenario, system), indent=2, ensure_ascii=False)
     else:
         text = scenario_to_toml(scenario, system)
-    path.write_text(text, encoding="utf-8")
+    _write_whole(path, text.encode("utf-8"))
+
+
+def _write_whole(path: Path, data: bytes) -> None:
+    """Write ``data`` to ``path`` whole or not at all: a temporary file beside it, then renamed over it, so a
+    full disk never leaves a file cut short (OSError is raised and the old file, if any, is unchanged)."""
+    import os
+    import tempfile
+
+    if path.exists() and not path.is_file():   # a device or pipe (/dev/stdout, /dev/full): written in place,
+        with path.open("wb") as out:           # never replaced by a file
+            out.write(data)
+        return
+    handle, temporary = tempfile.mkstemp(prefix=f".{path.name[:40]}.", suffix=".part", dir=path.parent)
+    try:
+        with os.fdopen(handle, "wb") as out:
+            out.write(data)
+            out.flush()
+            os.fsync(out.fileno())
+        os.chmod(temporary, path.stat().st_mode & 0o777 if path.exists() else 0o644)   # mkstemp makes it 0600
+        os.replace(temporary, path)
+    except BaseException:
+        with contextlib.suppress(OSError):
+            os.unlink(temporary)
+        raise
 
 
 def json_schema() -> dict:

@@ -15,6 +15,7 @@ from functools import lru_cache
 
 import pint
 
+from planner.errors import quoted
 from planner.correlations.constants import GRAVITY  # noqa: F401  (re-exported: one definition)
 
 ZERO_CELSIUS_K = 273.15
@@ -103,6 +104,19 @@ class UnitError(ValueError):
     """A value whose unit is unknown or of the wrong dimension."""
 
 
+class LongInteger:
+    """An integer in a scenario text too long for Python to read (more than ``sys.get_int_max_str_digits``
+    digits): kept as its length, so that the field it stands in is refused by name."""
+
+    __slots__ = ("digits",)
+
+    def __init__(self, digits: int):
+        self.digits = digits
+
+    def __repr__(self) -> str:
+        return f"an integer of {self.digits:,} digits"
+
+
 def _temperature_quantity(ureg, number: float, unit: str, kind: str, field: str, value: object):
     """A temperature as absolute, a temperature difference as a difference, whatever the unit says.
 
@@ -112,7 +126,7 @@ def _temperature_quantity(ureg, number: float, unit: str, kind: str, field: str,
     quantity = ureg.Quantity(number, unit)
     names = list(quantity.unit_items())
     if kind == "temperature" and any(name.startswith("delta_") for name, _ in names):
-        raise UnitError(f"{field}: {value!r} is a temperature difference; give a temperature such as "
+        raise UnitError(f"{field}: {quoted(value)} is a temperature difference; give a temperature such as "
                         "'55 degC', '131 degF' or '328.15 K'")
     if kind == "temperature_difference" and not quantity._is_multiplicative and len(names) == 1:  # noqa: SLF001
         quantity = ureg.Quantity(number, "delta_" + names[0][0])
@@ -166,8 +180,10 @@ def to_si(value: object, kind: str, field: str = "value") -> float:
     if kind not in SI_UNITS:
         raise KeyError(f"unknown quantity kind {kind!r}")
     ureg = registry()
+    if isinstance(value, LongInteger):
+        raise UnitError(f"{field}: {value!r} is past the range of numbers (about 1e308 at most)")
     if isinstance(value, bool):
-        raise UnitError(f"{field}: expected a number or a 'number unit' string, got {value!r}")
+        raise UnitError(f"{field}: expected a number or a 'number unit' string, got {quoted(value)}")
     if isinstance(value, (int, float)):
         try:
             number = float(value)
@@ -177,31 +193,33 @@ def to_si(value: object, kind: str, field: str = "value") -> float:
     elif isinstance(value, str):
         match = _NUMBER_UNIT.match(value)
         if not match:
-            raise UnitError(f"{field}: cannot read {value!r} as 'number unit' (e.g. '4 in', '55 degC')")
+            raise UnitError(f"{field}: cannot read {quoted(value)} as 'number unit' (e.g. '4 in', '55 degC')")
         number = float(match.group(1))
         if len(match.group(2)) > MAX_UNIT_CHARS:
-            raise UnitError(f"{field}: the unit of {value[:30]!r}... is {len(match.group(2)):,} characters long; "
+            raise UnitError(f"{field}: the unit of {quoted(value, 40)} is {len(match.group(2)):,} characters long; "
                             f"a unit has at most {MAX_UNIT_CHARS} (e.g. '4 in', '55 degC', 'kg/m3')")
+        if match.group(2).count("(") != match.group(2).count(")"):
+            raise UnitError(f"{field}: the unit of {quoted(value)} has unbalanced brackets; give a unit such as "
+                            "'m3/h', 'kg/(m*s)' or '55 degC'")
         unit = _normalise_unit(match.group(2)) or DEFAULT_UNITS[kind]
     else:
         raise UnitError(f"{field}: expected a number or a 'number unit' string, got {type(value).__name__}")
     if not math.isfinite(number):
-        raise UnitError(f"{field}: {value!r} is not a finite number")
+        raise UnitError(f"{field}: {quoted(value)} is not a finite number")
     try:
         result = _convert(ureg, number, unit, kind, field, value)
     except pint.errors.DimensionalityError:
         raise UnitError(
-            f"{field}: {value!r} has the wrong dimension; expected a {kind.replace('_', ' ')} "
+            f"{field}: {quoted(value)} has the wrong dimension; expected a {kind.replace('_', ' ')} "
             f"(e.g. in {DEFAULT_UNITS[kind].replace('**', '')})"
         ) from None
     except UnitError:
         raise
-    except (pint.errors.UndefinedUnitError, AttributeError, TypeError, ValueError, AssertionError,
-            RecursionError, ArithmeticError):
-        raise UnitError(f"{field}: unknown unit {unit!r} in {value!r}") from None
+    except Exception:  # noqa: BLE001  (pint's parser raises many kinds: TokenError, SyntaxError, KeyError ...)
+        raise UnitError(f"{field}: unknown unit {quoted(unit, 40)} in {quoted(value)}") from None
     result = float(result)
     if not math.isfinite(result):
-        raise UnitError(f"{field}: {value!r} is not a finite number")
+        raise UnitError(f"{field}: {quoted(value)} is not a finite number")
     return result
 
 
