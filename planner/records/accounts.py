@@ -9,7 +9,8 @@ not starve it; a hash made with other parameters is redone at the next sign-in).
 Failed sign-ins are throttled per account: after ``FREE_ATTEMPTS`` failures in a row each further
 failure locks the account for ``LOCK_BASE_S`` seconds, doubling up to ``LOCK_MAX_S``; while locked a
 sign-in is refused without looking at the password.  A name that does not exist gets the same answer
-as a wrong password, after the same hashing work.
+as a wrong password, after the same hashing work.  New passwords keep the password rule
+(``planner.records.passwords``: NIST SP 800-63B).
 
 A session (the dashboard's sign-in) is a random token whose SHA-256 is kept in ``sessions``; it ends
 after ``SESSION_S`` seconds, after ``IDLE_S`` seconds without use, on sign-out, or when the account is
@@ -36,6 +37,7 @@ from argon2.exceptions import InvalidHashError, VerificationError, VerifyMismatc
 from sqlalchemy import text
 
 from planner.records import chain
+from planner.records.passwords import PASSWORD_MAX, PASSWORD_MIN, check_password  # noqa: F401 (the rule's home)
 from planner.records.store import ROLES, PlanStore, StoreError, _now, check_text, verified_account
 
 FREE_ATTEMPTS = 5
@@ -43,7 +45,6 @@ LOCK_BASE_S = 15.0
 LOCK_MAX_S = 900.0
 SESSION_S = 12 * 3600.0
 IDLE_S = 3600.0
-PASSWORD_MIN, PASSWORD_MAX = 10, 256
 NAME_MAX = 60
 WRONG = "the account name or the password is not right"
 
@@ -85,18 +86,6 @@ def check_name(name) -> str:
     if not all(c.isalnum() or c in "._- @" for c in name):
         raise StoreError("account name: use letters, digits, spaces and . _ - @ only")
     return name
-
-
-def check_password(password) -> str:
-    if not isinstance(password, str) or not password:
-        raise StoreError("password: empty")
-    if "\x00" in password:
-        raise StoreError("password: contains a NUL character")
-    if len(password) < PASSWORD_MIN:
-        raise StoreError(f"password: {len(password)} characters, at least {PASSWORD_MIN}")
-    if len(password) > PASSWORD_MAX:
-        raise StoreError(f"password: longer than {PASSWORD_MAX} characters")
-    return password
 
 
 def _token_hash(token: str) -> str:
@@ -167,7 +156,7 @@ class AccountBook:
         name = check_name(name)
         if role not in ROLES:
             raise StoreError(f"role: {role!r} is not one of {', '.join(ROLES)}")
-        digest = _hasher.hash(check_password(password))
+        digest = _hasher.hash(check_password(password, name))
         with self.store.engine.begin() as conn:
             self.store.lock(conn)
             first = conn.exec_driver_sql("SELECT COUNT(*) FROM accounts").scalar_one() == 0
@@ -235,7 +224,7 @@ class AccountBook:
         """A new password: set by an admin or the command line, or by the account itself with its
         current password.  The account's sign-ins end."""
         name = check_text(name, "account name", NAME_MAX)
-        digest = _hasher.hash(check_password(password))
+        digest = _hasher.hash(check_password(password, name))
         with self.store.engine.begin() as conn:
             self.store.lock(conn)
             account_id, _, _ = self._target(conn, name)
