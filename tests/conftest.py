@@ -95,7 +95,8 @@ def make_people(store, names=("root", "ana", "ben", "sam", "sue")) -> dict:
     book = AccountBook(store)
     if book.count() == 0:
         book.add("root", "admin", PASSWORDS["root"])
+    root = book.get("root")
     for name in names:
         if name != "root":
-            book.add(name, ROLES_OF[name], PASSWORDS[name], database_operator=True)
+            book.add(name, ROLES_OF[name], PASSWORDS[name], by=root)
     return {name: book.get(name) for name in names}

@@ -708,7 +708,7 @@ def test_migration_from_version_3_records_every_account(db_url):
         with store.engine.connect() as conn:
             assert conn.exec_driver_sql("SELECT action FROM account_events ORDER BY id DESC").first()[0] == "rehash"
         assert store.save("old plan", SCENARIO, ana).number == 2
-        assert book.enable("old", database_operator=True).active
+        assert book.enable("old", by=book.get("root")).active
         found = store.verify()
         assert found.ok and found.account_events == 6, found.problems
         with pytest.raises(IntegrityError):            # the chain's refusals came back with the copied table

@@ -20,9 +20,10 @@ made it; the database refuses deleting or renaming an account.
 Every change to an account (added, disabled, enabled, a new role, a new password or a redone hash) is
 an account event in the recorded history (``planner.records.chain``).  Managing accounts, signing in
 and every planner step use the account's role and state as its recorded events say, and refuse an
-account whose row does not match them.  An admin (or the command line) enables accounts, changes
-roles and sets passwords; an account may change its own password with its current one; the last
-active admin cannot be disabled or given another role.
+account whose row does not match them.  Every change but the first admin is made by a signed-in
+active admin (``by``), who is recorded in the change's account event (the command line signs the admin
+in first: ``--admin NAME --password-stdin``); an account may change its own password with its current
+one; the last active admin cannot be disabled or given another role.
 """
 
 from __future__ import annotations
@@ -121,12 +122,11 @@ class AccountBook:
         return Account(*row)
 
     # -- managing ---------------------------------------------------------------------------------
-    def _admin(self, conn, by: Account | None, database_operator: bool, what: str) -> tuple[str, int | None]:
-        """Who manages accounts (name, id): an active admin (role and state as the account's recorded
-        events say), or whoever runs the command line with the database's own credentials
-        (``database_operator``), or anyone while no account exists (the first admin)."""
-        if database_operator:
-            return "command line", None
+    @staticmethod
+    def _admin(conn, by: Account | None, what: str) -> tuple[str, int]:
+        """Who manages accounts (name, id): an active admin, role and state as the account's recorded
+        events say.  The caller has signed the admin in (the dashboard's session, the command line's
+        ``--admin NAME --password-stdin``)."""
         if by is None or not isinstance(getattr(by, "id", None), int):
             raise StoreError(f"{what} needs an admin's sign-in")
         recorded = verified_account(conn, by.id, what)
@@ -149,10 +149,9 @@ class AccountBook:
         if admins <= 1:
             raise StoreError(f"{name!r} is the only active admin: add another admin first ({what} refused)")
 
-    def add(self, name: str, role: str, password: str, by: Account | None = None,
-            database_operator: bool = False) -> Account:
+    def add(self, name: str, role: str, password: str, by: Account | None = None) -> Account:
         """A new account. The first account must be an admin and may be made by anyone; later ones by
-        an admin (``by``) or the command line (``database_operator``)."""
+        an admin (``by``)."""
         name = check_name(name)
         if role not in ROLES:
             raise StoreError(f"role: {role!r} is not one of {', '.join(ROLES)}")
@@ -163,7 +162,7 @@ class AccountBook:
             if first and role != "admin":
                 raise StoreError("the first account must be an admin (--role admin): it manages the others")
             creator, creator_id = ("first admin", None) if first and by is None else \
-                self._admin(conn, by, database_operator, "adding an account")
+                self._admin(conn, by, "adding an account")
             if conn.execute(text("SELECT 1 FROM accounts WHERE name = :n"), {"n": name}).first():
                 raise StoreError(f"an account {name!r} exists already (disabled accounts keep their names)")
             now = _now()
@@ -173,12 +172,12 @@ class AccountBook:
             chain.account_event(conn, account_id, "add", creator, creator_id, now)
         return self.get(name)
 
-    def disable(self, name: str, by: Account | None = None, database_operator: bool = False) -> Account:
+    def disable(self, name: str, by: Account | None = None) -> Account:
         """Disable an account: it can no longer sign in and its sessions end; its history stays."""
         name = check_text(name, "account name", NAME_MAX)
         with self.store.engine.begin() as conn:
             self.store.lock(conn)
-            who, who_id = self._admin(conn, by, database_operator, "disabling an account")
+            who, who_id = self._admin(conn, by, "disabling an account")
             account_id, role, disabled_at = self._target(conn, name)
             if disabled_at is not None:
                 raise StoreError(f"the account {name!r} is disabled already (since {disabled_at})")
@@ -189,12 +188,12 @@ class AccountBook:
             conn.execute(text("UPDATE sessions SET ended = 1 WHERE account_id = :i"), {"i": account_id})
         return self.get(name)
 
-    def enable(self, name: str, by: Account | None = None, database_operator: bool = False) -> Account:
+    def enable(self, name: str, by: Account | None = None) -> Account:
         """Enable a disabled account again (its failed sign-ins are forgotten)."""
         name = check_text(name, "account name", NAME_MAX)
         with self.store.engine.begin() as conn:
             self.store.lock(conn)
-            who, who_id = self._admin(conn, by, database_operator, "enabling an account")
+            who, who_id = self._admin(conn, by, "enabling an account")
             account_id, _, disabled_at = self._target(conn, name)
             if disabled_at is None:
                 raise StoreError(f"the account {name!r} is active already")
@@ -203,14 +202,14 @@ class AccountBook:
                          {"i": account_id})
         return self.get(name)
 
-    def set_role(self, name: str, role: str, by: Account | None = None, database_operator: bool = False) -> Account:
+    def set_role(self, name: str, role: str, by: Account | None = None) -> Account:
         """Give an account another role; the last active admin keeps being one."""
         name = check_text(name, "account name", NAME_MAX)
         if role not in ROLES:
             raise StoreError(f"role: {role!r} is not one of {', '.join(ROLES)}")
         with self.store.engine.begin() as conn:
             self.store.lock(conn)
-            who, who_id = self._admin(conn, by, database_operator, "changing a role")
+            who, who_id = self._admin(conn, by, "changing a role")
             account_id, old_role, disabled_at = self._target(conn, name)
             if old_role == role:
                 raise StoreError(f"the account {name!r} is a{'n' if role[0] in 'aeiou' else ''} {role} already")
@@ -219,16 +218,16 @@ class AccountBook:
             chain.account_event(conn, account_id, "role", who, who_id, _now(), role=role)
         return self.get(name)
 
-    def set_password(self, name: str, password: str, by: Account | None = None, database_operator: bool = False,
+    def set_password(self, name: str, password: str, by: Account | None = None,
                      current_password: str | None = None) -> Account:
-        """A new password: set by an admin or the command line, or by the account itself with its
-        current password.  The account's sign-ins end."""
+        """A new password: set by an admin, or by the account itself with its current password.  The
+        account's sign-ins end."""
         name = check_text(name, "account name", NAME_MAX)
         digest = _hasher.hash(check_password(password, name))
         with self.store.engine.begin() as conn:
             self.store.lock(conn)
             account_id, _, _ = self._target(conn, name)
-            if not database_operator and by is not None and getattr(by, "id", None) == account_id:
+            if by is not None and getattr(by, "id", None) == account_id:
                 recorded = verified_account(conn, account_id, "changing a password")
                 stored = conn.execute(text("SELECT password_hash FROM accounts WHERE id = :i"),
                                       {"i": account_id}).scalar_one()
@@ -236,7 +235,7 @@ class AccountBook:
                     raise StoreError("changing your password needs your current password (and an active account)")
                 who, who_id = recorded["name"], account_id
             else:
-                who, who_id = self._admin(conn, by, database_operator, "setting another account's password")
+                who, who_id = self._admin(conn, by, "setting another account's password")
             chain.account_event(conn, account_id, "password", who, who_id, _now(), password_hash=digest)
             conn.execute(text("UPDATE sessions SET ended = 1 WHERE account_id = :i"), {"i": account_id})
         return self.get(name)
