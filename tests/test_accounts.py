@@ -17,7 +17,7 @@ import pytest
 from sqlalchemy import text
 
 from conftest import DEMO_FILES
-from planner.records import accounts
+from planner.records import accounts, throttle
 from planner.records.accounts import AccountBook
 from planner.records.store import PlanStore, StoreError
 from planner.scenario.schema import load_scenario
@@ -88,7 +88,7 @@ def test_bad_account_fields_are_refused_with_the_field(book, name, role, passwor
 
 
 def test_failed_sign_ins_are_throttled(book, monkeypatch):
-    monkeypatch.setattr(accounts, "LOCK_BASE_S", 1.0)
+    monkeypatch.setattr(throttle, "LOCK_BASE_S", 1.0)
     root = book.add("root", "admin", "root-password-1")
     book.add("ana", "planner", "ana-password-1", by=root)
     for _ in range(accounts.FREE_ATTEMPTS):

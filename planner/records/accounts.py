@@ -6,16 +6,18 @@ as Argon2id hashes (argon2-cffi's ``PasswordHasher`` with the OWASP Password Sto
 Argon2id setting: 19 MiB, 2 passes, 1 lane — light enough that sign-ins on a small shared server do
 not starve it; a hash made with other parameters is redone at the next sign-in).
 
-Failed sign-ins are throttled per account: after ``FREE_ATTEMPTS`` failures in a row each further
-failure locks the account for ``LOCK_BASE_S`` seconds, doubling up to ``LOCK_MAX_S``; while locked a
-sign-in is refused without looking at the password.  A name that does not exist gets the same answer
-as a wrong password, after the same hashing work.  New passwords keep the password rule
+Failed sign-ins are throttled per name (``planner.records.throttle``): each attempt is counted before
+its password is looked at, in one database step with the lock, so attempts made at once get at most
+``FREE_ATTEMPTS`` passwords checked; then the name is locked, doubling.  A name that does not exist is
+counted and locked the same way and gets the same answers, after the same Argon2 work (a check against
+a dummy hash), so the answers do not tell which accounts exist.  New passwords keep the password rule
 (``planner.records.passwords``: NIST SP 800-63B).
 
 A session (the dashboard's sign-in) is a random token whose SHA-256 is kept in ``sessions``; it ends
 after ``SESSION_S`` seconds, after ``IDLE_S`` seconds without use, on sign-out, or when the account is
-disabled.  Disabling keeps the account's row, so every revision and review record still names who
-made it; the database refuses deleting or renaming an account.
+disabled or its password changes.  Disabling keeps
+the account's row, so every revision and review record still names who made it; the database refuses
+deleting or renaming an account.
 
 Every change to an account (added, disabled, enabled, a new role, a new password or a redone hash) is
 an account event in the recorded history (``planner.records.chain``).  Managing accounts, signing in
@@ -37,13 +39,11 @@ from argon2 import PasswordHasher
 from argon2.exceptions import InvalidHashError, VerificationError, VerifyMismatchError
 from sqlalchemy import text
 
-from planner.records import chain
+from planner.records import chain, throttle
 from planner.records.passwords import PASSWORD_MAX, PASSWORD_MIN, check_password  # noqa: F401 (the rule's home)
 from planner.records.store import ROLES, PlanStore, StoreError, _now, check_text, verified_account
+from planner.records.throttle import FREE_ATTEMPTS  # noqa: F401
 
-FREE_ATTEMPTS = 5
-LOCK_BASE_S = 15.0
-LOCK_MAX_S = 900.0
 SESSION_S = 12 * 3600.0
 IDLE_S = 3600.0
 NAME_MAX = 60
@@ -198,8 +198,7 @@ class AccountBook:
             if disabled_at is None:
                 raise StoreError(f"the account {name!r} is active already")
             chain.account_event(conn, account_id, "enable", who, who_id, _now(), disabled_at=None)
-            conn.execute(text("UPDATE accounts SET failed_count = 0, locked_until = NULL WHERE id = :i"),
-                         {"i": account_id})
+            throttle.clear(conn, name)
         return self.get(name)
 
     def set_role(self, name: str, role: str, by: Account | None = None) -> Account:
@@ -242,30 +241,32 @@ class AccountBook:
 
     # -- signing in -------------------------------------------------------------------------------
     def authenticate(self, name: str, password: str) -> Account:
-        """The account, if the password is right; failures are counted and throttled."""
+        """The account, if the password is right.  Every name, an account's or not, is counted and
+        locked alike (``throttle.claim``, before the password is looked at) and gets the same answers
+        after the same Argon2 work, so the answers do not tell which accounts exist."""
         name = (name or "").strip() if isinstance(name, str) else ""
         password = password if isinstance(password, str) else ""
+        now = time.time()
+        locked_until = throttle.claim(self.store, name, now) if name else None
+        if locked_until is not None:
+            shown = name[:NAME_MAX] + ("…" if len(name) > NAME_MAX else "")
+            raise StoreError(f"too many failed sign-ins for {shown!r}: try again in {int(locked_until - now) + 1} s")
         row = None
         if name and len(name) <= NAME_MAX and not any(ord(c) < 32 for c in name):
             with self.store.engine.connect() as conn:
-                row = conn.execute(text("SELECT id, password_hash, failed_count, locked_until, disabled_at "
-                                        "FROM accounts WHERE name = :n"), {"n": name}).first()
-        now = time.time()
+                row = conn.execute(text("SELECT id, password_hash, disabled_at FROM accounts WHERE name = :n"),
+                                   {"n": name}).first()
         if row is None:
             _verify(_DUMMY_HASH, password)     # the same work as for a real account
             raise StoreError(WRONG)
-        account_id, digest, failed, locked_until, disabled_at = row
-        if locked_until is not None and locked_until > now:
-            raise StoreError(f"too many failed sign-ins for {name!r}: try again in {int(locked_until - now) + 1} s")
+        account_id, digest, disabled_at = row
         if not _verify(digest, password):
-            self._count_failure(account_id, failed + 1, now)
             raise StoreError(WRONG)
         if disabled_at is not None:
             raise StoreError(f"the account {name!r} is disabled (since {disabled_at})")
         with self.store.engine.begin() as conn:
             verified_account(conn, account_id, "signing in")      # a hash swapped by raw SQL lets nobody in
-            conn.execute(text("UPDATE accounts SET failed_count = 0, locked_until = NULL WHERE id = :i"),
-                         {"i": account_id})
+            throttle.clear(conn, name)
         if _hasher.check_needs_rehash(digest):
             self._rehash(account_id, digest, _hasher.hash(password))
         return self.get(name)
@@ -277,14 +278,6 @@ class AccountBook:
             row = conn.execute(text("SELECT name, password_hash FROM accounts WHERE id = :i"), {"i": account_id}).one()
             if row[1] == old_hash:          # not changed meanwhile
                 chain.account_event(conn, account_id, "rehash", row[0], account_id, _now(), password_hash=new_hash)
-
-    def _count_failure(self, account_id: int, failed: int, now: float) -> None:
-        lock = None
-        if failed >= FREE_ATTEMPTS:
-            lock = now + min(LOCK_MAX_S, LOCK_BASE_S * 2 ** (failed - FREE_ATTEMPTS))
-        with self.store.engine.begin() as conn:
-            conn.execute(text("UPDATE accounts SET failed_count = failed_count + 1, locked_until = :l WHERE id = :i"),
-                         {"l": lock, "i": account_id})
 
     def sign_in(self, name: str, password: str) -> Session:
         account = self.authenticate(name, password)

@@ -16,7 +16,7 @@ There are no composition rules (no "one digit, one capital"): NIST SP 800-63B sa
 not impose them.  Ten characters, not NIST's minimum of 8: sign-in is single-factor here, and the
 two extra characters multiply an offline guesser's work by about 10^4 for a random passphrase,
 while staying short enough to type on a plant-room keyboard; the online guesser is held off by the
-throttling in ``planner.records.accounts``.  (The 2024 revision, SP 800-63B-4, asks 15 for
+throttling in ``planner.records.throttle``.  (The 2024 revision, SP 800-63B-4, asks 15 for
 single-factor passwords; a site that wants that changes ``PASSWORD_MIN``.)
 """
 

@@ -43,7 +43,7 @@ from planner.records import chain
 from planner.records.migrations import MIGRATIONS, REVIEW_MOVES
 from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_dict
 
-SCHEMA_VERSION = 4
+SCHEMA_VERSION = 5
 DEFAULT_PATH = Path(__file__).resolve().parents[1] / "data" / "plans.sqlite"
 STATES = ("draft", "submitted", "approved", "returned")
 ROLES = ("planner", "supervisor", "admin")
