@@ -17,7 +17,7 @@ import pytest
 from sqlalchemy import text
 
 from conftest import DEMO_FILES
-from planner.records import accounts, throttle
+from planner.records import accounts, sessions, throttle
 from planner.records.accounts import AccountBook
 from planner.records.store import PlanStore, StoreError
 from planner.scenario.schema import load_scenario
@@ -138,7 +138,7 @@ def test_sessions_expire_end_on_sign_out_and_on_disabling(store):
     book.disable("ana", by=root)
     with pytest.raises(StoreError, match="ended"):
         AccountBook(store).session(session.token)
-    # the token itself is not kept, only its SHA-256
+    # the token itself is not kept, only its keyed hash
     with store.engine.connect() as conn:
         kept = [r[0] for r in conn.exec_driver_sql("SELECT token_hash FROM sessions").all()]
     assert session.token not in kept and len(kept) == 4
@@ -185,11 +185,12 @@ def test_sessions_over_for_a_day_are_cleared_at_the_next_sign_in(store, book):
     recent = book.sign_in("root", "root-password-1")
     with store.engine.begin() as conn:                  # the first one ended two days ago
         conn.execute(text("UPDATE sessions SET expires_at = :t, last_seen = :t WHERE token_hash = :h"),
-                     {"t": time.time() - 2 * 86400, "h": accounts._token_hash(old.token)})
+                     {"t": time.time() - 2 * 86400, "h": sessions.token_hash(store.session_key(), old.token)})
     newest = book.sign_in("root", "root-password-1")
     with store.engine.connect() as conn:
         kept = {r[0] for r in conn.exec_driver_sql("SELECT token_hash FROM sessions").all()}
-    assert kept == {accounts._token_hash(recent.token), accounts._token_hash(newest.token)}
+    assert kept == {sessions.token_hash(store.session_key(), recent.token),
+                    sessions.token_hash(store.session_key(), newest.token)}
 
 
 def _events(store) -> list[tuple]:

@@ -261,3 +261,22 @@ def test_account_changes_need_an_admins_sign_in(db_url, capsys, monkeypatch):
     code, out, _ = run(capsys, monkeypatch, "plans", "verify", "--db", db)
     assert code == 0 and "every record matches" in out
 
+
+def test_plans_verify_names_a_forged_session(db_url, capsys, monkeypatch):
+    import hashlib
+    import time
+
+    _setup_people(capsys, monkeypatch, db_url)
+    store = PlanStore(url=db_url)
+    book = AccountBook(store)
+    sam = book.get("sam")
+    book.sign_in("ana", "ana-password-1")               # a dashboard sign-in: the session key exists
+    with store.engine.begin() as conn:
+        conn.exec_driver_sql("INSERT INTO sessions (token_hash, account_id, created_at, expires_at, last_seen) "
+                             f"VALUES ('{hashlib.sha256(b'forged').hexdigest()}', {sam.id}, {time.time()}, "
+                             f"{time.time() + 3600}, {time.time()})")
+    store.close()
+    code, out, _ = run(capsys, monkeypatch, "plans", "verify", "--db", db_url)
+    assert code == 1 and "1 record(s) do not match" in out, out
+    assert f"MISMATCH: session {hashlib.sha256(b'forged').hexdigest()[:12]}… (live) of account 'sam': its seal does " \
+           "not match the session key" in out

@@ -13,9 +13,10 @@ counted and locked the same way and gets the same answers, after the same Argon2
 a dummy hash), so the answers do not tell which accounts exist.  New passwords keep the password rule
 (``planner.records.passwords``: NIST SP 800-63B).
 
-A session (the dashboard's sign-in) is a random token whose SHA-256 is kept in ``sessions``; it ends
-after ``SESSION_S`` seconds, after ``IDLE_S`` seconds without use, on sign-out, or when the account is
-disabled or its password changes.  Disabling keeps
+A session (the dashboard's sign-in) is a random token kept only as a keyed hash and sealed with the
+store's session key, a file outside the database (``planner.records.sessions``), so a session row
+written by raw SQL signs nobody in; it ends after ``SESSION_S`` seconds, after ``IDLE_S`` seconds
+without use, on sign-out, or when the account is disabled or its password changes.  Disabling keeps
 the account's row, so every revision and review record still names who made it; the database refuses
 deleting or renaming an account.
 
@@ -30,7 +31,6 @@ one; the last active admin cannot be disabled or given another role.
 
 from __future__ import annotations
 
-import hashlib
 import secrets
 import time
 from dataclasses import dataclass
@@ -39,7 +39,7 @@ from argon2 import PasswordHasher
 from argon2.exceptions import InvalidHashError, VerificationError, VerifyMismatchError
 from sqlalchemy import text
 
-from planner.records import chain, throttle
+from planner.records import chain, sessions, throttle
 from planner.records.passwords import PASSWORD_MAX, PASSWORD_MIN, check_password  # noqa: F401 (the rule's home)
 from planner.records.store import ROLES, PlanStore, StoreError, _now, check_text, verified_account
 from planner.records.throttle import FREE_ATTEMPTS  # noqa: F401
@@ -87,10 +87,6 @@ def check_name(name) -> str:
     if not all(c.isalnum() or c in "._- @" for c in name):
         raise StoreError("account name: use letters, digits, spaces and . _ - @ only")
     return name
-
-
-def _token_hash(token: str) -> str:
-    return hashlib.sha256(token.encode("utf-8")).hexdigest()
 
 
 _ACCOUNT_SQL = "SELECT id, name, role, created_at, created_by, disabled_at FROM accounts "
@@ -281,33 +277,42 @@ class AccountBook:
 
     def sign_in(self, name: str, password: str) -> Session:
         account = self.authenticate(name, password)
+        key = self.store.session_key()
         token = secrets.token_urlsafe(32)
+        digest = sessions.token_hash(key, token)
         now = time.time()
         expires = now + self.session_s
         with self.store.engine.begin() as conn:
-            # sessions over for a day are of no further use: keep the table small
+            # sessions over for a day, and names whose failures are a day old, are of no further use
             conn.execute(text("DELETE FROM sessions WHERE expires_at < :old OR (ended = 1 AND last_seen < :old)"),
                          {"old": now - 86400.0})
-            conn.execute(text("INSERT INTO sessions (token_hash, account_id, created_at, expires_at, last_seen) "
-                              "VALUES (:h, :a, :c, :e, :c)"),
-                         {"h": _token_hash(token), "a": account.id, "c": now, "e": expires})
+            throttle.forget_old(conn, now, skip_locked=self.store.dialect == "postgresql")
+            conn.execute(text("INSERT INTO sessions (token_hash, account_id, created_at, expires_at, last_seen, seal) "
+                              "VALUES (:h, :a, :c, :e, :c, :s)"),
+                         {"h": digest, "a": account.id, "c": now, "e": expires,
+                          "s": sessions.seal(key, digest, account.id, now, expires)})
         return Session(token, account, expires)
 
     def session(self, token: str) -> Account:
-        """The account of a live session; raises StoreError saying why a session is over."""
+        """The account of a live session; raises StoreError saying why a session is over.  A session
+        row without the store's seal (written behind the planner's back) signs nobody in."""
         if not isinstance(token, str) or not token:
             raise StoreError("not signed in")
-        digest = _token_hash(token)
+        key = self.store.session_key()
+        digest = sessions.token_hash(key, token)
         with self.store.engine.connect() as conn:
-            row = conn.execute(text("SELECT account_id, expires_at, last_seen, ended FROM sessions "
-                                    "WHERE token_hash = :h"), {"h": digest}).first()
+            row = conn.execute(text("SELECT token_hash, account_id, created_at, expires_at, seal, last_seen, ended "
+                                    "FROM sessions WHERE token_hash = :h"), {"h": digest}).first()
         now = time.time()
-        if row is None or row[3]:
+        if row is None or row[6]:
             raise StoreError("your sign-in has ended: sign in again")
-        account_id, expires_at, last_seen, _ = row
-        if now >= expires_at or now - last_seen >= self.idle_s:
+        _, account_id, _, expires_at, _, last_seen, _ = row
+        if now >= expires_at or now - last_seen >= self.idle_s:        # refusing needs no seal
             self.sign_out(token)
             raise StoreError("your sign-in has expired: sign in again")
+        if not sessions.sealed(key, row[:5]):
+            raise StoreError("your sign-in does not carry this server's seal (a session record written behind the "
+                             "planner's back, or made with another session key): sign in again")
         with self.store.engine.connect() as conn:
             account = Account(*conn.execute(text(_ACCOUNT_SQL + "WHERE id = :i"), {"i": account_id}).first())
             verified_account(conn, account_id, "your sign-in")
@@ -321,8 +326,9 @@ class AccountBook:
     def sign_out(self, token: str) -> None:
         if not token:
             return
+        digest = sessions.token_hash(self.store.session_key(), token)
         with self.store.engine.begin() as conn:
-            conn.execute(text("UPDATE sessions SET ended = 1 WHERE token_hash = :h"), {"h": _token_hash(token)})
+            conn.execute(text("UPDATE sessions SET ended = 1 WHERE token_hash = :h"), {"h": digest})
 
 
 def _verify(digest: str, password: str) -> bool:

@@ -21,7 +21,9 @@ Version 4 adds the account events (``planner.records.chain``): the history of ea
 state and password; an existing database gets one event per account recording it as found.
 
 Version 5 counts failed sign-ins per name (``sign_in_throttle``, ``planner.records.throttle``; an
-account's count and lock carry over, the accounts' own columns are no longer used).
+account's count and lock carry over, the accounts' own columns are no longer used) and seals sessions
+with a key outside the database (``sessions.seal``, ``planner.records.sessions``): sessions of version 4
+had no seal, so they end (everyone signs in again).
 """
 
 from __future__ import annotations
@@ -383,7 +385,7 @@ def _v4(conn: Connection, dialect: str = "sqlite") -> None:
 # -- version 5: failed sign-ins per name, sealed sessions -----------------------------------------------
 
 def _v5(conn: Connection, dialect: str = "sqlite") -> None:
-    """``sign_in_throttle`` (each account's failures and lock carried over)."""
+    """``sign_in_throttle`` (each account's failures and lock carried over) and the sessions' seal."""
     from planner.records.throttle import name_digest
 
     _run(conn, [
@@ -393,6 +395,8 @@ def _v5(conn: Connection, dialect: str = "sqlite") -> None:
             locked_until DOUBLE PRECISION,
             last_failed_at DOUBLE PRECISION NOT NULL)""",
         "CREATE INDEX sign_in_throttle_by_time ON sign_in_throttle (last_failed_at)",
+        "ALTER TABLE sessions ADD COLUMN seal TEXT NOT NULL DEFAULT ''",
+        "DELETE FROM sessions",
     ])
     now = datetime.now(timezone.utc).timestamp()
     for name, failed, locked_until in conn.exec_driver_sql(
