@@ -76,9 +76,11 @@ def pg_server():
 
 @pytest.fixture(params=["sqlite", pytest.param("postgres", marks=pytest.mark.postgres)])
 def db_url(request, tmp_path):
-    """An empty plans database: an SQLite file, then a fresh PostgreSQL database."""
+    """An empty plans database: an SQLite file, then a fresh PostgreSQL database (its session key in the
+    test's folder, not the project's default planner/data/session.key)."""
     if request.param == "sqlite":
         return f"sqlite:///{tmp_path / 'plans.sqlite'}"
+    request.getfixturevalue("monkeypatch").setenv("PLANNER_SESSION_KEY_FILE", str(tmp_path / "session.key"))
     return request.getfixturevalue("pg_server").new_database()
 
 
@@ -95,7 +97,8 @@ def make_people(store, names=("root", "ana", "ben", "sam", "sue")) -> dict:
     book = AccountBook(store)
     if book.count() == 0:
         book.add("root", "admin", PASSWORDS["root"])
+    root = book.get("root")
     for name in names:
         if name != "root":
-            book.add(name, ROLES_OF[name], PASSWORDS[name], database_operator=True)
+            book.add(name, ROLES_OF[name], PASSWORDS[name], by=root)
     return {name: book.get(name) for name in names}

@@ -17,7 +17,7 @@ import pytest
 from sqlalchemy import text
 
 from conftest import DEMO_FILES
-from planner.records import accounts
+from planner.records import accounts, sessions, throttle
 from planner.records.accounts import AccountBook
 from planner.records.store import PlanStore, StoreError
 from planner.scenario.schema import load_scenario
@@ -65,7 +65,7 @@ def test_the_first_account_is_an_admin_and_later_ones_need_one(book):
     assert ana.created_by == "root"
     with pytest.raises(StoreError, match="needs an active admin account"):
         book.add("ben", "planner", "ben-password-1", by=ana)
-    assert book.add("ben", "planner", "ben-password-1", database_operator=True).created_by == "command line"
+    assert book.add("ben", "planner", "ben-password-1", by=root).created_by == "root"
     with pytest.raises(StoreError, match="an account 'ana' exists already"):
         book.add("ana", "supervisor", "another-password", by=root)
     assert [(a.name, a.role) for a in book.list()] == [("ana", "planner"), ("ben", "planner"), ("root", "admin")]
@@ -88,9 +88,9 @@ def test_bad_account_fields_are_refused_with_the_field(book, name, role, passwor
 
 
 def test_failed_sign_ins_are_throttled(book, monkeypatch):
-    monkeypatch.setattr(accounts, "LOCK_BASE_S", 1.0)
-    book.add("root", "admin", "root-password-1")
-    book.add("ana", "planner", "ana-password-1", database_operator=True)
+    monkeypatch.setattr(throttle, "LOCK_BASE_S", 1.0)
+    root = book.add("root", "admin", "root-password-1")
+    book.add("ana", "planner", "ana-password-1", by=root)
     for _ in range(accounts.FREE_ATTEMPTS):
         with pytest.raises(StoreError, match="the account name or the password is not right"):
             book.authenticate("ana", "guess-guess-guess")
@@ -138,7 +138,7 @@ def test_sessions_expire_end_on_sign_out_and_on_disabling(store):
     book.disable("ana", by=root)
     with pytest.raises(StoreError, match="ended"):
         AccountBook(store).session(session.token)
-    # the token itself is not kept, only its SHA-256
+    # the token itself is not kept, only its keyed hash
     with store.engine.connect() as conn:
         kept = [r[0] for r in conn.exec_driver_sql("SELECT token_hash FROM sessions").all()]
     assert session.token not in kept and len(kept) == 4
@@ -169,13 +169,13 @@ def test_disabling_keeps_history_and_refuses_sign_in(store, book):
 
 
 def test_hostile_sign_in_names_get_the_ordinary_answer(book):
-    book.add("root", "admin", "root-password-1")
+    root = book.add("root", "admin", "root-password-1")
     for name in ("ro\x00ot", "root\x00", "x" * 10_000, "", None, "root' OR '1'='1"):
         with pytest.raises(StoreError) as refused:
             book.authenticate(name, "root-password-1")
         assert str(refused.value) == accounts.WRONG, name
     with pytest.raises(StoreError, match="account name: contains a control character"):
-        book.disable("ro\x00ot", database_operator=True)
+        book.disable("ro\x00ot", by=root)
     assert book.authenticate("root", "root-password-1").name == "root"
 
 
@@ -185,11 +185,12 @@ def test_sessions_over_for_a_day_are_cleared_at_the_next_sign_in(store, book):
     recent = book.sign_in("root", "root-password-1")
     with store.engine.begin() as conn:                  # the first one ended two days ago
         conn.execute(text("UPDATE sessions SET expires_at = :t, last_seen = :t WHERE token_hash = :h"),
-                     {"t": time.time() - 2 * 86400, "h": accounts._token_hash(old.token)})
+                     {"t": time.time() - 2 * 86400, "h": sessions.token_hash(store.session_key(), old.token)})
     newest = book.sign_in("root", "root-password-1")
     with store.engine.connect() as conn:
         kept = {r[0] for r in conn.exec_driver_sql("SELECT token_hash FROM sessions").all()}
-    assert kept == {accounts._token_hash(recent.token), accounts._token_hash(newest.token)}
+    assert kept == {sessions.token_hash(store.session_key(), recent.token),
+                    sessions.token_hash(store.session_key(), newest.token)}
 
 
 def _events(store) -> list[tuple]:
@@ -217,14 +218,14 @@ def test_enabling_roles_and_passwords_are_recorded_and_checked(store, book):
     # the last active admin stays one; with a second admin the first may step down
     with pytest.raises(StoreError, match="'root' is the only active admin: add another admin first"):
         book.set_role("root", "planner", by=root)
-    book.set_role("ana", "admin", database_operator=True)
+    book.set_role("ana", "admin", by=root)
     assert book.set_role("root", "supervisor", by=book.get("ana")).role == "supervisor"
     with pytest.raises(StoreError, match="'ana' is the only active admin"):
-        book.disable("ana", database_operator=True)
+        book.disable("ana", by=book.get("ana"))
     assert _events(store) == [
         ("root", "add", "admin", False, "first admin"), ("ana", "add", "planner", False, "root"),
         ("ana", "disable", "planner", True, "root"), ("ana", "enable", "planner", False, "root"),
-        ("ana", "role", "supervisor", False, "root"), ("ana", "role", "admin", False, "command line"),
+        ("ana", "role", "supervisor", False, "root"), ("ana", "role", "admin", False, "root"),
         ("root", "role", "supervisor", False, "ana")]
     assert store.verify().ok
 
@@ -247,12 +248,12 @@ def test_passwords_are_set_by_an_admin_or_by_the_account_with_its_current_one(st
         book.set_password("ana", "ben-chose-this-1", by=ben)
     book.set_password("ana", "root-chose-this-1", by=root)
     assert argon2.PasswordHasher().verify(_hash_of(store, "ana"), "root-chose-this-1")
-    book.set_password("ana", "cli-chose-this-1", database_operator=True)
+    book.set_password("ana", "cli-chose-this-1", by=root)
     assert book.authenticate("ana", "cli-chose-this-1").name == "ana"
     with pytest.raises(StoreError, match="password: 5 characters, at least 10"):
         book.set_password("ana", "short", by=root)
     assert [e[:2] + (e[4],) for e in _events(store)][3:] == [("ana", "password", "ana"), ("ana", "password", "root"),
-                                                           ("ana", "password", "command line")]
+                                                           ("ana", "password", "root")]
     # each event keeps the SHA-256 of the hash then set (hashlib), not the hash itself
     with store.engine.connect() as conn:
         digest = conn.exec_driver_sql("SELECT password_digest FROM account_events ORDER BY id DESC").first()[0]

@@ -20,6 +20,7 @@ import pytest
 
 from conftest import DEMO_FILES, ROOT
 from planner.cli import main
+from planner.records.accounts import AccountBook
 from planner.records.store import PlanStore
 from planner.reports.plan_json import plan_json
 from planner.scenario.schema import load_scenario
@@ -38,11 +39,18 @@ def run(capsys, monkeypatch, *argv, password: str | None = None) -> tuple[int, s
     return code, out.out, out.err
 
 
+AS_ROOT = ("--admin", "root", "--password-stdin")
+
+
 def _setup_people(capsys, monkeypatch, db):
-    for name, role in (("root", "admin"), ("ana", "planner"), ("sam", "supervisor"), ("sue", "supervisor")):
-        code, out, err = run(capsys, monkeypatch, "users", "add", name, "--role", role, "--password-stdin",
-                             "--db", db, password=f"{name}-password-1")
-        assert code == 0 and f"added account {name!r} ({role})" in out, err
+    """The first admin on its own; the others added by it (its password first, then theirs)."""
+    code, out, err = run(capsys, monkeypatch, "users", "add", "root", "--role", "admin", "--password-stdin",
+                         "--db", db, password="root-password-1")
+    assert code == 0 and "added account 'root' (admin) (the first admin)" in out, err
+    for name, role in (("ana", "planner"), ("sam", "supervisor"), ("sue", "supervisor")):
+        code, out, err = run(capsys, monkeypatch, "users", "add", name, "--role", role, *AS_ROOT,
+                             "--db", db, password=f"root-password-1\n{name}-password-1")
+        assert code == 0 and f"added account {name!r} ({role}) by root" in out, err
 
 
 def test_the_command_line_flow(db_url, capsys, monkeypatch):
@@ -103,7 +111,7 @@ def test_the_command_line_flow(db_url, capsys, monkeypatch):
     assert code == 0 and ("checked 1 revisions, 2 review records and 4 accounts (4 account events; 7 history "
                           "entries): every record matches") in out
     # disabling keeps the history and ends the account's use
-    code, out, _ = run(capsys, monkeypatch, "users", "disable", "sam", "--db", db)
+    code, out, _ = run(capsys, monkeypatch, "users", "disable", "sam", *AS_ROOT, "--db", db, password="root-password-1")
     assert code == 0 and "keep its name" in out
     code, _, err = run(capsys, monkeypatch, "plans", "save", DEMO, "--name", "x", "--user", "sam", "--password-stdin",
                        "--json", "--db", db, password="sam-password-1")
@@ -116,16 +124,17 @@ def test_the_command_line_flow(db_url, capsys, monkeypatch):
 
 def _account_commands(capsys, monkeypatch, db) -> None:
     """users enable / role / password: each done, each recorded, the last admin kept, refusals with why."""
+    root = "root-password-1"
     steps = [
-        (("users", "enable", "sam"), None, 0, "enabled account 'sam' (supervisor)"),
-        (("users", "enable", "sam"), None, 2, "the account 'sam' is active already"),
-        (("users", "role", "ana", "--role", "supervisor"), None, 0, "account 'ana' is now a supervisor"),
-        (("users", "role", "root", "--role", "planner"), None, 2, "'root' is the only active admin"),
-        (("users", "role", "ana", "--role", "boss"), None, 2, "invalid choice: 'boss'"),
-        (("users", "role", "nobody", "--role", "planner"), None, 2, "there is no account 'nobody'"),
-        (("users", "password", "sue", "--password-stdin"), "sue-password-2", 0, "new password set for 'sue'"),
-        (("users", "password", "sue", "--password-stdin"), "short", 2, "password: 5 characters, at least 10"),
-        (("users", "password", "sue", "--password-stdin"), None, 2, "no password on standard input"),
+        (("users", "enable", "sam", *AS_ROOT), root, 0, "enabled account 'sam' (supervisor)"),
+        (("users", "enable", "sam", *AS_ROOT), root, 2, "the account 'sam' is active already"),
+        (("users", "role", "ana", "--role", "supervisor", *AS_ROOT), root, 0, "account 'ana' is now a supervisor"),
+        (("users", "role", "root", "--role", "planner", *AS_ROOT), root, 2, "'root' is the only active admin"),
+        (("users", "role", "ana", "--role", "boss", *AS_ROOT), root, 2, "invalid choice: 'boss'"),
+        (("users", "role", "nobody", "--role", "planner", *AS_ROOT), root, 2, "there is no account 'nobody'"),
+        (("users", "password", "sue", *AS_ROOT), f"{root}\nsue-password-2", 0, "new password set for 'sue'"),
+        (("users", "password", "sue", *AS_ROOT), f"{root}\nshort", 2, "password: 5 characters, at least 10"),
+        (("users", "password", "sue", *AS_ROOT), root, 2, "no password on standard input"),
     ]
     for argv, password, status, words in steps:
         code, out, err = run(capsys, monkeypatch, *argv, "--db", db, password=password)
@@ -194,7 +203,8 @@ def test_the_real_entry_point_reads_the_environment_and_stdin(tmp_path):
 
     done = planner("users", "add", "root", "--role", "admin", "--password-stdin", stdin="root-password-1\n")
     assert done.returncode == 0, done.stderr
-    done = planner("users", "add", "ana", "--role", "planner", "--password-stdin", stdin="ana-password-1\n")
+    done = planner("users", "add", "ana", "--role", "planner", "--admin", "root", "--password-stdin",
+                   stdin="root-password-1\nana-password-1\n")
     assert done.returncode == 0, done.stderr
     done = planner("plans", "save", DEMO, "--name", "Env plan", "--user", "ana", "--password-stdin", "--json",
                    stdin="ana-password-1\n")
@@ -206,3 +216,67 @@ def test_the_real_entry_point_reads_the_environment_and_stdin(tmp_path):
     for url, words in ((":memory:", "is not a database URL"), ("sqlite:///:memory:", "is not a file")):
         done = planner("plans", "list", "--db", url)
         assert done.returncode == 2 and words in done.stderr and "Traceback" not in done.stderr
+
+
+def test_account_changes_need_an_admins_sign_in(db_url, capsys, monkeypatch):
+    """After the first admin, every ``users`` change signs an admin in and records that admin."""
+    db = db_url
+    code, out, err = run(capsys, monkeypatch, "users", "add", "root", "--role", "admin", *AS_ROOT, "--db", db,
+                         password="root-password-1\nroot-password-1")
+    assert code == 2 and "--admin: there is no account yet" in err
+    code, out, err = run(capsys, monkeypatch, "users", "add", "root", "--role", "admin", "--password-stdin", "--db", db,
+                         password="root-password-1")
+    assert code == 0, err
+    refusals = [
+        (("users", "add", "eve", "--role", "supervisor", "--password-stdin"), "eve-password-1",
+         "--admin: the database has accounts already, so adding one needs an admin's sign-in"),
+        (("users", "add", "eve", "--role", "supervisor", *AS_ROOT), "wrong-password-1\neve-password-1",
+         "--admin root: the account name or the password is not right"),
+        (("users", "add", "eve", "--role", "supervisor", *AS_ROOT), "root-password-1\npassword12",
+         "password: a common password"),
+        (("users", "add", "eve", "--role", "supervisor", *AS_ROOT), "root-password-1\neve-password-1",
+         None),
+        (("users", "add", "mal", "--role", "supervisor", "--admin", "eve", "--password-stdin"),
+         "eve-password-1\nmal-password-1", "adding an account needs an active admin account"),
+    ]
+    for argv, password, words in refusals:
+        code, out, err = run(capsys, monkeypatch, *argv, "--db", db, password=password)
+        if words is None:
+            assert code == 0 and "added account 'eve' (supervisor) by root" in out, err
+        else:
+            assert code == 2 and words in err, (argv, err)
+    for argv in (("disable", "eve"), ("enable", "eve"), ("role", "eve", "--role", "planner"), ("password", "eve")):
+        code, _, err = run(capsys, monkeypatch, "users", *argv, "--db", db, password="eve-password-2")
+        assert code == 2 and "the following arguments are required: --admin, --password-stdin" in err, (argv, err)
+    code, out, err = run(capsys, monkeypatch, "users", "disable", "eve", *AS_ROOT, "--db", db, password="root-password-1")
+    assert code == 0, err
+    store = PlanStore(url=db)
+    root_id = AccountBook(store).get("root").id
+    with store.engine.connect() as conn:
+        events = [tuple(r) for r in conn.exec_driver_sql('SELECT name, action, "by", by_id FROM account_events '
+                                                         "ORDER BY id").all()]
+    assert events == [("root", "add", "first admin", None), ("eve", "add", "root", root_id),
+                      ("eve", "disable", "root", root_id)]
+    store.close()
+    code, out, _ = run(capsys, monkeypatch, "plans", "verify", "--db", db)
+    assert code == 0 and "every record matches" in out
+
+
+def test_plans_verify_names_a_forged_session(db_url, capsys, monkeypatch):
+    import hashlib
+    import time
+
+    _setup_people(capsys, monkeypatch, db_url)
+    store = PlanStore(url=db_url)
+    book = AccountBook(store)
+    sam = book.get("sam")
+    book.sign_in("ana", "ana-password-1")               # a dashboard sign-in: the session key exists
+    with store.engine.begin() as conn:
+        conn.exec_driver_sql("INSERT INTO sessions (token_hash, account_id, created_at, expires_at, last_seen) "
+                             f"VALUES ('{hashlib.sha256(b'forged').hexdigest()}', {sam.id}, {time.time()}, "
+                             f"{time.time() + 3600}, {time.time()})")
+    store.close()
+    code, out, _ = run(capsys, monkeypatch, "plans", "verify", "--db", db_url)
+    assert code == 1 and "1 record(s) do not match" in out, out
+    assert f"MISMATCH: session {hashlib.sha256(b'forged').hexdigest()[:12]}… (live) of account 'sam': its seal does " \
+           "not match the session key" in out

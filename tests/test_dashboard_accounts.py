@@ -194,3 +194,31 @@ def test_the_admin_panel_enables_changes_roles_and_sets_passwords(db):
         actions = [r[0] for r in conn.exec_driver_sql("SELECT action FROM account_events ORDER BY id").all()]
     assert actions[5:] == ["disable", "enable", "role", "password", "password"]
     assert store.verify().ok
+
+
+def test_a_session_row_written_by_raw_sql_does_not_act(db):
+    """Issue 20: a session inserted by raw SQL for a supervisor (its token hashed with plain SHA-256, as
+    anyone could) must not sign the page in, so it cannot approve."""
+    import hashlib
+    import secrets
+    import time
+
+    store, people = _people(db)
+    saved = store.save("Ana's plan", load_scenario(DEMO_FILES[0]), people["ana"])
+    store.submit(saved.plan_id, 1, people["ana"])
+    token, now = secrets.token_urlsafe(32), time.time()
+    raw = sqlite3.connect(db, isolation_level=None)
+    raw.execute("INSERT INTO sessions (token_hash, account_id, created_at, expires_at, last_seen) VALUES (?, ?, ?, ?, ?)",
+                (hashlib.sha256(token.encode()).hexdigest(), people["sue"].id, now, now + 3600, now))
+    raw.close()
+    at = AppTest.from_file(APP, default_timeout=90)
+    for key, value in {"plan": str(saved.plan_id), "rev": "1", "view": "review"}.items():
+        at.query_params[key] = value
+    at.session_state["auth_token"] = token
+    at.run()
+    assert not at.exception
+    assert any("Signed out: your sign-in has ended" in w for w in _texts(at.sidebar.warning)), _sidebar_texts(at)
+    assert not any("Signed in as" in c for c in _texts(at.sidebar.caption))
+    assert at.button(key="rv_approve").disabled
+    assert [(r.action, r.by) for r in store.reviews(saved.plan_id, 1)] == [("submit", "ana")]
+    assert not store.verify().ok

@@ -305,7 +305,7 @@ def test_migration_from_version_1(tmp_path):
     path = tmp_path / "old.sqlite"
     _v1_file(path)
     store = PlanStore(path)
-    assert store.schema_version() == 4
+    assert store.schema_version() == 5
     assert store.count_revisions() == 1
     found = store.verify()          # the old records are in the history, in the order they were made
     assert found.ok and (found.revisions, found.reviews, found.entries) == (1, 1, 2), found.problems
@@ -333,7 +333,7 @@ def test_migration_on_postgresql_from_version_1(pg_server):
                           "VALUES (1, 1, '{}', 'a', '2025-01-01T00:00:00+00:00')"))
     engine.dispose()
     store = PlanStore(url=url)
-    assert store.schema_version() == 4 and store.count_revisions() == 1 and store.verify().ok
+    assert store.schema_version() == 5 and store.count_revisions() == 1 and store.verify().ok
     people = make_people(store, ("root", "ana"))
     assert store.save("old", SCENARIO, people["ana"]).number == 2
     store.close()
@@ -687,7 +687,7 @@ def test_migration_from_version_3_records_every_account(db_url):
     _v3_database(db_url, dialect)
     store = PlanStore(url=db_url)
     try:
-        assert store.schema_version() == 4
+        assert store.schema_version() == 5
         found = store.verify()
         assert found.ok, found.problems
         assert (found.revisions, found.reviews, found.accounts, found.account_events, found.entries) == (1, 1, 4, 4, 6)
@@ -708,7 +708,7 @@ def test_migration_from_version_3_records_every_account(db_url):
         with store.engine.connect() as conn:
             assert conn.exec_driver_sql("SELECT action FROM account_events ORDER BY id DESC").first()[0] == "rehash"
         assert store.save("old plan", SCENARIO, ana).number == 2
-        assert book.enable("old", database_operator=True).active
+        assert book.enable("old", by=book.get("root")).active
         found = store.verify()
         assert found.ok and found.account_events == 6, found.problems
         with pytest.raises(IntegrityError):            # the chain's refusals came back with the copied table

@@ -3,13 +3,15 @@
 
 The database: ``--db URL`` (an SQLAlchemy URL, ``sqlite:///file`` or ``postgresql+psycopg://...``), else
 ``PLANNER_DB_URL``, else the embedded SQLite file (``planner.records.store``).  Passwords come from
-standard input only (``--password-stdin``: one line), never from the command line, where other users
+standard input only (``--password-stdin``: one a line), never from the command line, where other users
 of the machine could read them.  Refused actions print why and exit with status 2; ``plans verify``
 exits 1 when a record or an account does not match the recorded history.
 
-``users`` commands act with the database's own credentials: whoever can run them against a database
-could change it directly, so they need no sign-in of their own (keep the database URL and file
-protected).  Each change is still an account event in the recorded history, made "by command line".  ``plans`` commands act as ``--user``, signed in with that account's password.
+``users`` commands that change an account act as an admin signed in with ``--admin NAME
+--password-stdin``: the admin's password is the first line of standard input, and a new password
+(``users add``, ``users password``) the second.  Each change is an account event in the recorded
+history naming that admin.  Only the first admin is added without one (while the database holds no
+account).  ``plans`` commands act as ``--user``, signed in with that account's password.
 """
 
 from __future__ import annotations
@@ -62,13 +64,36 @@ def _print_json(value) -> None:
 
 # -- users ---------------------------------------------------------------------------------------------
 
+ADMIN_NEEDED = ("needs an admin's sign-in: --admin NAME --password-stdin, with the admin's password on the first line "
+                "of standard input")
+
+
+def _admin_sign_in(book, args):
+    """The admin named by ``--admin``, signed in with the first line of standard input: (account, password).
+    Whether the account is an active admin is the account book's check, made with the change."""
+    password = _password().rstrip("\r")
+    try:
+        return book.authenticate(args.admin, password), password
+    except StoreError as exc:
+        raise StoreError(f"--admin {args.admin}: {exc}") from None
+
+
 def _users_add(args) -> int:
     from planner.records.accounts import AccountBook
 
-    store = _store(args)
-    book = AccountBook(store)
-    account = book.add(args.name, args.role, _password().rstrip("\r"), database_operator=book.count() > 0)
-    print(f"added account {account.name!r} ({account.role})")
+    book = AccountBook(_store(args))
+    if book.count() == 0:
+        if args.admin:
+            raise StoreError("--admin: there is no account yet; add the first admin without --admin "
+                             "(its password alone on standard input)")
+        admin = None
+    elif not args.admin:
+        raise StoreError(f"--admin: the database has accounts already, so adding one {ADMIN_NEEDED} "
+                         "and the new account's password on the second")
+    else:
+        admin, _ = _admin_sign_in(book, args)
+    account = book.add(args.name, args.role, _password().rstrip("\r"), by=admin)
+    print(f"added account {account.name!r} ({account.role})" + (f" by {admin.name}" if admin else " (the first admin)"))
     return 0
 
 
@@ -93,7 +118,8 @@ def _users_list(args) -> int:
 def _users_disable(args) -> int:
     from planner.records.accounts import AccountBook
 
-    account = AccountBook(_store(args)).disable(args.name, database_operator=True)
+    book = AccountBook(_store(args))
+    account = book.disable(args.name, by=_admin_sign_in(book, args)[0])
     print(f"disabled account {account.name!r}; its revisions and review records keep its name")
     return 0
 
@@ -101,7 +127,8 @@ def _users_disable(args) -> int:
 def _users_enable(args) -> int:
     from planner.records.accounts import AccountBook
 
-    account = AccountBook(_store(args)).enable(args.name, database_operator=True)
+    book = AccountBook(_store(args))
+    account = book.enable(args.name, by=_admin_sign_in(book, args)[0])
     print(f"enabled account {account.name!r} ({account.role})")
     return 0
 
@@ -109,7 +136,8 @@ def _users_enable(args) -> int:
 def _users_role(args) -> int:
     from planner.records.accounts import AccountBook
 
-    account = AccountBook(_store(args)).set_role(args.name, args.role, database_operator=True)
+    book = AccountBook(_store(args))
+    account = book.set_role(args.name, args.role, by=_admin_sign_in(book, args)[0])
     print(f"account {account.name!r} is now a{'n' if account.role[0] in 'aeiou' else ''} {account.role}")
     return 0
 
@@ -117,7 +145,9 @@ def _users_role(args) -> int:
 def _users_password(args) -> int:
     from planner.records.accounts import AccountBook
 
-    account = AccountBook(_store(args)).set_password(args.name, _password().rstrip("\r"), database_operator=True)
+    book = AccountBook(_store(args))
+    admin, admin_password = _admin_sign_in(book, args)
+    account = book.set_password(args.name, _password().rstrip("\r"), by=admin, current_password=admin_password)
     print(f"new password set for {account.name!r}; its sign-ins have ended")
     return 0
 
@@ -262,32 +292,44 @@ def _signed(parser: argparse.ArgumentParser) -> None:
                         help="read your password as one line from standard input")
 
 
+def _as_admin(parser: argparse.ArgumentParser, new_password: bool, first_admin: bool = False) -> None:
+    parser.add_argument("--admin", required=not first_admin, metavar="NAME",
+                        help="the admin making the change, signed in with the first line of standard input"
+                        + (" (not for the first admin)" if first_admin else ""))
+    reads = "the admin's password, then the new one" if new_password else "the admin's password"
+    parser.add_argument("--password-stdin", required=True, action="store_true",
+                        help=f"read from standard input, one a line: {reads}"
+                        + ("; for the first admin, its password alone" if first_admin else ""))
+
+
 def _register_users(sub, db) -> None:
     users = sub.add_parser("users", help="accounts: add, list, disable, enable, role, password", parents=[db])
     users_sub = users.add_subparsers(dest="users_command", required=True)
-    add = users_sub.add_parser("add", parents=[db], help="add an account (the first one must be an admin)")
+    add = users_sub.add_parser("add", parents=[db], help="add an account (the first one must be an admin; "
+                                                         "later ones are added by an admin)")
     add.add_argument("name")
     add.add_argument("--role", required=True, choices=ROLES)
-    add.add_argument("--password-stdin", required=True, action="store_true",
-                     help="read the new account's password as one line from standard input")
+    _as_admin(add, new_password=True, first_admin=True)
     add.set_defaults(func=_guarded(_users_add))
     listing = users_sub.add_parser("list", parents=[db], help="list the accounts")
     listing.add_argument("--json", action="store_true")
     listing.set_defaults(func=_guarded(_users_list))
     disable = users_sub.add_parser("disable", parents=[db], help="disable an account (its history stays)")
     disable.add_argument("name")
+    _as_admin(disable, new_password=False)
     disable.set_defaults(func=_guarded(_users_disable))
     enable = users_sub.add_parser("enable", parents=[db], help="enable a disabled account again")
     enable.add_argument("name")
+    _as_admin(enable, new_password=False)
     enable.set_defaults(func=_guarded(_users_enable))
     role = users_sub.add_parser("role", parents=[db], help="give an account another role")
     role.add_argument("name")
     role.add_argument("--role", required=True, choices=ROLES)
+    _as_admin(role, new_password=False)
     role.set_defaults(func=_guarded(_users_role))
     password = users_sub.add_parser("password", parents=[db], help="set an account's password (its sign-ins end)")
     password.add_argument("name")
-    password.add_argument("--password-stdin", required=True, action="store_true",
-                          help="read the new password as one line from standard input")
+    _as_admin(password, new_password=True)
     password.set_defaults(func=_guarded(_users_password))
 
 

@@ -6,27 +6,31 @@ as Argon2id hashes (argon2-cffi's ``PasswordHasher`` with the OWASP Password Sto
 Argon2id setting: 19 MiB, 2 passes, 1 lane — light enough that sign-ins on a small shared server do
 not starve it; a hash made with other parameters is redone at the next sign-in).
 
-Failed sign-ins are throttled per account: after ``FREE_ATTEMPTS`` failures in a row each further
-failure locks the account for ``LOCK_BASE_S`` seconds, doubling up to ``LOCK_MAX_S``; while locked a
-sign-in is refused without looking at the password.  A name that does not exist gets the same answer
-as a wrong password, after the same hashing work.
+Failed sign-ins are throttled per name (``planner.records.throttle``): each attempt is counted before
+its password is looked at, in one database step with the lock, so attempts made at once get at most
+``FREE_ATTEMPTS`` passwords checked; then the name is locked, doubling.  A name that does not exist is
+counted and locked the same way and gets the same answers, after the same Argon2 work (a check against
+a dummy hash), so the answers do not tell which accounts exist.  New passwords keep the password rule
+(``planner.records.passwords``: NIST SP 800-63B).
 
-A session (the dashboard's sign-in) is a random token whose SHA-256 is kept in ``sessions``; it ends
-after ``SESSION_S`` seconds, after ``IDLE_S`` seconds without use, on sign-out, or when the account is
-disabled.  Disabling keeps the account's row, so every revision and review record still names who
-made it; the database refuses deleting or renaming an account.
+A session (the dashboard's sign-in) is a random token kept only as a keyed hash and sealed with the
+store's session key, a file outside the database (``planner.records.sessions``), so a session row
+written by raw SQL signs nobody in; it ends after ``SESSION_S`` seconds, after ``IDLE_S`` seconds
+without use, on sign-out, or when the account is disabled or its password changes.  Disabling keeps
+the account's row, so every revision and review record still names who made it; the database refuses
+deleting or renaming an account.
 
 Every change to an account (added, disabled, enabled, a new role, a new password or a redone hash) is
 an account event in the recorded history (``planner.records.chain``).  Managing accounts, signing in
 and every planner step use the account's role and state as its recorded events say, and refuse an
-account whose row does not match them.  An admin (or the command line) enables accounts, changes
-roles and sets passwords; an account may change its own password with its current one; the last
-active admin cannot be disabled or given another role.
+account whose row does not match them.  Every change but the first admin is made by a signed-in
+active admin (``by``), who is recorded in the change's account event (the command line signs the admin
+in first: ``--admin NAME --password-stdin``); an account may change its own password with its current
+one; the last active admin cannot be disabled or given another role.
 """
 
 from __future__ import annotations
 
-import hashlib
 import secrets
 import time
 from dataclasses import dataclass
@@ -35,15 +39,13 @@ from argon2 import PasswordHasher
 from argon2.exceptions import InvalidHashError, VerificationError, VerifyMismatchError
 from sqlalchemy import text
 
-from planner.records import chain
+from planner.records import chain, sessions, throttle
+from planner.records.passwords import PASSWORD_MAX, PASSWORD_MIN, check_password  # noqa: F401 (the rule's home)
 from planner.records.store import ROLES, PlanStore, StoreError, _now, check_text, verified_account
+from planner.records.throttle import FREE_ATTEMPTS  # noqa: F401
 
-FREE_ATTEMPTS = 5
-LOCK_BASE_S = 15.0
-LOCK_MAX_S = 900.0
 SESSION_S = 12 * 3600.0
 IDLE_S = 3600.0
-PASSWORD_MIN, PASSWORD_MAX = 10, 256
 NAME_MAX = 60
 WRONG = "the account name or the password is not right"
 
@@ -87,22 +89,6 @@ def check_name(name) -> str:
     return name
 
 
-def check_password(password) -> str:
-    if not isinstance(password, str) or not password:
-        raise StoreError("password: empty")
-    if "\x00" in password:
-        raise StoreError("password: contains a NUL character")
-    if len(password) < PASSWORD_MIN:
-        raise StoreError(f"password: {len(password)} characters, at least {PASSWORD_MIN}")
-    if len(password) > PASSWORD_MAX:
-        raise StoreError(f"password: longer than {PASSWORD_MAX} characters")
-    return password
-
-
-def _token_hash(token: str) -> str:
-    return hashlib.sha256(token.encode("utf-8")).hexdigest()
-
-
 _ACCOUNT_SQL = "SELECT id, name, role, created_at, created_by, disabled_at FROM accounts "
 
 
@@ -132,12 +118,11 @@ class AccountBook:
         return Account(*row)
 
     # -- managing ---------------------------------------------------------------------------------
-    def _admin(self, conn, by: Account | None, database_operator: bool, what: str) -> tuple[str, int | None]:
-        """Who manages accounts (name, id): an active admin (role and state as the account's recorded
-        events say), or whoever runs the command line with the database's own credentials
-        (``database_operator``), or anyone while no account exists (the first admin)."""
-        if database_operator:
-            return "command line", None
+    @staticmethod
+    def _admin(conn, by: Account | None, what: str) -> tuple[str, int]:
+        """Who manages accounts (name, id): an active admin, role and state as the account's recorded
+        events say.  The caller has signed the admin in (the dashboard's session, the command line's
+        ``--admin NAME --password-stdin``)."""
         if by is None or not isinstance(getattr(by, "id", None), int):
             raise StoreError(f"{what} needs an admin's sign-in")
         recorded = verified_account(conn, by.id, what)
@@ -160,21 +145,20 @@ class AccountBook:
         if admins <= 1:
             raise StoreError(f"{name!r} is the only active admin: add another admin first ({what} refused)")
 
-    def add(self, name: str, role: str, password: str, by: Account | None = None,
-            database_operator: bool = False) -> Account:
+    def add(self, name: str, role: str, password: str, by: Account | None = None) -> Account:
         """A new account. The first account must be an admin and may be made by anyone; later ones by
-        an admin (``by``) or the command line (``database_operator``)."""
+        an admin (``by``)."""
         name = check_name(name)
         if role not in ROLES:
             raise StoreError(f"role: {role!r} is not one of {', '.join(ROLES)}")
-        digest = _hasher.hash(check_password(password))
+        digest = _hasher.hash(check_password(password, name))
         with self.store.engine.begin() as conn:
             self.store.lock(conn)
             first = conn.exec_driver_sql("SELECT COUNT(*) FROM accounts").scalar_one() == 0
             if first and role != "admin":
                 raise StoreError("the first account must be an admin (--role admin): it manages the others")
             creator, creator_id = ("first admin", None) if first and by is None else \
-                self._admin(conn, by, database_operator, "adding an account")
+                self._admin(conn, by, "adding an account")
             if conn.execute(text("SELECT 1 FROM accounts WHERE name = :n"), {"n": name}).first():
                 raise StoreError(f"an account {name!r} exists already (disabled accounts keep their names)")
             now = _now()
@@ -184,12 +168,12 @@ class AccountBook:
             chain.account_event(conn, account_id, "add", creator, creator_id, now)
         return self.get(name)
 
-    def disable(self, name: str, by: Account | None = None, database_operator: bool = False) -> Account:
+    def disable(self, name: str, by: Account | None = None) -> Account:
         """Disable an account: it can no longer sign in and its sessions end; its history stays."""
         name = check_text(name, "account name", NAME_MAX)
         with self.store.engine.begin() as conn:
             self.store.lock(conn)
-            who, who_id = self._admin(conn, by, database_operator, "disabling an account")
+            who, who_id = self._admin(conn, by, "disabling an account")
             account_id, role, disabled_at = self._target(conn, name)
             if disabled_at is not None:
                 raise StoreError(f"the account {name!r} is disabled already (since {disabled_at})")
@@ -200,28 +184,27 @@ class AccountBook:
             conn.execute(text("UPDATE sessions SET ended = 1 WHERE account_id = :i"), {"i": account_id})
         return self.get(name)
 
-    def enable(self, name: str, by: Account | None = None, database_operator: bool = False) -> Account:
+    def enable(self, name: str, by: Account | None = None) -> Account:
         """Enable a disabled account again (its failed sign-ins are forgotten)."""
         name = check_text(name, "account name", NAME_MAX)
         with self.store.engine.begin() as conn:
             self.store.lock(conn)
-            who, who_id = self._admin(conn, by, database_operator, "enabling an account")
+            who, who_id = self._admin(conn, by, "enabling an account")
             account_id, _, disabled_at = self._target(conn, name)
             if disabled_at is None:
                 raise StoreError(f"the account {name!r} is active already")
             chain.account_event(conn, account_id, "enable", who, who_id, _now(), disabled_at=None)
-            conn.execute(text("UPDATE accounts SET failed_count = 0, locked_until = NULL WHERE id = :i"),
-                         {"i": account_id})
+            throttle.clear(conn, name)
         return self.get(name)
 
-    def set_role(self, name: str, role: str, by: Account | None = None, database_operator: bool = False) -> Account:
+    def set_role(self, name: str, role: str, by: Account | None = None) -> Account:
         """Give an account another role; the last active admin keeps being one."""
         name = check_text(name, "account name", NAME_MAX)
         if role not in ROLES:
             raise StoreError(f"role: {role!r} is not one of {', '.join(ROLES)}")
         with self.store.engine.begin() as conn:
             self.store.lock(conn)
-            who, who_id = self._admin(conn, by, database_operator, "changing a role")
+            who, who_id = self._admin(conn, by, "changing a role")
             account_id, old_role, disabled_at = self._target(conn, name)
             if old_role == role:
                 raise StoreError(f"the account {name!r} is a{'n' if role[0] in 'aeiou' else ''} {role} already")
@@ -230,16 +213,16 @@ class AccountBook:
             chain.account_event(conn, account_id, "role", who, who_id, _now(), role=role)
         return self.get(name)
 
-    def set_password(self, name: str, password: str, by: Account | None = None, database_operator: bool = False,
+    def set_password(self, name: str, password: str, by: Account | None = None,
                      current_password: str | None = None) -> Account:
-        """A new password: set by an admin or the command line, or by the account itself with its
-        current password.  The account's sign-ins end."""
+        """A new password: set by an admin, or by the account itself with its current password.  The
+        account's sign-ins end."""
         name = check_text(name, "account name", NAME_MAX)
-        digest = _hasher.hash(check_password(password))
+        digest = _hasher.hash(check_password(password, name))
         with self.store.engine.begin() as conn:
             self.store.lock(conn)
             account_id, _, _ = self._target(conn, name)
-            if not database_operator and by is not None and getattr(by, "id", None) == account_id:
+            if by is not None and getattr(by, "id", None) == account_id:
                 recorded = verified_account(conn, account_id, "changing a password")
                 stored = conn.execute(text("SELECT password_hash FROM accounts WHERE id = :i"),
                                       {"i": account_id}).scalar_one()
@@ -247,37 +230,39 @@ class AccountBook:
                     raise StoreError("changing your password needs your current password (and an active account)")
                 who, who_id = recorded["name"], account_id
             else:
-                who, who_id = self._admin(conn, by, database_operator, "setting another account's password")
+                who, who_id = self._admin(conn, by, "setting another account's password")
             chain.account_event(conn, account_id, "password", who, who_id, _now(), password_hash=digest)
             conn.execute(text("UPDATE sessions SET ended = 1 WHERE account_id = :i"), {"i": account_id})
         return self.get(name)
 
     # -- signing in -------------------------------------------------------------------------------
     def authenticate(self, name: str, password: str) -> Account:
-        """The account, if the password is right; failures are counted and throttled."""
+        """The account, if the password is right.  Every name, an account's or not, is counted and
+        locked alike (``throttle.claim``, before the password is looked at) and gets the same answers
+        after the same Argon2 work, so the answers do not tell which accounts exist."""
         name = (name or "").strip() if isinstance(name, str) else ""
         password = password if isinstance(password, str) else ""
+        now = time.time()
+        locked_until = throttle.claim(self.store, name, now) if name else None
+        if locked_until is not None:
+            shown = name[:NAME_MAX] + ("…" if len(name) > NAME_MAX else "")
+            raise StoreError(f"too many failed sign-ins for {shown!r}: try again in {int(locked_until - now) + 1} s")
         row = None
         if name and len(name) <= NAME_MAX and not any(ord(c) < 32 for c in name):
             with self.store.engine.connect() as conn:
-                row = conn.execute(text("SELECT id, password_hash, failed_count, locked_until, disabled_at "
-                                        "FROM accounts WHERE name = :n"), {"n": name}).first()
-        now = time.time()
+                row = conn.execute(text("SELECT id, password_hash, disabled_at FROM accounts WHERE name = :n"),
+                                   {"n": name}).first()
         if row is None:
             _verify(_DUMMY_HASH, password)     # the same work as for a real account
             raise StoreError(WRONG)
-        account_id, digest, failed, locked_until, disabled_at = row
-        if locked_until is not None and locked_until > now:
-            raise StoreError(f"too many failed sign-ins for {name!r}: try again in {int(locked_until - now) + 1} s")
+        account_id, digest, disabled_at = row
         if not _verify(digest, password):
-            self._count_failure(account_id, failed + 1, now)
             raise StoreError(WRONG)
         if disabled_at is not None:
             raise StoreError(f"the account {name!r} is disabled (since {disabled_at})")
         with self.store.engine.begin() as conn:
             verified_account(conn, account_id, "signing in")      # a hash swapped by raw SQL lets nobody in
-            conn.execute(text("UPDATE accounts SET failed_count = 0, locked_until = NULL WHERE id = :i"),
-                         {"i": account_id})
+            throttle.clear(conn, name)
         if _hasher.check_needs_rehash(digest):
             self._rehash(account_id, digest, _hasher.hash(password))
         return self.get(name)
@@ -290,43 +275,44 @@ class AccountBook:
             if row[1] == old_hash:          # not changed meanwhile
                 chain.account_event(conn, account_id, "rehash", row[0], account_id, _now(), password_hash=new_hash)
 
-    def _count_failure(self, account_id: int, failed: int, now: float) -> None:
-        lock = None
-        if failed >= FREE_ATTEMPTS:
-            lock = now + min(LOCK_MAX_S, LOCK_BASE_S * 2 ** (failed - FREE_ATTEMPTS))
-        with self.store.engine.begin() as conn:
-            conn.execute(text("UPDATE accounts SET failed_count = failed_count + 1, locked_until = :l WHERE id = :i"),
-                         {"l": lock, "i": account_id})
-
     def sign_in(self, name: str, password: str) -> Session:
         account = self.authenticate(name, password)
+        key = self.store.session_key()
         token = secrets.token_urlsafe(32)
+        digest = sessions.token_hash(key, token)
         now = time.time()
         expires = now + self.session_s
         with self.store.engine.begin() as conn:
-            # sessions over for a day are of no further use: keep the table small
+            # sessions over for a day, and names whose failures are a day old, are of no further use
             conn.execute(text("DELETE FROM sessions WHERE expires_at < :old OR (ended = 1 AND last_seen < :old)"),
                          {"old": now - 86400.0})
-            conn.execute(text("INSERT INTO sessions (token_hash, account_id, created_at, expires_at, last_seen) "
-                              "VALUES (:h, :a, :c, :e, :c)"),
-                         {"h": _token_hash(token), "a": account.id, "c": now, "e": expires})
+            throttle.forget_old(conn, now, skip_locked=self.store.dialect == "postgresql")
+            conn.execute(text("INSERT INTO sessions (token_hash, account_id, created_at, expires_at, last_seen, seal) "
+                              "VALUES (:h, :a, :c, :e, :c, :s)"),
+                         {"h": digest, "a": account.id, "c": now, "e": expires,
+                          "s": sessions.seal(key, digest, account.id, now, expires)})
         return Session(token, account, expires)
 
     def session(self, token: str) -> Account:
-        """The account of a live session; raises StoreError saying why a session is over."""
+        """The account of a live session; raises StoreError saying why a session is over.  A session
+        row without the store's seal (written behind the planner's back) signs nobody in."""
         if not isinstance(token, str) or not token:
             raise StoreError("not signed in")
-        digest = _token_hash(token)
+        key = self.store.session_key()
+        digest = sessions.token_hash(key, token)
         with self.store.engine.connect() as conn:
-            row = conn.execute(text("SELECT account_id, expires_at, last_seen, ended FROM sessions "
-                                    "WHERE token_hash = :h"), {"h": digest}).first()
+            row = conn.execute(text("SELECT token_hash, account_id, created_at, expires_at, seal, last_seen, ended "
+                                    "FROM sessions WHERE token_hash = :h"), {"h": digest}).first()
         now = time.time()
-        if row is None or row[3]:
+        if row is None or row[6]:
             raise StoreError("your sign-in has ended: sign in again")
-        account_id, expires_at, last_seen, _ = row
-        if now >= expires_at or now - last_seen >= self.idle_s:
+        _, account_id, _, expires_at, _, last_seen, _ = row
+        if now >= expires_at or now - last_seen >= self.idle_s:        # refusing needs no seal
             self.sign_out(token)
             raise StoreError("your sign-in has expired: sign in again")
+        if not sessions.sealed(key, row[:5]):
+            raise StoreError("your sign-in does not carry this server's seal (a session record written behind the "
+                             "planner's back, or made with another session key): sign in again")
         with self.store.engine.connect() as conn:
             account = Account(*conn.execute(text(_ACCOUNT_SQL + "WHERE id = :i"), {"i": account_id}).first())
             verified_account(conn, account_id, "your sign-in")
@@ -340,8 +326,9 @@ class AccountBook:
     def sign_out(self, token: str) -> None:
         if not token:
             return
+        digest = sessions.token_hash(self.store.session_key(), token)
         with self.store.engine.begin() as conn:
-            conn.execute(text("UPDATE sessions SET ended = 1 WHERE token_hash = :h"), {"h": _token_hash(token)})
+            conn.execute(text("UPDATE sessions SET ended = 1 WHERE token_hash = :h"), {"h": digest})
 
 
 def _verify(digest: str, password: str) -> bool:

@@ -93,6 +93,7 @@ class Verification:
     entries: int = 0
     account_events: int = 0
     accounts: int = 0
+    sessions: int = 0
     head: str = GENESIS
     problems: list[str] = field(default_factory=list)
 
@@ -102,7 +103,8 @@ class Verification:
 
     def as_dict(self) -> dict:
         return {"ok": self.ok, "revisions": self.revisions, "reviews": self.reviews,
-                "account_events": self.account_events, "accounts": self.accounts, "entries": self.entries,
+                "account_events": self.account_events, "accounts": self.accounts, "sessions": self.sessions,
+                "entries": self.entries,
                 "head": self.head, "problems": list(self.problems)}
 
 

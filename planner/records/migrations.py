@@ -19,10 +19,18 @@ What the database itself refuses (triggers, version 3), so that raw SQL cannot d
 
 Version 4 adds the account events (``planner.records.chain``): the history of each account's role,
 state and password; an existing database gets one event per account recording it as found.
+
+Version 5 counts failed sign-ins per name (``sign_in_throttle``, ``planner.records.throttle``; an
+account's count and lock carry over, the accounts' own columns are no longer used) and seals sessions
+with a key outside the database (``sessions.seal``, ``planner.records.sessions``): sessions of version 4
+had no seal, so they end (everyone signs in again).
 """
 
 from __future__ import annotations
 
+from datetime import datetime, timezone
+
+from sqlalchemy import text
 from sqlalchemy.engine import Connection
 
 REVIEW_MOVES = (("submit", "draft", "submitted"), ("approve", "submitted", "approved"),
@@ -361,8 +369,6 @@ def _v4_postgresql(conn: Connection) -> None:
 def _v4(conn: Connection, dialect: str = "sqlite") -> None:
     """Account events, chained like revisions and review records; every existing account gets one
     ``recorded`` event (its state as found), chained after the existing records in account order."""
-    from datetime import datetime, timezone
-
     from planner.records.chain import account_event
 
     _run(conn, [ACCOUNT_EVENTS_TABLE.format(id=_id(dialect)),
@@ -376,4 +382,27 @@ def _v4(conn: Connection, dialect: str = "sqlite") -> None:
         account_event(conn, account_id, "recorded", "schema version 4", None, now)
 
 
-MIGRATIONS = {1: _v1, 2: _v2, 3: _v3, 4: _v4}
+# -- version 5: failed sign-ins per name, sealed sessions -----------------------------------------------
+
+def _v5(conn: Connection, dialect: str = "sqlite") -> None:
+    """``sign_in_throttle`` (each account's failures and lock carried over) and the sessions' seal."""
+    from planner.records.throttle import name_digest
+
+    _run(conn, [
+        """CREATE TABLE sign_in_throttle (
+            name_digest TEXT PRIMARY KEY,
+            failed_count INTEGER NOT NULL DEFAULT 0,
+            locked_until DOUBLE PRECISION,
+            last_failed_at DOUBLE PRECISION NOT NULL)""",
+        "CREATE INDEX sign_in_throttle_by_time ON sign_in_throttle (last_failed_at)",
+        "ALTER TABLE sessions ADD COLUMN seal TEXT NOT NULL DEFAULT ''",
+        "DELETE FROM sessions",
+    ])
+    now = datetime.now(timezone.utc).timestamp()
+    for name, failed, locked_until in conn.exec_driver_sql(
+            "SELECT name, failed_count, locked_until FROM accounts WHERE failed_count > 0").all():
+        conn.execute(text("INSERT INTO sign_in_throttle (name_digest, failed_count, locked_until, last_failed_at) "
+                          "VALUES (:d, :f, :l, :t)"), {"d": name_digest(name), "f": failed, "l": locked_until, "t": now})
+
+
+MIGRATIONS = {1: _v1, 2: _v2, 3: _v3, 4: _v4, 5: _v5}

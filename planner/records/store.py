@@ -23,6 +23,9 @@ WAL mode); PostgreSQL locks the history's head row (``SELECT ... FOR UPDATE``) a
 review, so two supervisors acting at once on one revision leave exactly one outcome and the other gets
 a message saying what happened.  A writer killed mid-transaction leaves nothing half-written.  The
 schema carries a version; ``MIGRATIONS`` bring an older database up to date when it is opened.
+
+The store also keeps the session key (``planner.records.sessions``): a file outside the database that
+seals the sign-in sessions, so a session row written by raw SQL signs nobody in and ``verify`` names it.
 """
 
 from __future__ import annotations
@@ -43,7 +46,7 @@ from planner.records import chain
 from planner.records.migrations import MIGRATIONS, REVIEW_MOVES
 from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_dict
 
-SCHEMA_VERSION = 4
+SCHEMA_VERSION = 5
 DEFAULT_PATH = Path(__file__).resolve().parents[1] / "data" / "plans.sqlite"
 STATES = ("draft", "submitted", "approved", "returned")
 ROLES = ("planner", "supervisor", "admin")
@@ -195,8 +198,11 @@ class PlanStore:
     """The plans database. ``PlanStore(path)`` opens an SQLite file, ``PlanStore(url=...)`` any
     supported URL; with neither, the environment decides (module docstring)."""
 
-    def __init__(self, path: str | Path | None = None, url: str | None = None):
+    def __init__(self, path: str | Path | None = None, url: str | None = None,
+                 session_key_file: str | Path | None = None):
         self.url = database_url(url, path)
+        self._key_file = None if session_key_file is None else check_path(session_key_file, "session key file")
+        self._key: bytes | None = None
         parsed = make_url(self.url)
         self.dialect = parsed.get_backend_name()
         self.path = Path(parsed.database) if self.dialect == "sqlite" else None
@@ -233,6 +239,21 @@ class PlanStore:
 
     def close(self) -> None:
         self.engine.dispose()
+
+    # -- the session key ----------------------------------------------------------------------------
+    @property
+    def session_key_file(self) -> Path:
+        from planner.records import sessions
+
+        return self._key_file if self._key_file is not None else sessions.key_path(self.path)
+
+    def session_key(self) -> bytes:
+        """The key that seals sign-in sessions (made on first use; ``planner.records.sessions``)."""
+        from planner.records import sessions
+
+        if self._key is None:
+            self._key = sessions.load_key(self.session_key_file)
+        return self._key
 
     @property
     def for_update(self) -> str:
@@ -447,9 +468,17 @@ class PlanStore:
 
     # -- the recorded history ---------------------------------------------------------------------
     def verify(self) -> chain.Verification:
-        """Every revision, review record and account against the hash chain (``planner.records.chain``)."""
+        """Every revision, review record and account against the hash chain (``planner.records.chain``),
+        and every sign-in session against the session key (``planner.records.sessions``; the key file is
+        not made here: without it, sessions are reported as not checkable)."""
+        from planner.records import sessions
+
+        key = self._key if self._key is not None else sessions.load_key(self.session_key_file, create=False)
         with self.engine.connect() as conn:
-            return chain.verify(conn)
+            found = chain.verify(conn)
+            found.sessions, problems = sessions.forged(conn, key, self.session_key_file)
+        found.problems.extend(problems)
+        return found
 
     def revision_problems(self, plan_id: int, number: int) -> list[str]:
         """One revision and its review records against their history entries (empty: they match)."""
