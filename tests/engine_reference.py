@@ -28,7 +28,7 @@ REFERENCE_FILE = ROOT / "tests" / "reference" / "engine_reference.json"
 GENERATED_LINES = 200
 DEMO_DIR = ROOT / "demo_scenarios"
 
-from planner.scenario.schema import load_scenario, scenario_from_dict, scenario_to_dict  # noqa: E402
+from planner.scenario.schema import load_scenario, scenario_from_dict, scenario_to_dict, scenario_to_json  # noqa: E402
 
 # figure -> kind: "temperature" (absolute tolerance in K) or "relative"
 MARCH_FIGURES = {"outlet_temperature_k": "temperature", "min_bulk_temperature_k": "temperature",
@@ -90,8 +90,9 @@ def record(commit: str) -> dict:
         seed += 1
     plans = {}
     for path in sorted(DEMO_DIR.glob("*.toml")):
-        plans[path.stem] = plan_figures(load_scenario(path))
-        plans[path.stem + "-push-cold-15C"] = plan_figures(push_cold_variant(path))
+        for name, scenario in ((path.stem, load_scenario(path)), (path.stem + "-push-cold-15C", push_cold_variant(path))):
+            # the scenario is kept beside its figures: a later edit of a demo does not move the reference
+            plans[name] = {"scenario": json.loads(scenario_to_json(scenario)), "figures": plan_figures(scenario)}
     return {"commit": commit, "lines": lines, "plans": plans}
 
 

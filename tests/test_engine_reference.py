@@ -11,8 +11,8 @@ import math
 
 import pytest
 
-from engine_reference import (DEMO_DIR, MARCH_FIGURES, PLAN_FIGURES, REFERENCE_FILE, load_scenario, march_figures,
-                              plan_figures, push_cold_variant)
+from engine_reference import MARCH_FIGURES, PLAN_FIGURES, REFERENCE_FILE, march_figures, plan_figures
+from planner.scenario.schema import scenario_from_dict
 
 TOL_T_K = 0.05
 TOL_REL = 2e-3
@@ -47,7 +47,5 @@ def test_generated_lines_march_as_recorded(block):
 
 @pytest.mark.parametrize("name", sorted(REFERENCE["plans"]))
 def test_demo_plans_as_recorded(name):
-    stem = name.removesuffix("-push-cold-15C")
-    path = DEMO_DIR / f"{stem}.toml"
-    scenario = push_cold_variant(path) if name != stem else load_scenario(path)
-    _agree(PLAN_FIGURES, plan_figures(scenario), REFERENCE["plans"][name], name)
+    recorded = REFERENCE["plans"][name]
+    _agree(PLAN_FIGURES, plan_figures(scenario_from_dict(recorded["scenario"])), recorded["figures"], name)
