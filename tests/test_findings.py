@@ -152,7 +152,11 @@ def test_pressure_against_the_b16_5_flange_rating():
 
 def test_relief_lifting_and_motor_overload():
     plan = plan_of(bench())
-    dp, power = plan.start.point.pump_differential, plan.start.shaft_power
+    dp = plan.start.point.pump_differential
+    # the motor is checked at every running point: the source's level falls, so the pump's differential
+    # (and its power) is highest at the last increment
+    power = max(plan.timeline.arrays["shaft_power_w"])
+    assert power > plan.start.shaft_power * 1.004
 
     def relief(p):
         d = bench()
@@ -309,8 +313,43 @@ def test_centrifugal_viscosity_correction_outside_hi_range():
     pump = plan.system.pump
     b_at_1000 = hi_parameter_b(1e-3, pump.bep_head_m, pump.bep_flow_m3_s, 2950 / 60)
     nu_40 = 1e-3 * (40.0 / b_at_1000) ** 2   # B grows as nu^0.5 (ANSI/HI 9.6.7)
-    assert found(pump_with(nu_40 * 1.05))["PUMP-HI-RANGE"].severity == "warning"
+    beyond = found(pump_with(nu_40 * 1.05))["PUMP-HI-RANGE"]
+    assert beyond.severity == "stop" and beyond.limit == 40.0 and beyond.value == pytest.approx(40.0 * 1.05**0.5, rel=2e-3)
+    assert "ANSI/HI 9.6.7" in beyond.message and "not rated for this viscosity" in beyond.message
+    assert "maker's viscous performance data or a PD pump" in beyond.action
     assert "PUMP-HI-RANGE" not in found(pump_with(nu_40 * 0.95))
+
+
+def _overpowered(sensing: str) -> dict:
+    """A traced, insulated bench whose line loses a hundredth of the model's heat loss (the schema's
+    lowest calibration factor): 40 W/m heats a stagnant metre far past 500 °C at full output."""
+    d = bench()
+    d["route"]["segments"][0].update(insulation=[{"material": "mineral_wool", "thickness": 50}])
+    d["tracing"] = {"kind": "electric_constant", "output": 40.0, "sensing": sensing,
+                    **({"switch_temperature": 30.0} if sensing == "ambient" else {"setpoint": 40.0})}
+    d["calibration"] = {"heat_loss_factor": 0.01}
+    d["schedule"].update(start_mode="prewarm", line_start_temperature=5.0)
+    return d
+
+
+def test_prewarm_past_the_temperature_ceiling_is_a_stop_naming_the_heating_inputs():
+    from planner.line.march import TEMPERATURE_CEILING_K
+
+    f = found(_overpowered("ambient"))["TEMPERATURE-CEILING"]
+    assert f.severity == "stop" and f.limit == TEMPERATURE_CEILING_K
+    assert "run: run" not in f.message and "run" in f.message and "500 °C" in f.message
+    assert "tracing.output" in f.action and "calibration.heat_loss_factor" in f.action
+    plan = plan_of(_overpowered("ambient"))
+    assert plan.prewarm.too_hot == ["discharge: run"]
+    assert all(not s.settles_at_k <= TEMPERATURE_CEILING_K for s in plan.prewarm.segments if s.traced)  # NaN
+
+
+def test_a_thermostat_holds_the_prewarmed_line_at_its_setpoint():
+    # the same heater held by a pipe-wall thermostat settles at the setpoint; before, the pre-warm reported
+    # where full output would head (thousands of kelvin) as where the line settles
+    plan = plan_of(_overpowered("pipe_wall"))
+    assert [s.settles_at_k for s in plan.prewarm.segments if s.traced] == [pytest.approx(313.15, abs=1e-9)]
+    assert "TEMPERATURE-CEILING" not in found(_overpowered("pipe_wall"))
 
 
 def test_tracing_that_cannot_hold_its_setpoint_at_design_ambient():
@@ -563,11 +602,14 @@ def test_every_finding_code_was_read_in_both_unit_systems():
     import re
     from pathlib import Path
 
+    import planner.checks.bounds as bounds
     import planner.checks.findings as module
 
     if len(RENDERED_CODES) < 5:
         pytest.skip("run the whole file: the codes are collected by the tests above")
-    source = Path(module.__file__).read_text(encoding="utf-8")
+    source = "".join(Path(m.__file__).read_text(encoding="utf-8") for m in (module, bounds))
     codes = set(re.findall(r'Finding\(\s*"([A-Z0-9-]+)"', source))
-    missing = codes - RENDERED_CODES
+    # PLAN-BOUNDS guards against defects: no valid scenario may trigger it (tests/test_plan_bounds.py
+    # triggers it on doctored plans and checks that generated scenarios never do)
+    missing = codes - RENDERED_CODES - {"PLAN-BOUNDS"}
     assert not missing, f"codes no generated scenario triggered: {sorted(missing)}"

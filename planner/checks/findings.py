@@ -15,65 +15,24 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from planner.checks.bounds import check_ranges
 from planner.checks.caution import STANDING_CAUTION
+from planner.checks.finding import SEVERITIES, SEVERITY_RANK, Finding  # noqa: F401  (re-exported)
 from planner.correlations.friction import RE_LAMINAR_MAX, RE_TURBULENT_MIN
 from planner.correlations.heat_transfer import VISCOSITY_RATIO_MAX, VISCOSITY_RATIO_MIN
 from planner.correlations.ratings import temperature_class_limit
 from planner.line.heat_path import jacket_temperature
 from planner.line.march import Line, MarchResult
 from planner.scenario.schema import Scenario
-from planner.scenario.units import SI_UNITS
-from planner.scenario.wording import Q, Sentence, render
+from planner.scenario.wording import Q, Sentence
 from planner.transfer.plan import Plan
-from planner.transfer.pumps import HI_B_MAX
 from planner.transfer.vessels import destination_level
 
-SEVERITIES = ("info", "caution", "warning", "stop")
 PRODUCT_FAR_ABOVE_MAX_K = 50.0   # the product this far past its maximum is a stop, not a warning (planner choice)
-SEVERITY_RANK = {name: i for i, name in enumerate(SEVERITIES)}
 
 # Stated ranges of correlations the march uses (their sources; see heat_transfer.py, rheology.py)
 SIEDER_TATE_PR_MAX = 16700.0       # Sieder & Tate (1936): 0.48 < Pr < 16 700
 GNIELINSKI_PR_MAX = 2000.0         # Gnielinski (1976): 0.5 < Pr < 2000
-
-# SI unit of each quantity kind a finding may carry (for the JSON; "" when dimensionless)
-_SI_LABELS = {"temperature": "K", "pressure": "Pa", "length": "m", "head": "m", "power": "W", "time": "s",
-              "speed": "m/s", "linear_power": "W/m", "heat_transfer_coefficient": "W/(m2 K)",
-              "volume_flow": "m3/s", "volume": "m3", "dimensionless": ""}
-
-
-@dataclass
-class Finding:
-    """One finding.  ``value`` and ``limit`` are SI numbers of the kind ``quantity`` (temperature,
-    pressure, length, ...); ``message`` is a ``Sentence`` that renders in either unit system."""
-
-    code: str
-    severity: str
-    title: str
-    message: str
-    action: str
-    line: str | None = None
-    segment: str | None = None
-    at_m: float | None = None
-    value: float | None = None
-    limit: float | None = None
-    quantity: str = ""
-
-    @property
-    def unit(self) -> str:
-        """The SI unit of ``value`` and ``limit``."""
-        return _SI_LABELS.get(self.quantity, SI_UNITS.get(self.quantity, ""))
-
-    def where(self) -> dict:
-        return {"line": self.line, "segment": self.segment, "at_m": self.at_m}
-
-    def as_dict(self, system: str | None = None) -> dict:
-        """The finding as the JSON documents carry it (SI numbers); ``system`` renders the message in that
-        unit system, else it stays a ``Sentence`` (text in SI display units)."""
-        return {"code": self.code, "severity": self.severity, "title": self.title,
-                "message": self.message if system is None else render(self.message, system),
-                "where": self.where(), "value": self.value, "limit": self.limit, "quantity": self.quantity,
-                "unit": self.unit, "action": self.action}
 
 
 def _t(kelvin: float) -> Q:
@@ -446,20 +405,25 @@ def check_operating_point(plan: Plan) -> list[Finding]:
                            "Slow the pump or warm the product: running on the relief heats the product in the pump.",
                            value=op.point.pump_differential, limit=plan.scenario.pump.relief_setting,
                            quantity="pressure"))
-    if "motor_overloaded" in op.flags:
-        motor = plan.scenario.pump.motor_power
-        out.append(Finding("MOTOR-OVERLOAD", "stop", "Motor overloaded",
-                           Sentence("shaft power {p} is above the motor rating {limit}", p=Q(op.shaft_power, "power"),
-                                    limit=Q(motor, "power")),
-                           "Reduce speed or flow, warm the product, or fit a larger motor.",
-                           value=op.shaft_power, limit=motor, quantity="power"))
-    if op.hi_b is not None and not op.hi_in_range:
-        out.append(Finding("PUMP-HI-RANGE", "warning", "Viscosity correction outside its method",
-                           Sentence("ANSI/HI 9.6.7 parameter B = {b} is above {limit}: the corrected curve is an "
-                                    "extrapolation", b=Q(op.hi_b, "dimensionless", 1), limit=Q(HI_B_MAX, "dimensionless")),
-                           "Use the pump maker's viscous performance data, or a PD pump.",
-                           value=op.hi_b, limit=HI_B_MAX, quantity="dimensionless"))
+    out.extend(_motor_overload(plan))
     return out
+
+
+def _motor_overload(plan: Plan) -> list[Finding]:
+    """The highest shaft power above the motor's rating at any running point (the start or a timeline
+    increment) within the pump's method (beyond it, PUMP-HI-RANGE stands and the power is no figure)."""
+    over = [op for op in [plan.start, *plan.timeline.operating_points]
+            if "motor_overloaded" in op.flags and op.hi_in_range]
+    if not over:
+        return []
+    op = max(over, key=lambda o: o.shaft_power)
+    motor = plan.scenario.pump.motor_power
+    when = "" if op is plan.start else " during the transfer"
+    return [Finding("MOTOR-OVERLOAD", "stop", "Motor overloaded",
+                    Sentence("shaft power {p}" + when + " is above the motor rating {limit}", p=Q(op.shaft_power, "power"),
+                             limit=Q(motor, "power")),
+                    "Reduce speed or flow, warm the product, or fit a larger motor.",
+                    value=op.shaft_power, limit=motor, quantity="power")]
 
 
 def _sets_at_trickle(plan: Plan) -> list[Finding]:
@@ -619,7 +583,7 @@ def check_startup(plan: Plan) -> list[Finding]:
                                     w=hours(window)),
                            "Begin pre-warming earlier, or keep the line maintained between moves.",
                            value=plan.startup_time_s, limit=window, quantity="time"))
-    if plan.total_time_s is not None and plan.total_time_s > window:
+    if plan.total_time_s is not None and plan.total_time_s > window and plan.pump_beyond_method is None:
         out.append(Finding("TIME-OVER-WINDOW", "warning", "Plan longer than the window",
                            Sentence("start-up and transfer take {t}, the planned window is {w}",
                                     t=hours(plan.total_time_s), w=hours(window)),
@@ -702,7 +666,7 @@ def standing_caution() -> Finding:
 
 
 CHECKS = (check_operating_point, check_npsh, check_surfaces, check_pressures, check_product_temperature,
-          check_flow_regime, check_validity, check_tracing_capacity, check_times, check_calibration)
+          check_flow_regime, check_validity, check_tracing_capacity, check_times, check_calibration, check_ranges)
 
 
 def _ordered(found: list[Finding]) -> list[Finding]:

@@ -2,15 +2,19 @@
 results and ``plan --json`` (``key_figures``) show.
 
 A figure whose step cannot be carried out (start-up or transfer impossible) has no value and says
-why (``possible`` False, ``why``), never a partial total.
+why (``possible`` False, ``why``), never a partial total.  A figure made by a method beyond its range
+(a centrifugal pump beyond ANSI/HI 9.6.7: ``pump_withheld``) has no value either (``withheld`` True):
+the text, the JSON and the dashboard show the reason instead of a number.
 """
 
 from __future__ import annotations
 
+import dataclasses
 from dataclasses import dataclass
 
 from planner.scenario.wording import Q, Sentence
 from planner.transfer.plan import Plan
+from planner.transfer.pumps import HI_B_MAX
 from planner.transfer.system import OUTCOME_WORDS
 
 
@@ -25,6 +29,23 @@ class KeyFigure:
     possible: bool = True
     why: str = ""                # when not possible: the reason in words (a Sentence or plain words)
     unit: str = ""               # money: the currency
+    withheld: bool = False       # made by a method beyond its range: not shown (``why`` says which)
+
+
+# the key figures a centrifugal pump's curve makes (flow, times, pump energy and all that adds it up)
+# (its times set every energy drawn over the transfer too)
+PUMP_FIGURES = ("transfer_time", "total_time", "start_flow", "electrical_energy", "steam", "total_cost")
+
+
+def pump_withheld(plan: Plan) -> str:
+    """Why the figures the pump's curve makes are not shown ("" when they are): a running point beyond
+    ANSI/HI 9.6.7.  One definition for the key figures, the text and the JSON."""
+    op = plan.pump_beyond_method
+    if op is None:
+        return ""
+    return Sentence("the centrifugal pump is not rated for this viscosity (ANSI/HI 9.6.7 B = {b}, above {limit}); "
+                    "use the maker's viscous data or a PD pump", b=Q(op.hi_b, "dimensionless", 1),
+                    limit=Q(HI_B_MAX, "dimensionless"))
 
 
 @dataclass(frozen=True)
@@ -59,6 +80,9 @@ def _not_started_reason(plan: Plan) -> str:
         return Sentence("pre-warm: {m}", m=plan.prewarm_stuck)
     if plan.start_mode == "push_cold" and not plan.push_cold.possible:
         return Sentence("push-cold start: {m}", m=plan.push_cold.message)
+    push = plan.chosen_push
+    if push is not None and not push.hi_in_range:
+        return Sentence("start-up: {m}", m=push.message)
     if plan.startup_time_s is None:
         return "the start-up cannot be carried out"
     return ""
@@ -121,5 +145,11 @@ def _energy_and_cost(plan: Plan) -> list[KeyFigure]:
 
 
 def key_figures(plan: Plan) -> list[KeyFigure]:
-    """The plan's key figures (SI), in the order the dashboard shows them."""
-    return _times(plan) + _pump(plan) + _energy_and_cost(plan)
+    """The plan's key figures (SI), in the order the dashboard shows them; those the pump's curve makes
+    have no value when it runs beyond its method (``pump_withheld``)."""
+    figures = _times(plan) + _pump(plan) + _energy_and_cost(plan)
+    why = pump_withheld(plan)
+    if not why:
+        return figures
+    return [dataclasses.replace(k, value=None, note="", possible=False, why=why, withheld=True)
+            if k.key in PUMP_FIGURES else k for k in figures]

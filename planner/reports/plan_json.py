@@ -6,7 +6,7 @@ from planner.checks.caution import STANDING_CAUTION
 from planner.checks.findings import assess, worst_severity
 from planner.plain import plain
 from planner.reports.findings_text import findings_json, findings_lines, headline
-from planner.reports.key_figures import key_figures, outlet_rating
+from planner.reports.key_figures import key_figures, outlet_rating, pump_withheld
 from planner.scenario.wording import Q, Sentence, format_quantity, render
 from planner.transfer.plan import Plan
 
@@ -21,6 +21,8 @@ def start_dict(plan: Plan) -> dict:
         "relief_flow_m3_s": op.relief_flow, "hi_parameter_b": op.hi_b, "hi_in_range": op.hi_in_range,
         "pump_head_m": op.pump_head,
     }
+    if pump_withheld(plan):
+        doc.update(message=pump_withheld(plan), flow_m3_s=None, shaft_power_w=None, pump_head_m=None)
     if point is not None:
         doc.update({
             "suction_pressure_pa": point.suction_pressure, "discharge_pressure_pa": point.discharge_pressure,
@@ -50,8 +52,8 @@ def _startup_dict(plan: Plan, arrays: bool) -> dict:
 
 def key_figures_dict(plan: Plan) -> dict:
     """The key figures (SI): value, or null with the reason in ``why``."""
-    return {k.key: {"value": k.value, "quantity": k.quantity, "possible": k.possible, "why": k.why}
-            for k in key_figures(plan)}
+    return {k.key: {"value": k.value, "quantity": k.quantity, "possible": k.possible, "why": k.why,
+                    "withheld": k.withheld} for k in key_figures(plan)}
 
 
 def plan_json(plan: Plan, arrays: bool = True, findings: list | None = None) -> dict:
@@ -84,19 +86,61 @@ def plan_json(plan: Plan, arrays: bool = True, findings: list | None = None) -> 
     doc["hold"]["segments"] = [s.__dict__ for s in plan.hold.segments]
     if arrays:
         doc["timeline"]["arrays"] = {k: v.tolist() for k, v in t.arrays.items()}
+    _withhold_pump_figures(plan, doc)
     return plain(doc)
+
+
+# what a centrifugal pump's curve makes, by place in the plan JSON (withheld beyond ANSI/HI 9.6.7)
+# (the times it makes set every energy drawn over the transfer too)
+_PUMP_MADE = {"timeline": ("total_time_s",),
+              "energy": ("tracing_j", "tracing_kwh", "tracing_steam_kg", "pump_j", "pump_kwh", "vessel_heating_j",
+                         "vessel_heating_kwh", "vessel_heating_steam_kg", "electrical_j", "electrical_kwh", "steam_kg"),
+              "costs": ("electricity", "steam", "energy", "demurrage", "demurrage_hours", "total")}
+_PUMP_MADE_ARRAYS = ("time_s", "flow_m3_s", "shaft_power_w")
+
+
+def _withhold_pump_figures(plan: Plan, doc: dict) -> None:
+    """Beyond ANSI/HI 9.6.7 the figures the pump's curve makes are null (and the timeline's columns of
+    them left out), and ``withheld`` says why; the line's own figures (pressures, temperatures) stay."""
+    why = pump_withheld(plan)
+    doc["withheld"] = None
+    if not why:
+        return
+    for section, keys in _PUMP_MADE.items():
+        doc[section].update({key: None for key in keys})
+    doc["costs"]["complete"] = False
+    doc["total_time_s"] = None
+    for key in _PUMP_MADE_ARRAYS:
+        doc["timeline"].get("arrays", {}).pop(key, None)
+    for line in ("discharge_line", "suction_line"):
+        if doc["start"].get(line):
+            doc["start"][line].update(flow_m3_s=None, mass_flow_kg_s=None)
+    doc["withheld"] = {"why": why, "figures": [f"{section}.{key}" for section, keys in _PUMP_MADE.items()
+                                               for key in keys] + ["start.flow_m3_s", "start.shaft_power_w"]}
 
 
 def _q(value, kind, system, decimals=None) -> str:
     return format_quantity(value, kind, system, decimals)
 
 
-def _start_lines(plan: Plan, system: str) -> list[str]:
+def _status(plan: Plan, found: list) -> str:
+    """The start's status word, agreeing with the worst finding: a plan with a stop-level finding never
+    reads "ok" anywhere."""
+    return "STOP (see above)" if worst_severity(found) == "stop" else plan.start.status
+
+
+def _start_lines(plan: Plan, system: str, found: list) -> list[str]:
     op = plan.start
-    lines = [f"  start: {op.status} — {render(op.message, system)}"]
+    withheld = pump_withheld(plan)
+    lines = [f"  start: {_status(plan, found)} — {render(withheld or op.message, system)}"]
     if op.flags:
         lines.append(f"  flags: {', '.join(op.flags)}")
-    if op.point is not None and op.moving:
+    if withheld and op.point is not None:
+        p = op.point
+        lines.append(f"  flow, shaft power and pump energy not given; line at the start: discharge "
+                     f"{_q(p.discharge_pressure, 'pressure', system)} (gauge), suction "
+                     f"{_q(p.suction_pressure, 'pressure', system)} (gauge)")
+    elif op.point is not None and op.moving:
         p = op.point
         lines.append(f"  flow {_q(op.flow, 'volume_flow', system, 2)}, pump differential "
                      f"{_q(p.pump_differential, 'pressure', system)}, discharge {_q(p.discharge_pressure, 'pressure', system)} "
@@ -108,7 +152,9 @@ def _start_lines(plan: Plan, system: str) -> list[str]:
     return lines
 
 
-def _figure_text(k, system: str) -> str:
+def _figure_text(k, system: str, reason: bool = True) -> str:
+    if k.withheld:
+        return f"not given: {render(k.why, system)}" if reason else "not given"
     if not k.possible:
         return f"not possible: {render(k.why, system)}"
     if k.value is None:
@@ -122,11 +168,13 @@ def _transfer_lines(plan: Plan, system: str) -> list[str]:
     t = plan.timeline
     figures = {k.key: k for k in key_figures(plan)}
     lines = [f"  transfer: {_q(t.moved_m3, 'volume', system)} — {_figure_text(figures['transfer_time'], system)}"]
-    if len(t.arrays["flow_m3_s"]):
+    if len(t.arrays["flow_m3_s"]) and not pump_withheld(plan):
         q, src = t.arrays["flow_m3_s"], t.arrays["source_temperature_k"]
         lines.append(f"  flow from {_q(q[0], 'volume_flow', system)} to {_q(q[-1], 'volume_flow', system)}; source from "
                      f"{_q(src[0], 'temperature', system)} to {_q(src[-1], 'temperature', system)}")
-    startup = "not possible" if plan.startup_time_s is None else _q(plan.startup_time_s, "time", system, 2)
+    push = plan.chosen_push
+    startup = ("not given" if push is not None and not push.hi_in_range else
+               "not possible" if plan.startup_time_s is None else _q(plan.startup_time_s, "time", system, 2))
     lines.append(f"  start-up ({plan.start_mode}): {startup}; line starts at "
                  f"{_q(plan.line_start_temperature_k, 'temperature', system)}")
     lines.append(f"    pre-warm: {render(plan.prewarm.message, system)}")
@@ -136,7 +184,7 @@ def _transfer_lines(plan: Plan, system: str) -> list[str]:
     peak = plan.peak_discharge_pressure_pa
     if peak is not None:
         lines.append(f"  peak discharge pressure {_q(peak, 'pressure', system)} (gauge; running or at the start)")
-    lines.append(f"  total time: {_figure_text(figures['total_time'], system)} against a planned window of "
+    lines.append(f"  total time: {_figure_text(figures['total_time'], system, reason=False)} against a planned window of "
                  f"{_q(plan.scenario.schedule.planned_window, 'time', system, 2)}")
     return lines
 
@@ -155,10 +203,12 @@ def _hold_lines(plan: Plan, system: str) -> list[str]:
 
 def _energy_lines(plan: Plan, system: str) -> list[str]:
     e, c = plan.energy, plan.costs
+    figures = {k.key: k for k in key_figures(plan)}
+    if pump_withheld(plan):
+        return [f"  energy and cost: {_figure_text(figures['total_cost'], system)}"]
     lines = [f"  energy: tracing {_q(e.tracing_electric_j, 'energy', system)} / {_q(e.tracing_steam_kg, 'mass', system)} "
              f"steam, pump {_q(e.pump_j, 'energy', system)}, vessel heating {_q(e.vessel_heating_electric_j, 'energy', system)}"
              f" / {_q(e.vessel_heating_steam_kg, 'mass', system)} steam"]
-    figures = {k.key: k for k in key_figures(plan)}
     if c.complete:
         lines.append(f"  cost: energy {c.energy:,.2f} + demurrage {c.demurrage:,.2f} = {c.total:,.2f} {c.currency}")
     else:
@@ -173,7 +223,7 @@ def plan_text(plan: Plan, system: str = "SI", findings: list | None = None) -> s
     lines = [headline(found, system), "", plan.scenario.name, ""]
     lines += findings_lines(found, system)
     lines.append("")
-    lines += _start_lines(plan, system)
+    lines += _start_lines(plan, system, found)
     lines.append("")
     lines += _transfer_lines(plan, system) + _hold_lines(plan, system)
     lines.append("")

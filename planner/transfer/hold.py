@@ -9,10 +9,12 @@ over the gelled length (force balance on the plug, ``rheology.gelled_restart_pre
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 
 from planner.correlations.constants import GRAVITY
 from planner.correlations.rheology import gelled_restart_pressure
+from planner.scenario.schema import TEMPERATURE_CEILING_K
 from planner.transfer.system import TransferSystem
 from planner.line.tracing import Heater
 from planner.line.transients import evolve, gap_centre_after, gap_warmup
@@ -47,6 +49,7 @@ class Hold:
     gelled_restart_pressure_pa: float
     pump_pressure_limit_pa: float | None
     segments: list[HoldSegment] = field(default_factory=list)
+    too_hot: list[str] = field(default_factory=list)   # parts the tracing takes past TEMPERATURE_CEILING_K
 
 
 def limit_temperature(system: TransferSystem) -> tuple[float, str]:
@@ -107,10 +110,17 @@ def hold_analysis(system: TransferSystem, running_temperatures: dict[tuple[str, 
         rho = product.density(system.source.temperature)
         nu = product.kinematic_viscosity(system.source.temperature)
         pump_limit = system.pump.shut_off_head(nu) * rho * GRAVITY
-    return Hold(limit, reason, stop, t_on, t_off, who_on, who_off,
+    hold = Hold(limit, reason, stop, t_on, t_off, who_on, who_off,
                 all(s.after_stop_traced_k > limit for s in segments),
                 all(s.after_stop_failed_k > limit for s in segments),
                 gelled, pump_limit, segments)
+    for s in segments:
+        # a stagnant metre whose tracing has no thermostat can heat without end; past the ceiling the
+        # models (air, insulation, product data) do not hold: no figure, a stop (checks.bounds)
+        if s.after_stop_traced_k > TEMPERATURE_CEILING_K:
+            hold.too_hot.append(f"{s.line}: {s.segment}")
+            s.after_stop_traced_k = math.nan
+    return hold
 
 
 def _cooling(seg, heater, product, t0: float, limit: float, stop: float, on: bool) -> tuple[float | None, float]:

@@ -142,6 +142,22 @@ class Plan:
         return max(values) if values else None
 
     @property
+    def pump_beyond_method(self) -> OperatingPoint | None:
+        """The running operating point (the start or a timeline increment) with the highest ANSI/HI 9.6.7
+        parameter B, when some running point lies beyond the method (B at or above ``pumps.HI_B_MAX``);
+        None when every point is within it (or the pump is not centrifugal).  The figures its curve makes
+        (flows, shaft power, pump energy, times) are then not results."""
+        beyond = [op for op in [self.start, *self.timeline.operating_points] if op.hi_b is not None and
+                  not op.hi_in_range]
+        return max(beyond, key=lambda op: op.hi_b) if beyond else None
+
+    @property
+    def chosen_push(self) -> PushCold | None:
+        """The push-out of the chosen start-up: of the cold contents, or of the pre-warmed ones (None when
+        the start-up pushes nothing out)."""
+        return self.push_cold if self.start_mode == "push_cold" else self.after_prewarm
+
+    @property
     def ok(self) -> bool:
         return self.start.moving and self.timeline.completed
 
@@ -234,13 +250,13 @@ def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | No
             startup_time = None                     # contents set in an untraced part: nothing moves
         elif warm.possible and start.moving and contents < source.temperature:
             after_prewarm = push_cold(system, contents)
-            if after_prewarm.possible:
+            if after_prewarm.possible and after_prewarm.front_time_s is not None:
                 volume = sum(s.area * s.length for s in system.discharge_line.segments)
                 startup_time += max(0.0, after_prewarm.front_time_s - volume / start.flow)
             else:
                 startup_time = None
     else:
-        if cold.possible and start.moving and system.discharge_line is not None:
+        if cold.possible and cold.front_time_s is not None and start.moving and system.discharge_line is not None:
             volume = sum(s.area * s.length for s in system.discharge_line.segments)
             startup_time = max(0.0, cold.front_time_s - volume / start.flow)
         else:

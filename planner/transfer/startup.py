@@ -16,8 +16,9 @@ import dataclasses
 import math
 from dataclasses import dataclass, field
 
-from planner.line.march import Line
+from planner.line.march import TEMPERATURE_CEILING_K, Line
 from planner.line.route import LineSegment
+from planner.transfer.pumps import HI_B_MAX
 from planner.transfer.system import SystemState, TransferSystem
 from planner.line.tracing import Heater
 from planner.line.transients import evolve, gap_warmup
@@ -51,6 +52,7 @@ class Prewarm:
     message: str = ""
     stuck: list[str] = field(default_factory=list)      # parts whose contents stay set after the pre-warm
     stuck_message: str = ""
+    too_hot: list[str] = field(default_factory=list)    # parts the heater would take past TEMPERATURE_CEILING_K
 
 
 def prewarm_target(system: TransferSystem) -> float | None:
@@ -79,13 +81,28 @@ def _traced_entry(result: Prewarm, name: str, seg, heater: Heater, product, star
         result.segments.append(PrewarmSegment(name, seg.name, True, True, 0.0, start, 0.0))
         return 0.0
     r = evolve(seg, heater, product, start, PREWARM_HORIZON_S, True, target=target, rising=True)
-    result.segments.append(PrewarmSegment(name, seg.name, True, r.reached, r.time_s, r.settles_at_k,
+    result.segments.append(PrewarmSegment(name, seg.name, True, r.reached, r.time_s,
+                                          _settles(result, f"{name}: {seg.name}", heater, r.settles_at_k),
                                           r.energy_j_per_m * traced_m))
     result.energy_j += r.energy_j_per_m * traced_m
     if not r.reached:
         result.possible = False
         return None
     return r.time_s
+
+
+def _settles(result: Prewarm, part: str, heater: Heater, heading_k: float) -> float:
+    """Where a traced metre settles: a thermostat holds it at the setpoint, however far above that the
+    heater's full output would take it (``heading_k``: the transient's full-output equilibrium, never
+    reached under a thermostat).  Without one the metre goes on towards ``heading_k``; past
+    TEMPERATURE_CEILING_K that is beyond the models (air, insulation, product data) and the part is
+    listed in ``too_hot`` (NaN: no figure)."""
+    if heater.setpoint is not None:
+        return min(heading_k, heater.setpoint)
+    if heading_k > TEMPERATURE_CEILING_K:
+        result.too_hot.append(part)
+        return math.nan
+    return heading_k
 
 
 def _gap_entry(result: Prewarm, name: str, seg, product, start: float, ends: float, ready_s: float) -> None:
@@ -147,6 +164,10 @@ def _prewarm_messages(result: Prewarm, target: float, no_flow: float) -> None:
                                   settles=Q(worst.settles_at_k, "temperature", 0))
     else:
         result.message = Sentence("line ready after {t} of pre-warming", t=Q(result.time_s, "time"))
+        if result.too_hot:
+            result.message += Sentence("; with no thermostat the heater then takes {parts} on past {limit}, beyond the "
+                                       "planner's models", parts=", ".join(result.too_hot),
+                                       limit=Q(TEMPERATURE_CEILING_K, "temperature", 0))
         if result.untraced:
             result.message += Sentence("; untraced parts stay cold: {parts}", parts=", ".join(result.untraced))
         gaps = [s for s in result.segments if s.gap_m > 0.0]
@@ -191,6 +212,8 @@ class PushCold:
     front_time_s: float | None     # until warm product reaches the destination
     relief_lifts: bool
     rows: dict = field(default_factory=dict)   # front position steps: volume_fraction, flow, pressure, time
+    hi_b: float | None = None       # centrifugal pump: the highest ANSI/HI 9.6.7 B over the push's points
+    hi_in_range: bool = True        # False: some point lies beyond the method (no flow or time is given)
 
 
 def _front_position(segments: list[LineSegment], displaced_volume: float) -> float:
@@ -213,6 +236,7 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
                                         limit=Q(product.no_flow_temperature, "temperature")),
                         start_temperature, 0.0, "no_flow", math.nan, math.nan, math.nan, None, False)
     first = system.operating_point(state0)
+    points = [first]
     if not first.moving:
         return PushCold(False, Sentence("cold start: {m}", m=first.message), start_temperature, 0.0, first.status,
                         math.nan, math.nan, math.nan, None, False)
@@ -236,6 +260,7 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
                                    start_temperature, slopes_from=previous_plug)
         previous_plug = plugged
         op = plugged.operating_point(warm_state, guess=guess)
+        points.append(op)
         if not op.moving:
             return PushCold(False, Sentence("with the front at {x}: {m}", x=Q(x, "length"), m=op.message),
                             start_temperature, first.flow,
@@ -253,6 +278,8 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
         if len(rows_append) >= 3 and rows_append[-2][5] == op.status:
             guess = max(2.0 * latest - rows_append[-2][1], 0.5 * latest)
     time += (1.0 - rows_append[-1][0]) * volume / rows_append[-1][1]
+    if not all(p.hi_in_range for p in points):
+        return _push_beyond_pump_method(start_temperature, first, points, peak_p, peak_dp, relief)
     for row in rows_append:
         for key, value in zip(rows, row):
             rows[key].append(value)
@@ -263,4 +290,23 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
     if relief:
         message += " (relief valve lifts during the start)"
     return PushCold(True, message, start_temperature, first.flow, first.status, peak_p, peak_dp,
-                    first.point.npsh_available, time, relief, rows)
+                    first.point.npsh_available, time, relief, rows, _highest_b(points))
+
+
+def _highest_b(points) -> float | None:
+    values = [p.hi_b for p in points if p.hi_b is not None]
+    return max(values) if values else None
+
+
+def _push_beyond_pump_method(start_temperature: float, first, points, peak_p: float, peak_dp: float,
+                             relief: bool) -> PushCold:
+    """A push whose centrifugal pump runs beyond ANSI/HI 9.6.7 (B above its limit) at some front position:
+    its flow and time come from an extrapolated curve and are not given (NaN, None).  The pressures stay
+    for the rating checks: the corrected curve keeps the shut-off head of the water curve."""
+    b = _highest_b(points)
+    message = Sentence("starting against the line's contents at {t}: the centrifugal pump is not rated for their "
+                       "viscosity (ANSI/HI 9.6.7 B = {b}, above {limit}); no flow or time is given",
+                       t=Q(start_temperature, "temperature", 0), b=Q(b, "dimensionless", 1),
+                       limit=Q(HI_B_MAX, "dimensionless"))
+    return PushCold(True, message, start_temperature, math.nan, first.status, peak_p, peak_dp,
+                    first.point.npsh_available, None, relief, {}, b, False)

@@ -19,6 +19,7 @@ added to any of them.
 from __future__ import annotations
 
 import copy
+import math
 import dataclasses
 from dataclasses import dataclass, field
 
@@ -440,9 +441,14 @@ class TransferSystem:
         nu_pump = self.product.kinematic_viscosity(point.pump_inlet_temperature)
         head = pump.head(q, nu_pump)
         op = OperatingPoint(status, q, message, point, speed=spec.speed, pump_head=head)
-        op.shaft_power = pump.shaft_power(q, head, rho, nu_pump)
         curve = pump.viscous_curve(nu_pump)
         op.hi_b, op.hi_in_range = curve.correction.b, curve.correction.in_range
+        if op.hi_in_range or q == 0.0 or curve.efficiency_at(q) > 0.0:
+            op.shaft_power = pump.shaft_power(q, head, rho, nu_pump)
+        else:
+            # far beyond ANSI/HI 9.6.7 its extrapolated efficiency falls to 0: no power can be given
+            # (the stop PUMP-HI-RANGE says so, and the figures it would make are withheld)
+            op.shaft_power = math.inf
         return op
 
     def _no_flow(self, state, cache, q_low, message) -> OperatingPoint:
