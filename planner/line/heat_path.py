@@ -111,6 +111,15 @@ class WarmStart:
         self.at = self.wall_rate = self.jacket_rate = 0.0
         self.wall_full = self.jacket_full = self.full_at = None
 
+    def guess(self, at: float) -> tuple[float, float]:
+        """(wall, jacket) [K] to start from at ``at`` [m]: the last solution moved along its trend,
+        each by at most 1 K."""
+        ahead = at - self.at
+        drift = self.wall_rate * ahead
+        t_wall = self.t_wall + (1.0 if drift > 1.0 else (-1.0 if drift < -1.0 else drift))
+        drift = self.jacket_rate * ahead
+        return t_wall, self.t_jacket + (1.0 if drift > 1.0 else (-1.0 if drift < -1.0 else drift))
+
     def learn(self, at: float) -> None:
         """A step's midpoint was settled at ``at`` [m]: the next warm start follows the trend of the
         converged wall and jacket along the line."""
@@ -145,11 +154,7 @@ def settle(path: HeatPath, start: WarmStart, t_bulk: float, viscous: float, at: 
             g_inner = 1.0 / (1.0 / (h_in * film_area) + wall_r)
     else:
         newtonian = False
-    ahead = at - start.at
-    drift = start.wall_rate * ahead
-    t_wall = start.t_wall + (1.0 if drift > 1.0 else (-1.0 if drift < -1.0 else drift))
-    drift = start.jacket_rate * ahead
-    t_jacket = start.t_jacket + (1.0 if drift > 1.0 else (-1.0 if drift < -1.0 else drift))
+    t_wall, t_jacket = start.guess(at)
     mu_wall, mu_wall_at = start.mu_wall, start.mu_wall_at
     r_ins, ins_at, r_surf, surf_at = start.r_insulation, start.insulation_at, start.r_surface, start.surface_at
     heater = path.heater
