@@ -22,16 +22,10 @@ from planner.errors import PlannerError
 from planner.checks.findings import SEVERITY_RANK, assess, count_by_severity, worst_severity
 from planner.transfer.plan import make_plan, with_changes
 from planner.plain import plain
+from planner.checks.lever_values import LEVERS, check_values
 from planner.scenario.schema import Scenario
 from planner.scenario.wording import Q, Sentence, format_quantity, render
 
-LEVERS = {
-    # lever: (with_changes keyword, quantity kind, SI unit of its values)
-    "setpoint": ("setpoint", "temperature", "K"),
-    "steam_pressure": ("steam_pressure", "pressure", "Pa"),
-    "pump_speed": ("pump_speed", "rotational_speed", "rev/s"),
-    "flow_limit": ("flow_limit", "volume_flow", "m3/s"),
-}
 PARALLEL_MIN_ROWS = 4
 
 
@@ -93,7 +87,7 @@ def parse_range(text: str, max_values: int | None = None) -> list[float]:
 def _row(scenario: Scenario, lever: str, value: float, viscosity_factor: float, ambient_shift: float) -> dict:
     """One comparison row (runs in a worker process: the validated scenario in, plain data out; the
     scenario is pickled as it is, so a row never parses or validates it again; ``value`` SI)."""
-    keyword, _, unit = LEVERS[lever]
+    keyword, unit = LEVERS[lever].keyword, LEVERS[lever].si_unit
     row = {"value": value, "unit": unit, "ok": False}
     try:
         changed = with_changes(scenario, ambient_shift=ambient_shift, **{keyword: value})
@@ -257,7 +251,6 @@ def end_of_range_note(values: list[float], best: int | None, quantity: str, tied
 
 def _extendable(scenario: Scenario, lever: str):
     """Whether the lever's field takes a value (SI) at all: the range can be extended to it."""
-    from planner.checks.lever_values import check_values
 
     def takes(value: float) -> bool:
         try:
@@ -291,7 +284,7 @@ def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | N
 
         raise ValueError(f"values: give at least one value to compare (at most {active_budget().comparison_values})")
     _check_work(scenario, lever, values, sensitivity, ambient_shift, viscosity_uncertainty)
-    quantity = LEVERS[lever][1]
+    quantity = LEVERS[lever].kind
     cases = [(1.0, 0.0, "as given")]
     if sensitivity:
         shifted = lambda sign: Sentence("ambient {s}{d}", s=sign, d=Q(abs(ambient_shift), "temperature_difference"))  # noqa: E731
@@ -327,7 +320,6 @@ def _check_work(scenario: Scenario, lever: str, values, sensitivity: bool, ambie
                 viscosity_uncertainty: float) -> None:
     """Refuse before computing: values the lever's field refuses or given twice, bad sensitivity options, or
     work past the budget."""
-    from planner.checks.lever_values import check_values
     from planner.scenario.budget import BudgetError, comparison_problems, sensitivity_problems
 
     if not all(isinstance(v, (int, float)) and math.isfinite(v) for v in values):
@@ -342,7 +334,7 @@ def _check_work(scenario: Scenario, lever: str, values, sensitivity: bool, ambie
 def comparison_json(comparison: Comparison) -> dict:
     """The comparison as JSON: lever values and every figure in SI, each row's findings."""
     return plain({
-        "lever": comparison.lever, "quantity": comparison.quantity, "unit": LEVERS[comparison.lever][2],
+        "lever": comparison.lever, "quantity": comparison.quantity, "unit": LEVERS[comparison.lever].si_unit,
         "values": comparison.values, "rows": comparison.rows,
         "recommended_index": comparison.recommended, "recommended_value":
             None if comparison.recommended is None else comparison.rows[comparison.recommended]["value"],
