@@ -18,7 +18,7 @@ import os
 from concurrent.futures import ProcessPoolExecutor, as_completed
 from dataclasses import dataclass, field
 
-from planner.errors import PlannerError
+from planner.errors import PlannerError, quoted
 from planner.checks.findings import SEVERITY_RANK, assess, count_by_severity, worst_severity
 from planner.transfer.plan import make_plan, with_changes
 from planner.plain import plain
@@ -68,17 +68,17 @@ def parse_range(text: str, max_values: int | None = None) -> list[float]:
     if ":" in text:
         parts = _numbers(text.split(":"))
         if parts is None or len(parts) != 3 or parts[2] <= 0 or parts[1] < parts[0]:
-            raise ValueError(f"cannot read the range {text[:60]!r}: {usage}")
+            raise ValueError(f"cannot read the range {quoted(text)}: {usage}")
         start, stop, step = parts
         spans = (stop - start) / step      # may be inf for absurd ranges: compared before any floor()
         count = math.floor(spans + 1e-9) + 1 if spans <= max_values else math.inf
         if count > max_values:
-            raise ValueError(f"{text[:60]!r} makes {spans + 1:,.0f} values, more than the {max_values} allowed: "
+            raise ValueError(f"{quoted(text)} makes {spans + 1:,.0f} values, more than the {max_values} allowed: "
                              "use a coarser step or a shorter range")
         return [round(start + i * step, 10) for i in range(count)]
     values = _numbers([p for p in text.split(",") if p.strip()])
     if values is None:
-        raise ValueError(f"cannot read the values {text[:60]!r}: {usage}")
+        raise ValueError(f"cannot read the values {quoted(text)}: {usage}")
     if len(values) > max_values:
         raise ValueError(f"{len(values):,} values given, more than the {max_values} allowed: give fewer values")
     return values

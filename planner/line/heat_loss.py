@@ -41,9 +41,3 @@ def surface_resistance(seg: LineSegment, t_jacket: float) -> float:
     h_conv, h_rad = h_outer_cylinder(seg.jacket_diameter, t_jacket, seg.ambient_temperature,
                                      seg.wind_speed, seg.emissivity)
     return 1.0 / (PI * seg.jacket_diameter * (h_conv + h_rad) * seg.heat_loss_factor)
-
-
-def outer_conductance(seg: LineSegment, t_wall: float, t_jacket: float) -> tuple[float, float]:
-    """(conductance wall->surroundings [W/(m K)], insulation resistance [K m/W]) at a jacket guess."""
-    r_ins = insulation_resistance(seg, t_wall, t_jacket)
-    return 1.0 / (r_ins + surface_resistance(seg, t_jacket)), r_ins
