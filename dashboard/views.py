@@ -12,7 +12,7 @@ from planner.scenario.schema import Scenario
 from . import figures, tables
 from . import compute
 from .plaintext import plain, plain_table
-from planner.reports.findings_text import headline
+from planner.reports.findings_text import flag_words, headline, start_status
 from planner.scenario.wording import render
 
 from .display import (fit_quality_text, fmt, key_figures, label, law_parameters_text, to_display,
@@ -63,13 +63,13 @@ def status_line(bundle: dict, unit_system: str = "SI") -> None:
     timeline = bundle["plan"]["timeline"]
     findings = bundle.get("findings") or []
     head = headline(findings, unit_system)
-    message = (f"At the start: **{plain(words(start.get('status', '')))}** — "
+    worst = bundle["plan"].get("worst_severity", "info")
+    message = (f"At the start: **{plain(start_status(start.get('status', ''), worst))}** — "
                f"{plain(render(start.get('message', ''), unit_system))}")
     if start.get("flags"):
-        message += f" (flags: {plain(', '.join(start['flags']))})"
+        message += f" (flags: {plain(flag_words(start['flags']))})"
     if not timeline.get("completed"):
         message += f"  \nThe transfer stops: {plain(render(timeline.get('stop_reason', ''), unit_system))}"
-    worst = bundle["plan"].get("worst_severity", "info")
     box = {"stop": st.error, "warning": st.warning, "caution": st.info}.get(worst, st.success)
     box(f"**{plain(head)}**  \n{message}")
 

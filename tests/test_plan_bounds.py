@@ -22,7 +22,7 @@ from conftest import base_scenario, newtonian_product
 from planner.checks.bounds import check_bounds, temperature_bounds
 from planner.checks.findings import assess, worst_severity
 from planner.errors import PlannerError
-from planner.line.march import TEMPERATURE_CEILING_K
+from planner.scenario.schema import TEMPERATURE_CEILING_K
 from planner.reports.plan_json import plan_json, plan_text
 from planner.scenario.schema import parse_scenario_text, scenario_from_dict
 from planner.transfer.plan import make_plan
@@ -76,6 +76,20 @@ def test_every_status_line_agrees_with_the_worst_finding(cold_polyol):
     assert worst_severity(found) == "stop"
     assert not re.search(r"^\s+\S[^:\n]*: ok\b", text, flags=re.M), text        # e.g. "start: ok — ..."
     assert "  start: STOP" in text
+
+
+def test_the_dashboard_status_and_the_flags_agree_with_the_stop(cold_polyol):
+    """The dashboard's status line reads the start through the same words as the text (it said "At the
+    start: ok" under a STOP); a shaft power beyond HI 9.6.7 is no figure, so no motor flag is raised on it."""
+    from planner.reports.findings_text import flag_words, start_status
+
+    plan, found, text, doc = cold_polyol
+    assert start_status(doc["start"]["status"], doc["worst_severity"]) == "STOP (see above)"
+    assert start_status("relief_lifting", "warning") == "relief valve lifting"
+    assert flag_words(["motor_overloaded", "suction_starved"]) == "motor overloaded, suction starved"
+    assert "motor_overloaded" not in plan.start.flags and "flags:" not in text
+    views = (ROOT / "dashboard" / "views.py").read_text(encoding="utf-8")
+    assert "start_status(" in views and "flag_words(" in views
 
 
 def test_a_thermostatted_prewarm_never_reports_thousands_of_kelvin():

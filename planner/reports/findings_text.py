@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from planner.checks.findings import SEVERITIES, count_by_severity, worst_severity
 from planner.scenario.wording import format_quantity, render
+from planner.transfer.system import OUTCOME_WORDS
 
 HEADINGS = {"stop": "STOP", "warning": "WARNING", "caution": "CAUTION", "info": "INFORMATION"}
 MOST_SEVERE_FIRST = tuple(reversed(SEVERITIES))
@@ -100,3 +101,14 @@ def findings_lines(findings: list, system: str = "SI", indent: str = "  ") -> li
 def findings_json(findings: list, system: str | None = None) -> list[dict]:
     """Findings as the JSON documents carry them (SI numbers)."""
     return [f if isinstance(f, dict) else f.as_dict(system) for f in findings]
+
+
+def start_status(status: str, worst: str) -> str:
+    """The start's status in words, agreeing with the plan's worst severity ``worst``: a plan with a
+    stop-level finding never reads "ok" anywhere (the text's start line, the dashboard's status)."""
+    return "STOP (see above)" if worst == "stop" else OUTCOME_WORDS.get(status, status)
+
+
+def flag_words(flags) -> str:
+    """The start's flags (``OperatingPoint.flags``) in words, comma-separated."""
+    return ", ".join(OUTCOME_WORDS.get(flag, flag) for flag in flags)

@@ -5,7 +5,7 @@ from __future__ import annotations
 from planner.checks.caution import STANDING_CAUTION
 from planner.checks.findings import assess, worst_severity
 from planner.plain import plain
-from planner.reports.findings_text import findings_json, findings_lines, headline
+from planner.reports.findings_text import findings_json, findings_lines, flag_words, headline, start_status
 from planner.reports.key_figures import key_figures, outlet_rating, pump_withheld
 from planner.scenario.wording import Q, Sentence, format_quantity, render
 from planner.transfer.plan import Plan
@@ -123,18 +123,12 @@ def _q(value, kind, system, decimals=None) -> str:
     return format_quantity(value, kind, system, decimals)
 
 
-def _status(plan: Plan, found: list) -> str:
-    """The start's status word, agreeing with the worst finding: a plan with a stop-level finding never
-    reads "ok" anywhere."""
-    return "STOP (see above)" if worst_severity(found) == "stop" else plan.start.status
-
-
 def _start_lines(plan: Plan, system: str, found: list) -> list[str]:
     op = plan.start
     withheld = pump_withheld(plan)
-    lines = [f"  start: {_status(plan, found)} — {render(withheld or op.message, system)}"]
+    lines = [f"  start: {start_status(op.status, worst_severity(found))} — {render(withheld or op.message, system)}"]
     if op.flags:
-        lines.append(f"  flags: {', '.join(op.flags)}")
+        lines.append(f"  flags: {flag_words(op.flags)}")
     if withheld and op.point is not None:
         p = op.point
         lines.append(f"  flow, shaft power and pump energy not given; line at the start: discharge "

@@ -494,7 +494,8 @@ class TransferSystem:
 
     def _power_checks(self, op: OperatingPoint) -> None:
         motor = self.pump_spec.motor_power
-        if motor is not None and op.shaft_power > motor:
+        # beyond ANSI/HI 9.6.7 the shaft power is no figure (PUMP-HI-RANGE stands): nothing to flag on it
+        if motor is not None and op.hi_in_range and op.shaft_power > motor:
             op.flags.append("motor_overloaded")
 
 
