@@ -1,8 +1,10 @@
 """The coefficients of one march evaluation: hydraulics, the inside film and the heat path at one
 bulk temperature, over one stretch of a segment.
 
-Friction is Darcy's (``correlations.friction``) or the non-Newtonian laws of
-``correlations.rheology``; fittings (2-K or 3-K) are spread evenly over their segment; the viscous
+Friction is Darcy's (``correlations.friction``), in laminar flow the mean apparent factor of the
+hydrodynamic entrance over the stretch (Shah 1978: the entrance starts with the thermal one, at the
+route inlet and at every change of inside diameter), or the non-Newtonian laws of
+``correlations.rheology`` (fully developed); fittings (2-K or 3-K) are spread evenly over their segment; the viscous
 heating S is the frictional pressure loss times the volume flow.  The laminar film is the local
 coefficient of the thermal entrance averaged over the stretch (``heat_transfer.film_parts``); where
 a laminar stretch spans a wide range of distances from the entrance, the bulk-to-surroundings
@@ -16,7 +18,7 @@ import math
 from typing import NamedTuple
 
 from planner.correlations.constants import GRAVITY
-from planner.correlations.friction import darcy_friction
+from planner.correlations.friction import RE_LAMINAR_MAX, darcy_friction, darcy_laminar_developing
 from planner.correlations.heat_transfer import film_parts, nu_laminar_local_over
 from planner.correlations.rheology import pipe_flow_non_newtonian
 from planner.line.heat_path import HeatPath, WarmStart, settle
@@ -94,7 +96,10 @@ def evaluate(s: SegmentConstants, mass_flow: float, start: WarmStart, t_eval: fl
         mu = k_prod
         re = rho * velocity * d / mu
         f = darcy_friction(re, s.relative_roughness)
-        grad_friction = f * rho * velocity * velocity / (2.0 * d)
+        # laminar: the stretch's mean apparent factor of the hydrodynamic entrance (Shah 1978), which
+        # starts where the thermal entrance does; 64/Re far from it
+        f_drop = darcy_laminar_developing(re, from_d, to_d) if re <= RE_LAMINAR_MAX else f
+        grad_friction = f_drop * rho * velocity * velocity / (2.0 * d)
     else:
         product = s.product
         flow_nn = pipe_flow_non_newtonian(rho, velocity, d, k_prod, product.flow_index, product.yield_stress)

@@ -156,9 +156,13 @@ def _march_segment(s: SegmentConstants, mass_flow: float, start: WarmStart, cont
         grad_total = local.grad_friction + local.grad_fittings + local.grad_static
         p -= grad_total * dx
         x += dx
-        sheath = totals.add(s, local, dx, x, p, t_new)
+        # an untraced step loses what its own exact step says (the entrance-averaged G, not the
+        # midpoint's film): the summary's heat loss then closes the product's energy balance
+        loss = local.heat_loss if heater is not None else \
+            local.viscous_heating - local.heat_capacity_rate * (t_new - t) / dx
+        sheath = totals.add(s, local, dx, x, p, t_new, loss)
         if profiles is not None:
-            profiles.add(s, local, dx, x, t_new, p, grad_total, sheath)
+            profiles.add(s, local, dx, x, t_new, p, grad_total, sheath, loss)
         previous, at_previous = local, x - 0.5 * dx
         dx = control.entrance(control.after(dx, t, t_new, local.viscosity, local.conductance, local.wall.heater_state),
                               local, x - entry_x, d, s.thermostat)

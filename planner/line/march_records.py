@@ -100,15 +100,17 @@ class Totals:
         self.max_steps = max_steps   # the step meter; 0 once past TEMPERATURE_CEILING_K (the march stops)
         self.hot_at = None           # (what, temperature [K]) past the ceiling
 
-    def add(self, s: SegmentConstants, local: Coefficients, dx: float, x: float, p: float, t_new: float) -> float:
-        """Add one step ending at x; returns the heater sheath temperature of the step."""
+    def add(self, s: SegmentConstants, local: Coefficients, dx: float, x: float, p: float, t_new: float,
+            loss: float) -> float:
+        """Add one step ending at x, losing ``loss`` [W/m] to the surroundings; returns the heater
+        sheath temperature of the step."""
         heater, wall = s.heater, local.wall
         self.n += 1
         self.friction += local.grad_friction * dx
         self.fittings += local.grad_fittings * dx
         self.static += local.grad_static * dx
         self.trace += wall.q_trace * dx
-        self.loss += local.heat_loss * dx
+        self.loss += loss * dx
         self.viscous += local.viscous_heating * dx
         re = local.reynolds
         if re <= RE_LAMINAR_MAX:
@@ -181,14 +183,14 @@ class Profiles:
         self.rows = {k: [] for k in RECORDED}
 
     def add(self, s: SegmentConstants, local: Coefficients, dx: float, x: float, t: float, p: float, gradient: float,
-            sheath: float) -> None:
+            sheath: float, loss: float) -> None:
         wall, re = local.wall, local.reynolds
         self.node_x.append(x)
         self.node_t.append(t)
         self.node_p.append(p)
         values = (x - 0.5 * dx, s.seg.index, local.viscosity, re,
                   0 if re <= RE_LAMINAR_MAX else (1 if re < RE_TURBULENT_MIN else 2), local.velocity,
-                  wall.t_wall, local.t_jacket if s.shows_jacket else wall.t_wall, sheath, local.heat_loss,
+                  wall.t_wall, local.t_jacket if s.shows_jacket else wall.t_wall, sheath, loss,
                   wall.q_trace, wall.heater_state if s.heater is not None else HEATER_OFF, local.film_coefficient,
                   local.viscosity_ratio, gradient)
         for key, value in zip(RECORDED, values):

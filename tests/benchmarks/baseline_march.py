@@ -8,7 +8,8 @@ accuracy); only the way it is computed differs:
         m cp dT/dx = g_in (T_wall - T) + S            S = (dp/dx_friction + dp/dx_fittings) Q  [W/m]
         dp/dx     = -(dp/dx_friction + dp/dx_fittings + rho g dz/dx)                           [Pa/m]
 
-    friction   Darcy f: 64/Re (Re <= 2300), Colebrook by ``fluids.friction.friction_factor``
+    friction   Darcy f: 64/Re (Re <= 2300), in laminar flow the local factor of the developing
+               entrance (Shah 1978, written out and differentiated here), Colebrook by ``fluids.friction.friction_factor``
                (Re >= 4000), ``fluids.friction.Churchill_1977`` in between (the bands of
                ``planner.friction``) [Hagen-Poiseuille; Colebrook 1939; Churchill 1977 via fluids 1.3.1]
     fittings   K of every fitting at the local Re, ``fluids.fittings.Hooper2K`` (Di in inches) or
@@ -82,6 +83,39 @@ def darcy_friction_baseline(re: float, relative_roughness: float) -> float:
     if re >= RE_TURBULENT_MIN:
         return friction_factor(Re=re, eD=relative_roughness)
     return Churchill_1977(Re=re, eD=relative_roughness)
+
+
+def darcy_local_developing_baseline(re: float, z: float) -> float:
+    """Local Darcy factor of developing laminar flow z diameters from the entrance: the derivative of
+    Shah's (1978) apparent drop F(x+) = 4 x+ f_app Re, written out here (no library has it) and
+    differentiated numerically, F' / Re."""
+    a = 0.00021
+
+    def drop(xp: float) -> float:
+        root = math.sqrt(xp)
+        return 13.76 * root + (1.25 + 64.0 * xp - 13.76 * root) / (1.0 + a / (xp * xp))
+
+    xp = max(z, 1e-9) / re
+    h = 1e-4 * xp
+    return (drop(xp + h) - drop(xp - h)) / (2.0 * h) / re
+
+
+ENTRANCE_LUMP = 1e-4   # share of a segment starting a laminar entrance taken whole at its inlet state
+
+
+def _entrance_lump(product, mass_flow: float, seg, t: float, length: float) -> float:
+    """Pressure drop [Pa] over the first ``length`` of a laminar entrance at bulk temperature t:
+    Shah's apparent drop 4 x+ f_app Re times rho V^2 / 2 (nothing in turbulent flow, left to the RHS)."""
+    d = seg.inside_diameter
+    rho = product.density(t)
+    velocity = mass_flow / (rho * PI * d * d / 4.0)
+    re = rho * velocity * d / product.viscosity(t)
+    if re > RE_LAMINAR_MAX:
+        return 0.0
+    xp = length / d / re
+    root = math.sqrt(xp)
+    drop = 13.76 * root + (1.25 + 64.0 * xp - 13.76 * root) / (1.0 + 0.00021 / (xp * xp))
+    return drop * rho * velocity * velocity / 2.0
 
 
 def fittings_k_baseline(fittings: list[tuple[str, float]], method: str, re: float,
@@ -242,7 +276,8 @@ class _SegmentRHS:
             mu = k_prod
             re = rho * velocity * d / mu
             f = darcy_friction_baseline(re, seg.relative_roughness)
-            grad_friction = f * rho * velocity ** 2 / (2.0 * d)
+            f_drop = darcy_local_developing_baseline(re, (x - self.entry_x) / d) if re <= RE_LAMINAR_MAX else f
+            grad_friction = f_drop * rho * velocity ** 2 / (2.0 * d)
         else:
             nn = pipe_flow_non_newtonian(rho, velocity, d, k_prod, product.flow_index, product.yield_stress)
             re, mu, f, grad_friction = nn.reynolds, nn.apparent_viscosity, 4.0 * nn.fanning, nn.pressure_gradient
@@ -304,7 +339,13 @@ def baseline_march(line, flow: float, inlet_temperature: float, inlet_pressure: 
             entry_x, entry_d = seg.x_start, seg.inside_diameter
         method = fitting_method or _infer_fitting_method(seg)
         rhs = _SegmentRHS(seg, heater, product, mass_flow, method, entry_x)
-        sol = solve_ivp(rhs, (seg.x_start, seg.x_start + seg.length), y, method="RK45",
+        start = seg.x_start
+        if entry_x == seg.x_start and product.newtonian:
+            # the laminar entrance's local friction is singular at the inlet (as x^-1/2): its first
+            # ENTRANCE_LUMP of the segment is taken whole from Shah's apparent drop at the inlet state
+            start = seg.x_start + ENTRANCE_LUMP * seg.length
+            y = [y[0], y[1] - _entrance_lump(product, mass_flow, seg, y[0], start - seg.x_start)]
+        sol = solve_ivp(rhs, (start, seg.x_start + seg.length), y, method="RK45",
                         rtol=rtol, atol=list(atol), events=sets)
         evaluations += rhs.evaluations
         accepted += len(sol.t) - 1
