@@ -2,7 +2,7 @@
 
 The engine was rewritten for speed (one heat-path solver, per-line constants, memoised surface
 coefficients); its results must not move.  ``tests/reference/engine_reference.json`` holds what the
-engine of commit ``ead602d`` (the last commit before the rewrite) computed for the three demos'
+engine of the commit named in the file computed for the three demos'
 plans (as given, and started by pushing contents at 15 degC out) and for 200 generated lines marched at the default step; ``tests/test_engine_reference.py``
 compares the engine of today with it: temperatures within 0.05 K, pressures, flows, times and
 energies within 0.2 % (the planner's accuracy target for the steady march, planner choice).
