@@ -37,10 +37,11 @@ class SegmentConstants:
                  "slope", "t_ambient", "length", "density", "viscosity", "specific_heat", "conductivity",
                  "newtonian", "thermostat", "signature", "shows_jacket", "product")
 
-    def __init__(self, seg: LineSegment, heater: Heater, product: Product):
+    def __init__(self, seg: LineSegment, heater: Heater, product: Product, kept: dict | None = None):
+        """``kept``: heat-path values kept by path (``heat_path.HeatPath.key``), shared with other lines."""
         self.seg, self.product = seg, product
         self.heater = heater if heater.active else None
-        self.path = HeatPath(seg, heater, product.viscosity, product.newtonian)
+        self.path = HeatPath(seg, heater, product.viscosity, product.newtonian, kept)
         self.density, self.viscosity = product.density, product.viscosity
         self.specific_heat, self.conductivity = product.specific_heat, product.conductivity
         self.newtonian = product.newtonian

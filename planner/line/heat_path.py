@@ -22,8 +22,9 @@ One solver serves every caller:
 - a wall at a known temperature, for pre-warm, hold and the checks (``jacket_temperature``).
 
 The surface coefficient (air properties, natural and forced convection, radiation) is the dearest
-part; a ``HeatPath`` keeps it by jacket temperature on a 0.02 K grid (``SURFACE_GRID_PER_K``),
-computed at the grid point itself so that a value never depends on what was asked before.
+part; a ``HeatPath`` keeps it by jacket temperature on a 0.25 K grid (``SURFACE_GRID_PER_K``),
+computed at the grid points themselves and interpolated linearly between them, so that a value never
+depends on what was asked before.
 """
 
 from __future__ import annotations
@@ -41,7 +42,7 @@ WALL_VISCOSITY_BAND_K = 0.02     # mu_w is taken within this of the wall the eva
                                  # viscosity left 0.3 K off made G jitter by 0.2 % from step to step,
                                  # which the step control then chased on fine grids (a thermostat holding)
 INSULATION_BAND_K = 0.1          # k(T_mean) of the layers moves little over 0.05 K of mean temperature
-SURFACE_GRID_PER_K = 50.0        # surface resistance kept on a 0.02 K grid of jacket temperature
+SURFACE_GRID_PER_K = 4.0         # surface conductance kept on a 0.25 K grid of jacket temperature, interpolated
 ENTRANCE_GRID_PER_K = 100.0      # entrance jackets kept on a 0.01 K grid of bulk temperature
 MAX_ITERATIONS = 40
 RIGID_CONDUCTANCE = 1e9          # W/(m K): a path part with no resistance (no wall, a wall held at a value)
@@ -54,9 +55,11 @@ class HeatPath:
     __slots__ = ("seg", "heater", "t_ambient", "wall_resistance", "has_layers", "buried", "soil_resistance",
                  "film_area", "viscosity", "newtonian", "_surface", "_entrance")
 
-    def __init__(self, seg: LineSegment, heater: Heater | None, viscosity=None, newtonian: bool = True):
+    def __init__(self, seg: LineSegment, heater: Heater | None, viscosity=None, newtonian: bool = True,
+                 kept: dict | None = None):
         """``heater``: the segment's heating (None: untraced); ``viscosity``: the product's law
-        mu(T) [Pa s], for the film's wall viscosity."""
+        mu(T) [Pa s], for the film's wall viscosity; ``kept``: a dict shared by heat paths of other
+        lines of the same product and heating, whose equal paths (``key``) share their kept values."""
         self.seg = seg
         self.heater = heater if heater is not None and heater.active else None
         self.t_ambient = seg.ambient_temperature
@@ -67,18 +70,31 @@ class HeatPath:
         self.film_area = PI * seg.inside_diameter      # inside surface per metre
         self.viscosity = viscosity
         self.newtonian = newtonian
-        self._surface: dict[int, float] = {}
-        self._entrance: dict[int, float] = {}
+        self._surface, self._entrance = ({}, {}) if kept is None else kept.setdefault(self.key(), ({}, {}))
+
+    def key(self) -> tuple:
+        """What the kept values depend on: the path's make-up, surroundings and heating (not its length)."""
+        seg, heater = self.seg, self.heater
+        return (seg.inside_diameter, seg.wall_resistance, seg.jacket_diameter, seg.emissivity, seg.location,
+                seg.ambient_temperature, seg.wind_speed, seg.soil_resistance, seg.heat_loss_factor,
+                tuple((layer.log_ratio, layer.conductivity, layer.material) for layer in seg.layers),
+                None if heater is None else (heater.fraction, tuple(heater.pieces), heater.setpoint, heater.sensing))
 
     def surface_resistance(self, t_jacket: float) -> float:
-        """Jacket surface to surroundings [K m/W] (``heat_loss.surface_resistance``) at the nearest
-        grid point of jacket temperature."""
+        """Jacket surface to surroundings [K m/W] (``heat_loss.surface_resistance``): interpolated
+        linearly in the surface conductance between the grid points of jacket temperature either side
+        (``SURFACE_GRID_PER_K``), each worked out at the grid point itself."""
         if self.buried:
             return self.soil_resistance
-        key = round(t_jacket * SURFACE_GRID_PER_K)
+        position = t_jacket * SURFACE_GRID_PER_K
+        below = math.floor(position)
+        share = position - below
+        return 1.0 / ((1.0 - share) * self._surface_conductance(below) + share * self._surface_conductance(below + 1))
+
+    def _surface_conductance(self, key: int) -> float:
         value = self._surface.get(key)
         if value is None:
-            value = self._surface[key] = surface_resistance(self.seg, key / SURFACE_GRID_PER_K)
+            value = self._surface[key] = 1.0 / surface_resistance(self.seg, key / SURFACE_GRID_PER_K)
         return value
 
 
@@ -237,7 +253,9 @@ def jacket_temperature(seg: LineSegment, t_wall: float, tolerance: float = 1e-3)
     """The outward path at a known wall temperature ``t_wall`` [K] (pre-warm, hold, checks).
 
     Returns (jacket temperature [K], heat loss [W/m])."""
-    path = HeatPath(seg, None)
+    path = seg.__dict__.get("_outward_path")
+    if path is None:   # kept on the segment: pre-warm and hold ask it at many wall temperatures
+        path = seg.__dict__["_outward_path"] = HeatPath(seg, None)
     start = _fresh_start(path, t_wall)
     _, _, _, q_out, _, _ = settle(path, start, t_wall, 0.0, 0.0, None, RIGID_CONDUCTANCE, tolerance)
     return start.t_jacket, q_out

@@ -47,14 +47,19 @@ class Line:
     """Segments, product and heating bundled for repeated marches: the heaters and the segments'
     constants (and the heat paths' kept surface coefficients) are built once."""
 
-    def __init__(self, segments: list[LineSegment], product: Product, tracing, name: str = "route"):
+    def __init__(self, segments: list[LineSegment], product: Product, tracing, name: str = "route",
+                 kept: dict | None = None):
+        """``kept``: the heat paths' kept values of another line of the same product and heating
+        (``Line.kept``), shared by segments whose heat path is the same: a line cut into pieces (the
+        push-cold start's warm head and cold tail) need not work them out again."""
         self.segments = segments
         self.product = product
         self.tracing = tracing
         self.name = name   # the scenario section of its segments ("route" or "suction"), for messages
         self.heaters = [Heater(tracing, s.traced_fraction, s.ambient_temperature) for s in segments]
         self.length = sum(s.length for s in segments)
-        self.constants = [SegmentConstants(seg, heater, product) for seg, heater in zip(segments, self.heaters)]
+        self.kept = {} if kept is None else kept
+        self.constants = [SegmentConstants(seg, heater, product, self.kept) for seg, heater in zip(segments, self.heaters)]
         # a new thermal entrance at the inlet and at every change of inside diameter
         self.entrances, entry_d = [], None
         for seg in segments:

@@ -256,7 +256,9 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
         fraction = k / positions
         x = _front_position(segments, fraction * volume)
         head, tail = split_segments(segments, x)
-        plugged = system.with_plug(Line(head, product, system.tracing), Line(tail, product, system.tracing),
+        kept = system.discharge_line.kept
+        plugged = system.with_plug(Line(head, product, system.tracing, kept=kept),
+                                   Line(tail, product, system.tracing, kept=kept),
                                    start_temperature, slopes_from=previous_plug)
         previous_plug = plugged
         op = plugged.operating_point(warm_state, guess=guess)
