@@ -174,6 +174,7 @@ def _crossing(centre, target: float, rising: bool) -> float | None:
 
 GAP_HORIZON_S = 30 * 86400.0
 GAP_TERMS = 400
+SHORTEST_GAP_M = 1e-3   # shorter untraced gaps take their ends' temperature at once
 
 
 def _gap_centre(gap_m: float, u: float, ka: float, capacity: float, t_start: float, t_ends: float, t_amb: float):
@@ -182,6 +183,9 @@ def _gap_centre(gap_m: float, u: float, ka: float, capacity: float, t_start: flo
     (4 / (n pi)) [(t_amb - t_start) + (t_ends - t_amb) k^2 / (k^2 + m^2)], k = n pi / L, decaying at
     (u + ka k^2) / capacity; the series is summed in closed form term by term (exact for frozen
     coefficients)."""
+    if gap_m < SHORTEST_GAP_M:
+        # a gap this short follows its ends at once (its slowest mode decays in well under a second)
+        return t_ends, lambda time: t_ends
     m2 = u / ka
     m_half = math.sqrt(m2) * gap_m / 2.0
     settles = t_amb + (t_ends - t_amb) / math.cosh(m_half) if m_half < 700.0 else t_amb
