@@ -56,7 +56,7 @@ def _public_correlations():
                 continue
             if getattr(obj, "__module__", None) != module.__name__:
                 continue                     # imported from elsewhere
-            if inspect.isclass(obj) and obj.__doc__ and "record" in obj.__doc__.split("\n")[0].lower():
+            if inspect.isclass(obj) and re.search(r"\b(record|result)\b", (obj.__doc__ or "").split("\n")[0], re.I):
                 continue                     # a plain result record, not a correlation
             yield module.__name__, name, obj
 
