@@ -97,6 +97,19 @@ def hi_parameter_b(kinematic_viscosity_m2_s: float, bep_head_m: float, bep_flow_
     Valid range: the method was fitted to data from about 1 to 3000 cSt; the caller decides
     whether to report viscosities outside that band.
     Source: [1] (via a secondary summary).
+
+    Examples
+    --------
+    200 cSt, 50 m and 200 m^3/h at the BEP, 2950 rpm: B = 5.544 by hand from [1]
+    (../shared/REFERENCES.md [calc]):
+
+    >>> round(hi_parameter_b(200e-6, 50.0, 200.0 / 3600.0, 2950.0 / 60.0), 3)
+    5.544
+
+    References
+    ----------
+    [1] ANSI/HI 9.6.7, Rotodynamic Pumps - Guideline for Effects of Liquid Viscosity on Performance,
+        Hydraulic Institute, 2010/2015 (formulas via a secondary summary of the standard).
     """
     nu_cst = _positive("kinematic viscosity", kinematic_viscosity_m2_s) * _M2_S_TO_CST
     head = _positive("BEP head", bep_head_m)
@@ -143,6 +156,20 @@ def hi_correction(b: float, flow_ratio: float = 1.0) -> HICorrection:
     flow_ratio: Q_water / Q_BEP,water of the water point being corrected [-], >= 0.
     Returns an ``HICorrection``.
     Source: [1] (via a secondary summary).
+
+    Examples
+    --------
+    B = 5.544 (200 cSt, see ``hi_parameter_b``): C_Q = 0.9373 and C_eta = 0.7368 by hand from [1]
+    (../shared/REFERENCES.md [calc]):
+
+    >>> c = hi_correction(5.544)
+    >>> round(c.c_q, 4), round(c.c_eta, 4), c.in_range
+    (0.9373, 0.7368, True)
+
+    References
+    ----------
+    [1] ANSI/HI 9.6.7, Rotodynamic Pumps - Guideline for Effects of Liquid Viscosity on Performance,
+        Hydraulic Institute, 2010/2015 (formulas via a secondary summary of the standard).
     """
     b = _positive("B", b)
     flow_ratio = _non_negative("flow ratio", flow_ratio)

@@ -38,7 +38,26 @@ def _segment_area(radius: float, level: float) -> float:
 
 
 def level_from_volume(vessel: Vessel, volume: float) -> float:
-    """Liquid level above the vessel bottom [m] for a volume of contents [m3]."""
+    """Liquid level above the vessel bottom [m] for a volume of contents [m3].
+
+    Examples
+    --------
+    A horizontal cylinder 2 m across, 5 m long, filled to a quarter of its diameter holds the
+    fraction (theta - sin theta) / (2 pi) = 0.19550 of its volume, theta = 2 acos(1 - 2 h/D) (the
+    circular segment [1], by hand); half its volume puts the level at the axis:
+
+    >>> import math
+    >>> from planner.scenario.schema import Vessel
+    >>> tank = Vessel(shape="horizontal_cylinder", diameter="2 m", length="5 m", initial_volume="10 m3",
+    ...               volume_to_move="5 m3", temperature="20 degC")
+    >>> round(level_from_volume(tank, 0.19550 * math.pi * 5.0), 3), round(level_from_volume(tank, math.pi * 2.5), 6)
+    (0.5, 1.0)
+
+    References
+    ----------
+    [1] Perry's Chemical Engineers' Handbook, 8th ed., McGraw-Hill, 2008, section 10 (volumes of
+        partially filled horizontal cylinders; the segment area r^2 acos((r-h)/r) - (r-h) sqrt(2rh - h^2)).
+    """
     volume = max(volume, 0.0)
     if vessel.shape == "vertical_cylinder":
         return volume / (math.pi * vessel.diameter ** 2 / 4.0)
@@ -70,7 +89,27 @@ def level_from_volume(vessel: Vessel, volume: float) -> float:
 
 
 def wetted_area(vessel: Vessel, volume: float) -> float:
-    """Shell area in contact with the liquid [m2] (the lumped loss area)."""
+    """Shell area in contact with the liquid [m2] (the lumped loss area).
+
+    Examples
+    --------
+    A vertical cylinder 2 m across holding pi m^3 (level 1 m): wall pi x 2 x 1 plus bottom pi =
+    9.425 m^2; a horizontal one 2 m x 5 m half full: half the shell, pi x 1 x 5, plus two half ends,
+    pi = 18.850 m^2 (by hand, [1]):
+
+    >>> import math
+    >>> from planner.scenario.schema import Vessel
+    >>> upright = Vessel(diameter="2 m", initial_volume="10 m3", volume_to_move="5 m3", temperature="20 degC")
+    >>> lying = Vessel(shape="horizontal_cylinder", diameter="2 m", length="5 m", initial_volume="10 m3",
+    ...                volume_to_move="5 m3", temperature="20 degC")
+    >>> round(wetted_area(upright, math.pi), 3), round(wetted_area(lying, math.pi * 2.5), 3)
+    (9.425, 18.85)
+
+    References
+    ----------
+    [1] Perry's Chemical Engineers' Handbook, 8th ed., McGraw-Hill, 2008, section 10 (partially
+        filled horizontal cylinders).
+    """
     level = level_from_volume(vessel, volume)
     if vessel.shape == "vertical_cylinder":
         return math.pi * vessel.diameter * level + math.pi * vessel.diameter ** 2 / 4.0
@@ -83,7 +122,21 @@ def wetted_area(vessel: Vessel, volume: float) -> float:
 
 def cool_contents(temperature: float, mass: float, specific_heat: float, ua: float, t_ambient: float,
                   heating_power: float, dt: float) -> float:
-    """Contents temperature after ``dt`` seconds of the lumped balance (exact for frozen coefficients)."""
+    """Contents temperature after ``dt`` seconds of the lumped balance (exact for frozen coefficients).
+
+    Examples
+    --------
+    50 t at 2000 J/(kg K) and 80 degC, UA 400 W/K to 10 degC air, two hours: Newton's law of cooling
+    [1], 10 + 70 exp(-400 x 7200 / 1e8) = 78.01 degC (by hand):
+
+    >>> round(cool_contents(353.15, 50_000.0, 2000.0, 400.0, 283.15, 0.0, 7200.0) - 273.15, 2)
+    78.01
+
+    References
+    ----------
+    [1] Incropera, F. P., DeWitt, D. P., Fundamentals of Heat and Mass Transfer, Wiley, section 5.1
+        (the lumped capacitance method).
+    """
     return _lumped(temperature, mass * specific_heat, ua, t_ambient, heating_power, dt)
 
 
@@ -166,7 +219,29 @@ def _electric_step(t: float, mcp: float, ua: float, t_amb: float, heat: SourceHe
 def heat_contents(temperature: float, mass: float, specific_heat: float, ua: float, t_ambient: float,
                   heat: SourceHeating, dt: float) -> tuple[float, float]:
     """Contents temperature after ``dt`` [s] with the shell loss ``ua`` [W/K] and the heating, and the
-    heat the heating delivered [J] (the lumped balance in closed form, coefficients frozen)."""
+    heat the heating delivered [J] (the lumped balance in closed form, coefficients frozen).
+
+    Examples
+    --------
+    A tonne at 2000 J/(kg K), no shell loss, one hour: 10 kW electric heating adds 36 MJ, 18 K; a steam
+    coil of UA 100 W/K at 416.88 K (3 barg, IAPWS-IF97 [2]) brings it to 416.88 - 123.73
+    exp(-100 x 3600 / 2e6) = 313.53 K, and the heat it delivered is what the contents gained,
+    2e6 x 20.38 = 40.76 MJ (energy balance [1], by hand):
+
+    >>> electric = SourceHeating("electric", 10e3, 400.0)
+    >>> heat_contents(293.15, 1000.0, 2000.0, 0.0, 293.15, electric, 3600.0)
+    (311.15, 36000000.0)
+    >>> t, delivered = heat_contents(293.15, 1000.0, 2000.0, 0.0, 293.15,
+    ...                              SourceHeating("steam", 10e3, 416.88, coil_ua=100.0), 3600.0)
+    >>> round(t, 2), round(delivered / 1e6, 2)
+    (313.53, 40.76)
+
+    References
+    ----------
+    [1] Incropera, F. P., DeWitt, D. P., Fundamentals of Heat and Mass Transfer, Wiley, section 5.1
+        (the lumped capacitance method).
+    [2] IAPWS R7-97(2012), Revised Release on the IAPWS Industrial Formulation 1997, section 8.
+    """
     mcp = mass * specific_heat
     if not heat.active:
         return cool_contents(temperature, mass, specific_heat, ua, t_ambient, 0.0, dt), 0.0
@@ -184,4 +259,20 @@ def heat_contents(temperature: float, mass: float, specific_heat: float, ua: flo
 
 
 def destination_level(dest: Destination, added_volume: float) -> float:
+    """Level [m] of the receiving tank (a vertical cylinder) after ``added_volume`` [m3].
+
+    Examples
+    --------
+    pi m^3 into a tank 2 m across standing at 1 m raises it by V / (pi D^2 / 4) = 1 m [1]:
+
+    >>> import math
+    >>> from planner.scenario.schema import Destination
+    >>> destination_level(Destination(diameter="2 m", initial_level="1 m"), math.pi)
+    2.0
+
+    References
+    ----------
+    [1] Volume of a cylinder, any geometry text; e.g. Perry's Chemical Engineers' Handbook, 8th ed.,
+        section 10.
+    """
     return dest.initial_level + added_volume / (math.pi * dest.diameter ** 2 / 4.0)
