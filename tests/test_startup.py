@@ -1,0 +1,26 @@
+"""planner.transfer.startup: pre-warm and pushing the cold contents out.
+
+Untraced gaps in the pre-warm are checked in test_prewarm_gaps.py."""
+
+from __future__ import annotations
+
+from conftest import plan_scenario
+from planner.scenario.schema import scenario_from_dict
+from planner.transfer.system import SystemState, TransferSystem
+
+
+def test_push_cold_leaves_the_shared_system_unchanged():
+    # issue 9: pushing the cold plug out works on a copy (TransferSystem.with_plug); the system the
+    # timeline and hold use afterwards gives the same operating point as before
+    from planner.transfer.startup import push_cold
+
+    scenario = scenario_from_dict(plan_scenario())
+    system = TransferSystem(scenario)
+    state = SystemState(scenario.source.temperature, scenario.source.initial_volume)
+    before = system.at_flow(0.002, state)
+    push = push_cold(system, scenario.source.temperature - 15.0)
+    assert push.rows or not push.possible
+    assert system.plug is None
+    after = system.at_flow(0.002, state)
+    assert after.discharge_pressure == before.discharge_pressure
+    assert after.outlet_temperature == before.outlet_temperature
