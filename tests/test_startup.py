@@ -4,6 +4,8 @@ Untraced gaps in the pre-warm are checked in test_prewarm_gaps.py."""
 
 from __future__ import annotations
 
+import pytest
+
 from conftest import plan_scenario
 from planner.scenario.schema import scenario_from_dict
 from planner.transfer.system import SystemState, TransferSystem
@@ -24,3 +26,16 @@ def test_push_cold_leaves_the_shared_system_unchanged():
     after = system.at_flow(0.002, state)
     assert after.discharge_pressure == before.discharge_pressure
     assert after.outlet_temperature == before.outlet_temperature
+
+
+def test_a_constant_wattage_prewarm_uses_the_heater_output_over_the_time():
+    # the heater runs at its full 100 W/m over the traced length until the line is ready (energy = P t L)
+    from planner.transfer.startup import prewarm
+
+    data = plan_scenario()
+    data["tracing"] = {"kind": "electric_constant", "output": "100 W/m", "setpoint": 45.0}
+    data["route"]["segments"][0]["insulation"] = [{"conductivity": 0.04, "thickness": 50}]
+    data["source"]["temperature"] = 40.0
+    warm = prewarm(TransferSystem(scenario_from_dict(data)), 283.15)
+    assert warm.possible and warm.time_s > 0
+    assert warm.energy_j == pytest.approx(100.0 * warm.time_s * 200.0, rel=1e-9)

@@ -32,3 +32,16 @@ def test_source_vessel_cools_by_the_lumped_exponential_law():
     mass = 1100.0 * 500.0
     expected = 293.15 + 40.0 * math.exp(-5.0 * area * timeline.total_time_s / (mass * 2000.0))
     assert timeline.arrays["source_temperature_k"][-1] == pytest.approx(expected, abs=0.02)
+
+
+@pytest.mark.parametrize("fill", [0.05, 0.25, 0.5, 0.8, 0.97])
+def test_horizontal_cylinder_level_inverts_the_circular_segment(fill):
+    # a horizontal cylinder filled to h of its diameter D holds (theta - sin theta) / (2 pi) of its volume,
+    # theta = 2 acos(1 - 2h/D) (the circular segment; Perry's Handbook, section 10)
+    from planner.scenario.schema import Vessel
+
+    tank = Vessel(shape="horizontal_cylinder", diameter="2.6 m", length="12 m", initial_volume="50 m3",
+                  volume_to_move="20 m3", temperature="20 degC")
+    theta = 2 * math.acos(1 - 2 * fill)
+    volume = (theta - math.sin(theta)) / (2 * math.pi) * math.pi * 1.3 ** 2 * 12.0
+    assert level_from_volume(tank, volume) == pytest.approx(fill * 2.6, abs=1e-9)
