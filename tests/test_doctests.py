@@ -82,12 +82,15 @@ MODEL_FUNCTIONS = [
     "planner.transfer.vessels.cool_contents",
     "planner.transfer.vessels.heat_contents",
     "planner.transfer.vessels.destination_level",
+    "planner.transfer.vessels.source_heating",
     "planner.transfer.system.TransferSystem",
     "planner.transfer.timeline",           # run_transfer: its example is the module's (the function is near 80 lines)
     "planner.transfer.startup",            # prewarm and push_cold
     "planner.transfer.hold",               # hold_analysis
     "planner.transfer.pumps.hi_parameter_b",
     "planner.transfer.pumps.hi_correction",
+    "planner.transfer.pumps.CentrifugalPump",
+    "planner.transfer.pumps.PositiveDisplacementPump",
     "planner.transfer.plan",               # make_plan
 ]
 

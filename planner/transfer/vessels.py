@@ -165,6 +165,34 @@ def coil_steam_pressure(scenario: Scenario) -> float:
 
 
 def source_heating(scenario: Scenario) -> SourceHeating:
+    """The source's heating medium: steam coils sized to the rated power at the starting temperature,
+    UA_coil = P / (T_sat - T_start), T_sat at the coils' supply pressure; or electric up to its cut-out.
+
+    Examples
+    --------
+    100 kW of coils on 3 barg steam in contents at 40 degC: T_sat = 416.88 K (IAPWS-IF97 [1], iapws
+    1.5.5 ``_TSat_P``), UA_coil = 1e5 / (416.88 - 313.15) = 964.0 W/K (by hand):
+
+    >>> from planner.scenario.schema import scenario_from_dict
+    >>> scenario = scenario_from_dict({"schema_version": 1, "name": "example",
+    ...     "site": {"name": "bench", "ambient_temperature": 20.0, "wind_speed": 0.0},
+    ...     "product": {"name": "oil", "density": 900.0, "density_slope": 0.0, "specific_heat": 2000.0,
+    ...                 "thermal_conductivity": 0.13, "no_flow_temperature": -40.0, "max_temperature": 200.0,
+    ...                 "viscosity": {"law": "andrade", "coefficients": {"a": 0.0, "b": 0.0}}},
+    ...     "route": {"segments": [{"name": "run", "nps": "2", "schedule": "40", "length": 100.0}]},
+    ...     "operation": {"flow": "4.5 m3/h", "inlet_temperature": 40.0},
+    ...     "pump": {"kind": "positive_displacement", "speed": "300 rpm", "displacement": "0.25 L"},
+    ...     "source": {"diameter": "5 m", "initial_volume": "60 m3", "volume_to_move": "45 m3", "temperature": 40.0,
+    ...                "heating_power": "100 kW", "heating_steam_pressure": "3 bar"},
+    ...     "destination": {"diameter": "5 m", "initial_level": "0 m", "inlet": "top"}})
+    >>> heat = source_heating(scenario)
+    >>> heat.medium, round(heat.limit_k, 2), round(heat.coil_ua, 1)
+    ('steam', 416.88, 964.0)
+
+    References
+    ----------
+    [1] IAPWS R7-97(2012), Revised Release on the IAPWS Industrial Formulation 1997, section 8.
+    """
     source = scenario.source
     if source.heating_medium == "steam":
         t_sat = saturation_temperature_gauge(coil_steam_pressure(scenario))
