@@ -17,6 +17,7 @@ import importlib
 import inspect
 import pkgutil
 import re
+import types
 
 import pytest
 
@@ -35,14 +36,30 @@ def _examples(module) -> list[doctest.DocTest]:
     return [t for t in doctest.DocTestFinder(exclude_empty=True).find(module, module.__name__) if t.examples]
 
 
-@pytest.mark.parametrize("name", _module_names())
-def test_docstring_examples_run(name):
-    module = importlib.import_module(name)
+def _run(module) -> tuple[int, int, str]:
+    """(examples tried, examples failed, the failure report) of a module's docstring examples."""
     runner = doctest.DocTestRunner(optionflags=OPTIONS)
     report: list[str] = []
     for test in _examples(module):
         runner.run(test, out=report.append)
-    assert runner.failures == 0, "".join(report)
+    return runner.tries, runner.failures, "".join(report)
+
+
+@pytest.mark.parametrize("name", _module_names())
+def test_docstring_examples_run(name):
+    _, failed, report = _run(importlib.import_module(name))
+    assert failed == 0, report
+
+
+def test_a_wrong_example_fails():
+    # the harness itself: an example whose printed value is not what comes out is a failure
+    module = types.ModuleType("example_module", """A module with one wrong example.
+
+    >>> round(64 / 1000.0, 3)
+    0.065
+    """)
+    tried, failed, report = _run(module)
+    assert (tried, failed) == (1, 1) and "Expected:\n    0.065\nGot:\n    0.064" in report
 
 
 def _public_correlations():
