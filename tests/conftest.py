@@ -47,6 +47,23 @@ def base_scenario(**overrides) -> dict:
     return copy.deepcopy(data)
 
 
+ID_4IN_SCH40 = 0.10226  # ASME B36.10M via fluids.piping (REFERENCES.md)
+
+
+def plan_scenario(**pump) -> dict:
+    """An isothermal test bench: ambient = product temperature, constant viscosity and density."""
+    data = base_scenario(product=newtonian_product(mu_pa_s=0.5, density=1100.0, cp=2000.0, k=0.2))
+    data["route"]["segments"][0] = {"name": "run", "nps": "4", "schedule": "40", "length": 200.0,
+                                    "elevation_change": 5.0}
+    data["pump"] = {"kind": "positive_displacement", "speed": "300 rpm", "displacement": "1.0 L",
+                    "mechanical_efficiency": 0.8, **pump}
+    data["source"] = {"kind": "tank", "shape": "vertical_cylinder", "diameter": 10.0, "initial_volume": 200.0,
+                      "volume_to_move": 100.0, "temperature": 20.0, "heat_loss_coefficient": 0.0}
+    data["destination"] = {"diameter": 10.0, "initial_level": 1.0, "inlet": "top"}
+    data["schedule"] = {"timeline_steps": 50, "line_start_temperature": 20.0}
+    return data
+
+
 @pytest.fixture
 def scenario_dict():
     return base_scenario()

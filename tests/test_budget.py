@@ -161,9 +161,9 @@ def test_sensitivity_options_that_break_the_physics_are_refused(tmp_path, capsys
 def test_sensitivity_limits_hold_for_the_library_call_too():
     scenario = load_scenario(SYRUP)
     with pytest.raises(BudgetError, match="viscosity must stay above zero"):
-        compare(scenario, "setpoint", [50.0], sensitivity=True, viscosity_uncertainty=1.0)
+        compare(scenario, "setpoint", [323.15], sensitivity=True, viscosity_uncertainty=1.0)   # SI: 50 °C
     with pytest.raises(BudgetError, match="every value to compare must be a finite number"):
-        compare(scenario, "setpoint", [50.0, math.inf])
+        compare(scenario, "setpoint", [323.15, math.inf])
 
 
 def test_a_2_kb_unit_string_is_refused_naming_the_field(tmp_path, capsys):

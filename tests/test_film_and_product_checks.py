@@ -21,7 +21,6 @@ from planner.correlations.heat_transfer import VISCOSITY_RATIO_MAX, VISCOSITY_RA
 from planner.errors import ScenarioError
 from planner.line.march import DEFAULT_STEP_M, march
 from planner.line.model import line_from_scenario
-from planner.line.products import scenario_product
 from planner.scenario.schema import scenario_from_dict
 
 
@@ -94,14 +93,6 @@ def test_lab_points_that_rise_with_temperature_are_refused_at_the_points(kind, v
     assert "must fall as the temperature rises" in message and "lab point" in message
 
 
-def test_lab_points_given_out_of_order_but_falling_are_accepted():
-    data = base_scenario()
-    data["product"]["viscosity"] = {"law": "andrade", "points": [
-        {"temperature": 60.0, "viscosity": "2.6 Pa*s"}, {"temperature": 25.0, "viscosity": "60 Pa*s"}]}
-    product = scenario_product(scenario_from_dict(data))
-    assert product.viscosity(298.15) == pytest.approx(60.0, rel=1e-9)
-
-
 @pytest.mark.parametrize("coefficients, words", [
     ({"a": -7.0, "b": -900.0, "c": 200.0}, "b = -900 K must be > 0"),
     ({"a": -7.0, "b": 900.0, "c": 300.0}, "c = 300 K must be below the no_flow_temperature"),
@@ -123,14 +114,3 @@ def test_vft_points_whose_fit_diverges_above_the_no_flow_temperature_are_refused
     data["product"]["no_flow_temperature"] = 0.0
     [(field, message)] = _problems(data)
     assert field == "product" and "must be below the no_flow_temperature" in message
-
-
-def test_the_extrapolation_finding_ignores_a_read_within_a_kelvin_of_the_lab_points():
-    data = base_scenario()
-    data["product"]["viscosity"] = {"law": "andrade", "points": [
-        {"temperature": 25.0, "viscosity": "60 Pa*s"}, {"temperature": 60.0, "viscosity": "2.6 Pa*s"}]}
-    product = scenario_product(scenario_from_dict(data))
-    low, high = product.fit.t_min, product.fit.t_max
-    assert not product.is_extrapolation(high + 5e-4) and not product.is_extrapolation(low - 0.9)
-    assert product.is_extrapolation(high + 1.1) and product.is_extrapolation(low - 1.1)
-    assert (low, high) == pytest.approx((298.15, 333.15))

@@ -1,55 +1,21 @@
 """Issue 10 item 6: pre-warm treats each untraced gap as its own cold spot, and contents that cannot
 move after the pre-warm end the plan with a stop.
 
-Sources:
-- Fin with both ends held at T_end, losing U (T - T_amb) per metre: steady centre temperature
-  T_amb + (T_end - T_amb) / cosh(m L / 2), m = sqrt(U / kA) (Incropera & DeWitt, *Fundamentals of Heat
-  and Mass Transfer*, ch. 3, fin equation).
-- Its transient, C dT/dt = kA T'' - U (T - T_amb): checked against an independent explicit finite-difference
-  solution written here (a standard FTCS scheme inside its stability limit, e.g. Incropera ch. 5).
+The gap's own warm-up (the fin equation and its transient) is checked in test_transients.py.
 """
 
 from __future__ import annotations
 
-import math
-
-import numpy as np
 import pytest
 
 from conftest import DEMO_DIR
 from planner.checks.findings import assess
-from planner.line.transients import _gap_centre
 from planner.scenario.schema import load_scenario, scenario_from_dict, scenario_to_dict
 from planner.scenario.wording import render
 from planner.transfer.plan import make_plan
 
 SYRUP = DEMO_DIR / "syrup_railcar_unload.toml"
 C0 = 273.15
-
-
-def _fd_centre(gap, u, ka, cap, t0, t_end, t_amb, until, nodes=81):
-    """FTCS: centre temperature at ``until`` seconds."""
-    dx = gap / (nodes - 1)
-    dt = 0.4 * cap * dx * dx / ka
-    t = np.full(nodes, t0)
-    t[0] = t[-1] = t_end
-    steps = int(math.ceil(until / dt))
-    dt = until / steps
-    for _ in range(steps):
-        lap = (t[2:] - 2 * t[1:-1] + t[:-2]) / (dx * dx)
-        t[1:-1] += dt / cap * (ka * lap - u * (t[1:-1] - t_amb))
-    return t[nodes // 2]
-
-
-@pytest.mark.parametrize("gap, u", [(2.0, 0.35), (0.8, 0.35), (4.0, 0.6)])
-def test_gap_centre_matches_the_fin_solution(gap, u):
-    ka, cap, t0, t_end, t_amb = 0.095, 35_000.0, 5.0 + C0, 55.0 + C0, -4.0 + C0
-    settles, centre = _gap_centre(gap, u, ka, cap, t0, t_end, t_amb)
-    m = math.sqrt(u / ka)
-    assert settles == pytest.approx(t_amb + (t_end - t_amb) / math.cosh(m * gap / 2), rel=1e-12)
-    for hours in (1.0, 6.0, 24.0):
-        reference = _fd_centre(gap, u, ka, cap, t0, t_end, t_amb, hours * 3600.0)
-        assert centre(hours * 3600.0) == pytest.approx(reference, abs=0.05 * (t_end - t0) / 10)   # 0.25 K
 
 
 def _syrup(first_length: float, gap: float, line_start: float) -> dict:

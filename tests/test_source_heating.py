@@ -15,11 +15,10 @@ from __future__ import annotations
 
 import pytest
 
-from conftest import base_scenario, newtonian_product
+from conftest import base_scenario, newtonian_product, plan_scenario
 from planner.scenario.schema import scenario_from_dict
 from planner.transfer.plan import make_plan
 from planner.transfer.vessels import SourceHeating, heat_contents, source_heating
-from test_plan import plan_scenario
 
 C0 = 273.15
 

@@ -49,7 +49,16 @@ def darcy_laminar(re: float) -> float:
 
     re: Reynolds number rho V D / mu [-], > 0.
     Returns the Darcy friction factor [-].
-    Source: Hagen-Poiseuille solution, any fluid-mechanics text.
+    Source: Hagen-Poiseuille solution, any fluid-mechanics text [1].
+
+    Examples
+    --------
+    >>> darcy_laminar(1000.0)     # 64/1000 [1]
+    0.064
+
+    References
+    ----------
+    [1] White, F. M., Fluid Mechanics, McGraw-Hill, section 6.4 (laminar flow in a pipe).
     """
     _check_re(re)
     return 64.0 / re
@@ -133,8 +142,25 @@ def darcy_colebrook(re: float, relative_roughness: float) -> float:
     re: Reynolds number [-], > 0.
     relative_roughness: absolute roughness over inside diameter e/D [-], >= 0.
     Returns the Darcy friction factor [-].
-    Sources: Colebrook, J. Inst. Civ. Eng. 11 (1939) 133-156; Clamond, D., "Efficient resolution
-    of the Colebrook equation", Ind. Eng. Chem. Res. 48 (2009) 3665-3671.
+    Sources: Colebrook, J. Inst. Civ. Eng. 11 (1939) 133-156 [1]; Clamond, D., "Efficient resolution
+    of the Colebrook equation", Ind. Eng. Chem. Res. 48 (2009) 3665-3671 [2].
+
+    Examples
+    --------
+    Re 1e5, e/D 1e-4: 0.018514 (fluids 1.3.1 ``Colebrook`` [3], ../shared/REFERENCES.md). White's
+    worked example of a 6-in asphalted cast-iron pipe, e/D 0.0008, Re about 274,900: f = 0.0198 [4]:
+
+    >>> round(darcy_colebrook(1e5, 1e-4), 6)
+    0.018514
+    >>> round(darcy_colebrook(2.749e5, 0.0008), 4)
+    0.0198
+
+    References
+    ----------
+    [1] Colebrook, C. F., "Turbulent flow in pipes", J. Inst. Civ. Eng. 11 (1939) 133-156.
+    [2] Clamond, D., Ind. Eng. Chem. Res. 48 (2009) 3665-3671.
+    [3] Bell, C., fluids: fluid dynamics component of ChEDL, version 1.3.1, fluids.friction.
+    [4] White, F. M., Fluid Mechanics, McGraw-Hill, chapter 6, worked example (Moody chart).
     """
     _check_re(re)
     if not relative_roughness >= 0.0:
@@ -168,7 +194,21 @@ def darcy_churchill_1977(re: float, relative_roughness: float) -> float:
     re: Reynolds number [-], > 0; relative_roughness: e/D [-], >= 0.
     Returns the Darcy friction factor [-].
     Source: Churchill, S. W., "Friction-factor equation spans all fluid-flow regimes",
-    Chem. Eng. 84 (24) (1977) 91-92.
+    Chem. Eng. 84 (24) (1977) 91-92 [1].
+
+    Examples
+    --------
+    Re 3000, e/D 1e-4: 0.043049 (fluids 1.3.1 ``Churchill_1977`` [2]); at Re 100 it is 64/Re:
+
+    >>> round(darcy_churchill_1977(3000.0, 1e-4), 6)
+    0.043049
+    >>> round(darcy_churchill_1977(100.0, 0.0), 4)
+    0.64
+
+    References
+    ----------
+    [1] Churchill, S. W., Chem. Eng. 84 (24) (1977) 91-92.
+    [2] Bell, C., fluids: fluid dynamics component of ChEDL, version 1.3.1, fluids.friction.
     """
     _check_re(re)
     if not relative_roughness >= 0.0:
@@ -197,6 +237,20 @@ def darcy_friction(re: float, relative_roughness: float) -> float:
     relative_roughness: e/D [-], >= 0.
     Returns the Darcy friction factor [-].
     Sources: see darcy_laminar, darcy_colebrook and darcy_churchill_1977; bands [trade].
+
+    Examples
+    --------
+    One value per band: 64/Re [1]; Colebrook 0.018514 [2] (fluids 1.3.1, ../shared/REFERENCES.md);
+    Churchill 0.043049 [3] (fluids 1.3.1 ``Churchill_1977``):
+
+    >>> [round(darcy_friction(re, 1e-4), 6) for re in (1000.0, 1e5, 3000.0)]
+    [0.064, 0.018514, 0.043049]
+
+    References
+    ----------
+    [1] Hagen-Poiseuille: White, F. M., Fluid Mechanics, McGraw-Hill, section 6.4.
+    [2] Colebrook, C. F., J. Inst. Civ. Eng. 11 (1939) 133-156.
+    [3] Churchill, S. W., Chem. Eng. 84 (24) (1977) 91-92.
     """
     _check_re(re)
     if re <= RE_LAMINAR_MAX:
@@ -211,6 +265,16 @@ def flow_regime(re: float) -> str:
     or "turbulent" (Re >= 4000) [trade thresholds].
 
     re: Reynolds number [-], > 0.
+
+    Examples
+    --------
+    >>> flow_regime(2300.0), flow_regime(3000.0), flow_regime(4000.0)
+    ('laminar', 'transitional', 'turbulent')
+
+    References
+    ----------
+    [1] Common practice [trade]; e.g. White, F. M., Fluid Mechanics, McGraw-Hill, section 6.1
+        (transition near Re 2300 in a pipe).
     """
     _check_re(re)
     if re <= RE_LAMINAR_MAX:

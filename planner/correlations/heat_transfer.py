@@ -67,7 +67,21 @@ def nu_laminar_sieder_tate(
     re: Reynolds number [-]; pr: Prandtl number [-]; d_over_l: inside diameter over heated
     length [-], >= 0; viscosity_ratio: bulk over wall viscosity mu/mu_w [-], > 0.
     Returns Nu = h D / k [-].
-    Source: Sieder & Tate, Ind. Eng. Chem. 28 (1936) 1429-1435.
+    Source: Sieder & Tate, Ind. Eng. Chem. 28 (1936) 1429-1435 [1].
+
+    Examples
+    --------
+    Re 1000, Pr 100, D/L 0.01: 1.86 x 1000^(1/3) = 18.60 (ht 1.2.0
+    ``laminar_entry_Seider_Tate`` [2], ../shared/REFERENCES.md):
+
+    >>> round(nu_laminar_sieder_tate(1000.0, 100.0, 0.01), 2)
+    18.6
+
+    References
+    ----------
+    [1] Sieder, E. N., Tate, G. E., "Heat transfer and pressure drop of liquids in tubes",
+        Ind. Eng. Chem. 28 (1936) 1429-1435.
+    [2] Bell, C., ht: heat transfer component of ChEDL, version 1.2.0, ht.conv_internal.
     """
     return 1.86 * (re * pr * d_over_l) ** _THIRD * viscosity_ratio**0.14
 
@@ -80,7 +94,20 @@ def nu_turbulent_gnielinski(re: float, pr: float, darcy_f: float) -> float:
     Valid 3000 < Re < 5e6, 0.5 < Pr < 2000, fully developed; f is the Darcy factor.
     re: Reynolds number [-], > 1000; pr: Prandtl number [-], > 0; darcy_f: Darcy friction
     factor [-], > 0. Returns Nu [-].
-    Source: Gnielinski, Int. Chem. Eng. 16 (1976) 359-368.
+    Source: Gnielinski, Int. Chem. Eng. 16 (1976) 359-368 [1].
+
+    Examples
+    --------
+    Re 1e5, Pr 1.2, f 0.0185: 254.63 (ht 1.2.0 ``turbulent_Gnielinski`` [2]):
+
+    >>> round(nu_turbulent_gnielinski(1e5, 1.2, 0.0185), 2)
+    254.63
+
+    References
+    ----------
+    [1] Gnielinski, V., "New equations for heat and mass transfer in turbulent pipe and channel
+        flow", Int. Chem. Eng. 16 (1976) 359-368.
+    [2] Bell, C., ht: heat transfer component of ChEDL, version 1.2.0, ht.conv_internal.
     """
     if not re > 1000.0:
         raise ValueError(
@@ -104,8 +131,21 @@ def nu_laminar_thermal_entry_mean(x_star: float) -> float:
 
     x_star: x / (D Re Pr) [-], > 0.  Returns Nu_m = h_m D / k [-].
     Source: VDI Heat Atlas, 2nd ed. (Springer 2010), chapter G1 (Gnielinski), thermally developing
-    laminar flow at constant wall temperature [mem] unverified equation number; checked against the
-    Graetz series with the eigenvalues and constants of Shah & London (1978).
+    laminar flow at constant wall temperature [mem] unverified equation number [1]; checked against the
+    Graetz series with the eigenvalues and constants of Shah & London (1978) [2].
+
+    Examples
+    --------
+    At x* = 0.05 the Graetz series (eigenvalues of [2], as in tests/test_heat_transfer.py) gives a
+    mean Nu of 4.641; far downstream the developed 3.657 [2]:
+
+    >>> round(nu_laminar_thermal_entry_mean(0.05), 1), round(nu_laminar_thermal_entry_mean(100.0), 1)
+    (4.6, 3.7)
+
+    References
+    ----------
+    [1] VDI Heat Atlas, 2nd ed., Springer, 2010, chapter G1 (Gnielinski, V.).
+    [2] Shah, R. K., London, A. L., Laminar Flow Forced Convection in Ducts, Academic Press, 1978.
     """
     if not x_star > 0.0:
         raise ValueError(f"x_star: {x_star!r} is not allowed; it must be > 0")
@@ -135,6 +175,19 @@ def nu_laminar_local_over(x_star_from: float, x_star_to: float) -> float:
 
     x_star_from, x_star_to: distances from the start of the thermal entrance over D Re Pr [-],
     0 <= from < to (to = inf: fully developed, 3.66).  Returns Nu [-].
+
+    Examples
+    --------
+    Between x* = 0.01 and 0.05 the Graetz series [2] (x* Nu_m difference over the span, eigenvalues
+    of [2] as in tests/test_heat_transfer.py) gives 4.012:
+
+    >>> round(nu_laminar_local_over(0.01, 0.05), 2)
+    4.01
+
+    References
+    ----------
+    [1] VDI Heat Atlas, 2nd ed., Springer, 2010, chapter G1 (Gnielinski, V.).
+    [2] Shah, R. K., London, A. L., Laminar Flow Forced Convection in Ducts, Academic Press, 1978.
     """
     if x_star_to == math.inf:
         return NU_LAMINAR_DEVELOPED
@@ -147,7 +200,23 @@ def nu_laminar_local_over(x_star_from: float, x_star_to: float) -> float:
 def film_parts(re: float, pr: float, darcy_f: float, entry_from_d: float = math.inf,
                entry_to_d: float = math.inf) -> tuple[float, float, float]:
     """(laminar Nu without the viscosity correction, turbulent Nu without it, turbulent weight) of
-    ``nu_internal``; the march combines them with the wall viscosity it iterates on."""
+    ``nu_internal``; the march combines them with the wall viscosity it iterates on.
+
+    Examples
+    --------
+    Developed laminar flow: 3.66 [1]; turbulent: Gnielinski's 254.63 (ht 1.2.0 [2]):
+
+    >>> film_parts(1000.0, 100.0, 0.064)
+    (3.66, 0.0, 0.0)
+    >>> nu_lam, nu_turb, weight = film_parts(1e5, 1.2, 0.0185)
+    >>> round(nu_turb, 2), weight
+    (254.63, 1.0)
+
+    References
+    ----------
+    [1] Shah, R. K., London, A. L., Laminar Flow Forced Convection in Ducts, Academic Press, 1978.
+    [2] Bell, C., ht: heat transfer component of ChEDL, version 1.2.0, ht.conv_internal.
+    """
     if re >= _RE_TURB:
         return 0.0, nu_turbulent_gnielinski(re, pr, darcy_f), 1.0
     pe = re * pr
@@ -165,7 +234,20 @@ def film_parts(re: float, pr: float, darcy_f: float, entry_from_d: float = math.
 
 def viscosity_corrected(parts: tuple[float, float, float], viscosity_ratio: float) -> float:
     """Nu of ``film_parts`` with the property correction: laminar x r^0.14 (Sieder-Tate), turbulent
-    x r^0.11 [trade], r = mu/mu_w bounded to VISCOSITY_RATIO_MIN..MAX."""
+    x r^0.11 [trade], r = mu/mu_w bounded to VISCOSITY_RATIO_MIN..MAX.
+
+    Examples
+    --------
+    Developed laminar flow with a wall at half the bulk viscosity: 3.66 x 2^0.14 = 4.033 [1]
+    (by hand):
+
+    >>> round(viscosity_corrected((3.66, 0.0, 0.0), 2.0), 3)
+    4.033
+
+    References
+    ----------
+    [1] Sieder, E. N., Tate, G. E., Ind. Eng. Chem. 28 (1936) 1429-1435.
+    """
     nu_lam, nu_turb, w = parts
     r = VISCOSITY_RATIO_MIN if viscosity_ratio < VISCOSITY_RATIO_MIN else (
         VISCOSITY_RATIO_MAX if viscosity_ratio > VISCOSITY_RATIO_MAX else viscosity_ratio)
@@ -195,6 +277,21 @@ def nu_internal(re: float, pr: float, darcy_f: float, viscosity_ratio: float = 1
     change) over the inside diameter [-], 0 <= from < to; both inf for fully developed flow.
     Returns Nu = h D / k [-].
     Sources: as nu_laminar_thermal_entry_mean, nu_laminar_sieder_tate, nu_turbulent_gnielinski.
+
+    Examples
+    --------
+    Developed laminar flow, 3.66 [1]; turbulent, Gnielinski's 254.63 (ht 1.2.0 [3]):
+
+    >>> nu_internal(1000.0, 100.0, 0.064)
+    3.66
+    >>> round(nu_internal(1e5, 1.2, 0.0185), 2)
+    254.63
+
+    References
+    ----------
+    [1] Shah, R. K., London, A. L., Laminar Flow Forced Convection in Ducts, Academic Press, 1978.
+    [2] Sieder, E. N., Tate, G. E., Ind. Eng. Chem. 28 (1936) 1429-1435.
+    [3] Gnielinski, V., Int. Chem. Eng. 16 (1976) 359-368; ht 1.2.0, ht.conv_internal.
     """
     if not (re > 0.0 and pr > 0.0):
         raise ValueError(
@@ -216,7 +313,21 @@ def nu_natural_cylinder_churchill_chu(rayleigh: float, prandtl: float) -> float:
     Full-range form, 1e-5 < Ra_D < 1e12, all Pr; Ra -> 0 gives the conduction-like limit 0.36.
     rayleigh: Ra_D = g beta |dT| D^3 / (nu alpha) [-], >= 0; prandtl: Pr [-], > 0.
     Returns Nu_D [-].
-    Source: Churchill & Chu, Int. J. Heat Mass Transfer 18 (1975) 1049-1053.
+    Source: Churchill & Chu, Int. J. Heat Mass Transfer 18 (1975) 1049-1053 [1].
+
+    Examples
+    --------
+    Pr 0.7, Gr 1e6 (Ra 7e5): 13.133 (ht 1.2.0 ``Nu_horizontal_cylinder_Churchill_Chu`` [2],
+    ../shared/REFERENCES.md):
+
+    >>> round(nu_natural_cylinder_churchill_chu(7e5, 0.7), 3)
+    13.133
+
+    References
+    ----------
+    [1] Churchill, S. W., Chu, H. H. S., "Correlating equations for laminar and turbulent free
+        convection from a horizontal cylinder", Int. J. Heat Mass Transfer 18 (1975) 1049-1053.
+    [2] Bell, C., ht: heat transfer component of ChEDL, version 1.2.0, ht.conv_free_immersed.
     """
     if not (rayleigh >= 0.0 and prandtl > 0.0):
         raise ValueError(
@@ -237,7 +348,21 @@ def nu_crossflow_churchill_bernstein(re: float, pr: float) -> float:
 
     Valid for Re Pr > 0.2, all Re (laminar to turbulent boundary layer).
     re: Re_D = V D / nu [-], >= 0; pr: Pr [-], > 0. Returns Nu_D [-].
-    Source: Churchill & Bernstein, J. Heat Transfer 99 (1977) 300-306.
+    Source: Churchill & Bernstein, J. Heat Transfer 99 (1977) 300-306 [1].
+
+    Examples
+    --------
+    Cengel's solved problem, Re 3.254e4, Pr 0.7336: Nu about 107 [2] (ht 1.2.0 gives 107.05):
+
+    >>> round(nu_crossflow_churchill_bernstein(3.254e4, 0.7336))
+    107
+
+    References
+    ----------
+    [1] Churchill, S. W., Bernstein, M., "A correlating equation for forced convection from gases
+        and liquids to a circular cylinder in crossflow", J. Heat Transfer 99 (1977) 300-306.
+    [2] Cengel, Y. A., Heat and Mass Transfer, McGraw-Hill, chapter 7, solved problem (cross-flow
+        over a pipe).
     """
     if not (re >= 0.0 and pr > 0.0):
         raise ValueError(
@@ -255,7 +380,19 @@ def h_radiation(emissivity: float, t_surface: float, t_surroundings: float) -> f
 
     emissivity: total hemispherical emissivity [-], 0..1; t_surface, t_surroundings [K], > 0.
     Returns h_r [W/(m^2 K)].
-    Source: Stefan-Boltzmann law, linearised (any heat-transfer text, e.g. Incropera).
+    Source: Stefan-Boltzmann law, linearised (any heat-transfer text, e.g. Incropera [1]).
+
+    Examples
+    --------
+    eps 0.8, 485.5 K to 298.15 K: 0.8 x 5.670374e-8 x (485.5^2 + 298.15^2)(485.5 + 298.15) = 11.539
+    (by hand, ../shared/REFERENCES.md):
+
+    >>> round(h_radiation(0.8, 485.5, 298.15), 3)
+    11.539
+
+    References
+    ----------
+    [1] Incropera, F. P., DeWitt, D. P., Fundamentals of Heat and Mass Transfer, Wiley, eq. 1.9.
     """
     if not 0.0 <= emissivity <= 1.0:
         raise ValueError(f"emissivity: {emissivity!r} is not allowed; it must be in 0..1")
@@ -294,7 +431,24 @@ def h_outer_cylinder(
     emissivity [-], 0..1. Returns (h_convection, h_radiation) [W/(m^2 K)].
     Sources: as nu_natural_cylinder_churchill_chu, nu_crossflow_churchill_bernstein and
     h_radiation; Churchill, AIChE J. 23 (1977) 10-16 for the cubic combination [mem] unverified
-    citation.
+    citation [1].
+
+    Examples
+    --------
+    A 0.2 m jacket at 330 K in still air at 290 K: the same recipe on reference air (iapws 1.5.5
+    humidAir.Air [2]) and ht 1.2.0's Churchill-Chu [3] gives 5.070 W/(m^2 K); radiation at eps 0.9,
+    0.9 sigma (330^2 + 290^2)(330 + 290) = 6.107 by hand:
+
+    >>> h_c, h_r = h_outer_cylinder(0.2, 330.0, 290.0, 0.0, 0.9)
+    >>> round(h_c, 1), round(h_r, 3)
+    (5.1, 6.107)
+
+    References
+    ----------
+    [1] Churchill, S. W., "A comprehensive correlating equation for laminar, assisting, forced and
+        free convection", AIChE J. 23 (1977) 10-16 [mem] unverified citation.
+    [2] Lemmon, E. W., et al., J. Phys. Chem. Ref. Data 29 (2000) 331-385 (air properties).
+    [3] Churchill, S. W., Chu, H. H. S., Int. J. Heat Mass Transfer 18 (1975) 1049-1053; ht 1.2.0.
     """
     if not outer_diameter_m > 0.0:
         raise ValueError(f"outer_diameter_m: {outer_diameter_m!r} is not allowed; it must be > 0")

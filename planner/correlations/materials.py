@@ -12,6 +12,22 @@ from dataclasses import dataclass
 
 @dataclass(frozen=True)
 class InsulationMaterial:
+    """An insulation material: conductivity linear in the layer's mean temperature [W/(m K)],
+    k(T) = conductivity + slope (T - reference_temperature), at least 1e-4.
+
+    Examples
+    --------
+    Calcium silicate at a 38 °C mean: ASTM C533 Type I allows at most 0.059 W/(m K) [1]:
+
+    >>> INSULATION_MATERIALS["calcium_silicate"].conductivity_at(311.15) <= 0.059
+    True
+
+    References
+    ----------
+    [1] ASTM C533, Standard Specification for Calcium Silicate Block and Pipe Thermal Insulation,
+        Type I [pub] (the other materials' figures: see their ``source``).
+    """
+
     name: str
     conductivity: float          # W/m K at reference_temperature (mean temperature of the layer)
     reference_temperature: float  # K

@@ -20,6 +20,8 @@ ASME_SCHEDULES = (
 
 @dataclass(frozen=True)
 class PipeSize:
+    """The record of one pipe size: NPS [in], schedule, inside and outside diameter and wall [m]."""
+
     nps: float
     schedule: str
     inside_diameter_m: float
@@ -28,7 +30,20 @@ class PipeSize:
 
 
 def parse_nps(value: object) -> float:
-    """Read an NPS given as 4, 4.0, "4", "1-1/2", "1 1/2" or "3/4"."""
+    """Read an NPS given as 4, 4.0, "4", "1-1/2", "1 1/2" or "3/4".
+
+    Examples
+    --------
+    NPS sizes are written as fractions of an inch in the standard [1]:
+
+    >>> parse_nps("1-1/2"), parse_nps("3/4"), parse_nps(4)
+    (1.5, 0.75, 4.0)
+
+    References
+    ----------
+    [1] ASME B36.10M, Welded and Seamless Wrought Steel Pipe; ASME B36.19M, Stainless Steel Pipe
+        (dimensions as carried by fluids 1.3.1, fluids.piping).
+    """
     if isinstance(value, bool):
         raise ValueError(f"NPS {value!r} is not a size")
     if isinstance(value, (int, float)):
@@ -44,9 +59,18 @@ def parse_nps(value: object) -> float:
 def pipe_size(nps: object, schedule: str) -> PipeSize:
     """Dimensions of NPS ``nps`` in ``schedule``.
 
+    Examples
+    --------
+    NPS 4 Sch 40: OD 114.3 mm, wall 6.02 mm, ID 102.26 mm [1] (../shared/REFERENCES.md):
+
     >>> p = pipe_size(4, "40")
     >>> round(p.inside_diameter_m * 1000, 2), round(p.outside_diameter_m * 1000, 1)
     (102.26, 114.3)
+
+    References
+    ----------
+    [1] ASME B36.10M, Welded and Seamless Wrought Steel Pipe; ASME B36.19M, Stainless Steel Pipe
+        (dimensions as carried by fluids 1.3.1, fluids.piping).
     """
     schedule = str(schedule).strip().upper()
     if schedule not in ASME_SCHEDULES:

@@ -25,7 +25,19 @@ def metzner_reed_reynolds(
 
     Re_MR = rho V^(2-n) D^n / (K 8^(n-1) ((3n+1)/(4n))^n), with rho [kg/m3], V mean velocity [m/s],
     D inside diameter [m], K consistency [Pa s^n], n flow index [-].  Equals rho V D / mu for n = 1.
-    Source: Metzner & Reed (1955).
+    Source: Metzner & Reed (1955) [1].
+
+    Examples
+    --------
+    rho 1000, V 1 m/s, D 0.05 m, K 0.5 Pa s^n, n 0.5: 1131.37 by hand from [1]
+    (../shared/REFERENCES.md [calc]):
+
+    >>> round(metzner_reed_reynolds(1000.0, 1.0, 0.05, 0.5, 0.5), 2)
+    1131.37
+
+    References
+    ----------
+    [1] Metzner, A. B., Reed, J. C., "Flow of non-Newtonian fluids: correlation of the laminar, transition, and turbulent-flow regions", AIChE J. 1 (1955) 434-440.
     """
     _positive(density=density, diameter=diameter, consistency=consistency, flow_index=flow_index)
     if not velocity >= 0.0:
@@ -40,7 +52,16 @@ def metzner_reed_reynolds(
 def fanning_power_law_laminar(re_mr: float) -> float:
     """Laminar Fanning friction factor f = 16 / Re_MR [-] (exact for a power-law fluid).
 
-    Valid for Re_MR below about 2100 [trade].  Source: Metzner & Reed (1955).
+    Valid for Re_MR below about 2100 [trade].  Source: Metzner & Reed (1955) [1].
+
+    Examples
+    --------
+    >>> round(fanning_power_law_laminar(1131.37), 6)    # 16 / 1131.37 [1]
+    0.014142
+
+    References
+    ----------
+    [1] Metzner, A. B., Reed, J. C., "Flow of non-Newtonian fluids: correlation of the laminar, transition, and turbulent-flow regions", AIChE J. 1 (1955) 434-440.
     """
     if not re_mr > 0.0:
         raise ValueError(f"re_mr = {re_mr!r}: must be > 0")
@@ -56,7 +77,20 @@ def fanning_dodge_metzner(re_mr: float, flow_index: float) -> float:
     keeps x > 0.  n >= 2 raises ValueError (g is no longer monotone).
     For n = 1 it is the Prandtl–von Kármán smooth-pipe law.  Data range of the original work about
     0.36 <= n <= 1 and 2900 <= Re_MR <= 36000 [mem] unverified; used beyond as common practice.
-    Source: Dodge & Metzner, AIChE J. 5 (1959) 189.
+    Source: Dodge & Metzner, AIChE J. 5 (1959) 189 [1].
+
+    Examples
+    --------
+    Re_MR 1e4, n 0.5: f = 0.0048738, solving the published equation [1] by hand
+    (../shared/REFERENCES.md [calc]):
+
+    >>> round(fanning_dodge_metzner(1e4, 0.5), 7)
+    0.0048738
+
+    References
+    ----------
+    [1] Dodge, D. W., Metzner, A. B., "Turbulent flow of non-Newtonian systems", AIChE J. 5 (1959)
+        189-204.
     """
     if not re_mr > 0.0:
         raise ValueError(f"re_mr = {re_mr!r}: must be > 0")
@@ -88,8 +122,21 @@ def fanning_buckingham_reiner(re_bingham: float, hedstrom: float) -> float:
     Solved exactly through phi = tau_y / tau_w = 2 He / (f Re^2), the root in (0, 1) of
     phi^4/3 - 4 phi/3 + 1 - 8 Re phi / He = 0 (decreasing, convex: Newton from phi = 0 converges
     monotonically), then f = 16 / (Re (1 - 4 phi/3 + phi^4/3)).  Laminar flow only (Re below about
-    2100, or the Hanks critical Re for large He).  Source: Buckingham (1921); Chhabra & Richardson
-    (2008) ch. 3.
+    2100, or the Hanks critical Re for large He).  Source: Buckingham (1921) [1]; Chhabra & Richardson
+    (2008) ch. 3 [2].
+
+    Examples
+    --------
+    Re 1000, He 1e4: f = 0.04194 solving the published equation [2] by hand
+    (../shared/REFERENCES.md [calc]); He = 0 is the Newtonian 16/Re:
+
+    >>> round(fanning_buckingham_reiner(1000.0, 1e4), 5), fanning_buckingham_reiner(1000.0, 0.0)
+    (0.04194, 0.016)
+
+    References
+    ----------
+    [1] Buckingham, E., "On plastic flow through capillary tubes", Proc. ASTM 21 (1921) 1154-1156.
+    [2] Chhabra, R. P., Richardson, J. F., Non-Newtonian Flow and Applied Rheology, 2nd ed., Butterworth-Heinemann, 2008, chapter 3.
     """
     if not re_bingham > 0.0:
         raise ValueError(f"re_bingham = {re_bingham!r}: must be > 0")
@@ -128,6 +175,18 @@ def herschel_bulkley_wall_stress(
     (the left side rises with slope between 1/n and 1 + 1/n in u).  V mean velocity [m/s], D [m],
     tau_y yield stress [Pa], K consistency [Pa s^n], n flow index [-].  tau_y = 0 gives the power law
     K ((3n+1)/(4n))^n (8V/D)^n in closed form; V = 0 gives tau_y (the plug just holds).
+
+    Examples
+    --------
+    Power law (tau_y = 0), V 1 m/s, D 0.05 m, K 0.5, n 0.5: 0.5 (1.25)^0.5 160^0.5 = 7.071 Pa, the
+    wall stress of the 565.7 Pa/m of ../shared/REFERENCES.md [calc] from [1]:
+
+    >>> round(herschel_bulkley_wall_stress(1.0, 0.05, 0.0, 0.5, 0.5), 3)
+    7.071
+
+    References
+    ----------
+    [1] Chhabra, R. P., Richardson, J. F., Non-Newtonian Flow and Applied Rheology, 2nd ed., Butterworth-Heinemann, 2008, chapter 3.
     """
     _positive(diameter=diameter, consistency=consistency, flow_index=flow_index)
     if not velocity >= 0.0:
@@ -207,6 +266,21 @@ def pipe_flow_non_newtonian(
     pressure_gradient = 4 tau_w / D [Pa/m].  V = 0: no flow, gradient 4 tau_y / D (the most the plug
     holds), Re 0, mu_app and f infinite.  Inputs: rho [kg/m3], V [m/s], D [m], K [Pa s^n], n [-],
     tau_y [Pa].
+
+    Examples
+    --------
+    rho 1000, V 1 m/s, D 0.05 m, K 0.5, n 0.5: Re_MR 1131.37 and dp/L 565.7 Pa/m by hand from [1]
+    (../shared/REFERENCES.md [calc]):
+
+    >>> flow = pipe_flow_non_newtonian(1000.0, 1.0, 0.05, 0.5, 0.5)
+    >>> flow.regime, round(flow.reynolds, 2), round(flow.pressure_gradient, 1)
+    ('laminar', 1131.37, 565.7)
+
+    References
+    ----------
+    [1] Metzner, A. B., Reed, J. C., "Flow of non-Newtonian fluids: correlation of the laminar, transition, and turbulent-flow regions", AIChE J. 1 (1955) 434-440.
+    [2] Dodge, D. W., Metzner, A. B., AIChE J. 5 (1959) 189-204.
+    [3] Chhabra, R. P., Richardson, J. F., Non-Newtonian Flow and Applied Rheology, 2nd ed., Butterworth-Heinemann, 2008, chapter 3.
     """
     _positive(density=density)
     tau_w = herschel_bulkley_wall_stress(velocity, diameter, yield_stress, consistency, flow_index)
@@ -229,6 +303,17 @@ def gelled_restart_pressure(yield_stress: float, length: float, diameter: float)
     Force balance on a rigid plug, dp pi D^2/4 = tau_y pi D L; tau_y [Pa] the (gel) yield stress,
     L plug length [m], D inside diameter [m].  Ignores compressibility of the gel, so it is the
     conservative upper bound for a long line [trade].
+
+    Examples
+    --------
+    tau_y 10 Pa over 1000 m of 0.1 m bore: 4 x 10 x 1000 / 0.1 = 4 bar (force balance [1], by hand):
+
+    >>> gelled_restart_pressure(10.0, 1000.0, 0.1)
+    400000.0
+
+    References
+    ----------
+    [1] Chhabra, R. P., Richardson, J. F., Non-Newtonian Flow and Applied Rheology, 2nd ed., Butterworth-Heinemann, 2008, chapter 3.
     """
     if not yield_stress >= 0.0:
         raise ValueError(f"yield_stress = {yield_stress!r} Pa: must be >= 0")

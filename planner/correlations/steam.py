@@ -60,7 +60,19 @@ def saturation_pressure(temperature_k: float) -> float:
 
     Valid 273.15 K <= T <= 647.096 K; outside, ValueError.
     temperature_k: temperature [K]. Returns p_sat [Pa].
-    Source: IAPWS R7-97(2012), eq. 30 and Table 34.
+    Source: IAPWS R7-97(2012), eq. 30 and Table 34 [1].
+
+    Examples
+    --------
+    The release's verification value, Table 35 [1]: 0.353658941e-2 MPa at 300 K:
+
+    >>> f"{saturation_pressure(300.0) / 1e6:.8e}"
+    '3.53658941e-03'
+
+    References
+    ----------
+    [1] IAPWS R7-97(2012), Revised Release on the IAPWS Industrial Formulation 1997 for the Thermodynamic
+        Properties of Water and Steam, Section 8.
     """
     if not _T_LO <= temperature_k <= _T_HI:
         raise ValueError(
@@ -86,7 +98,19 @@ def saturation_temperature(pressure_pa: float) -> float:
 
     Valid 611.213 Pa <= p <= 22.064 MPa (absolute); outside, ValueError.
     pressure_pa: absolute pressure [Pa]. Returns T_sat [K].
-    Source: IAPWS R7-97(2012), eq. 31 and Table 34.
+    Source: IAPWS R7-97(2012), eq. 31 and Table 34 [1].
+
+    Examples
+    --------
+    The release's verification value, Table 36 [1]: 372.755919 K at 0.1 MPa:
+
+    >>> round(saturation_temperature(0.1e6), 6)
+    372.755919
+
+    References
+    ----------
+    [1] IAPWS R7-97(2012), Revised Release on the IAPWS Industrial Formulation 1997 for the Thermodynamic
+        Properties of Water and Steam, Section 8.
     """
     if not _P_LO <= pressure_pa <= _P_HI:
         raise ValueError(
@@ -108,7 +132,20 @@ def saturation_temperature_gauge(pressure_gauge_pa: float, atmospheric_pa: float
     pressure_gauge_pa: gauge pressure [Pa] (1 barg = 1e5 Pa above atmosphere);
     atmospheric_pa: local atmospheric pressure [Pa], > 0 (default 101325 Pa, standard atmosphere).
     Returns T_sat [K]. ValueError when the absolute pressure is outside the saturation line.
-    Source: as saturation_temperature.
+    Source: as saturation_temperature [1].
+
+    Examples
+    --------
+    1 barg at standard atmosphere is 2.01325 bar absolute: 120.42 degC (iapws 1.5.5 ``_TSat_P`` [2]):
+
+    >>> round(saturation_temperature_gauge(1e5) - 273.15, 2)
+    120.42
+
+    References
+    ----------
+    [1] IAPWS R7-97(2012), Revised Release on the IAPWS Industrial Formulation 1997 for the Thermodynamic
+        Properties of Water and Steam, Section 8.
+    [2] Romera, J. J. G., iapws: Python implementation of IAPWS standards, version 1.5.5.
     """
     if not atmospheric_pa > 0.0:
         raise ValueError(f"atmospheric_pa: {atmospheric_pa!r} Pa is not allowed; it must be > 0")
@@ -130,6 +167,21 @@ def latent_heat(temperature_k: float) -> float:
     suits water over 100-250 degC, within 0.5 % of IAPWS-IF97 there (checked in tests against the
     iapws library).  That is far inside the uncertainty of a tracer's steam consumption (trap
     losses, condensate sub-cooling).
+
+    Examples
+    --------
+    At 150 degC IAPWS-IF97 gives h'' - h' = 2113.7 kJ/kg (iapws 1.5.5 ``IAPWS97`` [3]); the Watson
+    form 2106.9 (0.3 % low), the same to 10 kJ/kg:
+
+    >>> round(latent_heat(423.15) / 1e3, -1)
+    2110.0
+
+    References
+    ----------
+    [1] Watson, K. M., "Thermodynamics of the liquid state", Ind. Eng. Chem. 35 (1943) 398-406.
+    [2] Poling, B. E., Prausnitz, J. M., O'Connell, J. P., The Properties of Gases and Liquids,
+        5th ed., McGraw-Hill, 2001, eq. 7-12.1.
+    [3] IAPWS R7-97(2012); Romera, J. J. G., iapws, version 1.5.5.
     """
     if not 273.15 <= temperature_k < CRITICAL_TEMPERATURE_K:
         raise ValueError(f"temperature = {temperature_k!r} K: latent heat needs 273.15 K <= T < {CRITICAL_TEMPERATURE_K} K")

@@ -23,7 +23,23 @@ EDGE_K = 1e-9     # a temperature this close to a switch point counts as on it
 
 
 def advance(t: float, t_equilibrium: float, g: float, viscous: float, mcp: float, dx: float) -> float:
-    """Exact step of m cp dT/dx = G (T_eq - T) + S over ``dx`` [m] for frozen G, T_eq, S."""
+    """Exact step of m cp dT/dx = G (T_eq - T) + S over ``dx`` [m] for frozen G, T_eq, S.
+
+    T(dx) = T_eq' + (T - T_eq') exp(-G dx / (m cp)), T_eq' = T_eq + S / G; for G = 0, T + S dx / (m cp).
+
+    Examples
+    --------
+    A tube at a uniform 290 K, product in at 350 K, G dx / (m cp) = 1: the mean temperature of
+    flow in a tube at constant surface temperature [1], 290 + 60 e^-1 = 312.07 K (by hand):
+
+    >>> round(advance(350.0, 290.0, 1.0, 0.0, 100.0, 100.0), 2)
+    312.07
+
+    References
+    ----------
+    [1] Incropera, F. P., DeWitt, D. P., Fundamentals of Heat and Mass Transfer, Wiley, eq. 8.42b
+        (constant surface temperature: (Ts - Tm(x)) / (Ts - Tm,i) = exp(-P x h / (m cp))).
+    """
     if g > 1e-12:
         t_eq = t_equilibrium + viscous / g
         return t_eq + (t - t_eq) * math.exp(-g * dx / mcp)

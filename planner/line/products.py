@@ -35,6 +35,34 @@ class Product:
 
     For non-Newtonian products ``viscosity`` is the consistency K(T) [Pa s^n] of the power law or
     Herschel–Bulkley model; ``flow_index`` and ``yield_stress`` complete the model.
+
+    Examples
+    --------
+    Water from two lab points, 1.0016 mPa s at 20 degC and 0.46604 at 60 degC [1], with water
+    activity 1: at 40 degC the Andrade law gives 2.1 % above the reference's 0.65273 mPa s [1], and
+    the vapour pressure at 373.124 K is one standard atmosphere, 101.325 kPa (IAPWS-IF97 [2]):
+
+    >>> from planner.scenario.schema import scenario_from_dict
+    >>> scenario = scenario_from_dict({"schema_version": 1, "name": "example",
+    ...     "site": {"name": "bench", "ambient_temperature": 20.0, "wind_speed": 0.0},
+    ...     "product": {"name": "water", "density": 998.0, "density_slope": 0.0, "specific_heat": 4184.0,
+    ...                 "thermal_conductivity": 0.6, "no_flow_temperature": 1.0, "max_temperature": 95.0,
+    ...                 "water_activity": 1.0, "viscosity": {"law": "andrade", "points": [
+    ...                     {"temperature": 20.0, "viscosity": "1.0016 mPa s"},
+    ...                     {"temperature": 60.0, "viscosity": "0.46604 mPa s"}]}},
+    ...     "route": {"segments": [{"name": "run", "nps": "2", "schedule": "40", "length": 100.0}]},
+    ...     "tracing": {"kind": "none"}, "operation": {"flow": "5 m3/h", "inlet_temperature": 20.0}})
+    >>> water = scenario_product(scenario)
+    >>> abs(water.viscosity(313.15) / 0.65273e-3 - 1) < 0.03, round(water.vapour_pressure(373.124) / 1e3, 1)
+    (True, 101.3)
+    >>> water.is_extrapolation(313.15), water.is_extrapolation(353.15)     # lab points span 20-60 degC
+    (False, True)
+
+    References
+    ----------
+    [1] Huber, M. L., et al., J. Phys. Chem. Ref. Data 38 (2009) 101-125 (IAPWS 2008 viscosity, by
+        iapws 1.5.5; ../shared/REFERENCES.md).
+    [2] IAPWS R7-97(2012), Revised Release on the IAPWS Industrial Formulation 1997, section 8.
     """
 
     def __init__(self, spec: ProductSpec, viscosity_factor: float = 1.0):

@@ -58,7 +58,34 @@ class WallBalance(NamedTuple):
 
 
 class Heater:
-    """A line's heating as a piecewise-linear output law plus an optional thermostat."""
+    """A line's heating as a piecewise-linear output law plus an optional thermostat.
+
+    Examples
+    --------
+    A steam tracer at 3 barg runs at the saturation temperature of 4.01325 bar, 416.88 K (IAPWS-IF97
+    [1], iapws 1.5.5 ``_TSat_P``); bare on the pipe (0.6 W/(m K) [mem]) it gives 0.6 (416.88 - 373.15)
+    = 26.24 W/m to a wall at 100 degC:
+
+    >>> from planner.scenario.schema import Tracing
+    >>> steam = Heater(Tracing(kind="steam", steam_pressure="3 bar"))
+    >>> round(steam.steam_temperature, 2), round(steam.capacity(373.15), 2)
+    (416.88, 26.24)
+
+    A 30 W/m constant-wattage heater below its setpoint, 10 W/(m K) inward to product at 300 K and
+    0.5 W/(m K) outward to air at 280 K: the wall balance 30 = 10 (T - 300) + 0.5 (T - 280) gives
+    T = 3170 / 10.5 = 301.905 K (by hand, [2]):
+
+    >>> electric = Heater(Tracing(kind="electric_constant", output="30 W/m", setpoint=60.0))
+    >>> wall = electric.balance(300.0, 10.0, 0.5, 280.0)
+    >>> round(wall.t_wall, 3), wall.q_trace
+    (301.905, 30.0)
+
+    References
+    ----------
+    [1] IAPWS R7-97(2012), Revised Release on the IAPWS Industrial Formulation 1997, section 8.
+    [2] Incropera, F. P., DeWitt, D. P., Fundamentals of Heat and Mass Transfer, Wiley, section 3.1
+        (the energy balance of a node).
+    """
 
     def __init__(self, tracing: Tracing, traced_fraction: float = 1.0, ambient_temperature: float | None = None):
         """``ambient_temperature`` [K]: the segment's, for an ambient-sensing controller."""

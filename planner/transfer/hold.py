@@ -5,6 +5,41 @@ After a stop each segment's stagnant contents cool from their running temperatur
 product's no-flow temperature or, if set, the temperature at which it reaches the limiting viscosity.
 A product with a yield stress that has gelled at rest needs a restart pressure of about 4 tau_y L / D
 over the gelled length (force balance on the plug, ``rheology.gelled_restart_pressure``).
+
+Examples
+--------
+An oil of 1 Pa s at every temperature (Andrade a = b = 0), 900 kg/m^3, 2000 J/(kg K), moved by a
+PD pump without slip (0.25 L/rev at 300 rpm: 4.5 m^3/h) from a 5 m tank holding 60 m^3 at 40 degC
+through 100 m of NPS 2 Sch 40 (ID 52.48 mm [1]) under 50 mm of insulation of 0.04 W/(m K), traced
+at 100 W/m to a 45 degC setpoint, into the top of a tank; still air at 20 degC.
+Stopped for an hour with the line at 40 degC and the tracing failed, a lumped metre [2] cools as
+20 + 20 exp(-3600 U / C) = 37.70 degC (U = 0.2226 W/(m K) of the reference recipe at 20 K,
+C = 6558 J/(m K): see ``heat_path.jacket_temperature``); it never reaches the no-flow -40 degC:
+
+>>> from planner.scenario.schema import scenario_from_dict
+>>> scenario = scenario_from_dict({"schema_version": 1, "name": "example",
+...     "site": {"name": "bench", "ambient_temperature": 20.0, "wind_speed": 0.0},
+...     "product": {"name": "oil", "density": 900.0, "density_slope": 0.0, "specific_heat": 2000.0,
+...                 "thermal_conductivity": 0.13, "no_flow_temperature": -40.0, "max_temperature": 200.0,
+...                 "viscosity": {"law": "andrade", "coefficients": {"a": 0.0, "b": 0.0}}},
+...     "route": {"segments": [{"name": "run", "nps": "2", "schedule": "40", "length": 100.0,
+...                             "insulation": [{"conductivity": 0.04, "thickness": "50 mm"}]}]},
+...     "tracing": {"kind": "electric_constant", "output": "100 W/m", "setpoint": 45.0},
+...     "operation": {"flow": "4.5 m3/h", "inlet_temperature": 40.0},
+...     "pump": {"kind": "positive_displacement", "speed": "300 rpm", "displacement": "0.25 L"},
+...     "source": {"diameter": "5 m", "initial_volume": "60 m3", "volume_to_move": "45 m3", "temperature": 40.0},
+...     "destination": {"diameter": "5 m", "initial_level": "0 m", "inlet": "top"},
+...     "schedule": {"start_mode": "push_cold", "line_start_temperature": 10.0}})
+>>> from planner.transfer.system import TransferSystem
+>>> stop = hold_analysis(TransferSystem(scenario), {("discharge", 0): 313.15})
+>>> round(stop.segments[0].after_stop_failed_k - 273.15, 1), stop.time_to_limit_failed_s
+(37.7, None)
+
+References
+----------
+[1] ASME B36.10M, Welded and Seamless Wrought Steel Pipe (via fluids 1.3.1, fluids.piping).
+[2] Incropera, F. P., DeWitt, D. P., Fundamentals of Heat and Mass Transfer, Wiley, section 5.1
+    (the lumped capacitance method).
 """
 
 from __future__ import annotations

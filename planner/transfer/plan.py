@@ -2,6 +2,40 @@
 energy and cost — one call, ``make_plan(scenario)``.
 
 Everything here strings together the steps of the other modules; each step can be called alone.
+
+Examples
+--------
+An oil of 1 Pa s at every temperature (Andrade a = b = 0), 900 kg/m^3, 2000 J/(kg K), moved by a
+PD pump without slip (0.25 L/rev at 300 rpm: 4.5 m^3/h) from a 5 m tank holding 60 m^3 at 40 degC
+through 100 m of NPS 2 Sch 40 (ID 52.48 mm [1]) under 50 mm of insulation of 0.04 W/(m K), traced
+at 100 W/m to a 45 degC setpoint, into the top of a tank; still air at 20 degC.
+Pushing the cold contents out starts at once at the pump's 4.5 m^3/h, so the whole transfer is the
+10 h that 45 m^3 take, and the pump's energy is the 37.7 MJ worked out by hand in
+``transfer.timeline`` (Hagen-Poiseuille [2] and hydrostatics):
+
+>>> from planner.scenario.schema import scenario_from_dict
+>>> scenario = scenario_from_dict({"schema_version": 1, "name": "example",
+...     "site": {"name": "bench", "ambient_temperature": 20.0, "wind_speed": 0.0},
+...     "product": {"name": "oil", "density": 900.0, "density_slope": 0.0, "specific_heat": 2000.0,
+...                 "thermal_conductivity": 0.13, "no_flow_temperature": -40.0, "max_temperature": 200.0,
+...                 "viscosity": {"law": "andrade", "coefficients": {"a": 0.0, "b": 0.0}}},
+...     "route": {"segments": [{"name": "run", "nps": "2", "schedule": "40", "length": 100.0,
+...                             "insulation": [{"conductivity": 0.04, "thickness": "50 mm"}]}]},
+...     "tracing": {"kind": "electric_constant", "output": "100 W/m", "setpoint": 45.0},
+...     "operation": {"flow": "4.5 m3/h", "inlet_temperature": 40.0},
+...     "pump": {"kind": "positive_displacement", "speed": "300 rpm", "displacement": "0.25 L"},
+...     "source": {"diameter": "5 m", "initial_volume": "60 m3", "volume_to_move": "45 m3", "temperature": 40.0},
+...     "destination": {"diameter": "5 m", "initial_level": "0 m", "inlet": "top"},
+...     "schedule": {"start_mode": "push_cold", "line_start_temperature": 10.0}})
+>>> plan = make_plan(scenario)
+>>> round(plan.total_time_s / 3600, 3), round(plan.energy.pump_j / 1e6, 1)
+(10.0, 37.7)
+
+References
+----------
+[1] ASME B36.10M, Welded and Seamless Wrought Steel Pipe (via fluids 1.3.1, fluids.piping).
+[2] White, F. M., Fluid Mechanics, McGraw-Hill, section 6.4 (Hagen-Poiseuille flow) and
+    chapter 2 (hydrostatics).
 """
 
 from __future__ import annotations

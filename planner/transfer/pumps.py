@@ -97,6 +97,19 @@ def hi_parameter_b(kinematic_viscosity_m2_s: float, bep_head_m: float, bep_flow_
     Valid range: the method was fitted to data from about 1 to 3000 cSt; the caller decides
     whether to report viscosities outside that band.
     Source: [1] (via a secondary summary).
+
+    Examples
+    --------
+    200 cSt, 50 m and 200 m^3/h at the BEP, 2950 rpm: B = 5.544 by hand from [1]
+    (../shared/REFERENCES.md [calc]):
+
+    >>> round(hi_parameter_b(200e-6, 50.0, 200.0 / 3600.0, 2950.0 / 60.0), 3)
+    5.544
+
+    References
+    ----------
+    [1] ANSI/HI 9.6.7, Rotodynamic Pumps - Guideline for Effects of Liquid Viscosity on Performance,
+        Hydraulic Institute, 2010/2015 (formulas via a secondary summary of the standard).
     """
     nu_cst = _positive("kinematic viscosity", kinematic_viscosity_m2_s) * _M2_S_TO_CST
     head = _positive("BEP head", bep_head_m)
@@ -143,6 +156,20 @@ def hi_correction(b: float, flow_ratio: float = 1.0) -> HICorrection:
     flow_ratio: Q_water / Q_BEP,water of the water point being corrected [-], >= 0.
     Returns an ``HICorrection``.
     Source: [1] (via a secondary summary).
+
+    Examples
+    --------
+    B = 5.544 (200 cSt, see ``hi_parameter_b``): C_Q = 0.9373 and C_eta = 0.7368 by hand from [1]
+    (../shared/REFERENCES.md [calc]):
+
+    >>> c = hi_correction(5.544)
+    >>> round(c.c_q, 4), round(c.c_eta, 4), c.in_range
+    (0.9373, 0.7368, True)
+
+    References
+    ----------
+    [1] ANSI/HI 9.6.7, Rotodynamic Pumps - Guideline for Effects of Liquid Viscosity on Performance,
+        Hydraulic Institute, 2010/2015 (formulas via a secondary summary of the standard).
     """
     b = _positive("B", b)
     flow_ratio = _non_negative("flow ratio", flow_ratio)
@@ -232,6 +259,25 @@ class CentrifugalPump:
 
     BEP: vertex of the parabola through the highest-efficiency user point and its two
     neighbours (the point itself if it is the last one).
+
+    Examples
+    --------
+    A water curve with its BEP at 200 m^3/h, 50 m, 80 % at 2950 rpm, on 200 cSt: B = 5.544, C_Q = C_H
+    = 0.9373 and C_eta = 0.7368 by hand from [1] (../shared/REFERENCES.md [calc]), so the corrected
+    BEP is at 187.5 m^3/h and 0.9373 x 50 = 46.86 m, at 0.8 x 0.7368 = 58.9 %; on water, as given:
+
+    >>> pump = CentrifugalPump([0.0, 100 / 3600, 200 / 3600, 300 / 3600], [62.0, 58.0, 50.0, 38.0],
+    ...                        [0.0, 0.6, 0.8, 0.6], speed_rev_s=2950 / 60)
+    >>> q = 0.9373 * 200 / 3600
+    >>> round(pump.head(q, 200e-6), 1), round(pump.efficiency(q, 200e-6), 3)
+    (46.9, 0.589)
+    >>> pump.head(200 / 3600, 1e-6), pump.efficiency(200 / 3600, 1e-6)
+    (50.0, 0.8)
+
+    References
+    ----------
+    [1] ANSI/HI 9.6.7, Rotodynamic Pumps - Guideline for Effects of Liquid Viscosity on Performance,
+        Hydraulic Institute, 2010/2015 (formulas via a secondary summary of the standard).
     """
 
     def __init__(self, flows_m3_s: Sequence[float], heads_m: Sequence[float],
@@ -446,6 +492,22 @@ class PositiveDisplacementPump:
     speed, as pump handbooks describe rotary-pump slip [3] [mem] unverified.  The exponent on the
     viscosity ratio lets a measured slip curve be fitted (thin liquids leak less than 1/mu predicts
     once the clearance flow is no longer laminar) [trade].
+
+    Examples
+    --------
+    0.1 L/rev at 25 rev/s moves 2.5 L/s; with 0.1 L/s of slip at 5 bar and 0.2 Pa s, at 10 bar on a
+    liquid of 0.4 Pa s the slit flow [2] is 0.1 x 2 / 2 = 0.1 L/s, so it delivers 2.4 L/s, and the shaft
+    takes 2.5e-3 x 1e6 / 0.85 = 2941.2 W (by hand):
+
+    >>> pump = PositiveDisplacementPump(1e-4, 25.0, 1e-4, 5e5, 0.2, mechanical_efficiency=0.85)
+    >>> round(pump.delivered_flow(1e6, 0.4) * 1e3, 9), round(pump.shaft_power(1e6, 0.4), 1)
+    (2.4, 2941.2)
+
+    References
+    ----------
+    [1] ANSI/HI 9.6.7 (the module's [1]): for centrifugal pumps, not this one.
+    [2] White, F. M., Viscous Fluid Flow, McGraw-Hill, section 3.2 (plane Poiseuille flow).
+    [3] Karassik, I. J., et al., Pump Handbook, McGraw-Hill, chapter on rotary pumps [mem] unverified.
     """
 
     def __init__(self, displacement_m3_per_rev: float, speed_rev_s: float, slip_flow_m3_s: float = 0.0,

@@ -8,6 +8,46 @@ Push cold: the pump starts against the line full of cold product. At the start t
 (suction and discharge) is cold; then a warm front advances with the flow (plug flow) through the
 discharge line, the pressure falling as cold product leaves. The front is stepped through the line's
 volume; at each position the discharge line is marched as a warm head and a cold tail.
+
+Examples
+--------
+An oil of 1 Pa s at every temperature (Andrade a = b = 0), 900 kg/m^3, 2000 J/(kg K), moved by a
+PD pump without slip (0.25 L/rev at 300 rpm: 4.5 m^3/h) from a 5 m tank holding 60 m^3 at 40 degC
+through 100 m of NPS 2 Sch 40 (ID 52.48 mm [1]) under 50 mm of insulation of 0.04 W/(m K), traced
+at 100 W/m to a 45 degC setpoint, into the top of a tank; still air at 20 degC.
+Pre-warm from 10 degC to the setpoint less the 1 K margin (44 degC): a lumped metre [3] with
+C = 6558 J/(m K) (``transients.heat_capacity_per_metre``), the heater's 100 W/m and the loss of the
+reference recipe (U = 0.2262 W/(m K), see ``heat_path.jacket_temperature``) takes
+(C/U) ln((100 + 10 U) / (100 - 24 U)) = 2267 s, 37.8 min (by hand); pushing the cold contents
+out, the warm front reaches the destination after a line volume, 0.2163 m^3 / 1.25e-3 m^3/s = 173 s:
+
+>>> from planner.scenario.schema import scenario_from_dict
+>>> scenario = scenario_from_dict({"schema_version": 1, "name": "example",
+...     "site": {"name": "bench", "ambient_temperature": 20.0, "wind_speed": 0.0},
+...     "product": {"name": "oil", "density": 900.0, "density_slope": 0.0, "specific_heat": 2000.0,
+...                 "thermal_conductivity": 0.13, "no_flow_temperature": -40.0, "max_temperature": 200.0,
+...                 "viscosity": {"law": "andrade", "coefficients": {"a": 0.0, "b": 0.0}}},
+...     "route": {"segments": [{"name": "run", "nps": "2", "schedule": "40", "length": 100.0,
+...                             "insulation": [{"conductivity": 0.04, "thickness": "50 mm"}]}]},
+...     "tracing": {"kind": "electric_constant", "output": "100 W/m", "setpoint": 45.0},
+...     "operation": {"flow": "4.5 m3/h", "inlet_temperature": 40.0},
+...     "pump": {"kind": "positive_displacement", "speed": "300 rpm", "displacement": "0.25 L"},
+...     "source": {"diameter": "5 m", "initial_volume": "60 m3", "volume_to_move": "45 m3", "temperature": 40.0},
+...     "destination": {"diameter": "5 m", "initial_level": "0 m", "inlet": "top"},
+...     "schedule": {"start_mode": "push_cold", "line_start_temperature": 10.0}})
+>>> from planner.transfer.system import TransferSystem
+>>> system = TransferSystem(scenario)
+>>> round(prewarm(system, 283.15).time_s / 60, 1)
+37.8
+>>> round(push_cold(system, 283.15).front_time_s)
+173
+
+References
+----------
+[1] ASME B36.10M, Welded and Seamless Wrought Steel Pipe (via fluids 1.3.1, fluids.piping).
+[2] White, F. M., Fluid Mechanics, McGraw-Hill, section 6.4 (Hagen-Poiseuille flow).
+[3] Incropera, F. P., DeWitt, D. P., Fundamentals of Heat and Mass Transfer, Wiley, section 5.1
+    (the lumped capacitance method).
 """
 
 from __future__ import annotations

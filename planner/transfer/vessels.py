@@ -38,7 +38,26 @@ def _segment_area(radius: float, level: float) -> float:
 
 
 def level_from_volume(vessel: Vessel, volume: float) -> float:
-    """Liquid level above the vessel bottom [m] for a volume of contents [m3]."""
+    """Liquid level above the vessel bottom [m] for a volume of contents [m3].
+
+    Examples
+    --------
+    A horizontal cylinder 2 m across, 5 m long, filled to a quarter of its diameter holds the
+    fraction (theta - sin theta) / (2 pi) = 0.19550 of its volume, theta = 2 acos(1 - 2 h/D) (the
+    circular segment [1], by hand); half its volume puts the level at the axis:
+
+    >>> import math
+    >>> from planner.scenario.schema import Vessel
+    >>> tank = Vessel(shape="horizontal_cylinder", diameter="2 m", length="5 m", initial_volume="10 m3",
+    ...               volume_to_move="5 m3", temperature="20 degC")
+    >>> round(level_from_volume(tank, 0.19550 * math.pi * 5.0), 3), round(level_from_volume(tank, math.pi * 2.5), 6)
+    (0.5, 1.0)
+
+    References
+    ----------
+    [1] Perry's Chemical Engineers' Handbook, 8th ed., McGraw-Hill, 2008, section 10 (volumes of
+        partially filled horizontal cylinders; the segment area r^2 acos((r-h)/r) - (r-h) sqrt(2rh - h^2)).
+    """
     volume = max(volume, 0.0)
     if vessel.shape == "vertical_cylinder":
         return volume / (math.pi * vessel.diameter ** 2 / 4.0)
@@ -70,7 +89,27 @@ def level_from_volume(vessel: Vessel, volume: float) -> float:
 
 
 def wetted_area(vessel: Vessel, volume: float) -> float:
-    """Shell area in contact with the liquid [m2] (the lumped loss area)."""
+    """Shell area in contact with the liquid [m2] (the lumped loss area).
+
+    Examples
+    --------
+    A vertical cylinder 2 m across holding pi m^3 (level 1 m): wall pi x 2 x 1 plus bottom pi =
+    9.425 m^2; a horizontal one 2 m x 5 m half full: half the shell, pi x 1 x 5, plus two half ends,
+    pi = 18.850 m^2 (by hand, [1]):
+
+    >>> import math
+    >>> from planner.scenario.schema import Vessel
+    >>> upright = Vessel(diameter="2 m", initial_volume="10 m3", volume_to_move="5 m3", temperature="20 degC")
+    >>> lying = Vessel(shape="horizontal_cylinder", diameter="2 m", length="5 m", initial_volume="10 m3",
+    ...                volume_to_move="5 m3", temperature="20 degC")
+    >>> round(wetted_area(upright, math.pi), 3), round(wetted_area(lying, math.pi * 2.5), 3)
+    (9.425, 18.85)
+
+    References
+    ----------
+    [1] Perry's Chemical Engineers' Handbook, 8th ed., McGraw-Hill, 2008, section 10 (partially
+        filled horizontal cylinders).
+    """
     level = level_from_volume(vessel, volume)
     if vessel.shape == "vertical_cylinder":
         return math.pi * vessel.diameter * level + math.pi * vessel.diameter ** 2 / 4.0
@@ -83,7 +122,21 @@ def wetted_area(vessel: Vessel, volume: float) -> float:
 
 def cool_contents(temperature: float, mass: float, specific_heat: float, ua: float, t_ambient: float,
                   heating_power: float, dt: float) -> float:
-    """Contents temperature after ``dt`` seconds of the lumped balance (exact for frozen coefficients)."""
+    """Contents temperature after ``dt`` seconds of the lumped balance (exact for frozen coefficients).
+
+    Examples
+    --------
+    50 t at 2000 J/(kg K) and 80 degC, UA 400 W/K to 10 degC air, two hours: Newton's law of cooling
+    [1], 10 + 70 exp(-400 x 7200 / 1e8) = 78.01 degC (by hand):
+
+    >>> round(cool_contents(353.15, 50_000.0, 2000.0, 400.0, 283.15, 0.0, 7200.0) - 273.15, 2)
+    78.01
+
+    References
+    ----------
+    [1] Incropera, F. P., DeWitt, D. P., Fundamentals of Heat and Mass Transfer, Wiley, section 5.1
+        (the lumped capacitance method).
+    """
     return _lumped(temperature, mass * specific_heat, ua, t_ambient, heating_power, dt)
 
 
@@ -112,6 +165,34 @@ def coil_steam_pressure(scenario: Scenario) -> float:
 
 
 def source_heating(scenario: Scenario) -> SourceHeating:
+    """The source's heating medium: steam coils sized to the rated power at the starting temperature,
+    UA_coil = P / (T_sat - T_start), T_sat at the coils' supply pressure; or electric up to its cut-out.
+
+    Examples
+    --------
+    100 kW of coils on 3 barg steam in contents at 40 degC: T_sat = 416.88 K (IAPWS-IF97 [1], iapws
+    1.5.5 ``_TSat_P``), UA_coil = 1e5 / (416.88 - 313.15) = 964.0 W/K (by hand):
+
+    >>> from planner.scenario.schema import scenario_from_dict
+    >>> scenario = scenario_from_dict({"schema_version": 1, "name": "example",
+    ...     "site": {"name": "bench", "ambient_temperature": 20.0, "wind_speed": 0.0},
+    ...     "product": {"name": "oil", "density": 900.0, "density_slope": 0.0, "specific_heat": 2000.0,
+    ...                 "thermal_conductivity": 0.13, "no_flow_temperature": -40.0, "max_temperature": 200.0,
+    ...                 "viscosity": {"law": "andrade", "coefficients": {"a": 0.0, "b": 0.0}}},
+    ...     "route": {"segments": [{"name": "run", "nps": "2", "schedule": "40", "length": 100.0}]},
+    ...     "operation": {"flow": "4.5 m3/h", "inlet_temperature": 40.0},
+    ...     "pump": {"kind": "positive_displacement", "speed": "300 rpm", "displacement": "0.25 L"},
+    ...     "source": {"diameter": "5 m", "initial_volume": "60 m3", "volume_to_move": "45 m3", "temperature": 40.0,
+    ...                "heating_power": "100 kW", "heating_steam_pressure": "3 bar"},
+    ...     "destination": {"diameter": "5 m", "initial_level": "0 m", "inlet": "top"}})
+    >>> heat = source_heating(scenario)
+    >>> heat.medium, round(heat.limit_k, 2), round(heat.coil_ua, 1)
+    ('steam', 416.88, 964.0)
+
+    References
+    ----------
+    [1] IAPWS R7-97(2012), Revised Release on the IAPWS Industrial Formulation 1997, section 8.
+    """
     source = scenario.source
     if source.heating_medium == "steam":
         t_sat = saturation_temperature_gauge(coil_steam_pressure(scenario))
@@ -166,7 +247,29 @@ def _electric_step(t: float, mcp: float, ua: float, t_amb: float, heat: SourceHe
 def heat_contents(temperature: float, mass: float, specific_heat: float, ua: float, t_ambient: float,
                   heat: SourceHeating, dt: float) -> tuple[float, float]:
     """Contents temperature after ``dt`` [s] with the shell loss ``ua`` [W/K] and the heating, and the
-    heat the heating delivered [J] (the lumped balance in closed form, coefficients frozen)."""
+    heat the heating delivered [J] (the lumped balance in closed form, coefficients frozen).
+
+    Examples
+    --------
+    A tonne at 2000 J/(kg K), no shell loss, one hour: 10 kW electric heating adds 36 MJ, 18 K; a steam
+    coil of UA 100 W/K at 416.88 K (3 barg, IAPWS-IF97 [2]) brings it to 416.88 - 123.73
+    exp(-100 x 3600 / 2e6) = 313.53 K, and the heat it delivered is what the contents gained,
+    2e6 x 20.38 = 40.76 MJ (energy balance [1], by hand):
+
+    >>> electric = SourceHeating("electric", 10e3, 400.0)
+    >>> heat_contents(293.15, 1000.0, 2000.0, 0.0, 293.15, electric, 3600.0)
+    (311.15, 36000000.0)
+    >>> t, delivered = heat_contents(293.15, 1000.0, 2000.0, 0.0, 293.15,
+    ...                              SourceHeating("steam", 10e3, 416.88, coil_ua=100.0), 3600.0)
+    >>> round(t, 2), round(delivered / 1e6, 2)
+    (313.53, 40.76)
+
+    References
+    ----------
+    [1] Incropera, F. P., DeWitt, D. P., Fundamentals of Heat and Mass Transfer, Wiley, section 5.1
+        (the lumped capacitance method).
+    [2] IAPWS R7-97(2012), Revised Release on the IAPWS Industrial Formulation 1997, section 8.
+    """
     mcp = mass * specific_heat
     if not heat.active:
         return cool_contents(temperature, mass, specific_heat, ua, t_ambient, 0.0, dt), 0.0
@@ -184,4 +287,20 @@ def heat_contents(temperature: float, mass: float, specific_heat: float, ua: flo
 
 
 def destination_level(dest: Destination, added_volume: float) -> float:
+    """Level [m] of the receiving tank (a vertical cylinder) after ``added_volume`` [m3].
+
+    Examples
+    --------
+    pi m^3 into a tank 2 m across standing at 1 m raises it by V / (pi D^2 / 4) = 1 m [1]:
+
+    >>> import math
+    >>> from planner.scenario.schema import Destination
+    >>> destination_level(Destination(diameter="2 m", initial_level="1 m"), math.pi)
+    2.0
+
+    References
+    ----------
+    [1] Volume of a cylinder, any geometry text; e.g. Perry's Chemical Engineers' Handbook, 8th ed.,
+        section 10.
+    """
     return dest.initial_level + added_volume / (math.pi * dest.diameter ** 2 / 4.0)

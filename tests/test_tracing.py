@@ -69,3 +69,28 @@ def test_ambient_sensing_runs_flat_out_below_its_switch_temperature(air_c, on):
         assert wall.t_wall == pytest.approx((50.0 + 1.0 * (40.0 + C0) + 0.3 * (air_c + C0)) / 1.3, rel=1e-12)
     else:
         assert wall.q_trace == 0.0 and not h.active
+
+
+# ------------------------------------------------------------------------- the heater laws themselves
+@pytest.mark.parametrize("barg", [1.0, 3.0, 10.0])
+def test_a_steam_tracer_runs_at_the_saturation_temperature_of_its_supply(barg):
+    # IAPWS-IF97 saturation line via iapws 1.5.5 (test-time reference) at the gauge pressure plus 1 atm;
+    # bare tracer 0.6 W/(m K) [mem]: output C (T_sat - T_wall), nothing above T_sat
+    from iapws.iapws97 import _TSat_P
+
+    h = Heater(Tracing(kind="steam", steam_pressure=f"{barg} bar"))
+    t_sat = _TSat_P((barg * 1e5 + 101325.0) / 1e6)
+    assert h.steam_temperature == pytest.approx(t_sat, rel=1e-7)
+    assert h.capacity(t_sat - 40.0) == pytest.approx(0.6 * 40.0, rel=1e-6)
+    assert h.capacity(t_sat + 5.0) == 0.0
+
+
+def test_a_self_regulating_heater_falls_linearly_to_zero():
+    # rated 30 W/m at 10 degC pipe temperature, zero at 120 degC (the planner's linear default [trade]):
+    # at 65 degC, halfway, 15 W/m; two runs give twice that
+    spec = Tracing(kind="electric_self_regulating", output="30 W/m", zero_output_temperature="120 degC",
+                   setpoint="60 degC", circuits_per_metre=2.0)
+    h = Heater(spec)
+    assert h.capacity(65.0 + C0) == pytest.approx(2 * 15.0, rel=1e-9)
+    assert h.capacity(10.0 + C0) == pytest.approx(2 * 30.0, rel=1e-9)
+    assert h.capacity(130.0 + C0) == 0.0
