@@ -83,12 +83,20 @@ def fanning_apparent_re_shah(x_plus: float) -> float:
     (Shah 1978) [mem].
 
     x_plus: x / (D Re) [-], > 0.  Returns f_app Re [-].
-    Sources: Shah, R. K. (1978), "A correlation for laminar hydrodynamic entry length solutions for
-    circular and noncircular ducts", J. Fluids Eng. 100, 177-179; Shah & London (1978), Laminar Flow
-    Forced Convection in Ducts, Academic Press [mem].
+    Sources: [1], [2].
 
-    >>> round(fanning_apparent_re_shah(1.0), 2)    # far from the inlet: 16 + K(inf) / 4 = 16.31 (Shah & London)
+    Examples
+    --------
+    Far from the inlet: 16 + K(inf) / (4 x+) = 16.31 at x+ = 1 [2]:
+
+    >>> round(fanning_apparent_re_shah(1.0), 2)
     16.31
+
+    References
+    ----------
+    [1] Shah, R. K., "A correlation for laminar hydrodynamic entry length solutions for circular and
+        noncircular ducts", J. Fluids Eng. 100 (1978) 177-179 [mem].
+    [2] Shah, R. K., London, A. L., Laminar Flow Forced Convection in Ducts, Academic Press, 1978 [mem].
     """
     if not x_plus > 0.0:
         raise ValueError(f"x_plus: {x_plus!r} is not allowed; it must be > 0")
@@ -111,8 +119,18 @@ def darcy_laminar_developing(re: float, from_d: float, to_d: float) -> float:
     re: Reynolds number [-], > 0; 0 <= from_d < to_d [-] (to_d = inf: fully developed).
     Returns the Darcy friction factor [-].
 
-    >>> round(darcy_laminar_developing(1000.0, 0.0, 100.0) / darcy_laminar(1000.0), 2)   # L/D 100 at Re 1000
+    Examples
+    --------
+    L/D = 100 at Re = 1000 (x+ = 0.1): f_app Re = 18.96 by [1]'s formula worked by hand, 1.18 times
+    Hagen-Poiseuille's 16 (the numerical entrance solution of tests/test_developing_laminar.py agrees
+    within 1 %):
+
+    >>> round(darcy_laminar_developing(1000.0, 0.0, 100.0) / darcy_laminar(1000.0), 2)
     1.18
+
+    References
+    ----------
+    [1] Shah, R. K., J. Fluids Eng. 100 (1978) 177-179 [mem].
     """
     _check_re(re)
     if to_d == math.inf:

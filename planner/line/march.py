@@ -88,8 +88,9 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
     An oil of 1 Pa s at every temperature (Andrade a = b = 0), 900 kg/m^3, 2000 J/(kg K), in 100 m
     of NPS 2 Sch 40 (ID 52.48 mm, OD 60.3 mm [1]) under 50 mm of insulation of 0.04 W/(m K), in still
     air at 20 degC, 5 m^3/h in at 20 degC: laminar (Re = 30), so the pressure drop is
-    Hagen-Poiseuille's 128 mu L Q / (pi D^4) = 7.460 bar [1], and the viscous heating is that drop
-    times the flow, 1036.1 W [2] (by hand):
+    Hagen-Poiseuille's 128 mu L Q / (pi D^4) = 7.460 bar [1] plus the developing entrance's
+    K(inf) = 1.25 velocity heads, 0.0023 bar [3], and the viscous heating is that drop times the flow,
+    1036.5 W [2] (by hand):
 
     >>> from planner.scenario.schema import scenario_from_dict
     >>> scenario = scenario_from_dict({"schema_version": 1, "name": "example",
@@ -103,13 +104,15 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
     >>> from planner.line.model import line_from_scenario
     >>> result = march(line_from_scenario(scenario), 5.0 / 3600.0, 293.15)
     >>> round(result.summary.pressure_drop_pa / 1e5, 3), round(result.summary.viscous_heating_w, 1)
-    (7.46, 1036.1)
+    (7.463, 1036.5)
 
     References
     ----------
     [1] White, F. M., Fluid Mechanics, McGraw-Hill, section 6.4 (Hagen-Poiseuille flow).
     [2] Bird, R. B., Stewart, W. E., Lightfoot, E. N., Transport Phenomena, 2nd ed., Wiley, 2002,
         section 11.4 (viscous dissipation: the mechanical energy lost to friction is heat).
+    [3] Shah, R. K., London, A. L., Laminar Flow Forced Convection in Ducts, Academic Press, 1978
+        (incremental pressure drop of the hydrodynamic entrance) [mem].
     """
     if not flow > 0.0:
         raise ValueError(f"flow must be greater than 0 m3/s, got {flow!r}")

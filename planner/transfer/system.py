@@ -127,9 +127,10 @@ class TransferSystem:
     through 100 m of NPS 2 Sch 40 (ID 52.48 mm [1]) under 50 mm of insulation of 0.04 W/(m K), traced
     at 100 W/m to a 45 degC setpoint, into the top of a tank; still air at 20 degC.
     The pump delivers its displacement x speed, 1.25e-3 m^3/s (4.5 m^3/h); the discharge route is laminar
-    (Re = 27) so its drop is Hagen-Poiseuille's 128 mu L Q / (pi D^4) = 6.714 bar [2]; the pump
-    inlet has the tank's head, 900 g (60 / (pi 2.5^2)) = 26.97 kPa [2]; the shaft power is
-    Q (6.714 - 0.270) bar / 0.85 (mechanical efficiency) = 947.7 W (by hand):
+    (Re = 27) so its drop is Hagen-Poiseuille's 128 mu L Q / (pi D^4) = 6.714 bar [2] plus the
+    developing entrance's K(inf) = 1.25 velocity heads, 0.0019 bar [3]: 6.716 bar; the pump inlet has
+    the tank's head, 900 g (60 / (pi 2.5^2)) = 26.97 kPa [2]; the shaft power is
+    Q (6.716 - 0.270) bar / 0.85 (mechanical efficiency) = 948.0 W (by hand):
 
     >>> from planner.scenario.schema import scenario_from_dict
     >>> scenario = scenario_from_dict({"schema_version": 1, "name": "example",
@@ -148,15 +149,17 @@ class TransferSystem:
     >>> system = TransferSystem(scenario)
     >>> point = system.operating_point(SystemState(313.15, 60.0))
     >>> round(point.flow * 3600, 6), round(point.point.discharge_pressure / 1e5, 3), round(point.point.suction_pressure / 1e3, 2)
-    (4.5, 6.714, 26.97)
+    (4.5, 6.716, 26.97)
     >>> round(point.shaft_power, 1)
-    947.7
+    948.0
 
     References
     ----------
     [1] ASME B36.10M, Welded and Seamless Wrought Steel Pipe (via fluids 1.3.1, fluids.piping).
     [2] White, F. M., Fluid Mechanics, McGraw-Hill, section 6.4 (Hagen-Poiseuille flow) and
         chapter 2 (hydrostatics).
+    [3] Shah, R. K., London, A. L., Laminar Flow Forced Convection in Ducts, Academic Press, 1978
+        (incremental pressure drop of the hydrodynamic entrance) [mem].
     """
 
     def __init__(self, scenario: Scenario, tracing=None, product: Product | None = None, step: float = DEFAULT_STEP_M):
