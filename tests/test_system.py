@@ -33,7 +33,8 @@ def test_pd_slip_lowers_the_flow_by_the_slip_law():
 
 def test_npsh_of_a_short_cold_suction_line_matches_a_hand_calculation():
     # Hand calculation (ANSI/HI 9.6.1 definition): NPSHa = (p_atm + p_gas + rho g h - dp_friction
-    # - rho g dz - p_vapour) / (rho g) + V^2 / 2g, laminar friction by Hagen–Poiseuille.
+    # - rho g dz - p_vapour) / (rho g) + V^2 / 2g, laminar friction by Hagen–Poiseuille plus the
+    # developing entrance's excess (Shah 1978: 4 x+ f_app Re velocity heads from the tank outlet).
     mu, rho, level_height = 0.5, 1100.0, 3.0
     data = plan_scenario()
     data["suction"] = {"segments": [{"name": "suction", "nps": "4", "schedule": "40", "length": 6.0,
@@ -47,7 +48,12 @@ def test_npsh_of_a_short_cold_suction_line_matches_a_hand_calculation():
     point = system.at_flow(q, SystemState(293.15, level_height * math.pi * 25.0))
     area = math.pi * ID_4IN_SCH40 ** 2 / 4
     v = q / area
-    friction = 128 * mu * 6.0 * q / (math.pi * ID_4IN_SCH40 ** 4)   # Re = 1100 * 0.61 * 0.102 / 0.5 = 137: laminar
+    re = rho * v * ID_4IN_SCH40 / mu                                 # 1100 * 0.61 * 0.102 / 0.5 = 137: laminar
+    x_plus = 6.0 / ID_4IN_SCH40 / re
+    shah = 3.44 / math.sqrt(x_plus) + (1.25 / (4 * x_plus) + 16 - 3.44 / math.sqrt(x_plus)) / (1 + 0.00021 / x_plus ** 2)
+    friction = 4 * x_plus * shah * rho * v * v / 2
+    assert friction == pytest.approx(128 * mu * 6.0 * q / (math.pi * ID_4IN_SCH40 ** 4) + 1.25 * rho * v * v / 2,
+                                     rel=2e-3)   # far along the entrance: Hagen–Poiseuille plus K(inf) = 1.25
     p_abs = ATMOSPHERE_PA + rho * GRAVITY * level_height - friction + rho * GRAVITY * 1.0
     npsh_hand = (p_abs - 2000.0) / (rho * GRAVITY) + v * v / (2 * GRAVITY)
     assert point.npsh_available == pytest.approx(npsh_hand, rel=1e-6)

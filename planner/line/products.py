@@ -33,7 +33,8 @@ EXTRAPOLATION_TOLERANCE = 1.0    # K
 class Product:
     """Temperature-dependent properties of one product.
 
-    For non-Newtonian products ``viscosity`` is the consistency K(T) [Pa s^n] of the power law or
+    ``density(T)`` [kg/m3] and ``viscosity(T)`` [Pa s] are functions of temperature [K].  For
+    non-Newtonian products ``viscosity`` is the consistency K(T) [Pa s^n] of the power law or
     Herschel–Bulkley model; ``flow_index`` and ``yield_stress`` complete the model.
 
     Examples
@@ -82,15 +83,20 @@ class Product:
         self._cp_slope = spec.specific_heat_slope
         self._k = spec.thermal_conductivity
         self._k_slope = spec.conductivity_slope
+        # the laws are bound as plain functions: the march calls them ~10^5 times per plan
+        self.density = spec.density_function()      # density(T) [kg/m3]
         self._law, self.fit = self._build_law(spec)
         self._kinematic = self._law.quantity == "kinematic"
         self._law_value = self._law.value
         if viscosity_factor != 1.0:
             law_value = self._law.value
             self._law_value = lambda t: viscosity_factor * law_value(t)
-        if not self._kinematic:
-            # bind the law directly: the march calls this ~10^5 times per plan
+        density = self.density
+        if not self._kinematic:   # (a kinematic law times the density)
             self.viscosity = self._law_value
+        else:
+            kinematic = self._law_value
+            self.viscosity = lambda t: kinematic(t) * density(t)
 
     # -- construction ---------------------------------------------------------------------
     def _build_law(self, spec: ProductSpec):
@@ -119,21 +125,11 @@ class Product:
         return fit.law, info
 
     # -- properties -------------------------------------------------------------------------
-    def density(self, t: float) -> float:
-        """Density [kg/m3] at ``t`` [K]: the spec's one definition (``ProductSpec.density_at``)."""
-        return self.spec.density_at(t)
-
     def specific_heat(self, t: float) -> float:
         return self._cp + self._cp_slope * (t - 293.15)
 
     def conductivity(self, t: float) -> float:
         return self._k + self._k_slope * (t - 293.15)
-
-    def viscosity(self, t: float) -> float:
-        """Dynamic viscosity [Pa s] (Newtonian) or consistency K [Pa s^n] (non-Newtonian)."""
-        if self._kinematic:
-            return self._law_value(t) * self.density(t)
-        return self._law_value(t)
 
     def kinematic_viscosity(self, t: float) -> float:
         if self._kinematic:

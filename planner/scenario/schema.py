@@ -219,7 +219,12 @@ class ProductSpec(_Model):
 
     def density_at(self, t: float) -> float:
         """Density [kg/m3] at ``t`` [K] (linear in temperature about the reference)."""
-        return self.density + self.density_slope * (t - self.density_reference_temperature)
+        return self.density_function()(t)
+
+    def density_function(self):
+        """The density law rho(T) [kg/m3, T in K] as a plain function (the march calls it ~10^5 times a plan)."""
+        rho0, slope, t_ref = self.density, self.density_slope, self.density_reference_temperature
+        return lambda t: rho0 + slope * (t - t_ref)
 
     def _vft_domain(self) -> None:
         """A VFT law ln mu = a + b/(T - c) is a viscosity law only for b > 0 (falling with temperature)
