@@ -240,7 +240,7 @@ def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_s
         return
     lever, kind, text, sensitivity, run = _comparison_controls(scenario, unit_system)
     if run:
-        from planner.checks.compare import parse_range
+        from planner.sweeps.compare import parse_range
         from planner.checks.lever_values import typed_values
 
         try:   # each value checked against the lever's field in the unit typed, none twice

@@ -6,16 +6,13 @@ hottest jacket, findings by severity.  The recommendation is the row with the lo
 the runner-up.  Sensitivity: the same comparison with the ambient shifted and with the viscosity
 scaled by plus or minus a percentage, to show how the choice moves.
 
-Rows run in parallel over the machine's cores when there are enough of them to pay for it: a
-persistent pool of worker processes forked from a server process that has the planner loaded.
+Rows run on the caller's executor (``planner.sweeps.executors``), in chunks; without one, here, in order.
 """
 
 from __future__ import annotations
 
 import math
-import multiprocessing
-import os
-from concurrent.futures import ProcessPoolExecutor, as_completed
+from concurrent.futures import Executor
 from dataclasses import dataclass, field
 
 from planner.errors import PlannerError, quoted
@@ -25,8 +22,7 @@ from planner.plain import plain
 from planner.checks.lever_values import LEVERS, check_values
 from planner.scenario.schema import Scenario
 from planner.scenario.wording import Q, Sentence, format_quantity, render
-
-PARALLEL_MIN_ROWS = 4
+from planner.sweeps.executors import fan_out
 
 
 @dataclass
@@ -121,45 +117,15 @@ def _row(scenario: Scenario, lever: str, value: float, viscosity_factor: float, 
     return row
 
 
-_POOL: ProcessPoolExecutor | None = None
-
-
-def _pool(workers: int) -> ProcessPoolExecutor:
-    global _POOL
-    if _POOL is None or _POOL._max_workers != workers:  # noqa: SLF001 (size check only)
-        if _POOL is not None:
-            _POOL.shutdown(cancel_futures=True)
-        # fork: the workers start with the planner already loaded (Linux); no re-import of __main__
-        context = multiprocessing.get_context("fork")
-        _POOL = ProcessPoolExecutor(max_workers=workers, mp_context=context)
-    return _POOL
-
-
-def shutdown_pool() -> None:
-    global _POOL
-    if _POOL is not None:
-        _POOL.shutdown(cancel_futures=True)
-        _POOL = None
+def _row_task(task: tuple) -> dict:
+    """``_row`` on one ``(scenario, lever, value, viscosity_factor, ambient_shift)`` (a chunk's item)."""
+    return _row(*task)
 
 
 def _run_rows(scenario: Scenario, lever: str, values: list[float], viscosity_factor: float, ambient_shift: float,
-              progress, workers: int | None) -> list[dict]:
-    workers = workers if workers is not None else (os.cpu_count() or 1)
-    rows: list[dict | None] = [None] * len(values)
-    total = len(values)
-    if workers > 1 and total >= PARALLEL_MIN_ROWS:
-        pool = _pool(min(workers, total))
-        futures = {pool.submit(_row, scenario, lever, v, viscosity_factor, ambient_shift): i for i, v in enumerate(values)}
-        for done, future in enumerate(as_completed(futures), start=1):
-            rows[futures[future]] = future.result()
-            if progress:
-                progress(done, total)
-    else:
-        for i, v in enumerate(values):
-            rows[i] = _row(scenario, lever, v, viscosity_factor, ambient_shift)
-            if progress:
-                progress(i + 1, total)
-    return rows
+              progress, executor: Executor | None) -> list[dict]:
+    tasks = [(scenario, lever, v, viscosity_factor, ambient_shift) for v in values]
+    return fan_out(_row_task, tasks, executor, progress)
 
 
 # Rows whose total cost is within TIE_BAND of the lowest show no clear difference.  Why 1 %: the plans
@@ -266,10 +232,8 @@ def _lever_decimals(quantity: str) -> int:
     return {"temperature": 1, "pressure": 2, "rotational_speed": 0, "volume_flow": 1}.get(quantity, 2)
 
 
-def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | None = None, progress=None,
-            workers: int | None = None, sensitivity: bool = False, ambient_shift: float = 10.0,
-            viscosity_uncertainty: float = 0.2) -> Comparison:
-    """Rows for each of ``values`` (SI: K, Pa gauge, rev/s, m3/s) of ``lever``."""
+def check_lever(scenario: Scenario, lever: str) -> None:
+    """Refuse a lever the scenario does not have (ValueError naming the field and what to do instead)."""
     if lever not in LEVERS:
         raise ValueError(f"unknown lever {lever!r}; levers are {', '.join(LEVERS)}")
     if lever == "setpoint" and scenario.tracing.kind in ("none",):
@@ -279,6 +243,14 @@ def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | N
     if lever == "steam_pressure" and scenario.tracing.kind != "steam":
         raise ValueError(f"tracing.kind is {scenario.tracing.kind!r}: steam pressures are compared only on steam "
                          "tracing (tracing.kind 'steam'); compare setpoints instead")
+
+
+def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | None = None, progress=None,
+            executor: Executor | None = None, sensitivity: bool = False, ambient_shift: float = 10.0,
+            viscosity_uncertainty: float = 0.2) -> Comparison:
+    """Rows for each of ``values`` (SI: K, Pa gauge, rev/s, m3/s) of ``lever``, run on ``executor`` (any
+    ``concurrent.futures.Executor``, owned by the caller; None: in this process)."""
+    check_lever(scenario, lever)
     if not values:
         from planner.scenario.budget import active_budget
 
@@ -300,7 +272,7 @@ def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | N
 
     results = {}
     for factor, shift, label in cases:
-        rows = _run_rows(scenario, lever, values, factor, shift, step_progress, workers)
+        rows = _run_rows(scenario, lever, values, factor, shift, step_progress, executor)
         offset[0] += len(values)
         results[label] = (rows, *recommend(rows, quantity))
     rows, best, runner, reason = results["as given"]
