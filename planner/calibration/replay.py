@@ -30,7 +30,9 @@ from planner.transfer.system import SystemState, TransferSystem
 from planner.scenario.wording import Q, Sentence
 
 FACTOR_NAMES = ("viscosity_factor", "heat_loss_factor", "slip_factor")
-PARALLEL_MIN_ROWS = 40       # below this sending rows to other processes costs more than it saves
+PARALLEL_MIN_ROWS = 40       # below this a log is replayed in one piece: splitting costs more than it saves
+REPLAY_PARTS = 4             # pieces of a longer log, whatever runs them: a piece's marches start afresh (no warm
+                             # start from the row before), so the pieces, not the executor, decide the figures
 
 
 @dataclass
@@ -171,18 +173,17 @@ def _replay_part(scenario: Scenario, log: TransferLog, factors: dict[str, float]
 
 
 class Replayer:
-    """Repeated replays of one log at different factors, the rows split over ``executor`` (any
-    ``concurrent.futures.Executor``, owned by the caller) in ``parts`` pieces when the log has enough rows;
-    ``executor`` None replays in this process.  Each call counts against ``max_evaluations``."""
+    """Repeated replays of one log at different factors, the rows of a log of at least PARALLEL_MIN_ROWS in
+    REPLAY_PARTS pieces sent to ``executor`` (any ``concurrent.futures.Executor``, owned by the caller;
+    None: the same pieces in this process, so the figures do not depend on where they ran).  Each call
+    counts against ``max_evaluations``."""
 
     def __init__(self, scenario: Scenario, log: TransferLog, executor: Executor | None = None,
-                 max_evaluations: int | None = None, parts: int | None = None):
-        from planner.sweeps.executors import width
-
+                 max_evaluations: int | None = None):
         self.scenario, self.log = scenario, log
         self.max_evaluations = max_evaluations   # the work budget was checked for this many replays
-        self.executor = executor if log.rows >= PARALLEL_MIN_ROWS else None
-        self.parts = parts or width(self.executor)
+        self.executor = executor
+        self.parts = REPLAY_PARTS if log.rows >= PARALLEL_MIN_ROWS else 1
         self.evaluations = 0
 
     def __call__(self, factors: dict[str, float]) -> Replay:
@@ -190,12 +191,15 @@ class Replayer:
         if self.max_evaluations is not None and self.evaluations > self.max_evaluations:
             raise ComputationError(f"the fit asked for more than the {self.max_evaluations} replays of the log its "
                                    "work budget was checked for; fit fewer factors (--fit)")
-        if self.executor is None or self.parts <= 1:
+        if self.parts <= 1:
             return replay(self.scenario, self.log, factors)
         n = self.log.rows
         edges = [round(i * n / self.parts) for i in range(self.parts + 1)]
-        futures = [self.executor.submit(_replay_part, self.scenario, self.log, factors, slice(a, b))
-                   for a, b in zip(edges, edges[1:])]
-        parts = [f.result() for f in futures]
+        pieces = [slice(a, b) for a, b in zip(edges, edges[1:])]
+        if self.executor is None:
+            parts = [_replay_part(self.scenario, self.log, factors, rows) for rows in pieces]
+        else:
+            futures = [self.executor.submit(_replay_part, self.scenario, self.log, factors, rows) for rows in pieces]
+            parts = [f.result() for f in futures]
         modelled = {k: np.concatenate([p.modelled[k] for p in parts]) for k in parts[0].modelled}
         return Replay(parts[0].factors, modelled, np.concatenate([p.sets for p in parts]))
