@@ -80,7 +80,7 @@ def parse_range(text: str, max_values: int | None = None) -> list[float]:
     return values
 
 
-def _row(scenario: Scenario, lever: str, value: float, viscosity_factor: float, ambient_shift: float) -> dict:
+def plan_row(scenario: Scenario, lever: str, value: float, viscosity_factor: float, ambient_shift: float) -> dict:
     """One comparison row (runs in a worker process: the validated scenario in, plain data out; the
     scenario is pickled as it is, so a row never parses or validates it again; ``value`` SI)."""
     keyword, unit = LEVERS[lever].keyword, LEVERS[lever].si_unit
@@ -119,7 +119,7 @@ def _row(scenario: Scenario, lever: str, value: float, viscosity_factor: float, 
 
 def _row_task(task: tuple) -> dict:
     """``_row`` on one ``(scenario, lever, value, viscosity_factor, ambient_shift)`` (a chunk's item)."""
-    return _row(*task)
+    return plan_row(*task)
 
 
 def _run_rows(scenario: Scenario, lever: str, values: list[float], viscosity_factor: float, ambient_shift: float,
@@ -161,7 +161,7 @@ def recommend(rows: list[dict], quantity: str) -> tuple[int | None, int | None, 
     runner = others[0] if others else None
     r = rows[best]
     excluded = len(rows) - len(allowed)
-    decimals = _lever_decimals(quantity)
+    decimals = lever_decimals(quantity)
     choice = Sentence("{v}: lowest total cost {cost} {cur}", v=Q(r["value"], quantity, decimals),
                       cost=f"{r['total_cost']:.2f}", cur=r["currency"])
     if len(tied) > 1:
@@ -211,7 +211,7 @@ def end_of_range_note(values: list[float], best: int | None, quantity: str, tied
         return None
     better = "do as well" if tied else "be better still"
     return Sentence("{v} is at the end of the range you gave (its {end} value): a value {way} it may {better}; extend "
-                    "the range {way} {v} to see", v=Q(value, quantity, _lever_decimals(quantity)), end=end, way=way,
+                    "the range {way} {v} to see", v=Q(value, quantity, lever_decimals(quantity)), end=end, way=way,
                     better=better)
 
 
@@ -228,7 +228,7 @@ def _extendable(scenario: Scenario, lever: str):
     return takes
 
 
-def _lever_decimals(quantity: str) -> int:
+def lever_decimals(quantity: str) -> int:
     return {"temperature": 1, "pressure": 2, "rotational_speed": 0, "volume_flow": 1}.get(quantity, 2)
 
 
@@ -321,7 +321,7 @@ def _row_line(mark: str, r: dict, quantity: str, system: str) -> str:
     cell = lambda v, kind, d: format_quantity(v, kind, system, d).rsplit(" ", 1)[0]  # noqa: E731
     k = r["counts"]
     total_h = "—" if r["total_time_s"] is None else cell(r["total_time_s"], "time", 2)
-    return (f"{mark} {cell(r['value'], quantity, _lever_decimals(quantity)):>8}   "
+    return (f"{mark} {cell(r['value'], quantity, lever_decimals(quantity)):>8}   "
             f"{cell(r['start_flow_m3_s'], 'volume_flow', 1):>9}   {cell(r['transfer_time_s'], 'time', 2):>10}   "
             f"{total_h:>7}   {r['energy_cost']:6.1f}   {r['demurrage']:9.1f}   {r['total_cost']:6.1f}   "
             f"{cell(r['peak_pressure_pa'], 'pressure', 2):>8}   {cell(r['hottest_jacket_k'], 'temperature', 1):>9}   "
@@ -352,6 +352,6 @@ def comparison_table(comparison: Comparison, system: str = "SI") -> str:
         lines.append(f"  note: {render(c.end_of_range, system)}")
     for label, s in c.sensitivity.items():
         value = "none" if s["recommended_value"] is None else format_quantity(s["recommended_value"], c.quantity, system,
-                                                                               _lever_decimals(c.quantity))
+                                                                               lever_decimals(c.quantity))
         lines.append(f"  with {render(label, system)}: {value}")
     return "\n".join(lines)

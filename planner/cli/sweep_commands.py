@@ -1,0 +1,88 @@
+"""Commands of many plans: ``envelope`` (ambients x lever values of one scenario) and ``sweep`` (a manifest of
+scenario files to a Parquet table).
+
+Both run their plans on one executor opened for the command (``planner.sweeps.executors.executor_for``):
+a pool of this machine's cores, or the dask cluster of ``--scheduler`` / ``PLANNER_DASK_SCHEDULER``.
+Dask is imported only then.
+"""
+
+from __future__ import annotations
+
+import json
+import sys
+
+from planner.cli.line_commands import LEVER_OPTIONS, UNIT_CHOICES, _lever_values, add_scheduler_option
+from planner.errors import PlannerError
+from planner.scenario.budget import BudgetError
+
+
+def ambients_si(scenario, text: str, system: str, option: str = "--ambient") -> list[float]:
+    """The ambients of ``--ambient`` (a range or a list in °C, °F with --units us) in K, each checked."""
+    from planner.scenario.units import to_si_from_display, unit_label
+    from planner.sweeps.compare import parse_range
+    from planner.sweeps.envelope import check_ambients
+
+    try:
+        numbers = parse_range(text)
+    except ValueError as exc:
+        raise ValueError(f"{option}: {exc}") from None
+    values = [to_si_from_display(n, "temperature", system) for n in numbers]
+    check_ambients(scenario, values, option, [f"{n:g} {unit_label('temperature', system)}" for n in numbers])
+    return values
+
+
+def _progress(args):
+    def progress(done, total):
+        if not (args.json or args.csv) and sys.stderr.isatty():
+            print(f"\r  {done}/{total} plans", end="", file=sys.stderr, flush=True)
+    return progress
+
+
+def _envelope(args) -> int:
+    from planner.scenario.schema import load_scenario
+    from planner.sweeps.envelope import envelope, envelope_csv, envelope_json, envelope_table
+    from planner.sweeps.executors import executor_for
+
+    if args.uncertainty or args.samples is not None:
+        raise PlannerError("--uncertainty/--samples: sampled uncertainty is not available yet (issue 21); the "
+                           "envelope is computed at the scenario's own values: leave both options out")
+    system = UNIT_CHOICES[args.units]
+    scenario = load_scenario(args.scenario)
+    lever, values, option = _lever_values(args, scenario, system)
+    ambients = ambients_si(scenario, args.ambient, system)
+    try:
+        with executor_for(args.scheduler) as executor:
+            result = envelope(scenario, lever, values, ambients, executor=executor, progress=_progress(args))
+    except BudgetError as exc:
+        raise BudgetError([(option if field == "values" else field, message) for field, message in exc.problems]) from None
+    if sys.stderr.isatty() and not (args.json or args.csv):
+        print(file=sys.stderr)
+    if args.json:
+        print(json.dumps(envelope_json(result), indent=2, ensure_ascii=False))
+    elif args.csv:
+        sys.stdout.write(envelope_csv(result))
+    else:
+        print(scenario.name)
+        print(envelope_table(result, system))
+    return 0
+
+
+def register(sub) -> None:
+    """Add ``envelope`` and ``sweep`` to the top-level parser's sub-parsers."""
+    en = sub.add_parser("envelope", help="operating envelope: ambients x setpoints (or another lever); the lowest value "
+                                         "that finishes within the window with no stop, per ambient")
+    en.add_argument("scenario", help="scenario file with [pump], [source] and [destination]")
+    en.add_argument("--ambient", required=True,
+                    help="ambients in °C (°F with --units us): START:STOP:STEP or a list, e.g. -20:30:5")
+    for option, _ in LEVER_OPTIONS:
+        en.add_argument("--" + option.replace("_", "-"),
+                        help="lever values as for `compare` (in the display unit of --units): START:STOP:STEP or a list")
+    output = en.add_mutually_exclusive_group()
+    output.add_argument("--json", action="store_true", help="print JSON of every cell and the envelope line (SI)")
+    output.add_argument("--csv", action="store_true", help="print CSV, one line per cell (SI: K, s, the lever's unit)")
+    en.add_argument("--units", choices=sorted(UNIT_CHOICES), default="si",
+                    help="unit system of the text table and of the numbers given: si or us; JSON and CSV are SI")
+    en.add_argument("--uncertainty", action="store_true", help="not available yet (issue 21): refused")
+    en.add_argument("--samples", type=int, default=None, help="not available yet (issue 21): refused")
+    add_scheduler_option(en)
+    en.set_defaults(func=_envelope)
