@@ -67,6 +67,26 @@ def _envelope(args) -> int:
     return 0
 
 
+def _sweep(args) -> int:
+    from tqdm import tqdm
+
+    from planner.sweeps.executors import executor_for
+    from planner.sweeps.manifest import read_manifest
+    from planner.sweeps.sweep import SweepBusy, done_keys, run_sweep, summary_text
+
+    manifest = read_manifest(args.manifest)
+    try:
+        already = len(done_keys(manifest.output)) if manifest.output.is_dir() else 0
+        with executor_for(args.scheduler) as executor, \
+                tqdm(total=manifest.plans, initial=min(already, manifest.plans), unit="plan", file=sys.stderr,
+                     disable=args.quiet or None, dynamic_ncols=True) as bar:
+            summary = run_sweep(manifest, executor, progress=bar.update)
+    except SweepBusy as exc:
+        raise PlannerError(str(exc)) from None
+    print(summary_text(summary))
+    return 0
+
+
 def register(sub) -> None:
     """Add ``envelope`` and ``sweep`` to the top-level parser's sub-parsers."""
     en = sub.add_parser("envelope", help="operating envelope: ambients x setpoints (or another lever); the lowest value "
@@ -86,3 +106,11 @@ def register(sub) -> None:
     en.add_argument("--samples", type=int, default=None, help="not available yet (issue 21): refused")
     add_scheduler_option(en)
     en.set_defaults(func=_envelope)
+
+    sw = sub.add_parser("sweep", help="plan every scenario x lever value x ambient of a manifest into a Parquet table "
+                                      "(resumes: rows already in the table are skipped)")
+    sw.add_argument("manifest", help="manifest (TOML): output folder and [[entries]] of scenario files or folders with "
+                                     "a lever and ambients (see README)")
+    sw.add_argument("--quiet", action="store_true", help="no progress bar (it shows only on a terminal anyway)")
+    add_scheduler_option(sw)
+    sw.set_defaults(func=_sweep)
