@@ -135,3 +135,16 @@ def test_a_colder_ambient_never_needs_a_lower_setpoint(length, insulation, windo
         result = envelope(scenario, "setpoint", SETPOINTS, AMBIENTS, executor=pool)
     needed = [float("inf") if v is None else v for v in result.line]      # AMBIENTS run cold to warm
     assert needed == sorted(needed, reverse=True), (needed, [[c["total_time_s"] for c in r] for r in result.cells])
+
+
+def test_the_printable_card_shows_the_envelope_line_and_is_never_written_over_a_file(capsys, tmp_path):
+    card = tmp_path / "card.html"
+    args = ["envelope", SYRUP, "--ambient", "-20,20", "--setpoints", "40,70", "--card", card]
+    code, _, _ = _run(capsys, *args)
+    page = card.read_text(encoding="utf-8")
+    assert code == 0 and "<script" not in page and "@page { size: A4 portrait" in page
+    assert "lowest trace setpoint" in page and "<td><b>40.0 °C</b></td>" in page     # 40 °C fits at both ambients
+    assert 'class="stop"' in page                       # 70 °C at -20 °C: a stop (the text table's STOP)
+    code, _, err = _run(capsys, *args)
+    assert code == 2 and "--card:" in err and "exists" in err
+    assert card.read_text(encoding="utf-8") == page

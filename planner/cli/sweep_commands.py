@@ -9,6 +9,7 @@ Dask is imported only then.
 from __future__ import annotations
 
 import json
+import os
 import sys
 
 from planner.cli.line_commands import LEVER_OPTIONS, UNIT_CHOICES, _lever_values, add_scheduler_option
@@ -38,6 +39,20 @@ def _progress(args):
     return progress
 
 
+def _write_card(path: str, result, system: str) -> None:
+    """The printable card to a new file (never over an existing one)."""
+    from planner.errors import quoted
+    from planner.reports.envelope_card import envelope_card_html
+
+    try:
+        with open(path, "x", encoding="utf-8") as handle:
+            handle.write(envelope_card_html(result, system))
+    except FileExistsError:
+        raise PlannerError(f"--card: {quoted(path)} exists; give a new file name (the card was not written)") from None
+    except OSError as exc:
+        raise PlannerError(f"--card: cannot write {quoted(path)}: {exc.strerror or exc}") from None
+
+
 def _envelope(args) -> int:
     from planner.scenario.schema import load_scenario
     from planner.sweeps.envelope import envelope, envelope_csv, envelope_json, envelope_table
@@ -47,6 +62,8 @@ def _envelope(args) -> int:
         raise PlannerError("--uncertainty/--samples: sampled uncertainty is not available yet (issue 21); the "
                            "envelope is computed at the scenario's own values: leave both options out")
     system = UNIT_CHOICES[args.units]
+    if args.card and os.path.exists(args.card):       # before the plans run, not after
+        raise PlannerError(f"--card: {args.card!r} exists; give a new file name (the card is never written over a file)")
     scenario = load_scenario(args.scenario)
     lever, values, option = _lever_values(args, scenario, system)
     ambients = ambients_si(scenario, args.ambient, system)
@@ -57,6 +74,8 @@ def _envelope(args) -> int:
         raise BudgetError([(option if field == "values" else field, message) for field, message in exc.problems]) from None
     if sys.stderr.isatty() and not (args.json or args.csv):
         print(file=sys.stderr)
+    if args.card:
+        _write_card(args.card, result, system)
     if args.json:
         print(json.dumps(envelope_json(result), indent=2, ensure_ascii=False))
     elif args.csv:
@@ -101,7 +120,9 @@ def register(sub) -> None:
     output.add_argument("--json", action="store_true", help="print JSON of every cell and the envelope line (SI)")
     output.add_argument("--csv", action="store_true", help="print CSV, one line per cell (SI: K, s, the lever's unit)")
     en.add_argument("--units", choices=sorted(UNIT_CHOICES), default="si",
-                    help="unit system of the text table and of the numbers given: si or us; JSON and CSV are SI")
+                    help="unit system of the text table, the card and the numbers given: si or us; JSON and CSV are SI")
+    en.add_argument("--card", metavar="CARD.html",
+                    help="also write the printable one-page envelope card (HTML) to this new file")
     en.add_argument("--uncertainty", action="store_true", help="not available yet (issue 21): refused")
     en.add_argument("--samples", type=int, default=None, help="not available yet (issue 21): refused")
     add_scheduler_option(en)

@@ -72,10 +72,12 @@ def fan_out(function: Callable, items: list, executor: Executor | None = None, p
     order).  ``function`` must be a module-level function and the items plain data (they are pickled).
     ``progress(done, total)`` is called as chunks come back."""
     results: list = [None] * len(items)
+    done = 0
     for start, part in iter_chunks(function, items, executor, size):
         results[start:start + len(part)] = part
+        done += len(part)
         if progress:
-            progress(sum(r is not None for r in results), len(items))
+            progress(done, len(items))
     return results
 
 
