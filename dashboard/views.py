@@ -253,10 +253,13 @@ def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_s
     saved = st.session_state.get("comparison")
     if not saved:
         st.caption("Choose the values and press Compare: each value is a whole plan.")
-        return
-    if saved["json"] != scenario_json:
-        st.warning("The inputs have changed since this comparison: press Compare to run it again.")
-    comparison_result(saved["result"], unit_system)
+    else:
+        if saved["json"] != scenario_json:
+            st.warning("The inputs have changed since this comparison: press Compare to run it again.")
+        comparison_result(saved["result"], unit_system)
+    from .envelope_view import envelope_section
+
+    envelope_section(scenario, scenario_json, unit_system, lever, kind, text)
 
 
 def comparison_result(result: dict, unit_system: str) -> None:

@@ -57,6 +57,7 @@ def _env_float(name: str, default: float) -> float:
 def limits() -> dict:
     return {"plan": _env_float("PLANNER_PLAN_TIME_LIMIT_S", PLAN_SECONDS),
             "comparison": _env_float("PLANNER_COMPARISON_TIME_LIMIT_S", COMPARISON_SECONDS),
+            "envelope": _env_float("PLANNER_COMPARISON_TIME_LIMIT_S", COMPARISON_SECONDS),
             "calibration": _env_float("PLANNER_CALIBRATION_TIME_LIMIT_S", CALIBRATION_SECONDS),
             "wait": _env_float("PLANNER_WORKER_WAIT_S", WAIT_SECONDS)}
 
@@ -110,7 +111,20 @@ def calibration_job(fit_key: str, log_bytes: bytes, log_name: str, map_text: str
         return _failure(exc, "calibration")
 
 
-JOBS = {"plan": bundle_job, "comparison": comparison_job, "calibration": calibration_job}
+def envelope_job(scenario_json: str, lever: str, values_si: list, ambients_k: list, progress=None,
+                 executor=None) -> dict:
+    from planner.scenario.schema import parse_scenario_text
+    from planner.sweeps.envelope import envelope, envelope_json
+
+    try:
+        result = envelope(parse_scenario_text(scenario_json, "json"), lever, list(values_si), list(ambients_k),
+                          executor=executor, progress=progress)
+        return envelope_json(result)
+    except Exception as exc:  # noqa: BLE001
+        return _failure(exc, "envelope")
+
+
+JOBS = {"plan": bundle_job, "comparison": comparison_job, "calibration": calibration_job, "envelope": envelope_job}
 
 
 def _executor(stack: contextlib.ExitStack):
@@ -274,9 +288,10 @@ class WorkerPool:
             raise
         self._discard(worker)
         self.stopped += 1
-        what = "plan" if kind == "plan" else "comparison"
-        reduce = ("shorten the route or lower the timeline steps (Inputs)" if kind == "plan" else
-                  "compare fewer values, or leave out the sensitivity cases")
+        what = kind if kind in ("plan", "envelope") else "comparison"
+        reduce = {"plan": "shorten the route or lower the timeline steps (Inputs)",
+                  "envelope": "give fewer ambients or lever values"}.get(
+            kind, "compare fewer values, or leave out the sensitivity cases")
         return {"error": f"the {what} was stopped after {time_limit:g} s, the dashboard's time limit: {reduce}",
                 "transient": True, "timeout": True}
 

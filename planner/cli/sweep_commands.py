@@ -19,17 +19,14 @@ from planner.scenario.budget import BudgetError
 
 def ambients_si(scenario, text: str, system: str, option: str = "--ambient") -> list[float]:
     """The ambients of ``--ambient`` (a range or a list in °C, °F with --units us) in K, each checked."""
-    from planner.scenario.units import to_si_from_display, unit_label
     from planner.sweeps.compare import parse_range
-    from planner.sweeps.envelope import check_ambients
+    from planner.sweeps.envelope import typed_ambients
 
     try:
         numbers = parse_range(text)
     except ValueError as exc:
         raise ValueError(f"{option}: {exc}") from None
-    values = [to_si_from_display(n, "temperature", system) for n in numbers]
-    check_ambients(scenario, values, option, [f"{n:g} {unit_label('temperature', system)}" for n in numbers])
-    return values
+    return typed_ambients(scenario, numbers, system, option)
 
 
 def _progress(args):

@@ -19,18 +19,21 @@ from planner.sweeps.envelope import SEVERITY_MARKS, Envelope
 
 LEVER_WORDS = {"setpoint": "trace setpoint", "steam_pressure": "steam pressure", "pump_speed": "pump speed",
                "flow_limit": "flow limit"}
-CSS = """
+PAGE_CSS = """
 @page { size: A4 portrait; margin: 12mm; }
 body { font-family: sans-serif; color: #111; max-width: 186mm; margin: 0 auto; }
-h1 { font-size: 18pt; margin: 0 0 2mm 0; } .meta { font-size: 8pt; color: #444; margin: 0 0 4mm 0; }
-table.line { border-collapse: collapse; width: 100%; margin-bottom: 5mm; }
-table.line td, table.line th { border: 1px solid #333; padding: 2mm 3mm; font-size: 15pt; text-align: center; }
-table.line th { background: #eee; }
-table.grid { border-collapse: collapse; width: 100%; font-size: 7.5pt; }
-table.grid td, table.grid th { border: 1px solid #999; padding: 0.8mm; text-align: center; }
-td.fits { background: #d8f0d8; } td.stop { background: #f4c7c3; } td.late { background: #fbe9c0; }
-td.none { color: #a00; font-weight: bold; }
-.caution { font-size: 7.5pt; border-top: 1px solid #999; margin-top: 4mm; padding-top: 2mm; }
+"""
+CARD_CSS = """
+section.envelope-card { break-before: page; break-inside: avoid; }
+.envelope-card h1 { font-size: 18pt; margin: 0 0 2mm 0; } .envelope-card .meta { font-size: 8pt; color: #444; margin: 0 0 4mm 0; }
+.envelope-card table.line { border-collapse: collapse; width: 100%; margin-bottom: 5mm; }
+.envelope-card table.line td, .envelope-card table.line th { border: 1px solid #333; padding: 2mm 3mm; font-size: 15pt; text-align: center; }
+.envelope-card table.line th { background: #eee; }
+.envelope-card table.grid { border-collapse: collapse; width: 100%; font-size: 7.5pt; }
+.envelope-card table.grid td, .envelope-card table.grid th { border: 1px solid #999; padding: 0.8mm; text-align: center; }
+.envelope-card td.fits { background: #d8f0d8; } .envelope-card td.stop { background: #f4c7c3; } .envelope-card td.late { background: #fbe9c0; }
+.envelope-card td.none { color: #a00; font-weight: bold; }
+.envelope-card .caution { font-size: 7.5pt; border-top: 1px solid #999; margin-top: 4mm; padding-top: 2mm; }
 """
 
 
@@ -63,13 +66,14 @@ def _grid(result: Envelope, system: str) -> str:
     return f'<table class="grid"><tr><th>ambient</th>{head}</tr>{"".join(rows)}</table>'
 
 
-def envelope_card_html(result: Envelope, system: str = "SI", generated_at: _dt.datetime | None = None) -> str:
-    """One printable page: the envelope line in large print, the grid below, the caution at the foot."""
+def envelope_card_section(result: Envelope, system: str = "SI", generated_at: _dt.datetime | None = None) -> str:
+    """The card as one ``<section class="envelope-card">`` (styled by CARD_CSS; a page of its own in print),
+    for a page of its own or the end of the plan report."""
     when = (generated_at or _dt.datetime.now()).strftime("%Y-%m-%d %H:%M")
     lever = LEVER_WORDS.get(result.lever, result.lever)
     window = format_quantity(result.window_s, "time", system, 1)
     title = f"Operating envelope — {result.scenario}"
-    body = f"""
+    return f"""<section class="envelope-card">
 <h1>{html.escape(title)}</h1>
 <p class="meta">Lowest {html.escape(lever)} that finishes the transfer within its planned window ({html.escape(window)})
 with no stop-level finding, by ambient temperature. Viscous Transfer Planner · generated {html.escape(when)} ·
@@ -81,6 +85,12 @@ Green: within the window, no stop. Amber: past the window. Red: a stop-level fin
 {_grid(result, system)}
 <div class="caution"><b>Caution.</b> {html.escape(STANDING_CAUTION)} Between the ambients listed, use the
 colder one's value.</div>
-"""
+</section>"""
+
+
+def envelope_card_html(result: Envelope, system: str = "SI", generated_at: _dt.datetime | None = None) -> str:
+    """One printable page: the envelope line in large print, the grid below, the caution at the foot."""
+    title = f"Operating envelope — {result.scenario}"
     return (f"<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\"><title>{html.escape(title)}</title>"
-            f"<style>{CSS}</style></head><body>{body}</body></html>")
+            f"<style>{PAGE_CSS}{CARD_CSS}</style></head><body>{envelope_card_section(result, system, generated_at)}"
+            "</body></html>")

@@ -70,9 +70,26 @@ class AmbientsError(ValuesError):
         self.args = ("the ambients are not valid:\n  " + "\n  ".join(f"{f}: {m}" for f, m in problems),)
 
 
+def typed_ambients(scenario: Scenario, numbers: list[float], system: str, option: str) -> list[float]:
+    """Ambients [K] from ``numbers`` in ``system``'s temperature unit (°C or °F), each checked (``check_ambients``)
+    with the site's limit said in that unit; AmbientsError naming ``option`` otherwise."""
+    from planner.scenario.units import UNIT_SYSTEMS, to_si_from_display
+
+    unit = UNIT_SYSTEMS[system]["temperature"]
+    ambients = [to_si_from_display(n, "temperature", system) for n in numbers]
+    check_ambients(scenario, ambients, option, [f"{n:g} {unit.label}" for n in numbers],
+                   [f"{n!r} {unit.pint_unit}" for n in numbers])
+    return ambients
+
+
 def check_ambients(scenario: Scenario, ambients: list[float], option: str = "--ambient",
-                   shown: list[str] | None = None) -> None:
-    """Refuse ambients [K] that repeat or that the scenario's ambient fields refuse once shifted to them."""
+                   shown: list[str] | None = None, typed: list[str] | None = None) -> None:
+    """Refuse ambients [K] that repeat or that the scenario's ambient fields refuse once shifted to them;
+    ``shown``: each as typed, for the message; ``typed``: with its pint unit ("-95.0 degC"), so that the site's
+    limit is said in the unit typed."""
+    from pydantic import ValidationError
+
+    from planner.scenario.schema import problems_from
     from planner.transfer.plan import with_changes
 
     problems = []
@@ -80,13 +97,18 @@ def check_ambients(scenario: Scenario, ambients: list[float], option: str = "--a
         words = f"ambient {i + 1} ({shown[i] if shown else format_quantity(ambient, 'temperature')})"
         if not math.isfinite(ambient):
             problems.append((option, f"{words} is not a finite number"))
-        elif any(abs(a - ambient) < 1e-9 for a in ambients[:i]):
+            continue
+        if any(abs(a - ambient) < 1e-9 for a in ambients[:i]):
             problems.append((option, f"{words} repeats an earlier ambient: give each ambient once"))
-        else:
-            try:
-                with_changes(scenario, ambient_shift=ambient - scenario.site.ambient_temperature)
-            except ScenarioError as exc:
-                problems += [(option, f"{words}: {path + ': ' if path else ''}{message}") for path, message in exc.problems]
+            continue
+        try:
+            if typed:                  # the site's own field, in the unit typed
+                scenario.site.model_copy().ambient_temperature = typed[i]
+            with_changes(scenario, ambient_shift=ambient - scenario.site.ambient_temperature)
+        except ValidationError as exc:
+            problems += [(option, f"{words}: site.{path}: {message}") for path, message in problems_from(exc)]
+        except ScenarioError as exc:
+            problems += [(option, f"{words}: {path + ': ' if path else ''}{message}") for path, message in exc.problems]
     if problems:
         raise AmbientsError(problems[:10])
 
@@ -122,6 +144,14 @@ def envelope_json(result: Envelope) -> dict:
         "planned_window_s": result.window_s, "cells": [c for row in result.cells for c in row],
         "envelope": [{"ambient_k": a, "value": v} for a, v in zip(result.ambients, result.line)],
     })
+
+
+def envelope_from_json(data: dict) -> Envelope:
+    """The envelope back from ``envelope_json`` (e.g. the dashboard's worker's answer)."""
+    n = len(data["values"])
+    cells = [data["cells"][i * n:(i + 1) * n] for i in range(len(data["ambients_k"]))]
+    return Envelope(data["scenario"], data["lever"], data["quantity"], list(data["values"]), list(data["ambients_k"]),
+                    data["planned_window_s"], cells)
 
 
 def envelope_csv(result: Envelope) -> str:

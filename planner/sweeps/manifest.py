@@ -147,9 +147,8 @@ def _files(base: Path, name: str, entry: dict) -> list[Path]:
 def _job(i: int, name: str, file: Path, entry: dict, key: str, system: str) -> Job:
     from planner.checks.lever_values import typed_values
     from planner.scenario.schema import load_scenario
-    from planner.scenario.units import to_si_from_display, unit_label
     from planner.sweeps.compare import check_lever, parse_range
-    from planner.sweeps.envelope import check_ambients
+    from planner.sweeps.envelope import typed_ambients
 
     lever = LEVER_KEYS[key]
     try:
@@ -166,8 +165,7 @@ def _job(i: int, name: str, file: Path, entry: dict, key: str, system: str) -> J
                 given = parse_range(str(entry["ambients"]))
             except ValueError as exc:
                 raise ValueError(f"{option}: {exc}") from None
-            ambients = [to_si_from_display(n, "temperature", system) for n in given]
-            check_ambients(scenario, ambients, option, [f"{n:g} {unit_label('temperature', system)}" for n in given])
+            ambients = typed_ambients(scenario, given, system, option)
         else:
             ambients = [scenario.site.ambient_temperature]
     except ScenarioError as exc:
