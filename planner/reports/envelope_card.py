@@ -73,12 +73,12 @@ def envelope_card_section(result: Envelope, system: str = "SI", generated_at: _d
     lever = LEVER_WORDS.get(result.lever, result.lever)
     window = format_quantity(result.window_s, "time", system, 1)
     title = f"Operating envelope — {result.scenario}"
+    units = ", ".join(dict.fromkeys(unit_label(kind, system) for kind in ("temperature", result.quantity, "time")))
     return f"""<section class="envelope-card">
 <h1>{html.escape(title)}</h1>
 <p class="meta">Lowest {html.escape(lever)} that finishes the transfer within its planned window ({html.escape(window)})
 with no stop-level finding, by ambient temperature. Viscous Transfer Planner · generated {html.escape(when)} ·
-<code>python -m planner envelope</code> · units {html.escape(unit_label('temperature', system))},
-{html.escape(unit_label(result.quantity, system))}</p>
+<code>python -m planner envelope</code> · units {html.escape(units)}</p>
 <table class="line"><tr><th>ambient</th><th>lowest {html.escape(lever)}</th></tr>{_line_rows(result, system)}</table>
 <p class="meta">Every plan of the grid: total time and worst finding (ok, caut = caution, warn = warning, STOP).
 Green: within the window, no stop. Amber: past the window. Red: a stop-level finding.</p>

@@ -17,9 +17,10 @@ floats), in the order they were sent.
 from __future__ import annotations
 
 import contextlib
+import itertools
 import math
 import os
-from concurrent.futures import Executor, as_completed
+from concurrent.futures import FIRST_COMPLETED, Executor, wait
 from typing import Callable, Iterator
 
 CHUNK_LEAST = 8          # plans per task once there are enough to keep every worker busy
@@ -83,19 +84,33 @@ def fan_out(function: Callable, items: list, executor: Executor | None = None, p
 
 def iter_chunks(function: Callable, items: list, executor: Executor | None = None,
                 size: int | None = None) -> Iterator[tuple[int, list]]:
-    """Each chunk's ``(first index, results)`` as it finishes (in order when ``executor`` is None)."""
+    """Each chunk's ``(first index, results)`` as it finishes (in order when ``executor`` is None).  At most
+    TASKS_PER_WORKER tasks a worker are out at once, the next sent as one comes back: a sweep of a million
+    plans never holds a million plans' arguments in the executor's queue (or a cluster scheduler's)."""
     if executor is None or len(items) <= 1:
         size = size or CHUNK_MOST
         for start, part in chunks(items, size):
             yield start, run_chunk(function, part)
         return
-    size = size or chunk_size(len(items), width(executor))
-    futures = {executor.submit(run_chunk, function, part): start for start, part in chunks(items, size)}
+    workers = width(executor)
+    size = size or chunk_size(len(items), workers)
+    waiting = iter(chunks(items, size))
+    out: dict = {}
+
+    def send(count: int) -> None:
+        for start, part in itertools.islice(waiting, count):
+            out[executor.submit(run_chunk, function, part)] = start
+
+    send(TASKS_PER_WORKER * workers)
     try:
-        for future in as_completed(futures):
-            yield futures[future], future.result()
+        while out:
+            done, _ = wait(out, return_when=FIRST_COMPLETED)
+            for future in done:
+                start = out.pop(future)
+                yield start, future.result()
+            send(len(done))
     finally:
-        for future in futures:
+        for future in out:
             future.cancel()
 
 
