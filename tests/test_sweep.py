@@ -91,6 +91,8 @@ def test_rows_carry_the_scenario_its_hash_the_inputs_and_the_figures(tmp_path, c
     (f'[[entries]]\nscenario = "{SYRUP}"\nsetpoints = "40:200:1"\n', "entries[1].setpoints (syrup_railcar_unload.toml)"),
     (f'[[entries]]\nscenario = "{SYRUP}"\nsetpoints = "40"\nambients = "-95"\n', "entries[1].ambients"),
     (f'[[entries]]\nscenario = "{SYRUP}"\nsetpoints = "40"\nsamples = 128\n', "entries[1].samples: sampled uncertainty"),
+    (f'[[entries]]\nscenario = "{SYRUP}"\nsetpoints = "40"\nambients = "cold"\n',
+     "entries[1].ambients (syrup_railcar_unload.toml): cannot read the values 'cold'"),
     (f'[[entries]]\nfolder = "{SYRUP}"\nsetpoints = "40"\n', "entries[1].folder"),
     ('[[entries]]\nscenario = 3\nsetpoints = "40"\n', "entries[1].scenario: 3: give a path as text"),
     (f'[[entries]\nscenario = "{SYRUP}"\n', "cannot read the manifest"),

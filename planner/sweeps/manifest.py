@@ -164,7 +164,7 @@ def _job(i: int, name: str, file: Path, entry: dict, key: str, system: str) -> J
             try:
                 given = parse_range(str(entry["ambients"]))
             except ValueError as exc:
-                raise ValueError(f"{option}: {exc}") from None
+                raise ManifestError([(option, str(exc))]) from None
             ambients = typed_ambients(scenario, given, system, option)
         else:
             ambients = [scenario.site.ambient_temperature]
