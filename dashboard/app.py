@@ -158,8 +158,10 @@ def sidebar(scenario: Scenario | None, scenario_json: str | None, bundle: dict |
         sb.caption("The scenario file can be exported once the inputs are valid.")
     if scenario is not None and bundle is not None and "error" not in bundle:
         slug = _slug(scenario.name)
-        sb.download_button("Plan report (HTML, opens offline)",
-                           data=lambda: build_report_html(scenario, bundle, unit_system),
+        saved_envelope = st.session_state.get("envelope") or {}
+        envelope = saved_envelope.get("result") if saved_envelope.get("json") == scenario_json else None
+        sb.download_button("Plan report (HTML, opens offline)" + (" with the envelope card" if envelope else ""),
+                           data=lambda: build_report_html(scenario, bundle, unit_system, envelope=envelope),
                            file_name=f"plan-{slug}.html", mime="text/html", key="dl_report", width="stretch")
         if bundle.get("profile") is not None:
             sb.download_button("Profile along the line (CSV)",

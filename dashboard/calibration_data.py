@@ -18,9 +18,9 @@ def _plain(values) -> list:
     return [v if math.isfinite(v) else None for v in map(float, values)]
 
 
-def fit_document(fit_key: str, log_bytes: bytes, log_name: str, map_text: str, names) -> dict:
+def fit_document(fit_key: str, log_bytes: bytes, log_name: str, map_text: str, names, executor=None) -> dict:
     """``fit_json`` of the fit plus the series (time, logged, modelled) and the calibration to apply;
-    or ``{"error": message}``."""
+    or ``{"error": message}``.  The replays run on ``executor`` (the dashboard worker's; None: here)."""
     from planner.calibration.fit import calibrated_scenario, fit_calibration
     from planner.calibration.log import column_map_from_dict, read_log
     from planner.calibration.report import fit_json
@@ -34,7 +34,7 @@ def fit_document(fit_key: str, log_bytes: bytes, log_name: str, map_text: str, n
             return {"error": f"{log_name} has {transfer_log.rows} readable rows; the page fits logs of up to "
                              f"{DASHBOARD_MAX_ROWS} rows: resample it (e.g. one row a minute) or use "
                              "`python -m planner calibrate`"}
-        result = fit_calibration(scenario, transfer_log, list(names))
+        result = fit_calibration(scenario, transfer_log, list(names), executor=executor)
     except tomllib.TOMLDecodeError as exc:
         return {"error": f"the column map cannot be read as TOML: {exc}"}
     except (PlannerError, ValueError, ArithmeticError) as exc:

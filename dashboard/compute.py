@@ -130,3 +130,16 @@ def cached_calibration(fit_key: str, log_bytes: bytes, log_name: str, map_text: 
         return _calibration(fit_key, log_bytes, log_name, map_text, names)
     except _NotCached as exc:
         return exc.result
+
+
+@st.cache_data(show_spinner=False, max_entries=8)
+def _envelope(scenario_json: str, lever: str, values_si: tuple, ambients_k: tuple) -> dict:
+    return _run("envelope", (scenario_json, lever, list(values_si), list(ambients_k)))
+
+
+def cached_envelope(scenario_json: str, lever: str, values_si: tuple, ambients_k: tuple) -> dict:
+    """``planner.sweeps.envelope.envelope_json`` of the grid (SI), or ``{"error": ...}``."""
+    try:
+        return _envelope(scenario_json, lever, tuple(values_si), tuple(ambients_k))
+    except _NotCached as exc:
+        return exc.result

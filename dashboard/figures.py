@@ -312,3 +312,28 @@ def sensitivity_figure(comparison: dict, kind: str, system: str) -> go.Figure | 
                   "(dashed: each case's recommended value)", 460)
     fig.update_layout(hovermode="closest")
     return fig
+
+
+def envelope_figure(envelope: dict, kind: str, system: str) -> go.Figure:
+    """Heat-map of the envelope's cells (total time; blank where no plan) over ambient x lever value, stop
+    cells marked ✕, and the envelope line: the lowest value finishing within the window with no stop."""
+    values = [to_display(v, kind, system) for v in envelope["values"]]
+    ambients = [to_display(a, "temperature", system) for a in envelope["ambients_k"]]
+    n = len(values)
+    cells = [envelope["cells"][i * n:(i + 1) * n] for i in range(len(ambients))]
+    hours = [[None if c["total_time_s"] is None else c["total_time_s"] / 3600.0 for c in row] for row in cells]
+    text = [[c["worst_severity"] for c in row] for row in cells]
+    fig = go.Figure(go.Heatmap(x=values, y=ambients, z=hours, text=text, colorscale="YlOrRd",
+                               colorbar=dict(title="total h"),
+                               hovertemplate="%{y}, %{x}: %{z:.1f} h, worst %{text}<extra></extra>"))
+    stops = [(values[j], ambients[i]) for i, row in enumerate(cells) for j, c in enumerate(row) if c["has_stop"]]
+    if stops:
+        fig.add_trace(go.Scatter(x=[p[0] for p in stops], y=[p[1] for p in stops], mode="markers", name="stop",
+                                 marker=dict(symbol="x", size=11, color="#000")))
+    line = [(to_display(e["value"], kind, system), to_display(e["ambient_k"], "temperature", system))
+            for e in envelope["envelope"] if e["value"] is not None]
+    fig.add_trace(go.Scatter(x=[p[0] for p in line], y=[p[1] for p in line], mode="lines+markers",
+                             name="envelope (lowest that fits)", line=dict(color="#1f4e79", width=3)))
+    fig.update_xaxes(title_text=with_unit(envelope["lever"].replace("_", " "), kind, system))
+    fig.update_yaxes(title_text=with_unit("Ambient", "temperature", system))
+    return _layout(fig, f"Operating envelope (window {envelope['planned_window_s'] / 3600.0:.1f} h)", 480)

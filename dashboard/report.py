@@ -111,8 +111,20 @@ def _figure_html(fig) -> str:
     return fig.to_html(full_html=False, include_plotlyjs=False, config={"displaylogo": False})
 
 
-def build_report_html(scenario: Scenario, bundle: dict, system: str = "SI", generated_at: _dt.datetime | None = None) -> str:
-    """The whole report as one HTML string (display units of ``system``)."""
+def _envelope_card(envelope: dict | None, system: str) -> tuple[str, str]:
+    """The printable envelope card (its own page at the end) and its style, when an envelope was worked out."""
+    if not envelope or "error" in envelope:
+        return "", ""
+    from planner.reports.envelope_card import CARD_CSS, envelope_card_section
+    from planner.sweeps.envelope import envelope_from_json
+
+    return envelope_card_section(envelope_from_json(envelope), system), CARD_CSS
+
+
+def build_report_html(scenario: Scenario, bundle: dict, system: str = "SI", generated_at: _dt.datetime | None = None,
+                      envelope: dict | None = None) -> str:
+    """The whole report as one HTML string (display units of ``system``); with ``envelope`` (the JSON of
+    ``planner.sweeps.envelope`` for this scenario) its printable card as the last page."""
     when = (generated_at or _dt.datetime.now()).strftime("%Y-%m-%d %H:%M")
     plan = bundle["plan"]
     start = plan["start"]
@@ -162,6 +174,7 @@ def build_report_html(scenario: Scenario, bundle: dict, system: str = "SI", gene
 <pre>{html.escape(scenario_to_toml(scenario, system))}</pre>
 {caution}
 """
+    card, card_css = _envelope_card(envelope, system)
     return (f"<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">"
-            f"<title>Transfer plan — {html.escape(scenario.name)}</title><style>{CSS}</style>"
-            f"<script type=\"text/javascript\">{get_plotlyjs()}</script></head><body>{body}</body></html>")
+            f"<title>Transfer plan — {html.escape(scenario.name)}</title><style>{CSS}{card_css}</style>"
+            f"<script type=\"text/javascript\">{get_plotlyjs()}</script></head><body>{body}{card}</body></html>")

@@ -12,7 +12,7 @@ import math
 
 import numpy as np
 
-from planner.checks.compare import compare
+from planner.sweeps.compare import compare
 from planner.errors import PlannerError
 from planner.checks.findings import assess
 from planner.plain import finite_or_none, plain as _plain
@@ -180,7 +180,7 @@ def build_bundle(scenario: Scenario) -> dict:
 # Setpoint (or other lever) comparison
 
 LEVERS = {
-    # lever name of planner.checks.compare -> (label, display kind); values are SI both ways
+    # lever name of planner.sweeps.compare -> (label, display kind); values are SI both ways
     "setpoint": ("Tracing setpoint", "temperature"),
     "steam_pressure": ("Steam pressure", "pressure"),
     "pump_speed": ("Pump speed", "rotational_speed"),
@@ -189,10 +189,12 @@ LEVERS = {
 
 
 def run_comparison(scenario: Scenario, lever: str, values_si: list[float], progress=None,
-                   sensitivity: bool = False) -> dict:
-    """``planner.checks.compare.compare`` as plain data (lever values SI: K, Pa, rev/s, m3/s)."""
+                   sensitivity: bool = False, executor=None) -> dict:
+    """``planner.sweeps.compare.compare`` as plain data (lever values SI: K, Pa, rev/s, m3/s), its rows on
+    ``executor`` (the dashboard worker's; None: in this process)."""
     kind = LEVERS[lever][1]
-    comparison = compare(scenario, lever=lever, values=list(values_si), progress=progress, sensitivity=sensitivity)
+    comparison = compare(scenario, lever=lever, values=list(values_si), progress=progress, sensitivity=sensitivity,
+                         executor=executor)
     rows = [_plain(dict(r)) for r in comparison.rows]
     cases = [{"case": name, "recommended_value": case.get("recommended_value"), "reason": case.get("reason", ""),
               "total_costs": _plain(case.get("total_costs", []))}

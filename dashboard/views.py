@@ -240,7 +240,7 @@ def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_s
         return
     lever, kind, text, sensitivity, run = _comparison_controls(scenario, unit_system)
     if run:
-        from planner.checks.compare import parse_range
+        from planner.sweeps.compare import parse_range
         from planner.checks.lever_values import typed_values
 
         try:   # each value checked against the lever's field in the unit typed, none twice
@@ -253,10 +253,13 @@ def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_s
     saved = st.session_state.get("comparison")
     if not saved:
         st.caption("Choose the values and press Compare: each value is a whole plan.")
-        return
-    if saved["json"] != scenario_json:
-        st.warning("The inputs have changed since this comparison: press Compare to run it again.")
-    comparison_result(saved["result"], unit_system)
+    else:
+        if saved["json"] != scenario_json:
+            st.warning("The inputs have changed since this comparison: press Compare to run it again.")
+        comparison_result(saved["result"], unit_system)
+    from .envelope_view import envelope_section
+
+    envelope_section(scenario, scenario_json, unit_system, lever, kind, text)
 
 
 def comparison_result(result: dict, unit_system: str) -> None:

@@ -16,12 +16,15 @@ page script, so multiprocessing's spawn and forkserver would re-run the page in 
 fork would keep the server's listening socket open).  It loads the planner before its first job,
 and runs in its own session and process group: a comparison's own row processes are stopped with it.
 Environment (read at each request): ``PLANNER_WORKERS``, ``PLANNER_PLAN_TIME_LIMIT_S``,
-``PLANNER_COMPARISON_TIME_LIMIT_S``, ``PLANNER_WORKER_WAIT_S``.
+``PLANNER_COMPARISON_TIME_LIMIT_S``, ``PLANNER_WORKER_WAIT_S``; read when a worker starts:
+``PLANNER_ROW_PROCESSES`` (processes of a worker's own pool for comparison rows and calibration replays,
+default the machine's cores), ``PLANNER_DASK_SCHEDULER`` (send those to a dask cluster instead).
 """
 
 from __future__ import annotations
 
 import atexit
+import contextlib
 import logging
 import os
 import signal
@@ -54,6 +57,7 @@ def _env_float(name: str, default: float) -> float:
 def limits() -> dict:
     return {"plan": _env_float("PLANNER_PLAN_TIME_LIMIT_S", PLAN_SECONDS),
             "comparison": _env_float("PLANNER_COMPARISON_TIME_LIMIT_S", COMPARISON_SECONDS),
+            "envelope": _env_float("PLANNER_COMPARISON_TIME_LIMIT_S", COMPARISON_SECONDS),
             "calibration": _env_float("PLANNER_CALIBRATION_TIME_LIMIT_S", CALIBRATION_SECONDS),
             "wait": _env_float("PLANNER_WORKER_WAIT_S", WAIT_SECONDS)}
 
@@ -73,7 +77,7 @@ def _failure(exc: BaseException, what: str) -> dict:
                      "please report this scenario to the maintainers"}
 
 
-def bundle_job(scenario_json: str, progress=None) -> dict:
+def bundle_job(scenario_json: str, progress=None, executor=None) -> dict:
     from planner.scenario.schema import parse_scenario_text
 
     from dashboard.results import build_bundle
@@ -84,28 +88,59 @@ def bundle_job(scenario_json: str, progress=None) -> dict:
         return _failure(exc, "plan")
 
 
-def comparison_job(scenario_json: str, lever: str, values_si: list, sensitivity: bool, progress=None) -> dict:
+def comparison_job(scenario_json: str, lever: str, values_si: list, sensitivity: bool, progress=None,
+                   executor=None) -> dict:
     from planner.scenario.schema import parse_scenario_text
 
     from dashboard.results import run_comparison
 
     try:
         return run_comparison(parse_scenario_text(scenario_json, "json"), lever, list(values_si),
-                              progress=progress, sensitivity=sensitivity)
+                              progress=progress, sensitivity=sensitivity, executor=executor)
     except Exception as exc:  # noqa: BLE001
         return _failure(exc, "comparison")
 
 
-def calibration_job(fit_key: str, log_bytes: bytes, log_name: str, map_text: str, names: list, progress=None) -> dict:
+def calibration_job(fit_key: str, log_bytes: bytes, log_name: str, map_text: str, names: list, progress=None,
+                    executor=None) -> dict:
     from dashboard.calibration_data import fit_document
 
     try:
-        return fit_document(fit_key, log_bytes, log_name, map_text, names)
+        return fit_document(fit_key, log_bytes, log_name, map_text, names, executor=executor)
     except Exception as exc:  # noqa: BLE001
         return _failure(exc, "calibration")
 
 
-JOBS = {"plan": bundle_job, "comparison": comparison_job, "calibration": calibration_job}
+def envelope_job(scenario_json: str, lever: str, values_si: list, ambients_k: list, progress=None,
+                 executor=None) -> dict:
+    from planner.scenario.schema import parse_scenario_text
+    from planner.sweeps.envelope import envelope, envelope_json
+
+    try:
+        result = envelope(parse_scenario_text(scenario_json, "json"), lever, list(values_si), list(ambients_k),
+                          executor=executor, progress=progress)
+        return envelope_json(result)
+    except Exception as exc:  # noqa: BLE001
+        return _failure(exc, "envelope")
+
+
+JOBS = {"plan": bundle_job, "comparison": comparison_job, "calibration": calibration_job, "envelope": envelope_job}
+
+
+def _executor(stack: contextlib.ExitStack):
+    """The worker's one executor for the fan-out of its jobs (comparison rows, calibration replays), kept for
+    its life: the dask cluster of ``PLANNER_DASK_SCHEDULER`` when set and reachable, else a local pool
+    (its processes are in this worker's process group, so a job stopped at its time limit stops them too)."""
+    from planner.errors import PlannerError
+    from planner.sweeps.executors import cluster_executor, local_executor, scheduler_address
+
+    address = scheduler_address(None)
+    if address:
+        try:
+            return stack.enter_context(cluster_executor(address))
+        except PlannerError:
+            log.exception("the dask scheduler %s cannot be reached: the plans run on this machine", address)
+    return stack.enter_context(local_executor(int(_env_float("PLANNER_ROW_PROCESSES", os.cpu_count() or 1))))
 
 
 def _serve(conn) -> None:
@@ -115,17 +150,19 @@ def _serve(conn) -> None:
     from planner.scenario.units import registry
 
     registry()
-    conn.send(("ready",))
-    while True:
-        try:
-            kind, args = conn.recv()
-        except (EOFError, OSError):
-            return
+    with contextlib.ExitStack() as stack:
+        executor = _executor(stack)
+        conn.send(("ready",))
+        while True:
+            try:
+                kind, args = conn.recv()
+            except (EOFError, OSError):
+                return
 
-        def progress(done, total):
-            conn.send(("progress", done, total))
+            def progress(done, total):
+                conn.send(("progress", done, total))
 
-        conn.send(("result", JOBS[kind](*args, progress=progress)))
+            conn.send(("result", JOBS[kind](*args, progress=progress, executor=executor)))
 
 
 # ------------------------------------------------------------------------------------------ pool
@@ -251,9 +288,10 @@ class WorkerPool:
             raise
         self._discard(worker)
         self.stopped += 1
-        what = "plan" if kind == "plan" else "comparison"
-        reduce = ("shorten the route or lower the timeline steps (Inputs)" if kind == "plan" else
-                  "compare fewer values, or leave out the sensitivity cases")
+        what = kind if kind in ("plan", "envelope") else "comparison"
+        reduce = {"plan": "shorten the route or lower the timeline steps (Inputs)",
+                  "envelope": "give fewer ambients or lever values"}.get(
+            kind, "compare fewer values, or leave out the sensitivity cases")
         return {"error": f"the {what} was stopped after {time_limit:g} s, the dashboard's time limit: {reduce}",
                 "transient": True, "timeout": True}
 

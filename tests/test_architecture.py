@@ -2,7 +2,8 @@
 
 - data flows one way: a module imports only from its own stage or the stages before it;
 - ``planner/`` never imports Streamlit;
-- no function in ``planner/`` or ``dashboard/`` is longer than 80 lines.
+- no function in ``planner/`` or ``dashboard/`` is longer than 80 lines;
+- no module in ``planner/`` keeps a pool of workers: fan-out takes the caller's executor.
 """
 
 from __future__ import annotations
@@ -14,8 +15,8 @@ import pytest
 
 ROOT = pathlib.Path(__file__).resolve().parents[1]
 # the stages in data-flow order; a module may import from its own stage and any earlier one
-STAGES = ["errors", "plain", "correlations", "scenario", "line", "transfer", "checks", "calibration", "reports",
-          "records", "cli"]
+STAGES = ["errors", "plain", "correlations", "scenario", "line", "transfer", "checks", "sweeps", "calibration",
+          "reports", "records", "cli"]
 MAX_FUNCTION_LINES = 80
 # Known crossings, each with its reason. errors.py names a bad field with the page's label for it,
 # from scenario/labels.py (a table of words that imports nothing but the standard library).
@@ -71,3 +72,20 @@ def test_no_function_longer_than_80_lines():
                     if length > MAX_FUNCTION_LINES:
                         long.append(f"{path.relative_to(ROOT)}:{node.lineno} {node.name} ({length} lines)")
     assert not long, "functions longer than 80 lines:\n" + "\n".join(long)
+
+
+POOL_NAMES = ("ProcessPoolExecutor", "ThreadPoolExecutor", "Pool", "Client", "LocalCluster", "get_executor")
+
+
+@pytest.mark.parametrize("path", _modules("planner"), ids=lambda p: str(p.relative_to(ROOT)))
+def test_planner_keeps_no_pool_in_a_global(path):
+    """A pool is made only inside a function that hands it to its caller for a block (a ``with``), never
+    assigned at module level nor through ``global``."""
+    tree = ast.parse(path.read_text())
+    globals_ = {name for node in ast.walk(tree) if isinstance(node, ast.Global) for name in node.names}
+    assert not globals_, f"{path.name} assigns module globals from a function: {sorted(globals_)}"
+    for node in tree.body:
+        if isinstance(node, (ast.Assign, ast.AnnAssign)) and node.value is not None:
+            calls = [n for n in ast.walk(node.value) if isinstance(n, ast.Call)]
+            names = [getattr(c.func, "id", getattr(c.func, "attr", "")) for c in calls]
+            assert not [n for n in names if n in POOL_NAMES], f"{path.name}:{node.lineno} makes a pool at import"

@@ -11,7 +11,7 @@ import math
 import pytest
 
 from conftest import DEMO_FILES, base_scenario
-from planner.checks.compare import compare, parse_range
+from planner.sweeps.compare import compare, parse_range
 from planner.cli import main
 from planner.records.links import LinkError, URL_BUDGET_CHARS, link_url, parse_query, query_for
 from planner.scenario import budget

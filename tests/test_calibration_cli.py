@@ -120,7 +120,7 @@ def test_the_demo_fit_stays_inside_its_bound_on_replays():
     from planner.calibration.log import read_log_file
     from planner.scenario.schema import load_scenario
 
-    result = fit_calibration(load_scenario(BARGE), read_log_file(DEMO_LOG), list(DEMO_TRUTH), workers=1)
+    result = fit_calibration(load_scenario(BARGE), read_log_file(DEMO_LOG), list(DEMO_TRUTH))
     assert 10 <= result.evaluations <= max_evaluations(3)
 
 

@@ -9,7 +9,8 @@ import sys
 import pytest
 
 from conftest import DEMO_FILES, ROOT
-from planner.checks.compare import TIE_BAND, compare, parse_range, recommend, shutdown_pool
+from planner.sweeps.compare import TIE_BAND, compare, parse_range, recommend
+from planner.sweeps.executors import local_executor
 from planner.scenario.schema import load_scenario, scenario_from_dict, scenario_to_dict
 
 SYRUP = ROOT / "demo_scenarios" / "syrup_railcar_unload.toml"
@@ -63,13 +64,13 @@ def _gentlest_within_the_band(c, key: str) -> None:
 
 
 def test_without_demurrage_the_cheapest_energy_setpoint_wins():
-    c = compare(syrup(0.0), "setpoint", SETPOINTS, workers=1)
+    c = compare(syrup(0.0), "setpoint", SETPOINTS)
     _gentlest_within_the_band(c, "energy_cost")
     assert c.rows[c.recommended]["demurrage"] == 0.0
 
 
 def test_with_huge_demurrage_the_fastest_allowed_setpoint_wins():
-    c = compare(syrup(1.0e5), "setpoint", SETPOINTS, workers=1)
+    c = compare(syrup(1.0e5), "setpoint", SETPOINTS)
     _gentlest_within_the_band(c, "total_time_s")
 
 
@@ -77,7 +78,7 @@ def test_a_stop_level_row_is_never_recommended():
     # Fuel-oil barge: steam tracing through a T3 area (IEC 60079-0: 200 degC).  Higher steam pressure
     # pre-warms faster and so saves demurrage, but above about 14.5 bar(g) the tracer passes 200 degC.
     fuel = ROOT / "demo_scenarios" / "fuel_oil_barge_discharge.toml"
-    c = compare(load_scenario(fuel), "steam_pressure", [p * 1e5 for p in (4.0, 8.0, 12.0, 15.0, 17.0)], workers=1)
+    c = compare(load_scenario(fuel), "steam_pressure", [p * 1e5 for p in (4.0, 8.0, 12.0, 15.0, 17.0)])
     stops = [i for i, r in enumerate(c.rows) if r["has_stop"]]
     assert stops == [3, 4]
     assert all("TCLASS-EXCEEDED" in c.rows[i]["stop_codes"] for i in stops)
@@ -87,18 +88,16 @@ def test_a_stop_level_row_is_never_recommended():
 
 
 def test_parallel_rows_equal_serial_rows():
-    serial = compare(syrup(85.0), "setpoint", SETPOINTS, workers=1)
+    serial = compare(syrup(85.0), "setpoint", SETPOINTS)
     progress = []
-    try:
-        parallel = compare(syrup(85.0), "setpoint", SETPOINTS, workers=2, progress=lambda d, n: progress.append((d, n)))
-    finally:
-        shutdown_pool()
+    with local_executor(2) as pool:      # the caller owns the pool: the library keeps none
+        parallel = compare(syrup(85.0), "setpoint", SETPOINTS, executor=pool, progress=lambda d, n: progress.append((d, n)))
     assert [r["total_cost"] for r in parallel.rows] == pytest.approx([r["total_cost"] for r in serial.rows], rel=1e-12)
     assert progress[-1] == (len(SETPOINTS), len(SETPOINTS))
 
 
 def test_sensitivity_reruns_with_ambient_and_viscosity_moved():
-    c = compare(syrup(85.0), "setpoint", [318.15, 328.15], workers=1, sensitivity=True, ambient_shift=10.0,
+    c = compare(syrup(85.0), "setpoint", [318.15, 328.15], sensitivity=True, ambient_shift=10.0,
                 viscosity_uncertainty=0.3)
     assert set(c.sensitivity) == {"ambient -10 K", "ambient +10 K", "viscosity -30 %", "viscosity +30 %"}
     # thicker product: a longer transfer costs more demurrage at every setpoint
@@ -144,9 +143,9 @@ def test_near_equal_costs_are_no_clear_difference_and_the_gentler_value_is_recom
 
 
 def test_the_syrup_demo_says_no_clear_difference_in_text_json_and_notes_the_end_of_the_range():
-    from planner.checks.compare import comparison_json, comparison_table
+    from planner.sweeps.compare import comparison_json, comparison_table
 
-    c = compare(load_scenario(SYRUP), "setpoint", [298.15, 318.15], workers=1)
+    c = compare(load_scenario(SYRUP), "setpoint", [298.15, 318.15])
     assert c.recommended == 0 and c.tied == [0, 1]
     doc = comparison_json(c)
     assert doc["no_clear_difference"] and doc["tied_indices"] == [0, 1]
@@ -159,11 +158,11 @@ def test_the_syrup_demo_says_no_clear_difference_in_text_json_and_notes_the_end_
 def test_a_recommendation_at_the_top_of_the_range_says_extend_it():
     # issue 20.4: on the barge the recommended steam pressure was always the top of the typed range
     fuel = ROOT / "demo_scenarios" / "fuel_oil_barge_discharge.toml"
-    c = compare(load_scenario(fuel), "steam_pressure", [p * 1e5 for p in (2.0, 4.0, 6.0)], workers=1)
+    c = compare(load_scenario(fuel), "steam_pressure", [p * 1e5 for p in (2.0, 4.0, 6.0)])
     assert c.recommended == 2 and not c.tied
     assert c.end_of_range == ("6.00 bar is at the end of the range you gave (its highest value): a value above it may "
                               "be better still; extend the range above 6.00 bar to see")
-    from planner.checks.compare import end_of_range_note
+    from planner.sweeps.compare import end_of_range_note
 
     assert end_of_range_note([2e5, 6e5, 4e5], 2, "pressure") is None               # inside the range given
     assert end_of_range_note([2e5, 6e5, 4e5], 0, "pressure").startswith("2.00 bar is at the end of the range you gave "

@@ -282,8 +282,8 @@ def _comparison_shown(at: AppTest) -> str:
 def test_the_setpoint_comparison_can_be_run_again():
     """Issue 12.1: the same values twice, again after SI -> US, and in a second session (another
     browser) that finds the comparison already worked out by the first: each shows the result.
-    The reference is ``planner.checks.compare.compare`` on the same values."""
-    from planner.checks.compare import compare
+    The reference is ``planner.sweeps.compare.compare`` on the same values."""
+    from planner.sweeps.compare import compare
 
     path = ROOT / "demo_scenarios" / "polyol_tank_transfer.toml"
     expected = compare(load_scenario(path), lever="setpoint", values=[303.15, 313.15])   # SI: 30 and 40 °C

@@ -248,11 +248,11 @@ def test_comparison_values_are_checked_like_the_field_in_the_users_units(tmp_pat
 
 
 def test_the_library_refuses_duplicates_and_values_the_field_refuses():
-    from planner.checks.compare import compare
+    from planner.sweeps.compare import compare
     from planner.checks.lever_values import ValuesError
 
     scenario = load_scenario(BARGE)
     with pytest.raises(ValuesError, match=r"values: value 2 \(3.00 bar\) repeats value 1"):
-        compare(scenario, "steam_pressure", [3e5, 3e5 * (1 + 1e-12)], workers=1)
+        compare(scenario, "steam_pressure", [3e5, 3e5 * (1 + 1e-12)])
     with pytest.raises(ValuesError, match=r"values: value 1 \(-5.00 bar\): tracing.steam_pressure: .* must be at least"):
-        compare(scenario, "steam_pressure", [-5e5, 3e5], workers=1)
+        compare(scenario, "steam_pressure", [-5e5, 3e5])

@@ -18,6 +18,7 @@ correlation between fitted factors comes from the same matrix.
 from __future__ import annotations
 
 import math
+from concurrent.futures import Executor
 from dataclasses import dataclass, field
 from datetime import datetime, timezone
 
@@ -148,16 +149,14 @@ def _residual_function(evaluate, log, names, quantities, sigmas):
     return residuals
 
 
-def fit_calibration(scenario: Scenario, log: TransferLog, names=None, workers: int | None = None) -> FitResult:
+def fit_calibration(scenario: Scenario, log: TransferLog, names=None, executor: Executor | None = None) -> FitResult:
     """Fit the named factors (default: ``default_factors``) to the log; the other factors stay at the
-    scenario's calibration.
-    ``workers``: processes to replay the rows in (default: the machine's cores, at most 4)."""
+    scenario's calibration.  ``executor``: where the replays' rows run (the caller's; None: here)."""
     names = default_factors(scenario, log) if names is None else list(names)
     _check_sections(scenario)
     _check_names(scenario, log, names)
     check_calibration(scenario, log.rows, max_evaluations(len(names)), len(names))   # before any work
-    with Replayer(scenario, log, workers, max_evaluations(len(names))) as evaluate:
-        return _fit(scenario, log, names, evaluate)
+    return _fit(scenario, log, names, Replayer(scenario, log, executor, max_evaluations(len(names))))
 
 
 def _check_sections(scenario: Scenario) -> None:

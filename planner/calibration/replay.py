@@ -17,9 +17,7 @@ changing fast, are not steady states, and show up as large residuals.
 from __future__ import annotations
 
 import math
-import multiprocessing
-import os
-from concurrent.futures import ProcessPoolExecutor
+from concurrent.futures import Executor
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -32,7 +30,9 @@ from planner.transfer.system import SystemState, TransferSystem
 from planner.scenario.wording import Q, Sentence
 
 FACTOR_NAMES = ("viscosity_factor", "heat_loss_factor", "slip_factor")
-PARALLEL_MIN_ROWS = 40       # below this a worker pool costs more than it saves
+PARALLEL_MIN_ROWS = 40       # below this a log is replayed in one piece: splitting costs more than it saves
+REPLAY_PARTS = 4             # pieces of a longer log, whatever runs them: a piece's marches start afresh (no warm
+                             # start from the row before), so the pieces, not the executor, decide the figures
 
 
 @dataclass
@@ -167,53 +167,39 @@ def heater_holding_fraction(scenario: Scenario, log: TransferLog) -> float:
     return float(np.sum(lengths[steps["heater_state"] == HEATER_HOLDING]) / np.sum(lengths))
 
 
-_WORKER: dict = {}
-
-
-def _worker_init(scenario: Scenario, log: TransferLog) -> None:
-    _WORKER["scenario"], _WORKER["log"] = scenario, log
-
-
-def _worker_replay(factors: dict[str, float], rows: slice) -> Replay:
-    return replay(_WORKER["scenario"], _WORKER["log"], factors, rows)
+def _replay_part(scenario: Scenario, log: TransferLog, factors: dict[str, float], rows: slice) -> Replay:
+    """One task of a ``Replayer``: a slice of the rows (runs on the executor's worker)."""
+    return replay(scenario, log, factors, rows)
 
 
 class Replayer:
-    """Repeated replays of one log at different factors, the rows split over worker processes
-    (forked, so they start with the planner loaded) when there are enough of them.  Use as a
-    context manager; ``workers=1`` replays in this process."""
+    """Repeated replays of one log at different factors, the rows of a log of at least PARALLEL_MIN_ROWS in
+    REPLAY_PARTS pieces sent to ``executor`` (any ``concurrent.futures.Executor``, owned by the caller;
+    None: the same pieces in this process, so the figures do not depend on where they ran).  Each call
+    counts against ``max_evaluations``."""
 
-    def __init__(self, scenario: Scenario, log: TransferLog, workers: int | None = None,
+    def __init__(self, scenario: Scenario, log: TransferLog, executor: Executor | None = None,
                  max_evaluations: int | None = None):
         self.scenario, self.log = scenario, log
         self.max_evaluations = max_evaluations   # the work budget was checked for this many replays
-        workers = min(os.cpu_count() or 1, 4) if workers is None else workers
-        self.workers = workers if log.rows >= PARALLEL_MIN_ROWS else 1
-        self.pool = None
+        self.executor = executor
+        self.parts = REPLAY_PARTS if log.rows >= PARALLEL_MIN_ROWS else 1
         self.evaluations = 0
-
-    def __enter__(self) -> "Replayer":
-        if self.workers > 1:
-            context = multiprocessing.get_context("fork")
-            self.pool = ProcessPoolExecutor(self.workers, mp_context=context, initializer=_worker_init,
-                                            initargs=(self.scenario, self.log))
-        return self
-
-    def __exit__(self, *exc) -> None:
-        if self.pool is not None:
-            self.pool.shutdown(cancel_futures=True)
-            self.pool = None
 
     def __call__(self, factors: dict[str, float]) -> Replay:
         self.evaluations += 1
         if self.max_evaluations is not None and self.evaluations > self.max_evaluations:
             raise ComputationError(f"the fit asked for more than the {self.max_evaluations} replays of the log its "
                                    "work budget was checked for; fit fewer factors (--fit)")
-        if self.pool is None:
+        if self.parts <= 1:
             return replay(self.scenario, self.log, factors)
         n = self.log.rows
-        edges = [round(i * n / self.workers) for i in range(self.workers + 1)]
-        futures = [self.pool.submit(_worker_replay, factors, slice(a, b)) for a, b in zip(edges, edges[1:])]
-        parts = [f.result() for f in futures]
+        edges = [round(i * n / self.parts) for i in range(self.parts + 1)]
+        pieces = [slice(a, b) for a, b in zip(edges, edges[1:])]
+        if self.executor is None:
+            parts = [_replay_part(self.scenario, self.log, factors, rows) for rows in pieces]
+        else:
+            futures = [self.executor.submit(_replay_part, self.scenario, self.log, factors, rows) for rows in pieces]
+            parts = [f.result() for f in futures]
         modelled = {k: np.concatenate([p.modelled[k] for p in parts]) for k in parts[0].modelled}
         return Replay(parts[0].factors, modelled, np.concatenate([p.sets for p in parts]))

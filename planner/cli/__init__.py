@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import argparse
 import os
+import re
 import sys
 
 from planner.errors import PlannerError
@@ -16,9 +17,10 @@ from planner.scenario.units import UnitError
 from planner.cli import line_commands
 from planner.cli import calibrate_commands
 from planner.cli import records_commands
+from planner.cli import sweep_commands
 
 # One entry per command module, in the order their commands appear in --help.
-COMMAND_MODULES = [line_commands, calibrate_commands, records_commands]
+COMMAND_MODULES = [line_commands, sweep_commands, calibrate_commands, records_commands]
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -29,9 +31,25 @@ def build_parser() -> argparse.ArgumentParser:
     return parser
 
 
+# options that take a range or list of numbers, which may start with a minus sign (--ambient -20:30:5):
+# argparse would read such a value as an option, so it is joined to its option before parsing
+RANGE_OPTIONS = {"--ambient", "--setpoints", "--steam-pressures", "--pump-speeds", "--flow-limits"}
+NEGATIVE_START = re.compile(r"^-[0-9.]")
+
+
+def _joined_ranges(argv: list[str]) -> list[str]:
+    out: list[str] = []
+    for token in argv:
+        if out and out[-1] in RANGE_OPTIONS and NEGATIVE_START.match(token):
+            out[-1] = f"{out[-1]}={token}"
+        else:
+            out.append(token)
+    return out
+
+
 def main(argv: list[str] | None = None) -> int:
     parser = build_parser()
-    args = parser.parse_args(argv)
+    args = parser.parse_args(_joined_ranges(list(sys.argv[1:] if argv is None else argv)))
     step = getattr(args, "step", None)
     if step is not None and not (0.1 <= step <= 500.0):
         print("error: --step must be between 0.1 m and 500 m", file=sys.stderr)

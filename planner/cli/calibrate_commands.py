@@ -7,7 +7,7 @@ import sys
 from pathlib import Path
 
 from planner.errors import PlannerError, quoted
-from planner.cli.line_commands import UNIT_CHOICES
+from planner.cli.line_commands import UNIT_CHOICES, add_scheduler_option
 
 
 class WriteRefused(PlannerError):
@@ -46,11 +46,13 @@ def _calibrate(args) -> int:
     from planner.calibration.log import read_log_file
     from planner.calibration.report import fit_json, fit_text
     from planner.scenario.schema import load_scenario
+    from planner.sweeps.executors import executor_for
 
     scenario = load_scenario(args.scenario)
     log = read_log_file(args.log, args.columns)
     names = [n.strip() for n in args.fit.split(",") if n.strip()] if args.fit else None
-    result = fit_calibration(scenario, log, names)
+    with executor_for(args.scheduler) as executor:
+        result = fit_calibration(scenario, log, names, executor=executor)
     written = None
     refused = None
     if args.write:
@@ -88,4 +90,5 @@ def register(sub) -> None:
     cal.add_argument("--write", metavar="OUT.toml", help="write the scenario with the fitted [calibration] to a new file")
     cal.add_argument("--overwrite", action="store_true", help="with --write: replace OUT if it exists")
     cal.add_argument("--force", action="store_true", help="with --write: write even when the log does not fit the model")
+    add_scheduler_option(cal)
     cal.set_defaults(func=_calibrate)

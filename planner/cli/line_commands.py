@@ -76,7 +76,7 @@ def _plan(args) -> int:
 
 
 def _lever_values(args, scenario, system: str):
-    from planner.checks.compare import parse_range
+    from planner.sweeps.compare import parse_range
     from planner.checks.lever_values import typed_values
 
     given = [(option, lever) for option, lever in LEVER_OPTIONS if getattr(args, option)]
@@ -97,9 +97,10 @@ def _lever_values(args, scenario, system: str):
 
 
 def _compare(args) -> int:
-    from planner.checks.compare import compare, comparison_json, comparison_table, shutdown_pool
     from planner.checks.findings import SEVERITY_RANK
     from planner.scenario.schema import load_scenario
+    from planner.sweeps.compare import compare, comparison_json, comparison_table
+    from planner.sweeps.executors import executor_for
 
     system = UNIT_CHOICES[args.units]
     scenario = load_scenario(args.scenario)
@@ -110,12 +111,12 @@ def _compare(args) -> int:
             print(f"\r  {done}/{total} plans", end="", file=sys.stderr, flush=True)
 
     try:
-        result = compare(scenario, lever, values, progress=progress, sensitivity=args.sensitivity,
-                         ambient_shift=args.ambient_shift, viscosity_uncertainty=args.viscosity_uncertainty / 100.0)
+        with executor_for(args.scheduler) as executor:
+            result = compare(scenario, lever, values, progress=progress, executor=executor,
+                             sensitivity=args.sensitivity, ambient_shift=args.ambient_shift,
+                             viscosity_uncertainty=args.viscosity_uncertainty / 100.0)
     except BudgetError as exc:   # name the option the values came from
         raise BudgetError([(option if field == "values" else field, message) for field, message in exc.problems]) from None
-    finally:
-        shutdown_pool()
     if args.json:
         print(json.dumps(comparison_json(result), indent=2, ensure_ascii=False))
     else:
@@ -132,6 +133,12 @@ def _schema(args) -> int:
 
     print(json.dumps(json_schema(), indent=2, ensure_ascii=False))
     return 0
+
+
+def add_scheduler_option(parser) -> None:
+    parser.add_argument("--scheduler", default=None,
+                        help="run the plans on a dask.distributed cluster, e.g. tcp://10.0.0.5:8786 (default: "
+                             "PLANNER_DASK_SCHEDULER if set, else a pool of this machine's cores)")
 
 
 def _common(parser, json_help: str) -> None:
@@ -173,6 +180,7 @@ def register(sub) -> None:
     cp.add_argument("--ambient-shift", type=float, default=10.0, help="sensitivity: ambient shift in K (default 10)")
     cp.add_argument("--viscosity-uncertainty", type=float, default=20.0, help="sensitivity: viscosity ± percent (default 20)")
     _common(cp, "print JSON (SI: lever values in K, Pa, rev/s, m3/s) with each row's findings")
+    add_scheduler_option(cp)
     cp.set_defaults(func=_compare)
 
     sc = sub.add_parser("schema", help="print the scenario JSON Schema")

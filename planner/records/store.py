@@ -44,7 +44,8 @@ from sqlalchemy.exc import ArgumentError, DBAPIError, OperationalError
 from planner.errors import PlannerError, quoted
 from planner.records import chain
 from planner.records.migrations import MIGRATIONS, REVIEW_MOVES
-from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_dict
+from planner.scenario.identity import canonical_json  # noqa: F401  (re-exported: dashboard.sharing)
+from planner.scenario.schema import Scenario, scenario_from_dict
 
 SCHEMA_VERSION = 5
 DEFAULT_PATH = Path(__file__).resolve().parents[1] / "data" / "plans.sqlite"
@@ -188,10 +189,6 @@ class Review:
 
 def _now() -> str:
     return datetime.now(timezone.utc).isoformat(timespec="seconds")
-
-
-def canonical_json(scenario: Scenario) -> str:
-    return json.dumps(scenario_to_dict(scenario), sort_keys=True, separators=(",", ":"), ensure_ascii=False)
 
 
 class PlanStore:

@@ -59,13 +59,16 @@ class Budget:
     comparison_steps: int = 3_000_000  # one comparison (all values and sensitivity cases)
     comparison_values: int = 101       # values of the lever in one comparison
     calibration_steps: int = 20_000_000   # one calibration fit (log rows x replays x steps a row)
+    envelope_steps: int = 10_000_000   # one operating envelope (ambients x lever values plans)
+    sweep_steps: int = 100_000_000     # one sweep manifest (all its plans; a batch job, not a page)
     max_ambient_shift_k: float = 50.0  # sensitivity: ambient shift [K]
     max_viscosity_uncertainty: float = 0.9   # sensitivity: viscosity +- fraction (below 1: stays positive)
 
     def scaled(self, factor: float) -> "Budget":
         return replace(self, pass_steps=int(self.pass_steps * factor), plan_steps=int(self.plan_steps * factor),
                        comparison_steps=int(self.comparison_steps * factor),
-                       calibration_steps=int(self.calibration_steps * factor))
+                       calibration_steps=int(self.calibration_steps * factor),
+                       envelope_steps=int(self.envelope_steps * factor), sweep_steps=int(self.sweep_steps * factor))
 
 
 DEFAULT_BUDGET = Budget()
@@ -301,3 +304,36 @@ def check_calibration(scenario, rows: int, evaluations: int, factors: int) -> No
     problems = calibration_problems(scenario, rows, evaluations, factors)
     if problems:
         raise BudgetError(problems)
+
+
+def plan_work(scenario) -> int:
+    """Estimated steps of one plan of ``scenario`` (one pass when it is a line without pump and vessels)."""
+    return plan_steps(scenario) if is_plan_scenario(scenario) else pass_steps(scenario)
+
+
+def envelope_problems(scenario, ambients: int, values: int, budget: Budget | None = None) -> list[tuple[str, str]]:
+    """An operating envelope of ``ambients`` x ``values`` plans (cells) against the budget."""
+    budget = budget or active_budget()
+    problems = plan_problems(scenario, budget=budget)
+    if problems:
+        return problems
+    each = plan_work(scenario)
+    cells = ambients * values
+    work = each * cells
+    if work <= budget.envelope_steps:
+        return []
+    fit = max(1, budget.envelope_steps // each)
+    return [("--ambient", f"the envelope is {cells:,} cells ({ambients} ambients x {values} lever values), estimated at "
+                          f"{work:,} march steps ({each:,} a plan), past the work budget of {budget.envelope_steps:,}: "
+                          f"give at most {fit:,} cells (a coarser --ambient step or fewer lever values), lower "
+                          f"schedule.timeline_steps, or raise the budget for batch use with {ENV_FACTOR}=FACTOR")]
+
+
+def sweep_problems(work: int, plans: int, budget: Budget | None = None) -> list[tuple[str, str]]:
+    """A sweep of ``plans`` plans estimated at ``work`` march steps in all against the budget."""
+    budget = budget or active_budget()
+    if work <= budget.sweep_steps:
+        return []
+    return [("", f"the sweep is {plans:,} plans estimated at {work:,} march steps, past the work budget of "
+                 f"{budget.sweep_steps:,}: fewer ambients or lever values in the manifest's entries, fewer scenarios, or "
+                 f"raise the budget for batch use with {ENV_FACTOR}=FACTOR")]

@@ -10,10 +10,28 @@ from __future__ import annotations
 import math
 import functools
 import re
+import sys
 from dataclasses import dataclass
 from functools import lru_cache
 
-import pint
+
+def _import_pint_without_dask():
+    """pint looks for dask when it is imported and, when dask is installed (it is, for ``--scheduler``), loads
+    ``dask.base`` for its dask-array support: 0.1-0.2 s of every command's start-up here.  The planner never
+    gives pint a dask array, so pint is imported with dask hidden (a ``None`` in ``sys.modules`` makes
+    ``importlib.util.find_spec`` answer None); dask itself imports as usual afterwards."""
+    hide = "dask" not in sys.modules
+    if hide:
+        sys.modules["dask"] = None
+    try:
+        import pint as module
+    finally:
+        if hide:
+            del sys.modules["dask"]
+    return module
+
+
+pint = _import_pint_without_dask()
 
 from planner.errors import quoted
 from planner.correlations.constants import GRAVITY  # noqa: F401  (re-exported: one definition)

@@ -227,18 +227,17 @@ def case_transfer_plan(args) -> dict:
 
 @register("setpoint_comparison", "11 setpoints (20-70 degC), full plans with timelines and findings, 1000 m route")
 def case_setpoint_comparison(args) -> dict:
-    from planner.checks.compare import compare, shutdown_pool
+    from planner.sweeps.compare import compare
+    from planner.sweeps.executors import local_executor
 
     scenario = polyol_plan_scenario()
     values = [293.15 + 5.0 * i for i in range(11)]   # 20-70 degC in K: compare takes SI values
-    try:
+    with local_executor(2) as pool:
         t0 = time.perf_counter()
-        compare(scenario, "setpoint", values[:2], workers=2)       # starts the worker pool
+        compare(scenario, "setpoint", values[:2], executor=pool)       # starts the worker processes
         pool_start = time.perf_counter() - t0
-        t_parallel, result = _time_best(lambda: compare(scenario, "setpoint", values, workers=2), 2)
-    finally:
-        shutdown_pool()
-    t_serial, _ = _time_best(lambda: compare(scenario, "setpoint", values, workers=1), 1)
+        t_parallel, result = _time_best(lambda: compare(scenario, "setpoint", values, executor=pool), 2)
+    t_serial, _ = _time_best(lambda: compare(scenario, "setpoint", values), 1)
     from planner.transfer.plan import make_plan
 
     t_plan, _ = _time_best(lambda: make_plan(scenario), 3)
@@ -271,8 +270,11 @@ def case_calibration_fit(args) -> dict:
              "pump_inlet_temperature": 0.2}
     log = read_log(synthetic_log(scenario, truth, rows=100, noise=noise, seed=1), "bench.csv")
     t_plan, _ = _time_best(lambda: make_plan(scenario), max(3, args.baseline_repeats))
-    t_fit, result = _time_best(lambda: fit_calibration(scenario, log, list(truth)), 2)
-    t_serial, _ = _time_best(lambda: fit_calibration(scenario, log, list(truth), workers=1), 1)
+    from planner.sweeps.executors import local_executor
+
+    with local_executor(2) as pool:
+        t_fit, result = _time_best(lambda: fit_calibration(scenario, log, list(truth), executor=pool), 2)
+    t_serial, _ = _time_best(lambda: fit_calibration(scenario, log, list(truth)), 1)
     factors = {n: (f.value, f.low, f.high) for n, f in result.factors.items()}
     return {
         "fit_seconds": t_fit, "fit_serial_seconds": t_serial, "plan_seconds": t_plan,
@@ -314,8 +316,9 @@ def _median_time(fn, repeats: int) -> float:
 @register("engine", "the engine against the plain RK4 reference march (400 steps): march at the default step and "
                     "at equal resolution, one plan, an 11-setpoint comparison on 2 workers; medians of rounds")
 def case_engine(args) -> dict:
-    from planner.checks.compare import compare, shutdown_pool
     from planner.scenario.schema import load_scenario
+    from planner.sweeps.compare import compare
+    from planner.sweeps.executors import local_executor
     from planner.transfer.plan import make_plan
     from tests.benchmarks.baseline_march import REFERENCE_STEPS, reference_march_rk4
 
@@ -330,9 +333,9 @@ def case_engine(args) -> dict:
     demos = {p.stem: load_scenario(p) for p in sorted(DEMO_DIR.glob("*.toml"))}
     comparison = polyol_plan_scenario()
     values = [293.15 + 5.0 * i for i in range(11)]
-    compare(comparison, "setpoint", values[:2], workers=2)       # starts the worker pool outside the timing
     ratios = {name: [] for name in ENGINE_GOALS}
-    try:
+    with local_executor(2) as pool:
+        compare(comparison, "setpoint", values[:2], executor=pool)       # starts the workers outside the timing
         for _ in range(rounds):   # each round times every measure against its own reference marches
             for length, (line, op, method) in cases.items():
                 ref = _median_time(lambda: reference_march_rk4(line, op.flow, op.inlet_temperature,
@@ -347,9 +350,7 @@ def case_engine(args) -> dict:
                     for scenario in demos.values():
                         ratios["plan"].append(_median_time(lambda: make_plan(scenario), 1) / ref)
                     ratios["setpoint_comparison"].append(
-                        _median_time(lambda: compare(comparison, "setpoint", values, workers=2), 1) / ref)
-    finally:
-        shutdown_pool()
+                        _median_time(lambda: compare(comparison, "setpoint", values, executor=pool), 1) / ref)
     figures = {"rounds": rounds, "unit": f"reference_march_rk4: classical RK4, {REFERENCE_STEPS} steps, "
                                                 "600 m and 1000 m polyol lines"}
     lines = [f"   unit: one reference march ({figures['unit']}), timed in the same round"]

@@ -6,16 +6,13 @@ hottest jacket, findings by severity.  The recommendation is the row with the lo
 the runner-up.  Sensitivity: the same comparison with the ambient shifted and with the viscosity
 scaled by plus or minus a percentage, to show how the choice moves.
 
-Rows run in parallel over the machine's cores when there are enough of them to pay for it: a
-persistent pool of worker processes forked from a server process that has the planner loaded.
+Rows run on the caller's executor (``planner.sweeps.executors``), in chunks; without one, here, in order.
 """
 
 from __future__ import annotations
 
 import math
-import multiprocessing
-import os
-from concurrent.futures import ProcessPoolExecutor, as_completed
+from concurrent.futures import Executor
 from dataclasses import dataclass, field
 
 from planner.errors import PlannerError, quoted
@@ -25,8 +22,7 @@ from planner.plain import plain
 from planner.checks.lever_values import LEVERS, check_values
 from planner.scenario.schema import Scenario
 from planner.scenario.wording import Q, Sentence, format_quantity, render
-
-PARALLEL_MIN_ROWS = 4
+from planner.sweeps.executors import fan_out
 
 
 @dataclass
@@ -84,7 +80,7 @@ def parse_range(text: str, max_values: int | None = None) -> list[float]:
     return values
 
 
-def _row(scenario: Scenario, lever: str, value: float, viscosity_factor: float, ambient_shift: float) -> dict:
+def plan_row(scenario: Scenario, lever: str, value: float, viscosity_factor: float, ambient_shift: float) -> dict:
     """One comparison row (runs in a worker process: the validated scenario in, plain data out; the
     scenario is pickled as it is, so a row never parses or validates it again; ``value`` SI)."""
     keyword, unit = LEVERS[lever].keyword, LEVERS[lever].si_unit
@@ -121,45 +117,15 @@ def _row(scenario: Scenario, lever: str, value: float, viscosity_factor: float, 
     return row
 
 
-_POOL: ProcessPoolExecutor | None = None
-
-
-def _pool(workers: int) -> ProcessPoolExecutor:
-    global _POOL
-    if _POOL is None or _POOL._max_workers != workers:  # noqa: SLF001 (size check only)
-        if _POOL is not None:
-            _POOL.shutdown(cancel_futures=True)
-        # fork: the workers start with the planner already loaded (Linux); no re-import of __main__
-        context = multiprocessing.get_context("fork")
-        _POOL = ProcessPoolExecutor(max_workers=workers, mp_context=context)
-    return _POOL
-
-
-def shutdown_pool() -> None:
-    global _POOL
-    if _POOL is not None:
-        _POOL.shutdown(cancel_futures=True)
-        _POOL = None
+def _row_task(task: tuple) -> dict:
+    """``_row`` on one ``(scenario, lever, value, viscosity_factor, ambient_shift)`` (a chunk's item)."""
+    return plan_row(*task)
 
 
 def _run_rows(scenario: Scenario, lever: str, values: list[float], viscosity_factor: float, ambient_shift: float,
-              progress, workers: int | None) -> list[dict]:
-    workers = workers if workers is not None else (os.cpu_count() or 1)
-    rows: list[dict | None] = [None] * len(values)
-    total = len(values)
-    if workers > 1 and total >= PARALLEL_MIN_ROWS:
-        pool = _pool(min(workers, total))
-        futures = {pool.submit(_row, scenario, lever, v, viscosity_factor, ambient_shift): i for i, v in enumerate(values)}
-        for done, future in enumerate(as_completed(futures), start=1):
-            rows[futures[future]] = future.result()
-            if progress:
-                progress(done, total)
-    else:
-        for i, v in enumerate(values):
-            rows[i] = _row(scenario, lever, v, viscosity_factor, ambient_shift)
-            if progress:
-                progress(i + 1, total)
-    return rows
+              progress, executor: Executor | None) -> list[dict]:
+    tasks = [(scenario, lever, v, viscosity_factor, ambient_shift) for v in values]
+    return fan_out(_row_task, tasks, executor, progress)
 
 
 # Rows whose total cost is within TIE_BAND of the lowest show no clear difference.  Why 1 %: the plans
@@ -195,7 +161,7 @@ def recommend(rows: list[dict], quantity: str) -> tuple[int | None, int | None, 
     runner = others[0] if others else None
     r = rows[best]
     excluded = len(rows) - len(allowed)
-    decimals = _lever_decimals(quantity)
+    decimals = lever_decimals(quantity)
     choice = Sentence("{v}: lowest total cost {cost} {cur}", v=Q(r["value"], quantity, decimals),
                       cost=f"{r['total_cost']:.2f}", cur=r["currency"])
     if len(tied) > 1:
@@ -245,7 +211,7 @@ def end_of_range_note(values: list[float], best: int | None, quantity: str, tied
         return None
     better = "do as well" if tied else "be better still"
     return Sentence("{v} is at the end of the range you gave (its {end} value): a value {way} it may {better}; extend "
-                    "the range {way} {v} to see", v=Q(value, quantity, _lever_decimals(quantity)), end=end, way=way,
+                    "the range {way} {v} to see", v=Q(value, quantity, lever_decimals(quantity)), end=end, way=way,
                     better=better)
 
 
@@ -262,14 +228,12 @@ def _extendable(scenario: Scenario, lever: str):
     return takes
 
 
-def _lever_decimals(quantity: str) -> int:
+def lever_decimals(quantity: str) -> int:
     return {"temperature": 1, "pressure": 2, "rotational_speed": 0, "volume_flow": 1}.get(quantity, 2)
 
 
-def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | None = None, progress=None,
-            workers: int | None = None, sensitivity: bool = False, ambient_shift: float = 10.0,
-            viscosity_uncertainty: float = 0.2) -> Comparison:
-    """Rows for each of ``values`` (SI: K, Pa gauge, rev/s, m3/s) of ``lever``."""
+def check_lever(scenario: Scenario, lever: str) -> None:
+    """Refuse a lever the scenario does not have (ValueError naming the field and what to do instead)."""
     if lever not in LEVERS:
         raise ValueError(f"unknown lever {lever!r}; levers are {', '.join(LEVERS)}")
     if lever == "setpoint" and scenario.tracing.kind in ("none",):
@@ -279,6 +243,14 @@ def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | N
     if lever == "steam_pressure" and scenario.tracing.kind != "steam":
         raise ValueError(f"tracing.kind is {scenario.tracing.kind!r}: steam pressures are compared only on steam "
                          "tracing (tracing.kind 'steam'); compare setpoints instead")
+
+
+def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | None = None, progress=None,
+            executor: Executor | None = None, sensitivity: bool = False, ambient_shift: float = 10.0,
+            viscosity_uncertainty: float = 0.2) -> Comparison:
+    """Rows for each of ``values`` (SI: K, Pa gauge, rev/s, m3/s) of ``lever``, run on ``executor`` (any
+    ``concurrent.futures.Executor``, owned by the caller; None: in this process)."""
+    check_lever(scenario, lever)
     if not values:
         from planner.scenario.budget import active_budget
 
@@ -300,7 +272,7 @@ def compare(scenario: Scenario, lever: str = "setpoint", values: list[float] | N
 
     results = {}
     for factor, shift, label in cases:
-        rows = _run_rows(scenario, lever, values, factor, shift, step_progress, workers)
+        rows = _run_rows(scenario, lever, values, factor, shift, step_progress, executor)
         offset[0] += len(values)
         results[label] = (rows, *recommend(rows, quantity))
     rows, best, runner, reason = results["as given"]
@@ -349,7 +321,7 @@ def _row_line(mark: str, r: dict, quantity: str, system: str) -> str:
     cell = lambda v, kind, d: format_quantity(v, kind, system, d).rsplit(" ", 1)[0]  # noqa: E731
     k = r["counts"]
     total_h = "—" if r["total_time_s"] is None else cell(r["total_time_s"], "time", 2)
-    return (f"{mark} {cell(r['value'], quantity, _lever_decimals(quantity)):>8}   "
+    return (f"{mark} {cell(r['value'], quantity, lever_decimals(quantity)):>8}   "
             f"{cell(r['start_flow_m3_s'], 'volume_flow', 1):>9}   {cell(r['transfer_time_s'], 'time', 2):>10}   "
             f"{total_h:>7}   {r['energy_cost']:6.1f}   {r['demurrage']:9.1f}   {r['total_cost']:6.1f}   "
             f"{cell(r['peak_pressure_pa'], 'pressure', 2):>8}   {cell(r['hottest_jacket_k'], 'temperature', 1):>9}   "
@@ -380,6 +352,6 @@ def comparison_table(comparison: Comparison, system: str = "SI") -> str:
         lines.append(f"  note: {render(c.end_of_range, system)}")
     for label, s in c.sensitivity.items():
         value = "none" if s["recommended_value"] is None else format_quantity(s["recommended_value"], c.quantity, system,
-                                                                               _lever_decimals(c.quantity))
+                                                                               lever_decimals(c.quantity))
         lines.append(f"  with {render(label, system)}: {value}")
     return "\n".join(lines)
