@@ -41,6 +41,7 @@ def test_evaluate_table_and_inlet_temperature_override():
     (("evaluate", str(DEMO_FILES[0]), "--flow", "-3 m3/h"), "out of range"),
     (("evaluate", str(DEMO_FILES[0]), "--inlet-temperature", "-500 degC"), "absolute zero"),
 ])
+@pytest.mark.slow
 def test_errors_exit_nonzero_without_traceback(args, words):
     out = run(*args)
     assert out.returncode == 2
@@ -48,12 +49,14 @@ def test_errors_exit_nonzero_without_traceback(args, words):
     assert "Traceback" not in out.stderr
 
 
+@pytest.mark.slow
 def test_schema_prints_json_schema():
     out = run("schema")
     assert out.returncode == 0
     assert json.loads(out.stdout)["title"] == "Scenario"
 
 
+@pytest.mark.slow
 def test_output_cut_short_by_the_reader_is_not_a_traceback():
     """``python -m planner plan ... | head -1``: a reader that goes away ends the command quietly.
     The read end is closed before the command has printed anything (importing and planning take
@@ -67,6 +70,7 @@ def test_output_cut_short_by_the_reader_is_not_a_traceback():
     assert "Traceback" not in err and "BrokenPipe" not in err
 
 
+@pytest.mark.slow
 def test_evaluate_in_us_units_gives_mass_flow_and_heat_in_us_units():
     # issue 11: the US text had no mass flow and showed heat in hp. 1 lb = 0.45359237 kg and
     # 1 BTU/h = 0.29307107 W (NIST SP 811, appendix B)
