@@ -1,6 +1,6 @@
 """Display units and number formatting for the dashboard and its report (no Streamlit here).
 
-Every conversion goes through ``planner.units``: ``from_si`` / ``to_si_from_display`` for the kinds
+Every conversion goes through ``planner.scenario.units``: ``from_si`` / ``to_si_from_display`` for the kinds
 of ``planner.scenario.units.UNIT_SYSTEMS`` and the package's pint registry for the few kinds shown in the same
 unit in both systems (pump speed in rpm, displacement in litres, coefficients per m² or per m).
 """

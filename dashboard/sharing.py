@@ -2,7 +2,7 @@
 
 Everything lasting goes through the planner: revisions and the review trail through
 ``planner.records.store.PlanStore`` (an SQLite file or PostgreSQL; revisions are never overwritten and an
-approved one is immutable in the database itself), links through ``planner.links`` (bounded, validated
+approved one is immutable in the database itself), links through ``planner.records.links`` (bounded, validated
 decoding of untrusted query parameters).  This module only lays them out.  Saving and review steps
 are done by the signed-in account (``accounts_ui``): its name goes into the revision and the trail.
 

@@ -118,3 +118,25 @@ def test_compare_lever_refusals_say_what_is_allowed(capsys, tmp_path):
     path.write_text(json.dumps(data), encoding="utf-8")
     err = _refusal(capsys, "compare", str(path), "--setpoints", "40,50")
     assert "tracing.kind is 'none'" in err and "compare pump speeds or flow limits" in err
+
+
+def _loaded_after(code: str) -> set[str]:
+    probe = f"import sys\n{code}\nprint(' '.join(sorted(sys.modules)))"
+    out = subprocess.run([sys.executable, "-c", probe], cwd=ROOT, capture_output=True, text=True, timeout=60)
+    assert out.returncode == 0, out.stderr
+    return {name.split(".")[0] for name in out.stdout.split()}
+
+
+def test_help_loads_none_of_the_heavy_libraries():
+    """``python -m planner --help`` builds the parser only: the unit registry, the scenario's models, the
+    database layer and the solvers load when a command runs (issue 24: start-up)."""
+    loaded = _loaded_after("from planner.cli import build_parser\nbuild_parser().format_help()")
+    assert not loaded & {"numpy", "scipy", "pint", "pydantic", "sqlalchemy", "argon2", "fluids"}
+
+
+def test_a_plan_loads_no_database_layer():
+    loaded = _loaded_after("from planner.cli import main\nimport contextlib, io\n"
+                           "with contextlib.redirect_stdout(io.StringIO()):\n"
+                           "    main(['plan', 'demo_scenarios/syrup_railcar_unload.toml', '--json'])")
+    assert "numpy" in loaded and "pint" in loaded          # the probe did plan
+    assert "sqlalchemy" not in loaded and "argon2" not in loaded
