@@ -15,20 +15,22 @@ import numpy as np
 
 from planner.checks.caution import STANDING_CAUTION
 from planner.scenario.wording import Q, Sentence, render
-from planner.scenario.units import SI_UNITS, UNIT_SYSTEMS, from_si, registry, to_si, to_si_from_display, unit_label
+from planner.scenario.units import (SI_UNITS, UNIT_SYSTEMS, from_si, registry, to_si, to_si_from_display, unit_label,
+                                    unit_text)
 from planner.transfer.system import OUTCOME_WORDS
 
 SYSTEM_NAMES = {"SI": "SI (metric)", "US": "US customary"}
 
-# Shown in the same unit whatever the system: (label, pint unit).
-FIXED_DISPLAY = {
-    "rotational_speed": ("rpm", "revolution/minute"),
-    "displacement": ("L", "L"),
-    "heat_transfer_coefficient": ("W/(m²·K)", "W/m**2/K"),
-    "linear_conductance": ("W/(m·K)", "W/m/K"),
-    "density_slope": ("kg/m³ per K", "kg/m**3/K"),
-    "yield_stress": ("Pa", "Pa"),
-}
+# Shown in the same unit whatever the system: (label, pint unit); the label is the unit's one spelling
+# (planner.scenario.units.unit_text).
+FIXED_DISPLAY = {kind: (unit_text(unit), unit) for kind, unit in {
+    "rotational_speed": "revolution/minute",
+    "displacement": "L",
+    "heat_transfer_coefficient": "W/m**2/K",
+    "linear_conductance": "W/m/K",
+    "density_slope": "kg/m**3/K",
+    "yield_stress": "Pa",
+}.items()}
 _SI_FOR_FIXED = {"rotational_speed": "revolution/second", "displacement": "m**3"}
 
 # The touch limit drawn on jacket temperatures: a common plant limit for unguarded surfaces that

@@ -18,13 +18,13 @@ import html
 import pandas as pd
 from plotly.offline import get_plotlyjs
 
+from planner.checks.finding import MOST_SEVERE_FIRST
 from planner.reports.findings_text import headline
 from planner.scenario.schema import Scenario, scenario_to_toml
 from planner.scenario.wording import render
 
 from . import figures, tables
 from .display import SYSTEM_NAMES, caution_text, fmt, key_figures, words
-from .results import SEVERITY_ORDER
 
 CSS = """
 body { font-family: -apple-system, Segoe UI, Roboto, Helvetica, Arial, sans-serif; margin: 2rem auto; max-width: 1200px;
@@ -97,7 +97,7 @@ def _findings_html(bundle: dict, system: str) -> str:
     if findings is None:
         return f"<p>{html.escape(bundle.get('findings_note') or 'Findings are not available.')}</p>"
     parts = []
-    for severity in SEVERITY_ORDER:
+    for severity in MOST_SEVERE_FIRST:
         for f in (x for x in findings if x.get("severity") == severity):
             lines = [f"<b>{html.escape(severity.upper())}: {html.escape(f.get('title', ''))}</b> — "
                      f"{html.escape(render(f.get('message', ''), system))}"]

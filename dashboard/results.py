@@ -16,15 +16,11 @@ from planner.checks.compare import compare
 from planner.errors import PlannerError
 from planner.checks.findings import assess
 from planner.plain import finite_or_none, plain as _plain
-from planner.reports.findings_text import MOST_SEVERE_FIRST
 from planner.reports.key_figures import key_figures, outlet_rating
 from planner.transfer.plan import make_plan
 from planner.reports.plan_json import plan_json
 from planner.line.products import Product
 from planner.scenario.schema import ProductSpec, Scenario, problems_from
-
-SEVERITY_ORDER = MOST_SEVERE_FIRST   # most severe first, as the pages list them
-
 
 def segment_table(segments) -> list[dict]:
     return [{

@@ -32,6 +32,7 @@ from typing import Callable
 import pandas as pd
 import streamlit as st
 
+from planner.checks.finding import MOST_SEVERE_FIRST
 from planner.errors import PlannerError, ScenarioError
 from planner.records.links import URL_BUDGET_CHARS, LinkError, fits_in_url, link_url, parse_query, query_for
 from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_dict, scenario_to_json
@@ -43,7 +44,6 @@ from planner.transfer.plan import J_PER_KWH
 
 from .display import fmt, number_text
 from .plaintext import plain, plain_table
-from .results import SEVERITY_ORDER
 from .views import VIEW_OF_TITLE, VIEW_TITLES
 
 log = logging.getLogger(__name__)
@@ -152,7 +152,7 @@ def results_summary(bundle: dict | None) -> dict:
         "currency": plan["costs"].get("currency", ""),
     }
     findings = bundle.get("findings")
-    for severity in SEVERITY_ORDER:
+    for severity in MOST_SEVERE_FIRST:
         out[f"findings_{severity}"] = (None if findings is None
                                        else sum(1 for f in findings if f.get("severity") == severity))
     return out

@@ -11,10 +11,10 @@ import numpy as np
 import pandas as pd
 
 from .display import convert_array, fmt, general_number, label, number_text, to_display, with_unit, words
+from planner.checks.finding import MOST_SEVERE_FIRST
 from planner.reports.findings_text import finding_details as _finding_details
 from planner.scenario.wording import render
 
-from .results import SEVERITY_ORDER
 
 TIMELINE_COLUMNS = [
     # key of plan_json timeline.arrays, title, kind
@@ -209,7 +209,7 @@ def comparison_frame(comparison: dict, kind: str, system: str) -> pd.DataFrame:
             f"Total cost [{currency}]": r.get("total_cost"),
             with_unit("Peak pressure", "pressure", system): to_display(r.get("peak_pressure_pa"), "pressure", system),
             with_unit("Hottest jacket", "temperature", system): to_display(r.get("hottest_jacket_k"), "temperature", system),
-            "Findings": ", ".join(f"{counts[s]} {s}" for s in SEVERITY_ORDER if counts.get(s)) or "none",
+            "Findings": ", ".join(f"{counts[s]} {s}" for s in MOST_SEVERE_FIRST if counts.get(s)) or "none",
             "Stop": "STOP" if r.get("has_stop") else "no",
         })
     return pd.DataFrame(rows)

@@ -5,6 +5,7 @@ from __future__ import annotations
 import pandas as pd
 import streamlit as st
 
+from planner.checks.finding import MOST_SEVERE_FIRST
 from planner.errors import PlannerError
 from planner.records.links import VIEWS as LINK_VIEWS
 from planner.scenario.schema import Scenario
@@ -17,7 +18,7 @@ from planner.scenario.wording import render
 
 from .display import (fit_quality_text, fmt, key_figures, label, law_parameters_text, to_display,
                       with_unit, words)
-from .results import LEVERS, SEVERITY_ORDER, default_comparison_values
+from .results import LEVERS, default_comparison_values
 
 # Tab title of each view a link can name (planner.records.links.VIEWS owns the names and their order).
 VIEW_TITLES = {"plan": "Plan", "inputs": "Inputs", "line": "Along the line", "time": "Over time",
@@ -79,9 +80,9 @@ def findings_block(bundle: dict, unit_system: str) -> None:
     if findings is None:
         st.info(f"Findings: {plain(bundle.get('findings_note') or 'not available yet')}.")
         return
-    counts = {s: sum(1 for f in findings if f.get("severity") == s) for s in SEVERITY_ORDER}
-    st.markdown("#### Findings  \n" + " · ".join(f"{counts[s]} {s}" for s in SEVERITY_ORDER))
-    for severity in SEVERITY_ORDER:
+    counts = {s: sum(1 for f in findings if f.get("severity") == s) for s in MOST_SEVERE_FIRST}
+    st.markdown("#### Findings  \n" + " · ".join(f"{counts[s]} {s}" for s in MOST_SEVERE_FIRST))
+    for severity in MOST_SEVERE_FIRST:
         items = [f for f in findings if f.get("severity") == severity]
         if not items:
             continue

@@ -8,16 +8,25 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from planner.scenario.units import SI_UNITS
+from planner.scenario.units import si_unit_text
 from planner.scenario.wording import render
 
+# The severity order, least severe first: the one definition (tests/test_one_definition.py)
 SEVERITIES = ("info", "caution", "warning", "stop")
 SEVERITY_RANK = {name: i for i, name in enumerate(SEVERITIES)}
+MOST_SEVERE_FIRST = tuple(reversed(SEVERITIES))     # as the outputs list them
 
-# SI unit of each quantity kind a finding may carry (for the JSON; "" when dimensionless)
-_SI_LABELS = {"temperature": "K", "pressure": "Pa", "length": "m", "head": "m", "power": "W", "time": "s",
-              "speed": "m/s", "linear_power": "W/m", "heat_transfer_coefficient": "W/(m2 K)",
-              "volume_flow": "m3/s", "volume": "m3", "energy": "J", "mass": "kg", "dimensionless": ""}
+
+# The lines a finding names (``Finding.line``): one name each, in ``evaluate`` and in ``plan`` alike
+# (``evaluate`` marches the scenario's route: the discharge line)
+SUCTION, DISCHARGE = "suction", "discharge"
+LINES = (SUCTION, DISCHARGE)
+
+
+def at_least(severity: str, floor: str) -> bool:
+    """Whether ``severity`` is ``floor`` or worse (``--fail-on``, the comparison's notes)."""
+    return SEVERITY_RANK[severity] >= SEVERITY_RANK[floor]
+
 
 
 @dataclass
@@ -40,7 +49,7 @@ class Finding:
     @property
     def unit(self) -> str:
         """The SI unit of ``value`` and ``limit``."""
-        return _SI_LABELS.get(self.quantity, SI_UNITS.get(self.quantity, ""))
+        return si_unit_text(self.quantity)
 
     def where(self) -> dict:
         return {"line": self.line, "segment": self.segment, "at_m": self.at_m}

@@ -17,7 +17,7 @@ import numpy as np
 
 from planner.checks.bounds import check_ranges
 from planner.checks.caution import STANDING_CAUTION
-from planner.checks.finding import SEVERITIES, SEVERITY_RANK, Finding  # noqa: F401  (re-exported)
+from planner.checks.finding import DISCHARGE, SEVERITIES, SEVERITY_RANK, SUCTION, Finding  # noqa: F401  (re-exported)
 from planner.correlations.friction import RE_LAMINAR_MAX, RE_TURBULENT_MIN
 from planner.correlations.heat_transfer import VISCOSITY_RATIO_MAX, VISCOSITY_RATIO_MIN
 from planner.correlations.ratings import temperature_class_limit
@@ -71,13 +71,13 @@ def _profiles(plan: Plan) -> list[LineRun]:
     out = []
     system = plan.system
     if plan.suction_profile is not None and system.suction_line is not None:
-        out.append(LineRun("suction", system.suction_line, plan.suction_profile,
+        out.append(LineRun(SUCTION, system.suction_line, plan.suction_profile,
                            system.source_pressure(_start_state(plan))))
     if plan.start_profile is not None:
         t = plan.timeline.arrays["discharge_pressure_pa"]
         peak_running = float(np.max(t)) if len(t) else 0.0
         base = max(plan.start.point.discharge_pressure, peak_running)
-        out.append(LineRun("discharge", system.discharge_line, plan.start_profile, base))
+        out.append(LineRun(DISCHARGE, system.discharge_line, plan.start_profile, base))
     return out
 
 
@@ -368,7 +368,7 @@ def _march_temperatures(runs: list[LineRun]) -> list[float]:
     return values
 
 
-def assess_line(scenario: Scenario, line: Line, result: MarchResult, name: str = "route",
+def assess_line(scenario: Scenario, line: Line, result: MarchResult, name: str = DISCHARGE,
                 base_pressure: float = 0.0) -> list[Finding]:
     """The checks that apply to one line alone (``python -m planner evaluate``), most severe first, the
     standing caution last: product setting or above its maximum, jacket touch temperature, heater sheath
@@ -430,7 +430,7 @@ def _sets_at_trickle(plan: Plan) -> list[Finding]:
     point = plan.start.point
     suction_sets = point.suction is not None and point.suction.status != "ok"
     summary = point.suction if suction_sets else point.discharge
-    line = "suction" if suction_sets else "discharge"
+    line = SUCTION if suction_sets else DISCHARGE
     segments = (plan.system.suction_line if suction_sets else plan.system.discharge_line).segments
     where = summary.sets_at_m
     no_flow = plan.scenario.product.no_flow_temperature
@@ -455,13 +455,13 @@ def check_npsh(plan: Plan) -> list[Finding]:
                         Sentence("NPSH available {a} is below the {r} the pump needs{rate}", a=head(available),
                                  r=head(required), rate=rate),
                         "Raise the source pressure or level, shorten or enlarge the suction line, warm the product, "
-                        "or slow the pump.", line="suction", value=available, limit=required, quantity="head")]
+                        "or slow the pump.", line=SUCTION, value=available, limit=required, quantity="head")]
     if available < required + margin:
         return [Finding("NPSH-MARGIN-LOW", "warning", "Small NPSH margin",
                         Sentence("NPSH available {a} leaves {m} above the pump's {r}; wanted at least {want}",
                                  a=head(available), m=head(available - required), r=head(required), want=head(margin)),
                         "Treat the suction as marginal: watch for noise and falling flow; reduce suction losses.",
-                        line="suction", value=available, limit=required + margin, quantity="head")]
+                        line=SUCTION, value=available, limit=required + margin, quantity="head")]
     return []
 
 
@@ -481,10 +481,10 @@ def check_pressures(plan: Plan) -> list[Finding]:
                                Sentence("pushing the line's contents out at {t} needs {p} at the pump outlet, above "
                                         "{limit}", t=_t(push.start_temperature_k), p=_p(peak), limit=_p(limit)),
                                "Pre-warm the line (further), or start at a lower rate.",
-                               "discharge", seg.name, 0.0, peak, limit, "pressure"))
+                               DISCHARGE, seg.name, 0.0, peak, limit, "pressure"))
         if push.relief_lifts:
             out.append(Finding("RELIEF-LIFTING-START", "caution", "Relief valve lifts at the start",
-                               push.message, "Expect a slow start; watch the pump's temperature.", "discharge"))
+                               push.message, "Expect a slow start; watch the pump's temperature.", DISCHARGE))
     dest = plan.scenario.destination
     if dest.max_pressure is not None and dest.pressure > dest.max_pressure:
         out.append(Finding("VESSEL-PRESSURE", "stop", "Destination above its design pressure",
@@ -536,7 +536,7 @@ def check_tracing_capacity(plan: Plan) -> list[Finding]:
     shift = design - scenario.site.ambient_temperature
     out = []
     system = plan.system
-    for name, line in (("suction", system.suction_line), ("discharge", system.discharge_line)):
+    for name, line in ((SUCTION, system.suction_line), (DISCHARGE, system.discharge_line)):
         if line is None:
             continue
         for seg, heater in zip(line.segments, line.heaters):

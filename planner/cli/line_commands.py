@@ -21,11 +21,11 @@ LEVER_OPTIONS = [("setpoints", "setpoint"), ("steam_pressures", "steam_pressure"
 
 
 def _exit_code(findings: list, fail_on: str | None) -> int:
-    from planner.checks.findings import SEVERITY_RANK
+    from planner.checks.finding import at_least
 
     if fail_on is None:
         return 0
-    return FAIL_EXIT if any(SEVERITY_RANK[f.severity] >= SEVERITY_RANK[fail_on] for f in findings) else 0
+    return FAIL_EXIT if any(at_least(f.severity, fail_on) for f in findings) else 0
 
 
 def _option_value(scenario, text: str | None, option: str, section: str, name: str):
@@ -39,6 +39,7 @@ def _option_value(scenario, text: str | None, option: str, section: str, name: s
 
 
 def _evaluate(args) -> int:
+    from planner.checks.finding import DISCHARGE
     from planner.checks.findings import assess_line
     from planner.line.model import evaluate, line_from_scenario
     from planner.reports.text import march_table, march_json
@@ -50,7 +51,7 @@ def _evaluate(args) -> int:
     t_in = _option_value(scenario, args.inlet_temperature, "--inlet-temperature", "operation", "inlet_temperature")
     line = line_from_scenario(scenario)
     result = evaluate(scenario, flow=flow, inlet_temperature=t_in, step=args.step, line=line)
-    findings = assess_line(scenario, line, result, name="route")
+    findings = assess_line(scenario, line, result, name=DISCHARGE)
     if args.json:
         print(json.dumps(march_json(scenario, result, profiles=args.profiles, line_segments=line.segments,
                                     findings=findings), indent=2, ensure_ascii=False))
@@ -98,7 +99,7 @@ def _lever_values(args, scenario, system: str):
 
 def _compare(args) -> int:
     from planner.checks.compare import compare, comparison_json, comparison_table, shutdown_pool
-    from planner.checks.findings import SEVERITY_RANK
+    from planner.checks.finding import at_least
     from planner.scenario.schema import load_scenario
 
     system = UNIT_CHOICES[args.units]
@@ -123,7 +124,7 @@ def _compare(args) -> int:
         print(comparison_table(result, system))
     if args.fail_on is None:
         return 0
-    hit = any(SEVERITY_RANK[f["severity"]] >= SEVERITY_RANK[args.fail_on] for r in result.rows for f in r.get("findings", []))
+    hit = any(at_least(f["severity"], args.fail_on) for r in result.rows for f in r.get("findings", []))
     return FAIL_EXIT if hit else 0
 
 

@@ -7,8 +7,12 @@ from planner.checks.findings import assess, worst_severity
 from planner.plain import plain
 from planner.reports.findings_text import findings_json, findings_lines, flag_words, headline, start_status
 from planner.reports.key_figures import key_figures, outlet_rating, pump_withheld
+from planner.scenario.units import si_unit_text
 from planner.scenario.wording import Q, Sentence, format_quantity, render
 from planner.transfer.plan import Plan
+
+# the kinds of the numbers the plan document carries (their SI units head the document)
+DOCUMENT_KINDS = ("temperature", "pressure", "length", "volume", "volume_flow", "time", "power", "energy")
 
 
 def start_dict(plan: Plan) -> dict:
@@ -63,7 +67,8 @@ def plan_json(plan: Plan, arrays: bool = True, findings: list | None = None) -> 
     rating = outlet_rating(plan)
     doc = {
         "scenario": plan.scenario.name,
-        "units": "SI: K, Pa (gauge), m, m3, m3/s, s, W, J; costs in the scenario's currency",
+        "units": "SI: " + ", ".join(si_unit_text(k) + (" (gauge)" if k == "pressure" else "") for k in DOCUMENT_KINDS)
+                 + "; costs in the scenario's currency",
         "worst_severity": worst_severity(found),
         "headline": headline(found),
         "start": start_dict(plan),

@@ -34,6 +34,7 @@ from dataclasses import dataclass, field
 from typing import Sequence
 
 from planner.correlations.constants import GRAVITY
+from planner.scenario.units import si_unit_text
 
 __all__ = [
     "HI_B_MAX",
@@ -520,7 +521,7 @@ class PositiveDisplacementPump:
         """
         q_th = self.theoretical_flow(speed)
         if not 0.0 <= q <= q_th:
-            raise _bad("flow", q, f"between 0 and the theoretical flow {q_th:.6g} m3/s")
+            raise _bad("flow", q, f"between 0 and the theoretical flow {q_th:.6g} {si_unit_text('volume_flow')}")
         per_pa = self._slip_per_pa(viscosity)
         if q == q_th:
             return 0.0

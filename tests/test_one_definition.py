@@ -1,0 +1,109 @@
+"""One rule, one definition (issue 24): each test fails when a second copy of a rule appears in
+``planner/`` or ``dashboard/``, or when two outputs that should read the one definition disagree."""
+
+from __future__ import annotations
+
+import ast
+import pathlib
+import re
+
+from conftest import DEMO_FILES, ROOT
+from planner.checks.finding import LINES, MOST_SEVERE_FIRST, SEVERITIES
+from planner.checks.findings import assess, assess_line
+from planner.line.model import evaluate, line_from_scenario
+from planner.scenario.schema import load_scenario
+from planner.scenario.units import SI_UNITS, si_unit_text
+from planner.transfer.plan import make_plan
+
+SOURCES = sorted(p for folder in ("planner", "dashboard") for p in (ROOT / folder).rglob("*.py")
+                 if "__pycache__" not in p.parts)
+
+
+def _rel(path: pathlib.Path) -> str:
+    return str(path.relative_to(ROOT))
+
+
+def _string_constants(path: pathlib.Path):
+    for node in ast.walk(ast.parse(path.read_text())):
+        if isinstance(node, ast.Constant) and isinstance(node.value, str):
+            yield node.lineno, node.value
+
+
+def _sequences_named(path: pathlib.Path):
+    """Top-level names bound to a tuple, a list or a rank table built from one (an order)."""
+    for node in ast.parse(path.read_text()).body:
+        if isinstance(node, ast.Assign) and isinstance(node.value, (ast.Tuple, ast.List, ast.Call, ast.DictComp)):
+            for target in node.targets:
+                if isinstance(target, ast.Name):
+                    yield node.lineno, target.id
+
+
+# -- the severity order ------------------------------------------------------------------------------
+
+def test_the_severity_order_is_written_once():
+    """``checks/finding.py`` holds the order (SEVERITIES, SEVERITY_RANK, MOST_SEVERE_FIRST); no other module
+    lists three severities in a row or keeps a table of its own."""
+    words = "|".join(SEVERITIES)
+    listing = re.compile(rf"""["']({words})["']\s*,\s*["']({words})["']\s*,\s*["']({words})["']""")
+    home = ROOT / "planner" / "checks" / "finding.py"
+    copies = []
+    for path in SOURCES:
+        if path == home:
+            continue
+        text = path.read_text()
+        copies += [f"{_rel(path)}: {m.group(0)}" for m in listing.finditer(text)]
+        copies += [f"{_rel(path)}:{line} {name}" for line, name in _sequences_named(path) if "SEVERIT" in name]
+    assert not copies, "a second copy of the severity order:\n" + "\n".join(copies)
+    assert MOST_SEVERE_FIRST == ("stop", "warning", "caution", "info")
+
+
+# -- the lines' names --------------------------------------------------------------------------------
+
+def test_evaluate_and_plan_name_the_discharge_line_alike():
+    """The discharge line is "discharge" in ``evaluate``'s findings (one line) and in ``plan``'s."""
+    path = next(p for p in DEMO_FILES if p.stem == "fuel_oil_barge_discharge")
+    scenario = load_scenario(path)
+    line = line_from_scenario(scenario)
+    from planner.checks.finding import DISCHARGE
+
+    one_line = assess_line(scenario, line, evaluate(scenario, line=line), name=DISCHARGE)
+    whole = assess(make_plan(scenario))
+    named = {f.line for f in one_line + whole if f.line is not None}
+    assert named and named <= set(LINES), named
+    assert "route" not in named
+    # the command passes the one name: no module passes its own spelling of a line to assess_line
+    calls = [f"{_rel(p)}" for p in SOURCES if re.search(r"assess_line\([^)]*name=\"", p.read_text())]
+    assert not calls, calls
+
+
+# -- unit spellings ------------------------------------------------------------------------------------
+
+# spellings of SI units that are not the one table's (scenario/units.py UNIT_TEXT / si_unit_text)
+# (the units a person types in a file, quantities.FILE_UNITS, are pint's input spellings: "m3", "kg/m3")
+OTHER_SPELLINGS = {"m3/s", "m³/s", "W/(m2 K)", "W/(m2.K)", "W/(m²·K)", "rev/s", "J/(kg K)", "W/(m K)", "W/(m·K)"}
+
+
+def test_unit_spellings_come_from_one_table():
+    """No module of ``planner/`` or ``dashboard/`` spells an SI unit as a string of its own; findings, the
+    comparison's levers and the calibration's residuals write ``si_unit_text(kind)``."""
+    home = ROOT / "planner" / "scenario" / "units.py"
+    copies = [f"{_rel(p)}:{line} {value!r}" for p in SOURCES if p != home
+              for line, value in _string_constants(p) if value.strip() in OTHER_SPELLINGS or value.endswith(" m3/s")]
+    assert not copies, "unit spellings outside scenario/units.py:\n" + "\n".join(copies)
+
+
+def test_findings_units_agree_with_the_schema_spelling():
+    """The JSON ``findings[].unit`` is the unit the schema's descriptions write for the same SI unit."""
+    from planner.reports.plan_json import plan_json
+    from planner.scenario.schema import json_schema
+
+    scenario = load_scenario(DEMO_FILES[0])
+    doc = plan_json(make_plan(scenario), scenario)
+    units = {f["quantity"]: f["unit"] for f in doc["findings"] if f["quantity"]}
+    for kind, unit in units.items():
+        assert unit == si_unit_text(kind), (kind, unit)
+    schema_text = str(json_schema())
+    # a kind whose SI unit is its default unit is written in the schema exactly as findings write it
+    assert si_unit_text("heat_transfer_coefficient") == "W/(m²·K)" and "W/(m²·K)" in schema_text
+    assert si_unit_text("volume_flow") == "m³/s" and "m³/s" in schema_text
+    assert all(si_unit_text(kind) != SI_UNITS[kind] or "*" not in SI_UNITS[kind] for kind in SI_UNITS)
