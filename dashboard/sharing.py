@@ -36,7 +36,7 @@ from planner.checks.finding import MOST_SEVERE_FIRST
 from planner.errors import PlannerError, ScenarioError
 from planner.records.links import URL_BUDGET_CHARS, LinkError, fits_in_url, link_url, parse_query, query_for
 from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_dict, scenario_to_json
-from planner.records.store import STATES, PlanStore, Revision, StoreError, canonical_json, database_url
+from planner.records.store import STATES, PlanStore, Revision, StoreError, database_url
 
 from . import accounts_ui
 
@@ -247,7 +247,7 @@ def unchanged_since_open(revision: Revision | None) -> bool:
     if ss.get("work") == ss.get("rev_work"):
         return True
     scenario = _validated(ss.get("work") or {})
-    return scenario is not None and canonical_json(scenario) == revision.scenario_json
+    return scenario is not None and scenario_to_json(scenario) == revision.scenario_json
 
 
 # ------------------------------------------------------------------------------------------ opening

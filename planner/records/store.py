@@ -45,7 +45,7 @@ from planner.records.migrations import MIGRATIONS, REVIEW_MOVES
 from planner.records.terms import (  # noqa: F401  (the terms' home is records/terms.py; importers use either)
     ACTION_WORDS, DEFAULT_PATH, LIMITS, REVIEW_ROLES, ROLES, SAVE_ROLES, STATES, StoreError, check_path, check_text,
     check_url, database_url, default_path)
-from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_dict
+from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_json
 
 SCHEMA_VERSION = 5
 
@@ -102,10 +102,6 @@ class Review:
 
 def _now() -> str:
     return datetime.now(timezone.utc).isoformat(timespec="seconds")
-
-
-def canonical_json(scenario: Scenario) -> str:
-    return json.dumps(scenario_to_dict(scenario), sort_keys=True, separators=(",", ":"), ensure_ascii=False)
 
 
 class PlanStore:
@@ -237,7 +233,7 @@ class PlanStore:
             raise StoreError("a saved plan needs a name")
         if plan_id is not None:
             _check_ids(plan_id)
-        body = canonical_json(scenario)
+        body = scenario_to_json(scenario)
         digest = hashlib.sha256(body.encode("utf-8")).hexdigest()
         now = _now()
         with self.engine.begin() as conn:

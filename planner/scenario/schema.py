@@ -782,7 +782,10 @@ def scenario_to_toml(scenario: Scenario, system: str = "SI") -> str:
 
 
 def scenario_to_json(scenario: Scenario) -> str:
-    return json.dumps(scenario_to_dict(scenario), indent=2)
+    """The scenario's one canonical JSON text: keys sorted, no spaces, not ASCII-escaped.  Saved revisions
+    store it (``records.store``), the dashboard keys its caches and compares revisions with it; two
+    scenarios with the same fields give the same text."""
+    return json.dumps(scenario_to_dict(scenario), sort_keys=True, separators=(",", ":"), ensure_ascii=False)
 
 
 def save_scenario(scenario: Scenario, path: str | Path, system: str = "SI") -> None:
