@@ -14,9 +14,10 @@ from . import figures, tables
 from . import compute
 from .plaintext import plain, plain_table
 from planner.reports.findings_text import flag_words, headline, start_status
+from planner.reports.key_figures import figure_text
 from planner.scenario.wording import render
 
-from .display import (fit_quality_text, fmt, key_figures, label, law_parameters_text, to_display,
+from .display import (fit_quality_text, fmt, label, law_parameters_text, to_display,
                       with_unit, words)
 from .results import LEVERS, default_comparison_values
 
@@ -43,18 +44,16 @@ def data_table(frame: pd.DataFrame, decimals: int = 3) -> None:
 
 def key_figures_strip(bundle: dict, unit_system: str) -> None:
     """The plan's key figures as metrics; labels are stable (tests read them)."""
-    figs = key_figures(bundle, unit_system)
+    figs = bundle["key_figures"]         # the planner's (SI); figure_text is the one rendering
     for row in (figs[:4], figs[4:]):
         cols = st.columns(len(row))
         for col, k in zip(cols, row):
-            if k.possible:
-                col.metric(plain(k.label), plain(k.text), delta=plain(k.note) or None, delta_color="off",
-                           delta_arrow="off", help=plain(k.help) or None, border=True)
-                continue
-            # "not possible" in the figure's place, the reason beneath it at reading size
-            col.metric(plain(k.label), "not possible", delta=plain(k.note) or None, delta_color="off",
-                       delta_arrow="off", help=plain(k.help) or None, border=True)
-            col.caption(plain(k.text.removeprefix("not possible: ")))
+            note = render(k.note, unit_system)
+            # "not possible" / "not given" in the figure's place, the reason beneath it at reading size
+            col.metric(plain(k.label), plain(figure_text(k, unit_system, reason=False)), delta=plain(note) or None,
+                       delta_color="off", delta_arrow="off", help=plain(k.help) or None, border=True)
+            if k.withheld or not k.possible:
+                col.caption(plain(render(k.why, unit_system)))
 
 
 def status_line(bundle: dict, unit_system: str = "SI") -> None:

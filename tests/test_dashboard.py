@@ -205,7 +205,8 @@ def test_bad_value_shows_its_message_beside_the_field_and_keeps_the_last_results
 
 
 def test_report_is_self_contained_and_carries_the_cautions():
-    from dashboard.display import EXTRA_CAUTION, key_figures
+    from dashboard.display import EXTRA_CAUTION
+    from planner.reports.key_figures import figure_text
     from dashboard.report import build_report_html
     from dashboard.results import build_bundle
 
@@ -216,8 +217,8 @@ def test_report_is_self_contained_and_carries_the_cautions():
     assert "Plotly.newPlot" in page and len(page) > 3_000_000     # plotly.js inlined (about 4.6 MB)
     assert page.count(STANDING_CAUTION) >= 2 and EXTRA_CAUTION.render("US") in page
     assert "about 140 °F burn" in page          # 60 degC = 140 degF (exact)
-    for k in key_figures(bundle, "US"):
-        assert k.text in page
+    for k in bundle["key_figures"]:
+        assert figure_text(k, "US") in page
     for f in bundle["findings"]:
         assert f["code"] in page
 
