@@ -71,3 +71,50 @@ def test_no_function_longer_than_80_lines():
                     if length > MAX_FUNCTION_LINES:
                         long.append(f"{path.relative_to(ROOT)}:{node.lineno} {node.name} ({length} lines)")
     assert not long, "functions longer than 80 lines:\n" + "\n".join(long)
+
+
+# Inside a stage split by concept, the modules import one way too (a later one may use an earlier one).
+# An import under ``if TYPE_CHECKING:`` (annotations only) does not count.
+STAGE_ORDERS = {
+    "scenario": ["fields", "product_spec", "line_spec", "sections", "root", "files", "schema"],
+    "checks": ["finding", "line_checks", "validity", "plan_checks", "bounds", "findings"],
+}
+
+
+def _runtime_imports(tree: ast.AST):
+    guarded = {id(n) for node in ast.walk(tree) if isinstance(node, ast.If)
+               and getattr(node.test, "id", None) == "TYPE_CHECKING" for n in ast.walk(node)}
+    for node in ast.walk(tree):
+        if isinstance(node, ast.ImportFrom) and node.module and id(node) not in guarded:
+            yield node.lineno, node.module
+
+
+@pytest.mark.parametrize("stage", sorted(STAGE_ORDERS))
+def test_modules_inside_a_stage_import_one_way(stage):
+    order = STAGE_ORDERS[stage]
+    backwards = []
+    for name in order:
+        path = ROOT / "planner" / stage / f"{name}.py"
+        for line, module in _runtime_imports(ast.parse(path.read_text())):
+            parts = module.split(".")
+            if parts[:2] == ["planner", stage] and len(parts) > 2 and parts[2] in order \
+                    and order.index(parts[2]) > order.index(name):
+                backwards.append(f"planner/{stage}/{name}.py:{line} imports {module}")
+    assert not backwards, "\n".join(backwards)
+
+
+MAX_MODULE_LINES = 420      # "about 400"
+# modules still over it, each with its reason (issue 24 part 2 leaves them to later work)
+LONG_MODULES = {
+    "planner/checks/compare.py": "a lever sweep, moving beside the other fan-outs (issue 22)",
+    "planner/calibration/replay.py": "moving with the comparison (issue 22)",
+    "planner/transfer/pumps.py": "not split yet: HI 9.6.7 corrections, centrifugal curves, PD slip",
+    "planner/transfer/system.py": "not split yet: the system, its operating point and its outcomes in words",
+    "planner/records/store.py": "not split yet: revisions and the review trail",
+}
+
+
+def test_no_planner_module_is_much_over_400_lines():
+    long = {str(p.relative_to(ROOT)): len(p.read_text().splitlines()) for p in _modules("planner")}
+    over = {path: n for path, n in long.items() if n > MAX_MODULE_LINES and path not in LONG_MODULES}
+    assert not over, f"modules over {MAX_MODULE_LINES} lines: {over}"

@@ -112,7 +112,7 @@ def test_findings_units_agree_with_the_schema_spelling():
 # -- the scenario's canonical JSON -------------------------------------------------------------------
 
 def test_one_canonical_json_text_of_a_scenario():
-    """``schema.scenario_to_json`` is the one canonical text: the store saves it and the dashboard compares
+    """``schema.scenario_to_json`` (scenario/files.py) is the one canonical text: the store saves it and the dashboard compares
     with it; no module writes a scenario dict to JSON on its own."""
     from planner.scenario.schema import scenario_from_dict, scenario_to_dict, scenario_to_json
 
@@ -120,7 +120,7 @@ def test_one_canonical_json_text_of_a_scenario():
     shuffled = dict(reversed(list(scenario_to_dict(scenario).items())))
     assert scenario_to_json(scenario_from_dict(shuffled)) == scenario_to_json(scenario)
     writers = [f"{_rel(p)}" for p in SOURCES if re.search(r"json\.dumps\(\s*scenario_to_dict\(", p.read_text())
-               and p != ROOT / "planner" / "scenario" / "schema.py"]
+               and p != ROOT / "planner" / "scenario" / "files.py"]
     assert not writers, "a second canonical JSON form:\n" + "\n".join(writers)
 
 
