@@ -20,7 +20,7 @@ import streamlit as st
 from plotly.subplots import make_subplots
 
 from dashboard.compute import cached_calibration
-from dashboard.display import convert_array, label, to_display
+from dashboard.display import convert_array, fmt, label, to_display
 from dashboard.plaintext import plain
 
 TAB = "Calibration"
@@ -185,7 +185,7 @@ def _inputs(scenario) -> tuple[list[str], str]:
 def _show_result(data: dict, unit_system: str) -> None:
     log_info = data["log"]
     st.markdown(f"**Log** {plain(log_info['file'])} — SHA-256 `{log_info['sha256'][:16]}…` — {log_info['rows_read']} of "
-                f"{log_info['rows']} rows read, {log_info['duration_s'] / 3600:.2f} h"
+                f"{log_info['rows']} rows read, {fmt(log_info['duration_s'], 'time', unit_system)}"
                 + (f" from {plain(log_info['start'])}" if log_info.get("start") else ""))
     if log_info["unreadable"]:
         st.warning(f"{log_info['rows_unreadable']} rows could not be read (not used):")

@@ -166,3 +166,16 @@ def test_display_decimals_are_one_table():
     plan = make_plan(load_scenario(DEMO_FILES[0]))
     transfer = {k.key: k for k in key_figures(plan)}["transfer_time"]
     assert figure_text(transfer) == Q(transfer.value, "time").text("SI")
+
+
+# -- hours as text -----------------------------------------------------------------------------------------
+
+def test_hours_as_text_have_one_wording():
+    """Times read through ``format_quantity`` (the "time" decimals) or ``transfer.hold.hours``; no module
+    divides by 3600 to write hours itself."""
+    from planner.transfer.hold import HOLDS_WORDS, hours_text
+
+    own = re.compile(r"/\s*3600(\.0)?\s*:[^}]*f\}\s*h")
+    copies = [f"{_rel(p)}" for p in SOURCES if own.search(p.read_text())]
+    assert not copies, copies
+    assert hours_text(9000.0) == "2.50 h" and hours_text(None) == HOLDS_WORDS == "holds 14 days"
