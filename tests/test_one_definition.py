@@ -179,3 +179,13 @@ def test_hours_as_text_have_one_wording():
     copies = [f"{_rel(p)}" for p in SOURCES if own.search(p.read_text())]
     assert not copies, copies
     assert hours_text(9000.0) == "2.50 h" and hours_text(None) == HOLDS_WORDS == "holds 14 days"
+
+
+# -- one meaning per name --------------------------------------------------------------------------------
+
+def test_plain_means_json_ready_data_only():
+    """``plain`` is ``planner.plain.plain`` (JSON-ready data); the dashboard's markdown escaping is
+    ``plaintext.escaped``: no other module defines a function named ``plain``."""
+    defined = [f"{_rel(p)}:{n.lineno}" for p in SOURCES for n in ast.walk(ast.parse(p.read_text()))
+               if isinstance(n, ast.FunctionDef) and n.name == "plain"]
+    assert defined == [f"planner/plain.py:{next(n.lineno for n in ast.parse((ROOT / 'planner/plain.py').read_text()).body if isinstance(n, ast.FunctionDef) and n.name == 'plain')}"]
