@@ -12,9 +12,10 @@ import numpy as np
 
 from planner.checks.finding import Finding
 from planner.correlations.friction import RE_LAMINAR_MAX, RE_TURBULENT_MIN
-from planner.correlations.ratings import temperature_class_limit
+from planner.correlations.ratings import B16_5_MIN_TEMPERATURE_C, B16_5_TEMPERATURES_C, temperature_class_limit
 from planner.line.march import Line, MarchResult
 from planner.scenario.schema import Scenario
+from planner.scenario.units import kelvin
 from planner.scenario.wording import Q, Sentence
 
 PRODUCT_FAR_ABOVE_MAX_K = 50.0   # the product this far past its maximum is a stop, not a warning (planner choice)
@@ -144,7 +145,7 @@ def _flange_findings(line: str, seg, p, temp, xs) -> list[Finding]:
             return [Finding(
                 "FLANGE-TEMP-RANGE", "warning", "Flange rating outside its table",
                 Sentence("product at {t} is outside the ASME B16.5 Group 1.1 table ({low} to {high})",
-                         t=_t(tk), low=_t(273.15 - 29.0), high=_t(273.15 + 450.0)),
+                         t=_t(tk), low=_t(kelvin(B16_5_MIN_TEMPERATURE_C)), high=_t(kelvin(B16_5_TEMPERATURES_C[-1]))),
                 "Check the flange material's rating at this temperature with the piping engineer.",
                 line, seg.name, float(xs[k]), float(tk), None, "temperature")]
         if p[k] > rating and (worst is None or p[k] - rating > worst[0]):
