@@ -79,6 +79,7 @@ STAGE_ORDERS = {
     "scenario": ["fields", "product_spec", "line_spec", "sections", "root", "files", "schema"],
     "checks": ["finding", "line_checks", "validity", "plan_checks", "bounds", "findings"],
     "transfer": ["pump_hi", "pump_centrifugal", "pump_pd", "pumps"],
+    "records": ["terms", "revision", "store"],
 }
 
 
@@ -110,7 +111,6 @@ LONG_MODULES = {
     "planner/checks/compare.py": "a lever sweep, moving beside the other fan-outs (issue 22)",
     "planner/calibration/replay.py": "moving with the comparison (issue 22)",
     "planner/transfer/system.py": "not split yet: the system, its operating point and its outcomes in words",
-    "planner/records/store.py": "not split yet: revisions and the review trail",
 }
 
 

@@ -32,8 +32,6 @@ from __future__ import annotations
 
 import hashlib
 import json
-from dataclasses import dataclass
-from datetime import datetime, timezone
 from pathlib import Path
 
 from sqlalchemy import create_engine, event, text
@@ -42,66 +40,13 @@ from sqlalchemy.exc import DBAPIError, OperationalError
 
 from planner.records import chain
 from planner.records.migrations import MIGRATIONS, REVIEW_MOVES
+from planner.records.revision import PlanRow, Review, Revision, _now, diff_values  # noqa: F401  (re-exported)
 from planner.records.terms import (  # noqa: F401  (the terms' home is records/terms.py; importers use either)
     ACTION_WORDS, DEFAULT_PATH, LIMITS, REVIEW_ROLES, ROLES, SAVE_ROLES, STATES, StoreError, check_path, check_text,
     check_url, database_url, default_path)
-from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_json
+from planner.scenario.schema import Scenario, scenario_to_json
 
 SCHEMA_VERSION = 5
-
-
-# -- records -------------------------------------------------------------------------------------------
-
-@dataclass(frozen=True)
-class Revision:
-    id: int
-    plan_id: int
-    plan_name: str
-    site: str
-    number: int
-    scenario_json: str
-    results: dict
-    product: str
-    author: str
-    note: str
-    created_at: str
-    state: str
-    content_hash: str
-    author_id: int | None = None
-
-    @property
-    def scenario(self) -> Scenario:
-        return scenario_from_dict(json.loads(self.scenario_json))
-
-    @property
-    def read_only(self) -> bool:
-        return self.state == "approved"
-
-
-@dataclass(frozen=True)
-class PlanRow:
-    id: int
-    name: str
-    site: str
-    product: str
-    latest: int
-    state: str
-    updated_at: str
-    author: str
-
-
-@dataclass(frozen=True)
-class Review:
-    action: str
-    by: str
-    comment: str
-    at: str
-    by_id: int | None = None
-    by_role: str = ""
-
-
-def _now() -> str:
-    return datetime.now(timezone.utc).isoformat(timespec="seconds")
 
 
 class PlanStore:
@@ -432,18 +377,3 @@ def _like(value: str, field: str) -> str:
     value = check_text(value, field, LIMITS["search"])
     value = value.replace("\\", "\\\\").replace("%", "\\%").replace("_", "\\_")
     return f"%{value}%"
-
-
-def diff_values(old, new, path: str = "") -> list[tuple[str, object, object]]:
-    """(path, old, new) for every leaf that differs between two JSON-like values."""
-    if isinstance(old, dict) and isinstance(new, dict):
-        out = []
-        for key in sorted(set(old) | set(new)):
-            out.extend(diff_values(old.get(key), new.get(key), f"{path}.{key}" if path else str(key)))
-        return out
-    if isinstance(old, list) and isinstance(new, list) and len(old) == len(new):
-        out = []
-        for i, (x, y) in enumerate(zip(old, new)):
-            out.extend(diff_values(x, y, f"{path}[{i}]"))
-        return out
-    return [] if old == new else [(path, old, new)]
