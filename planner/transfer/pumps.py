@@ -34,7 +34,28 @@ from planner.transfer.pump_centrifugal import CentrifugalPump, ViscousCurve
 from planner.transfer.pump_hi import HI_B_MAX, HICorrection, hi_correction, hi_parameter_b
 from planner.transfer.pump_pd import PositiveDisplacementPump
 
+
+
+def build_pump(spec, slip_factor: float = 1.0):
+    """The pump of a ``PumpSpec``; ``slip_factor`` (the scenario's ``[calibration]``) multiplies PD slip."""
+    if spec.kind == "positive_displacement":
+        return PositiveDisplacementPump(
+            displacement_m3_per_rev=spec.displacement, speed_rev_s=spec.speed,
+            slip_flow_m3_s=spec.slip_flow * slip_factor,
+            slip_reference_pressure_pa=spec.slip_reference_pressure,
+            slip_reference_viscosity_pa_s=spec.slip_reference_viscosity,
+            slip_viscosity_exponent=spec.slip_viscosity_exponent, relief_setting_pa=spec.relief_setting,
+            mechanical_efficiency=spec.mechanical_efficiency, motor_power_w=spec.motor_power,
+            npsh_required_m=spec.npsh_required, max_speed_rev_s=spec.max_speed)
+    return CentrifugalPump(
+        flows_m3_s=[p.flow for p in spec.curve], heads_m=[p.head for p in spec.curve],
+        efficiencies=[p.efficiency for p in spec.curve], speed_rev_s=spec.speed,
+        npsh_required_m=(spec.npsh_required if not spec.curve or spec.curve[0].npsh_required is None
+                         else [p.npsh_required for p in spec.curve]), stages=spec.stages)
+
+
 __all__ = [
+    "build_pump",
     "HI_B_MAX",
     "HICorrection",
     "hi_parameter_b",
