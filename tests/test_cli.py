@@ -140,3 +140,16 @@ def test_a_plan_loads_no_database_layer():
                            "    main(['plan', 'demo_scenarios/syrup_railcar_unload.toml', '--json'])")
     assert "numpy" in loaded and "pint" in loaded          # the probe did plan
     assert "sqlalchemy" not in loaded and "argon2" not in loaded
+
+
+def test_an_inlet_temperature_that_cannot_flow_names_the_option(tmp_path, capsys):
+    # found by tests/test_fuzz_units.py: "1e-320 K" passes the field's range (above 0 K) and was refused by
+    # the model without naming the option
+    from conftest import base_scenario
+    from planner.cli import main
+
+    path = tmp_path / "line.json"
+    path.write_text(json.dumps(base_scenario()), encoding="utf-8")
+    assert main(["evaluate", str(path), "--inlet-temperature", "1e-320 K", "--json"]) == 2
+    err = capsys.readouterr().err
+    assert err.startswith("error: --inlet-temperature: ") and "no-flow temperature -40.0 °C" in err

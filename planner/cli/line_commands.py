@@ -38,6 +38,19 @@ def _option_value(scenario, text: str | None, option: str, section: str, name: s
     return option_quantity(scenario, text, option, section, name)
 
 
+def _flows_at(scenario, t_in: float | None) -> None:
+    """``--inlet-temperature`` at or below the product's no-flow temperature: refused naming the option (the
+    model refuses it too, without knowing which option gave it)."""
+    from planner.errors import ComputationError
+    from planner.scenario.wording import Q, Sentence
+
+    no_flow = scenario.product.no_flow_temperature
+    if t_in is not None and t_in <= no_flow:
+        raise ComputationError(Sentence("--inlet-temperature: {t} is at or below the product's no-flow temperature "
+                                        "{limit}: it will not flow", t=Q(t_in, "temperature"),
+                                        limit=Q(no_flow, "temperature")))
+
+
 def _evaluate(args) -> int:
     from planner.checks.finding import DISCHARGE
     from planner.checks.findings import assess_line
@@ -49,6 +62,7 @@ def _evaluate(args) -> int:
     scenario = load_scenario(args.scenario)
     flow = _option_value(scenario, args.flow, "--flow", "operation", "flow")
     t_in = _option_value(scenario, args.inlet_temperature, "--inlet-temperature", "operation", "inlet_temperature")
+    _flows_at(scenario, t_in)
     line = line_from_scenario(scenario)
     result = evaluate(scenario, flow=flow, inlet_temperature=t_in, step=args.step, line=line)
     findings = assess_line(scenario, line, result, name=DISCHARGE)
