@@ -145,9 +145,9 @@ def build_bundle(scenario: Scenario) -> dict:
     plan = make_plan(scenario)
     found, findings, findings_note = findings_of(plan)
     doc = plan_json(plan, findings=found) if found is not None else plan_json(plan, findings=[])
-    system = plan.system
-    discharge = system.discharge_line.segments
-    suction = system.suction_line.segments if system.suction_line is not None else []
+    transfer = plan.system
+    discharge = transfer.discharge_line.segments
+    suction = transfer.suction_line.segments if transfer.suction_line is not None else []
     profile = profile_arrays(plan)
     if profile is not None:
         profile["rating"] = node_ratings(discharge, profile["nodes"])
@@ -164,7 +164,7 @@ def build_bundle(scenario: Scenario) -> dict:
         "push_cold_rows": _plain(plan.push_cold.rows or {}),
         "findings": findings,
         "findings_note": findings_note,
-        "product": product_curve(scenario.product, product=system.product),
+        "product": product_curve(scenario.product, product=transfer.product),
         "destination_max_level": scenario.destination.max_level if scenario.destination else None,
         "tracing_kind": scenario.tracing.kind,
         "setpoint": scenario.tracing.setpoint,

@@ -189,3 +189,24 @@ def test_plain_means_json_ready_data_only():
     defined = [f"{_rel(p)}:{n.lineno}" for p in SOURCES for n in ast.walk(ast.parse(p.read_text()))
                if isinstance(n, ast.FunctionDef) and n.name == "plain"]
     assert defined == [f"planner/plain.py:{next(n.lineno for n in ast.parse((ROOT / 'planner/plain.py').read_text()).body if isinstance(n, ast.FunctionDef) and n.name == 'plain')}"]
+
+
+def test_system_has_one_meaning_per_module():
+    """``system`` is a unit system ("SI"/"US") or a ``TransferSystem``, never both in one module: a name bound
+    to a TransferSystem is called ``transfer`` where the module also speaks of unit systems."""
+    clashes = []
+    for path in SOURCES:
+        unit, transfer = [], []
+        for node in ast.walk(ast.parse(path.read_text())):
+            if isinstance(node, ast.arg) and node.arg == "system":
+                annotation = ast.unparse(node.annotation) if node.annotation is not None else ""
+                (transfer if "TransferSystem" in annotation else unit if annotation == "str" else []).append(node.lineno)
+            if isinstance(node, ast.Assign) and any(isinstance(t, ast.Name) and t.id == "system" for t in node.targets):
+                value = ast.unparse(node.value)
+                if value.endswith(".system") or "TransferSystem(" in value:
+                    transfer.append(node.lineno)
+                elif "UNIT_CHOICES" in value or '"SI"' in value:
+                    unit.append(node.lineno)
+        if unit and transfer:
+            clashes.append(f"{_rel(path)}: unit system at {unit[:3]}, TransferSystem at {transfer[:3]}")
+    assert not clashes, "\n".join(clashes)
