@@ -16,7 +16,7 @@ from planner.checks.caution import STANDING_CAUTION
 from planner.scenario.wording import DECIMALS, Q, Sentence, render  # noqa: F401  (DECIMALS: the one table)
 from planner.scenario.units import (SI_UNITS, UNIT_SYSTEMS, from_si, registry, to_si, to_si_from_display, unit_label,
                                     unit_text)
-from planner.transfer.system import OUTCOME_WORDS
+from planner.transfer.operating import OUTCOME_WORDS
 
 SYSTEM_NAMES = {"SI": "SI (metric)", "US": "US customary"}
 

@@ -77,7 +77,7 @@ def test_no_function_longer_than_80_lines():
 # An import under ``if TYPE_CHECKING:`` (annotations only) does not count.
 STAGE_ORDERS = {
     "scenario": ["fields", "product_spec", "line_spec", "sections", "root", "files", "schema"],
-    "checks": ["finding", "line_checks", "validity", "plan_checks", "bounds", "findings"],
+    "checks": ["caution", "finding", "line_checks", "validity", "one_line", "plan_checks", "bounds", "findings"],
     "transfer": ["pump_hi", "pump_centrifugal", "pump_pd", "pumps", "operating", "flow_roots", "system"],
     "records": ["terms", "revision", "store"],
 }

@@ -153,3 +153,17 @@ def test_an_inlet_temperature_that_cannot_flow_names_the_option(tmp_path, capsys
     assert main(["evaluate", str(path), "--inlet-temperature", "1e-320 K", "--json"]) == 2
     err = capsys.readouterr().err
     assert err.startswith("error: --inlet-temperature: ") and "no-flow temperature -40.0 °C" in err
+
+
+def test_evaluate_loads_nothing_of_the_transfer():
+    """``evaluate`` marches one line: no pump, vessels or timeline, so neither the transfer's models nor its
+    root finder (``scipy.optimize``) are imported (``transfer.operating``, the outcomes' words, is)."""
+    probe = ("import sys, contextlib, io\nfrom planner.cli import main\n"
+             "with contextlib.redirect_stdout(io.StringIO()):\n"
+             "    main(['evaluate', 'demo_scenarios/syrup_railcar_unload.toml', '--json'])\n"
+             "print(' '.join(sorted(sys.modules)))")
+    out = subprocess.run([sys.executable, "-c", probe], cwd=ROOT, capture_output=True, text=True, timeout=60)
+    loaded = set(out.stdout.split())
+    assert "planner.line.march" in loaded                  # the probe did evaluate
+    assert "scipy.optimize" not in loaded
+    assert {m for m in loaded if m.startswith("planner.transfer.")} <= {"planner.transfer.operating"}

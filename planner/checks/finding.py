@@ -1,13 +1,16 @@
 """One finding: what every check returns (code, severity, where, message, value and limit, what to do).
 
-Kept apart from ``findings`` so that the checks in sibling modules (``ranges``, ``bounds``) and the
-collection of all checks (``findings.assess``) share one definition without importing each other.
+Kept apart from ``findings`` so that the checks in sibling modules (``line_checks``, ``plan_checks``,
+``bounds``) and the runners (``one_line.assess_line``, ``findings.assess``) share one definition without
+importing each other; with it the severity order, the lines' names and the order every output lists
+findings in (``ordered``: most severe first, the standing caution last).
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass
 
+from planner.checks.caution import STANDING_CAUTION
 from planner.scenario.units import si_unit_text
 from planner.scenario.wording import render
 
@@ -61,3 +64,30 @@ class Finding:
                 "message": self.message if system is None else render(self.message, system),
                 "where": self.where(), "value": self.value, "limit": self.limit, "quantity": self.quantity,
                 "unit": self.unit, "action": self.action}
+
+
+# -- findings in severity order ------------------------------------------------------------------------
+
+def standing_caution() -> Finding:
+    return Finding("PLANNING-ESTIMATE", "info", "Planning estimate", STANDING_CAUTION,
+                   "Follow site procedures, hazardous-area rules and pressure ratings; ask a licensed engineer.")
+
+
+def ordered(found: list[Finding]) -> list[Finding]:
+    """Findings most severe first, the standing caution last (every output lists them so)."""
+    found = sorted(found, key=lambda f: -SEVERITY_RANK[f.severity])
+    return found + [standing_caution()]
+
+
+def count_by_severity(findings: list) -> dict[str, int]:
+    """Findings (objects or their dicts) counted by severity."""
+    counts = {name: 0 for name in SEVERITIES}
+    for f in findings:
+        counts[f["severity"] if isinstance(f, dict) else f.severity] += 1
+    return counts
+
+
+def worst_severity(findings: list) -> str:
+    """The most severe level among the findings (objects or dicts); "info" when there are none."""
+    levels = [f["severity"] if isinstance(f, dict) else f.severity for f in findings]
+    return max(levels, key=SEVERITY_RANK.__getitem__, default="info")

@@ -53,7 +53,7 @@ def _flows_at(scenario, t_in: float | None) -> None:
 
 def _evaluate(args) -> int:
     from planner.checks.finding import DISCHARGE
-    from planner.checks.findings import assess_line
+    from planner.checks.one_line import assess_line
     from planner.line.model import evaluate, line_from_scenario
     from planner.reports.text import march_table, march_json
     from planner.scenario.schema import load_scenario

@@ -7,10 +7,9 @@ where, value, limit and what to do.
 
 from __future__ import annotations
 
-from planner.checks.finding import LINES, MOST_SEVERE_FIRST
-from planner.checks.findings import count_by_severity, worst_severity
+from planner.checks.finding import LINES, MOST_SEVERE_FIRST, count_by_severity, worst_severity
 from planner.scenario.wording import format_quantity, render
-from planner.transfer.system import OUTCOME_WORDS
+from planner.transfer.operating import OUTCOME_WORDS
 
 HEADINGS = {"stop": "STOP", "warning": "WARNING", "caution": "CAUTION", "info": "INFORMATION"}
 

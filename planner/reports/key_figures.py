@@ -15,7 +15,7 @@ from dataclasses import dataclass
 from planner.scenario.wording import Q, Sentence, format_quantity, render
 from planner.transfer.plan import Plan
 from planner.transfer.pumps import HI_B_MAX
-from planner.transfer.system import OUTCOME_WORDS
+from planner.transfer.operating import OUTCOME_WORDS
 
 
 @dataclass(frozen=True)

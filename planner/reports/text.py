@@ -5,7 +5,7 @@ from __future__ import annotations
 import numpy as np
 
 from planner.checks.caution import STANDING_CAUTION  # noqa: F401  (re-exported: reports show it)
-from planner.checks.findings import worst_severity
+from planner.checks.finding import worst_severity
 from planner.line.march import MarchResult
 from planner.plain import finite_or_none
 from planner.reports.findings_text import findings_json, findings_lines, headline
