@@ -31,7 +31,6 @@ def at_least(severity: str, floor: str) -> bool:
     return SEVERITY_RANK[severity] >= SEVERITY_RANK[floor]
 
 
-
 @dataclass
 class Finding:
     """One finding.  ``value`` and ``limit`` are SI numbers of the kind ``quantity`` (temperature,

@@ -46,12 +46,13 @@ Ambient = Quantity("temperature", ge=COLDEST_K, le=343.15, description="ambient 
 VapourPressure = Quantity("pressure", ge=0.0, le=1.0e7, description="vapour pressure (absolute)")
 
 
-class _Model(BaseModel):
-    model_config = ConfigDict(extra="forbid", validate_assignment=True)
-
-
+# the pump's, vessels' and schedule's quantities (used by `plan`; `evaluate` needs only those above)
 Head = Quantity("length", gt=0.0, le=2000.0, description="pump head")
 Volume = Quantity("volume", gt=0.0, le=1.0e6, description="volume")
 Power = Quantity("power", gt=0.0, le=1.0e7, description="power")
 Speed = Quantity("rotational_speed", gt=0.0, le=500.0, description="rotational speed")
 Duration = Quantity("time", gt=0.0, le=30 * 86400.0, description="duration")
+
+
+class _Model(BaseModel):
+    model_config = ConfigDict(extra="forbid", validate_assignment=True)

@@ -14,6 +14,7 @@ from planner.scenario.fields import (Ambient, Conductivity, Diameter, Elevation,
                                      WindSpeed, _Model)
 from planner.scenario.quantities import Quantity
 
+
 class Fitting(_Model):
     type: str
     count: int = Field(1, ge=1, le=1000)

@@ -15,6 +15,7 @@ from planner.scenario.fields import (COLDEST_K, Conductivity, ConductivitySlope,
                                      DynamicViscosity, KinematicViscosity, SpecificHeat, SpecificHeatSlope,
                                      Temperature, VapourPressure, YieldStress, _Model)
 
+
 class LabPoint(_Model):
     """One measured viscosity: give ``viscosity`` (dynamic) or ``kinematic_viscosity``."""
 

@@ -16,6 +16,7 @@ from planner.scenario.quantities import Quantity
 if TYPE_CHECKING:                     # the root model holds these sections
     from planner.scenario.root import Scenario
 
+
 class Site(_Model):
     name: str = Field("", max_length=120)
     ambient_temperature: Ambient

@@ -35,7 +35,6 @@ from planner.transfer.pump_hi import HI_B_MAX, HICorrection, hi_correction, hi_p
 from planner.transfer.pump_pd import PositiveDisplacementPump
 
 
-
 def build_pump(spec, slip_factor: float = 1.0):
     """The pump of a ``PumpSpec``; ``slip_factor`` (the scenario's ``[calibration]``) multiplies PD slip."""
     if spec.kind == "positive_displacement":
