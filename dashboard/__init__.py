@@ -1,6 +1,7 @@
 """The Streamlit dashboard of the planner (entry point ``dashboard/app.py``).
 
-Only ``app.py``, ``inputs.py``, ``views.py`` and ``sharing.py`` import Streamlit; ``display.py``,
-``results.py``, ``tables.py``, ``figures.py`` and ``report.py`` are plain Python so that the HTML
-report and the tests can use them without a running app.
+``app.py``, ``inputs.py``, ``views.py``, ``sharing.py``, ``accounts_ui.py``, ``calibration_view.py`` and
+``compute.py`` import Streamlit; ``display.py``, ``results.py``, ``tables.py``, ``figures.py``, ``report.py``,
+``plaintext.py``, ``calibration_data.py`` and ``workers.py`` are plain Python so that the HTML report, the
+worker processes and the tests can use them without a running app.
 """

@@ -24,7 +24,7 @@ if str(ROOT) not in sys.path:
 # first: importing compute starts the first worker, which loads the planner while the imports below run
 from dashboard.compute import cached_bundle  # noqa: E402
 from dashboard import inputs, tables, views  # noqa: E402
-from dashboard.plaintext import plain  # noqa: E402
+from dashboard.plaintext import escaped  # noqa: E402
 from dashboard.display import SYSTEM_NAMES, caution_text  # noqa: E402
 from dashboard.report import build_report_html  # noqa: E402
 from dashboard import sharing  # noqa: E402
@@ -145,8 +145,8 @@ def sidebar(scenario: Scenario | None, scenario_json: str | None, bundle: dict |
                      args=(upload_key,), help="the same TOML/JSON files `python -m planner` reads")
     message = st.session_state.get("load_message")
     if message:
-        getattr(sb, message[0])(plain(message[1]))
-    sb.caption("Working on: " + plain(source_text()))
+        getattr(sb, message[0])(escaped(message[1]))
+    sb.caption("Working on: " + escaped(source_text()))
     sb.header("Units")
     sb.radio("Unit system", list(SYSTEM_NAMES), format_func=SYSTEM_NAMES.get, key="unit_system", horizontal=True,
              help="applies to every input, result, table, chart and export")
@@ -228,24 +228,24 @@ def stale_note() -> str:
     """Says whose results the greyed figures are: this scenario's last good inputs, or another scenario's."""
     last = st.session_state.get("last_good") or {}
     if last.get("loaded") == st.session_state.get("loaded", 0):
-        return f"the last good inputs of this scenario ({plain(last.get('name', ''))})"
-    return (f"**another scenario**, “{plain(last.get('name', ''))}” ({plain(last.get('source', ''))}), "
-            f"not {plain(source_text())}")
+        return f"the last good inputs of this scenario ({escaped(last.get('name', ''))})"
+    return (f"**another scenario**, “{escaped(last.get('name', ''))}” ({escaped(last.get('source', ''))}), "
+            f"not {escaped(source_text())}")
 
 
 def page_header(scenario: Scenario | None, unit_system: str, problem_list: list, bundle: dict | None,
                 stale: bool, shown: dict | None) -> None:
     name = scenario.name if scenario is not None else (st.session_state["work"].get("name") or "scenario with problems")
-    st.markdown(f"## Viscous Transfer Planner  \n**{plain(name)}**")
-    st.caption(f"{plain(source_text())} — units: {SYSTEM_NAMES[unit_system]}")
+    st.markdown(f"## Viscous Transfer Planner  \n**{escaped(name)}**")
+    st.caption(f"{escaped(source_text())} — units: {SYSTEM_NAMES[unit_system]}")
     st.warning(caution_text(unit_system), icon="⚠️")
     sharing.page_notices()
     if problem_list:
         st.error(f"**The inputs have {len(problem_list)} problem(s)** — each message is shown beside its field "
-                 "under Inputs:  \n" + "  \n".join(f"• {plain(p or '(file)')}: {plain(m)}" for p, m in problem_list[:8])
+                 "under Inputs:  \n" + "  \n".join(f"• {escaped(p or '(file)')}: {escaped(m)}" for p, m in problem_list[:8])
                  + ("  \n• …" if len(problem_list) > 8 else ""))
     if bundle is not None and "error" in bundle and not bundle.get("problems"):
-        st.error(f"**No plan for these inputs:** {plain(bundle['error'])}")
+        st.error(f"**No plan for these inputs:** {escaped(bundle['error'])}")
     if stale and shown is not None and "error" not in shown:
         st.info(f"The figures and views below are greyed: they are from {stale_note()}, until the problems are fixed.")
 
@@ -300,7 +300,7 @@ def main() -> None:
                 draw_tab(title, scenario, scenario_json, shown, stale, problems, unit_system)
             except Exception as exc:  # noqa: BLE001  (never a traceback on the page)
                 log.exception("view %s failed", title)
-                st.error(f"This view could not be drawn ({type(exc).__name__}: {plain(exc)}). "
+                st.error(f"This view could not be drawn ({type(exc).__name__}: {escaped(exc)}). "
                          "The other views still work.")
     st.caption(caution_text(unit_system))
 

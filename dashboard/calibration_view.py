@@ -20,8 +20,8 @@ import streamlit as st
 from plotly.subplots import make_subplots
 
 from dashboard.compute import cached_calibration
-from dashboard.display import convert_array, label, to_display
-from dashboard.plaintext import plain
+from dashboard.display import convert_array, fmt, label, to_display
+from dashboard.plaintext import escaped
 
 TAB = "Calibration"
 DEMO_LOG = Path(__file__).resolve().parents[1] / "demo_scenarios" / "logs" / "barge_wren_2026-01-14.csv"
@@ -184,9 +184,9 @@ def _inputs(scenario) -> tuple[list[str], str]:
 
 def _show_result(data: dict, unit_system: str) -> None:
     log_info = data["log"]
-    st.markdown(f"**Log** {plain(log_info['file'])} — SHA-256 `{log_info['sha256'][:16]}…` — {log_info['rows_read']} of "
-                f"{log_info['rows']} rows read, {log_info['duration_s'] / 3600:.2f} h"
-                + (f" from {plain(log_info['start'])}" if log_info.get("start") else ""))
+    st.markdown(f"**Log** {escaped(log_info['file'])} — SHA-256 `{log_info['sha256'][:16]}…` — {log_info['rows_read']} of "
+                f"{log_info['rows']} rows read, {fmt(log_info['duration_s'], 'time', unit_system)}"
+                + (f" from {escaped(log_info['start'])}" if log_info.get("start") else ""))
     if log_info["unreadable"]:
         st.warning(f"{log_info['rows_unreadable']} rows could not be read (not used):")
         st.dataframe(pd.DataFrame([{"reason": g["reason"], "rows": g["count"],
@@ -201,7 +201,7 @@ def _show_result(data: dict, unit_system: str) -> None:
     for note in data.get("notes", []):
         st.caption(f"Note: {note}")
     for text in data.get("warnings_by_system", {}).get(unit_system, data["warnings"]):
-        st.warning(plain(text))
+        st.warning(escaped(text))
     st.dataframe(residuals_frame(data, unit_system), hide_index=True)
     st.plotly_chart(series_figure(data, unit_system), key="cal_series")
 
@@ -245,7 +245,7 @@ def calibration_view(scenario, scenario_json: str | None, unit_system: str) -> N
     with st.spinner("Replaying the log and fitting…"):
         data = cached_calibration(fit_key(scenario, names), log_bytes, log_name, map_text, tuple(names))
     if "error" in data:
-        st.error(f"**No fit:** {plain(data['error'])}")
+        st.error(f"**No fit:** {escaped(data['error'])}")
         return
     _show_result(data, unit_system)
     usable = any(f["identifiable"] for f in data["factors"].values())

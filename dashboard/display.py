@@ -1,6 +1,6 @@
 """Display units and number formatting for the dashboard and its report (no Streamlit here).
 
-Every conversion goes through ``planner.units``: ``from_si`` / ``to_si_from_display`` for the kinds
+Every conversion goes through ``planner.scenario.units``: ``from_si`` / ``to_si_from_display`` for the kinds
 of ``planner.scenario.units.UNIT_SYSTEMS`` and the package's pint registry for the few kinds shown in the same
 unit in both systems (pump speed in rpm, displacement in litres, coefficients per m² or per m).
 """
@@ -8,27 +8,28 @@ unit in both systems (pump speed in rpm, displacement in litres, coefficients pe
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
 from functools import lru_cache
 
 import numpy as np
 
 from planner.checks.caution import STANDING_CAUTION
-from planner.scenario.wording import Q, Sentence, render
-from planner.scenario.units import SI_UNITS, UNIT_SYSTEMS, from_si, registry, to_si, to_si_from_display, unit_label
-from planner.transfer.system import OUTCOME_WORDS
+from planner.scenario.wording import DECIMALS, Q, Sentence, render  # noqa: F401  (DECIMALS: the one table)
+from planner.scenario.units import (SI_UNITS, UNIT_SYSTEMS, from_si, registry, to_si, to_si_from_display, unit_label,
+                                    unit_text)
+from planner.transfer.operating import OUTCOME_WORDS
 
 SYSTEM_NAMES = {"SI": "SI (metric)", "US": "US customary"}
 
-# Shown in the same unit whatever the system: (label, pint unit).
-FIXED_DISPLAY = {
-    "rotational_speed": ("rpm", "revolution/minute"),
-    "displacement": ("L", "L"),
-    "heat_transfer_coefficient": ("W/(m²·K)", "W/m**2/K"),
-    "linear_conductance": ("W/(m·K)", "W/m/K"),
-    "density_slope": ("kg/m³ per K", "kg/m**3/K"),
-    "yield_stress": ("Pa", "Pa"),
-}
+# Shown in the same unit whatever the system: (label, pint unit); the label is the unit's one spelling
+# (planner.scenario.units.unit_text).
+FIXED_DISPLAY = {kind: (unit_text(unit), unit) for kind, unit in {
+    "rotational_speed": "revolution/minute",
+    "displacement": "L",
+    "heat_transfer_coefficient": "W/m**2/K",
+    "linear_conductance": "W/m/K",
+    "density_slope": "kg/m**3/K",
+    "yield_stress": "Pa",
+}.items()}
 _SI_FOR_FIXED = {"rotational_speed": "revolution/second", "displacement": "m**3"}
 
 # The touch limit drawn on jacket temperatures: a common plant limit for unguarded surfaces that
@@ -45,14 +46,6 @@ CAUTION_TEXT = STANDING_CAUTION + " " + EXTRA_CAUTION
 def caution_text(system: str = "SI") -> str:
     """The standing caution and the dashboard's own, in the display system."""
     return STANDING_CAUTION + " " + render(EXTRA_CAUTION, system)
-
-DECIMALS = {
-    "temperature": 1, "temperature_difference": 1, "pressure": 2, "volume_flow": 2, "volume": 1,
-    "length": 1, "small_length": 1, "head": 2, "time": 2, "energy": 1, "mass": 0, "power": 2, "heat_rate": 2, "mass_flow": 2,
-    "dynamic_viscosity": 1, "kinematic_viscosity": 1, "density": 1, "linear_power": 1, "speed": 2,
-    "rotational_speed": 0, "displacement": 2, "heat_transfer_coefficient": 2, "specific_heat": 3,
-    "conductivity": 3, "linear_conductance": 2,
-}
 
 
 def label(kind: str, system: str) -> str:
@@ -136,38 +129,6 @@ def with_unit(text: str, kind: str | None, system: str) -> str:
     if kind is None:
         return text
     return f"{text} [{label(kind, system)}]"
-
-
-# ---------------------------------------------------------------------------------------------
-# Key figures: the planner's (``planner.reports.key_figures``, SI, kept in the bundle) in display units.
-
-
-@dataclass
-class KeyFigure:
-    key: str
-    label: str
-    si: float | None
-    kind: str | None
-    text: str
-    note: str = ""
-    help: str = ""
-    possible: bool = True
-
-
-def figure_text(k, system: str) -> str:
-    """The value of one planner key figure in ``system``; "not possible: <why>" when its step cannot be
-    carried out (never a partial total)."""
-    if not k.possible:
-        return f"not possible: {render(k.why, system)}"
-    if k.quantity == "money":
-        return f"{number_text(k.value, 2)} {k.unit}".strip()
-    return fmt(k.value, k.quantity, system)
-
-
-def key_figures(bundle: dict, system: str) -> list[KeyFigure]:
-    """The plan's key figures in the display system, with stable labels."""
-    return [KeyFigure(k.key, k.label, k.value, None if k.quantity == "money" else k.quantity, figure_text(k, system),
-                      render(k.note, system), k.help, k.possible) for k in bundle["key_figures"]]
 
 
 # ---------------------------------------------------------------------------------------------

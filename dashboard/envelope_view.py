@@ -10,7 +10,7 @@ from planner.errors import PlannerError
 
 from . import compute, figures
 from .display import fmt, label
-from .plaintext import plain
+from .plaintext import escaped
 
 DEFAULT_AMBIENTS = {"SI": "-20:30:10", "US": "-4:86:18"}     # the same six ambients in °C and °F
 
@@ -40,7 +40,7 @@ def envelope_section(scenario, scenario_json: str, unit_system: str, lever: str,
         try:
             values, ambients = _grid_inputs(scenario, lever, values_text, ambient_text, unit_system)
         except (ValueError, PlannerError) as exc:
-            st.error(plain(str(exc)))
+            st.error(escaped(str(exc)))
             return
         with st.spinner(f"Working out {len(values) * len(ambients)} plans…"):
             result = compute.cached_envelope(scenario_json, lever, values, ambients)
@@ -54,7 +54,7 @@ def envelope_section(scenario, scenario_json: str, unit_system: str, lever: str,
         st.warning("The inputs have changed since this envelope: press Envelope to work it out again.")
     result = saved["result"]
     if "error" in result:
-        st.error(plain(result["error"]))
+        st.error(escaped(result["error"]))
         return
     st.plotly_chart(figures.envelope_figure(result, kind, unit_system), key="envelope_chart")
     rows = [(fmt(e["ambient_k"], "temperature", unit_system, 0),

@@ -11,6 +11,8 @@ import numpy as np
 import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
+from planner.scenario.wording import format_quantity
+
 from .display import convert_array, label, to_display, with_unit, words
 from .plaintext import plotly_text
 from .tables import comparison_currency
@@ -334,6 +336,7 @@ def envelope_figure(envelope: dict, kind: str, system: str) -> go.Figure:
             for e in envelope["envelope"] if e["value"] is not None]
     fig.add_trace(go.Scatter(x=[p[0] for p in line], y=[p[1] for p in line], mode="lines+markers",
                              name="envelope (lowest that fits)", line=dict(color="#1f4e79", width=3)))
-    fig.update_xaxes(title_text=with_unit(envelope["lever"].replace("_", " "), kind, system))
+    fig.update_xaxes(title_text=with_unit(words(envelope["lever"]), kind, system))
     fig.update_yaxes(title_text=with_unit("Ambient", "temperature", system))
-    return _layout(fig, f"Operating envelope (window {envelope['planned_window_s'] / 3600.0:.1f} h)", 480)
+    window = format_quantity(envelope["planned_window_s"], "time", system)
+    return _layout(fig, f"Operating envelope (window {window})", 480)

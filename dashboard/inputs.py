@@ -28,7 +28,7 @@ from planner.scenario.schema import (Destination, ProductSpec, PumpSpec, Route, 
 from . import figures
 from .display import (display_string, fit_quality_text, from_display, law_parameters_text, si_string, stored_to_si,
                       to_display, with_unit, words)
-from .plaintext import plain
+from .plaintext import escaped
 from .results import product_preview
 
 OWN_PRODUCT = "(own lab data)"
@@ -167,7 +167,7 @@ def _commit_value(path: str, key: str, empty_is_none: bool = False) -> None:
 def show_problems(container, problems: Problems, path: str, field_label: str) -> None:
     for problem_path, message in problems.take(path):
         where = "" if problem_path == path else f" ({problem_path[len(path):].lstrip('.')})"
-        container.error(f"**{field_label}**{plain(where)}: {plain(message)}  \n{plain(problem_path)}", icon="⚠️")
+        container.error(f"**{field_label}**{escaped(where)}: {escaped(message)}  \n{escaped(problem_path)}", icon="⚠️")
 
 
 # ------------------------------------------------------------------------------------------ widgets
@@ -180,7 +180,7 @@ def number(container, problems: Problems, path: str, field_label: str, kind: str
         si = _stored_number(raw, kind)
     except (ValueError, TypeError) as exc:
         si = None
-        container.caption(plain(f"the file's value {raw!r} could not be read: {exc}"))
+        container.caption(escaped(f"the file's value {raw!r} could not be read: {exc}"))
     value = None if si is None else (to_display(si, kind, system()) if kind else si)
     digits = FORMATS.get(kind, 2) if decimals is None else decimals
     key = _wkey(path)
@@ -361,11 +361,11 @@ def table(container, problems: Problems, path: str, title: str, columns: tuple, 
             field = match.group(2)
             name = row_name(items[i], i) if row_name and i < len(items) and isinstance(items[i], dict) else f"row {i + 1}"
             field_text = field_titles.get(field.split(".")[0].split("[")[0], field) if field else ""
-            container.error(f"**{title or 'table'}, row {i + 1}** ({plain(name)})"
-                            + (f", **{plain(field_text)}**" if field_text else "")
-                            + f": {plain(message)}  \n{plain(problem_path)}", icon="⚠️")
+            container.error(f"**{title or 'table'}, row {i + 1}** ({escaped(name)})"
+                            + (f", **{escaped(field_text)}**" if field_text else "")
+                            + f": {escaped(message)}  \n{escaped(problem_path)}", icon="⚠️")
         else:
-            container.error(f"**{title or 'table'}**: {plain(message)}  \n{plain(problem_path)}", icon="⚠️")
+            container.error(f"**{title or 'table'}**: {escaped(message)}  \n{escaped(problem_path)}", icon="⚠️")
 
 
 # -- route segments
@@ -527,7 +527,7 @@ def product_section(c, problems: Problems) -> None:
     if curve is not None:
         right.plotly_chart(figures.viscosity_figure(curve, system(), height=380, compact=True),
                            key="product_preview_chart")
-        right.caption(plain(f"Fitted {words(curve['law'])} law ({law_parameters_text(curve)}); "
+        right.caption(escaped(f"Fitted {words(curve['law'])} law ({law_parameters_text(curve)}); "
                             f"{fit_quality_text(curve)}. Outside the shaded range the law is extrapolated."))
     else:
         right.info("The curve appears when the product's fields are valid (see the messages on the left).")
@@ -722,4 +722,4 @@ def render_inputs(container, problems: Problems) -> None:
     rest = [(p, m) for p, m in problems.rest() if not any(_under(p, prefix) for prefix in prefixes)]
     if rest:
         container.error("Other problems in the scenario:  \n" + "  \n".join(
-            f"{plain(p or '(file)')}: {plain(m)}" for p, m in rest))
+            f"{escaped(p or '(file)')}: {escaped(m)}" for p, m in rest))

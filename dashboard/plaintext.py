@@ -4,7 +4,8 @@ Streamlit renders markdown (with images, links, colour directives and math) in `
 ``st.caption``, the message boxes, widget labels, expander labels and ``help`` tooltips. Text a
 person typed or a file carried (plan name, site, author, note, review comment, segment and product
 names, file names, unknown keys, messages quoting them) must not be able to make the page fetch an
-image or show a link, so every such text goes through :func:`plain` before it reaches markdown.
+image or show a link, so every such text goes through :func:`escaped` before it reaches
+markdown (text made safe for markdown; ``planner.plain.plain`` is the other rule: data made JSON-ready).
 Plotly draws a small subset of HTML in titles, names and annotations: :func:`plotly_text` escapes it.
 """
 
@@ -37,7 +38,7 @@ def _line(text: str) -> str:
     return text.replace("\\@", JOINER + "\\@")
 
 
-def plain(text) -> str:
+def escaped(text) -> str:
     """``text`` (any object, ``str()``-ed) escaped so that markdown shows it literally; line breaks
     become markdown line breaks and leading spaces are dropped (no code blocks)."""
     lines = str("" if text is None else text).replace("\r\n", "\n").replace("\r", "\n").split("\n")
@@ -49,7 +50,7 @@ def plotly_text(text) -> str:
     return html.escape(str("" if text is None else text), quote=False)
 
 
-def plain_table(frame):
+def escaped_table(frame):
     """A copy of a pandas frame for ``st.table`` (whose cells and headings are markdown): every cell as
     escaped text, a missing value as "—".  ``st.dataframe`` draws plain text itself: give it the frame."""
     import math
@@ -57,8 +58,8 @@ def plain_table(frame):
     def cell(value) -> str:
         if value is None or (isinstance(value, float) and math.isnan(value)):
             return "—"
-        return plain(value)
+        return escaped(value)
 
     out = frame.map(cell)
-    out.columns = [plain(c) for c in frame.columns]
+    out.columns = [escaped(c) for c in frame.columns]
     return out

@@ -18,13 +18,14 @@ import html
 import pandas as pd
 from plotly.offline import get_plotlyjs
 
+from planner.checks.finding import MOST_SEVERE_FIRST
 from planner.reports.findings_text import headline
+from planner.reports.key_figures import figure_text
 from planner.scenario.schema import Scenario, scenario_to_toml
 from planner.scenario.wording import render
 
 from . import figures, tables
-from .display import SYSTEM_NAMES, caution_text, fmt, key_figures, words
-from .results import SEVERITY_ORDER
+from .display import SYSTEM_NAMES, caution_text, fmt, words
 
 CSS = """
 body { font-family: -apple-system, Segoe UI, Roboto, Helvetica, Arial, sans-serif; margin: 2rem auto; max-width: 1200px;
@@ -97,7 +98,7 @@ def _findings_html(bundle: dict, system: str) -> str:
     if findings is None:
         return f"<p>{html.escape(bundle.get('findings_note') or 'Findings are not available.')}</p>"
     parts = []
-    for severity in SEVERITY_ORDER:
+    for severity in MOST_SEVERE_FIRST:
         for f in (x for x in findings if x.get("severity") == severity):
             lines = [f"<b>{html.escape(severity.upper())}: {html.escape(f.get('title', ''))}</b> — "
                      f"{html.escape(render(f.get('message', ''), system))}"]
@@ -130,9 +131,10 @@ def build_report_html(scenario: Scenario, bundle: dict, system: str = "SI", gene
     start = plan["start"]
     caution = f'<div class="caution"><b>Caution.</b> {html.escape(caution_text(system))}</div>'
     figs = "".join(
-        f'<div class="figure"><div class="label">{html.escape(k.label)}</div><div class="value">{html.escape(k.text)}</div>'
-        f'<div class="note">{html.escape(k.note)}</div></div>'
-        for k in key_figures(bundle, system))
+        f'<div class="figure"><div class="label">{html.escape(k.label)}</div>'
+        f'<div class="value">{html.escape(figure_text(k, system))}</div>'
+        f'<div class="note">{html.escape(render(k.note, system))}</div></div>'
+        for k in bundle["key_figures"])
     charts = []
     if bundle.get("profile") is not None:
         charts.append(_figure_html(figures.line_figure(bundle["profile"], bundle["segments"], system,

@@ -16,15 +16,11 @@ from planner.sweeps.compare import compare
 from planner.errors import PlannerError
 from planner.checks.findings import assess
 from planner.plain import finite_or_none, plain as _plain
-from planner.reports.findings_text import MOST_SEVERE_FIRST
 from planner.reports.key_figures import key_figures, outlet_rating
 from planner.transfer.plan import make_plan
 from planner.reports.plan_json import plan_json
 from planner.line.products import Product
 from planner.scenario.schema import ProductSpec, Scenario, problems_from
-
-SEVERITY_ORDER = MOST_SEVERE_FIRST   # most severe first, as the pages list them
-
 
 def segment_table(segments) -> list[dict]:
     return [{
@@ -149,9 +145,9 @@ def build_bundle(scenario: Scenario) -> dict:
     plan = make_plan(scenario)
     found, findings, findings_note = findings_of(plan)
     doc = plan_json(plan, findings=found) if found is not None else plan_json(plan, findings=[])
-    system = plan.system
-    discharge = system.discharge_line.segments
-    suction = system.suction_line.segments if system.suction_line is not None else []
+    transfer = plan.system
+    discharge = transfer.discharge_line.segments
+    suction = transfer.suction_line.segments if transfer.suction_line is not None else []
     profile = profile_arrays(plan)
     if profile is not None:
         profile["rating"] = node_ratings(discharge, profile["nodes"])
@@ -168,7 +164,7 @@ def build_bundle(scenario: Scenario) -> dict:
         "push_cold_rows": _plain(plan.push_cold.rows or {}),
         "findings": findings,
         "findings_note": findings_note,
-        "product": product_curve(scenario.product, product=system.product),
+        "product": product_curve(scenario.product, product=transfer.product),
         "destination_max_level": scenario.destination.max_level if scenario.destination else None,
         "tracing_kind": scenario.tracing.kind,
         "setpoint": scenario.tracing.setpoint,

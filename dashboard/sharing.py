@@ -2,7 +2,7 @@
 
 Everything lasting goes through the planner: revisions and the review trail through
 ``planner.records.store.PlanStore`` (an SQLite file or PostgreSQL; revisions are never overwritten and an
-approved one is immutable in the database itself), links through ``planner.links`` (bounded, validated
+approved one is immutable in the database itself), links through ``planner.records.links`` (bounded, validated
 decoding of untrusted query parameters).  This module only lays them out.  Saving and review steps
 are done by the signed-in account (``accounts_ui``): its name goes into the revision and the trail.
 
@@ -32,18 +32,18 @@ from typing import Callable
 import pandas as pd
 import streamlit as st
 
+from planner.checks.finding import MOST_SEVERE_FIRST
 from planner.errors import PlannerError, ScenarioError
 from planner.records.links import URL_BUDGET_CHARS, LinkError, fits_in_url, link_url, parse_query, query_for
 from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_dict, scenario_to_json
-from planner.records.store import STATES, PlanStore, Revision, StoreError, canonical_json, database_url
+from planner.records.store import STATES, PlanStore, Revision, StoreError, database_url
 
 from . import accounts_ui
 
 from planner.transfer.plan import J_PER_KWH
 
 from .display import fmt, number_text
-from .plaintext import plain, plain_table
-from .results import SEVERITY_ORDER
+from .plaintext import escaped, escaped_table
 from .views import VIEW_OF_TITLE, VIEW_TITLES
 
 log = logging.getLogger(__name__)
@@ -152,7 +152,7 @@ def results_summary(bundle: dict | None) -> dict:
         "currency": plan["costs"].get("currency", ""),
     }
     findings = bundle.get("findings")
-    for severity in SEVERITY_ORDER:
+    for severity in MOST_SEVERE_FIRST:
         out[f"findings_{severity}"] = (None if findings is None
                                        else sum(1 for f in findings if f.get("severity") == severity))
     return out
@@ -247,7 +247,7 @@ def unchanged_since_open(revision: Revision | None) -> bool:
     if ss.get("work") == ss.get("rev_work"):
         return True
     scenario = _validated(ss.get("work") or {})
-    return scenario is not None and canonical_json(scenario) == revision.scenario_json
+    return scenario is not None and scenario_to_json(scenario) == revision.scenario_json
 
 
 # ------------------------------------------------------------------------------------------ opening
@@ -353,13 +353,13 @@ def page_notices() -> None:
     ss = st.session_state
     link_message = ss.get("link_message")
     if link_message and link_message[0] == ss.get("gen", 0):
-        st.error(plain(link_message[1]), icon="🔗")
+        st.error(escaped(link_message[1]), icon="🔗")
     refused = ss.pop("refused_msg", None)
     if refused:
-        st.error(plain(refused), icon="🔒")
+        st.error(escaped(refused), icon="🔒")
     revision = ss.get("open_rev_obj")
     if revision is not None and revision.read_only:
-        text = plain(lock_text(revision, ss.get("open_rev_trail") or []))
+        text = escaped(lock_text(revision, ss.get("open_rev_trail") or []))
         if ss.get("rev_unlocked"):
             st.info(f"{text} You are changing a copy of its inputs: saving makes revision "
                     f"{_next_number(revision)}; revision {revision.number} stays approved.", icon="🔓")
@@ -462,7 +462,7 @@ def _do_reopen(set_work, plan_id: int, number: int) -> None:
 def _show_msg(container, key: str) -> None:
     message = st.session_state.pop(key, None)
     if message:
-        getattr(container, message[0])(plain(message[1]))
+        getattr(container, message[0])(escaped(message[1]))
 
 
 # ------------------------------------------------------------------------------------------ sidebar
@@ -475,11 +475,11 @@ def save_share_review(container, scenario_json: str | None, bundle: dict | None)
     unchanged = unchanged_since_open(revision)
     _show_msg(container, "share_msg")
     if revision is not None:
-        container.markdown(f"**Open:** “{plain(revision.plan_name)}”" + (f" ({plain(revision.site)})" if revision.site else "")
+        container.markdown(f"**Open:** “{escaped(revision.plan_name)}”" + (f" ({escaped(revision.site)})" if revision.site else "")
                            + f", revision {revision.number} — **{STATE_WORDS.get(revision.state, revision.state)}**"
                            + ("" if unchanged else "  \n*with unsaved changes*"))
         if revision.read_only:
-            container.caption("🔒 " + plain(lock_text(revision, ss.get("open_rev_trail") or [])))
+            container.caption("🔒 " + escaped(lock_text(revision, ss.get("open_rev_trail") or [])))
             if not ss.get("rev_unlocked"):
                 container.button("Change the inputs (as a new revision)", key="sv_unlock", on_click=_do_unlock,
                                  width="stretch", help="unlocks the inputs; saving then adds a revision and the "
@@ -531,7 +531,7 @@ def save_share_review(container, scenario_json: str | None, bundle: dict | None)
         scenario = scenario_from_dict(json.loads(scenario_json))
         params = query_for(view, scenario=scenario)
     except (PlannerError, ValueError) as exc:
-        container.caption(f"No link for these inputs: {plain(exc)}")
+        container.caption(f"No link for these inputs: {escaped(exc)}")
         return
     url = link_url(base, params)
     if fits_in_url(params, base):
@@ -596,29 +596,29 @@ def _open_panel(set_work, unit_system: str) -> None:
         st.info("No saved revision is open. Save the plan (sidebar, “Save / share / review”) or open one below.")
         return
     trail = ss.get("open_rev_trail") or []
-    st.markdown(f"**“{plain(revision.plan_name)}”**" + (f" — {plain(revision.site)}" if revision.site else "")
-                + f", revision {revision.number} · product: {plain(revision.product)}")
-    st.caption(f"Saved by {plain(revision.author)} at {when_text(revision.created_at)}"
-               + (f" — note: {plain(revision.note)}" if revision.note else "")
+    st.markdown(f"**“{escaped(revision.plan_name)}”**" + (f" — {escaped(revision.site)}" if revision.site else "")
+                + f", revision {revision.number} · product: {escaped(revision.product)}")
+    st.caption(f"Saved by {escaped(revision.author)} at {when_text(revision.created_at)}"
+               + (f" — note: {escaped(revision.note)}" if revision.note else "")
                + f" · content hash {revision.content_hash[:12]}")
     state = revision.state
     if state == "approved":
-        st.success("🔒 " + plain(lock_text(revision, trail)))
+        st.success("🔒 " + escaped(lock_text(revision, trail)))
     elif state == "submitted":
         st.warning(f"Revision {revision.number} is submitted and awaits the supervisor's review.")
     elif state == "returned":
         last = next((r for r in reversed(trail) if r.action == "return"), None)
         st.error(f"Revision {revision.number} was returned for changes"
-                 + (f" by {plain(last.by)} at {when_text(last.at)}: {plain(last.comment)}" if last else "")
+                 + (f" by {escaped(last.by)} at {when_text(last.at)}: {escaped(last.comment)}" if last else "")
                  + ". Change the inputs and save a new revision.")
     else:
         st.info(f"Revision {revision.number} is a draft: submit it for review when it is ready.")
     left, right = st.columns(2)
     left.markdown("**Key figures as saved**")
-    left.table(plain_table(_results_frame(revision.results, unit_system)), hide_index=True)
+    left.table(escaped_table(_results_frame(revision.results, unit_system)), hide_index=True)
     right.markdown("**Review trail**")
     if trail:
-        right.table(plain_table(_trail_frame(trail)), hide_index=True)
+        right.table(escaped_table(_trail_frame(trail)), hide_index=True)
     else:
         right.caption("No review steps yet.")
 
@@ -763,4 +763,4 @@ def review_view(set_work: Callable[[dict, str], None], unit_system: str) -> None
         _open_panel(set_work, unit_system)
         _browse_panel(set_work, unit_system)
     except StoreError as exc:
-        st.error(f"Saved plans are not available: {plain(exc)}")
+        st.error(f"Saved plans are not available: {escaped(exc)}")

@@ -11,10 +11,11 @@ import numpy as np
 import pandas as pd
 
 from .display import convert_array, fmt, general_number, label, number_text, to_display, with_unit, words
+from planner.checks.finding import MOST_SEVERE_FIRST
 from planner.reports.findings_text import finding_details as _finding_details
 from planner.scenario.wording import render
+from planner.transfer.hold import hours_text
 
-from .results import SEVERITY_ORDER
 
 TIMELINE_COLUMNS = [
     # key of plan_json timeline.arrays, title, kind
@@ -162,18 +163,16 @@ def energy_cost_frame(plan: dict, system: str) -> pd.DataFrame:
 def startup_hold_frame(plan: dict, system: str) -> pd.DataFrame:
     s, h = plan["startup"], plan["hold"]
     warm, cold = s.get("prewarm") or {}, s.get("push_cold") or {}
-    hours = lambda v: "holds 14 days" if v is None else f"{v / 3600.0:.2f} h"  # noqa: E731
-    hours_or_dash = lambda v: "—" if v is None else f"{v / 3600.0:.2f} h"  # noqa: E731
     rows = [
-        ("Start-up chosen", f"{words(s.get('mode'))}: {hours_or_dash(s.get('time_s'))}"),
+        ("Start-up chosen", f"{words(s.get('mode'))}: {fmt(s.get('time_s'), 'time', system)}"),
         ("Line contents at the start", fmt(s.get("line_start_temperature_k"), "temperature", system)),
         ("Pre-warm", render(warm.get("message", ""), system)),
         ("Push cold: first flow", fmt(cold.get("initial_flow_m3_s"), "volume_flow", system)),
         ("Push cold: peak discharge pressure", fmt(cold.get("peak_discharge_pressure_pa"), "pressure", system)),
         ("Push cold: relief lifts", "yes" if cold.get("relief_lifts") else "no"),
         ("Stop limit", f"{fmt(h.get('limit_temperature_k'), 'temperature', system)} ({h.get('limit_reason', '')})"),
-        ("Time to limit, tracing on", f"{hours(h.get('time_to_limit_traced_s'))} ({h.get('first_to_set_traced', '')})"),
-        ("Time to limit, tracing failed", f"{hours(h.get('time_to_limit_failed_s'))} ({h.get('first_to_set_failed', '')})"),
+        ("Time to limit, tracing on", f"{hours_text(h.get('time_to_limit_traced_s'), system)} ({h.get('first_to_set_traced', '')})"),
+        ("Time to limit, tracing failed", f"{hours_text(h.get('time_to_limit_failed_s'), system)} ({h.get('first_to_set_failed', '')})"),
         ("Restart after the planned stop, tracing on", "yes" if h.get("restart_after_stop_traced") else "NO"),
         ("Restart after the planned stop, tracing failed", "yes" if h.get("restart_after_stop_failed") else "NO"),
     ]
@@ -209,7 +208,7 @@ def comparison_frame(comparison: dict, kind: str, system: str) -> pd.DataFrame:
             f"Total cost [{currency}]": r.get("total_cost"),
             with_unit("Peak pressure", "pressure", system): to_display(r.get("peak_pressure_pa"), "pressure", system),
             with_unit("Hottest jacket", "temperature", system): to_display(r.get("hottest_jacket_k"), "temperature", system),
-            "Findings": ", ".join(f"{counts[s]} {s}" for s in SEVERITY_ORDER if counts.get(s)) or "none",
+            "Findings": ", ".join(f"{counts[s]} {s}" for s in MOST_SEVERE_FIRST if counts.get(s)) or "none",
             "Stop": "STOP" if r.get("has_stop") else "no",
         })
     return pd.DataFrame(rows)

@@ -5,19 +5,21 @@ from __future__ import annotations
 import pandas as pd
 import streamlit as st
 
+from planner.checks.finding import MOST_SEVERE_FIRST
 from planner.errors import PlannerError
 from planner.records.links import VIEWS as LINK_VIEWS
 from planner.scenario.schema import Scenario
 
 from . import figures, tables
 from . import compute
-from .plaintext import plain, plain_table
+from .plaintext import escaped, escaped_table
 from planner.reports.findings_text import flag_words, headline, start_status
+from planner.reports.key_figures import figure_text
 from planner.scenario.wording import render
 
-from .display import (fit_quality_text, fmt, key_figures, label, law_parameters_text, to_display,
+from .display import (fit_quality_text, fmt, label, law_parameters_text, to_display,
                       with_unit, words)
-from .results import LEVERS, SEVERITY_ORDER, default_comparison_values
+from .results import LEVERS, default_comparison_values
 
 # Tab title of each view a link can name (planner.records.links.VIEWS owns the names and their order).
 VIEW_TITLES = {"plan": "Plan", "inputs": "Inputs", "line": "Along the line", "time": "Over time",
@@ -42,18 +44,16 @@ def data_table(frame: pd.DataFrame, decimals: int = 3) -> None:
 
 def key_figures_strip(bundle: dict, unit_system: str) -> None:
     """The plan's key figures as metrics; labels are stable (tests read them)."""
-    figs = key_figures(bundle, unit_system)
+    figs = bundle["key_figures"]         # the planner's (SI); figure_text is the one rendering
     for row in (figs[:4], figs[4:]):
         cols = st.columns(len(row))
         for col, k in zip(cols, row):
-            if k.possible:
-                col.metric(plain(k.label), plain(k.text), delta=plain(k.note) or None, delta_color="off",
-                           delta_arrow="off", help=plain(k.help) or None, border=True)
-                continue
-            # "not possible" in the figure's place, the reason beneath it at reading size
-            col.metric(plain(k.label), "not possible", delta=plain(k.note) or None, delta_color="off",
-                       delta_arrow="off", help=plain(k.help) or None, border=True)
-            col.caption(plain(k.text.removeprefix("not possible: ")))
+            note = render(k.note, unit_system)
+            # "not possible" / "not given" in the figure's place, the reason beneath it at reading size
+            col.metric(escaped(k.label), escaped(figure_text(k, unit_system, reason=False)), delta=escaped(note) or None,
+                       delta_color="off", delta_arrow="off", help=escaped(k.help) or None, border=True)
+            if k.withheld or not k.possible:
+                col.caption(escaped(render(k.why, unit_system)))
 
 
 def status_line(bundle: dict, unit_system: str = "SI") -> None:
@@ -64,33 +64,33 @@ def status_line(bundle: dict, unit_system: str = "SI") -> None:
     findings = bundle.get("findings") or []
     head = headline(findings, unit_system)
     worst = bundle["plan"].get("worst_severity", "info")
-    message = (f"At the start: **{plain(start_status(start.get('status', ''), worst))}** — "
-               f"{plain(render(start.get('message', ''), unit_system))}")
+    message = (f"At the start: **{escaped(start_status(start.get('status', ''), worst))}** — "
+               f"{escaped(render(start.get('message', ''), unit_system))}")
     if start.get("flags"):
-        message += f" (flags: {plain(flag_words(start['flags']))})"
+        message += f" (flags: {escaped(flag_words(start['flags']))})"
     if not timeline.get("completed"):
-        message += f"  \nThe transfer stops: {plain(render(timeline.get('stop_reason', ''), unit_system))}"
+        message += f"  \nThe transfer stops: {escaped(render(timeline.get('stop_reason', ''), unit_system))}"
     box = {"stop": st.error, "warning": st.warning, "caution": st.info}.get(worst, st.success)
-    box(f"**{plain(head)}**  \n{message}")
+    box(f"**{escaped(head)}**  \n{message}")
 
 
 def findings_block(bundle: dict, unit_system: str) -> None:
     findings = bundle.get("findings")
     if findings is None:
-        st.info(f"Findings: {plain(bundle.get('findings_note') or 'not available yet')}.")
+        st.info(f"Findings: {escaped(bundle.get('findings_note') or 'not available yet')}.")
         return
-    counts = {s: sum(1 for f in findings if f.get("severity") == s) for s in SEVERITY_ORDER}
-    st.markdown("#### Findings  \n" + " · ".join(f"{counts[s]} {s}" for s in SEVERITY_ORDER))
-    for severity in SEVERITY_ORDER:
+    counts = {s: sum(1 for f in findings if f.get("severity") == s) for s in MOST_SEVERE_FIRST}
+    st.markdown("#### Findings  \n" + " · ".join(f"{counts[s]} {s}" for s in MOST_SEVERE_FIRST))
+    for severity in MOST_SEVERE_FIRST:
         items = [f for f in findings if f.get("severity") == severity]
         if not items:
             continue
         box, icon, heading = SEVERITY_STYLE[severity]
         with st.expander(f"{heading} ({len(items)})", icon=icon, expanded=severity in ("stop", "warning")):
             for f in items:
-                lines = [f"**{plain(f.get('title', ''))}** — {plain(render(f.get('message', ''), unit_system))}"]
-                lines += [plain(line) for line in tables.finding_details(f, unit_system)]
-                lines.append(plain(f.get("code", "")))
+                lines = [f"**{escaped(f.get('title', ''))}** — {escaped(render(f.get('message', ''), unit_system))}"]
+                lines += [escaped(line) for line in tables.finding_details(f, unit_system)]
+                lines.append(escaped(f.get("code", "")))
                 box("  \n".join(lines), icon=icon)
 
 
@@ -98,10 +98,10 @@ def plan_view(bundle: dict, unit_system: str) -> None:
     status_line(bundle, unit_system)
     findings_block(bundle, unit_system)
     st.markdown("#### Start-up and stops")
-    st.table(plain_table(tables.startup_hold_frame(bundle["plan"], unit_system)), hide_index=True)
+    st.table(escaped_table(tables.startup_hold_frame(bundle["plan"], unit_system)), hide_index=True)
     left, right = st.columns(2)
     left.markdown("#### Energy and cost")
-    left.table(plain_table(tables.energy_cost_frame(bundle["plan"], unit_system)), hide_index=True)
+    left.table(escaped_table(tables.energy_cost_frame(bundle["plan"], unit_system)), hide_index=True)
     start = bundle["plan"]["start"]
     right.markdown("#### Pump at the start")
     rows = [
@@ -115,7 +115,7 @@ def plan_view(bundle: dict, unit_system: str) -> None:
                                       f"{fmt(start.get('npsh_required_m'), 'head', unit_system)}"),
         ("Relief recirculation", fmt(start.get("relief_flow_m3_s"), "volume_flow", unit_system)),
     ]
-    right.table(plain_table(pd.DataFrame(rows, columns=["Item", "Value"])), hide_index=True)
+    right.table(escaped_table(pd.DataFrame(rows, columns=["Item", "Value"])), hide_index=True)
 
 
 def line_view(bundle: dict, unit_system: str) -> None:
@@ -141,7 +141,7 @@ def time_view(bundle: dict, unit_system: str) -> None:
         st.markdown("#### Push-cold start-up (the plan starts this way)")
     else:
         st.markdown("#### Push-cold start-up (the alternative to pre-warming)")
-    st.caption(plain(render(cold.get("message", ""), unit_system)))
+    st.caption(escaped(render(cold.get("message", ""), unit_system)))
     rows = bundle.get("push_cold_rows") or {}
     if rows.get("time_s"):
         data_table(tables.push_cold_frame(rows, unit_system))
@@ -169,7 +169,7 @@ def product_view(bundle: dict, unit_system: str) -> None:
         ("Thermal conductivity at 20 °C", fmt(curve["conductivity_at_20c"], "conductivity", unit_system)),
         ("Rheology", words(curve["rheology"])),
     ]
-    st.table(plain_table(pd.DataFrame(rows, columns=["Item", "Value"])), hide_index=True)
+    st.table(escaped_table(pd.DataFrame(rows, columns=["Item", "Value"])), hide_index=True)
     points = pd.DataFrame({
         with_unit("Temperature", "temperature", unit_system):
             [to_display(t, "temperature", unit_system) for t in curve["lab_temperature"]],
@@ -246,7 +246,7 @@ def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_s
         try:   # each value checked against the lever's field in the unit typed, none twice
             values_si = tuple(typed_values(scenario, lever, parse_range(text), unit_system, "Values"))
         except (ValueError, PlannerError) as exc:
-            st.error(plain(str(exc)))
+            st.error(escaped(str(exc)))
             return
         result = _run_comparison(scenario_json, lever, values_si, sensitivity)
         st.session_state["comparison"] = {"json": scenario_json, "result": result}
@@ -265,16 +265,16 @@ def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_s
 def comparison_result(result: dict, unit_system: str) -> None:
     """A finished comparison: the recommendation, the table, the charts and the sensitivity."""
     if "error" in result:
-        st.error(plain(result["error"]))
+        st.error(escaped(result["error"]))
         return
     kind = result["kind"]
     if result.get("recommended") is not None:
         # the reason starts with the recommended value ("45 °C: lowest total cost ...")
-        st.success(f"Recommended: {plain(render(result['reason'], unit_system))}")
+        st.success(f"Recommended: {escaped(render(result['reason'], unit_system))}")
     else:
-        st.error(plain(render(result["reason"], unit_system) or "no value can be recommended"))
+        st.error(escaped(render(result["reason"], unit_system) or "no value can be recommended"))
     if result.get("end_of_range"):
-        st.info(plain(render(result["end_of_range"], unit_system)))
+        st.info(escaped(render(result["end_of_range"], unit_system)))
     frame = tables.comparison_frame(result, kind, unit_system)
     errors = [r.get("error", "") for r in result["rows"]]
     if any(errors):

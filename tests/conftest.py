@@ -119,3 +119,10 @@ def make_people(store, names=("root", "ana", "ben", "sam", "sue")) -> dict:
         if name != "root":
             book.add(name, ROLES_OF[name], PASSWORDS[name], by=root)
     return {name: book.get(name) for name in names}
+
+
+def pytest_collection_modifyitems(config, items):
+    """Every PostgreSQL case is also ``slow``: it needs the throwaway server (the fast loop leaves it out)."""
+    for item in items:
+        if item.get_closest_marker("postgres") is not None:
+            item.add_marker(pytest.mark.slow)

@@ -87,6 +87,7 @@ def test_bad_account_fields_are_refused_with_the_field(book, name, role, passwor
         book.add(name, role, password, by=root)
 
 
+@pytest.mark.slow
 def test_failed_sign_ins_are_throttled(book, monkeypatch):
     monkeypatch.setattr(throttle, "LOCK_BASE_S", 1.0)
     root = book.add("root", "admin", "root-password-1")
@@ -113,6 +114,7 @@ def test_failed_sign_ins_are_throttled(book, monkeypatch):
     assert str(unknown.value) == accounts.WRONG
 
 
+@pytest.mark.slow
 def test_sessions_expire_end_on_sign_out_and_on_disabling(store):
     book = AccountBook(store, session_s=1.5, idle_s=3600)
     root = book.add("root", "admin", "root-password-1")

@@ -26,6 +26,8 @@ from planner.records.store import PlanStore
 from planner.transfer.plan import make_plan, with_changes
 from planner.scenario.schema import load_scenario
 
+pytestmark = pytest.mark.slow  # Chromium: left out of the fast loop (-m "not slow")
+
 CHROMIUM = Path("/usr/bin/chromium")
 ARTIFACTS = ROOT / "test-artifacts"
 IN_CI = os.environ.get("CI", "").strip().lower() in ("1", "true", "yes")

@@ -14,6 +14,8 @@ import pytest
 from conftest import DEMO_DIR, ROOT
 from test_browser import ARTIFACTS, _number, browser, metrics, page, server, server_db  # noqa: F401  (fixtures)
 
+pytestmark = pytest.mark.slow  # Chromium: left out of the fast loop (-m "not slow")
+
 BARGE = DEMO_DIR / "fuel_oil_barge_discharge.toml"
 DEMO_LOG = DEMO_DIR / "logs" / "barge_wren_2026-01-14.csv"
 

@@ -16,8 +16,8 @@ from planner.cli import main
 from planner.records.links import LinkError, URL_BUDGET_CHARS, link_url, parse_query, query_for
 from planner.scenario import budget
 from planner.scenario.budget import Budget, BudgetError, use_budget
-from planner.scenario.schema import (Scenario, ScenarioError, load_scenario, parse_scenario_text, scenario_from_dict,
-                                     scenario_to_dict)
+from planner.errors import ScenarioError
+from planner.scenario.schema import Scenario, load_scenario, parse_scenario_text, scenario_from_dict, scenario_to_dict
 from planner.scenario.units import UnitError, to_si
 
 SYRUP = next(p for p in DEMO_FILES if "syrup" in p.name)

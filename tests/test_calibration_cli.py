@@ -23,6 +23,7 @@ def run(*args):
                           timeout=300)
 
 
+@pytest.mark.slow
 def test_demo_log_fits_back_and_writes_the_calibration(tmp_path):
     out_path = tmp_path / "barge_calibrated.toml"
     out = run("calibrate", str(BARGE), str(DEMO_LOG), "--fit", ",".join(DEMO_TRUTH), "--json", "--write", str(out_path))
@@ -54,6 +55,7 @@ def test_demo_log_fits_back_and_writes_the_calibration(tmp_path):
     assert again.returncode == 2 and "exists" in again.stderr and "Traceback" not in again.stderr
 
 
+@pytest.mark.slow
 def test_text_output_lists_factors_residuals_and_unreadable_rows():
     out = run("calibrate", str(BARGE), str(DEMO_LOG), "--fit", "viscosity_factor")
     assert out.returncode == 0, out.stderr
@@ -68,12 +70,14 @@ def test_text_output_lists_factors_residuals_and_unreadable_rows():
     ((str(DEMO_DIR / "polyol_tank_transfer.toml"), str(DEMO_LOG), "--fit", "slip_factor"), "not positive-displacement"),
     ((str(BARGE), str(DEMO_LOG), "--columns", "no-map.toml"), "--columns: cannot open"),
 ])
+@pytest.mark.slow
 def test_errors_are_one_message(args, words):
     out = run("calibrate", *args)
     assert out.returncode == 2
     assert words in out.stderr and "Traceback" not in out.stderr
 
 
+@pytest.mark.slow
 def test_missing_column_names_it(tmp_path):
     log = tmp_path / "bad.csv"
     log.write_text("time [min],discharge_pressure [bar]\n" + "".join(f"{i},5\n" for i in range(8)))
@@ -92,6 +96,7 @@ def _long_log(path, rows: int) -> None:
     path.write_text("\n".join(out) + "\n", encoding="utf-8")
 
 
+@pytest.mark.slow
 def test_a_log_past_the_work_budget_is_refused_before_any_fitting(tmp_path):
     """Rows x most replays x steps a row (planner.scenario.budget.calibration_problems): 5,000 rows
     with three factors is past the default budget of 20,000,000 steps; the message names the log, says
@@ -113,6 +118,7 @@ def test_a_log_past_the_work_budget_is_refused_before_any_fitting(tmp_path):
     assert budget.calibration_problems(scenario, most + 1, 161, 3) != []
 
 
+@pytest.mark.slow
 def test_the_demo_fit_stays_inside_its_bound_on_replays():
     """The bound the budget counts (planner.calibration.fit.max_evaluations) against the replays a
     real fit makes: the demo log with all three factors takes 30 (measured), the bound is 161."""
@@ -124,6 +130,7 @@ def test_the_demo_fit_stays_inside_its_bound_on_replays():
     assert 10 <= result.evaluations <= max_evaluations(3)
 
 
+@pytest.mark.slow
 def test_text_output_speaks_the_chosen_unit_system():
     # issue 11: every output speaks the user's units; US text shows psi, °F differences and gpm only
     scenario = DEMO_DIR / "fuel_oil_barge_discharge.toml"

@@ -54,6 +54,7 @@ def test_clean_log_fits_back_three_factors_with_pd_slip():
     assert "flow" in result.residuals    # the slip shows as logged flow at logged speed
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize("seed", [1, 7])
 def test_noisy_log_interval_holds_the_truth(seed):
     # Gaussian noise 0.03 bar on pressures, 0.2 K on temperatures: the 95 % interval holds the truth

@@ -41,6 +41,7 @@ def test_evaluate_table_and_inlet_temperature_override():
     (("evaluate", str(DEMO_FILES[0]), "--flow", "-3 m3/h"), "out of range"),
     (("evaluate", str(DEMO_FILES[0]), "--inlet-temperature", "-500 degC"), "absolute zero"),
 ])
+@pytest.mark.slow
 def test_errors_exit_nonzero_without_traceback(args, words):
     out = run(*args)
     assert out.returncode == 2
@@ -48,12 +49,14 @@ def test_errors_exit_nonzero_without_traceback(args, words):
     assert "Traceback" not in out.stderr
 
 
+@pytest.mark.slow
 def test_schema_prints_json_schema():
     out = run("schema")
     assert out.returncode == 0
     assert json.loads(out.stdout)["title"] == "Scenario"
 
 
+@pytest.mark.slow
 def test_output_cut_short_by_the_reader_is_not_a_traceback():
     """``python -m planner plan ... | head -1``: a reader that goes away ends the command quietly.
     The read end is closed before the command has printed anything (importing and planning take
@@ -67,6 +70,7 @@ def test_output_cut_short_by_the_reader_is_not_a_traceback():
     assert "Traceback" not in err and "BrokenPipe" not in err
 
 
+@pytest.mark.slow
 def test_evaluate_in_us_units_gives_mass_flow_and_heat_in_us_units():
     # issue 11: the US text had no mass flow and showed heat in hp. 1 lb = 0.45359237 kg and
     # 1 BTU/h = 0.29307107 W (NIST SP 811, appendix B)
@@ -114,3 +118,52 @@ def test_compare_lever_refusals_say_what_is_allowed(capsys, tmp_path):
     path.write_text(json.dumps(data), encoding="utf-8")
     err = _refusal(capsys, "compare", str(path), "--setpoints", "40,50")
     assert "tracing.kind is 'none'" in err and "compare pump speeds or flow limits" in err
+
+
+def _loaded_after(code: str) -> set[str]:
+    probe = f"import sys\n{code}\nprint(' '.join(sorted(sys.modules)))"
+    out = subprocess.run([sys.executable, "-c", probe], cwd=ROOT, capture_output=True, text=True, timeout=60)
+    assert out.returncode == 0, out.stderr
+    return {name.split(".")[0] for name in out.stdout.split()}
+
+
+def test_help_loads_none_of_the_heavy_libraries():
+    """``python -m planner --help`` builds the parser only: the unit registry, the scenario's models, the
+    database layer and the solvers load when a command runs (issue 24: start-up)."""
+    loaded = _loaded_after("from planner.cli import build_parser\nbuild_parser().format_help()")
+    assert not loaded & {"numpy", "scipy", "pint", "pydantic", "sqlalchemy", "argon2", "fluids"}
+
+
+def test_a_plan_loads_no_database_layer():
+    loaded = _loaded_after("from planner.cli import main\nimport contextlib, io\n"
+                           "with contextlib.redirect_stdout(io.StringIO()):\n"
+                           "    main(['plan', 'demo_scenarios/syrup_railcar_unload.toml', '--json'])")
+    assert "numpy" in loaded and "pint" in loaded          # the probe did plan
+    assert "sqlalchemy" not in loaded and "argon2" not in loaded
+
+
+def test_an_inlet_temperature_that_cannot_flow_names_the_option(tmp_path, capsys):
+    # found by tests/test_fuzz_units.py: "1e-320 K" passes the field's range (above 0 K) and was refused by
+    # the model without naming the option
+    from conftest import base_scenario
+    from planner.cli import main
+
+    path = tmp_path / "line.json"
+    path.write_text(json.dumps(base_scenario()), encoding="utf-8")
+    assert main(["evaluate", str(path), "--inlet-temperature", "1e-320 K", "--json"]) == 2
+    err = capsys.readouterr().err
+    assert err.startswith("error: --inlet-temperature: ") and "no-flow temperature -40.0 °C" in err
+
+
+def test_evaluate_loads_nothing_of_the_transfer():
+    """``evaluate`` marches one line: no pump, vessels or timeline, so neither the transfer's models nor its
+    root finder (``scipy.optimize``) are imported (``transfer.operating``, the outcomes' words, is)."""
+    probe = ("import sys, contextlib, io\nfrom planner.cli import main\n"
+             "with contextlib.redirect_stdout(io.StringIO()):\n"
+             "    main(['evaluate', 'demo_scenarios/syrup_railcar_unload.toml', '--json'])\n"
+             "print(' '.join(sorted(sys.modules)))")
+    out = subprocess.run([sys.executable, "-c", probe], cwd=ROOT, capture_output=True, text=True, timeout=60)
+    loaded = set(out.stdout.split())
+    assert "planner.line.march" in loaded                  # the probe did evaluate
+    assert "scipy.optimize" not in loaded
+    assert {m for m in loaded if m.startswith("planner.transfer.")} <= {"planner.transfer.operating"}

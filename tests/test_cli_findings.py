@@ -38,6 +38,7 @@ def hot_syrup(tmp_path_factory):
     return path
 
 
+@pytest.mark.slow
 def test_a_stop_level_plan_starts_with_stop_and_why(hot_syrup):
     out = run("plan", str(hot_syrup))
     assert out.returncode == 0, out.stderr                 # default: a computed plan exits 0
@@ -52,6 +53,7 @@ def test_a_stop_level_plan_starts_with_stop_and_why(hot_syrup):
     assert "cost: not possible:" in text
 
 
+@pytest.mark.slow
 def test_plan_json_carries_the_findings_and_the_worst_severity(hot_syrup):
     out = run("plan", str(hot_syrup), "--json")
     assert out.returncode == 0, out.stderr
@@ -70,6 +72,7 @@ def test_plan_json_carries_the_findings_and_the_worst_severity(hot_syrup):
     assert figures["total_cost"]["value"] is None
 
 
+@pytest.mark.slow
 def test_fail_on_exits_3_when_such_a_finding_is_present(hot_syrup):
     assert run("plan", str(hot_syrup), "--fail-on", "stop").returncode == 3
     assert run("plan", str(hot_syrup), "--json", "--fail-on", "warning").returncode == 3
@@ -80,6 +83,7 @@ def test_fail_on_exits_3_when_such_a_finding_is_present(hot_syrup):
     assert run("plan", str(SYRUP), "--fail-on", "warning").returncode == 3
 
 
+@pytest.mark.slow
 def test_evaluate_checks_what_applies_to_one_line():
     # 500 degC at the inlet of a product whose maximum is 70 degC (scenario input)
     out = run("evaluate", str(SYRUP), "--inlet-temperature", "500 degC", "--json", "--fail-on", "warning")
@@ -94,6 +98,7 @@ def test_evaluate_checks_what_applies_to_one_line():
     assert text.splitlines()[0].startswith("STOP") and "PRODUCT-TOO-HOT" in text
 
 
+@pytest.mark.slow
 def test_evaluate_as_given_names_its_findings():
     out = run("evaluate", str(SYRUP), "--flow", "15 m3/h", "--json")
     doc = json.loads(out.stdout)
@@ -118,6 +123,7 @@ SI_WORDS = re.compile(r"°C|\bbar\b|m³|\bkW\b|\bmm\b|\d m\b|\d K\b|\bkg\b|mPa·
 US_WORDS = re.compile(r"°F|\bpsi\b|\bgpm\b|\bbbl\b|\d ft\b|\bhp\b|\blb\b|\bcP\b|BTU|ft/s")
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize("path", DEMO_FILES, ids=[p.stem for p in DEMO_FILES])
 def test_text_output_speaks_the_chosen_units(path):
     for command in (["plan", str(path)], ["evaluate", str(path)]):

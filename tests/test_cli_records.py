@@ -53,6 +53,7 @@ def _setup_people(capsys, monkeypatch, db):
         assert code == 0 and f"added account {name!r} ({role}) by root" in out, err
 
 
+@pytest.mark.slow
 def test_the_command_line_flow(db_url, capsys, monkeypatch):
     db = db_url
     code, out, err = run(capsys, monkeypatch, "users", "add", "ana", "--role", "planner", "--password-stdin",
@@ -193,6 +194,7 @@ def _tamper_and_verify(capsys, monkeypatch, store, pid: int) -> None:
     assert code == 1 and len(json.loads(out)["problems"]) == 4
 
 
+@pytest.mark.slow
 def test_the_real_entry_point_reads_the_environment_and_stdin(tmp_path):
     env = {**os.environ, "PLANNER_DB_URL": f"sqlite:///{tmp_path / 'cli.sqlite'}", "PYTHONPATH": str(ROOT)}
     env.pop("PLANNER_DB_PATH", None)

@@ -106,6 +106,7 @@ def test_sensitivity_reruns_with_ambient_and_viscosity_moved():
     assert all(a > b for a, b in zip(thick, thin))
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize("path", DEMO_FILES, ids=[p.stem for p in DEMO_FILES])
 def test_compare_cli_on_every_demo(path):
     scenario = load_scenario(path)

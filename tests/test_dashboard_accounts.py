@@ -159,6 +159,7 @@ def test_a_search_with_a_nul_character_is_refused_not_matched(db):
     assert not [f for f in at.dataframe if "Plan" in f.value.columns and "State" in f.value.columns]
 
 
+@pytest.mark.slow
 def test_the_admin_panel_enables_changes_roles_and_sets_passwords(db):
     store, people = _people(db)
     book = AccountBook(store)

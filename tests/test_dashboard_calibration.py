@@ -35,6 +35,7 @@ def _calibration_tab() -> AppTest:
     return at.run()
 
 
+@pytest.mark.slow
 def test_demo_log_fits_applies_and_saves(db):
     at = _calibration_tab()
     assert not at.exception, at.exception

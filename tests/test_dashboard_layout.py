@@ -150,9 +150,9 @@ PAYLOADS = ["![p](http://198.51.100.7/p.png)", "<img src=x onerror=alert(1)>", "
 def test_plain_text_escapes_every_markdown_opener(text):
     """CommonMark 0.31 section 2.4: a backslash before ASCII punctuation stands for the character itself;
     un-escaping gives the text back, and no unescaped opener is left."""
-    from dashboard.plaintext import JOINER, plain
+    from dashboard.plaintext import JOINER, escaped
 
-    shown = plain(text)
+    shown = escaped(text)
     back = re.sub(r"\\(.)", r"\1", shown.replace(JOINER, "")).replace("  \n", "\n")
     assert back == "\n".join(line.strip() for line in text.split("\n"))
     bare = re.sub(r"\\.", "", shown)

@@ -57,6 +57,7 @@ def _heavy_link() -> dict:
     return query_for("plan", scenario=scenario_from_dict(data))
 
 
+@pytest.mark.slow
 def test_a_plan_past_the_time_limit_is_stopped_with_a_message(db, monkeypatch):
     monkeypatch.setenv("PLANNER_PLAN_TIME_LIMIT_S", "0.1")
     at = _app(_heavy_link())
@@ -129,6 +130,7 @@ def _status(port: int, target: str) -> int | str:
         connection.close()
 
 
+@pytest.mark.slow
 def test_the_web_server_passes_long_links_on_to_the_planner(tmp_path):
     """Up to well past what the planner reads, the server serves the page (so the planner's message is
     shown, test above): a 100,000-character link gets HTTP 200, as the README says (it once promised a 400

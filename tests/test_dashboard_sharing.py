@@ -186,6 +186,7 @@ def _sign_in(at: AppTest, name: str, password: str | None = None) -> AppTest:
     return at
 
 
+@pytest.mark.slow
 def test_save_submit_approve_lock_and_new_revision(db):
     path = DEMO_FILES[0]
     scenario = load_scenario(path)
@@ -306,6 +307,7 @@ def test_save_submit_approve_lock_and_new_revision(db):
         scenario.site.wind_speed, rel=1e-12)
 
 
+@pytest.mark.slow
 def test_a_saved_plan_link_opens_that_revision(db):
     path = DEMO_FILES[-1]
     scenario = load_scenario(path)
@@ -379,6 +381,7 @@ def test_the_plans_file_can_come_from_the_secrets(db, tmp_path):
     assert not db.exists()
 
 
+@pytest.mark.slow
 def test_a_scenario_too_long_for_a_link_offers_to_share_the_saved_id(db):
     data = scenario_to_dict(load_scenario(DEMO_FILES[1]))
     template = data["route"]["segments"][-1]
@@ -443,6 +446,7 @@ def test_loading_another_scenario_closes_the_open_revision(db):
         (load_scenario(path).name, 1) for path in DEMO_FILES[:2])
 
 
+@pytest.mark.slow
 def test_unsaved_changes_survive_an_approval_made_in_another_session(db):
     store, people = _people(db)
     at = _app()

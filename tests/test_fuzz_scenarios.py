@@ -32,6 +32,7 @@ import time
 import zlib
 from collections import Counter
 
+import pytest
 from hypothesis import HealthCheck, Phase, given, settings
 from hypothesis import strategies as st
 
@@ -39,6 +40,8 @@ from conftest import DEMO_FILES, base_scenario
 from planner.cli import main
 from planner.scenario.budget import Budget, use_budget
 from planner.scenario.schema import load_scenario, scenario_to_dict
+
+pytestmark = pytest.mark.slow  # fuzz: left out of the fast loop (-m "not slow")
 
 EXAMPLES = int(os.environ.get("PLANNER_FUZZ_EXAMPLES", "1000"))
 CASE_SECONDS = 10.0          # process (CPU) time of one case

@@ -19,10 +19,14 @@ import os
 import random
 from collections import Counter
 
+import pytest
+
 from conftest import base_scenario
 from planner.cli import main
 from planner.errors import QUOTE_CHARS
 from planner.scenario.units import SI_UNITS, UnitError, to_si
+
+pytestmark = pytest.mark.slow  # fuzz: left out of the fast loop (-m "not slow")
 
 COUNT = int(os.environ.get("PLANNER_UNIT_FUZZ", "5000"))
 CLI_SHARE = 10            # every 10th string also goes through the command line

@@ -119,6 +119,7 @@ def _fuzz_mutated_payloads(payload, edits, cut):
     _check(mutated)
 
 
+@pytest.mark.slow
 def test_fuzzed_payloads_are_all_accepted_or_refused_with_a_message():
     """Random and mutated payloads: each one decodes to a scenario or is refused with a LinkError that has
     a message (``_check``); anything else fails the search. The tally shows both searches really ran."""

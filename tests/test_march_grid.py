@@ -21,6 +21,8 @@ from planner.line.march import DEFAULT_STEP_M, march
 from planner.line.model import line_from_scenario
 from planner.scenario.schema import scenario_from_dict
 
+pytestmark = pytest.mark.slow  # grid: left out of the fast loop (-m "not slow")
+
 SCENARIOS = 240
 TOL_T_K = 0.05
 TOL_DP_REL = 2e-3

@@ -19,7 +19,7 @@ from planner.records.store import PlanStore
 from planner.scenario.schema import load_scenario
 from test_browser import ARTIFACTS, CHROMIUM, LAUNCH_ARGS, _fill, _free_port, _require_chromium, _sign_in, _wait_idle
 
-pytestmark = pytest.mark.postgres
+pytestmark = [pytest.mark.postgres, pytest.mark.slow]  # two servers, PostgreSQL, Chromium: left out of the fast loop (-m "not slow")
 
 
 @pytest.fixture(scope="module")

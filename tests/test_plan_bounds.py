@@ -247,6 +247,7 @@ def _check_generated_plan(plan, found) -> None:
     heating_kw=st.sampled_from([0.0, 0.0, 20.0, 200.0]), medium=st.sampled_from(["steam", "electric"]),
     mode=st.sampled_from(["prewarm", "push_cold"]), buried=st.booleans(),
 )
+@pytest.mark.slow
 def test_generated_plans_stay_within_their_bounds(**drawn):
     """1,000 generated scenarios (one or two short segments, ten timeline increments; about a minute)."""
     rise = drawn["rise"]

@@ -24,6 +24,8 @@ from planner.line.march import DEFAULT_STEP_M
 from planner.scenario.schema import load_scenario, scenario_from_dict, scenario_to_dict
 from planner.transfer.plan import make_plan
 
+pytestmark = pytest.mark.slow  # grid: left out of the fast loop (-m "not slow")
+
 TOL_T_K = 0.05
 TOL_REL = 2e-3
 

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import math
 
+import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
@@ -13,6 +14,8 @@ from planner.transfer.plan import make_plan
 from planner.reports.plan_json import plan_json
 from planner.scenario.schema import scenario_from_dict
 from test_findings import bench
+
+pytestmark = pytest.mark.slow  # property: left out of the fast loop (-m "not slow")
 
 
 def _finite_everywhere(value, path="plan"):

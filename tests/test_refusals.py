@@ -179,6 +179,7 @@ def test_a_flow_of_1e_320_is_an_unread_row_naming_the_limit():
     assert log.values["flow"].min() >= 1e-6
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize("target", ["/dev/full", "{tmp}/no such folder/out.toml"])
 def test_write_to_a_full_disk_or_a_missing_folder_is_a_named_refusal(tmp_path, target):
     # before: OSError, "internal error", exit 1

@@ -361,6 +361,7 @@ def _process_saver(url: str, account_id: int, worker: int, saves: int) -> None:
         store.save("shared plan", scenario, me, f"process {worker} save {i}")
 
 
+@pytest.mark.slow
 def test_threads_and_processes_saving_at_once_lose_nothing(store, people):
     # fewer on PostgreSQL, where every writer is a server connection of its own
     threads_n, thread_saves, processes_n, process_saves = (

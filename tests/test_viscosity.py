@@ -12,15 +12,8 @@ import pytest
 from hypothesis import assume, given, settings
 from hypothesis import strategies as st
 
-from planner.correlations.viscosity import (
-    AndradeLaw,
-    ViscosityFit,
-    VogelFulcherTammannLaw,
-    WaltherLaw,
-    fit_viscosity_law,
-    walther_cst_to_z,
-    walther_z_to_cst,
-)
+from planner.correlations.viscosity import AndradeLaw, VogelFulcherTammannLaw, WaltherLaw, walther_cst_to_z, walther_z_to_cst
+from planner.correlations.viscosity_fit import ViscosityFit, fit_viscosity_law
 
 C0 = 273.15
 # Water, mu [Pa s] at 101.325 kPa  # REFERENCES.md [lib: iapws 1.5.5, IAPWS 2008 viscosity]

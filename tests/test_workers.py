@@ -16,6 +16,8 @@ from conftest import DEMO_FILES
 from dashboard.workers import WorkerPool
 from planner.scenario.schema import load_scenario, scenario_from_dict, scenario_to_dict, scenario_to_json
 
+pytestmark = pytest.mark.slow  # worker processes: left out of the fast loop (-m "not slow")
+
 SYRUP = next(p for p in DEMO_FILES if "syrup" in p.name)
 LIGHT = scenario_to_json(load_scenario(SYRUP))
 

@@ -31,6 +31,7 @@ from planner.calibration.replay import (FACTOR_NAMES, Replay, Replayer, heater_h
                                         pd_slip_applies, with_factors)
 from planner.errors import ComputationError, ScenarioError
 from planner.scenario.budget import check_calibration
+from planner.scenario.units import si_unit_text
 from planner.scenario.schema import Calibration, CalibrationSource, Scenario, calibration_of
 from planner.scenario.wording import Q, Sentence
 
@@ -40,8 +41,9 @@ DEFAULT_FIT = ("viscosity_factor", "heat_loss_factor")
 # smallest noise credited to a logged quantity [SI; flow: fraction of the mean flow]
 NOISE_FLOOR = {"discharge_pressure": 200.0, "suction_pressure": 200.0, "pump_inlet_temperature": 0.02,
                "outlet_temperature": 0.02, "flow": 0.001}
-UNITS = {"discharge_pressure": "Pa", "suction_pressure": "Pa", "pump_inlet_temperature": "K",
-         "outlet_temperature": "K", "flow": "m3/s"}
+UNITS = {"discharge_pressure": si_unit_text("pressure"), "suction_pressure": si_unit_text("pressure"),
+         "pump_inlet_temperature": si_unit_text("temperature"), "outlet_temperature": si_unit_text("temperature"),
+         "flow": si_unit_text("volume_flow")}
 # the kind of each residual (a difference: pressures and flows as such, temperatures as differences)
 # and the decimals it is shown with
 RESIDUAL_KINDS = {"discharge_pressure": ("pressure", 4), "suction_pressure": ("pressure", 4),

@@ -55,7 +55,7 @@ def _in_units(quantity: str, value: float, system: str = "SI") -> str:
 
 def log_lines(log: TransferLog) -> list[str]:
     lines = [f"log {log.name} (SHA-256 {log.sha256[:16]}…): {log.rows} of {log.rows_total} rows read, "
-             f"{log.values['time'][-1] / 3600:.2f} h" + (f" from {log.start}" if log.start else "")]
+             + format_quantity(log.values['time'][-1], 'time') + (f" from {log.start}" if log.start else "")]
     if log.problems:
         lines.append(f"  {len(log.problems)} rows could not be read:")
         for group in log.problem_summary():

@@ -32,7 +32,7 @@ import math
 
 import numpy as np
 
-from planner.checks.finding import Finding
+from planner.checks.finding import DISCHARGE, SUCTION, Finding
 from planner.correlations.constants import GRAVITY
 from planner.correlations.steam import saturation_temperature_gauge
 from planner.scenario.schema import TEMPERATURE_CEILING_K
@@ -78,7 +78,7 @@ def check_pump_method(plan: Plan) -> list[Finding]:
                      "is not given", t=Q(push.start_temperature_k, "temperature", 0), b=_b(push.hi_b),
                      limit=_b(HI_B_MAX)),
             "Pre-warm the line further (schedule.start_mode = \"prewarm\"), or use the maker's viscous "
-            "performance data or a PD pump.", "discharge", value=push.hi_b, limit=HI_B_MAX,
+            "performance data or a PD pump.", DISCHARGE, value=push.hi_b, limit=HI_B_MAX,
             quantity="dimensionless"))
     return out
 
@@ -118,7 +118,7 @@ def _temperatures(plan: Plan) -> list[tuple[str, np.ndarray]]:
                       ("pump_inlet_temperature_k", "pump inlet temperature"),
                       ("outlet_temperature_k", "outlet temperature")):
         found.append((name, arrays[key]))
-    for line, profile in (("discharge", plan.start_profile), ("suction", plan.suction_profile)):
+    for line, profile in ((DISCHARGE, plan.start_profile), (SUCTION, plan.suction_profile)):
         if profile is None or not profile.nodes:
             continue
         found.append((f"{line} line's product temperature", profile.nodes["temperature"]))

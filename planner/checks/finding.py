@@ -1,23 +1,34 @@
 """One finding: what every check returns (code, severity, where, message, value and limit, what to do).
 
-Kept apart from ``findings`` so that the checks in sibling modules (``ranges``, ``bounds``) and the
-collection of all checks (``findings.assess``) share one definition without importing each other.
+Kept apart from ``findings`` so that the checks in sibling modules (``line_checks``, ``plan_checks``,
+``bounds``) and the runners (``one_line.assess_line``, ``findings.assess``) share one definition without
+importing each other; with it the severity order, the lines' names and the order every output lists
+findings in (``ordered``: most severe first, the standing caution last).
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass
 
-from planner.scenario.units import SI_UNITS
+from planner.checks.caution import STANDING_CAUTION
+from planner.scenario.units import si_unit_text
 from planner.scenario.wording import render
 
+# The severity order, least severe first: the one definition (tests/test_one_definition.py)
 SEVERITIES = ("info", "caution", "warning", "stop")
 SEVERITY_RANK = {name: i for i, name in enumerate(SEVERITIES)}
+MOST_SEVERE_FIRST = tuple(reversed(SEVERITIES))     # as the outputs list them
 
-# SI unit of each quantity kind a finding may carry (for the JSON; "" when dimensionless)
-_SI_LABELS = {"temperature": "K", "pressure": "Pa", "length": "m", "head": "m", "power": "W", "time": "s",
-              "speed": "m/s", "linear_power": "W/m", "heat_transfer_coefficient": "W/(m2 K)",
-              "volume_flow": "m3/s", "volume": "m3", "energy": "J", "mass": "kg", "dimensionless": ""}
+
+# The lines a finding names (``Finding.line``): one name each, in ``evaluate`` and in ``plan`` alike
+# (``evaluate`` marches the scenario's route: the discharge line)
+SUCTION, DISCHARGE = "suction", "discharge"
+LINES = (SUCTION, DISCHARGE)
+
+
+def at_least(severity: str, floor: str) -> bool:
+    """Whether ``severity`` is ``floor`` or worse (``--fail-on``, the comparison's notes)."""
+    return SEVERITY_RANK[severity] >= SEVERITY_RANK[floor]
 
 
 @dataclass
@@ -40,7 +51,7 @@ class Finding:
     @property
     def unit(self) -> str:
         """The SI unit of ``value`` and ``limit``."""
-        return _SI_LABELS.get(self.quantity, SI_UNITS.get(self.quantity, ""))
+        return si_unit_text(self.quantity)
 
     def where(self) -> dict:
         return {"line": self.line, "segment": self.segment, "at_m": self.at_m}
@@ -52,3 +63,30 @@ class Finding:
                 "message": self.message if system is None else render(self.message, system),
                 "where": self.where(), "value": self.value, "limit": self.limit, "quantity": self.quantity,
                 "unit": self.unit, "action": self.action}
+
+
+# -- findings in severity order ------------------------------------------------------------------------
+
+def standing_caution() -> Finding:
+    return Finding("PLANNING-ESTIMATE", "info", "Planning estimate", STANDING_CAUTION,
+                   "Follow site procedures, hazardous-area rules and pressure ratings; ask a licensed engineer.")
+
+
+def ordered(found: list[Finding]) -> list[Finding]:
+    """Findings most severe first, the standing caution last (every output lists them so)."""
+    found = sorted(found, key=lambda f: -SEVERITY_RANK[f.severity])
+    return found + [standing_caution()]
+
+
+def count_by_severity(findings: list) -> dict[str, int]:
+    """Findings (objects or their dicts) counted by severity."""
+    counts = {name: 0 for name in SEVERITIES}
+    for f in findings:
+        counts[f["severity"] if isinstance(f, dict) else f.severity] += 1
+    return counts
+
+
+def worst_severity(findings: list) -> str:
+    """The most severe level among the findings (objects or dicts); "info" when there are none."""
+    levels = [f["severity"] if isinstance(f, dict) else f.severity for f in findings]
+    return max(levels, key=SEVERITY_RANK.__getitem__, default="info")

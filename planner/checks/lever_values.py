@@ -16,21 +16,25 @@ from typing import NamedTuple
 from pydantic import ValidationError
 
 from planner.errors import ScenarioError, quoted
-from planner.scenario.units import UNIT_SYSTEMS
+from planner.scenario.units import UNIT_SYSTEMS, si_unit_text
 
 class Lever(NamedTuple):
     keyword: str       # plan.with_changes keyword
     section: str       # the scenario section of its field
     field: str
     kind: str          # quantity kind of its values
-    si_unit: str
+
+    @property
+    def si_unit(self) -> str:
+        """The SI unit of its values, as the JSON writes it (scenario.units.si_unit_text)."""
+        return si_unit_text(self.kind)
 
 
 LEVERS = {
-    "setpoint": Lever("setpoint", "tracing", "setpoint", "temperature", "K"),
-    "steam_pressure": Lever("steam_pressure", "tracing", "steam_pressure", "pressure", "Pa"),
-    "pump_speed": Lever("pump_speed", "pump", "speed", "rotational_speed", "rev/s"),
-    "flow_limit": Lever("flow_limit", "pump", "flow_setpoint", "volume_flow", "m3/s"),
+    "setpoint": Lever("setpoint", "tracing", "setpoint", "temperature"),
+    "steam_pressure": Lever("steam_pressure", "tracing", "steam_pressure", "pressure"),
+    "pump_speed": Lever("pump_speed", "pump", "speed", "rotational_speed"),
+    "flow_limit": Lever("flow_limit", "pump", "flow_setpoint", "volume_flow"),
 }
 SAME_RELATIVE = 1e-9     # values this close are one value (the dashboard's cache keys them to 9 digits)
 
@@ -49,7 +53,7 @@ class ValuesError(ScenarioError):
 def typed_values(scenario, lever: str, numbers: list[float], system: str, option: str) -> list[float]:
     """SI values of ``numbers`` as typed in ``system``'s display unit of the lever, each checked against
     the lever's field with the limit in that unit; ValuesError naming ``option`` otherwise."""
-    _, section, name, kind, _ = LEVERS[lever]
+    _, section, name, kind = LEVERS[lever]
     unit = UNIT_SYSTEMS[system][kind]
     model = getattr(scenario, section)
     values, problems = [], []
@@ -83,7 +87,7 @@ def check_values(scenario, lever: str, values: list[float], field: str = "values
     from planner.scenario.wording import format_quantity
     from planner.transfer.plan import with_changes
 
-    keyword, _, _, kind, _ = LEVERS[lever]
+    keyword, _, _, kind = LEVERS[lever]
     problems = []
     for i, value in enumerate(values):
         if not isinstance(value, (int, float)) or isinstance(value, bool) or not math.isfinite(value):

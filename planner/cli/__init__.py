@@ -12,7 +12,6 @@ import re
 import sys
 
 from planner.errors import PlannerError
-from planner.scenario.units import UnitError
 
 from planner.cli import line_commands
 from planner.cli import calibrate_commands
@@ -57,7 +56,7 @@ def main(argv: list[str] | None = None) -> int:
     system = {"us": "US"}.get(getattr(args, "units", "si"), "SI")
     try:
         return args.func(args)
-    except (PlannerError, UnitError, ValueError) as exc:
+    except (PlannerError, ValueError) as exc:     # a unit error (scenario.units.UnitError) is a ValueError
         print(f"error: {_in_units(exc, system)}", file=sys.stderr)
         return 2
     except BrokenPipeError:

@@ -21,11 +21,11 @@ LEVER_OPTIONS = [("setpoints", "setpoint"), ("steam_pressures", "steam_pressure"
 
 
 def _exit_code(findings: list, fail_on: str | None) -> int:
-    from planner.checks.findings import SEVERITY_RANK
+    from planner.checks.finding import at_least
 
     if fail_on is None:
         return 0
-    return FAIL_EXIT if any(SEVERITY_RANK[f.severity] >= SEVERITY_RANK[fail_on] for f in findings) else 0
+    return FAIL_EXIT if any(at_least(f.severity, fail_on) for f in findings) else 0
 
 
 def _option_value(scenario, text: str | None, option: str, section: str, name: str):
@@ -38,8 +38,22 @@ def _option_value(scenario, text: str | None, option: str, section: str, name: s
     return option_quantity(scenario, text, option, section, name)
 
 
+def _flows_at(scenario, t_in: float | None) -> None:
+    """``--inlet-temperature`` at or below the product's no-flow temperature: refused naming the option (the
+    model refuses it too, without knowing which option gave it)."""
+    from planner.errors import ComputationError
+    from planner.scenario.wording import Q, Sentence
+
+    no_flow = scenario.product.no_flow_temperature
+    if t_in is not None and t_in <= no_flow:
+        raise ComputationError(Sentence("--inlet-temperature: {t} is at or below the product's no-flow temperature "
+                                        "{limit}: it will not flow", t=Q(t_in, "temperature"),
+                                        limit=Q(no_flow, "temperature")))
+
+
 def _evaluate(args) -> int:
-    from planner.checks.findings import assess_line
+    from planner.checks.finding import DISCHARGE
+    from planner.checks.one_line import assess_line
     from planner.line.model import evaluate, line_from_scenario
     from planner.reports.text import march_table, march_json
     from planner.scenario.schema import load_scenario
@@ -48,9 +62,10 @@ def _evaluate(args) -> int:
     scenario = load_scenario(args.scenario)
     flow = _option_value(scenario, args.flow, "--flow", "operation", "flow")
     t_in = _option_value(scenario, args.inlet_temperature, "--inlet-temperature", "operation", "inlet_temperature")
+    _flows_at(scenario, t_in)
     line = line_from_scenario(scenario)
     result = evaluate(scenario, flow=flow, inlet_temperature=t_in, step=args.step, line=line)
-    findings = assess_line(scenario, line, result, name="route")
+    findings = assess_line(scenario, line, result, name=DISCHARGE)
     if args.json:
         print(json.dumps(march_json(scenario, result, profiles=args.profiles, line_segments=line.segments,
                                     findings=findings), indent=2, ensure_ascii=False))
@@ -97,7 +112,7 @@ def _lever_values(args, scenario, system: str):
 
 
 def _compare(args) -> int:
-    from planner.checks.findings import SEVERITY_RANK
+    from planner.checks.finding import at_least
     from planner.scenario.schema import load_scenario
     from planner.sweeps.compare import compare, comparison_json, comparison_table
     from planner.sweeps.executors import executor_for
@@ -124,7 +139,7 @@ def _compare(args) -> int:
         print(comparison_table(result, system))
     if args.fail_on is None:
         return 0
-    hit = any(SEVERITY_RANK[f["severity"]] >= SEVERITY_RANK[args.fail_on] for r in result.rows for f in r.get("findings", []))
+    hit = any(at_least(f["severity"], args.fail_on) for r in result.rows for f in r.get("findings", []))
     return FAIL_EXIT if hit else 0
 
 

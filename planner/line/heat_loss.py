@@ -17,7 +17,7 @@ from __future__ import annotations
 
 import math
 
-from planner.correlations.heat_transfer import h_outer_cylinder
+from planner.correlations.outer_surface import h_outer_cylinder
 from planner.line.route import LineSegment
 
 PI = math.pi
@@ -67,7 +67,7 @@ def insulation_resistance(seg: LineSegment, t_wall: float, t_jacket: float) -> f
 
 def surface_resistance(seg: LineSegment, t_jacket: float) -> float:
     """Jacket surface to surroundings [K m/W]: 1 / (pi D (h_conv + h_rad)) in air
-    (``correlations.heat_transfer.h_outer_cylinder``), the soil's shape-factor resistance when buried.
+    (``correlations.outer_surface.h_outer_cylinder``), the soil's shape-factor resistance when buried.
 
     Examples
     --------
@@ -75,7 +75,7 @@ def surface_resistance(seg: LineSegment, t_jacket: float) -> float:
     of NPS 2 Sch 40 (ID 52.48 mm, OD 60.3 mm [1]) under 50 mm of insulation of 0.04 W/(m K), in still
     air at 20 degC; jacket (OD 160.3 mm, emissivity 0.15) at 30 degC:
     the same recipe on reference air properties (iapws 1.5.5 humidAir.Air [2]) with ht
-    1.2.0's Churchill-Chu [3] and the radiation law (tests/test_heat_transfer.py ``_h_conv_reference``) gives 0.4488 K m/W:
+    1.2.0's Churchill-Chu [3] and the radiation law (tests/test_outer_surface.py ``_h_conv_reference``) gives 0.4488 K m/W:
 
     >>> from planner.scenario.schema import scenario_from_dict
     >>> scenario = scenario_from_dict({"schema_version": 1, "name": "example",

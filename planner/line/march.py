@@ -27,6 +27,8 @@ route.
 
 from __future__ import annotations
 
+import dataclasses
+
 from planner.errors import ComputationError
 from planner.line.bulk_step import step_across_states
 from planner.line.coefficients import Coefficients, SegmentConstants, evaluate
@@ -40,7 +42,7 @@ from planner.scenario.budget import march_step_count, march_step_limit, past_met
 from planner.scenario.schema import TEMPERATURE_CEILING_K
 from planner.scenario.wording import Q, Sentence
 
-__all__ = ["DEFAULT_STEP_M", "Line", "MarchResult", "MarchSummary", "march"]
+__all__ = ["DEFAULT_STEP_M", "Line", "MarchResult", "MarchSummary", "march", "march_plugged"]
 
 
 class Line:
@@ -259,3 +261,24 @@ def _extrapolated(last: Coefficients, before: Coefficients, ahead: float) -> tup
         factor = (viscous / before.viscous_heating) ** ahead
         viscous *= 2.0 if factor > 2.0 else (0.5 if factor < 0.5 else factor)
     return g, viscous
+
+
+def march_plugged(head: Line, tail: Line, mass_flow: float, t_warm: float, t_cold: float,
+                  step: float = DEFAULT_STEP_M) -> MarchResult:
+    """A line holding a cold plug: the warm ``head`` (product from the pump at ``t_warm`` [K]) then the
+    cold ``tail`` (line contents at ``t_cold`` [K]), each marched at ``mass_flow`` [kg/s]; the summary
+    is the tail's with the two lines' drops, powers and losses added (no profiles kept)."""
+    density = tail.product.density
+    cold = march(tail, mass_flow / density(t_cold), t_cold, 0.0, step=step, record=False)
+    if not head.segments:
+        return cold
+    warm = march(head, mass_flow / density(t_warm), t_warm, 0.0, step=step, record=False)
+    h, t = warm.summary, cold.summary
+    combined = dataclasses.replace(
+        t, inlet_temperature_k=h.inlet_temperature_k, pressure_drop_pa=h.pressure_drop_pa + t.pressure_drop_pa,
+        friction_drop_pa=h.friction_drop_pa + t.friction_drop_pa, fittings_drop_pa=h.fittings_drop_pa + t.fittings_drop_pa,
+        static_drop_pa=h.static_drop_pa + t.static_drop_pa, outlet_pressure_pa=-(h.pressure_drop_pa + t.pressure_drop_pa),
+        trace_power_w=h.trace_power_w + t.trace_power_w, heat_loss_w=h.heat_loss_w + t.heat_loss_w,
+        status="ok" if h.status == "ok" and t.status == "ok" else "product_sets",
+        sets_at_m=h.sets_at_m if h.status != "ok" else (None if t.sets_at_m is None else t.sets_at_m + head.length))
+    return MarchResult(combined, {}, {})

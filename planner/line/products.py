@@ -12,7 +12,8 @@ from dataclasses import dataclass
 
 from planner.scenario.schema import ProductSpec, Scenario, calibration_of
 from planner.correlations.steam import saturation_pressure
-from planner.correlations.viscosity import AndradeLaw, VogelFulcherTammannLaw, WaltherLaw, fit_viscosity_law
+from planner.correlations.viscosity import AndradeLaw, VogelFulcherTammannLaw, WaltherLaw
+from planner.correlations.viscosity_fit import fit_viscosity_law
 
 
 @dataclass

@@ -24,7 +24,7 @@ from __future__ import annotations
 
 import functools
 
-from planner.records.store import StoreError
+from planner.records.terms import StoreError
 
 PASSWORD_MIN, PASSWORD_MAX = 10, 256
 RULE = "NIST SP 800-63B"

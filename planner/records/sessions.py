@@ -26,7 +26,7 @@ from pathlib import Path
 
 from sqlalchemy import text
 
-from planner.records.store import DEFAULT_PATH, StoreError, check_path
+from planner.records.terms import DEFAULT_PATH, StoreError, check_path
 
 KEY_ENV = "PLANNER_SESSION_KEY_FILE"
 KEY_SUFFIX = ".session-key"

@@ -7,12 +7,11 @@ where, value, limit and what to do.
 
 from __future__ import annotations
 
-from planner.checks.findings import SEVERITIES, count_by_severity, worst_severity
+from planner.checks.finding import LINES, MOST_SEVERE_FIRST, count_by_severity, worst_severity
 from planner.scenario.wording import format_quantity, render
-from planner.transfer.system import OUTCOME_WORDS
+from planner.transfer.operating import OUTCOME_WORDS
 
 HEADINGS = {"stop": "STOP", "warning": "WARNING", "caution": "CAUTION", "info": "INFORMATION"}
-MOST_SEVERE_FIRST = tuple(reversed(SEVERITIES))
 
 
 def _get(f, key):
@@ -52,7 +51,7 @@ def where_text(f, system: str = "SI") -> str:
     parts = []
     if where.get("line"):
         line = where["line"]
-        parts.append(f"{line} line" if line in ("suction", "discharge") else str(line))
+        parts.append(f"{line} line" if line in LINES else str(line))
     if where.get("segment"):
         parts.append(str(where["segment"]))
     if where.get("at_m") is not None:

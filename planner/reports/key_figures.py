@@ -12,10 +12,10 @@ from __future__ import annotations
 import dataclasses
 from dataclasses import dataclass
 
-from planner.scenario.wording import Q, Sentence
+from planner.scenario.wording import Q, Sentence, format_quantity, render
 from planner.transfer.plan import Plan
 from planner.transfer.pumps import HI_B_MAX
-from planner.transfer.system import OUTCOME_WORDS
+from planner.transfer.operating import OUTCOME_WORDS
 
 
 @dataclass(frozen=True)
@@ -153,3 +153,17 @@ def key_figures(plan: Plan) -> list[KeyFigure]:
         return figures
     return [dataclasses.replace(k, value=None, note="", possible=False, why=why, withheld=True)
             if k.key in PUMP_FIGURES else k for k in figures]
+
+
+def figure_text(k: KeyFigure, system: str = "SI", reason: bool = True) -> str:
+    """One key figure as every output shows it (text, HTML report, dashboard), in ``system``: the value with
+    its unit, "not possible: <why>" when its step cannot be carried out, "not given: <why>" when a method
+    beyond its range made it (``reason=False``: the two words only, the reason shown elsewhere)."""
+    if k.withheld or not k.possible:
+        words = "not given" if k.withheld else "not possible"
+        return f"{words}: {render(k.why, system)}" if reason else words
+    if k.value is None:
+        return "—"
+    if k.quantity == "money":
+        return f"{k.value:,.2f} {k.unit}".strip()
+    return format_quantity(k.value, k.quantity, system)

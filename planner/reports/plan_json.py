@@ -6,9 +6,13 @@ from planner.checks.caution import STANDING_CAUTION
 from planner.checks.findings import assess, worst_severity
 from planner.plain import plain
 from planner.reports.findings_text import findings_json, findings_lines, flag_words, headline, start_status
-from planner.reports.key_figures import key_figures, outlet_rating, pump_withheld
+from planner.reports.key_figures import figure_text, key_figures, outlet_rating, pump_withheld
+from planner.scenario.units import si_unit_text
 from planner.scenario.wording import Q, Sentence, format_quantity, render
 from planner.transfer.plan import Plan
+
+# the kinds of the numbers the plan document carries (their SI units head the document)
+DOCUMENT_KINDS = ("temperature", "pressure", "length", "volume", "volume_flow", "time", "power", "energy")
 
 
 def start_dict(plan: Plan) -> dict:
@@ -63,7 +67,8 @@ def plan_json(plan: Plan, arrays: bool = True, findings: list | None = None) -> 
     rating = outlet_rating(plan)
     doc = {
         "scenario": plan.scenario.name,
-        "units": "SI: K, Pa (gauge), m, m3, m3/s, s, W, J; costs in the scenario's currency",
+        "units": "SI: " + ", ".join(si_unit_text(k) + (" (gauge)" if k == "pressure" else "") for k in DOCUMENT_KINDS)
+                 + "; costs in the scenario's currency",
         "worst_severity": worst_severity(found),
         "headline": headline(found),
         "start": start_dict(plan),
@@ -146,22 +151,10 @@ def _start_lines(plan: Plan, system: str, found: list) -> list[str]:
     return lines
 
 
-def _figure_text(k, system: str, reason: bool = True) -> str:
-    if k.withheld:
-        return f"not given: {render(k.why, system)}" if reason else "not given"
-    if not k.possible:
-        return f"not possible: {render(k.why, system)}"
-    if k.value is None:
-        return "—"
-    if k.quantity == "money":
-        return f"{k.value:,.2f} {k.unit}"
-    return _q(k.value, k.quantity, system)
-
-
 def _transfer_lines(plan: Plan, system: str) -> list[str]:
     t = plan.timeline
     figures = {k.key: k for k in key_figures(plan)}
-    lines = [f"  transfer: {_q(t.moved_m3, 'volume', system)} — {_figure_text(figures['transfer_time'], system)}"]
+    lines = [f"  transfer: {_q(t.moved_m3, 'volume', system)} — {figure_text(figures['transfer_time'], system)}"]
     if len(t.arrays["flow_m3_s"]) and not pump_withheld(plan):
         q, src = t.arrays["flow_m3_s"], t.arrays["source_temperature_k"]
         lines.append(f"  flow from {_q(q[0], 'volume_flow', system)} to {_q(q[-1], 'volume_flow', system)}; source from "
@@ -178,7 +171,8 @@ def _transfer_lines(plan: Plan, system: str) -> list[str]:
     peak = plan.peak_discharge_pressure_pa
     if peak is not None:
         lines.append(f"  peak discharge pressure {_q(peak, 'pressure', system)} (gauge; running or at the start)")
-    lines.append(f"  total time: {_figure_text(figures['total_time'], system, reason=False)} against a planned window of "
+    total = figures["total_time"]
+    lines.append(f"  total time: {figure_text(total, system, reason=not total.withheld)} against a planned window of "
                  f"{_q(plan.scenario.schedule.planned_window, 'time', system, 2)}")
     return lines
 
@@ -199,14 +193,14 @@ def _energy_lines(plan: Plan, system: str) -> list[str]:
     e, c = plan.energy, plan.costs
     figures = {k.key: k for k in key_figures(plan)}
     if pump_withheld(plan):
-        return [f"  energy and cost: {_figure_text(figures['total_cost'], system)}"]
+        return [f"  energy and cost: {figure_text(figures['total_cost'], system)}"]
     lines = [f"  energy: tracing {_q(e.tracing_electric_j, 'energy', system)} / {_q(e.tracing_steam_kg, 'mass', system)} "
              f"steam, pump {_q(e.pump_j, 'energy', system)}, vessel heating {_q(e.vessel_heating_electric_j, 'energy', system)}"
              f" / {_q(e.vessel_heating_steam_kg, 'mass', system)} steam"]
     if c.complete:
         lines.append(f"  cost: energy {c.energy:,.2f} + demurrage {c.demurrage:,.2f} = {c.total:,.2f} {c.currency}")
     else:
-        lines.append(f"  cost: {_figure_text(figures['total_cost'], system)}")
+        lines.append(f"  cost: {figure_text(figures['total_cost'], system)}")
     return lines
 
 

@@ -5,12 +5,16 @@ from __future__ import annotations
 import numpy as np
 
 from planner.checks.caution import STANDING_CAUTION  # noqa: F401  (re-exported: reports show it)
-from planner.checks.findings import worst_severity
+from planner.checks.finding import worst_severity
 from planner.line.march import MarchResult
 from planner.plain import finite_or_none
 from planner.reports.findings_text import findings_json, findings_lines, headline
 from planner.scenario.schema import Scenario
+from planner.scenario.units import si_unit_text
 from planner.scenario.wording import Q, Sentence, format_quantity, render
+
+# the kinds of the numbers a march document carries (their SI units head the document)
+MARCH_KINDS = ("temperature", "pressure", "length", "volume_flow", "mass_flow", "power", "dynamic_viscosity")
 
 
 def segment_rows(result: MarchResult, line_segments) -> list[dict]:
@@ -48,7 +52,7 @@ def march_json(scenario: Scenario, result: MarchResult, profiles: bool = False, 
     segments = line_segments or line_from_scenario(scenario).segments
     doc = {
         "scenario": scenario.name,
-        "units": "SI: K, Pa (gauge), m, m3/s, kg/s, W, Pa s",
+        "units": "SI: " + ", ".join(si_unit_text(k) + (" (gauge)" if k == "pressure" else "") for k in MARCH_KINDS),
         "summary": {k: finite_or_none(v) for k, v in result.summary.as_dict().items()},
         "segments": segment_rows(result, segments),
         "caution": STANDING_CAUTION,

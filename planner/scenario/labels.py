@@ -1,6 +1,7 @@
 """The scenario's fields as the dashboard's Inputs page labels them, so that every error message can
 name the field in the user's words as well as by its path (``route.segments[1].length`` ->
-"Discharge route, row 2, Length").  ``tests/test_labels.py`` checks these against the page."""
+"Discharge route, row 2, Length").  ``tests/test_messages_and_exports.py`` (``test_labels_are_the_pages_own_words``)
+checks these against the page."""
 
 from __future__ import annotations
 

@@ -14,27 +14,14 @@ from typing import Annotated
 
 from pydantic import BeforeValidator, PlainSerializer, WithJsonSchema
 
-from planner.scenario.units import _NUMBER_UNIT, DEFAULT_UNITS, SI_UNITS, UnitError, _normalise_unit, registry, to_si
+from planner.scenario.units import (_NUMBER_UNIT, DEFAULT_UNITS, SI_UNITS, UnitError, _normalise_unit, registry, to_si,
+                                    unit_text)
 
-_LABELS = {
-    "degC": "°C",
-    "m**3/s": "m³/s",
-    "m**3": "m³",
-    "m**2/s": "m²/s",
-    "kg/m**3": "kg/m³",
-    "kg/m**3/K": "kg/m³ per K",
-    "J/kg/K": "J/(kg·K)",
-    "W/m/K": "W/(m·K)",
-    "Pa*s": "Pa·s",
-    "revolution/minute": "rpm",
-    "W/m**2/K": "W/(m²·K)",
-    "m**2": "m²",
-}
 
 
 def default_unit_label(kind: str) -> str:
     unit = DEFAULT_UNITS[kind]
-    return _LABELS.get(unit, unit)
+    return unit_text(unit)
 
 
 def si_to_default(value: float, kind: str) -> float:
@@ -133,7 +120,7 @@ def _given_unit(value: object, kind: str) -> tuple[str | None, str]:
 
 
 def _pretty(unit: str) -> str:
-    return _LABELS.get(unit, unit).replace("**3", "³").replace("**2", "²").replace("degC", "°C").replace("degF", "°F")
+    return unit_text(unit)
 
 
 def _in_unit(si_value: float, kind: str, unit: str | None) -> str:

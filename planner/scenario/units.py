@@ -53,6 +53,9 @@ def registry() -> pint.UnitRegistry:
 # Temperatures given as plain numbers are degrees Celsius (the trade's habit); in unit strings
 # any temperature unit is accepted.
 DEFAULT_UNITS: dict[str, str] = {
+    "head": "m",
+    "energy": "J",
+    "mass": "kg",
     "length": "m",
     "small_length": "mm",
     "temperature": "degC",
@@ -83,6 +86,9 @@ DEFAULT_UNITS: dict[str, str] = {
 
 # SI unit each kind is converted to inside the planner.
 SI_UNITS: dict[str, str] = {
+    "head": "m",
+    "energy": "J",
+    "mass": "kg",
     "length": "m",
     "small_length": "m",
     "temperature": "K",
@@ -110,6 +116,37 @@ SI_UNITS: dict[str, str] = {
     "mass_flow": "kg/s",
     "dimensionless": "dimensionless",
 }
+
+# How a unit is written for people and in the JSON documents (pint's spelling -> text): the one table of
+# unit spellings; ``unit_text`` writes any other pint spelling with superscripts.
+UNIT_TEXT = {
+    "degC": "°C",
+    "m**3/s": "m³/s",
+    "m**3": "m³",
+    "m**2/s": "m²/s",
+    "kg/m**3": "kg/m³",
+    "kg/m**3/K": "kg/m³ per K",
+    "J/kg/K": "J/(kg·K)",
+    "W/m/K": "W/(m·K)",
+    "Pa*s": "Pa·s",
+    "revolution/minute": "rpm",
+    "revolution/second": "rev/s",
+    "W/m**2/K": "W/(m²·K)",
+    "m**2": "m²",
+    "dimensionless": "",
+}
+
+
+def unit_text(unit: str) -> str:
+    """A pint unit as people read it ("m**3/s" -> "m³/s", "degC" -> "°C")."""
+    return UNIT_TEXT.get(unit, unit).replace("**3", "³").replace("**2", "²").replace("degC", "°C").replace("degF", "°F")
+
+
+def si_unit_text(kind: str) -> str:
+    """The SI unit of ``kind`` as the JSON documents and messages write it ("" for a bare number or an
+    unknown kind): findings' ``unit``, the comparison's and the calibration's."""
+    return unit_text(SI_UNITS[kind]) if kind in SI_UNITS else ""
+
 
 _NUMBER_UNIT = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")
 _POWER_SUFFIX = re.compile(r"\b(m|cm|mm|ft|inch|in|yd)([23])\b")

@@ -16,12 +16,15 @@ from planner.scenario.units import UNIT_SYSTEMS, from_si
 
 SYSTEMS = ("SI", "US")
 
-# Decimals of a quantity in a sentence unless the sentence asks for others.
-SENTENCE_DECIMALS = {
-    "temperature": 1, "temperature_difference": 0, "pressure": 2, "volume_flow": 1, "volume": 1,
-    "length": 0, "small_length": 1, "head": 2, "time": 1, "power": 2, "linear_power": 1, "speed": 2,
-    "heat_transfer_coefficient": 1, "dynamic_viscosity": 0, "kinematic_viscosity": 0, "energy": 1,
-    "mass": 0, "rotational_speed": 0, "density": 1,
+# Display decimals of each quantity kind, in the display unit of either system: the one table every output
+# reads (sentences, findings, key figures, text and HTML reports, the dashboard's tables) unless a caller
+# asks for others (``Q(value, kind, decimals)``).  tests/test_one_definition.py keeps it the only one.
+DECIMALS = {
+    "temperature": 1, "temperature_difference": 0, "pressure": 2, "volume_flow": 2, "volume": 1,
+    "length": 0, "small_length": 1, "head": 2, "time": 2, "energy": 1, "mass": 0, "power": 2, "heat_rate": 2,
+    "mass_flow": 2, "dynamic_viscosity": 1, "kinematic_viscosity": 1, "density": 1, "linear_power": 1, "speed": 2,
+    "rotational_speed": 0, "displacement": 2, "heat_transfer_coefficient": 2, "specific_heat": 3,
+    "conductivity": 3, "linear_conductance": 2,
 }
 
 
@@ -39,7 +42,7 @@ def format_quantity(value: float | None, kind: str, system: str = "SI", decimals
         if decimals is None:
             return f"{value:,.0f}" if abs(value) >= 100 else f"{value:.3g}"
         return f"{value:,.{decimals}f}"
-    digits = SENTENCE_DECIMALS.get(kind, 2) if decimals is None else decimals
+    digits = DECIMALS.get(kind, 2) if decimals is None else decimals
     number = from_si(float(value), kind, system)
     return f"{number:,.{digits}f} {UNIT_SYSTEMS[system][kind].label}"
 

@@ -21,7 +21,7 @@ from planner.transfer.plan import make_plan, with_changes
 from planner.plain import plain
 from planner.checks.lever_values import LEVERS, check_values
 from planner.scenario.schema import Scenario
-from planner.scenario.wording import Q, Sentence, format_quantity, render
+from planner.scenario.wording import DECIMALS, Q, Sentence, format_quantity, render
 from planner.sweeps.executors import fan_out
 
 
@@ -229,7 +229,8 @@ def _extendable(scenario: Scenario, lever: str):
 
 
 def lever_decimals(quantity: str) -> int:
-    return {"temperature": 1, "pressure": 2, "rotational_speed": 0, "volume_flow": 1}.get(quantity, 2)
+    """Decimals of a lever's values in tables and sentences: the display table's (``wording.DECIMALS``)."""
+    return DECIMALS.get(quantity, 2)
 
 
 def check_lever(scenario: Scenario, lever: str) -> None:

@@ -53,7 +53,7 @@ from planner.scenario.schema import TEMPERATURE_CEILING_K
 from planner.transfer.system import TransferSystem
 from planner.line.tracing import Heater
 from planner.line.transients import evolve, gap_centre_after, gap_warmup
-from planner.scenario.wording import Q, Sentence
+from planner.scenario.wording import Q, Sentence, render
 
 HOLD_HORIZON_S = 14 * 86400.0
 
@@ -87,10 +87,10 @@ class Hold:
     too_hot: list[str] = field(default_factory=list)   # parts the tracing takes past TEMPERATURE_CEILING_K
 
 
-def limit_temperature(system: TransferSystem) -> tuple[float, str]:
-    product = system.product
+def limit_temperature(transfer: TransferSystem) -> tuple[float, str]:
+    product = transfer.product
     limit, reason = product.no_flow_temperature, "no-flow temperature"
-    mu_limit = system.scenario.schedule.limiting_viscosity
+    mu_limit = transfer.scenario.schedule.limiting_viscosity
     if mu_limit is not None:
         low, high = 150.0, product.max_temperature + 150.0
         if product.viscosity(high) < mu_limit < product.viscosity(low):
@@ -105,21 +105,21 @@ def limit_temperature(system: TransferSystem) -> tuple[float, str]:
     return limit, reason
 
 
-def hold_analysis(system: TransferSystem, running_temperatures: dict[tuple[str, int], float]) -> Hold:
+def hold_analysis(transfer: TransferSystem, running_temperatures: dict[tuple[str, int], float]) -> Hold:
     """``running_temperatures`` maps (line name, segment index) to the contents' temperature at the stop."""
-    limit, reason = limit_temperature(system)
-    stop = system.scenario.schedule.stop_duration
-    product = system.product
+    limit, reason = limit_temperature(transfer)
+    stop = transfer.scenario.schedule.stop_duration
+    product = transfer.product
     segments = []
     gelled = 0.0
-    for name, line in (("suction", system.suction_line), ("discharge", system.discharge_line)):
+    for name, line in (("suction", transfer.suction_line), ("discharge", transfer.discharge_line)):
         if line is None:
             continue
         for seg, heater in zip(line.segments, line.heaters):
-            t0 = running_temperatures.get((name, seg.index), system.source.temperature)
+            t0 = running_temperatures.get((name, seg.index), transfer.source.temperature)
             gap = seg.spec.untraced_length if seg.traced and heater.active else 0.0
             if gap > 0.0:       # the traced length at full output; the gap its own cold spot
-                heater = Heater(system.tracing, 1.0, seg.ambient_temperature)
+                heater = Heater(transfer.tracing, 1.0, seg.ambient_temperature)
             results = {on: _cooling(seg, heater, product, t0, limit, stop, on) for on in (True, False)}
             segments.append(HoldSegment(name, seg.name, t0, limit, results[True][0], results[False][0],
                                         results[True][1], results[False][1]))
@@ -138,13 +138,13 @@ def hold_analysis(system: TransferSystem, running_temperatures: dict[tuple[str, 
 
     t_on, who_on = first("time_to_limit_traced_s")
     t_off, who_off = first("time_to_limit_failed_s")
-    spec = system.pump_spec
+    spec = transfer.pump_spec
     if spec.kind == "positive_displacement":
         pump_limit = spec.relief_setting
     else:
-        rho = product.density(system.source.temperature)
-        nu = product.kinematic_viscosity(system.source.temperature)
-        pump_limit = system.pump.shut_off_head(nu) * rho * GRAVITY
+        rho = product.density(transfer.source.temperature)
+        nu = product.kinematic_viscosity(transfer.source.temperature)
+        pump_limit = transfer.pump.shut_off_head(nu) * rho * GRAVITY
     hold = Hold(limit, reason, stop, t_on, t_off, who_on, who_off,
                 all(s.after_stop_traced_k > limit for s in segments),
                 all(s.after_stop_failed_k > limit for s in segments),
@@ -180,6 +180,17 @@ def _gap_hold(name: str, seg, product, gap: float, t0: float, limit: float, stop
     return HoldSegment(name, label, t0, limit, warm.falls_below_s, failed[0], min(after, t0), failed[1])
 
 
-def hours(value: float | None) -> str:
-    return "holds" if value is None else f"{value / 3600:.1f} h"
+HOLDS_WORDS = f"holds {HOLD_HORIZON_S / 86400:.0f} days"    # a time to the limit past the hold horizon
+
+
+def hours(value: float | None):
+    """A time in a sentence (``Sentence(..., t=hours(s))``): the time as a quantity (the display decimals of
+    "time", in hours) or, for None (no limit reached), "holds 14 days".  The one wording of hours as text;
+    ``hours_text`` renders it."""
+    return HOLDS_WORDS if value is None else Q(value, "time")
+
+
+def hours_text(value: float | None, system: str = "SI") -> str:
+    """``hours(value)`` as text in ``system`` (tables)."""
+    return render(Sentence("{t}", t=hours(value)), system)
 

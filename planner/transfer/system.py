@@ -20,100 +20,18 @@ from __future__ import annotations
 
 import copy
 import math
-import dataclasses
-from dataclasses import dataclass, field
 
-from scipy.optimize import brentq
-
-from planner.line.march import DEFAULT_STEP_M, Line, MarchSummary, march
+from planner.line.march import DEFAULT_STEP_M, Line, march, march_plugged
 from planner.line.products import Product, scenario_product
-from planner.transfer.pumps import CentrifugalPump, PositiveDisplacementPump
 from planner.line.route import build_line
 from planner.scenario.schema import Scenario, calibration_of
 from planner.scenario.units import ATMOSPHERE_PA, GRAVITY
 from planner.scenario.wording import Q, Sentence
+from planner.transfer.flow_roots import GUESS_TOLERANCE, HUGE_PRESSURE, MIN_FLOW_FRACTION, bracket_down, flow_root
+from planner.transfer.operating import OUTCOME_WORDS, OperatingPoint, SystemPoint, SystemState  # noqa: F401  (re-exported)
+from planner.transfer.pumps import CentrifugalPump, PositiveDisplacementPump, build_pump
+from planner.transfer.suction import check_suction
 from planner.transfer.vessels import destination_level, level_from_volume
-
-HUGE_PRESSURE = 1.0e12  # stands in for "this rate cannot be pushed" (product sets) inside root finding
-
-
-# The outcomes and flags above in words (what a page, a report or a key figure shows for each code).
-OUTCOME_WORDS = {"ok": "ok", "no_flow": "no flow", "relief_lifting": "relief valve lifting",
-                 "rate_not_reachable": "flow setpoint not reachable", "beyond_curve": "beyond the pump curve",
-                 "product_sets": "product sets", "motor_overloaded": "motor overloaded",
-                 "suction_starved": "suction starved"}
-
-@dataclass
-class SystemPoint:
-    flow: float                  # m3/s at the source temperature
-    mass_flow: float
-    source_temperature: float
-    pump_inlet_temperature: float
-    suction_pressure: float      # gauge at the pump inlet
-    discharge_pressure: float    # gauge needed at the pump outlet
-    pump_differential: float
-    npsh_available: float
-    outlet_temperature: float
-    suction: MarchSummary | None
-    discharge: MarchSummary
-    sets: bool                   # product falls below its no-flow temperature somewhere
-    where: str = ""
-    discharge_result: object = field(default=None, repr=False)  # the recorded MarchResult, when asked for
-
-    @property
-    def line_pressure_drop(self) -> float:
-        return self.discharge.pressure_drop_pa + (self.suction.pressure_drop_pa if self.suction else 0.0)
-
-
-@dataclass
-class OperatingPoint:
-    status: str
-    flow: float
-    message: str
-    point: SystemPoint | None
-    flags: list[str] = field(default_factory=list)
-    speed: float | None = None          # rev/s
-    shaft_power: float = 0.0            # W
-    pump_head: float | None = None      # m (centrifugal)
-    npsh_required: float = 0.0
-    npsh_limited_flow: float | None = None
-    relief_flow: float = 0.0            # m3/s recirculating through the relief valve
-    hi_b: float | None = None           # ANSI/HI 9.6.7 parameter B (centrifugal)
-    hi_in_range: bool = True
-    # the solver's best estimate of the exact root (a Newton step past the accepted flow); only for
-    # extrapolating the next guess, never reported: ``flow`` is the evaluated point
-    flow_estimate: float | None = None
-
-    @property
-    def moving(self) -> bool:
-        return self.status != "no_flow" and self.flow > 0.0
-
-
-@dataclass
-class SystemState:
-    """What changes while the transfer runs."""
-
-    source_temperature: float
-    source_volume: float
-    destination_volume_added: float = 0.0
-
-
-def build_pump(spec, slip_factor: float = 1.0):
-    """The pump of a ``PumpSpec``; ``slip_factor`` (the scenario's ``[calibration]``) multiplies PD slip."""
-    if spec.kind == "positive_displacement":
-        return PositiveDisplacementPump(
-            displacement_m3_per_rev=spec.displacement, speed_rev_s=spec.speed,
-            slip_flow_m3_s=spec.slip_flow * slip_factor,
-            slip_reference_pressure_pa=spec.slip_reference_pressure,
-            slip_reference_viscosity_pa_s=spec.slip_reference_viscosity,
-            slip_viscosity_exponent=spec.slip_viscosity_exponent, relief_setting_pa=spec.relief_setting,
-            mechanical_efficiency=spec.mechanical_efficiency, motor_power_w=spec.motor_power,
-            npsh_required_m=spec.npsh_required, max_speed_rev_s=spec.max_speed)
-    return CentrifugalPump(
-        flows_m3_s=[p.flow for p in spec.curve], heads_m=[p.head for p in spec.curve],
-        efficiencies=[p.efficiency for p in spec.curve], speed_rev_s=spec.speed,
-        npsh_required_m=(spec.npsh_required if not spec.curve or spec.curve[0].npsh_required is None
-                         else [p.npsh_required for p in spec.curve]), stages=spec.stages)
 
 
 class TransferSystem:
@@ -276,7 +194,8 @@ class TransferSystem:
         npsh_a = ((p_suction + ATMOSPHERE_PA - product.vapour_pressure(t_pump)) / (rho_pump * GRAVITY)
                   + velocity * velocity / (2.0 * GRAVITY))
         if self.plug is not None:
-            discharge = self._plug_march(mass_flow, t_pump)
+            head_line, tail_line, t_cold = self.plug
+            discharge = march_plugged(head_line, tail_line, mass_flow, t_pump, t_cold, self.step)
         else:
             discharge = march(self.discharge_line, mass_flow / product.density(t_pump), t_pump, 0.0,
                               step=self.step, record=record)
@@ -288,24 +207,6 @@ class TransferSystem:
                             npsh_a, ds.outlet_temperature_k, suction_summary, ds, sets, where)
         point.discharge_result = discharge if record else None
         return point
-
-    def _plug_march(self, mass_flow: float, t_warm: float):
-        """Discharge line as a warm head (product from the pump) and a cold tail (the plug)."""
-        head_line, tail_line, t_cold = self.plug
-        density = self.product.density
-        tail = march(tail_line, mass_flow / density(t_cold), t_cold, 0.0, step=self.step, record=False)
-        if not head_line.segments:
-            return tail
-        head = march(head_line, mass_flow / density(t_warm), t_warm, 0.0, step=self.step, record=False)
-        h, t = head.summary, tail.summary
-        combined = dataclasses.replace(
-            t, inlet_temperature_k=h.inlet_temperature_k, pressure_drop_pa=h.pressure_drop_pa + t.pressure_drop_pa,
-            friction_drop_pa=h.friction_drop_pa + t.friction_drop_pa, fittings_drop_pa=h.fittings_drop_pa + t.fittings_drop_pa,
-            static_drop_pa=h.static_drop_pa + t.static_drop_pa, outlet_pressure_pa=-(h.pressure_drop_pa + t.pressure_drop_pa),
-            trace_power_w=h.trace_power_w + t.trace_power_w, heat_loss_w=h.heat_loss_w + t.heat_loss_w,
-            status="ok" if h.status == "ok" and t.status == "ok" else "product_sets",
-            sets_at_m=h.sets_at_m if h.status != "ok" else (None if t.sets_at_m is None else t.sets_at_m + head_line.length))
-        return type(tail)(combined, {}, {})
 
     def _differential(self, flow: float, state: SystemState, cache: dict) -> float:
         key = round(flow, 12)
@@ -330,7 +231,7 @@ class TransferSystem:
             return OperatingPoint("no_flow", 0.0, Sentence("no flow possible: product sets ({where}) at {q}",
                                                            where=op.point.where, q=Q(op.flow, "volume_flow")), op.point)
         if op.point is not None and op.moving:
-            self._suction_checks(op, state)
+            check_suction(self, op, state)
             self._power_checks(op)
         return op
 
@@ -398,7 +299,7 @@ class TransferSystem:
                     return self._relief_point(q_relief, point, delivered, relief, mu, speed)
         self._last_relief_flow = None
         q = self._warm_solve("pd", residual, q_theoretical, guess, ftol=1e-7 * q_theoretical)
-        bracket = None if q is not None else _bracket_down(residual, q_theoretical, guess)
+        bracket = None if q is not None else bracket_down(residual, q_theoretical, guess)
         if q is None and bracket is None:
             q_low = q_theoretical * MIN_FLOW_FRACTION
             point = self._point(q_low, state, cache)
@@ -406,19 +307,19 @@ class TransferSystem:
                       "slip returns the whole displacement at the pressure the system needs")
             return self._no_flow(state, cache, q_low, Sentence("pump cannot move product: {r}", r=reason))
         if q is None:
-            q = _root(residual, bracket[0], bracket[1])
+            q = flow_root(residual, bracket[0], bracket[1])
         point = self._point(q, state, cache)
         mu = self._viscosity_at_pump(point, state)
         dp = point.pump_differential
         if relief is not None and dp > relief:
             q_relief = self._warm_solve("relief", over_relief, q, guess, ftol=20.0)
             if q_relief is None:
-                low = _bracket_down(over_relief, q, None)
+                low = bracket_down(over_relief, q, None)
                 if low is None:
                     return self._no_flow(state, cache, q * MIN_FLOW_FRACTION,
                                          Sentence("the line needs more than the relief setting {p} at any rate",
                                                   p=Q(relief, "pressure")))
-                q_relief = _root(over_relief, low[0], low[1])
+                q_relief = flow_root(over_relief, low[0], low[1])
             self._last_relief_flow = q_relief
             point = self._point(q_relief, state, cache)
             return self._relief_point(q_relief, point, pump.delivered_flow(relief, mu, speed), relief, mu, speed)
@@ -467,7 +368,7 @@ class TransferSystem:
                 message = "the system needs less head than the pump makes at the end of its curve"
             else:
                 q = None
-                bracket = _bracket_down(lambda x: -head_gap(x), q_max, guess)
+                bracket = bracket_down(lambda x: -head_gap(x), q_max, guess)
                 if bracket is None:
                     q_low = q_max * MIN_FLOW_FRACTION
                     point = self._point(q_low, state, cache)
@@ -477,7 +378,7 @@ class TransferSystem:
                                        shut=Q(pump.shut_off_head(nu), "head", 1)))
                     return self._no_flow(state, cache, q_low, reason)
                 if q is None:
-                    q = _root(head_gap, bracket[0], bracket[1])
+                    q = flow_root(head_gap, bracket[0], bracket[1])
                 message = Sentence("pump and line agree at {q}", q=Q(q, "volume_flow"))
             if spec.control == "fixed_flow":
                 status = "rate_not_reachable" if status == "ok" else status
@@ -509,69 +410,8 @@ class TransferSystem:
                 return from_curve
         return self.pump_spec.npsh_required
 
-    def _suction_checks(self, op: OperatingPoint, state: SystemState) -> None:
-        npsh_r = self.npsh_required(op.flow)
-        op.npsh_required = npsh_r
-        if op.point.npsh_available >= npsh_r:
-            return
-        op.flags.append("suction_starved")
-
-        def margin(q):
-            return self._suction_npsh(q, state) - self.npsh_required(q)
-
-        q_low = op.flow * 1e-3
-        if margin(q_low) < 0.0:
-            op.npsh_limited_flow = 0.0
-        else:
-            op.npsh_limited_flow = brentq(margin, q_low, op.flow, xtol=1e-7, rtol=1e-4)
-
-    def _suction_npsh(self, flow: float, state: SystemState) -> float:
-        product = self.product
-        p_source = self.source_pressure(state)
-        if self.suction_line is None:
-            return (p_source + ATMOSPHERE_PA - product.vapour_pressure(state.source_temperature)) / (
-                product.density(state.source_temperature) * GRAVITY)
-        s = march(self.suction_line, flow, state.source_temperature, p_source, step=self.step, record=False).summary
-        rho = product.density(s.outlet_temperature_k)
-        velocity = s.mass_flow_kg_s / (rho * self.suction_line.segments[-1].area)
-        return ((s.outlet_pressure_pa + ATMOSPHERE_PA - product.vapour_pressure(s.outlet_temperature_k)) / (rho * GRAVITY)
-                + velocity * velocity / (2 * GRAVITY))
-
     def _power_checks(self, op: OperatingPoint) -> None:
         motor = self.pump_spec.motor_power
         # beyond ANSI/HI 9.6.7 the shaft power is no figure (PUMP-HI-RANGE stands): nothing to flag on it
         if motor is not None and op.hi_in_range and op.shaft_power > motor:
             op.flags.append("motor_overloaded")
-
-
-MIN_FLOW_FRACTION = 1e-3
-# A warm guess is accepted when the Newton step from it is below this fraction of the flow: 0.01 %,
-# below any figure a plan reports (flows to 0.1 m³/h, times to 0.01 h) and above the few-1e-5 scatter
-# that the march's own iterations leave in the system curve from one timeline state to the next.
-GUESS_TOLERANCE = 1e-4
-
-
-def _bracket_down(function, high: float, guess: float | None):
-    """Find [a, b] with function(a) < 0 <= function(b), b <= high, searching down from ``high``
-    (first in a narrow band around a guess).  None when no sign change is found down to a trickle."""
-    if function(high) < 0.0:
-        return None
-    if guess is not None and 0.0 < guess < high:
-        top = min(high, guess * 1.03)
-        bottom = guess * 0.97
-        if function(top) >= 0.0 and function(bottom) < 0.0:
-            return bottom, top
-    a = b = high
-    while a > high * MIN_FLOW_FRACTION:
-        a = a * 0.6
-        if function(a) < 0.0:
-            return a, b
-        b = a
-    return None
-
-
-def _root(function, low: float, high: float) -> float:
-    """Root of a function changing sign on [low, high] (Brent's method; values are cached by the caller)."""
-    if low == high:
-        return low
-    return brentq(function, low, high, xtol=1e-9, rtol=1e-5, maxiter=100)

@@ -87,6 +87,7 @@ def test_both_find_where_an_untraced_thin_insulated_syrup_line_sets():
         assert fast.sets_at_m == pytest.approx(base["sets_at_m"], abs=step)   # within one step
 
 
+@pytest.mark.slow
 def test_benchmark_json_reports_a_1000_m_line_at_equal_accuracy():
     from tests.benchmarks import bench
 
