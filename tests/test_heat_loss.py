@@ -4,7 +4,7 @@ Sources:
 - Conduction through a cylindrical layer, ln(r2/r1) / (2 pi k) per metre (Incropera & DeWitt,
   *Fundamentals of Heat and Mass Transfer*, eq. 3.33).
 - Buried cylinder, shape factor S = 2 pi / acosh(2z/D) per metre (Incropera & DeWitt, Table 4.1, case 2).
-- Outside film: the recipe of tests/test_heat_transfer.py (``_h_conv_reference``) on iapws 1.5.5 air and
+- Outside film: the recipe of tests/test_outer_surface.py (``_h_conv_reference``) on iapws 1.5.5 air and
   ht 1.2.0 correlations, with radiation eps sigma (Ts^2 + Ta^2)(Ts + Ta).
 """
 
@@ -20,7 +20,7 @@ from planner.correlations.materials import INSULATION_MATERIALS
 from planner.line.heat_loss import insulation_resistance, surface_resistance
 from planner.line.route import build_line
 from planner.scenario.schema import scenario_from_dict
-from test_heat_transfer import SIGMA, _h_conv_reference
+from test_outer_surface import SIGMA, _h_conv_reference
 
 OD_2IN = 0.0603   # ASME B36.10M NPS 2 (REFERENCES.md)
 

@@ -4,7 +4,7 @@ The entrance jacket (film resistance gone) is checked with whole marches in test
 
 Source: resistances in series, q = (T_wall - T_air) / (R_insulation + R_surface), with R_surface at the
 jacket temperature the balance gives (Incropera & DeWitt, *Fundamentals of Heat and Mass Transfer*,
-section 3.3); R_surface by the reference recipe of tests/test_heat_transfer.py (iapws 1.5.5 air, ht 1.2.0),
+section 3.3); R_surface by the reference recipe of tests/test_outer_surface.py (iapws 1.5.5 air, ht 1.2.0),
 iterated here on the jacket temperature independently of the planner's solver.
 """
 
@@ -18,7 +18,7 @@ from conftest import base_scenario
 from planner.line.heat_path import jacket_temperature
 from planner.line.route import build_line
 from planner.scenario.schema import scenario_from_dict
-from test_heat_transfer import SIGMA, _h_conv_reference
+from test_outer_surface import SIGMA, _h_conv_reference
 
 
 def _segment(wind: float):
