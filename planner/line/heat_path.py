@@ -263,15 +263,8 @@ def jacket_temperature(seg: LineSegment, t_wall: float, tolerance: float = 1e-3)
     1.2.0's Churchill-Chu [3] and the radiation law (tests/test_outer_surface.py ``_h_conv_reference``), iterated on the jacket
     temperature, gives a jacket at 24.80 degC and a loss of 9.048 W/m:
 
-    >>> from planner.scenario.schema import scenario_from_dict
-    >>> scenario = scenario_from_dict({"schema_version": 1, "name": "example",
-    ...     "site": {"name": "bench", "ambient_temperature": 20.0, "wind_speed": 0.0},
-    ...     "product": {"name": "oil", "density": 900.0, "density_slope": 0.0, "specific_heat": 2000.0,
-    ...                 "thermal_conductivity": 0.13, "no_flow_temperature": -40.0, "max_temperature": 200.0,
-    ...                 "viscosity": {"law": "andrade", "coefficients": {"a": 0.0, "b": 0.0}}},
-    ...     "route": {"segments": [{"name": "run", "nps": "2", "schedule": "40", "length": 100.0,
-    ...                             "insulation": [{"conductivity": 0.04, "thickness": "50 mm"}]}]},
-    ...     "tracing": {"kind": "none"}, "operation": {"flow": "5 m3/h", "inlet_temperature": 20.0}})
+    >>> from planner.scenario.examples import example_scenario
+    >>> scenario = example_scenario("oil line")
     >>> from planner.line.route import build_line
     >>> seg = build_line(scenario.route, scenario.site)[0]
     >>> jacket, loss = jacket_temperature(seg, 333.15)

@@ -94,15 +94,8 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
     K(inf) = 1.25 velocity heads, 0.0023 bar [3], and the viscous heating is that drop times the flow,
     1036.5 W [2] (by hand):
 
-    >>> from planner.scenario.schema import scenario_from_dict
-    >>> scenario = scenario_from_dict({"schema_version": 1, "name": "example",
-    ...     "site": {"name": "bench", "ambient_temperature": 20.0, "wind_speed": 0.0},
-    ...     "product": {"name": "oil", "density": 900.0, "density_slope": 0.0, "specific_heat": 2000.0,
-    ...                 "thermal_conductivity": 0.13, "no_flow_temperature": -40.0, "max_temperature": 200.0,
-    ...                 "viscosity": {"law": "andrade", "coefficients": {"a": 0.0, "b": 0.0}}},
-    ...     "route": {"segments": [{"name": "run", "nps": "2", "schedule": "40", "length": 100.0,
-    ...                             "insulation": [{"conductivity": 0.04, "thickness": "50 mm"}]}]},
-    ...     "tracing": {"kind": "none"}, "operation": {"flow": "5 m3/h", "inlet_temperature": 20.0}})
+    >>> from planner.scenario.examples import example_scenario
+    >>> scenario = example_scenario("oil line")
     >>> from planner.line.model import line_from_scenario
     >>> result = march(line_from_scenario(scenario), 5.0 / 3600.0, 293.15)
     >>> round(result.summary.pressure_drop_pa / 1e5, 3), round(result.summary.viscous_heating_w, 1)

@@ -167,15 +167,8 @@ def build_line(route: Route, site: Site, heat_loss_factor: float = 1.0) -> list[
     air at 20 degC: diameters from the B36.10M table [1]; the jacket 60.3 + 2 x 50 =
     160.3 mm; the wall ln(60.3/52.48) / (2 pi 45) = 4.91e-4 K m/W (carbon steel 45 W/(m K) [2] [mem]):
 
-    >>> from planner.scenario.schema import scenario_from_dict
-    >>> scenario = scenario_from_dict({"schema_version": 1, "name": "example",
-    ...     "site": {"name": "bench", "ambient_temperature": 20.0, "wind_speed": 0.0},
-    ...     "product": {"name": "oil", "density": 900.0, "density_slope": 0.0, "specific_heat": 2000.0,
-    ...                 "thermal_conductivity": 0.13, "no_flow_temperature": -40.0, "max_temperature": 200.0,
-    ...                 "viscosity": {"law": "andrade", "coefficients": {"a": 0.0, "b": 0.0}}},
-    ...     "route": {"segments": [{"name": "run", "nps": "2", "schedule": "40", "length": 100.0,
-    ...                             "insulation": [{"conductivity": 0.04, "thickness": "50 mm"}]}]},
-    ...     "tracing": {"kind": "none"}, "operation": {"flow": "5 m3/h", "inlet_temperature": 20.0}})
+    >>> from planner.scenario.examples import example_scenario
+    >>> scenario = example_scenario("oil line")
     >>> seg = build_line(scenario.route, scenario.site)[0]
     >>> round(seg.inside_diameter * 1000, 2), round(seg.jacket_diameter * 1000, 1), f"{seg.wall_resistance:.3g}"
     (52.48, 160.3, '0.000491')

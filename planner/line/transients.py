@@ -59,15 +59,8 @@ def heat_capacity_per_metre(seg: LineSegment, product: Product, temperature: flo
     air at 20 degC: 900 x 2000 x pi/4 x 0.05248^2 + 7850 x 490 x pi/4
     (0.0603^2 - 0.05248^2) = 3893 + 2665 = 6558 J/(m K) (by hand):
 
-    >>> from planner.scenario.schema import scenario_from_dict
-    >>> scenario = scenario_from_dict({"schema_version": 1, "name": "example",
-    ...     "site": {"name": "bench", "ambient_temperature": 20.0, "wind_speed": 0.0},
-    ...     "product": {"name": "oil", "density": 900.0, "density_slope": 0.0, "specific_heat": 2000.0,
-    ...                 "thermal_conductivity": 0.13, "no_flow_temperature": -40.0, "max_temperature": 200.0,
-    ...                 "viscosity": {"law": "andrade", "coefficients": {"a": 0.0, "b": 0.0}}},
-    ...     "route": {"segments": [{"name": "run", "nps": "2", "schedule": "40", "length": 100.0,
-    ...                             "insulation": [{"conductivity": 0.04, "thickness": "50 mm"}]}]},
-    ...     "tracing": {"kind": "none"}, "operation": {"flow": "5 m3/h", "inlet_temperature": 20.0}})
+    >>> from planner.scenario.examples import example_scenario
+    >>> scenario = example_scenario("oil line")
     >>> from planner.line.route import build_line
     >>> seg = build_line(scenario.route, scenario.site)[0]
     >>> from planner.line.products import scenario_product
@@ -125,15 +118,8 @@ def evolve(seg: LineSegment, heater: Heater, product: Product, t_start: float, h
     ``heat_path.jacket_temperature``) and C = 6558 J/(m K) gives 20 + 40 exp(-3600 U / C) = 55.33 degC;
     over a month it settles at the ambient:
 
-    >>> from planner.scenario.schema import scenario_from_dict
-    >>> scenario = scenario_from_dict({"schema_version": 1, "name": "example",
-    ...     "site": {"name": "bench", "ambient_temperature": 20.0, "wind_speed": 0.0},
-    ...     "product": {"name": "oil", "density": 900.0, "density_slope": 0.0, "specific_heat": 2000.0,
-    ...                 "thermal_conductivity": 0.13, "no_flow_temperature": -40.0, "max_temperature": 200.0,
-    ...                 "viscosity": {"law": "andrade", "coefficients": {"a": 0.0, "b": 0.0}}},
-    ...     "route": {"segments": [{"name": "run", "nps": "2", "schedule": "40", "length": 100.0,
-    ...                             "insulation": [{"conductivity": 0.04, "thickness": "50 mm"}]}]},
-    ...     "tracing": {"kind": "none"}, "operation": {"flow": "5 m3/h", "inlet_temperature": 20.0}})
+    >>> from planner.scenario.examples import example_scenario
+    >>> scenario = example_scenario("oil line")
     >>> from planner.line.route import build_line
     >>> seg = build_line(scenario.route, scenario.site)[0]
     >>> from planner.line.products import scenario_product
@@ -204,15 +190,8 @@ def gap_warmup(seg: LineSegment, product: Product, gap_m: float, t_start: float,
     0.2226 W/(m K) (reference recipe at 40 degC, see ``heat_path.jacket_temperature``) and kA =
     45 x 6.926e-4 + 0.13 x 2.163e-3 = 0.03145 W m/K; it never reaches 30 degC:
 
-    >>> from planner.scenario.schema import scenario_from_dict
-    >>> scenario = scenario_from_dict({"schema_version": 1, "name": "example",
-    ...     "site": {"name": "bench", "ambient_temperature": 20.0, "wind_speed": 0.0},
-    ...     "product": {"name": "oil", "density": 900.0, "density_slope": 0.0, "specific_heat": 2000.0,
-    ...                 "thermal_conductivity": 0.13, "no_flow_temperature": -40.0, "max_temperature": 200.0,
-    ...                 "viscosity": {"law": "andrade", "coefficients": {"a": 0.0, "b": 0.0}}},
-    ...     "route": {"segments": [{"name": "run", "nps": "2", "schedule": "40", "length": 100.0,
-    ...                             "insulation": [{"conductivity": 0.04, "thickness": "50 mm"}]}]},
-    ...     "tracing": {"kind": "none"}, "operation": {"flow": "5 m3/h", "inlet_temperature": 20.0}})
+    >>> from planner.scenario.examples import example_scenario
+    >>> scenario = example_scenario("oil line")
     >>> from planner.line.route import build_line
     >>> seg = build_line(scenario.route, scenario.site)[0]
     >>> from planner.line.products import scenario_product

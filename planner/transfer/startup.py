@@ -21,20 +21,8 @@ reference recipe (U = 0.2262 W/(m K), see ``heat_path.jacket_temperature``) take
 (C/U) ln((100 + 10 U) / (100 - 24 U)) = 2267 s, 37.8 min (by hand); pushing the cold contents
 out, the warm front reaches the destination after a line volume, 0.2163 m^3 / 1.25e-3 m^3/s = 173 s:
 
->>> from planner.scenario.schema import scenario_from_dict
->>> scenario = scenario_from_dict({"schema_version": 1, "name": "example",
-...     "site": {"name": "bench", "ambient_temperature": 20.0, "wind_speed": 0.0},
-...     "product": {"name": "oil", "density": 900.0, "density_slope": 0.0, "specific_heat": 2000.0,
-...                 "thermal_conductivity": 0.13, "no_flow_temperature": -40.0, "max_temperature": 200.0,
-...                 "viscosity": {"law": "andrade", "coefficients": {"a": 0.0, "b": 0.0}}},
-...     "route": {"segments": [{"name": "run", "nps": "2", "schedule": "40", "length": 100.0,
-...                             "insulation": [{"conductivity": 0.04, "thickness": "50 mm"}]}]},
-...     "tracing": {"kind": "electric_constant", "output": "100 W/m", "setpoint": 45.0},
-...     "operation": {"flow": "4.5 m3/h", "inlet_temperature": 40.0},
-...     "pump": {"kind": "positive_displacement", "speed": "300 rpm", "displacement": "0.25 L"},
-...     "source": {"diameter": "5 m", "initial_volume": "60 m3", "volume_to_move": "45 m3", "temperature": 40.0},
-...     "destination": {"diameter": "5 m", "initial_level": "0 m", "inlet": "top"},
-...     "schedule": {"start_mode": "push_cold", "line_start_temperature": 10.0}})
+>>> from planner.scenario.examples import example_scenario
+>>> scenario = example_scenario("oil transfer")
 >>> from planner.transfer.system import TransferSystem
 >>> system = TransferSystem(scenario)
 >>> round(prewarm(system, 283.15).time_s / 60, 1)

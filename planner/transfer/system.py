@@ -50,20 +50,8 @@ class TransferSystem:
     the tank's head, 900 g (60 / (pi 2.5^2)) = 26.97 kPa [2]; the shaft power is
     Q (6.716 - 0.270) bar / 0.85 (mechanical efficiency) = 948.0 W (by hand):
 
-    >>> from planner.scenario.schema import scenario_from_dict
-    >>> scenario = scenario_from_dict({"schema_version": 1, "name": "example",
-    ...     "site": {"name": "bench", "ambient_temperature": 20.0, "wind_speed": 0.0},
-    ...     "product": {"name": "oil", "density": 900.0, "density_slope": 0.0, "specific_heat": 2000.0,
-    ...                 "thermal_conductivity": 0.13, "no_flow_temperature": -40.0, "max_temperature": 200.0,
-    ...                 "viscosity": {"law": "andrade", "coefficients": {"a": 0.0, "b": 0.0}}},
-    ...     "route": {"segments": [{"name": "run", "nps": "2", "schedule": "40", "length": 100.0,
-    ...                             "insulation": [{"conductivity": 0.04, "thickness": "50 mm"}]}]},
-    ...     "tracing": {"kind": "electric_constant", "output": "100 W/m", "setpoint": 45.0},
-    ...     "operation": {"flow": "4.5 m3/h", "inlet_temperature": 40.0},
-    ...     "pump": {"kind": "positive_displacement", "speed": "300 rpm", "displacement": "0.25 L"},
-    ...     "source": {"diameter": "5 m", "initial_volume": "60 m3", "volume_to_move": "45 m3", "temperature": 40.0},
-    ...     "destination": {"diameter": "5 m", "initial_level": "0 m", "inlet": "top"},
-    ...     "schedule": {"start_mode": "push_cold", "line_start_temperature": 10.0}})
+    >>> from planner.scenario.examples import example_scenario
+    >>> scenario = example_scenario("oil transfer")
     >>> system = TransferSystem(scenario)
     >>> point = system.operating_point(SystemState(313.15, 60.0))
     >>> round(point.flow * 3600, 6), round(point.point.discharge_pressure / 1e5, 3), round(point.point.suction_pressure / 1e3, 2)

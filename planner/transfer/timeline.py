@@ -15,20 +15,8 @@ At a constant 4.5 m^3/h the 45 m^3 take 10 h; the pump differential is the line'
 the tank's head, which falls from 3.056 m to 0.764 m (mean 16.86 kPa), so the motor draws
 1.25e-3 x 6.546e5 / (0.85 x 0.92) = 1046 W for 10 h: 37.7 MJ (by hand):
 
->>> from planner.scenario.schema import scenario_from_dict
->>> scenario = scenario_from_dict({"schema_version": 1, "name": "example",
-...     "site": {"name": "bench", "ambient_temperature": 20.0, "wind_speed": 0.0},
-...     "product": {"name": "oil", "density": 900.0, "density_slope": 0.0, "specific_heat": 2000.0,
-...                 "thermal_conductivity": 0.13, "no_flow_temperature": -40.0, "max_temperature": 200.0,
-...                 "viscosity": {"law": "andrade", "coefficients": {"a": 0.0, "b": 0.0}}},
-...     "route": {"segments": [{"name": "run", "nps": "2", "schedule": "40", "length": 100.0,
-...                             "insulation": [{"conductivity": 0.04, "thickness": "50 mm"}]}]},
-...     "tracing": {"kind": "electric_constant", "output": "100 W/m", "setpoint": 45.0},
-...     "operation": {"flow": "4.5 m3/h", "inlet_temperature": 40.0},
-...     "pump": {"kind": "positive_displacement", "speed": "300 rpm", "displacement": "0.25 L"},
-...     "source": {"diameter": "5 m", "initial_volume": "60 m3", "volume_to_move": "45 m3", "temperature": 40.0},
-...     "destination": {"diameter": "5 m", "initial_level": "0 m", "inlet": "top"},
-...     "schedule": {"start_mode": "push_cold", "line_start_temperature": 10.0}})
+>>> from planner.scenario.examples import example_scenario
+>>> scenario = example_scenario("oil transfer")
 >>> from planner.transfer.system import TransferSystem
 >>> timeline = run_transfer(TransferSystem(scenario))
 >>> round(timeline.total_time_s / 3600, 3), round(timeline.moved_m3, 6), round(timeline.pump_energy_j / 1e6, 1)
