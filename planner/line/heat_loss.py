@@ -31,9 +31,8 @@ def insulation_resistance(seg: LineSegment, t_wall: float, t_jacket: float) -> f
 
     Examples
     --------
-    An oil of 1 Pa s at every temperature (Andrade a = b = 0), 900 kg/m^3, 2000 J/(kg K), in 100 m
-    of NPS 2 Sch 40 (ID 52.48 mm, OD 60.3 mm [1]) under 50 mm of insulation of 0.04 W/(m K), in still
-    air at 20 degC: ln(80.15/30.15) / (2 pi 0.04) = 3.890 K m/W
+    The oil line of ``scenario.examples`` (1 Pa s, 900 kg/m^3, 2000 J/(kg K); 100 m of NPS 2 Sch 40,
+    ID 52.48 mm, OD 60.3 mm [1], under 50 mm of insulation of 0.04 W/(m K); still air at 20 degC): ln(80.15/30.15) / (2 pi 0.04) = 3.890 K m/W
     (by hand from [2]):
 
     >>> from planner.scenario.examples import example_scenario
@@ -64,9 +63,8 @@ def surface_resistance(seg: LineSegment, t_jacket: float) -> float:
 
     Examples
     --------
-    An oil of 1 Pa s at every temperature (Andrade a = b = 0), 900 kg/m^3, 2000 J/(kg K), in 100 m
-    of NPS 2 Sch 40 (ID 52.48 mm, OD 60.3 mm [1]) under 50 mm of insulation of 0.04 W/(m K), in still
-    air at 20 degC; jacket (OD 160.3 mm, emissivity 0.15) at 30 degC:
+    The oil line of ``scenario.examples`` (1 Pa s, 900 kg/m^3, 2000 J/(kg K); 100 m of NPS 2 Sch 40,
+    ID 52.48 mm, OD 60.3 mm [1], under 50 mm of insulation of 0.04 W/(m K); still air at 20 degC); jacket (OD 160.3 mm, emissivity 0.15) at 30 degC:
     the same recipe on reference air properties (iapws 1.5.5 humidAir.Air [2]) with ht
     1.2.0's Churchill-Chu [3] and the radiation law (tests/test_outer_surface.py ``_h_conv_reference``) gives 0.4488 K m/W:
 

@@ -256,9 +256,8 @@ def jacket_temperature(seg: LineSegment, t_wall: float, tolerance: float = 1e-3)
 
     Examples
     --------
-    An oil of 1 Pa s at every temperature (Andrade a = b = 0), 900 kg/m^3, 2000 J/(kg K), in 100 m
-    of NPS 2 Sch 40 (ID 52.48 mm, OD 60.3 mm [1]) under 50 mm of insulation of 0.04 W/(m K), in still
-    air at 20 degC; wall at 60 degC: the series of the insulation's 3.890 K m/W
+    The oil line of ``scenario.examples`` (1 Pa s, 900 kg/m^3, 2000 J/(kg K); 100 m of NPS 2 Sch 40,
+    ID 52.48 mm, OD 60.3 mm [1], under 50 mm of insulation of 0.04 W/(m K); still air at 20 degC); wall at 60 degC: the series of the insulation's 3.890 K m/W
     (by hand, [4]) and the surface resistance by the same recipe on reference air properties (iapws 1.5.5 humidAir.Air [2]) with ht
     1.2.0's Churchill-Chu [3] and the radiation law (tests/test_outer_surface.py ``_h_conv_reference``), iterated on the jacket
     temperature, gives a jacket at 24.80 degC and a loss of 9.048 W/m:

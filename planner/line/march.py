@@ -87,9 +87,8 @@ def march(line: Line, flow: float, inlet_temperature: float, inlet_pressure: flo
 
     Examples
     --------
-    An oil of 1 Pa s at every temperature (Andrade a = b = 0), 900 kg/m^3, 2000 J/(kg K), in 100 m
-    of NPS 2 Sch 40 (ID 52.48 mm, OD 60.3 mm [1]) under 50 mm of insulation of 0.04 W/(m K), in still
-    air at 20 degC, 5 m^3/h in at 20 degC: laminar (Re = 30), so the pressure drop is
+    The oil line of ``scenario.examples`` (1 Pa s, 900 kg/m^3, 2000 J/(kg K); 100 m of NPS 2 Sch 40,
+    ID 52.48 mm, OD 60.3 mm [1], under 50 mm of insulation of 0.04 W/(m K); still air at 20 degC), 5 m^3/h in at 20 degC: laminar (Re = 30), so the pressure drop is
     Hagen-Poiseuille's 128 mu L Q / (pi D^4) = 7.460 bar [1] plus the developing entrance's
     K(inf) = 1.25 velocity heads, 0.0023 bar [3], and the viscous heating is that drop times the flow,
     1036.5 W [2] (by hand):

@@ -162,9 +162,8 @@ def build_line(route: Route, site: Site, heat_loss_factor: float = 1.0) -> list[
 
     Examples
     --------
-    An oil of 1 Pa s at every temperature (Andrade a = b = 0), 900 kg/m^3, 2000 J/(kg K), in 100 m
-    of NPS 2 Sch 40 (ID 52.48 mm, OD 60.3 mm [1]) under 50 mm of insulation of 0.04 W/(m K), in still
-    air at 20 degC: diameters from the B36.10M table [1]; the jacket 60.3 + 2 x 50 =
+    The oil line of ``scenario.examples`` (1 Pa s, 900 kg/m^3, 2000 J/(kg K); 100 m of NPS 2 Sch 40,
+    ID 52.48 mm, OD 60.3 mm [1], under 50 mm of insulation of 0.04 W/(m K); still air at 20 degC): diameters from the B36.10M table [1]; the jacket 60.3 + 2 x 50 =
     160.3 mm; the wall ln(60.3/52.48) / (2 pi 45) = 4.91e-4 K m/W (carbon steel 45 W/(m K) [2] [mem]):
 
     >>> from planner.scenario.examples import example_scenario

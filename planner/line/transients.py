@@ -54,9 +54,8 @@ def heat_capacity_per_metre(seg: LineSegment, product: Product, temperature: flo
 
     Examples
     --------
-    An oil of 1 Pa s at every temperature (Andrade a = b = 0), 900 kg/m^3, 2000 J/(kg K), in 100 m
-    of NPS 2 Sch 40 (ID 52.48 mm, OD 60.3 mm [1]) under 50 mm of insulation of 0.04 W/(m K), in still
-    air at 20 degC: 900 x 2000 x pi/4 x 0.05248^2 + 7850 x 490 x pi/4
+    The oil line of ``scenario.examples`` (1 Pa s, 900 kg/m^3, 2000 J/(kg K); 100 m of NPS 2 Sch 40,
+    ID 52.48 mm, OD 60.3 mm [1], under 50 mm of insulation of 0.04 W/(m K); still air at 20 degC): 900 x 2000 x pi/4 x 0.05248^2 + 7850 x 490 x pi/4
     (0.0603^2 - 0.05248^2) = 3893 + 2665 = 6558 J/(m K) (by hand):
 
     >>> from planner.scenario.examples import example_scenario
@@ -111,9 +110,8 @@ def evolve(seg: LineSegment, heater: Heater, product: Product, t_start: float, h
 
     Examples
     --------
-    An oil of 1 Pa s at every temperature (Andrade a = b = 0), 900 kg/m^3, 2000 J/(kg K), in 100 m
-    of NPS 2 Sch 40 (ID 52.48 mm, OD 60.3 mm [1]) under 50 mm of insulation of 0.04 W/(m K), in still
-    air at 20 degC, untraced, cooling from 60 degC for an hour: Newton's law of cooling
+    The oil line of ``scenario.examples`` (1 Pa s, 900 kg/m^3, 2000 J/(kg K); 100 m of NPS 2 Sch 40,
+    ID 52.48 mm, OD 60.3 mm [1], under 50 mm of insulation of 0.04 W/(m K); still air at 20 degC), untraced, cooling from 60 degC for an hour: Newton's law of cooling
     [1] with the loss of the reference recipe (9.048 W/m at 40 K: U = 0.2262 W/(m K), see
     ``heat_path.jacket_temperature``) and C = 6558 J/(m K) gives 20 + 40 exp(-3600 U / C) = 55.33 degC;
     over a month it settles at the ambient:
@@ -183,9 +181,8 @@ def gap_warmup(seg: LineSegment, product: Product, gap_m: float, t_start: float,
 
     Examples
     --------
-    An oil of 1 Pa s at every temperature (Andrade a = b = 0), 900 kg/m^3, 2000 J/(kg K), in 100 m
-    of NPS 2 Sch 40 (ID 52.48 mm, OD 60.3 mm [1]) under 50 mm of insulation of 0.04 W/(m K), in still
-    air at 20 degC; a 2 m gap with its ends at 60 degC: the fin with both ends held [1]
+    The oil line of ``scenario.examples`` (1 Pa s, 900 kg/m^3, 2000 J/(kg K); 100 m of NPS 2 Sch 40,
+    ID 52.48 mm, OD 60.3 mm [1], under 50 mm of insulation of 0.04 W/(m K); still air at 20 degC); a 2 m gap with its ends at 60 degC: the fin with both ends held [1]
     settles at T_amb + (T_end - T_amb) / cosh(m L / 2) = 25.57 degC, m = sqrt(U / kA) with U =
     0.2226 W/(m K) (reference recipe at 40 degC, see ``heat_path.jacket_temperature``) and kA =
     45 x 6.926e-4 + 0.13 x 2.163e-3 = 0.03145 W m/K; it never reaches 30 degC:

@@ -8,10 +8,9 @@ over the gelled length (force balance on the plug, ``rheology.gelled_restart_pre
 
 Examples
 --------
-An oil of 1 Pa s at every temperature (Andrade a = b = 0), 900 kg/m^3, 2000 J/(kg K), moved by a
-PD pump without slip (0.25 L/rev at 300 rpm: 4.5 m^3/h) from a 5 m tank holding 60 m^3 at 40 degC
-through 100 m of NPS 2 Sch 40 (ID 52.48 mm [1]) under 50 mm of insulation of 0.04 W/(m K), traced
-at 100 W/m to a 45 degC setpoint, into the top of a tank; still air at 20 degC.
+The oil transfer of ``scenario.examples`` (the oil line, ID 52.48 mm [1], traced at 100 W/m to
+45 degC; a PD pump without slip, 0.25 L/rev at 300 rpm: 4.5 m^3/h, from a 5 m tank holding 60 m^3 at
+40 degC into the top of a tank).
 Stopped for an hour with the line at 40 degC and the tracing failed, a lumped metre [2] cools as
 20 + 20 exp(-3600 U / C) = 37.70 degC (U = 0.2226 W/(m K) of the reference recipe at 20 K,
 C = 6558 J/(m K): see ``heat_path.jacket_temperature``); it never reaches the no-flow -40 degC:

@@ -5,10 +5,9 @@ Everything here strings together the steps of the other modules; each step can b
 
 Examples
 --------
-An oil of 1 Pa s at every temperature (Andrade a = b = 0), 900 kg/m^3, 2000 J/(kg K), moved by a
-PD pump without slip (0.25 L/rev at 300 rpm: 4.5 m^3/h) from a 5 m tank holding 60 m^3 at 40 degC
-through 100 m of NPS 2 Sch 40 (ID 52.48 mm [1]) under 50 mm of insulation of 0.04 W/(m K), traced
-at 100 W/m to a 45 degC setpoint, into the top of a tank; still air at 20 degC.
+The oil transfer of ``scenario.examples`` (the oil line, ID 52.48 mm [1], traced at 100 W/m to
+45 degC; a PD pump without slip, 0.25 L/rev at 300 rpm: 4.5 m^3/h, from a 5 m tank holding 60 m^3 at
+40 degC into the top of a tank).
 Pushing the cold contents out starts at once at the pump's 4.5 m^3/h, so the whole transfer is the
 10 h that 45 m^3 take, and the pump's energy is the 37.7 MJ worked out by hand in
 ``transfer.timeline`` (Hagen-Poiseuille [2] and hydrostatics):

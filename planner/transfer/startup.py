@@ -11,10 +11,9 @@ volume; at each position the discharge line is marched as a warm head and a cold
 
 Examples
 --------
-An oil of 1 Pa s at every temperature (Andrade a = b = 0), 900 kg/m^3, 2000 J/(kg K), moved by a
-PD pump without slip (0.25 L/rev at 300 rpm: 4.5 m^3/h) from a 5 m tank holding 60 m^3 at 40 degC
-through 100 m of NPS 2 Sch 40 (ID 52.48 mm [1]) under 50 mm of insulation of 0.04 W/(m K), traced
-at 100 W/m to a 45 degC setpoint, into the top of a tank; still air at 20 degC.
+The oil transfer of ``scenario.examples`` (the oil line, ID 52.48 mm [1], traced at 100 W/m to
+45 degC; a PD pump without slip, 0.25 L/rev at 300 rpm: 4.5 m^3/h, from a 5 m tank holding 60 m^3 at
+40 degC into the top of a tank).
 Pre-warm from 10 degC to the setpoint less the 1 K margin (44 degC): a lumped metre [3] with
 C = 6558 J/(m K) (``transients.heat_capacity_per_metre``), the heater's 100 W/m and the loss of the
 reference recipe (U = 0.2262 W/(m K), see ``heat_path.jacket_temperature``) takes

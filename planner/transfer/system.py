@@ -40,10 +40,9 @@ class TransferSystem:
 
     Examples
     --------
-    An oil of 1 Pa s at every temperature (Andrade a = b = 0), 900 kg/m^3, 2000 J/(kg K), moved by a
-    PD pump without slip (0.25 L/rev at 300 rpm: 4.5 m^3/h) from a 5 m tank holding 60 m^3 at 40 degC
-    through 100 m of NPS 2 Sch 40 (ID 52.48 mm [1]) under 50 mm of insulation of 0.04 W/(m K), traced
-    at 100 W/m to a 45 degC setpoint, into the top of a tank; still air at 20 degC.
+    The oil transfer of ``scenario.examples`` (the oil line, ID 52.48 mm [1], traced at 100 W/m to
+    45 degC; a PD pump without slip, 0.25 L/rev at 300 rpm: 4.5 m^3/h, from a 5 m tank holding 60 m^3 at
+    40 degC into the top of a tank).
     The pump delivers its displacement x speed, 1.25e-3 m^3/s (4.5 m^3/h); the discharge route is laminar
     (Re = 27) so its drop is Hagen-Poiseuille's 128 mu L Q / (pi D^4) = 6.714 bar [2] plus the
     developing entrance's K(inf) = 1.25 velocity heads, 0.0019 bar [3]: 6.716 bar; the pump inlet has

@@ -7,10 +7,9 @@ the destination level rises, and tracing, pump and vessel heating draw power.
 
 Examples
 --------
-An oil of 1 Pa s at every temperature (Andrade a = b = 0), 900 kg/m^3, 2000 J/(kg K), moved by a
-PD pump without slip (0.25 L/rev at 300 rpm: 4.5 m^3/h) from a 5 m tank holding 60 m^3 at 40 degC
-through 100 m of NPS 2 Sch 40 (ID 52.48 mm [1]) under 50 mm of insulation of 0.04 W/(m K), traced
-at 100 W/m to a 45 degC setpoint, into the top of a tank; still air at 20 degC.
+The oil transfer of ``scenario.examples`` (the oil line, ID 52.48 mm [1], traced at 100 W/m to
+45 degC; a PD pump without slip, 0.25 L/rev at 300 rpm: 4.5 m^3/h, from a 5 m tank holding 60 m^3 at
+40 degC into the top of a tank).
 At a constant 4.5 m^3/h the 45 m^3 take 10 h; the pump differential is the line's 6.714 bar [2] less
 the tank's head, which falls from 3.056 m to 0.764 m (mean 16.86 kPa), so the motor draws
 1.25e-3 x 6.546e5 / (0.85 x 0.92) = 1046 W for 10 h: 37.7 MJ (by hand):
