@@ -104,16 +104,27 @@ class TransferSystem:
         plugged._slopes = dict((slopes_from or self)._slopes)
         return plugged
 
-    def _warm_solve(self, kind: str, function, high: float, guess: float | None, ftol: float = 0.0) -> float | None:
+    def _warm_solve(self, kind: str, function, high: float, guess: float | None, ftol: float = 0.0,
+                    cold: bool = False) -> float | None:
+        """Secant iteration from a guess (the previous timeline step), using the slope remembered from
+        the last solve of the same kind.  ``cold``: a start without a guess (``guess`` is then the top
+        of the range), whose system may be another than the last solve's (cold contents): it starts
+        with no slope and leaves its slope only where none is kept.  None when it does not settle
+        inside (0, high]: the caller then brackets from scratch."""
         if self.plug is not None:
             kind += "/plug"  # the system with a cold plug in the line has a slope of its own
-        """Secant iteration from a guess (the previous timeline step), using the slope remembered from
-        the last solve of the same kind.  None when it does not settle inside (0, high]: the caller
-        then brackets from scratch."""
         if guess is None or not 0.0 < guess <= high:
             return None
+        slopes = self._slopes
+
+        def keep(value: float) -> None:
+            if cold:
+                slopes.setdefault(kind, value)   # a start's slope starts the runs after it
+            else:
+                slopes[kind] = value
+
         q0, f0 = guess, function(guess)
-        slope = self._slopes.get(kind)
+        slope = None if cold else slopes.get(kind)
         if slope and abs(f0 / slope) <= GUESS_TOLERANCE * q0:
             # the guess (extrapolated by the caller) already satisfies the tolerance; a Newton step
             # past it is a better estimate of the root for the caller's next extrapolation
@@ -126,7 +137,7 @@ class TransferSystem:
             f1 = function(q1)
             if abs(q1 - q0) <= 2e-5 * q1 or abs(f1) <= ftol:
                 if f1 != f0:
-                    self._slopes[kind] = (f1 - f0) / (q1 - q0)
+                    keep((f1 - f0) / (q1 - q0))
                     self._root_estimate = q1 - f1 * (q1 - q0) / (f1 - f0)
                 return q1
             if f1 == f0:
@@ -135,7 +146,7 @@ class TransferSystem:
             if abs(f1 / slope) <= GUESS_TOLERANCE * q1:
                 # the secant's next step would move less than the tolerance: q1 is the answer (the
                 # same acceptance as for a guess), the step past it the caller's root estimate
-                self._slopes[kind] = slope
+                keep(slope)
                 self._root_estimate = q1 - f1 / slope
                 return q1
             q0, f0, q1 = q1, f1, q1 - f1 / slope
@@ -285,7 +296,10 @@ class TransferSystem:
                     self._last_relief_flow = q_relief
                     return self._relief_point(q_relief, point, delivered, relief, mu, speed)
         self._last_relief_flow = None
-        q = self._warm_solve("pd", residual, q_theoretical, guess, ftol=1e-7 * q_theoretical)
+        # no guess (a start): the secant from the displacement, where a PD pump's line meets it
+        # nearly (slip is a small share); bracketing only where that does not settle
+        q = self._warm_solve("pd", residual, q_theoretical, q_theoretical if guess is None else guess,
+                             ftol=1e-7 * q_theoretical, cold=guess is None)
         bracket = None if q is not None else bracket_down(residual, q_theoretical, guess)
         if q is None and bracket is None:
             q_low = q_theoretical * MIN_FLOW_FRACTION
@@ -299,7 +313,8 @@ class TransferSystem:
         mu = self._viscosity_at_pump(point, state)
         dp = point.pump_differential
         if relief is not None and dp > relief:
-            q_relief = self._warm_solve("relief", over_relief, q, guess, ftol=20.0)
+            q_relief = self._warm_solve("relief", over_relief, q, q if guess is None else guess, ftol=20.0,
+                                        cold=guess is None)
             if q_relief is None:
                 low = bracket_down(over_relief, q, None)
                 if low is None:
@@ -342,7 +357,9 @@ class TransferSystem:
         status = "ok"
         warm = None
         if spec.control == "fixed_speed":
-            warm = self._warm_solve("centrifugal", lambda x: -head_gap(x), q_max, guess, ftol=1e-4)
+            cold = guess is None and head_gap(q_max) <= 0.0   # a start: the secant down from the curve's end
+            warm = self._warm_solve("centrifugal", lambda x: -head_gap(x), q_max, q_max if cold else guess,
+                                    ftol=1e-4, cold=cold)
         if warm is not None:
             q = warm
             message = Sentence("pump and line agree at {q}", q=Q(q, "volume_flow"))
