@@ -96,11 +96,11 @@ def evaluate(s: SegmentConstants, mass_flow: float, start: WarmStart, t_eval: fl
     if s.newtonian:
         mu = k_prod
         re = rho * velocity * d / mu
-        f = darcy_friction(re, s.relative_roughness)
         # laminar: the stretch's mean apparent factor of the hydrodynamic entrance (Shah 1978), which
-        # starts where the thermal entrance does; 64/Re far from it
-        f_drop = darcy_laminar_developing(re, from_d, to_d) if re <= RE_LAMINAR_MAX else f
-        grad_friction = f_drop * rho * velocity * velocity / (2.0 * d)
+        # starts where the thermal entrance does; 64/Re far from it (the laminar film takes no factor)
+        f = darcy_laminar_developing(re, from_d, to_d) if re <= RE_LAMINAR_MAX else \
+            darcy_friction(re, s.relative_roughness)
+        grad_friction = f * rho * velocity * velocity / (2.0 * d)
     else:
         product = s.product
         flow_nn = pipe_flow_non_newtonian(rho, velocity, d, k_prod, product.flow_index, product.yield_stress)

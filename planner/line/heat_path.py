@@ -53,7 +53,7 @@ class HeatPath:
     the surface resistance kept by jacket temperature."""
 
     __slots__ = ("seg", "heater", "t_ambient", "wall_resistance", "has_layers", "buried", "soil_resistance",
-                 "film_area", "viscosity", "newtonian", "_surface", "_entrance")
+                 "film_area", "viscosity", "newtonian", "_surface", "_entrance", "_walls")
 
     def __init__(self, seg: LineSegment, heater: Heater | None, viscosity=None, newtonian: bool = True,
                  kept: dict | None = None):
@@ -71,6 +71,7 @@ class HeatPath:
         self.viscosity = viscosity
         self.newtonian = newtonian
         self._surface, self._entrance = ({}, {}) if kept is None else kept.setdefault(self.key(), ({}, {}))
+        self._walls: dict = {}   # (wall temperature, tolerance) -> (jacket, loss) of ``jacket_temperature``
 
     def key(self) -> tuple:
         """What the kept values depend on: the path's make-up, surroundings and heating (not its length)."""
@@ -127,15 +128,6 @@ class WarmStart:
         self.at = self.wall_rate = self.jacket_rate = 0.0
         self.wall_full = self.jacket_full = self.full_at = None
 
-    def guess(self, at: float) -> tuple[float, float]:
-        """(wall, jacket) [K] to start from at ``at`` [m]: the last solution moved along its trend,
-        each by at most 1 K."""
-        ahead = at - self.at
-        drift = self.wall_rate * ahead
-        t_wall = self.t_wall + (1.0 if drift > 1.0 else (-1.0 if drift < -1.0 else drift))
-        drift = self.jacket_rate * ahead
-        return t_wall, self.t_jacket + (1.0 if drift > 1.0 else (-1.0 if drift < -1.0 else drift))
-
     def learn(self, at: float) -> None:
         """A step's midpoint was settled at ``at`` [m]: the next warm start follows the trend of the
         converged wall and jacket along the line."""
@@ -170,7 +162,11 @@ def settle(path: HeatPath, start: WarmStart, t_bulk: float, viscous: float, at: 
             g_inner = 1.0 / (1.0 / (h_in * film_area) + wall_r)
     else:
         newtonian = False
-    t_wall, t_jacket = start.guess(at)
+    ahead = at - start.at   # the last solution moved along its trend by at most 1 K each
+    drift = start.wall_rate * ahead
+    t_wall = start.t_wall + (1.0 if drift > 1.0 else (-1.0 if drift < -1.0 else drift))
+    drift = start.jacket_rate * ahead
+    t_jacket = start.t_jacket + (1.0 if drift > 1.0 else (-1.0 if drift < -1.0 else drift))
     mu_wall, mu_wall_at = start.mu_wall, start.mu_wall_at
     r_ins, ins_at, r_surf, surf_at = start.r_insulation, start.insulation_at, start.r_surface, start.surface_at
     heater = path.heater
@@ -282,9 +278,13 @@ def jacket_temperature(seg: LineSegment, t_wall: float, tolerance: float = 1e-3)
     path = seg.__dict__.get("_outward_path")
     if path is None:   # kept on the segment: pre-warm and hold ask it at many wall temperatures
         path = seg.__dict__["_outward_path"] = HeatPath(seg, None)
-    start = _fresh_start(path, t_wall)
-    _, _, _, q_out, _, _ = settle(path, start, t_wall, 0.0, 0.0, None, RIGID_CONDUCTANCE, tolerance)
-    return start.t_jacket, q_out
+    key = (t_wall, tolerance)
+    known = path._walls.get(key)   # hold integrates each cool-down twice from one start: the same walls
+    if known is None:
+        start = _fresh_start(path, t_wall)
+        _, _, _, q_out, _, _ = settle(path, start, t_wall, 0.0, 0.0, None, RIGID_CONDUCTANCE, tolerance)
+        known = path._walls[key] = (start.t_jacket, q_out)
+    return known
 
 
 def _fresh_start(path: HeatPath, t: float) -> WarmStart:
