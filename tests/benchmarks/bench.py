@@ -304,6 +304,30 @@ def _line_of_length(length_m: float):
     return scenario_from_dict(data)
 
 
+def _plan_work(scenario) -> tuple[int, int]:
+    """(marches, march steps) of one plan of ``scenario``, counted by wrapping the march where the
+    plan's modules call it (outside any timing)."""
+    import planner.line.march as march_module
+    import planner.transfer.system as system_module
+    from planner.transfer.plan import make_plan
+
+    counts = [0, 0]
+    original = march_module.march
+
+    def counted(*args, **kwargs):
+        result = original(*args, **kwargs)
+        counts[0] += 1
+        counts[1] += result.summary.steps
+        return result
+
+    march_module.march = system_module.march = counted
+    try:
+        make_plan(scenario)
+    finally:
+        march_module.march = system_module.march = original
+    return counts[0], counts[1]
+
+
 def _median_time(fn, repeats: int) -> float:
     times = []
     for _ in range(repeats):
@@ -363,6 +387,9 @@ def case_engine(args) -> dict:
         unit = "x faster than one reference march" if sense == ">=" else "reference marches"
         lines.append(f"   {name:24s} median {median:8.2f} (range {values_[0]:.2f}-{values_[-1]:.2f}) {unit}; "
                      f"goal {sense} {goal:g}: {'met' if met else 'NOT met'}")
+    work = {name: _plan_work(scenario) for name, scenario in demos.items()}
+    figures["plan_work"] = {name: {"marches": m, "steps": n} for name, (m, n) in work.items()}
+    lines.append("   work per plan: " + "; ".join(f"{name} {m} marches, {n} steps" for name, (m, n) in work.items()))
     figures["report_lines"] = lines
     return figures
 
