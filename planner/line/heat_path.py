@@ -154,23 +154,19 @@ def settle(path: HeatPath, start: WarmStart, t_bulk: float, viscous: float, at: 
     seg, t_amb, wall_r, has_layers, film_area = path.seg, path.t_ambient, path.wall_resistance, path.has_layers, \
         path.film_area
     ratio, h_in = 1.0, 0.0
+    newtonian = film is not None and path.newtonian
     if film is not None:
         (nu_lam, nu_turb, weight), k_over_d, mu = film
-        newtonian = path.newtonian
         if not newtonian:
             h_in = (nu_lam + weight * (nu_turb - nu_lam)) * k_over_d
             g_inner = 1.0 / (1.0 / (h_in * film_area) + wall_r)
-    else:
-        newtonian = False
     ahead = at - start.at   # the last solution moved along its trend by at most 1 K each
-    drift = start.wall_rate * ahead
+    drift, jacket_drift = start.wall_rate * ahead, start.jacket_rate * ahead
     t_wall = start.t_wall + (1.0 if drift > 1.0 else (-1.0 if drift < -1.0 else drift))
-    drift = start.jacket_rate * ahead
-    t_jacket = start.t_jacket + (1.0 if drift > 1.0 else (-1.0 if drift < -1.0 else drift))
+    t_jacket = start.t_jacket + (1.0 if jacket_drift > 1.0 else (-1.0 if jacket_drift < -1.0 else jacket_drift))
     mu_wall, mu_wall_at = start.mu_wall, start.mu_wall_at
     r_ins, ins_at, r_surf, surf_at = start.r_insulation, start.insulation_at, start.r_surface, start.surface_at
-    heater = path.heater
-    balance = heater.balance if heater is not None else None
+    balance = path.heater.balance if path.heater is not None else None
     x_prev = r_prev = None
     for _ in range(MAX_ITERATIONS):
         if newtonian:
@@ -200,9 +196,8 @@ def settle(path: HeatPath, start: WarmStart, t_bulk: float, viscous: float, at: 
         new_jacket = wall.t_wall - q_out * r_ins
         residual = wall.t_wall - t_wall
         if has_layers:
-            # the wall is exact for the G_in and G_out it was solved with: what is left of the wall
-            # guess's error is its effect through the film's (mu/mu_w)^0.14 (and, faintly, the
-            # insulation's k at the mean temperature)
+            # the wall is exact for the G_in and G_out it was solved with: what is left of the wall guess's
+            # error is its effect through the film's (mu/mu_w)^0.14 (and, faintly, the insulation's k(T))
             change = abs(new_jacket - t_jacket) + abs(residual) * (0.14 * abs(math.log(ratio)) + 0.02)
         else:
             change = abs(new_jacket - t_jacket) + abs(residual)   # bare: the outside h follows the wall

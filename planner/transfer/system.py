@@ -117,11 +117,8 @@ class TransferSystem:
             return None
         slopes = self._slopes
 
-        def keep(value: float) -> None:
-            if cold:
-                slopes.setdefault(kind, value)   # a start's slope starts the runs after it
-            else:
-                slopes[kind] = value
+        def keep(value: float) -> None:   # a start's slope only starts the runs after it
+            slopes[kind] = slopes.get(kind, value) if cold else value
 
         q0, f0 = guess, function(guess)
         slope = None if cold else slopes.get(kind)
