@@ -92,12 +92,12 @@ class WeatherProfile:
 
     def clock(self, elapsed_s: float) -> str:
         """The local clock time ``HH:MM`` at ``elapsed_s`` ("" without a start); a later day is marked
-        ``(+1 d)``."""
+        "on day 2"."""
         if self.start is None or not math.isfinite(elapsed_s):
             return ""
         local = self.start + timedelta(seconds=round(elapsed_s / 60.0) * 60.0)
         days = (local.date() - self.start.date()).days
-        return local.strftime("%H:%M") + (f" (+{days} d)" if days else "")
+        return local.strftime("%H:%M") + (f" on day {days + 1}" if days else "")
 
     def when(self, elapsed_s: float):
         """A moment in a sentence: "at 03:40" with a start, else "after 5.2 h"."""
