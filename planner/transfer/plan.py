@@ -49,6 +49,9 @@ from planner.transfer.vessels import coil_steam_pressure
 from planner.transfer.weather import WeatherProfile, line_start_default, weather_profile, weathered
 
 J_PER_KWH = 3.6e6
+# the start-up is worked out at the weather of its coldest moment; that moment depends on how long it takes,
+# so it is found again from the new duration, at most this many times in all (planner choice)
+STARTUP_WEATHER_PASSES = 3
 
 
 @dataclass(frozen=True)
@@ -306,16 +309,17 @@ def _start(system: TransferSystem, scenario: Scenario) -> tuple[tuple, dict]:
 
 def _startup_in_weather(base: TransferSystem, weather, line_start: float, both_startups: bool):
     """The start and the start-up at the weather of the plan's start, then again at the coldest moment of
-    that start-up (a pre-warm or push-out runs through the hours it takes): (system, start, running, the
-    start-up, the moment [s] whose weather it took)."""
+    the hours that start-up takes (a pre-warm or push-out runs through them), until that moment's weather
+    state stays the same (at most ``STARTUP_WEATHER_PASSES`` in all): (system, start, running, the start-up,
+    the moment [s] whose weather it took)."""
     mode = base.scenario.schedule.start_mode
     at = 0.0
-    for _ in range(2):
+    for attempt in range(STARTUP_WEATHER_PASSES):
         system = weathered(base, *weather.state(at))
         start, running = _start(system, base.scenario)
         up = _startup(system, start[0], line_start, mode, both_startups)
         later = weather.coldest_between(0.0, up[3] or 0.0)
-        if weather.state(later) == weather.state(at):
+        if attempt == STARTUP_WEATHER_PASSES - 1 or weather.state(later) == weather.state(at):
             break
         at = later
     return system, start, running, up, at

@@ -54,6 +54,7 @@ class WeatherProfile:
     source: str = "table"                 # "table" or "design_day"
     coldest_k: float | None = None
     warmest_k: float | None = None
+    reference: tuple = (273.15, 0.0)      # the site's ambient [K] and wind [m/s]: the states count from them
 
     def at(self, elapsed_s: float) -> tuple[float, float]:
         """(ambient [K], wind [m/s]) at ``elapsed_s`` from the start."""
@@ -72,10 +73,12 @@ class WeatherProfile:
                 self.wind_m_s[i - 1] + w * (self.wind_m_s[i] - self.wind_m_s[i - 1]))
 
     def state(self, elapsed_s: float) -> tuple[float, float]:
-        """The weather state at ``elapsed_s``: ambient and wind rounded to the kept steps."""
+        """The weather state at ``elapsed_s``: ambient and wind rounded to the kept steps, counted from the
+        site's (``reference``), so weather at the site's own values gives exactly the site's lines."""
         ambient, wind = self.at(elapsed_s)
-        return (round(round(ambient / AMBIENT_STEP_K) * AMBIENT_STEP_K, 6),
-                round(round(wind / WIND_STEP_M_S) * WIND_STEP_M_S, 6))
+        ambient_0, wind_0 = self.reference
+        return (ambient_0 + round((ambient - ambient_0) / AMBIENT_STEP_K) * AMBIENT_STEP_K,
+                max(0.0, wind_0 + round((wind - wind_0) / WIND_STEP_M_S) * WIND_STEP_M_S))
 
     def _knots(self, t0: float, t1: float) -> list[float]:
         if self.source == "design_day":
@@ -125,10 +128,12 @@ def weather_profile(scenario: Scenario) -> WeatherProfile | None:
     if weather.profile == "design_day":
         coldest = weather.coldest_temperature or site.design_ambient_temperature or site.ambient_temperature
         warmest = weather.warmest_temperature or site.ambient_temperature
-        return WeatherProfile((0.0,), (coldest,), (site.wind_speed,), start, "design_day", coldest, warmest)
+        return WeatherProfile((0.0,), (coldest,), (site.wind_speed,), start, "design_day", coldest, warmest,
+                              (site.ambient_temperature, site.wind_speed))
     rows = weather.hours
     return WeatherProfile(tuple(row_seconds(r, start) for r in rows), tuple(r.ambient_temperature for r in rows),
-                          tuple(site.wind_speed if r.wind_speed is None else r.wind_speed for r in rows), start)
+                          tuple(site.wind_speed if r.wind_speed is None else r.wind_speed for r in rows), start,
+                          reference=(site.ambient_temperature, site.wind_speed))
 
 
 def line_start_default(profile: WeatherProfile) -> float:
