@@ -329,3 +329,28 @@ def test_cli_text_json_and_us_units_with_a_weather_file():
     code, out, _ = run("plan", BARGE, "--json")          # without weather: the site's ambient in every row
     assert set(json.loads(out)["timeline"]["arrays"]["ambient_temperature_k"]) == {278.15}
     assert json.loads(out)["weather"] is None
+
+
+def test_the_work_budget_counts_the_start_up_worked_out_again(monkeypatch):
+    """The estimate of a plan with weather (``budget.plan_passes(..., weather=True)``) is at least the passes
+    its marches really make (counted, as ``tests/test_budget.py`` counts the demos')."""
+    import planner.line.march as march_module
+    import planner.transfer.hold as hold
+    import planner.transfer.startup as startup
+    import planner.transfer.system as system
+    from planner.scenario import budget
+
+    counted = {"passes": 0}
+    original = march_module.march
+
+    def counting(*args, **kwargs):
+        counted["passes"] += 1
+        return original(*args, **kwargs)
+
+    for module in (march_module, system, startup, hold):
+        if hasattr(module, "march"):
+            monkeypatch.setattr(module, "march", counting)
+    scenario = with_weather_file(load_scenario(BARGE), NIGHT)
+    make_plan(scenario)
+    assert counted["passes"] <= budget.plan_passes(scenario.schedule.timeline_steps, weather=True)
+    assert budget.plan_steps(scenario) > budget.plan_steps(load_scenario(BARGE))

@@ -128,6 +128,9 @@ def with_weather_file(scenario: Scenario, path: str | Path) -> Scenario:
     problems = weather_problems(changed)
     if problems:
         raise ScenarioError([_at_line(p.removeprefix("weather."), m, path.name, lines) for p, m in problems])
+    from planner.scenario.budget import check_plan
+
+    check_plan(changed)       # the start-up worked out again at the weather costs passes: the budget counts them
     return changed
 
 

@@ -38,6 +38,7 @@ from planner.errors import ComputationError, ScenarioError
 from planner.transfer.hold import Hold, hold_analysis
 from planner.line.march import DEFAULT_STEP_M, MarchResult
 from planner.line.products import scenario_product
+from planner.scenario.budget import STARTUP_WEATHER_PASSES
 from planner.scenario.quantities import SI
 from planner.scenario.wording import Q, Sentence
 from planner.scenario.schema import Scenario, problems_from
@@ -49,9 +50,6 @@ from planner.transfer.vessels import coil_steam_pressure
 from planner.transfer.weather import WeatherProfile, line_start_default, weather_profile, weathered
 
 J_PER_KWH = 3.6e6
-# the start-up is worked out at the weather of its coldest moment; that moment depends on how long it takes,
-# so it is found again from the new duration, at most this many times in all (planner choice)
-STARTUP_WEATHER_PASSES = 3
 
 
 @dataclass(frozen=True)
