@@ -214,7 +214,8 @@ def test_each_increment_takes_the_weather_of_its_hour_and_the_vessel_cools_in_it
     arrays = plan.timeline.arrays
     weather = plan.weather
     for t, ambient, wind in zip(arrays["time_s"], arrays["ambient_temperature_k"], arrays["wind_speed_m_s"]):
-        assert (ambient, wind) == weather.state(plan.startup_time_s + t)
+        assert (ambient, wind) == weather.state(plan.transfer_at_s + t)
+    assert plan.transfer_at_s == plan.startup_time_s
     assert min(arrays["ambient_temperature_k"]) < max(arrays["ambient_temperature_k"]) - 3.0
     # lines per weather state, none sharing a segment object with another (no kept value reused)
     variants = list(plan.system.weathered.values())

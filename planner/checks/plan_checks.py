@@ -251,7 +251,7 @@ def check_startup(plan: Plan) -> list[Finding]:
     if not plan.timeline.completed:
         stopped = Sentence("after {v}: {why}", v=Q(plan.timeline.moved_m3, "volume"), why=plan.timeline.stop_reason)
         if plan.weather is not None:
-            at = (plan.startup_time_s or 0.0) + plan.timeline.total_time_s
+            at = plan.transfer_at_s + plan.timeline.total_time_s
             stopped = Sentence("{when}, after {v} ({w}): {why}", when=plan.when(at), v=Q(plan.timeline.moved_m3, "volume"),
                                w=weather_note(plan, at, "in the weather"), why=plan.timeline.stop_reason)
         out.append(Finding("TRANSFER-STOPS", "stop", "Transfer cannot finish", stopped,

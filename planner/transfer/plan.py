@@ -137,6 +137,7 @@ class Plan:
     startup_at_s: float = 0.0               # the moment [s from the start] whose weather the start-up took
     coldest_at_s: float = 0.0               # the coldest moment of the plan: the tracing's capacity
     stop_at_s: float = 0.0                  # the coldest moment of the transfer: the stop checked there
+    transfer_at_s: float = 0.0              # when the transfer's timeline begins (after the start-up)
 
     def when(self, elapsed_s: float):
         """A moment of the plan in a sentence: "at 03:40" (with ``schedule.start``), else "after 5.2 h"."""
@@ -268,13 +269,14 @@ def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | No
         start, running = _start(base, scenario)
         timeline = run_transfer(base, steps=steps, first_guess=start[0].flow if start[0].moving else None)
         up = _startup(base, start[0], line_start, scenario.schedule.start_mode, both_startups)
-        system, startup_at, coldest_at, stop_at = base, 0.0, 0.0, 0.0
+        system, startup_at, coldest_at, stop_at, begins = base, 0.0, 0.0, 0.0, 0.0
     else:
         system, start, running, up, startup_at = _startup_in_weather(base, weather, line_start, both_startups)
+        begins = _startup_hours(up)       # the transfer's clock: after the start-up
         timeline = run_transfer(base, steps=steps, first_guess=start[0].flow if start[0].moving else None,
-                                weather=weather, clock_s=up[3] or 0.0)
-        coldest_at = weather.coldest_between(0.0, (up[3] or 0.0) + timeline.total_time_s)
-        stop_at = weather.coldest_between(up[3] or 0.0, (up[3] or 0.0) + timeline.total_time_s)
+                                weather=weather, clock_s=begins)
+        coldest_at = weather.coldest_between(0.0, begins + timeline.total_time_s)
+        stop_at = weather.coldest_between(begins, begins + timeline.total_time_s)
     warm, cold, after_prewarm, startup_time = up
     mode = scenario.schedule.start_mode
     hold = hold_analysis(system if weather is None else weathered(base, *weather.state(stop_at)), running)
@@ -282,7 +284,7 @@ def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | No
     total = None if startup_time is None or not timeline.completed else startup_time + timeline.total_time_s
     return Plan(scenario, start[0], start[1], timeline, warm, cold, mode, startup_time, line_start, hold,
                 energy, costs, total, viscosity_factor, start[2], system, after_prewarm, weather, startup_at, coldest_at,
-                stop_at)
+                stop_at, begins)
 
 
 def _start(system: TransferSystem, scenario: Scenario) -> tuple[tuple, dict]:
@@ -316,11 +318,20 @@ def _startup_in_weather(base: TransferSystem, weather, line_start: float, both_s
         system = weathered(base, *weather.state(at))
         start, running = _start(system, base.scenario)
         up = _startup(system, start[0], line_start, mode, both_startups)
-        later = weather.coldest_between(0.0, up[3] or 0.0)
+        later = weather.coldest_between(0.0, _startup_hours(up))
         if attempt == STARTUP_WEATHER_PASSES - 1 or weather.state(later) == weather.state(at):
             break
         at = later
     return system, start, running, up, at
+
+
+def _startup_hours(up) -> float:
+    """How long the start-up runs [s]: its time, or where it cannot be completed, the pre-warm's own time
+    (contents stuck in a gap after it) or 0."""
+    warm, startup_time = up[0], up[3]
+    if startup_time is not None:
+        return startup_time
+    return warm.time_s if warm.possible and warm.time_s is not None and math.isfinite(warm.time_s) else 0.0
 
 
 def _startup(system: TransferSystem, start: OperatingPoint, line_start: float, mode: str, both_startups: bool):
