@@ -355,3 +355,15 @@ def test_the_work_budget_counts_the_start_up_worked_out_again(monkeypatch):
     make_plan(scenario)
     assert counted["passes"] <= budget.plan_passes(scenario.schedule.timeline_steps, weather=True)
     assert budget.plan_steps(scenario) > budget.plan_steps(load_scenario(BARGE))
+
+
+def test_start_up_findings_say_the_weather_they_took():
+    data = scenario_to_dict(load_scenario(BARGE))
+    trestle = [s for s in data["route"]["segments"] if s["name"] == "Jetty trestle line"][0]
+    trestle["untraced_length"] = 4.0          # a 4 m bare gap sets the residual fuel in it during the pre-warm
+    data["schedule"]["start"] = "2026-01-14T18:00+01:00"
+    plan = make_plan(with_weather_file(scenario_from_dict(data), NIGHT))
+    stuck = {f.code: f for f in assess(plan)}["PREWARM-CONTENTS-STUCK"]
+    clock = plan.weather.clock(plan.startup_at_s)
+    assert plan.startup_at_s > 3600.0 and f"(in the start-up's weather at {clock}: " in stuck.message, stuck.message
+    assert "°F" in stuck.message.render("US") and "°C" not in stuck.message.render("US")

@@ -22,6 +22,11 @@ ambient is -3.5 degC and the wind 2.5 m/s (linear interpolation); after the last
 >>> weather = WeatherProfile((0.0, 43200.0), (271.15, 265.15), (3.0, 1.0), datetime.fromisoformat("2026-01-14T18:00+01:00"))
 >>> [round(v, 2) for v in weather.at(10800.0)], weather.at(90000.0), weather.clock(10800.0)
 ([269.65, 2.5], (265.15, 1.0), '21:00')
+
+References
+----------
+[1] ASHRAE Handbook - Fundamentals, chapter 14 "Climatic Design Information", table "Fraction of Daily
+    Temperature Range" (2009 and 2013 editions) [mem]: the design day's shape.
 """
 
 from __future__ import annotations
