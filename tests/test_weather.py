@@ -129,6 +129,8 @@ def test_design_day_profile_follows_the_clock_of_the_start():
      "wrong dimension"),
     ({"hours": [{"time": "3 furlongs", "ambient_temperature": 0}]}, {}, "weather.hours[0].time", ""),
     ({"hours": [{"time": 1e9, "ambient_temperature": 0}]}, {}, "weather.hours[0].time", "within 60 days"),
+    ({"hours": [{"time": "nan", "ambient_temperature": 0}]}, {}, "weather.hours[0].time", "not a finite time"),
+    ({"hours": [{"time": True, "ambient_temperature": 0}]}, {}, "weather.hours[0].time", "give hours from the start"),
     ({"profile": "design_day"}, {}, "schedule.start", "hour of day"),
     ({"profile": "design_day", "coldest_temperature": 5, "warmest_temperature": 0}, {"start": "2026-01-14T18:00Z"},
      "weather", "coldest_temperature is above"),
@@ -152,6 +154,9 @@ def test_timestamps_count_from_the_start():
         {"time": "2026-01-15T00:30+01:00", "ambient_temperature": "28.4 degF", "wind_speed": "10 mph"}]})
     weather = weather_profile(scenario)
     assert weather.times_s == (0.0, 6.5 * 3600)
+    quoted_hours = scenario_with(SYRUP, weather={"hours": [{"time": "2.5", "ambient_temperature": 0},
+                                                           {"time": "150.5 min", "ambient_temperature": 0}]})
+    assert weather_profile(quoted_hours).times_s == (9000.0, 9030.0)       # a bare number is hours, quoted or not
     assert weather.ambient_k[1] == pytest.approx(271.15, abs=1e-9)            # 28.4 degF = -2 degC (NIST SP 811)
     assert weather.wind_m_s == (scenario.site.wind_speed, pytest.approx(4.4704))   # 1 mph = 0.44704 m/s exactly
 

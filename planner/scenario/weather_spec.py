@@ -61,13 +61,20 @@ class WeatherHour(_Model):
             if _looks_like_timestamp(value):
                 timestamp(value, "time")
                 return value.strip()
+            try:                      # a bare number, even in quotes, is hours (as a plain number is)
+                value = float(value)
+            except ValueError:
+                pass
+        if isinstance(value, str):
             try:
                 seconds = to_si(value, "time", "time")
             except UnitError as exc:
                 raise ValueError(str(exc).removeprefix("time: ")) from None
         else:
             seconds = float(value) * 3600.0
-        if not math.isfinite(seconds) or abs(seconds) > MAX_WEATHER_OFFSET_S:
+        if not math.isfinite(seconds):
+            raise ValueError(f"{value!r} is not a finite time: give hours from the start, e.g. 2.5")
+        if abs(seconds) > MAX_WEATHER_OFFSET_S:
             raise ValueError(f"{value!r} is out of range: a row must lie within {MAX_WEATHER_OFFSET_S / 86400:.0f} "
                              "days of the start")
         return float(value) if not isinstance(value, str) else value.strip()
