@@ -34,6 +34,8 @@ TIMELINE_COLUMNS = [
     ("trace_power_w", "Trace power", "heat_rate"),
     ("source_level_m", "Source level", "length"),
     ("destination_level_m", "Destination level", "length"),
+    ("ambient_temperature_k", "Ambient temperature", "temperature"),
+    ("wind_speed_m_s", "Wind speed", "speed"),
 ]
 
 PUSH_COLD_COLUMNS = [

@@ -22,7 +22,6 @@ import csv
 import hashlib
 import io
 import math
-import re
 import tomllib
 from dataclasses import dataclass, field
 from datetime import datetime
@@ -31,6 +30,7 @@ from pathlib import Path
 import numpy as np
 
 from planner.errors import PlannerError, quoted
+from planner.scenario.columns import TIMESTAMP_UNITS, cell_number as _number, decode_text, delimiter_of as _delimiter, split_header
 from planner.scenario.units import ATMOSPHERE_PA, UnitError, to_si
 
 # quantity -> unit kind (planner.scenario.units)
@@ -64,8 +64,7 @@ MIN_ROWS = 5
 MAX_ROWS = 5000
 MAX_BYTES = 20_000_000
 MAX_COLUMN_MAP_BYTES = 100_000
-_HEADER = re.compile(r"^\s*([A-Za-z][A-Za-z0-9_ ]*?)\s*(?:\[(.*)\])?\s*$")
-_TIMESTAMP_UNITS = {"", "iso", "iso8601", "iso 8601", "timestamp"}
+_TIMESTAMP_UNITS = TIMESTAMP_UNITS
 
 
 class LogError(PlannerError):
@@ -163,17 +162,17 @@ def column_map_from_dict(data: dict, where: str = "column map") -> dict[str, str
 def _parse_header(text: str, where: str, strict: bool = False) -> tuple[str, str] | None:
     """(quantity, unit) of a ``quantity [unit]`` cell; None when it is not one of QUANTITIES
     (``strict``: a LogError instead)."""
-    match = _HEADER.match(text or "")
-    if not match:
+    parsed = split_header(text)
+    if parsed is None:
         if strict:
             raise LogError(f"{where}: {quoted(text)} does not read 'quantity [unit]', e.g. 'flow [m3/h]'")
         return None
-    quantity = match.group(1).strip().lower().replace(" ", "_")
+    quantity, unit = parsed
     if quantity not in QUANTITIES:
         if strict:
             raise LogError(f"{where}: unknown quantity {quoted(quantity, 40)}; quantities are {', '.join(QUANTITIES)}")
         return None
-    return quantity, (match.group(2) or "").strip()
+    return quantity, unit
 
 
 def _unit_map(quantity: str, unit: str, header: str) -> Column:
@@ -233,38 +232,8 @@ def _columns(header: list[str], column_map: dict[str, str] | None) -> tuple[dict
 
 
 def _decode(data: bytes) -> str:
-    """The log's text: UTF-16 when it starts with a UTF-16 byte-order mark (spreadsheets' "Unicode text"),
-    else UTF-8 (a byte-order mark dropped), else Windows-1252; binary data is refused."""
-    if data[:2] in (b"\xff\xfe", b"\xfe\xff"):
-        try:
-            return data.decode("utf-16")
-        except UnicodeDecodeError:
-            raise LogError("the log starts with a UTF-16 byte-order mark but is not UTF-16 text; export it as "
-                           "CSV (UTF-8)") from None
-    nul = data.find(b"\x00")
-    if nul >= 0:
-        raise LogError(f"the log is not a text CSV file (a NUL byte at byte {nul + 1:,}: binary data); export the "
-                       "log as CSV text")
-    for encoding in ("utf-8-sig", "cp1252"):
-        try:
-            return data.decode(encoding)
-        except UnicodeDecodeError:
-            continue
-    return data.decode("latin-1")
-
-
-def _delimiter(first_line: str) -> str:
-    counts = {d: first_line.count(d) for d in (",", ";", "\t")}
-    return max(counts, key=counts.get) if max(counts.values()) > 0 else ","
-
-
-def _number(cell: str, decimal_comma: bool = False) -> float:
-    if decimal_comma and "," in cell and "." not in cell:
-        cell = cell.replace(",", ".")
-    value = float(cell)
-    if not math.isfinite(value):
-        raise ValueError(cell)
-    return value
+    """The log's text (``scenario.columns.decode_text``); binary data is refused."""
+    return decode_text(data, "the log", LogError)
 
 
 def _read_row(cells: list[str], columns: dict[int, Column], decimal_comma: bool = False) -> tuple[dict[str, float], object]:

@@ -150,6 +150,9 @@ def temperature_bounds(plan: Plan) -> tuple[float, float]:
     cold += [seg.ambient_temperature for seg in segments]
     if scenario.site.design_ambient_temperature is not None:
         cold.append(scenario.site.design_ambient_temperature)
+    if plan.weather is not None:       # every ambient the plan's weather gave (the timeline's, the stop's)
+        cold += [float(a) for a in plan.timeline.arrays["ambient_temperature_k"]]
+        cold += [plan.weather.state(t)[0] for t in (plan.startup_at_s, plan.stop_at_s, plan.coldest_at_s)]
     hot = list(cold)
     if source.heating_power > 0.0:
         hot.append(saturation_temperature_gauge(coil_steam_pressure(scenario)) if source.heating_medium == "steam"

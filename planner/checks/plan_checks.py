@@ -18,6 +18,7 @@ from planner.line.heat_path import jacket_temperature
 from planner.scenario.wording import Q, Sentence
 from planner.transfer.plan import Plan
 from planner.transfer.vessels import destination_level
+from planner.transfer.weather import weathered
 
 
 def _profiles(plan: Plan) -> list[LineRun]:
@@ -117,7 +118,20 @@ def check_npsh(plan: Plan) -> list[Finding]:
 
 
 def check_surfaces(plan: Plan) -> list[Finding]:
-    return [f for run in _profiles(plan) for f in line_surfaces(plan.scenario, run)]
+    found = [f for run in _profiles(plan) for f in line_surfaces(plan.scenario, run)]
+    if plan.weather is not None:       # the start's profile took the weather of the start-up's moment
+        for f in found:
+            f.message = Sentence("{m} ({w})", m=f.message, w=weather_note(plan, plan.startup_at_s, "in the start's weather"))
+    return found
+
+
+def weather_note(plan: Plan, at_s: float, label: str = "in the weather") -> Sentence:
+    """Which weather a finding took: "in the weather at 03:40: -6.0 °C, wind 9.00 m/s" (without a
+    ``schedule.start``, "after 5.20 h"; at the plan's start nothing)."""
+    ambient, wind = plan.weather.state(at_s)
+    when = plan.when(at_s) if plan.weather.start is not None or at_s > 0.0 else ""
+    return Sentence("{label}{sep}{when}: {amb}, wind {w}", label=label, sep=" " if when else "", when=when,
+                    amb=_t(ambient), w=Q(wind, "speed"))
 
 
 def check_pressures(plan: Plan) -> list[Finding]:
@@ -187,6 +201,8 @@ def check_tracing_capacity(plan: Plan) -> list[Finding]:
     shift = design - scenario.site.ambient_temperature
     out = []
     system = plan.system
+    if plan.weather is not None:        # the weather of the plan's coldest moment, not the design ambient
+        system, shift = weathered(plan.system, *plan.weather.state(plan.coldest_at_s)), 0.0
     for name, line in ((SUCTION, system.suction_line), (DISCHARGE, system.discharge_line)):
         if line is None:
             continue
@@ -198,11 +214,17 @@ def check_tracing_capacity(plan: Plan) -> list[Finding]:
             _, loss = jacket_temperature(at_design, tracing.setpoint)
             capacity = heater.capacity(tracing.setpoint)
             if loss > capacity:
+                message = Sentence("at the design ambient {amb} the line loses {loss} at {t}, more than the tracing's {cap}",
+                                   amb=_t(at_design.ambient_temperature), loss=Q(loss, "linear_power"),
+                                   t=_t(tracing.setpoint), cap=Q(capacity, "linear_power"))
+                if plan.weather is not None:
+                    message = Sentence("at the plan's coldest hour, {when} ({amb}, wind {w}), the line loses {loss} at "
+                                       "{t}, more than the tracing's {cap}", when=plan.when(plan.coldest_at_s),
+                                       amb=_t(seg.ambient_temperature), w=Q(seg.wind_speed, "speed"),
+                                       loss=Q(loss, "linear_power"), t=_t(tracing.setpoint),
+                                       cap=Q(capacity, "linear_power"))
                 out.append(Finding(
-                    "TRACING-SHORT", "warning", "Tracing cannot hold the setpoint",
-                    Sentence("at the design ambient {amb} the line loses {loss} at {t}, more than the tracing's {cap}",
-                             amb=_t(at_design.ambient_temperature), loss=Q(loss, "linear_power"),
-                             t=_t(tracing.setpoint), cap=Q(capacity, "linear_power")),
+                    "TRACING-SHORT", "warning", "Tracing cannot hold the setpoint", message,
                     "Add insulation or heater output, or accept a lower maintain temperature in cold weather.",
                     name, seg.name, seg.x_start, loss, capacity, "linear_power"))
     return out
@@ -222,10 +244,17 @@ def check_startup(plan: Plan) -> list[Finding]:
     if plan.start_mode == "push_cold" and not plan.push_cold.possible:
         out.append(Finding("COLD-START-IMPOSSIBLE", "stop", "The cold contents cannot be pushed out",
                            plan.push_cold.message, "Pre-warm the line first."))
+    if plan.weather is not None:       # the start-up took the weather of one moment: say which
+        for f in out:
+            f.message = Sentence("{m} ({w})", m=f.message, w=weather_note(plan, plan.startup_at_s,
+                                                                          "in the start-up's weather"))
     if not plan.timeline.completed:
-        out.append(Finding("TRANSFER-STOPS", "stop", "Transfer cannot finish",
-                           Sentence("after {v}: {why}", v=Q(plan.timeline.moved_m3, "volume"),
-                                    why=plan.timeline.stop_reason),
+        stopped = Sentence("after {v}: {why}", v=Q(plan.timeline.moved_m3, "volume"), why=plan.timeline.stop_reason)
+        if plan.weather is not None:
+            at = plan.transfer_at_s + plan.timeline.total_time_s
+            stopped = Sentence("{when}, after {v} ({w}): {why}", when=plan.when(at), v=Q(plan.timeline.moved_m3, "volume"),
+                               w=weather_note(plan, at, "in the weather"), why=plan.timeline.stop_reason)
+        out.append(Finding("TRANSFER-STOPS", "stop", "Transfer cannot finish", stopped,
                            "Keep the source warm (heating coils) or raise the setpoint."))
     hours = lambda v: Q(v, "time")  # noqa: E731
     if plan.startup_time_s is not None and plan.startup_time_s > window:
@@ -249,17 +278,24 @@ def check_stops(plan: Plan) -> list[Finding]:
     hours = lambda v: Q(v, "time")  # noqa: E731
     out = []
     if hold.time_to_limit_traced_s is not None and hold.time_to_limit_traced_s < stop:
-        out.append(Finding("HOLD-SHORT", "warning", "A stop sets the line even with tracing on",
-                           Sentence("{seg} reaches its limit ({limit}, {why}) after {t}; planned stop {stop}",
-                                    seg=hold.first_to_set_traced, limit=_t(hold.limit_temperature_k),
-                                    why=hold.limit_reason, t=hours(hold.time_to_limit_traced_s), stop=hours(stop)),
+        message = Sentence("{seg} reaches its limit ({limit}, {why}) after {t}; planned stop {stop}",
+                           seg=hold.first_to_set_traced, limit=_t(hold.limit_temperature_k),
+                           why=hold.limit_reason, t=hours(hold.time_to_limit_traced_s), stop=hours(stop))
+        if plan.weather is not None:
+            message = _stop_in_weather(plan, Sentence("{seg} reaches its limit ({limit}, {why})",
+                                                      seg=hold.first_to_set_traced, limit=_t(hold.limit_temperature_k),
+                                                      why=hold.limit_reason), hold.time_to_limit_traced_s)
+        out.append(Finding("HOLD-SHORT", "warning", "A stop sets the line even with tracing on", message,
                            "Keep stops shorter, trace and insulate that part, or clear it before stopping.",
                            segment=hold.first_to_set_traced, value=hold.time_to_limit_traced_s, limit=stop,
                            quantity="time"))
     if hold.time_to_limit_failed_s is not None and hold.time_to_limit_failed_s < stop:
-        out.append(Finding("HOLD-SHORT-FAILED", "caution", "A stop with failed tracing sets the line",
-                           Sentence("with the tracing off, {seg} reaches its limit after {t}; planned stop {stop}",
-                                    seg=hold.first_to_set_failed, t=hours(hold.time_to_limit_failed_s), stop=hours(stop)),
+        message = Sentence("with the tracing off, {seg} reaches its limit after {t}; planned stop {stop}",
+                           seg=hold.first_to_set_failed, t=hours(hold.time_to_limit_failed_s), stop=hours(stop))
+        if plan.weather is not None:
+            message = _stop_in_weather(plan, Sentence("with the tracing off, {seg} reaches its limit",
+                                                      seg=hold.first_to_set_failed), hold.time_to_limit_failed_s)
+        out.append(Finding("HOLD-SHORT-FAILED", "caution", "A stop with failed tracing sets the line", message,
                            "Have a plan to clear or re-heat the line if the tracing trips.",
                            segment=hold.first_to_set_failed, value=hold.time_to_limit_failed_s, limit=stop,
                            quantity="time"))
@@ -272,6 +308,16 @@ def check_stops(plan: Plan) -> list[Finding]:
                            value=hold.gelled_restart_pressure_pa, limit=hold.pump_pressure_limit_pa,
                            quantity="pressure"))
     return out
+
+
+def _stop_in_weather(plan: Plan, who: Sentence, to_limit_s: float) -> Sentence:
+    """A stop at the transfer's coldest moment, and the hour its limit is reached: "a stop at 04:00 (the
+    transfer's coldest moment: ...): X reaches its limit at 04:32, 0.53 h into the stop; planned stop 3.00 h"."""
+    at = plan.stop_at_s
+    ambient, wind = plan.weather.state(at)
+    return Sentence("a stop {start} (the transfer's coldest moment: {amb}, wind {w}): {who} {when}, {t} into the "
+                    "stop; planned stop {stop}", start=plan.when(at), amb=_t(ambient), w=Q(wind, "speed"), who=who,
+                    when=plan.when(at + to_limit_s), t=Q(to_limit_s, "time"), stop=Q(plan.hold.stop_duration_s, "time"))
 
 
 def check_destination(plan: Plan) -> list[Finding]:

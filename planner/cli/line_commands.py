@@ -74,13 +74,31 @@ def _evaluate(args) -> int:
     return _exit_code(findings, args.fail_on)
 
 
+def add_weather_option(parser) -> None:
+    parser.add_argument("--weather", metavar="FILE.csv",
+                        help="ambient and wind over the transfer from a CSV file with 'quantity [unit]' headers: "
+                             "time [h] (or timestamps), ambient_temperature [degC], wind_speed [m/s]; it replaces the "
+                             "scenario's [weather]")
+
+
+def plan_scenario(args):
+    """The scenario file of ``args.scenario``, with the weather file of ``--weather`` when given."""
+    from planner.scenario.schema import load_scenario
+
+    scenario = load_scenario(args.scenario)
+    if getattr(args, "weather", None):
+        from planner.scenario.weather_file import with_weather_file
+
+        scenario = with_weather_file(scenario, args.weather)
+    return scenario
+
+
 def _plan(args) -> int:
     from planner.checks.findings import assess
     from planner.transfer.plan import make_plan
     from planner.reports.plan_json import plan_json, plan_text
-    from planner.scenario.schema import load_scenario
 
-    scenario = load_scenario(args.scenario)
+    scenario = plan_scenario(args)
     plan = make_plan(scenario)
     findings = assess(plan)
     if args.json:
@@ -113,12 +131,11 @@ def _lever_values(args, scenario, system: str):
 
 def _compare(args) -> int:
     from planner.checks.finding import at_least
-    from planner.scenario.schema import load_scenario
     from planner.sweeps.compare import compare, comparison_json, comparison_table
     from planner.sweeps.executors import executor_for
 
     system = UNIT_CHOICES[args.units]
-    scenario = load_scenario(args.scenario)
+    scenario = plan_scenario(args)
     lever, values, option = _lever_values(args, scenario, system)
 
     def progress(done, total):
@@ -183,6 +200,7 @@ def register(sub) -> None:
     pl = sub.add_parser("plan", help="transfer plan: operating point, start-up, timeline, stop/restart, energy and cost")
     pl.add_argument("scenario", help="scenario file with [pump], [source] and [destination]")
     _common(pl, "print JSON (SI units, keys documented in README) with the findings")
+    add_weather_option(pl)
     pl.set_defaults(func=_plan)
 
     cp = sub.add_parser("compare", help="compare setpoints (or steam pressures, pump speeds, flow limits); recommend one")
@@ -196,6 +214,7 @@ def register(sub) -> None:
     cp.add_argument("--viscosity-uncertainty", type=float, default=20.0, help="sensitivity: viscosity ± percent (default 20)")
     _common(cp, "print JSON (SI: lever values in K, Pa, rev/s, m3/s) with each row's findings")
     add_scheduler_option(cp)
+    add_weather_option(cp)
     cp.set_defaults(func=_compare)
 
     sc = sub.add_parser("schema", help="print the scenario JSON Schema")

@@ -12,7 +12,8 @@ import json
 import os
 import sys
 
-from planner.cli.line_commands import LEVER_OPTIONS, UNIT_CHOICES, _lever_values, add_scheduler_option
+from planner.cli.line_commands import (LEVER_OPTIONS, UNIT_CHOICES, _lever_values, add_scheduler_option, add_weather_option,
+                                       plan_scenario)
 from planner.errors import PlannerError
 from planner.scenario.budget import BudgetError
 
@@ -51,7 +52,6 @@ def _write_card(path: str, result, system: str) -> None:
 
 
 def _envelope(args) -> int:
-    from planner.scenario.schema import load_scenario
     from planner.sweeps.envelope import envelope, envelope_csv, envelope_json, envelope_table
     from planner.sweeps.executors import executor_for
 
@@ -61,7 +61,7 @@ def _envelope(args) -> int:
     system = UNIT_CHOICES[args.units]
     if args.card and os.path.exists(args.card):       # before the plans run, not after
         raise PlannerError(f"--card: {args.card!r} exists; give a new file name (the card is never written over a file)")
-    scenario = load_scenario(args.scenario)
+    scenario = plan_scenario(args)
     lever, values, option = _lever_values(args, scenario, system)
     ambients = ambients_si(scenario, args.ambient, system)
     try:
@@ -123,6 +123,7 @@ def register(sub) -> None:
     en.add_argument("--uncertainty", action="store_true", help="not available yet (issue 21): refused")
     en.add_argument("--samples", type=int, default=None, help="not available yet (issue 21): refused")
     add_scheduler_option(en)
+    add_weather_option(en)
     en.set_defaults(func=_envelope)
 
     sw = sub.add_parser("sweep", help="plan every scenario x lever value x ambient of a manifest into a Parquet table "

@@ -84,6 +84,9 @@ def plan_json(plan: Plan, arrays: bool = True, findings: list | None = None) -> 
         "costs": plan.costs.as_dict(),
         "total_time_s": plan.total_time_s,
         "planned_window_s": plan.scenario.schedule.planned_window,
+        "weather": None if plan.weather is None else {**plan.weather.as_dict(), "startup_at_s": plan.startup_at_s,
+                                                      "stop_at_s": plan.stop_at_s, "coldest_at_s": plan.coldest_at_s,
+                                                      "transfer_at_s": plan.transfer_at_s},
         "key_figures": key_figures_dict(plan),
         "findings": findings_json(found),
         "caution": STANDING_CAUTION,
@@ -174,7 +177,22 @@ def _transfer_lines(plan: Plan, system: str) -> list[str]:
     total = figures["total_time"]
     lines.append(f"  total time: {figure_text(total, system, reason=not total.withheld)} against a planned window of "
                  f"{_q(plan.scenario.schedule.planned_window, 'time', system, 2)}")
-    return lines
+    return lines + _weather_lines(plan, system)
+
+
+def _weather_lines(plan: Plan, system: str) -> list[str]:
+    """The weather the plan took, when it has a ``[weather]`` section."""
+    weather = plan.weather
+    if weather is None:
+        return []
+    kind = "design day (ASHRAE fraction of the daily range)" if weather.source == "design_day" else \
+        f"table of {len(weather.times_s)} rows"
+    moments = (("start-up taken", plan.startup_at_s), ("coldest", plan.coldest_at_s), ("stop checked", plan.stop_at_s))
+    parts = [render(Sentence("{what} {when}: {amb}, wind {w}", what=what, when=plan.when(at),
+                             amb=Q(weather.state(at)[0], "temperature"), w=Q(weather.state(at)[1], "speed")), system)
+             for what, at in moments]
+    start = f" from {weather.start.isoformat(timespec='minutes')}" if weather.start else ""
+    return [f"  weather: {kind}{start}; " + "; ".join(parts)]
 
 
 def _hold_lines(plan: Plan, system: str) -> list[str]:

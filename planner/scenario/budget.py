@@ -46,6 +46,9 @@ MARCH_STEP_M = 100.0                  # the march's longest step by default [m] 
 PASS_OVERHEAD_STEPS = 30              # fixed cost of one pass, in march steps (measured on the demos)
 PLAN_PASSES_FIXED = 170               # passes of a plan outside the timeline (start, start-ups, hold)
 PLAN_PASSES_PER_TIMELINE_STEP = 3.5   # passes per timeline step (operating-point solve per increment)
+# with a [weather], the start-up is worked out again at the weather of its coldest moment, at most this many
+# times in all (transfer.plan), so the passes outside the timeline count that many times (planner choice)
+STARTUP_WEATHER_PASSES = 3
 MIN_TIMELINE_STEPS = 10               # schema's lower limit of schedule.timeline_steps
 ENV_FACTOR = "PLANNER_WORK_BUDGET"
 
@@ -129,13 +132,15 @@ def pass_steps(scenario, step: float = MARCH_STEP_M) -> int:
     return route_steps(scenario.route, step) + route_steps(scenario.suction, step) + PASS_OVERHEAD_STEPS
 
 
-def plan_passes(timeline_steps: int) -> int:
-    return int(math.ceil(PLAN_PASSES_FIXED + PLAN_PASSES_PER_TIMELINE_STEP * timeline_steps))
+def plan_passes(timeline_steps: int, weather: bool = False) -> int:
+    fixed = PLAN_PASSES_FIXED * (STARTUP_WEATHER_PASSES if weather else 1)
+    return int(math.ceil(fixed + PLAN_PASSES_PER_TIMELINE_STEP * timeline_steps))
 
 
 def plan_steps(scenario, step: float = MARCH_STEP_M) -> int:
     """Estimated work of ``make_plan(scenario)`` [march steps]."""
-    return plan_passes(scenario.schedule.timeline_steps) * pass_steps(scenario, step)
+    weather = getattr(scenario, "weather", None) is not None
+    return plan_passes(scenario.schedule.timeline_steps, weather) * pass_steps(scenario, step)
 
 
 def is_plan_scenario(scenario) -> bool:
@@ -212,8 +217,9 @@ def plan_problems(scenario, step: float = MARCH_STEP_M, budget: Budget | None = 
         return []
     steps = scenario.schedule.timeline_steps
     fewer = budget.plan_steps // pass_steps(scenario, step)
-    most_steps = int((fewer - PLAN_PASSES_FIXED) / PLAN_PASSES_PER_TIMELINE_STEP)
-    text = (f"the plan is estimated at {work:,} march steps (about {plan_passes(steps):,} passes along the line "
+    weather = getattr(scenario, "weather", None) is not None
+    most_steps = int((fewer - plan_passes(0, weather)) / PLAN_PASSES_PER_TIMELINE_STEP)
+    text = (f"the plan is estimated at {work:,} march steps (about {plan_passes(steps, weather):,} passes along the line "
             f"for {steps} timeline steps, {pass_steps(scenario, step):,} steps each: {_route_text(scenario, step)}), "
             f"past the work budget of {budget.plan_steps:,}")
     if most_steps >= MIN_TIMELINE_STEPS:

@@ -14,6 +14,7 @@ from planner.scenario.line_spec import Route, Tracing
 from planner.scenario.product_spec import ProductSpec
 from planner.scenario.sections import (Calibration, Costs, Destination, Limits, Operation, PumpSpec, Schedule, Site,
                                        Vessel)
+from planner.scenario.weather_spec import Weather, weather_problems
 
 SCHEMA_VERSION = 1
 
@@ -35,6 +36,7 @@ class Scenario(_Model):
     schedule: Schedule = Field(default_factory=Schedule)
     limits: Limits = Field(default_factory=Limits)
     calibration: Optional[Calibration] = Field(None, description="site factors fitted to logged transfers; none: all 1")
+    weather: Optional[Weather] = Field(None, description="ambient and wind over the transfer; none: the site's, constant")
 
     @field_validator("schema_version")
     @classmethod
@@ -82,6 +84,9 @@ def scenario_from_dict(data: dict) -> Scenario:
         raise ScenarioError(problems_from(exc)) from None
     except RecursionError:
         raise ScenarioError([("", "the scenario is nested too deeply to read")]) from None
+    problems = weather_problems(scenario)
+    if problems:
+        raise ScenarioError(problems)
     from planner.scenario.budget import check_plan
 
     check_plan(scenario)   # the work budget: a scenario that asks for too much is refused here

@@ -12,6 +12,7 @@ from pydantic import Field, field_validator, model_validator
 from planner.scenario.fields import (Ambient, Duration, DynamicViscosity, Flow, GaugePressure, Head, Power, Speed,
                                      Temperature, Volume, WindSpeed, _Model)
 from planner.scenario.quantities import Quantity
+from planner.scenario.weather_spec import timestamp
 
 if TYPE_CHECKING:                     # the root model holds these sections
     from planner.scenario.root import Scenario
@@ -166,6 +167,17 @@ class Schedule(_Model):
     stop_duration: Duration = Field(3600.0, description="a stop to check restart for")
     limiting_viscosity: Optional[DynamicViscosity] = Field(None, description="viscosity above which the line counts as unable to restart")
     timeline_steps: int = Field(60, ge=10, le=1000)
+    start: Optional[str] = Field(None, max_length=40, description="planned start of the start-up (ISO 8601 with its "
+                                                                  "offset, e.g. '2026-01-14T18:00+01:00'); empty: "
+                                                                  "times run from 0")
+
+    @field_validator("start")
+    @classmethod
+    def _start(cls, value):
+        if value is not None:
+            timestamp(value, "start")
+            value = value.strip()
+        return value
 
 
 class Limits(_Model):

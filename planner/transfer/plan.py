@@ -38,6 +38,7 @@ from planner.errors import ComputationError, ScenarioError
 from planner.transfer.hold import Hold, hold_analysis
 from planner.line.march import DEFAULT_STEP_M, MarchResult
 from planner.line.products import scenario_product
+from planner.scenario.budget import STARTUP_WEATHER_PASSES
 from planner.scenario.quantities import SI
 from planner.scenario.wording import Q, Sentence
 from planner.scenario.schema import Scenario, problems_from
@@ -46,6 +47,7 @@ from planner.correlations.steam import latent_heat, saturation_temperature_gauge
 from planner.transfer.system import OperatingPoint, SystemState, TransferSystem
 from planner.transfer.timeline import Timeline, run_transfer
 from planner.transfer.vessels import coil_steam_pressure
+from planner.transfer.weather import WeatherProfile, line_start_default, weather_profile, weathered
 
 J_PER_KWH = 3.6e6
 
@@ -131,6 +133,15 @@ class Plan:
     suction_profile: MarchResult | None = None
     system: TransferSystem | None = None
     after_prewarm: PushCold | None = None   # pushing out the pre-warmed (but cooler) contents
+    weather: WeatherProfile | None = None   # the weather over the plan (None: the site's ambient throughout)
+    startup_at_s: float = 0.0               # the moment [s from the start] whose weather the start-up took
+    coldest_at_s: float = 0.0               # the coldest moment of the plan: the tracing's capacity
+    stop_at_s: float = 0.0                  # the coldest moment of the transfer: the stop checked there
+    transfer_at_s: float = 0.0              # when the transfer's timeline begins (after the start-up)
+
+    def when(self, elapsed_s: float):
+        """A moment of the plan in a sentence: "at 03:40" (with ``schedule.start``), else "after 5.2 h"."""
+        return (self.weather or WeatherProfile((0.0,), (0.0,), (0.0,))).when(elapsed_s)
 
     @property
     def startup_push(self) -> PushCold | None:
@@ -187,7 +198,7 @@ def with_changes(scenario: Scenario, setpoint: float | None = None, steam_pressu
                  pump_speed: float | None = None, flow_limit: float | None = None,
                  ambient_shift: float = 0.0) -> Scenario:
     """A validated copy of the scenario with levers moved (SI arguments: K, Pa gauge, rev/s, m3/s;
-    ``ambient_shift`` in K added to every ambient temperature).  The copy's fields are assigned as SI
+    ``ambient_shift`` in K added to every ambient temperature, the weather table's and the design day's too).  The copy's fields are assigned as SI
     floats and checked against the same ranges as a scenario file's."""
     changed = scenario.model_copy(deep=True)
     if (pump_speed is not None or flow_limit is not None) and changed.pump is None:
@@ -221,6 +232,14 @@ def _shift_ambients(scenario: Scenario, shift: float) -> None:
     _assign(site, "site", "ambient_temperature", SI(site.ambient_temperature + shift))
     if site.design_ambient_temperature is not None:
         _assign(site, "site", "design_ambient_temperature", SI(site.design_ambient_temperature + shift))
+    weather = scenario.weather
+    if weather is not None:     # the weather table's rows and the design day's extremes move with the site
+        for i, row in enumerate(weather.hours):
+            _assign(row, f"weather.hours[{i}]", "ambient_temperature", SI(row.ambient_temperature + shift))
+        extremes = ("coldest_temperature", "warmest_temperature")
+        for name in (extremes[::-1] if shift > 0 else extremes):    # never coldest above warmest on the way
+            if getattr(weather, name) is not None:
+                _assign(weather, "weather", name, SI(getattr(weather, name) + shift))
     for name, route in (("route", scenario.route), ("suction", scenario.suction)):
         for i, seg in enumerate(route.segments if route is not None else []):
             if seg.surroundings.ambient_temperature is not None:
@@ -232,14 +251,46 @@ def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | No
               both_startups: bool = True, march_step: float = DEFAULT_STEP_M) -> Plan:
     """The whole plan.  ``both_startups=False`` works out only the scenario's chosen start-up mode
     (comparisons); the other option is then marked as not evaluated.  ``march_step`` [m]: the
-    longest step of every march of the plan (the grid test makes it finer)."""
+    longest step of every march of the plan (the grid test makes it finer).  With a ``[weather]``
+    section the start-up, the timeline and the stop follow the weather (``transfer.weather``)."""
     product = scenario_product(scenario, viscosity_factor=viscosity_factor)   # with the [calibration] factor
-    system = TransferSystem(scenario, product=product, step=march_step)
+    base = TransferSystem(scenario, product=product, step=march_step)
     source = scenario.source
     if source.temperature <= product.no_flow_temperature:
         raise ComputationError(Sentence(
             "source temperature {t} is at or below the product's no-flow temperature {limit}: heat the source before "
             "transfer", t=Q(source.temperature, "temperature"), limit=Q(product.no_flow_temperature, "temperature")))
+    weather = weather_profile(scenario)
+    design_ambient = scenario.site.design_ambient_temperature or scenario.site.ambient_temperature
+    if weather is not None and scenario.schedule.line_start_temperature is None:
+        design_ambient = line_start_default(weather)
+    line_start = scenario.schedule.line_start_temperature or design_ambient
+    if weather is None:       # today's order: the timeline, then the start-up
+        start, running = _start(base, scenario)
+        timeline = run_transfer(base, steps=steps, first_guess=start[0].flow if start[0].moving else None)
+        up = _startup(base, start[0], line_start, scenario.schedule.start_mode, both_startups)
+        system, startup_at, coldest_at, stop_at, begins = base, 0.0, 0.0, 0.0, 0.0
+    else:
+        system, start, running, up, startup_at = _startup_in_weather(base, weather, line_start, both_startups)
+        begins = _startup_hours(up)       # the transfer's clock: after the start-up
+        timeline = run_transfer(base, steps=steps, first_guess=start[0].flow if start[0].moving else None,
+                                weather=weather, clock_s=begins)
+        coldest_at = weather.coldest_between(0.0, begins + timeline.total_time_s)
+        stop_at = weather.coldest_between(begins, begins + timeline.total_time_s)
+    warm, cold, after_prewarm, startup_time = up
+    mode = scenario.schedule.start_mode
+    hold = hold_analysis(system if weather is None else weathered(base, *weather.state(stop_at)), running)
+    energy, costs = _energy_and_costs(scenario, system, timeline, warm if mode == "prewarm" else None, startup_time)
+    total = None if startup_time is None or not timeline.completed else startup_time + timeline.total_time_s
+    return Plan(scenario, start[0], start[1], timeline, warm, cold, mode, startup_time, line_start, hold,
+                energy, costs, total, viscosity_factor, start[2], system, after_prewarm, weather, startup_at, coldest_at,
+                stop_at, begins)
+
+
+def _start(system: TransferSystem, scenario: Scenario) -> tuple[tuple, dict]:
+    """(the operating point at the start, its discharge profile, the suction's profile) and the running
+    temperatures per segment."""
+    source = scenario.source
     state = SystemState(source.temperature, source.initial_volume)
     start = system.operating_point(state)
     start_profile = suction_profile = None
@@ -253,10 +304,39 @@ def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | No
 
             suction_profile = march(system.suction_line, start.flow, source.temperature,
                                     system.source_pressure(state), step=system.step)
-    timeline = run_transfer(system, steps=steps, first_guess=start.flow if start.moving else None)
-    design_ambient = scenario.site.design_ambient_temperature or scenario.site.ambient_temperature
-    line_start = scenario.schedule.line_start_temperature or design_ambient
-    mode = scenario.schedule.start_mode
+    return (start, start_profile, suction_profile), running
+
+
+def _startup_in_weather(base: TransferSystem, weather, line_start: float, both_startups: bool):
+    """The start and the start-up at the weather of the plan's start, then again at the coldest moment of
+    the hours that start-up takes (a pre-warm or push-out runs through them), until that moment's weather
+    state stays the same (at most ``STARTUP_WEATHER_PASSES`` in all): (system, start, running, the start-up,
+    the moment [s] whose weather it took)."""
+    mode = base.scenario.schedule.start_mode
+    at = 0.0
+    for attempt in range(STARTUP_WEATHER_PASSES):
+        system = weathered(base, *weather.state(at))
+        start, running = _start(system, base.scenario)
+        up = _startup(system, start[0], line_start, mode, both_startups)
+        later = weather.coldest_between(0.0, _startup_hours(up))
+        if attempt == STARTUP_WEATHER_PASSES - 1 or weather.state(later) == weather.state(at):
+            break
+        at = later
+    return system, start, running, up, at
+
+
+def _startup_hours(up) -> float:
+    """How long the start-up runs [s]: its time, or where it cannot be completed, the pre-warm's own time
+    (contents stuck in a gap after it) or 0."""
+    warm, startup_time = up[0], up[3]
+    if startup_time is not None:
+        return startup_time
+    return warm.time_s if warm.possible and warm.time_s is not None and math.isfinite(warm.time_s) else 0.0
+
+
+def _startup(system: TransferSystem, start: OperatingPoint, line_start: float, mode: str, both_startups: bool):
+    """(pre-warm, cold push-out, push-out after the pre-warm, start-up time [s] or None)."""
+    source = system.scenario.source
     warm = prewarm(system, line_start) if both_startups or mode == "prewarm" else \
         Prewarm(line_start, line_start, False, None, 0.0, message="not evaluated")
     cold = push_cold(system, line_start) if both_startups or mode == "push_cold" else \
@@ -282,11 +362,7 @@ def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | No
             startup_time = max(0.0, cold.front_time_s - volume / start.flow)
         else:
             startup_time = None
-    hold = hold_analysis(system, running)
-    energy, costs = _energy_and_costs(scenario, system, timeline, warm if mode == "prewarm" else None, startup_time)
-    total = None if startup_time is None or not timeline.completed else startup_time + timeline.total_time_s
-    return Plan(scenario, start, start_profile, timeline, warm, cold, mode, startup_time, line_start, hold,
-                energy, costs, total, viscosity_factor, suction_profile, system, after_prewarm)
+    return warm, cold, after_prewarm, startup_time
 
 
 def _running_temperatures(system, profile, point, running):

@@ -35,6 +35,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from planner.transfer.system import SystemState, TransferSystem
+from planner.transfer.weather import evaluations_of, weathered
 from planner.transfer.vessels import destination_level, heat_contents, level_from_volume, source_heating, wetted_area
 
 
@@ -54,7 +55,29 @@ class Timeline:
     evaluations: int = 0
 
 
-def run_transfer(system: TransferSystem, steps: int | None = None, first_guess: float | None = None) -> Timeline:
+ROW_KEYS = ("time_s", "moved_m3", "flow_m3_s", "source_temperature_k", "pump_inlet_temperature_k",
+            "outlet_temperature_k", "suction_pressure_pa", "discharge_pressure_pa", "pump_differential_pa",
+            "shaft_power_w", "npsh_available_m", "trace_power_w", "source_level_m", "destination_level_m",
+            "max_line_pressure_pa", "ambient_temperature_k", "wind_speed_m_s")
+
+
+def _record(rows, system, op, point, state, flow, trace_power, time, moved, ambient, wind) -> None:
+    """One row of the timeline: the increment's start."""
+    source = system.source
+    values = (time, moved, flow, state.source_temperature, point.pump_inlet_temperature, point.outlet_temperature,
+              point.suction_pressure, point.discharge_pressure, point.pump_differential, op.shaft_power,
+              point.npsh_available, trace_power, level_from_volume(source, state.source_volume),
+              destination_level(system.destination, state.destination_volume_added), point.discharge_pressure,
+              ambient, wind)
+    for key, value in zip(ROW_KEYS, values):
+        rows[key].append(value)
+
+
+def run_transfer(system: TransferSystem, steps: int | None = None, first_guess: float | None = None,
+                 weather=None, clock_s: float = 0.0) -> Timeline:
+    """``weather`` (``transfer.weather.WeatherProfile``): each increment's operating point, tracing power and
+    source cooling at the ambient and wind of its start, ``clock_s`` + the time so far from the plan's
+    start; None: the site's ambient throughout."""
     scenario = system.scenario
     source = scenario.source
     product = system.product
@@ -65,10 +88,7 @@ def run_transfer(system: TransferSystem, steps: int | None = None, first_guess: 
     motor_efficiency = scenario.pump.motor_efficiency
     heating = source_heating(scenario)
     shell_u = source.heat_loss_coefficient * system.heat_loss_factor
-    rows = {k: [] for k in ("time_s", "moved_m3", "flow_m3_s", "source_temperature_k", "pump_inlet_temperature_k",
-                            "outlet_temperature_k", "suction_pressure_pa", "discharge_pressure_pa",
-                            "pump_differential_pa", "shaft_power_w", "npsh_available_m", "trace_power_w",
-                            "source_level_m", "destination_level_m", "max_line_pressure_pa")}
+    rows = {k: [] for k in ROW_KEYS}
     statuses: list[str] = []
     flags: set[str] = set()
     time = 0.0
@@ -77,8 +97,13 @@ def run_transfer(system: TransferSystem, steps: int | None = None, first_guess: 
     guess = first_guess
     completed, reason = True, ""
     points = []
-    evaluations_before = system.evaluations
+    evaluations_before = evaluations_of(system)
+    wind = scenario.site.wind_speed
+    base = system
     for _ in range(steps):
+        if weather is not None:
+            ambient, wind = weather.state(clock_s + time)
+            system = weathered(base, ambient, wind)
         op = system.operating_point(state, guess=guess)
         points.append(op)
         if not op.moving:
@@ -93,21 +118,7 @@ def run_transfer(system: TransferSystem, steps: int | None = None, first_guess: 
         flags.update(op.flags)
         trace_power = point.discharge.trace_power_w + (point.suction.trace_power_w if point.suction else 0.0)
         dt = increment / flow
-        rows["time_s"].append(time)
-        rows["moved_m3"].append(moved)
-        rows["flow_m3_s"].append(flow)
-        rows["source_temperature_k"].append(state.source_temperature)
-        rows["pump_inlet_temperature_k"].append(point.pump_inlet_temperature)
-        rows["outlet_temperature_k"].append(point.outlet_temperature)
-        rows["suction_pressure_pa"].append(point.suction_pressure)
-        rows["discharge_pressure_pa"].append(point.discharge_pressure)
-        rows["pump_differential_pa"].append(point.pump_differential)
-        rows["shaft_power_w"].append(op.shaft_power)
-        rows["npsh_available_m"].append(point.npsh_available)
-        rows["trace_power_w"].append(trace_power)
-        rows["source_level_m"].append(level_from_volume(source, state.source_volume))
-        rows["destination_level_m"].append(destination_level(system.destination, state.destination_volume_added))
-        rows["max_line_pressure_pa"].append(point.discharge_pressure)
+        _record(rows, system, op, point, state, flow, trace_power, time, moved, ambient, wind)
         statuses.append(op.status)
         trace_j += trace_power * dt
         pump_j += op.shaft_power / motor_efficiency * dt
@@ -128,4 +139,4 @@ def run_transfer(system: TransferSystem, steps: int | None = None, first_guess: 
         guess = max(2.0 * latest - (previous.flow_estimate or previous.flow), 0.5 * op.flow) if previous else latest
     arrays = {k: np.array(v) for k, v in rows.items()}
     return Timeline(arrays, time, moved, completed, reason, statuses, flags, trace_j, pump_j, vessel_j, points,
-                    system.evaluations - evaluations_before)
+                    evaluations_of(base) - evaluations_before)
