@@ -14,6 +14,7 @@ from planner.scenario.line_spec import Route, Tracing
 from planner.scenario.product_spec import ProductSpec
 from planner.scenario.sections import (Calibration, Costs, Destination, Limits, Operation, PumpSpec, Schedule, Site,
                                        Vessel)
+from planner.scenario.uncertainty_spec import Uncertainty
 
 SCHEMA_VERSION = 1
 
@@ -35,6 +36,8 @@ class Scenario(_Model):
     schedule: Schedule = Field(default_factory=Schedule)
     limits: Limits = Field(default_factory=Limits)
     calibration: Optional[Calibration] = Field(None, description="site factors fitted to logged transfers; none: all 1")
+    uncertainty: Optional[Uncertainty] = Field(None, description="distributions of the uncertain inputs for "
+                                                                 "`plan --uncertainty`; none: the defaults")
 
     @field_validator("schema_version")
     @classmethod

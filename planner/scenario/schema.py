@@ -26,6 +26,8 @@ from planner.scenario.line_spec import (Fitting, InsulationLayer, Route, Segment
 from planner.scenario.sections import (Calibration, CalibrationSource, Costs, CurvePoint, Destination, Limits,  # noqa: F401
                                        Operation, PumpSpec, Schedule, Site, Vessel, calibration_of,
                                        vessel_capacity)
+from planner.scenario.uncertainty_spec import (DEFAULT_CONFIDENCE, FactorDistribution, ShiftDistribution,  # noqa: F401
+                                               Uncertainty)
 from planner.scenario.root import (SCHEMA_VERSION, Scenario, field_choices, json_schema, problems_from,  # noqa: F401
                                    scenario_from_dict)
 from planner.scenario.files import (LONG_INTEGER_DIGITS, MAX_SCENARIO_CHARS, json_integer, load_scenario,  # noqa: F401

@@ -185,10 +185,11 @@ class Plan:
 
 def with_changes(scenario: Scenario, setpoint: float | None = None, steam_pressure: float | None = None,
                  pump_speed: float | None = None, flow_limit: float | None = None,
-                 ambient_shift: float = 0.0) -> Scenario:
+                 ambient_shift: float = 0.0, wind_factor: float = 1.0) -> Scenario:
     """A validated copy of the scenario with levers moved (SI arguments: K, Pa gauge, rev/s, m3/s;
-    ``ambient_shift`` in K added to every ambient temperature).  The copy's fields are assigned as SI
-    floats and checked against the same ranges as a scenario file's."""
+    ``ambient_shift`` in K added to every ambient temperature; ``wind_factor`` multiplies every wind
+    speed).  The copy's fields are assigned as SI floats and checked against the same ranges as a
+    scenario file's."""
     changed = scenario.model_copy(deep=True)
     if (pump_speed is not None or flow_limit is not None) and changed.pump is None:
         raise ScenarioError([("pump", "the scenario has no pump: its speed or flow cannot be changed")])
@@ -205,7 +206,23 @@ def with_changes(scenario: Scenario, setpoint: float | None = None, steam_pressu
         _assign(changed.pump, "pump", "control", "fixed_flow")
     if ambient_shift:
         _shift_ambients(changed, ambient_shift)
+    if wind_factor != 1.0:
+        _scale_winds(changed, wind_factor)
     return changed
+
+
+def _scale_winds(scenario: Scenario, factor: float) -> None:
+    """Every wind speed times ``factor``: the site's and the segments' own (and any weather rows')."""
+    site = scenario.site
+    _assign(site, "site", "wind_speed", SI(site.wind_speed * factor))
+    for name, route in (("route", scenario.route), ("suction", scenario.suction)):
+        for i, seg in enumerate(route.segments if route is not None else []):
+            if seg.surroundings.wind_speed is not None:
+                _assign(seg.surroundings, f"{name}.segments[{i}].surroundings", "wind_speed",
+                        SI(seg.surroundings.wind_speed * factor))
+    # hook: a weather table over time (rows with a wind_speed) is scaled here too, row by row
+    for i, row in enumerate(getattr(getattr(scenario, "weather", None), "hours", None) or []):
+        _assign(row, f"weather.hours[{i}]", "wind_speed", SI(row.wind_speed * factor))
 
 
 def _assign(model, path: str, name: str, value) -> None:
