@@ -83,11 +83,45 @@ def _plan(args) -> int:
     scenario = load_scenario(args.scenario)
     plan = make_plan(scenario)
     findings = assess(plan)
+    odds = _plan_odds(args, scenario) if args.uncertainty else None
     if args.json:
-        print(json.dumps(plan_json(plan, findings=findings), indent=2, ensure_ascii=False))
+        doc = plan_json(plan, findings=findings)
+        if odds is not None:
+            from planner.reports.uncertainty_text import odds_json
+
+            doc["uncertainty"] = odds_json(odds)
+        print(json.dumps(doc, indent=2, ensure_ascii=False))
     else:
-        print(plan_text(plan, UNIT_CHOICES[args.units], findings))
+        print(plan_text(plan, UNIT_CHOICES[args.units], findings, odds=odds))
     return _exit_code(findings, args.fail_on)
+
+
+def _progress(args, what: str = "plans"):
+    def progress(done, total):
+        if not args.json and sys.stderr.isatty():
+            print(f"\r  {done}/{total} {what}", end="\n" if done == total else "", file=sys.stderr, flush=True)
+    return progress
+
+
+def _plan_odds(args, scenario) -> dict:
+    """The plan's odds (``--uncertainty``) on the command's executor."""
+    from planner.sweeps.executors import executor_for
+    from planner.sweeps.uncertainty import plan_odds
+
+    with executor_for(args.scheduler) as executor:
+        return plan_odds(scenario, samples=args.samples, seed=args.seed, executor=executor,
+                         progress=_progress(args, "samples"))
+
+
+def _sampling_options(parser) -> None:
+    parser.add_argument("--uncertainty", action="store_true",
+                        help="also plan at sampled inputs ([uncertainty] of the scenario, else the defaults): P10/P50/P90, "
+                             "the chance to finish in the window with no stop, what drives the spread")
+    parser.add_argument("--samples", type=int, default=None,
+                        help="with --uncertainty: plans at sampled inputs, a power of two from 16 to 4096 (default: the "
+                             "scenario's uncertainty.samples, else 128)")
+    parser.add_argument("--seed", type=int, default=None,
+                        help="with --uncertainty: seed of the sampling (default: uncertainty.seed, else 21)")
 
 
 def _lever_values(args, scenario, system: str):
@@ -183,6 +217,8 @@ def register(sub) -> None:
     pl = sub.add_parser("plan", help="transfer plan: operating point, start-up, timeline, stop/restart, energy and cost")
     pl.add_argument("scenario", help="scenario file with [pump], [source] and [destination]")
     _common(pl, "print JSON (SI units, keys documented in README) with the findings")
+    _sampling_options(pl)
+    add_scheduler_option(pl)
     pl.set_defaults(func=_plan)
 
     cp = sub.add_parser("compare", help="compare setpoints (or steam pressures, pump speeds, flow limits); recommend one")

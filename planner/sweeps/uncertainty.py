@@ -158,6 +158,7 @@ def summarise(scenario: Scenario, specs, u, rows: list[dict], seed: int, fan_dat
     ranked = not all(math.isfinite(v) for v in totals)
     doc = {
         "samples": samples, "seed": seed, "scrambles": SCRAMBLES, "confidence": confidence_of(scenario),
+        "currency": scenario.costs.currency,
         "planned_window_s": window, "percentiles": percentiles, "beyond": beyond,
         "probability_in_window": p_window, "stop_probability": p_stop, "probability_in_window_no_stop": p_success,
         "sampling_error": {**errors, "probability_in_window": e_window, "stop_probability": e_stop,
