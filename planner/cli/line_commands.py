@@ -159,18 +159,34 @@ def _compare(args) -> int:
         if not args.json and sys.stderr.isatty():
             print(f"\r  {done}/{total} plans", end="", file=sys.stderr, flush=True)
 
+    odds = None
     try:
         with executor_for(args.scheduler) as executor:
             result = compare(scenario, lever, values, progress=progress, executor=executor,
                              sensitivity=args.sensitivity, ambient_shift=args.ambient_shift,
                              viscosity_uncertainty=args.viscosity_uncertainty / 100.0)
+            if args.uncertainty:
+                from planner.sweeps.compare_odds import compare_odds
+
+                odds = compare_odds(scenario, lever, values, executor, _progress(args, "sampled plans"),
+                                    samples=args.samples, seed=args.seed)
     except BudgetError as exc:   # name the option the values came from
         raise BudgetError([(option if field == "values" else field, message) for field, message in exc.problems]) from None
     if args.json:
-        print(json.dumps(comparison_json(result), indent=2, ensure_ascii=False))
+        doc = comparison_json(result)
+        if odds is not None:
+            from planner.sweeps.compare_odds import comparison_odds_json
+
+            doc["uncertainty"] = comparison_odds_json(odds)
+        print(json.dumps(doc, indent=2, ensure_ascii=False))
     else:
         print(scenario.name)
         print(comparison_table(result, system))
+        if odds is not None:
+            from planner.reports.uncertainty_text import comparison_odds_table
+
+            print()
+            print(comparison_odds_table(odds, system))
     if args.fail_on is None:
         return 0
     hit = any(at_least(f["severity"], args.fail_on) for r in result.rows for f in r.get("findings", []))
@@ -231,6 +247,7 @@ def register(sub) -> None:
     cp.add_argument("--ambient-shift", type=float, default=10.0, help="sensitivity: ambient shift in K (default 10)")
     cp.add_argument("--viscosity-uncertainty", type=float, default=20.0, help="sensitivity: viscosity ± percent (default 20)")
     _common(cp, "print JSON (SI: lever values in K, Pa, rev/s, m3/s) with each row's findings")
+    _sampling_options(cp)
     add_scheduler_option(cp)
     cp.set_defaults(func=_compare)
 

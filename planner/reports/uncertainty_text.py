@@ -119,3 +119,29 @@ def odds_summary(odds: dict) -> dict:
             "stop_probability", "probability_in_window_no_stop", "sampling_error", "did_not_finish", "stop_codes",
             "sensitivity", "inputs")
     return plain({key: odds[key] for key in keep if key in odds})
+
+
+def comparison_odds_table(c, system: str = "SI") -> str:
+    """A comparison by odds (``sweeps.compare_odds.OddsComparison``) as a text table in ``system``."""
+    from planner.scenario.units import unit_label
+    from planner.scenario.wording import render
+    from planner.sweeps.compare import lever_decimals
+
+    currency = c.rows[0]["odds"]["currency"] if c.rows else ""
+    lines = [f"  odds of each value: {c.samples} plans at sampled inputs each (seed {c.seed}, the same points for "
+             f"every value)",
+             f"    {c.lever} [{unit_label(c.quantity, system)}]   in window, no stop   P90 total   P50 cost   "
+             f"P90 cost   stops"]
+    for i, r in enumerate(c.rows):
+        mark = "*" if i == c.recommended else "+" if i == c.named else "=" if i in c.not_told_apart else " "
+        value = format_quantity(r["value"], c.quantity, system, lever_decimals(c.quantity)).rsplit(" ", 1)[0]
+        chance = f"{percentage(r['chance'])} ± {percentage(r['chance_error'])}"
+        lines.append(f"  {mark} {value:>10s}   {chance:>17s}   {value_text(r['p90_total_time_s'], 'time', system):>9s}   "
+                     f"{value_text(r['p50_cost'], 'money', system, currency):>12s}   "
+                     f"{value_text(r['p90_cost'], 'money', system, currency):>12s}   "
+                     f"{percentage(r['odds']['stop_probability'])}")
+    lines.append("")
+    lines.append(f"  by the odds: {render(c.reason, system)}")
+    lines.append("  (* recommended; + the best chance, none reaching the confidence; = cannot be told apart from the "
+                 "row marked within the sampling error)")
+    return "\n".join(lines)
