@@ -23,7 +23,7 @@ from planner.checks.lever_values import LEVERS, check_values
 from planner.scenario.schema import Scenario
 from planner.scenario.wording import Q, Sentence, join
 from planner.sweeps.executors import fan_out
-from planner.sweeps.odds_inputs import SCRAMBLES
+from planner.sweeps.odds_inputs import SCRAMBLES, sampling_of
 from planner.sweeps.odds_stats import percentile, split
 from planner.sweeps.uncertainty import check_work, confidence_of, sample_row, summarise, tasks_for
 
@@ -77,8 +77,8 @@ def compare_odds(scenario: Scenario, lever: str, values: list[float], executor: 
 
     check_lever(scenario, lever)
     check_values(scenario, lever, values)
+    check_work(scenario, sampling_of(scenario, samples, seed)[0], len(values))
     specs, u, base, samples, seed = tasks_for(scenario, samples, seed)
-    check_work(scenario, samples, len(values))
     keyword = LEVERS[lever].keyword
     tasks = [(scenario, draw, {keyword: value}) for value in values for (_, draw, _) in base]
     results = fan_out(sample_row, tasks, executor, progress)

@@ -31,6 +31,7 @@ from planner.scenario.schema import FactorDistribution, Scenario, ShiftDistribut
 from planner.scenario.uncertainty_spec import DEFAULT_SAMPLES, DEFAULT_SEED, INPUTS, TAIL_SD
 from planner.transfer.plan import with_changes
 
+MAX_SEED = 2 ** 32 - 1
 SCRAMBLES = 4                # independent scrambles of the Sobol points: each percentile's sampling error
 VISCOSITY_RANGE = (0.05, 20.0)   # the [calibration] viscosity factor's range: the product of both stays in it
 LAB_LAW_LOG_SD = 0.18        # viscosity of a delivered batch about the lab law (see the table above)
@@ -117,7 +118,17 @@ def input_specs(scenario: Scenario) -> list[InputSpec]:
 
 
 def sampling_of(scenario: Scenario, samples: int | None = None, seed: int | None = None) -> tuple[int, int]:
-    """Samples and seed: the options given, else the scenario's ``[uncertainty]``, else the defaults."""
+    """Samples and seed: the options given (checked: a ValueError names ``--samples`` or ``--seed``), else the
+    scenario's ``[uncertainty]``, else the defaults."""
+    from planner.scenario.uncertainty_spec import checked_samples
+
+    if samples is not None:
+        try:
+            checked_samples(samples)
+        except ValueError as exc:
+            raise ValueError(f"--samples: {exc}") from None
+    if seed is not None and (isinstance(seed, bool) or not isinstance(seed, int) or not 0 <= seed <= MAX_SEED):
+        raise ValueError(f"--seed: {seed!r}: give a whole number from 0 to {MAX_SEED}")
     given = scenario.uncertainty
     samples = samples if samples is not None else (given.samples if given is not None else DEFAULT_SAMPLES)
     seed = seed if seed is not None else (given.seed if given is not None else DEFAULT_SEED)

@@ -109,15 +109,6 @@ def plan_odds(scenario: Scenario, samples: int | None = None, seed: int | None =
               executor: Executor | None = None, progress=None) -> dict:
     """The odds of the scenario's plan (a JSON-ready dict, SI; see ``summarise``).  ``samples`` (a power of
     two) and ``seed`` default to the scenario's ``[uncertainty]``, else 128 and 21."""
-    from planner.scenario.uncertainty_spec import checked_samples
-
-    if samples is not None:
-        try:
-            checked_samples(samples)
-        except ValueError as exc:
-            from planner.errors import ScenarioError
-
-            raise ScenarioError([("--samples", str(exc))]) from None
     check_work(scenario, sampling_of(scenario, samples, seed)[0])
     specs, u, tasks, samples, seed = tasks_for(scenario, samples, seed)
     rows = fan_out(sample_row, tasks, executor, progress)
