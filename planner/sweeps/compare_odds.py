@@ -119,8 +119,9 @@ def recommend_by_odds(rows: list[dict], raw: list[list[dict]], window: float, co
                               "window with no stop: the best chance is {p} at {v}{close}", c=pct(confidence),
                               p=pct(rows[best]["chance"]), v=value(best), close=_close_words(close, value)), close
     best = min(reaching, key=lambda i: (rows[i]["p50_cost"], rows[i]["value"]))
-    p50 = lambda r: percentile([x["total_cost"] for x in r], 0.5)  # noqa: E731
-    close = [i for i in reaching if i != best and not _apart(*_paired_error(raw[i], raw[best], p50))]
+    cost = lambda i: [x["total_cost"] for x in raw[i]]  # noqa: E731
+    p50 = lambda values: percentile(values, 0.5)  # noqa: E731
+    close = [i for i in reaching if i != best and not _apart(*_paired_error(cost(i), cost(best), p50))]
     reason = Sentence("{v}: lowest P50 cost {cost} {cur} among the {n} of {total} values that finish in the window "
                       "with no stop at least {c} of the time (its chance {p}){close}", v=value(best),
                       cost=f"{rows[best]['p50_cost']:,.2f}", cur=rows[best]["odds"]["currency"], n=len(reaching),
