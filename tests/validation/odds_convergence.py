@@ -25,9 +25,10 @@ if str(ROOT) not in sys.path:
 DEMOS = ("fuel_oil_barge_discharge", "polyol_tank_transfer", "syrup_railcar_unload")
 
 
-def differences(small: dict, large: dict) -> list[tuple[str, str, float, float, float]]:
-    """(figure, level, small value, large value, relative difference) for every percentile; a percentile
-    beyond at one size only is an infinite difference, beyond at both none."""
+def differences(small: dict, large: dict) -> list[tuple[str, str, float, float, float, float | None]]:
+    """(figure, level, small value, large value, relative difference, the small size's reported standard
+    error relative to its value) for every percentile; a percentile beyond at one size only is an infinite
+    difference, beyond at both none."""
     rows = []
     for figure, levels in large["percentiles"].items():
         for level, value in levels.items():
@@ -38,7 +39,9 @@ def differences(small: dict, large: dict) -> list[tuple[str, str, float, float, 
                 rel = math.inf
             else:
                 rel = abs(other - value) / max(abs(value), 1e-12) if value != other else 0.0
-            rows.append((figure, level, other, value, rel))
+            error = small["sampling_error"][figure][level]
+            relative_error = error / abs(other) if error is not None and math.isfinite(other) and other else None
+            rows.append((figure, level, other, value, rel, relative_error))
     return rows
 
 
@@ -68,9 +71,11 @@ def main(argv: list[str] | None = None) -> int:
     with local_executor(args.workers) as pool:
         for demo in args.demo or DEMOS:
             print(f"== {demo}: {args.small} against {args.large} samples")
-            for figure, level, a, b, rel in run(demo, args.small, args.large, pool):
+            for figure, level, a, b, rel, error in run(demo, args.small, args.large, pool):
                 flag = "" if rel <= args.tolerance else "   PAST THE TOLERANCE"
-                print(f"   {figure:26s} {level}  {a:14.6g}  {b:14.6g}  {100 * rel:7.3f} %{flag}")
+                shown = "      —" if error is None else f"{100 * error:7.3f}"
+                print(f"   {figure:26s} {level}  {a:14.6g}  {b:14.6g}  {100 * rel:7.3f} %   (reported error "
+                      f"{shown} %){flag}")
                 worst = max(worst, rel)
     print(f"worst relative difference {100 * worst:.3f} % (tolerance {100 * args.tolerance:g} %)")
     return 0 if worst <= args.tolerance else 1
