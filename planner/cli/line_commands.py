@@ -160,6 +160,11 @@ def _compare(args) -> int:
             print(f"\r  {done}/{total} plans", end="", file=sys.stderr, flush=True)
 
     odds = None
+    if args.uncertainty:              # refuse the samples before any plan runs
+        from planner.sweeps.odds_inputs import sampling_of
+        from planner.sweeps.uncertainty import check_work
+
+        check_work(scenario, sampling_of(scenario, args.samples, args.seed)[0], len(values))
     try:
         with executor_for(args.scheduler) as executor:
             result = compare(scenario, lever, values, progress=progress, executor=executor,
