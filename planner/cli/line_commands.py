@@ -80,6 +80,7 @@ def _plan(args) -> int:
     from planner.reports.plan_json import plan_json, plan_text
     from planner.scenario.schema import load_scenario
 
+    _sampling_given(args)
     scenario = load_scenario(args.scenario)
     plan = make_plan(scenario)
     findings = assess(plan)
@@ -101,6 +102,12 @@ def _progress(args, what: str = "plans"):
         if not args.json and sys.stderr.isatty():
             print(f"\r  {done}/{total} {what}", end="\n" if done == total else "", file=sys.stderr, flush=True)
     return progress
+
+
+def _sampling_given(args) -> None:
+    """``--samples`` or ``--seed`` without ``--uncertainty``: refused (they would do nothing)."""
+    if not args.uncertainty and (args.samples is not None or args.seed is not None):
+        raise ValueError("--samples/--seed: they set the sampling of --uncertainty; add --uncertainty or leave them out")
 
 
 def _plan_odds(args, scenario) -> dict:
@@ -160,6 +167,7 @@ def _compare(args) -> int:
             print(f"\r  {done}/{total} plans", end="", file=sys.stderr, flush=True)
 
     odds = None
+    _sampling_given(args)
     if args.uncertainty:              # refuse the samples before any plan runs
         from planner.sweeps.odds_inputs import sampling_of
         from planner.sweeps.uncertainty import check_work

@@ -192,6 +192,9 @@ def _plans_save(args) -> int:
     scenario = load_scenario(args.scenario)
     store = _store(args)
     who = _sign_in(store, args)
+    from planner.cli.line_commands import _sampling_given
+
+    _sampling_given(args)
     results = plan_summary(scenario)
     if args.uncertainty:      # the odds kept as their own key: the supervisor signs a range
         from planner.cli.line_commands import _plan_odds
