@@ -103,6 +103,7 @@ def odds_lines(odds: dict, system: str = "SI") -> list[str]:
     lines.append(f"    what drives the spread of the total time (first-order share{', on ranks' if 'ranks' in odds['sensitivity_of'] else ''}):")
     for row in sorted(input_rows(odds, system), key=lambda r: -(r["share"] or 0.0)):
         lines.append(f"      {row['label']:26s} {row['share']:5.2f}   {row['distribution']}")
+    lines.append("    ± is one standard error over the 4 scrambles (3 degrees of freedom: a 95 % band is 3.2 of them)")
     lines.append(f"    method: {odds['method']}")
     return lines
 

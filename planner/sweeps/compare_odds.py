@@ -5,7 +5,7 @@ same sampled plans as ``plan --uncertainty``.
 Every row uses the same Sobol points (common random numbers): the rows differ by the lever alone, so
 their differences carry far less sampling error than each row's figures.  That error is worked out
 on the differences themselves, scramble by scramble (paired), and two rows whose difference is within
-``TOLD_APART`` standard errors of it cannot be told apart.
+``TOLD_APART`` standard errors of it (a 95 % band on 3 degrees of freedom) cannot be told apart.
 
 Recommendation: the lowest P50 cost among the rows whose chance reaches ``limits.confidence``; if none
 does, none is recommended and the row with the best chance is named.
@@ -27,7 +27,10 @@ from planner.sweeps.odds_inputs import SCRAMBLES, sampling_of
 from planner.sweeps.odds_stats import percentile, split
 from planner.sweeps.uncertainty import check_work, confidence_of, sample_row, summarise, tasks_for
 
-TOLD_APART = 2.0     # standard errors of a difference (about 95 % on a normal error; with 4 scrambles a rough guide)
+# standard errors of a difference within which two rows cannot be told apart: the standard error comes from
+# 4 scrambles, 3 degrees of freedom, so a two-sided 95 % band is Student's t(0.975, 3) = 3.182 errors
+# (any t table, e.g. NIST/SEMATECH e-Handbook of Statistical Methods, table 1.3.6.7.2)
+TOLD_APART = 3.182
 
 
 @dataclass
