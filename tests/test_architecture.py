@@ -94,7 +94,7 @@ def test_planner_keeps_no_pool_in_a_global(path):
 # Inside a stage split by concept, the modules import one way too (a later one may use an earlier one).
 # An import under ``if TYPE_CHECKING:`` (annotations only) does not count.
 STAGE_ORDERS = {
-    "scenario": ["fields", "product_spec", "line_spec", "weather_spec", "sections", "root", "files", "schema"],
+    "scenario": ["fields", "product_spec", "line_spec", "weather_spec", "sections", "uncertainty_spec", "root", "files", "schema"],
     "checks": ["caution", "finding", "line_checks", "validity", "one_line", "plan_checks", "bounds", "findings"],
     "transfer": ["pump_hi", "pump_centrifugal", "pump_pd", "pumps", "operating", "flow_roots", "suction", "system"],
     "records": ["terms", "revision", "store"],

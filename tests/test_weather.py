@@ -372,3 +372,19 @@ def test_start_up_findings_say_the_weather_they_took():
     clock = plan.weather.clock(plan.startup_at_s)
     assert plan.startup_at_s > 3600.0 and f"(in the start-up's weather at {clock}: " in stuck.message, stuck.message
     assert "°F" in stuck.message.render("US") and "°C" not in stuck.message.render("US")
+
+
+def test_an_odds_draw_moves_the_weather_table_with_the_site():
+    """The odds' ambient bias and wind factor act on the weather table too (one lever function,
+    transfer/changes.with_changes): every row shifted by the bias, every given wind scaled."""
+    scenario = load_scenario(SYRUP)
+    data = scenario_to_dict(scenario)
+    data["weather"] = {"hours": [{"time": 0.0, "ambient_temperature": "2 degC", "wind_speed": "4 m/s"},
+                                 {"time": 6.0, "ambient_temperature": "-3 degC"}]}
+    scenario = scenario_from_dict(data)
+    changed = with_changes(scenario, ambient_shift=-2.0, wind_factor=1.5)
+    rows = changed.weather.hours
+    assert [r.ambient_temperature for r in rows] == pytest.approx([273.15, 268.15], abs=1e-9)
+    assert rows[0].wind_speed == pytest.approx(6.0)
+    assert rows[1].wind_speed is None                     # a row without wind keeps taking the site's
+    assert changed.site.wind_speed == pytest.approx(scenario.site.wind_speed * 1.5)

@@ -270,6 +270,7 @@ def calibrated_scenario(result: FitResult, when: datetime | None = None) -> Scen
     Factors that the log cannot determine keep their previous values."""
     previous = calibration_of(result.scenario).model_dump()
     fitted = {n: f.value for n, f in result.factors.items() if f.identifiable}
+    fitted.update({f"{n}_standard_error": f.standard_error for n, f in result.factors.items() if f.identifiable})
     stamp = (when or datetime.now(timezone.utc)).replace(microsecond=0).isoformat()
     data = {**previous, **fitted, "source": CalibrationSource(file=result.log.name, sha256=result.log.sha256),
             "fitted_at": stamp}

@@ -85,7 +85,7 @@ def check_values(scenario, lever: str, values: list[float], field: str = "values
     """Refuse (ValuesError at ``field``) values that are not finite, repeat an earlier value, or that the
     scenario refuses at the lever's field (``plan.with_changes``, SI); ``shown`` is each value as typed."""
     from planner.scenario.wording import format_quantity
-    from planner.transfer.plan import with_changes
+    from planner.transfer.changes import with_changes
 
     keyword, _, _, kind = LEVERS[lever]
     problems = []

@@ -98,14 +98,55 @@ def _plan(args) -> int:
     from planner.transfer.plan import make_plan
     from planner.reports.plan_json import plan_json, plan_text
 
+    _sampling_given(args)
     scenario = plan_scenario(args)
     plan = make_plan(scenario)
     findings = assess(plan)
+    odds = _plan_odds(args, scenario) if args.uncertainty else None
     if args.json:
-        print(json.dumps(plan_json(plan, findings=findings), indent=2, ensure_ascii=False))
+        doc = plan_json(plan, findings=findings)
+        if odds is not None:
+            from planner.reports.uncertainty_text import odds_json
+
+            doc["uncertainty"] = odds_json(odds)
+        print(json.dumps(doc, indent=2, ensure_ascii=False))
     else:
-        print(plan_text(plan, UNIT_CHOICES[args.units], findings))
+        print(plan_text(plan, UNIT_CHOICES[args.units], findings, odds=odds))
     return _exit_code(findings, args.fail_on)
+
+
+def _progress(args, what: str = "plans"):
+    def progress(done, total):
+        if not args.json and sys.stderr.isatty():
+            print(f"\r  {done}/{total} {what}", end="\n" if done == total else "", file=sys.stderr, flush=True)
+    return progress
+
+
+def _sampling_given(args) -> None:
+    """``--samples`` or ``--seed`` without ``--uncertainty``: refused (they would do nothing)."""
+    if not args.uncertainty and (args.samples is not None or args.seed is not None):
+        raise ValueError("--samples/--seed: they set the sampling of --uncertainty; add --uncertainty or leave them out")
+
+
+def _plan_odds(args, scenario) -> dict:
+    """The plan's odds (``--uncertainty``) on the command's executor."""
+    from planner.sweeps.executors import executor_for
+    from planner.sweeps.uncertainty import plan_odds
+
+    with executor_for(args.scheduler) as executor:
+        return plan_odds(scenario, samples=args.samples, seed=args.seed, executor=executor,
+                         progress=_progress(args, "samples"))
+
+
+def _sampling_options(parser) -> None:
+    parser.add_argument("--uncertainty", action="store_true",
+                        help="also plan at sampled inputs ([uncertainty] of the scenario, else the defaults): P10/P50/P90, "
+                             "the chance to finish in the window with no stop, what drives the spread")
+    parser.add_argument("--samples", type=int, default=None,
+                        help="with --uncertainty: plans at sampled inputs, a power of two from 16 to 4096 (default: the "
+                             "scenario's uncertainty.samples, else 128)")
+    parser.add_argument("--seed", type=int, default=None,
+                        help="with --uncertainty: seed of the sampling (default: uncertainty.seed, else 21)")
 
 
 def _lever_values(args, scenario, system: str):
@@ -142,18 +183,40 @@ def _compare(args) -> int:
         if not args.json and sys.stderr.isatty():
             print(f"\r  {done}/{total} plans", end="", file=sys.stderr, flush=True)
 
+    odds = None
+    _sampling_given(args)
+    if args.uncertainty:              # refuse the samples before any plan runs
+        from planner.sweeps.odds_inputs import sampling_of
+        from planner.sweeps.uncertainty import check_work
+
+        check_work(scenario, sampling_of(scenario, args.samples, args.seed)[0], len(values))
     try:
         with executor_for(args.scheduler) as executor:
             result = compare(scenario, lever, values, progress=progress, executor=executor,
                              sensitivity=args.sensitivity, ambient_shift=args.ambient_shift,
                              viscosity_uncertainty=args.viscosity_uncertainty / 100.0)
+            if args.uncertainty:
+                from planner.sweeps.compare_odds import compare_odds
+
+                odds = compare_odds(scenario, lever, values, executor, _progress(args, "sampled plans"),
+                                    samples=args.samples, seed=args.seed)
     except BudgetError as exc:   # name the option the values came from
         raise BudgetError([(option if field == "values" else field, message) for field, message in exc.problems]) from None
     if args.json:
-        print(json.dumps(comparison_json(result), indent=2, ensure_ascii=False))
+        doc = comparison_json(result)
+        if odds is not None:
+            from planner.sweeps.compare_odds import comparison_odds_json
+
+            doc["uncertainty"] = comparison_odds_json(odds)
+        print(json.dumps(doc, indent=2, ensure_ascii=False))
     else:
         print(scenario.name)
         print(comparison_table(result, system))
+        if odds is not None:
+            from planner.reports.uncertainty_text import comparison_odds_table
+
+            print()
+            print(comparison_odds_table(odds, system))
     if args.fail_on is None:
         return 0
     hit = any(at_least(f["severity"], args.fail_on) for r in result.rows for f in r.get("findings", []))
@@ -201,6 +264,8 @@ def register(sub) -> None:
     pl.add_argument("scenario", help="scenario file with [pump], [source] and [destination]")
     _common(pl, "print JSON (SI units, keys documented in README) with the findings")
     add_weather_option(pl)
+    _sampling_options(pl)
+    add_scheduler_option(pl)
     pl.set_defaults(func=_plan)
 
     cp = sub.add_parser("compare", help="compare setpoints (or steam pressures, pump speeds, flow limits); recommend one")
@@ -213,6 +278,7 @@ def register(sub) -> None:
     cp.add_argument("--ambient-shift", type=float, default=10.0, help="sensitivity: ambient shift in K (default 10)")
     cp.add_argument("--viscosity-uncertainty", type=float, default=20.0, help="sensitivity: viscosity ± percent (default 20)")
     _common(cp, "print JSON (SI: lever values in K, Pa, rev/s, m3/s) with each row's findings")
+    _sampling_options(cp)
     add_scheduler_option(cp)
     add_weather_option(cp)
     cp.set_defaults(func=_compare)

@@ -193,8 +193,17 @@ def _plans_save(args) -> int:
     scenario = plan_scenario(args)        # with --weather, the saved scenario holds the file's table
     store = _store(args)
     who = _sign_in(store, args)
+    from planner.cli.line_commands import _sampling_given
+
+    _sampling_given(args)
+    results = plan_summary(scenario)
+    if args.uncertainty:      # the odds kept as their own key: the supervisor signs a range
+        from planner.cli.line_commands import _plan_odds
+        from planner.reports.uncertainty_text import odds_summary
+
+        results["uncertainty"] = odds_summary(_plan_odds(args, scenario))
     revision = store.save(args.name, scenario, who, note=args.note or "", site=args.site or "",
-                          results=plan_summary(scenario), plan_id=args.plan)
+                          results=results, plan_id=args.plan)
     if args.json:
         _print_json({"plan_id": revision.plan_id, "revision": revision.number})
     else:
@@ -346,6 +355,10 @@ def _register_plans(sub, db) -> None:
     save.add_argument("--note", default="")
     add_weather_option(save)
     save.add_argument("--json", action="store_true", help='print {"plan_id": ..., "revision": ...}')
+    from planner.cli.line_commands import _sampling_options, add_scheduler_option
+
+    _sampling_options(save)
+    add_scheduler_option(save)
     _signed(save)
     save.set_defaults(func=_guarded(_plans_save))
     for name, text in (("submit", "submit a draft for review"), ("approve", "approve a submitted revision"),

@@ -222,9 +222,10 @@ def _energy_lines(plan: Plan, system: str) -> list[str]:
     return lines
 
 
-def plan_text(plan: Plan, system: str = "SI", findings: list | None = None) -> str:
+def plan_text(plan: Plan, system: str = "SI", findings: list | None = None, odds: dict | None = None) -> str:
     """The plan in words: first line the worst finding (STOP and why), then the findings by severity,
-    then the figures, all in ``system`` ("SI" or "US")."""
+    then the figures, all in ``system`` ("SI" or "US"); with ``odds`` (``sweeps.uncertainty.plan_odds``)
+    their block after the figures."""
     found = assess(plan) if findings is None else findings
     lines = [headline(found, system), "", plan.scenario.name, ""]
     lines += findings_lines(found, system)
@@ -235,5 +236,9 @@ def plan_text(plan: Plan, system: str = "SI", findings: list | None = None) -> s
     lines.append("")
     lines += _energy_lines(plan, system)
     lines.append("")
+    if odds is not None:
+        from planner.reports.uncertainty_text import odds_lines
+
+        lines += odds_lines(odds, system) + [""]
     lines.append("  " + STANDING_CAUTION)
     return "\n".join(lines)

@@ -64,6 +64,8 @@ class Budget:
     calibration_steps: int = 20_000_000   # one calibration fit (log rows x replays x steps a row)
     envelope_steps: int = 10_000_000   # one operating envelope (ambients x lever values plans)
     sweep_steps: int = 100_000_000     # one sweep manifest (all its plans; a batch job, not a page)
+    uncertainty_steps: int = 60_000_000   # the odds: samples x (comparison rows) plans; 128 samples of 11
+                                          # rows of the demos are 21-40 million
     max_ambient_shift_k: float = 50.0  # sensitivity: ambient shift [K]
     max_viscosity_uncertainty: float = 0.9   # sensitivity: viscosity +- fraction (below 1: stays positive)
 
@@ -71,7 +73,8 @@ class Budget:
         return replace(self, pass_steps=int(self.pass_steps * factor), plan_steps=int(self.plan_steps * factor),
                        comparison_steps=int(self.comparison_steps * factor),
                        calibration_steps=int(self.calibration_steps * factor),
-                       envelope_steps=int(self.envelope_steps * factor), sweep_steps=int(self.sweep_steps * factor))
+                       envelope_steps=int(self.envelope_steps * factor), sweep_steps=int(self.sweep_steps * factor),
+                       uncertainty_steps=int(self.uncertainty_steps * factor))
 
 
 DEFAULT_BUDGET = Budget()
@@ -343,3 +346,23 @@ def sweep_problems(work: int, plans: int, budget: Budget | None = None) -> list[
     return [("", f"the sweep is {plans:,} plans estimated at {work:,} march steps, past the work budget of "
                  f"{budget.sweep_steps:,}: fewer ambients or lever values in the manifest's entries, fewer scenarios, or "
                  f"raise the budget for batch use with {ENV_FACTOR}=FACTOR")]
+
+
+def uncertainty_problems(scenario, samples: int, rows: int = 1, field: str = "--samples",
+                         budget: Budget | None = None) -> list[tuple[str, str]]:
+    """The odds of ``rows`` plans (a comparison's values; 1 for one plan) at ``samples`` samples each
+    against the budget: every sample is one plan."""
+    budget = budget or active_budget()
+    problems = plan_problems(scenario, budget=budget)
+    if problems:
+        return problems
+    each = plan_work(scenario)
+    work = each * samples * rows
+    if work <= budget.uncertainty_steps:
+        return []
+    most = budget.uncertainty_steps // (each * rows)
+    fewer = 2 ** int(math.floor(math.log2(most))) if most >= 1 else 0
+    advice = f"give at most {fewer} samples" if fewer >= 16 else "compare fewer values"
+    return [(field, f"{samples:,} samples x {rows} plan(s) are estimated at {work:,} march steps ({each:,} a plan), "
+                    f"past the work budget of {budget.uncertainty_steps:,}: {advice}, lower schedule.timeline_steps, "
+                    f"or raise the budget for batch use with {ENV_FACTOR}=FACTOR")]

@@ -15,6 +15,7 @@ from planner.scenario.product_spec import ProductSpec
 from planner.scenario.sections import (Calibration, Costs, Destination, Limits, Operation, PumpSpec, Schedule, Site,
                                        Vessel)
 from planner.scenario.weather_spec import Weather, weather_problems
+from planner.scenario.uncertainty_spec import Uncertainty
 
 SCHEMA_VERSION = 1
 
@@ -37,6 +38,8 @@ class Scenario(_Model):
     limits: Limits = Field(default_factory=Limits)
     calibration: Optional[Calibration] = Field(None, description="site factors fitted to logged transfers; none: all 1")
     weather: Optional[Weather] = Field(None, description="ambient and wind over the transfer; none: the site's, constant")
+    uncertainty: Optional[Uncertainty] = Field(None, description="distributions of the uncertain inputs for "
+                                                                 "`plan --uncertainty`; none: the defaults")
 
     @field_validator("schema_version")
     @classmethod

@@ -27,6 +27,8 @@ from planner.scenario.sections import (Calibration, CalibrationSource, Costs, Cu
                                        Operation, PumpSpec, Schedule, Site, Vessel, calibration_of,
                                        vessel_capacity)
 from planner.scenario.weather_spec import Weather, WeatherHour, row_seconds, start_of, timestamp  # noqa: F401
+from planner.scenario.uncertainty_spec import (DEFAULT_CONFIDENCE, FactorDistribution, ShiftDistribution,  # noqa: F401
+                                               Uncertainty)
 from planner.scenario.root import (SCHEMA_VERSION, Scenario, field_choices, json_schema, problems_from,  # noqa: F401
                                    scenario_from_dict)
 from planner.scenario.files import (LONG_INTEGER_DIGITS, MAX_SCENARIO_CHARS, json_integer, load_scenario,  # noqa: F401

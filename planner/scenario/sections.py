@@ -189,6 +189,8 @@ class Limits(_Model):
     npsh_margin: Quantity("length", ge=0.0, le=20.0, description="NPSH margin wanted above the pump's requirement") = 0.6
     flash_point_margin: Quantity("temperature_difference", ge=0.0, le=100.0, description="keep the product this far below its flash point") = 10.0
     poor_film_coefficient: Quantity("heat_transfer_coefficient", ge=0.0, le=1000.0, description="inner film coefficient below which laminar heat transfer counts as poor") = 20.0
+    confidence: Optional[float] = Field(None, ge=0.5, le=0.99, description="the chance a plan must reach to finish in "
+                                        "the planned window with no stop (`--uncertainty`); empty: 0.9, nine times out of ten")
 
 
 class CalibrationSource(_Model):
@@ -205,6 +207,9 @@ class Calibration(_Model):
     viscosity_factor: float = Field(1.0, ge=0.05, le=20.0, description="multiplies the product's viscosity at every temperature [-]")
     heat_loss_factor: float = Field(1.0, ge=0.01, le=20.0, description="multiplies the line's heat loss to the surroundings [-]")
     slip_factor: float = Field(1.0, ge=0.0, le=20.0, description="multiplies a positive-displacement pump's slip [-]")
+    viscosity_factor_standard_error: Optional[float] = Field(None, ge=0.0, le=20.0, description="the fit's standard error of viscosity_factor [-]")
+    heat_loss_factor_standard_error: Optional[float] = Field(None, ge=0.0, le=20.0, description="the fit's standard error of heat_loss_factor [-]")
+    slip_factor_standard_error: Optional[float] = Field(None, ge=0.0, le=20.0, description="the fit's standard error of slip_factor [-]")
     source: Optional[CalibrationSource] = None
     fitted_at: Optional[str] = Field(None, max_length=40, description="when the factors were fitted (ISO 8601, UTC)")
 

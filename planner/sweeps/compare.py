@@ -17,7 +17,8 @@ from dataclasses import dataclass, field
 
 from planner.errors import PlannerError, quoted
 from planner.checks.findings import SEVERITY_RANK, assess, count_by_severity, worst_severity
-from planner.transfer.plan import make_plan, with_changes
+from planner.transfer.changes import with_changes
+from planner.transfer.plan import make_plan
 from planner.plain import plain
 from planner.checks.lever_values import LEVERS, check_values
 from planner.scenario.schema import Scenario

@@ -90,7 +90,7 @@ def check_ambients(scenario: Scenario, ambients: list[float], option: str = "--a
     from pydantic import ValidationError
 
     from planner.scenario.schema import problems_from
-    from planner.transfer.plan import with_changes
+    from planner.transfer.changes import with_changes
 
     problems = []
     for i, ambient in enumerate(ambients):

@@ -32,16 +32,15 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from pydantic import ValidationError
 
-from planner.errors import ComputationError, ScenarioError
+from planner.errors import ComputationError
+from planner.transfer.changes import with_changes  # noqa: F401  (the levers' public name, imported from here too)
 from planner.transfer.hold import Hold, hold_analysis
 from planner.line.march import DEFAULT_STEP_M, MarchResult
 from planner.line.products import scenario_product
 from planner.scenario.budget import STARTUP_WEATHER_PASSES
-from planner.scenario.quantities import SI
 from planner.scenario.wording import Q, Sentence
-from planner.scenario.schema import Scenario, problems_from
+from planner.scenario.schema import Scenario
 from planner.transfer.startup import Prewarm, PushCold, prewarm, push_cold
 from planner.correlations.steam import latent_heat, saturation_temperature_gauge
 from planner.transfer.system import OperatingPoint, SystemState, TransferSystem
@@ -192,59 +191,6 @@ class Plan:
     @property
     def ok(self) -> bool:
         return self.start.moving and self.timeline.completed
-
-
-def with_changes(scenario: Scenario, setpoint: float | None = None, steam_pressure: float | None = None,
-                 pump_speed: float | None = None, flow_limit: float | None = None,
-                 ambient_shift: float = 0.0) -> Scenario:
-    """A validated copy of the scenario with levers moved (SI arguments: K, Pa gauge, rev/s, m3/s;
-    ``ambient_shift`` in K added to every ambient temperature, the weather table's and the design day's too).  The copy's fields are assigned as SI
-    floats and checked against the same ranges as a scenario file's."""
-    changed = scenario.model_copy(deep=True)
-    if (pump_speed is not None or flow_limit is not None) and changed.pump is None:
-        raise ScenarioError([("pump", "the scenario has no pump: its speed or flow cannot be changed")])
-    if setpoint is not None:
-        _assign(changed.tracing, "tracing", "setpoint", SI(setpoint))
-    if steam_pressure is not None:
-        _assign(changed.tracing, "tracing", "steam_pressure", SI(steam_pressure))
-    if pump_speed is not None:
-        if changed.pump.max_speed is not None and changed.pump.max_speed < pump_speed:
-            _assign(changed.pump, "pump", "max_speed", SI(pump_speed))
-        _assign(changed.pump, "pump", "speed", SI(pump_speed))
-    if flow_limit is not None:
-        _assign(changed.pump, "pump", "flow_setpoint", SI(flow_limit))
-        _assign(changed.pump, "pump", "control", "fixed_flow")
-    if ambient_shift:
-        _shift_ambients(changed, ambient_shift)
-    return changed
-
-
-def _assign(model, path: str, name: str, value) -> None:
-    """Set one field of a scenario section, validated; a bad value raises ScenarioError naming its path."""
-    try:
-        setattr(model, name, value)
-    except ValidationError as exc:
-        raise ScenarioError([(f"{path}.{p}" if p else path, m) for p, m in problems_from(exc)]) from None
-
-
-def _shift_ambients(scenario: Scenario, shift: float) -> None:
-    site = scenario.site
-    _assign(site, "site", "ambient_temperature", SI(site.ambient_temperature + shift))
-    if site.design_ambient_temperature is not None:
-        _assign(site, "site", "design_ambient_temperature", SI(site.design_ambient_temperature + shift))
-    weather = scenario.weather
-    if weather is not None:     # the weather table's rows and the design day's extremes move with the site
-        for i, row in enumerate(weather.hours):
-            _assign(row, f"weather.hours[{i}]", "ambient_temperature", SI(row.ambient_temperature + shift))
-        extremes = ("coldest_temperature", "warmest_temperature")
-        for name in (extremes[::-1] if shift > 0 else extremes):    # never coldest above warmest on the way
-            if getattr(weather, name) is not None:
-                _assign(weather, "weather", name, SI(getattr(weather, name) + shift))
-    for name, route in (("route", scenario.route), ("suction", scenario.suction)):
-        for i, seg in enumerate(route.segments if route is not None else []):
-            if seg.surroundings.ambient_temperature is not None:
-                _assign(seg.surroundings, f"{name}.segments[{i}].surroundings", "ambient_temperature",
-                        SI(seg.surroundings.ambient_temperature + shift))
 
 
 def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | None = None,

@@ -401,6 +401,59 @@ def case_engine(args) -> dict:
     return figures
 
 
+UNCERTAINTY_GOAL = 40.0     # issue 21: 128 samples of the syrup demo within 40 reference marches of wall time
+
+
+@register("uncertainty", "the odds: 128 sampled plans of the syrup demo on 2 workers, in reference marches "
+                         "(goal <= 40); and an 11-setpoint comparison with uncertainty (11 x 128 plans)")
+def case_uncertainty(args) -> dict:
+    from planner.scenario.schema import load_scenario
+    from planner.sweeps.compare_odds import compare_odds
+    from planner.sweeps.executors import local_executor
+    from planner.sweeps.uncertainty import plan_odds
+    from tests.benchmarks.baseline_march import reference_march_rk4
+
+    syrup = load_scenario(DEMO_DIR / "syrup_railcar_unload.toml")
+    reference = _line_of_length(1000.0)
+    line = line_from_scenario(reference)
+    op = reference.operation
+    method = reference.route.fitting_method
+    rounds = max(3, args.baseline_repeats)
+    ratios, walls, refs = [], [], []
+    with local_executor(2) as pool:
+        plan_odds(syrup, samples=16, executor=pool)            # starts the workers and their imports, untimed
+        for _ in range(rounds):
+            ref = _median_time(lambda: reference_march_rk4(line, op.flow, op.inlet_temperature, op.inlet_pressure,
+                                                           method), 1)
+            wall = _median_time(lambda: plan_odds(syrup, samples=128, executor=pool), 1)
+            ratios.append(wall / ref)
+            walls.append(wall)
+            refs.append(ref)
+        setpoints = [278.15 + 5.0 * i for i in range(11)]      # 5-55 degC, the syrup's setpoints
+        t0 = time.perf_counter()
+        comparison = compare_odds(syrup, "setpoint", setpoints, executor=pool, samples=128)
+        compare_wall = time.perf_counter() - t0
+        compare_ref = _median_time(lambda: reference_march_rk4(line, op.flow, op.inlet_temperature,
+                                                               op.inlet_pressure, method), 1)
+    median = statistics.median(ratios)
+    per_plan = statistics.median(walls) / 128 * 2
+    return {
+        "rounds": rounds, "samples": 128, "workers": 2, "wall_seconds_median": statistics.median(walls),
+        "reference_march_seconds_median": statistics.median(refs), "in_reference_marches": median,
+        "goal": f"<= {UNCERTAINTY_GOAL:g}", "met": median <= UNCERTAINTY_GOAL,
+        "comparison_seconds": compare_wall, "comparison_in_reference_marches": compare_wall / compare_ref,
+        "report_lines": [
+            f"   128 samples, 2 workers  {statistics.median(walls):8.2f} s wall (median of {rounds}; "
+            f"{per_plan * 1e3:.0f} ms of a worker per sampled plan)",
+            f"   = {median:.0f} reference marches (range {min(ratios):.0f}-{max(ratios):.0f}; one reference march "
+            f"{statistics.median(refs) * 1e3:.1f} ms); goal <= {UNCERTAINTY_GOAL:g}: "
+            f"{'met' if median <= UNCERTAINTY_GOAL else 'NOT met'}",
+            f"   11 setpoints x 128 samples (1,408 plans), 2 workers: {compare_wall:.1f} s wall = "
+            f"{compare_wall / compare_ref:.0f} reference marches; by the odds: {comparison.reason}",
+        ],
+    }
+
+
 # -- report ------------------------------------------------------------------------------------------
 
 def _format_case(name: str, description: str, fig: dict) -> str:
