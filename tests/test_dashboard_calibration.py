@@ -1,4 +1,4 @@
-"""The Calibration tab (dashboard/calibration_view.py) through streamlit.testing.v1.AppTest: the demo
+"""The Calibration tab (dashboard/views/calibration.py) through streamlit.testing.v1.AppTest: the demo
 log fitted on the barge demo (the same numbers as ``planner.calibration.fit.fit_calibration``), applied
 to the working scenario, and saved as a revision whose note names the log and its SHA-256
 (checked through ``planner.records.store.PlanStore``); a bad log shows its message."""
@@ -83,7 +83,7 @@ def test_without_a_log_the_tab_asks_for_one(db):
 
 def test_a_log_that_cannot_be_read_shows_its_message():
     # the page's fit job with the bytes an upload would give: the planner's message, no traceback
-    from dashboard.calibration_data import fit_document as cached_fit
+    from dashboard.compute.calibration_data import fit_document as cached_fit
     from planner.scenario.schema import scenario_to_json
 
     scenario_json = scenario_to_json(load_scenario(BARGE))

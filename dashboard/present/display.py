@@ -1,4 +1,4 @@
-"""Display units and number formatting for the dashboard and its report (no Streamlit here).
+"""Display units, number formatting and the page's caution for the dashboard and its report (no Streamlit here).
 
 Every conversion goes through ``planner.scenario.units``: ``from_si`` / ``to_si_from_display`` for the kinds
 of ``planner.scenario.units.UNIT_SYSTEMS`` and the package's pint registry for the few kinds shown in the same
@@ -32,20 +32,18 @@ FIXED_DISPLAY = {kind: (unit_text(unit), unit) for kind, unit in {
 }.items()}
 _SI_FOR_FIXED = {"rotational_speed": "revolution/second", "displacement": "m**3"}
 
-# The touch limit drawn on jacket temperatures: a common plant limit for unguarded surfaces that
-# people can reach [trade]; site rules may set another figure.
-TOUCH_LIMIT_K = 333.15
-
-EXTRA_CAUTION = Sentence(
-    "Surfaces above about {touch} burn on contact: guard or insulate them. Check hose and loading-arm "
-    "ratings and their test dates before every transfer. Local codes, site procedures and the advice "
-    "of a licensed engineer take precedence over this plan.", touch=Q(333.15, "temperature", 0))
-CAUTION_TEXT = STANDING_CAUTION + " " + EXTRA_CAUTION
+def extra_caution(touch_k: float) -> Sentence:
+    """The dashboard's caution beside the standing one; ``touch_k`` is the scenario's
+    ``limits.touch_temperature`` (the limit its checks and charts use)."""
+    return Sentence(
+        "Surfaces above about {touch} burn on contact: guard or insulate them. Check hose and loading-arm "
+        "ratings and their test dates before every transfer. Local codes, site procedures and the advice "
+        "of a licensed engineer take precedence over this plan.", touch=Q(touch_k, "temperature", 0))
 
 
-def caution_text(system: str = "SI") -> str:
+def caution_text(system: str, touch_k: float) -> str:
     """The standing caution and the dashboard's own, in the display system."""
-    return STANDING_CAUTION + " " + render(EXTRA_CAUTION, system)
+    return STANDING_CAUTION + " " + render(extra_caution(touch_k), system)
 
 
 def label(kind: str, system: str) -> str:

@@ -19,12 +19,14 @@ import plotly.graph_objects as go
 import streamlit as st
 from plotly.subplots import make_subplots
 
-from dashboard.compute import cached_calibration
-from dashboard.display import convert_array, fmt, label, to_display
-from dashboard.plaintext import escaped
+from dashboard.compute.cache import cached_calibration
+from dashboard.present.display import convert_array, fmt, label, to_display
+from dashboard.present.plaintext import escaped
 
-TAB = "Calibration"
-DEMO_LOG = Path(__file__).resolve().parents[1] / "demo_scenarios" / "logs" / "barge_wren_2026-01-14.csv"
+from .page import Page
+
+NEEDS_RESULTS = False
+DEMO_LOG = Path(__file__).resolve().parents[2] / "demo_scenarios" / "logs" / "barge_wren_2026-01-14.csv"
 QUANTITY_KIND = {"discharge_pressure": ("pressure", "pressure"), "suction_pressure": ("pressure", "pressure"),
                  "pump_inlet_temperature": ("temperature", "temperature_difference"),
                  "outlet_temperature": ("temperature", "temperature_difference"), "flow": ("volume_flow", "volume_flow")}
@@ -125,13 +127,13 @@ def _apply(data: dict) -> None:
 
 
 def _apply_and_save(data: dict) -> None:
-    from dashboard import sharing
-
     _apply(data)
     ss = st.session_state
     ss["sv_note"] = revision_note(data)
     ss.pop("share_msg", None)
-    sharing._do_save()   # the sidebar's save: same plan name, site, author and revision rules
+    from dashboard.services.revisions import do_save
+
+    do_save()   # the sidebar's save: same plan name, site, author and revision rules
     kind, text = ss.get("share_msg") or ("error", "Not saved.")
     ss["cal_msg"] = (kind, text if kind != "success" else f"{text} The note names the log and its SHA-256.")
 
@@ -215,6 +217,10 @@ def _current(scenario) -> None:
     st.caption(f"In use now: viscosity_factor {calibration.viscosity_factor:.4g}, heat_loss_factor "
                f"{calibration.heat_loss_factor:.4g}, slip_factor {calibration.slip_factor:.4g}{origin}")
     st.button("Remove the calibration", key="cal_remove", on_click=_remove)
+
+
+def draw(page: Page) -> None:
+    calibration_view(page.scenario, page.scenario_json, page.unit_system)
 
 
 def calibration_view(scenario, scenario_json: str | None, unit_system: str) -> None:

@@ -1,6 +1,7 @@
-"""Planner calls for the dashboard, returning plain data (no Streamlit here).
+"""Planner calls for the dashboard, run in the worker processes (no Streamlit here).
 
-``build_bundle(scenario)`` runs the plan once and keeps what the pages and the report draw: the
+``plan_results(scenario)`` runs the plan once and keeps what the pages and the report draw
+(``compute/record.PlanResults``): the
 documented plan JSON (``planner.reports.plan_json.plan_json``, the same document as
 ``python -m planner plan SCENARIO --json``), the profile along the discharge line at the start,
 the segment boundaries, the findings and the product's viscosity curve. Everything is SI.
@@ -17,10 +18,13 @@ from planner.errors import PlannerError
 from planner.checks.findings import assess
 from planner.plain import finite_or_none, plain as _plain
 from planner.reports.key_figures import key_figures, outlet_rating
+from planner.reports.saved_figures import saved_figures
 from planner.transfer.plan import make_plan
 from planner.reports.plan_json import plan_json
 from planner.line.products import Product
 from planner.scenario.schema import ProductSpec, Scenario, problems_from
+
+from dashboard.compute.record import PlanResults
 
 def segment_table(segments) -> list[dict]:
     return [{
@@ -140,7 +144,7 @@ def product_preview(product_data: dict) -> tuple[dict | None, list[tuple[str, st
         return None, [("product.viscosity", str(exc))]
 
 
-def build_bundle(scenario: Scenario) -> dict:
+def plan_results(scenario: Scenario) -> PlanResults:
     """Everything the pages show for one scenario (SI). Raises PlannerError/ValueError."""
     plan = make_plan(scenario)
     found, findings, findings_note = findings_of(plan)
@@ -152,24 +156,17 @@ def build_bundle(scenario: Scenario) -> dict:
     if profile is not None:
         profile["rating"] = node_ratings(discharge, profile["nodes"])
     rating = outlet_rating(plan)
-    return {
-        "scenario_name": scenario.name,
-        "plan": doc,
-        "key_figures": key_figures(plan),
-        "profile": profile,
-        "outlet_rating": {"value": rating.value, "where": rating.where},
-        "touch_limit_k": scenario.limits.touch_temperature,
-        "segments": segment_table(discharge),
-        "suction_segments": segment_table(suction),
-        "push_cold_rows": _plain(plan.push_cold.rows or {}),
-        "findings": findings,
-        "findings_note": findings_note,
-        "product": product_curve(scenario.product, product=transfer.product),
-        "destination_max_level": scenario.destination.max_level if scenario.destination else None,
-        "tracing_kind": scenario.tracing.kind,
-        "setpoint": scenario.tracing.setpoint,
-        "steam_pressure": scenario.tracing.steam_pressure,
-    }
+    return PlanResults(
+        scenario_name=scenario.name, plan=doc, key_figures=key_figures(plan), saved=saved_figures(plan, found),
+        profile=profile, outlet_rating={"value": rating.value, "where": rating.where},
+        touch_limit_k=scenario.limits.touch_temperature,
+        segments=segment_table(discharge), suction_segments=segment_table(suction),
+        push_cold_rows=_plain(plan.push_cold.rows or {}), findings=findings, findings_note=findings_note,
+        product=product_curve(scenario.product, product=transfer.product),
+        destination_max_level=scenario.destination.max_level if scenario.destination else None,
+        tracing_kind=scenario.tracing.kind, setpoint=scenario.tracing.setpoint,
+        steam_pressure=scenario.tracing.steam_pressure,
+    )
 
 
 # ---------------------------------------------------------------------------------------------
