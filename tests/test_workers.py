@@ -136,6 +136,6 @@ def test_a_fresh_pool_starts_one_worker_and_the_next_when_two_sessions_compute_a
         thread.join()
         assert "error" not in second and "error" not in heavy["r"]
         assert len(pool._all) == 2
-        assert first["plan"]["timeline"]["total_time_s"] == second["plan"]["timeline"]["total_time_s"]
+        assert first["results"].plan["timeline"]["total_time_s"] == second["results"].plan["timeline"]["total_time_s"]
     finally:
         pool.close()
