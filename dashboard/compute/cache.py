@@ -95,17 +95,20 @@ def _comparison_memo() -> _Memo:
     return _Memo()
 
 
-def comparison_key(scenario_json: str, lever: str, values_si, sensitivity: bool) -> tuple:
-    """Values equal to 9 significant digits are the same comparison (SI and US entries of one value)."""
-    return scenario_json, lever, tuple(float(f"{float(v):.9g}") for v in values_si), bool(sensitivity)
+def comparison_key(scenario_json: str, lever: str, values_si, sensitivity) -> tuple:
+    """Values equal to 9 significant digits are the same comparison (SI and US entries of one value);
+    ``sensitivity``: False or (ambient shift [K], viscosity fraction)."""
+    shifts = tuple(float(f"{float(v):.9g}") for v in sensitivity) if isinstance(sensitivity, (list, tuple)) \
+        else bool(sensitivity)
+    return scenario_json, lever, tuple(float(f"{float(v):.9g}") for v in values_si), shifts
 
 
-def cached_comparison_result(scenario_json: str, lever: str, values_si, sensitivity: bool) -> dict | None:
+def cached_comparison_result(scenario_json: str, lever: str, values_si, sensitivity) -> dict | None:
     """The finished comparison for these inputs if this process has run it, else None."""
     return _comparison_memo().get(comparison_key(scenario_json, lever, values_si, sensitivity))
 
 
-def comparison(scenario_json: str, lever: str, values_si, sensitivity: bool, progress=None) -> dict:
+def comparison(scenario_json: str, lever: str, values_si, sensitivity, progress=None) -> dict:
     """``dashboard.compute.results.run_comparison`` as plain data, or ``{"error": ...}``; run once per process
     for the same inputs (a transient error, a time limit or a full pool, is not kept).
 
@@ -114,7 +117,7 @@ def comparison(scenario_json: str, lever: str, values_si, sensitivity: bool, pro
     found = _comparison_memo().get(key)
     if found is not None:
         return found
-    result = pool().run("comparison", (scenario_json, lever, list(key[2]), bool(sensitivity)), session=_session_id(),
+    result = pool().run("comparison", (scenario_json, lever, list(key[2]), key[3]), session=_session_id(),
                         progress=progress)
     if not result.get("transient"):
         _comparison_memo().put(key, result)

@@ -13,6 +13,10 @@ import math
 
 import numpy as np
 
+import inspect
+
+from planner.checks.lever_values import LEVERS
+from planner.scenario.labels import field_label
 from planner.sweeps.compare import compare
 from planner.errors import PlannerError
 from planner.checks.findings import assess
@@ -172,28 +176,34 @@ def plan_results(scenario: Scenario) -> PlanResults:
 # ---------------------------------------------------------------------------------------------
 # Setpoint (or other lever) comparison
 
-LEVERS = {
-    # lever name of planner.sweeps.compare -> (label, display kind); values are SI both ways
-    "setpoint": ("Tracing setpoint", "temperature"),
-    "steam_pressure": ("Steam pressure", "pressure"),
-    "pump_speed": ("Pump speed", "rotational_speed"),
-    "flow_limit": ("Flow limit", "volume_flow"),
-}
+def lever_label(lever: str) -> str:
+    """The words for a lever: its field's label (``scenario/labels``) of the one lever table
+    (``checks/lever_values.LEVERS``)."""
+    spec = LEVERS[lever]
+    return field_label(f"{spec.section}.{spec.field}") or lever
+
+
+def sensitivity_defaults() -> tuple[float, float]:
+    """The comparison's own default shifts (``compare``'s ``ambient_shift`` [K], ``viscosity_uncertainty``)."""
+    parameters = inspect.signature(compare).parameters
+    return parameters["ambient_shift"].default, parameters["viscosity_uncertainty"].default
 
 
 def run_comparison(scenario: Scenario, lever: str, values_si: list[float], progress=None,
-                   sensitivity: bool = False, executor=None) -> dict:
+                   sensitivity=False, executor=None) -> dict:
     """``planner.sweeps.compare.compare`` as plain data (lever values SI: K, Pa, rev/s, m3/s), its rows on
-    ``executor`` (the dashboard worker's; None: in this process)."""
-    kind = LEVERS[lever][1]
-    comparison = compare(scenario, lever=lever, values=list(values_si), progress=progress, sensitivity=sensitivity,
-                         executor=executor)
+    ``executor`` (the dashboard worker's; None: in this process).  ``sensitivity``: False, True (the
+    comparison's default shifts) or ``(ambient shift [K], viscosity fraction)``."""
+    kind = LEVERS[lever].kind
+    shift, fraction = sensitivity if isinstance(sensitivity, (list, tuple)) else sensitivity_defaults()
+    comparison = compare(scenario, lever=lever, values=list(values_si), progress=progress, sensitivity=bool(sensitivity),
+                         executor=executor, ambient_shift=float(shift), viscosity_uncertainty=float(fraction))
     rows = [_plain(dict(r)) for r in comparison.rows]
     cases = [{"case": name, "recommended_value": case.get("recommended_value"), "reason": case.get("reason", ""),
               "total_costs": _plain(case.get("total_costs", []))}
              for name, case in (comparison.sensitivity or {}).items()]
     return {
-        "lever": lever, "lever_label": LEVERS[lever][0], "kind": kind, "rows": rows,
+        "lever": lever, "lever_label": lever_label(lever), "kind": kind, "rows": rows,
         "recommended": comparison.recommended, "runner_up": comparison.runner_up,
         "reason": comparison.reason or "", "sensitivity": cases, "tied": list(comparison.tied),
         "end_of_range": comparison.end_of_range,

@@ -88,7 +88,7 @@ def plan_job(scenario_json: str, progress=None, executor=None) -> dict:
         return _failure(exc, "plan")
 
 
-def comparison_job(scenario_json: str, lever: str, values_si: list, sensitivity: bool, progress=None,
+def comparison_job(scenario_json: str, lever: str, values_si: list, sensitivity, progress=None,
                    executor=None) -> dict:
     from planner.scenario.schema import parse_scenario_text
 
