@@ -6,6 +6,7 @@ from __future__ import annotations
 import streamlit as st
 
 from planner.reports.key_figures import figure_text
+from planner.scenario.labels import field_label
 from planner.scenario.schema import Limits, Scenario
 from planner.scenario.wording import render
 
@@ -74,7 +75,7 @@ def page_header(scenario: Scenario | None, unit_system: str, problem_list: list,
     page_notices()
     if problem_list:
         st.error(f"**The inputs have {len(problem_list)} problem(s)** — each message is shown beside its field "
-                 "under Inputs:  \n" + "  \n".join(f"• {escaped(p or '(file)')}: {escaped(m)}" for p, m in problem_list[:8])
+                 "under Inputs:  \n" + "  \n".join(f"• {escaped(field_label(p) or p or '(file)')}: {escaped(m)}" for p, m in problem_list[:8])
                  + ("  \n• …" if len(problem_list) > 8 else ""))
     if isinstance(planned, PlanFailure) and not planned.problems:
         st.error(f"**No plan for these inputs:** {escaped(planned.error)}")

@@ -11,6 +11,7 @@ import streamlit as st
 from planner.errors import PlannerError
 from planner.records.links import URL_BUDGET_CHARS, fits_in_url, link_url, query_for
 from planner.records.revision import Revision
+from planner.records.terms import SAVE_ROLES
 from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_toml
 
 from dashboard import header, loading, url_state
@@ -118,12 +119,15 @@ def save_share_review(container, scenario_json: str | None) -> None:
         label = f"Save as revision {revisions.next_number(revision)}"
     else:
         label = "Save plan"
-    container.button(label, key="sv_save", on_click=revisions.do_save, disabled=scenario_json is None or account is None,
+    may_save = account is not None and account.role in SAVE_ROLES
+    container.button(label, key="sv_save", on_click=revisions.do_save, disabled=scenario_json is None or not may_save,
                      width="stretch", help="saving never overwrites: every save is a new revision")
     if scenario_json is None:
         container.caption("The plan can be saved once the inputs are valid.")
     elif account is None:
         container.caption("Sign in (above) to save: the revision records who saved it.")
+    elif not may_save:
+        container.caption(f"An {account.role} account manages accounts; saving needs a planner or supervisor account.")
     else:
         container.caption(f"Saved as {account.name}.")
 
@@ -155,4 +159,4 @@ def save_share_review(container, scenario_json: str | None) -> None:
         container.warning(f"These inputs are too long for a link ({len(url):,} characters; at most "
                           f"{URL_BUDGET_CHARS:,}). Save the plan and share its id instead.")
         container.button("Save and share the id", key="sv_save_share", on_click=revisions.do_save, width="stretch",
-                         disabled=account is None)
+                         disabled=not may_save)

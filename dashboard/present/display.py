@@ -144,6 +144,11 @@ WORDS = {
     "hooper": "Hooper 2-K", "darby": "Darby 3-K", "mineral_wool": "mineral wool",
     "calcium_silicate": "calcium silicate", "carbon_steel": "carbon steel", "stainless_steel": "stainless steel",
     "rubber_hose": "rubber hose", "composite_hose": "composite hose",
+    # fittings (planner.correlations.fittings) and calibration factors (planner.calibration.replay)
+    "elbow_90_standard": "90° elbow, standard", "elbow_90_long_radius": "90° elbow, long radius",
+    "elbow_45_standard": "45° elbow, standard", "tee_run_through": "tee, run through",
+    "tee_through_branch": "tee, through the branch", "swing_check_valve": "swing check valve",
+    "viscosity_factor": "viscosity factor", "heat_loss_factor": "heat-loss factor", "slip_factor": "pump slip factor",
 }
 
 
@@ -179,5 +184,9 @@ def fit_quality_text(curve: dict) -> str:
     """How well the law fits its lab points, in words a person reads."""
     rms = curve["rms_log_residual"]
     rms_text = "below 0.001" if rms < 1e-3 else f"{rms:.3f}"
-    return (f"RMS log residual {rms_text}; largest deviation {100 * curve['max_relative_residual']:.1f} % "
+    text = (f"RMS log residual {rms_text}; largest deviation {100 * curve['max_relative_residual']:.1f} % "
             f"over {curve['n_points']} points")
+    spare = curve["n_points"] - len(curve.get("parameters") or {})
+    if spare <= 0:      # a law through exactly as many points as it has parameters fits them whatever they are
+        text += f" — the law has {len(curve.get('parameters') or {})} parameters, so no spare point checks it"
+    return text

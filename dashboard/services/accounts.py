@@ -80,7 +80,7 @@ def _do_sign_in() -> None:
         _say("error", f"Not signed in: {exc}")
         return
     ss[TOKEN_KEY] = session.token
-    _say("success", f"Signed in as {session.account.name} ({session.account.role}).")
+    _say("success", "Signed in.")          # the panel says as whom, once
 
 
 def _do_sign_out() -> None:

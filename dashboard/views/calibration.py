@@ -20,7 +20,7 @@ import streamlit as st
 from plotly.subplots import make_subplots
 
 from dashboard.compute.cache import cached_calibration
-from dashboard.present.display import convert_array, fmt, label, to_display
+from dashboard.present.display import convert_array, fmt, label, to_display, words
 from dashboard.present.plaintext import escaped
 
 from .page import Page
@@ -85,7 +85,7 @@ def series_figure(data: dict, system: str) -> go.Figure:
 
 
 def factors_frame(data: dict) -> pd.DataFrame:
-    rows = [{"factor": name, "fitted": round(f["value"], 4), "95 % low": round(f["low"], 4),
+    rows = [{"factor": words(name), "fitted": round(f["value"], 4), "95 % low": round(f["low"], 4),
              "95 % high": round(f["high"], 4), "identifiable from this log": "yes" if f["identifiable"] else "no",
              "at its bound": "yes" if f["at_bound"] else ""} for name, f in data["factors"].items()]
     return pd.DataFrame(rows)
@@ -178,8 +178,8 @@ def _inputs(scenario) -> tuple[list[str], str]:
     pd_pump = scenario.pump is not None and scenario.pump.kind == "positive_displacement"
     options = [n for n in FACTOR_NAMES if n != "slip_factor" or pd_pump]
     default = list(DEFAULT_FIT) + (["slip_factor"] if pd_pump else [])
-    names = right.multiselect("Factors to fit", options, default=default, key="cal_names",
-                              help="slip_factor: positive-displacement pumps, with speed in the log")
+    names = right.multiselect("Factors to fit", options, default=default, key="cal_names", format_func=words,
+                              help=f"{words('slip_factor')}: positive-displacement pumps, with speed in the log")
     map_text = map_upload.getvalue().decode("utf-8", errors="replace") if map_upload is not None else ""
     return names, map_text
 
@@ -214,8 +214,8 @@ def _current(scenario) -> None:
         st.caption("In use now: no calibration (all factors 1).")
         return
     origin = f" — fitted to {calibration.source.file}" if calibration.source is not None else ""
-    st.caption(f"In use now: viscosity_factor {calibration.viscosity_factor:.4g}, heat_loss_factor "
-               f"{calibration.heat_loss_factor:.4g}, slip_factor {calibration.slip_factor:.4g}{origin}")
+    st.caption(f"In use now: {words('viscosity_factor')} {calibration.viscosity_factor:.4g}, {words('heat_loss_factor')} "
+               f"{calibration.heat_loss_factor:.4g}, {words('slip_factor')} {calibration.slip_factor:.4g}{origin}")
     st.button("Remove the calibration", key="cal_remove", on_click=_remove)
 
 

@@ -70,7 +70,8 @@ def _comparison_controls(scenario: Scenario, unit_system: str) -> tuple:
     defaults = default_comparison_values(scenario, lever)
     digits = 0 if kind in ("temperature", "rotational_speed") else 1
     default_text = ", ".join(f"{to_display(v, kind, unit_system):.{digits}f}" for v in defaults)
-    text = b.text_input(f"Values [{label(kind, unit_system)}]", value=default_text,
+    gauge = " (gauge)" if kind == "pressure" else ""
+    text = b.text_input(f"Values [{label(kind, unit_system)}]{gauge}", value=default_text,
                         key=f"cmp_values{gen}|{unit_system}|{lever}",
                         help="a list (40, 45, 50) or START:STOP:STEP (40:70:5)")
     sensitivity = _sensitivity_controls(c, unit_system)

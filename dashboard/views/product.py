@@ -9,6 +9,8 @@ from dashboard.present import figures
 from .common import data_table
 import pandas as pd
 
+from planner.scenario.wording import format_quantity
+
 from dashboard.present.display import fit_quality_text, fmt, law_parameters_text, to_display, with_unit, words
 from dashboard.present.plaintext import escaped_table
 from .page import Page
@@ -20,6 +22,7 @@ NEEDS_RESULTS = True
 def draw(page: Page) -> None:
     results, unit_system = page.results, page.unit_system
     curve = results.product
+    at_20c = format_quantity(293.15, "temperature", unit_system, 0)     # where the product's figures are given
     st.plotly_chart(figures.viscosity_figure(curve, unit_system), key="product_chart")
     rows = [
         ("Product", curve["name"] + (" — illustrative preset" if curve.get("illustrative")
@@ -32,9 +35,9 @@ def draw(page: Page) -> None:
                          f"{fmt(curve.get('t_max'), 'temperature', unit_system)}"),
         ("No-flow temperature", fmt(curve["no_flow_temperature"], "temperature", unit_system)),
         ("Highest allowed temperature", fmt(curve["max_temperature"], "temperature", unit_system)),
-        ("Density at 20 °C", fmt(curve["density_at_20c"], "density", unit_system)),
-        ("Specific heat at 20 °C", fmt(curve["specific_heat_at_20c"], "specific_heat", unit_system)),
-        ("Thermal conductivity at 20 °C", fmt(curve["conductivity_at_20c"], "conductivity", unit_system)),
+        (f"Density at {at_20c}", fmt(curve["density_at_20c"], "density", unit_system)),
+        (f"Specific heat at {at_20c}", fmt(curve["specific_heat_at_20c"], "specific_heat", unit_system)),
+        (f"Thermal conductivity at {at_20c}", fmt(curve["conductivity_at_20c"], "conductivity", unit_system)),
         ("Rheology", words(curve["rheology"])),
     ]
     st.table(escaped_table(pd.DataFrame(rows, columns=["Item", "Value"])), hide_index=True)

@@ -216,7 +216,7 @@ def _location_put(item, value):
 
 def _fittings_text(item):
     fittings = item.get("fittings") or []
-    return ", ".join(f"{f.get('count', 1)}× {f.get('type', '?')}" for f in fittings)
+    return ", ".join(f"{f.get('count', 1)}× {words(f.get('type', '?'))}" for f in fittings)
 
 
 def _layers_note(item):
