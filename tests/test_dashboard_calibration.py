@@ -47,8 +47,10 @@ def test_demo_log_fits_applies_and_saves(db):
     expected = fit_calibration(load_scenario(BARGE), read_log_file(DEMO_LOG))
     assert set(expected.factors) == {"viscosity_factor", "heat_loss_factor", "slip_factor"}
     shown = dict(zip(factors["factor"], factors["fitted"]))
-    for name, f in expected.factors.items():
-        assert shown[name] == pytest.approx(f.value, abs=1e-4)
+    from dashboard.present.display import words
+
+    for name, f in expected.factors.items():          # named in words ("heat-loss factor"), not by code
+        assert shown[words(name)] == pytest.approx(f.value, abs=1e-4)
     assert any("2 rows could not be read" in w.value for w in at.warning)
     assert len(at.get("plotly_chart")) >= 1
 
