@@ -59,7 +59,7 @@ def test_demo_log_fits_applies_and_saves(db):
     assert calibration["viscosity_factor"] == pytest.approx(expected.factors["viscosity_factor"].value, rel=1e-9)
     assert calibration["source"]["sha256"] == hashlib.sha256(DEMO_LOG.read_bytes()).hexdigest()
     assert any("Applied to the working scenario" in s.value for s in at.success)
-    assert any("In use now: viscosity_factor" in c.value for c in at.caption)
+    assert any("In use now: viscosity factor" in c.value for c in at.caption)
     make_people(PlanStore(db), ("root", "ana"))      # saving needs a signed-in account
     at.run()
     at.text_input(key="si_name").set_value("ana")
