@@ -5,7 +5,7 @@ from __future__ import annotations
 
 from typing import Callable
 
-from dashboard.inputs import SECTION_KEY, SECTIONS
+from dashboard.views.inputs import SECTION_KEY, SECTIONS
 
 
 def open_section(at, title: str):

@@ -199,42 +199,42 @@ def test_bad_value_shows_its_message_beside_the_field_and_keeps_the_last_results
     at.session_state["work"] = work
     _view(at, "Inputs")
     open_section(at, "Route")
-    row = [e.value for e in at.error if "row 2" in e.value]
+    row = [e.value for e in at.error if "row 2" in e.value and "problem(s)" not in e.value]   # beside the table, not the summary
     assert row, [e.value for e in at.error]
     assert "Pipe rack to syrup house" in row[0] and "**Length**" in row[0] and "at least 0.01 m" in unescaped(row[0])
 
 
 def test_report_is_self_contained_and_carries_the_cautions():
-    from dashboard.display import EXTRA_CAUTION
+    from dashboard.present.display import extra_caution
     from planner.reports.key_figures import figure_text
-    from dashboard.report import build_report_html
-    from dashboard.results import build_bundle
+    from dashboard.present.report import build_report_html
+    from dashboard.compute.results import plan_results
 
     scenario = load_scenario(DEMO_FILES[0])
-    bundle = build_bundle(scenario)
+    bundle = plan_results(scenario)
     page = build_report_html(scenario, bundle, "US")
     assert page.count("<script") >= 2 and re.search(r"<script[^>]*\bsrc\s*=", page) is None   # nothing fetched
     assert "Plotly.newPlot" in page and len(page) > 3_000_000     # plotly.js inlined (about 4.6 MB)
-    assert page.count(STANDING_CAUTION) >= 2 and EXTRA_CAUTION.render("US") in page
+    assert page.count(STANDING_CAUTION) >= 2 and extra_caution(scenario.limits.touch_temperature).render("US") in page
     assert "about 140 °F burn" in page          # 60 degC = 140 degF (exact)
-    for k in bundle["key_figures"]:
+    for k in bundle.key_figures:
         assert figure_text(k, "US") in page
-    for f in bundle["findings"]:
+    for f in bundle.findings:
         assert f["code"] in page
 
 
 def test_csv_exports_follow_the_unit_system():
-    from dashboard import tables
-    from dashboard.results import build_bundle
+    from dashboard.present import tables
+    from dashboard.compute.results import plan_results
 
     scenario = load_scenario(DEMO_FILES[0])
-    bundle = build_bundle(scenario)
-    flows = np.asarray(bundle["plan"]["timeline"]["arrays"]["flow_m3_s"])
-    us = tables.timeline_frame(bundle["plan"], "US")
+    bundle = plan_results(scenario)
+    flows = np.asarray(bundle.plan["timeline"]["arrays"]["flow_m3_s"])
+    us = tables.timeline_frame(bundle.plan, "US")
     np.testing.assert_allclose(us["Flow [gpm]"].to_numpy(), flows * 3600.0 * GPM_PER_M3_H, rtol=1e-9)
-    si = tables.timeline_frame(bundle["plan"], "SI")
+    si = tables.timeline_frame(bundle.plan, "SI")
     np.testing.assert_allclose(si["Flow [m³/h]"].to_numpy(), flows * 3600.0, rtol=1e-12)
-    text = tables.csv_text(tables.profile_frame(bundle["profile"], bundle["segments"], "US"))
+    text = tables.csv_text(tables.profile_frame(bundle.profile, bundle.segments, "US"))
     header = text.splitlines()[0]
     assert "Distance from pump [ft]" in header and "Bulk temperature [°F]" in header and "Pressure (gauge) [psi]" in header
 
@@ -245,7 +245,7 @@ def test_table_edits_are_written_back_in_si(monkeypatch):
 
     import streamlit as st
 
-    from dashboard import inputs
+    from dashboard.views.inputs import table_editor as inputs
     from planner.scenario.schema import scenario_from_dict, scenario_to_dict
 
     original = scenario_to_dict(load_scenario(DEMO_FILES[-1]))
@@ -311,7 +311,7 @@ def test_the_setpoint_comparison_can_be_run_again():
 def test_an_invalid_value_keeps_its_inputs_sub_tab_open():
     """Issue 12.2: the sub-tab with the field stays open (its label gains the warning) and the message
     is drawn beside the field; the limit is the schema's (Site.wind_speed at most 60 m/s)."""
-    from dashboard.inputs import SECTION_KEY
+    from dashboard.views.inputs import SECTION_KEY
 
     at = _view(_open(DEMO_FILES[0].name), "Inputs")
     open_section(at, "Site & limits")

@@ -1,4 +1,4 @@
-"""The Calibration tab (dashboard/calibration_view.py) through streamlit.testing.v1.AppTest: the demo
+"""The Calibration tab (dashboard/views/calibration.py) through streamlit.testing.v1.AppTest: the demo
 log fitted on the barge demo (the same numbers as ``planner.calibration.fit.fit_calibration``), applied
 to the working scenario, and saved as a revision whose note names the log and its SHA-256
 (checked through ``planner.records.store.PlanStore``); a bad log shows its message."""
@@ -47,8 +47,10 @@ def test_demo_log_fits_applies_and_saves(db):
     expected = fit_calibration(load_scenario(BARGE), read_log_file(DEMO_LOG))
     assert set(expected.factors) == {"viscosity_factor", "heat_loss_factor", "slip_factor"}
     shown = dict(zip(factors["factor"], factors["fitted"]))
-    for name, f in expected.factors.items():
-        assert shown[name] == pytest.approx(f.value, abs=1e-4)
+    from dashboard.present.display import words
+
+    for name, f in expected.factors.items():          # named in words ("heat-loss factor"), not by code
+        assert shown[words(name)] == pytest.approx(f.value, abs=1e-4)
     assert any("2 rows could not be read" in w.value for w in at.warning)
     assert len(at.get("plotly_chart")) >= 1
 
@@ -57,7 +59,7 @@ def test_demo_log_fits_applies_and_saves(db):
     assert calibration["viscosity_factor"] == pytest.approx(expected.factors["viscosity_factor"].value, rel=1e-9)
     assert calibration["source"]["sha256"] == hashlib.sha256(DEMO_LOG.read_bytes()).hexdigest()
     assert any("Applied to the working scenario" in s.value for s in at.success)
-    assert any("In use now: viscosity_factor" in c.value for c in at.caption)
+    assert any("In use now: viscosity factor" in c.value for c in at.caption)
     make_people(PlanStore(db), ("root", "ana"))      # saving needs a signed-in account
     at.run()
     at.text_input(key="si_name").set_value("ana")
@@ -83,7 +85,7 @@ def test_without_a_log_the_tab_asks_for_one(db):
 
 def test_a_log_that_cannot_be_read_shows_its_message():
     # the page's fit job with the bytes an upload would give: the planner's message, no traceback
-    from dashboard.calibration_data import fit_document as cached_fit
+    from dashboard.compute.calibration_data import fit_document as cached_fit
     from planner.scenario.schema import scenario_to_json
 
     scenario_json = scenario_to_json(load_scenario(BARGE))

@@ -45,8 +45,8 @@ def test_the_envelope_table_equals_the_library_and_bad_ambients_are_named():
 
 
 def test_the_plan_report_ends_with_the_envelope_card_in_the_users_units():
-    from dashboard.report import build_report_html
-    from dashboard.results import build_bundle
+    from dashboard.present.report import build_report_html
+    from dashboard.compute.results import plan_results as build_bundle
     from planner.sweeps.envelope import envelope_json
 
     scenario = load_scenario(SYRUP)

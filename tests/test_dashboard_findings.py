@@ -83,8 +83,8 @@ def test_the_page_speaks_us_units(hot_page):
 
 
 def test_the_report_headline_follows_the_worst_finding():
-    from dashboard.report import build_report_html
-    from dashboard.results import build_bundle
+    from dashboard.present.report import build_report_html
+    from dashboard.compute.results import plan_results as build_bundle
 
     scenario = with_changes(load_scenario(SYRUP), setpoint=95.0 + 273.15)
     page = build_report_html(scenario, build_bundle(scenario), "US")

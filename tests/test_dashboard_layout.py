@@ -19,7 +19,7 @@ CODE = re.compile(r"^[a-z0-9]+(_[a-z0-9]+)+$")          # snake_case: a code, no
 
 @pytest.fixture(scope="module")
 def bundles():
-    from dashboard.results import build_bundle
+    from dashboard.compute.results import plan_results as build_bundle
 
     return {p.stem: (load_scenario(p), build_bundle(load_scenario(p))) for p in DEMO_FILES}
 
@@ -36,23 +36,23 @@ def _bad_cells(frame: pd.DataFrame) -> list:
 
 
 def test_tables_show_words_not_codes_none_or_exponents(bundles):
-    from dashboard import tables
+    from dashboard.present import tables
 
     for name, (scenario, bundle) in bundles.items():
-        plan = bundle["plan"]
-        frames = {"segments": tables.segments_frame(bundle["segments"], "SI"),
+        plan = bundle.plan
+        frames = {"segments": tables.segments_frame(bundle.segments, "SI"),
                   "start-up": tables.startup_hold_frame(plan, "SI"), "energy": tables.energy_cost_frame(plan, "US")}
-        if bundle["push_cold_rows"].get("time_s"):
-            frames["push-cold"] = tables.push_cold_frame(bundle["push_cold_rows"], "SI")
+        if bundle.push_cold_rows.get("time_s"):
+            frames["push-cold"] = tables.push_cold_frame(bundle.push_cold_rows, "SI")
         for what, frame in frames.items():
             assert not _bad_cells(frame), (name, what, _bad_cells(frame))
-        for finding in bundle["findings"]:
+        for finding in bundle.findings:
             for line in tables.finding_details(finding, "SI"):
                 assert not re.search(r"\de[+-]\d", line), (name, line)
 
 
 def test_numbers_of_any_size_have_no_exponent():
-    from dashboard.display import general_number
+    from dashboard.present.display import general_number
 
     assert general_number(25821.769) == "25,822"             # a Reynolds number, as a finding shows it
     assert general_number(14.9947) == "14.99"
@@ -64,8 +64,8 @@ def test_numbers_of_any_size_have_no_exponent():
 def test_comparison_costs_carry_the_currency_and_the_touch_limit_is_the_scenarios():
     """The touch limit line of the comparison's jacket panel is ``limits.touch_temperature`` (here 50 °C,
     not the 60 °C the figure used to draw whatever the scenario said)."""
-    from dashboard import figures, tables
-    from dashboard.results import run_comparison
+    from dashboard.present import figures, tables
+    from dashboard.compute.results import run_comparison
 
     data = scenario_to_dict(load_scenario(DEMO_FILES[-1]))
     data.setdefault("limits", {})["touch_temperature"] = "50 degC"
@@ -84,16 +84,16 @@ def test_comparison_costs_carry_the_currency_and_the_touch_limit_is_the_scenario
 
 
 def _line_args(scenario):
-    from dashboard.results import build_bundle
+    from dashboard.compute.results import plan_results as build_bundle
 
     bundle = build_bundle(scenario)
-    return bundle["profile"], bundle["segments"], "SI", "", bundle["touch_limit_k"]
+    return bundle.profile, bundle.segments, "SI", "", bundle.touch_limit_k
 
 
 def test_a_steady_series_is_drawn_on_a_readable_span():
     """A pressure wobbling by 0.002 bar gets at least 0.2 bar of axis (it is flat, not a trend); a real
     change keeps the automatic range."""
-    from dashboard import figures
+    from dashboard.present import figures
 
     t = np.linspace(0.0, 3600.0, 20)
     rows = {"time_s": list(t), "flow_m3_s": list(0.02 + 1e-7 * np.sin(t)),
@@ -108,17 +108,18 @@ def test_a_steady_series_is_drawn_on_a_readable_span():
 
 
 def test_one_list_of_view_names():
-    from dashboard import calibration_view, sharing
-    from dashboard.views import TAB_TITLES, VIEW_TITLES
+    from dashboard.views import TAB_TITLES, VIEW_TITLES, view_module
     from planner.records.links import VIEWS
 
     assert tuple(VIEW_TITLES) == VIEWS
     assert TAB_TITLES == [VIEW_TITLES[v] for v in VIEWS]
-    assert sharing.REVIEW_TAB == VIEW_TITLES["review"] and calibration_view.TAB == VIEW_TITLES["calibration"]
+    for view in VIEWS:            # one module per view, named as the view
+        module = view_module(view)
+        assert callable(module.draw) and isinstance(module.NEEDS_RESULTS, bool), view
 
 
 def test_input_choices_are_the_schemas():
-    from dashboard import inputs
+    from dashboard.views.inputs import table_editor as inputs
     from planner.scenario import schema
 
     assert schema.field_choices(schema.Tracing, "kind") == ("none", "electric_constant", "electric_self_regulating",
@@ -132,7 +133,7 @@ def test_input_choices_are_the_schemas():
 
 
 def test_revision_comparison_lists_only_figures_that_differ_as_shown():
-    from dashboard.sharing import diff_frames
+    from dashboard.present.saved import diff_frames
 
     diff = {"inputs": [], "results": [("npsh_margin_m", 4.3312, 4.3288), ("transfer_time_s", 3600.0, 7200.0),
                                       ("currency", "EUR", "EUR")]}
@@ -150,7 +151,7 @@ PAYLOADS = ["![p](http://198.51.100.7/p.png)", "<img src=x onerror=alert(1)>", "
 def test_plain_text_escapes_every_markdown_opener(text):
     """CommonMark 0.31 section 2.4: a backslash before ASCII punctuation stands for the character itself;
     un-escaping gives the text back, and no unescaped opener is left."""
-    from dashboard.plaintext import JOINER, escaped
+    from dashboard.present.plaintext import JOINER, escaped
 
     shown = escaped(text)
     back = re.sub(r"\\(.)", r"\1", shown.replace(JOINER, "")).replace("  \n", "\n")

@@ -8,8 +8,8 @@ import numpy as np
 import pytest
 
 from conftest import DEMO_DIR
-from dashboard.figures import viscosity_figure
-from dashboard.results import product_curve
+from dashboard.present.figures import viscosity_figure
+from dashboard.compute.results import product_curve
 from planner.line.products import scenario_product
 from planner.scenario.schema import load_scenario, scenario_from_dict, scenario_to_dict
 

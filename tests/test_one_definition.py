@@ -159,8 +159,8 @@ def test_display_decimals_are_one_table():
                 numbers = [v for v in node.values if isinstance(v, ast.Constant) and isinstance(v.value, int)]
                 if len(keys & kinds) >= 3 and len(numbers) == len(node.values):
                     tables.append(f"{_rel(path)}:{node.lineno}")
-    # the Inputs page's entry precision (dashboard/inputs.py FORMATS) is the widgets' step, not a display rule
-    known = {"dashboard/inputs.py"}
+    # the Inputs page's entry precision (dashboard/views/inputs/fields.py FORMATS) is the widgets' step, not a display rule
+    known = {"dashboard/views/inputs/fields.py"}
     assert [t for t in tables if t.split(":")[0] not in known] == []
     plan = make_plan(load_scenario(DEMO_FILES[0]))
     transfer = {k.key: k for k in key_figures(plan)}["transfer_time"]

@@ -13,7 +13,7 @@ import time
 import pytest
 
 from conftest import DEMO_FILES
-from dashboard.workers import WorkerPool
+from dashboard.compute.workers import WorkerPool
 from planner.scenario.schema import load_scenario, scenario_from_dict, scenario_to_dict, scenario_to_json
 
 pytestmark = pytest.mark.slow  # worker processes: left out of the fast loop (-m "not slow")
@@ -42,13 +42,14 @@ def workers():
 
 
 def test_a_plan_runs_in_a_worker_and_gives_the_bundle(workers):
-    from dashboard.results import build_bundle
+    from dashboard.compute.record import PlanResults
+    from dashboard.compute.results import plan_results
 
     result = workers.run("plan", (LIGHT,), session="s1", time_limit=120)
-    assert "error" not in result
-    direct = build_bundle(load_scenario(SYRUP))
-    assert result["plan"]["timeline"]["total_time_s"] == pytest.approx(direct["plan"]["timeline"]["total_time_s"],
-                                                                       rel=1e-12)
+    assert "error" not in result and isinstance(result["results"], PlanResults)
+    direct = plan_results(load_scenario(SYRUP))
+    assert result["results"].plan["timeline"]["total_time_s"] == pytest.approx(
+        direct.plan["timeline"]["total_time_s"], rel=1e-12)
 
 
 def test_a_plan_past_its_time_limit_is_stopped_and_its_worker_replaced(workers):
@@ -135,6 +136,6 @@ def test_a_fresh_pool_starts_one_worker_and_the_next_when_two_sessions_compute_a
         thread.join()
         assert "error" not in second and "error" not in heavy["r"]
         assert len(pool._all) == 2
-        assert first["plan"]["timeline"]["total_time_s"] == second["plan"]["timeline"]["total_time_s"]
+        assert first["results"].plan["timeline"]["total_time_s"] == second["results"].plan["timeline"]["total_time_s"]
     finally:
         pool.close()

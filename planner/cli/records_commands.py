@@ -156,35 +156,22 @@ def _users_password(args) -> int:
 # -- plans ---------------------------------------------------------------------------------------------
 
 def plan_summary(scenario) -> dict:
-    """The key figures kept with a revision saved from the command line (SI, from ``plan_json``)."""
-    from planner.checks.finding import MOST_SEVERE_FIRST
+    """The key figures kept with a revision saved from the command line (``reports.saved_figures``, the
+    dashboard's definition too)."""
     from planner.checks.findings import assess
     from planner.errors import PlannerError
-    from planner.reports.plan_json import plan_json
+    from planner.reports.saved_figures import no_plan, saved_figures
     from planner.transfer.plan import make_plan
 
     try:
         plan = make_plan(scenario)
     except PlannerError as exc:
-        return {"plan_error": str(exc)}
-    doc = plan_json(plan)
-    energy = doc.get("energy") or {}
-    out = {
-        "transfer_time_s": doc["timeline"]["total_time_s"],
-        "total_time_s": doc.get("total_time_s"),
-        "planned_window_s": doc.get("planned_window_s"),
-        "start_status": doc["start"].get("status"),
-        "start_flow_m3_s": doc["start"].get("flow_m3_s"),
-        "peak_discharge_pressure_pa": doc.get("peak_discharge_pressure_pa"),
-        "npsh_margin_m": doc["start"].get("npsh_margin_m"),
-        "electrical_energy_kwh": sum(energy.get(k) or 0.0 for k in ("tracing_kwh", "pump_kwh", "vessel_heating_kwh")),
-        "total_cost": (doc.get("costs") or {}).get("total"),
-        "currency": (doc.get("costs") or {}).get("currency", ""),
-    }
-    found = assess(plan)
-    for severity in MOST_SEVERE_FIRST:
-        out[f"findings_{severity}"] = sum(1 for f in found if f.severity == severity)
-    return out
+        return no_plan(exc)
+    try:
+        found = assess(plan)
+    except (PlannerError, ValueError):
+        found = None
+    return saved_figures(plan, found)
 
 
 def _plans_save(args) -> int:

@@ -1,6 +1,7 @@
-"""Planner calls for the dashboard, returning plain data (no Streamlit here).
+"""Planner calls for the dashboard, run in the worker processes (no Streamlit here).
 
-``build_bundle(scenario)`` runs the plan once and keeps what the pages and the report draw: the
+``plan_results(scenario)`` runs the plan once and keeps what the pages and the report draw
+(``compute/record.PlanResults``): the
 documented plan JSON (``planner.reports.plan_json.plan_json``, the same document as
 ``python -m planner plan SCENARIO --json``), the profile along the discharge line at the start,
 the segment boundaries, the findings and the product's viscosity curve. Everything is SI.
@@ -12,15 +13,22 @@ import math
 
 import numpy as np
 
+import inspect
+
+from planner.checks.lever_values import LEVERS
+from planner.scenario.labels import field_label
 from planner.sweeps.compare import compare
 from planner.errors import PlannerError
 from planner.checks.findings import assess
 from planner.plain import finite_or_none, plain as _plain
 from planner.reports.key_figures import key_figures, outlet_rating
+from planner.reports.saved_figures import saved_figures
 from planner.transfer.plan import make_plan
 from planner.reports.plan_json import plan_json
 from planner.line.products import Product
 from planner.scenario.schema import ProductSpec, Scenario, problems_from
+
+from dashboard.compute.record import PlanResults
 
 def segment_table(segments) -> list[dict]:
     return [{
@@ -140,7 +148,7 @@ def product_preview(product_data: dict) -> tuple[dict | None, list[tuple[str, st
         return None, [("product.viscosity", str(exc))]
 
 
-def build_bundle(scenario: Scenario) -> dict:
+def plan_results(scenario: Scenario) -> PlanResults:
     """Everything the pages show for one scenario (SI). Raises PlannerError/ValueError."""
     plan = make_plan(scenario)
     found, findings, findings_note = findings_of(plan)
@@ -152,51 +160,50 @@ def build_bundle(scenario: Scenario) -> dict:
     if profile is not None:
         profile["rating"] = node_ratings(discharge, profile["nodes"])
     rating = outlet_rating(plan)
-    return {
-        "scenario_name": scenario.name,
-        "plan": doc,
-        "key_figures": key_figures(plan),
-        "profile": profile,
-        "outlet_rating": {"value": rating.value, "where": rating.where},
-        "touch_limit_k": scenario.limits.touch_temperature,
-        "segments": segment_table(discharge),
-        "suction_segments": segment_table(suction),
-        "push_cold_rows": _plain(plan.push_cold.rows or {}),
-        "findings": findings,
-        "findings_note": findings_note,
-        "product": product_curve(scenario.product, product=transfer.product),
-        "destination_max_level": scenario.destination.max_level if scenario.destination else None,
-        "tracing_kind": scenario.tracing.kind,
-        "setpoint": scenario.tracing.setpoint,
-        "steam_pressure": scenario.tracing.steam_pressure,
-    }
+    return PlanResults(
+        scenario_name=scenario.name, plan=doc, key_figures=key_figures(plan), saved=saved_figures(plan, found),
+        profile=profile, outlet_rating={"value": rating.value, "where": rating.where},
+        touch_limit_k=scenario.limits.touch_temperature,
+        segments=segment_table(discharge), suction_segments=segment_table(suction),
+        push_cold_rows=_plain(plan.push_cold.rows or {}), findings=findings, findings_note=findings_note,
+        product=product_curve(scenario.product, product=transfer.product),
+        destination_max_level=scenario.destination.max_level if scenario.destination else None,
+        tracing_kind=scenario.tracing.kind, setpoint=scenario.tracing.setpoint,
+        steam_pressure=scenario.tracing.steam_pressure,
+    )
 
 
 # ---------------------------------------------------------------------------------------------
 # Setpoint (or other lever) comparison
 
-LEVERS = {
-    # lever name of planner.sweeps.compare -> (label, display kind); values are SI both ways
-    "setpoint": ("Tracing setpoint", "temperature"),
-    "steam_pressure": ("Steam pressure", "pressure"),
-    "pump_speed": ("Pump speed", "rotational_speed"),
-    "flow_limit": ("Flow limit", "volume_flow"),
-}
+def lever_label(lever: str) -> str:
+    """The words for a lever: its field's label (``scenario/labels``) of the one lever table
+    (``checks/lever_values.LEVERS``)."""
+    spec = LEVERS[lever]
+    return field_label(f"{spec.section}.{spec.field}") or lever
+
+
+def sensitivity_defaults() -> tuple[float, float]:
+    """The comparison's own default shifts (``compare``'s ``ambient_shift`` [K], ``viscosity_uncertainty``)."""
+    parameters = inspect.signature(compare).parameters
+    return parameters["ambient_shift"].default, parameters["viscosity_uncertainty"].default
 
 
 def run_comparison(scenario: Scenario, lever: str, values_si: list[float], progress=None,
-                   sensitivity: bool = False, executor=None) -> dict:
+                   sensitivity=False, executor=None) -> dict:
     """``planner.sweeps.compare.compare`` as plain data (lever values SI: K, Pa, rev/s, m3/s), its rows on
-    ``executor`` (the dashboard worker's; None: in this process)."""
-    kind = LEVERS[lever][1]
-    comparison = compare(scenario, lever=lever, values=list(values_si), progress=progress, sensitivity=sensitivity,
-                         executor=executor)
+    ``executor`` (the dashboard worker's; None: in this process).  ``sensitivity``: False, True (the
+    comparison's default shifts) or ``(ambient shift [K], viscosity fraction)``."""
+    kind = LEVERS[lever].kind
+    shift, fraction = sensitivity if isinstance(sensitivity, (list, tuple)) else sensitivity_defaults()
+    comparison = compare(scenario, lever=lever, values=list(values_si), progress=progress, sensitivity=bool(sensitivity),
+                         executor=executor, ambient_shift=float(shift), viscosity_uncertainty=float(fraction))
     rows = [_plain(dict(r)) for r in comparison.rows]
     cases = [{"case": name, "recommended_value": case.get("recommended_value"), "reason": case.get("reason", ""),
               "total_costs": _plain(case.get("total_costs", []))}
              for name, case in (comparison.sensitivity or {}).items()]
     return {
-        "lever": lever, "lever_label": LEVERS[lever][0], "kind": kind, "rows": rows,
+        "lever": lever, "lever_label": lever_label(lever), "kind": kind, "rows": rows,
         "recommended": comparison.recommended, "runner_up": comparison.runner_up,
         "reason": comparison.reason or "", "sensitivity": cases, "tied": list(comparison.tied),
         "end_of_range": comparison.end_of_range,

@@ -18,20 +18,26 @@ Session state used here: ``auth_token``, ``auth_msg`` and the form keys ``si_*``
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 import logging
 
 import streamlit as st
 
-from planner.records.accounts import Account, AccountBook
-from planner.records.store import ROLES, StoreError
+from planner.records.terms import ROLES, StoreError
+
+from .store import store, store_exists
+
+if TYPE_CHECKING:
+    from planner.records.accounts import Account
 
 log = logging.getLogger(__name__)
 
 TOKEN_KEY = "auth_token"
 
 
-def _book() -> AccountBook:
-    from .sharing import store
+def _book():
+    from planner.records.accounts import AccountBook      # Argon2 and SQLAlchemy: only when an account is used
 
     return AccountBook(store())
 
@@ -40,7 +46,7 @@ def _say(kind: str, message: str) -> None:
     st.session_state["auth_msg"] = (kind, message)
 
 
-def current_account() -> Account | None:
+def current_account() -> "Account | None":
     """The signed-in account, checked against the database now; None when nobody is signed in (or the
     session is over, which is then said in the panel)."""
     token = st.session_state.get(TOKEN_KEY)
@@ -54,7 +60,7 @@ def current_account() -> Account | None:
         return None
 
 
-def acting_account(what: str) -> Account | None:
+def acting_account(what: str) -> "Account | None":
     """The account doing ``what`` (for a callback); None, with a message, when nobody is signed in."""
     account = current_account()
     if account is None:
@@ -74,7 +80,7 @@ def _do_sign_in() -> None:
         _say("error", f"Not signed in: {exc}")
         return
     ss[TOKEN_KEY] = session.token
-    _say("success", f"Signed in as {session.account.name} ({session.account.role}).")
+    _say("success", "Signed in.")          # the panel says as whom, once
 
 
 def _do_sign_out() -> None:
@@ -185,14 +191,12 @@ def _do_change_own_password() -> None:
 # ------------------------------------------------------------------------------------------ layout
 
 def _no_accounts_yet() -> bool:
-    from .sharing import store_exists
-
     if not store_exists():          # a fresh install: do not create the plans file just to count
         return True
     return _book().count() == 0
 
 
-def account_panel(container) -> Account | None:
+def account_panel(container) -> "Account | None":
     """The sidebar's Account block; returns the signed-in account (or None)."""
     ss = st.session_state
     container.markdown("**Account**")

@@ -2,10 +2,11 @@
 
 The JSON text is ``planner.scenario.schema.scenario_to_json`` of the validated scenario, so unchanged
 inputs (in any unit system) hit the cache and do not recompute.  A miss runs in the bounded worker
-pool of ``dashboard.workers`` (one computation per session, a time limit per request, never in the
-server process).  Planner errors come back as ``{"error": message}`` (cached too); a computation
-stopped at its time limit, or refused while every worker is busy, comes back as an error with
-``"transient": True`` and is not cached, so pressing the button again tries again.
+pool of ``dashboard.compute.workers`` (one computation per session, a time limit per request, never in the
+server process).  A plan comes back as the typed record (``compute/record``: ``PlanResults`` or ``PlanFailure``); the other
+jobs as plain data or ``{"error": message}``. Failures of the planner are cached too; a computation
+stopped at its time limit, or refused while every worker is busy, is ``transient`` and not cached, so
+pressing the button again tries again.
 """
 
 from __future__ import annotations
@@ -16,6 +17,7 @@ from collections import OrderedDict
 
 import streamlit as st
 
+from .record import Outcome, outcome
 from .workers import pool
 
 pool(warm=True)     # the first worker loads the planner while the server imports the page's modules
@@ -48,16 +50,16 @@ def _run(kind: str, args: tuple, progress=None) -> dict:
 
 
 @st.cache_data(show_spinner=False, max_entries=48)
-def _bundle(scenario_json: str) -> dict:
-    return _run("plan", (scenario_json,))
+def _plan(scenario_json: str) -> Outcome:
+    return outcome(_run("plan", (scenario_json,)))
 
 
-def cached_bundle(scenario_json: str) -> dict:
-    """The plan bundle of ``dashboard.results.build_bundle``, or ``{"error": ...}``."""
+def cached_results(scenario_json: str) -> Outcome:
+    """The plan of this scenario (``compute/results.plan_results``), or the failure in its place."""
     try:
-        return _bundle(scenario_json)
+        return _plan(scenario_json)
     except _NotCached as exc:
-        return exc.result
+        return outcome(exc.result)
 
 
 class _Memo:
@@ -93,18 +95,21 @@ def _comparison_memo() -> _Memo:
     return _Memo()
 
 
-def comparison_key(scenario_json: str, lever: str, values_si, sensitivity: bool) -> tuple:
-    """Values equal to 9 significant digits are the same comparison (SI and US entries of one value)."""
-    return scenario_json, lever, tuple(float(f"{float(v):.9g}") for v in values_si), bool(sensitivity)
+def comparison_key(scenario_json: str, lever: str, values_si, sensitivity) -> tuple:
+    """Values equal to 9 significant digits are the same comparison (SI and US entries of one value);
+    ``sensitivity``: False or (ambient shift [K], viscosity fraction)."""
+    shifts = tuple(float(f"{float(v):.9g}") for v in sensitivity) if isinstance(sensitivity, (list, tuple)) \
+        else bool(sensitivity)
+    return scenario_json, lever, tuple(float(f"{float(v):.9g}") for v in values_si), shifts
 
 
-def cached_comparison_result(scenario_json: str, lever: str, values_si, sensitivity: bool) -> dict | None:
+def cached_comparison_result(scenario_json: str, lever: str, values_si, sensitivity) -> dict | None:
     """The finished comparison for these inputs if this process has run it, else None."""
     return _comparison_memo().get(comparison_key(scenario_json, lever, values_si, sensitivity))
 
 
-def comparison(scenario_json: str, lever: str, values_si, sensitivity: bool, progress=None) -> dict:
-    """``dashboard.results.run_comparison`` as plain data, or ``{"error": ...}``; run once per process
+def comparison(scenario_json: str, lever: str, values_si, sensitivity, progress=None) -> dict:
+    """``dashboard.compute.results.run_comparison`` as plain data, or ``{"error": ...}``; run once per process
     for the same inputs (a transient error, a time limit or a full pool, is not kept).
 
     ``progress(done, total)`` is called while a new comparison runs (never on a repeat)."""
@@ -112,7 +117,7 @@ def comparison(scenario_json: str, lever: str, values_si, sensitivity: bool, pro
     found = _comparison_memo().get(key)
     if found is not None:
         return found
-    result = pool().run("comparison", (scenario_json, lever, list(key[2]), bool(sensitivity)), session=_session_id(),
+    result = pool().run("comparison", (scenario_json, lever, list(key[2]), key[3]), session=_session_id(),
                         progress=progress)
     if not result.get("transient"):
         _comparison_memo().put(key, result)
@@ -125,7 +130,7 @@ def _calibration(fit_key: str, log_bytes: bytes, log_name: str, map_text: str, n
 
 
 def cached_calibration(fit_key: str, log_bytes: bytes, log_name: str, map_text: str, names: tuple) -> dict:
-    """``dashboard.calibration_data.fit_document`` (the Calibration tab's fit), or ``{"error": ...}``."""
+    """``dashboard.compute.calibration_data.fit_document`` (the Calibration tab's fit), or ``{"error": ...}``."""
     try:
         return _calibration(fit_key, log_bytes, log_name, map_text, names)
     except _NotCached as exc:

@@ -1,4 +1,4 @@
-"""Display units and number formatting for the dashboard and its report (no Streamlit here).
+"""Display units, number formatting and the page's caution for the dashboard and its report (no Streamlit here).
 
 Every conversion goes through ``planner.scenario.units``: ``from_si`` / ``to_si_from_display`` for the kinds
 of ``planner.scenario.units.UNIT_SYSTEMS`` and the package's pint registry for the few kinds shown in the same
@@ -32,20 +32,18 @@ FIXED_DISPLAY = {kind: (unit_text(unit), unit) for kind, unit in {
 }.items()}
 _SI_FOR_FIXED = {"rotational_speed": "revolution/second", "displacement": "m**3"}
 
-# The touch limit drawn on jacket temperatures: a common plant limit for unguarded surfaces that
-# people can reach [trade]; site rules may set another figure.
-TOUCH_LIMIT_K = 333.15
-
-EXTRA_CAUTION = Sentence(
-    "Surfaces above about {touch} burn on contact: guard or insulate them. Check hose and loading-arm "
-    "ratings and their test dates before every transfer. Local codes, site procedures and the advice "
-    "of a licensed engineer take precedence over this plan.", touch=Q(333.15, "temperature", 0))
-CAUTION_TEXT = STANDING_CAUTION + " " + EXTRA_CAUTION
+def extra_caution(touch_k: float) -> Sentence:
+    """The dashboard's caution beside the standing one; ``touch_k`` is the scenario's
+    ``limits.touch_temperature`` (the limit its checks and charts use)."""
+    return Sentence(
+        "Surfaces above about {touch} burn on contact: guard or insulate them. Check hose and loading-arm "
+        "ratings and their test dates before every transfer. Local codes, site procedures and the advice "
+        "of a licensed engineer take precedence over this plan.", touch=Q(touch_k, "temperature", 0))
 
 
-def caution_text(system: str = "SI") -> str:
+def caution_text(system: str, touch_k: float) -> str:
     """The standing caution and the dashboard's own, in the display system."""
-    return STANDING_CAUTION + " " + render(EXTRA_CAUTION, system)
+    return STANDING_CAUTION + " " + render(extra_caution(touch_k), system)
 
 
 def label(kind: str, system: str) -> str:
@@ -146,6 +144,11 @@ WORDS = {
     "hooper": "Hooper 2-K", "darby": "Darby 3-K", "mineral_wool": "mineral wool",
     "calcium_silicate": "calcium silicate", "carbon_steel": "carbon steel", "stainless_steel": "stainless steel",
     "rubber_hose": "rubber hose", "composite_hose": "composite hose",
+    # fittings (planner.correlations.fittings) and calibration factors (planner.calibration.replay)
+    "elbow_90_standard": "90° elbow, standard", "elbow_90_long_radius": "90° elbow, long radius",
+    "elbow_45_standard": "45° elbow, standard", "tee_run_through": "tee, run through",
+    "tee_through_branch": "tee, through the branch", "swing_check_valve": "swing check valve",
+    "viscosity_factor": "viscosity factor", "heat_loss_factor": "heat-loss factor", "slip_factor": "pump slip factor",
 }
 
 
@@ -181,5 +184,9 @@ def fit_quality_text(curve: dict) -> str:
     """How well the law fits its lab points, in words a person reads."""
     rms = curve["rms_log_residual"]
     rms_text = "below 0.001" if rms < 1e-3 else f"{rms:.3f}"
-    return (f"RMS log residual {rms_text}; largest deviation {100 * curve['max_relative_residual']:.1f} % "
+    text = (f"RMS log residual {rms_text}; largest deviation {100 * curve['max_relative_residual']:.1f} % "
             f"over {curve['n_points']} points")
+    spare = curve["n_points"] - len(curve.get("parameters") or {})
+    if spare <= 0:      # a law through exactly as many points as it has parameters fits them whatever they are
+        text += f" — the law has {len(curve.get('parameters') or {})} parameters, so no spare point checks it"
+    return text

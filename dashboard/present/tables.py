@@ -10,7 +10,7 @@ import math
 import numpy as np
 import pandas as pd
 
-from .display import convert_array, fmt, general_number, label, number_text, to_display, with_unit, words
+from .display import convert_array, fmt, label, number_text, to_display, with_unit, words
 from planner.checks.finding import MOST_SEVERE_FIRST
 from planner.reports.findings_text import finding_details as _finding_details
 from planner.scenario.wording import render

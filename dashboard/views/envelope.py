@@ -8,9 +8,10 @@ import streamlit as st
 
 from planner.errors import PlannerError
 
-from . import compute, figures
-from .display import fmt, label
-from .plaintext import escaped
+from dashboard.compute import cache as compute
+from dashboard.present import figures
+from dashboard.present.display import fmt, label
+from dashboard.present.plaintext import escaped
 
 DEFAULT_AMBIENTS = {"SI": "-20:30:10", "US": "-4:86:18"}     # the same six ambients in °C and °F
 

@@ -10,7 +10,7 @@ one of ``size`` worker processes (default: the machine's cores), never in the se
   worker: heavy work of one session cannot take more than one worker, nor queue the others out.
   While all workers are busy a request is told so and may be retried; it is never queued forever.
 
-Each worker is a fresh interpreter (``python -m dashboard.workers FD``) talking over a socket pair:
+Each worker is a fresh interpreter (``python -m dashboard.compute.workers FD``) talking over a socket pair:
 it inherits none of the server's threads, sockets or modules (Streamlit swaps ``__main__`` for the
 page script, so multiprocessing's spawn and forkserver would re-run the page in every worker, and a
 fork would keep the server's listening socket open).  It loads the planner before its first job,
@@ -77,22 +77,22 @@ def _failure(exc: BaseException, what: str) -> dict:
                      "please report this scenario to the maintainers"}
 
 
-def bundle_job(scenario_json: str, progress=None, executor=None) -> dict:
+def plan_job(scenario_json: str, progress=None, executor=None) -> dict:
     from planner.scenario.schema import parse_scenario_text
 
-    from dashboard.results import build_bundle
+    from dashboard.compute.results import plan_results
 
     try:
-        return build_bundle(parse_scenario_text(scenario_json, "json"))
+        return {"results": plan_results(parse_scenario_text(scenario_json, "json"))}
     except Exception as exc:  # noqa: BLE001  (a bug must not put a traceback on the page)
         return _failure(exc, "plan")
 
 
-def comparison_job(scenario_json: str, lever: str, values_si: list, sensitivity: bool, progress=None,
+def comparison_job(scenario_json: str, lever: str, values_si: list, sensitivity, progress=None,
                    executor=None) -> dict:
     from planner.scenario.schema import parse_scenario_text
 
-    from dashboard.results import run_comparison
+    from dashboard.compute.results import run_comparison
 
     try:
         return run_comparison(parse_scenario_text(scenario_json, "json"), lever, list(values_si),
@@ -103,7 +103,7 @@ def comparison_job(scenario_json: str, lever: str, values_si: list, sensitivity:
 
 def calibration_job(fit_key: str, log_bytes: bytes, log_name: str, map_text: str, names: list, progress=None,
                     executor=None) -> dict:
-    from dashboard.calibration_data import fit_document
+    from dashboard.compute.calibration_data import fit_document
 
     try:
         return fit_document(fit_key, log_bytes, log_name, map_text, names, executor=executor)
@@ -124,7 +124,7 @@ def envelope_job(scenario_json: str, lever: str, values_si: list, ambients_k: li
         return _failure(exc, "envelope")
 
 
-JOBS = {"plan": bundle_job, "comparison": comparison_job, "calibration": calibration_job, "envelope": envelope_job}
+JOBS = {"plan": plan_job, "comparison": comparison_job, "calibration": calibration_job, "envelope": envelope_job}
 
 
 def _executor(stack: contextlib.ExitStack):
@@ -146,7 +146,7 @@ def _executor(stack: contextlib.ExitStack):
 def _serve(conn) -> None:
     """Worker main loop: a job in, progress messages and one result out, until the pipe closes."""
     signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl-C on the server is the server's to handle
-    import dashboard.results  # noqa: F401  (load the planner before the first job)
+    import dashboard.compute.results  # noqa: F401  (load the planner before the first job)
     from planner.scenario.units import registry
 
     registry()
@@ -167,7 +167,7 @@ def _serve(conn) -> None:
 
 # ------------------------------------------------------------------------------------------ pool
 
-ROOT = Path(__file__).resolve().parents[1]
+ROOT = Path(__file__).resolve().parents[2]
 
 
 class _Worker:
@@ -176,7 +176,7 @@ class _Worker:
     def __init__(self):
         parent, child = socket.socketpair()
         env = dict(os.environ, PYTHONPATH=os.pathsep.join([str(ROOT), os.environ.get("PYTHONPATH", "")]))
-        self.process = subprocess.Popen([sys.executable, "-m", "dashboard.workers", str(child.fileno())],
+        self.process = subprocess.Popen([sys.executable, "-m", "dashboard.compute.workers", str(child.fileno())],
                                         cwd=ROOT, env=env, pass_fds=(child.fileno(),), start_new_session=True,
                                         stdin=subprocess.DEVNULL)
         child.close()
@@ -351,5 +351,5 @@ def pool(warm: bool = False) -> WorkerPool:
         return _POOL
 
 
-if __name__ == "__main__":       # a worker: python -m dashboard.workers FD
+if __name__ == "__main__":       # a worker: python -m dashboard.compute.workers FD
     _serve(Connection(int(sys.argv[1])))

@@ -19,12 +19,14 @@ import plotly.graph_objects as go
 import streamlit as st
 from plotly.subplots import make_subplots
 
-from dashboard.compute import cached_calibration
-from dashboard.display import convert_array, fmt, label, to_display
-from dashboard.plaintext import escaped
+from dashboard.compute.cache import cached_calibration
+from dashboard.present.display import convert_array, fmt, label, to_display, words
+from dashboard.present.plaintext import escaped
 
-TAB = "Calibration"
-DEMO_LOG = Path(__file__).resolve().parents[1] / "demo_scenarios" / "logs" / "barge_wren_2026-01-14.csv"
+from .page import Page
+
+NEEDS_RESULTS = False
+DEMO_LOG = Path(__file__).resolve().parents[2] / "demo_scenarios" / "logs" / "barge_wren_2026-01-14.csv"
 QUANTITY_KIND = {"discharge_pressure": ("pressure", "pressure"), "suction_pressure": ("pressure", "pressure"),
                  "pump_inlet_temperature": ("temperature", "temperature_difference"),
                  "outlet_temperature": ("temperature", "temperature_difference"), "flow": ("volume_flow", "volume_flow")}
@@ -83,7 +85,7 @@ def series_figure(data: dict, system: str) -> go.Figure:
 
 
 def factors_frame(data: dict) -> pd.DataFrame:
-    rows = [{"factor": name, "fitted": round(f["value"], 4), "95 % low": round(f["low"], 4),
+    rows = [{"factor": words(name), "fitted": round(f["value"], 4), "95 % low": round(f["low"], 4),
              "95 % high": round(f["high"], 4), "identifiable from this log": "yes" if f["identifiable"] else "no",
              "at its bound": "yes" if f["at_bound"] else ""} for name, f in data["factors"].items()]
     return pd.DataFrame(rows)
@@ -125,13 +127,13 @@ def _apply(data: dict) -> None:
 
 
 def _apply_and_save(data: dict) -> None:
-    from dashboard import sharing
-
     _apply(data)
     ss = st.session_state
     ss["sv_note"] = revision_note(data)
     ss.pop("share_msg", None)
-    sharing._do_save()   # the sidebar's save: same plan name, site, author and revision rules
+    from dashboard.services.revisions import do_save
+
+    do_save()   # the sidebar's save: same plan name, site, author and revision rules
     kind, text = ss.get("share_msg") or ("error", "Not saved.")
     ss["cal_msg"] = (kind, text if kind != "success" else f"{text} The note names the log and its SHA-256.")
 
@@ -176,8 +178,8 @@ def _inputs(scenario) -> tuple[list[str], str]:
     pd_pump = scenario.pump is not None and scenario.pump.kind == "positive_displacement"
     options = [n for n in FACTOR_NAMES if n != "slip_factor" or pd_pump]
     default = list(DEFAULT_FIT) + (["slip_factor"] if pd_pump else [])
-    names = right.multiselect("Factors to fit", options, default=default, key="cal_names",
-                              help="slip_factor: positive-displacement pumps, with speed in the log")
+    names = right.multiselect("Factors to fit", options, default=default, key="cal_names", format_func=words,
+                              help=f"{words('slip_factor')}: positive-displacement pumps, with speed in the log")
     map_text = map_upload.getvalue().decode("utf-8", errors="replace") if map_upload is not None else ""
     return names, map_text
 
@@ -212,9 +214,13 @@ def _current(scenario) -> None:
         st.caption("In use now: no calibration (all factors 1).")
         return
     origin = f" — fitted to {calibration.source.file}" if calibration.source is not None else ""
-    st.caption(f"In use now: viscosity_factor {calibration.viscosity_factor:.4g}, heat_loss_factor "
-               f"{calibration.heat_loss_factor:.4g}, slip_factor {calibration.slip_factor:.4g}{origin}")
+    st.caption(f"In use now: {words('viscosity_factor')} {calibration.viscosity_factor:.4g}, {words('heat_loss_factor')} "
+               f"{calibration.heat_loss_factor:.4g}, {words('slip_factor')} {calibration.slip_factor:.4g}{origin}")
     st.button("Remove the calibration", key="cal_remove", on_click=_remove)
+
+
+def draw(page: Page) -> None:
+    calibration_view(page.scenario, page.scenario_json, page.unit_system)
 
 
 def calibration_view(scenario, scenario_json: str | None, unit_system: str) -> None:

@@ -1,5 +1,5 @@
 """The Calibration tab's fit as plain data (no Streamlit here): it runs in a worker process of
-``dashboard.workers`` (job ``calibration``), cached by ``compute.cached_calibration``."""
+``dashboard.compute.workers`` (job ``calibration``), cached by ``compute.cache.cached_calibration``."""
 
 from __future__ import annotations
 

@@ -1,13 +1,13 @@
 """The plan as one self-contained HTML file: inputs, results, charts, findings and cautions.
 
 Plotly's JavaScript is inlined once in the page head, so the file opens offline (about 5 MB).
-No Streamlit here: ``build_report_html(scenario, bundle, system)`` works from a script too::
+No Streamlit here: ``build_report_html(scenario, results, system)`` works from a script too::
 
     from planner.scenario.schema import load_scenario
-    from dashboard.results import build_bundle
-    from dashboard.report import build_report_html
+    from dashboard.compute.results import plan_results
+    from dashboard.present.report import build_report_html
     s = load_scenario("demo_scenarios/syrup_railcar_unload.toml")
-    open("plan.html", "w").write(build_report_html(s, build_bundle(s), "SI"))
+    open("plan.html", "w").write(build_report_html(s, plan_results(s), "SI"))
 """
 
 from __future__ import annotations
@@ -23,6 +23,8 @@ from planner.reports.findings_text import headline
 from planner.reports.key_figures import figure_text
 from planner.scenario.schema import Scenario, scenario_to_toml
 from planner.scenario.wording import render
+
+from dashboard.compute.record import PlanResults
 
 from . import figures, tables
 from .display import SYSTEM_NAMES, caution_text, fmt, words
@@ -93,10 +95,10 @@ def _inputs_frame(s: Scenario, system: str) -> pd.DataFrame:
     return pd.DataFrame(rows, columns=["Input", "Value"])
 
 
-def _findings_html(bundle: dict, system: str) -> str:
-    findings = bundle.get("findings")
+def _findings_html(results: PlanResults, system: str) -> str:
+    findings = results.findings
     if findings is None:
-        return f"<p>{html.escape(bundle.get('findings_note') or 'Findings are not available.')}</p>"
+        return f"<p>{html.escape(results.findings_note or 'Findings are not available.')}</p>"
     parts = []
     for severity in MOST_SEVERE_FIRST:
         for f in (x for x in findings if x.get("severity") == severity):
@@ -122,28 +124,28 @@ def _envelope_card(envelope: dict | None, system: str) -> tuple[str, str]:
     return envelope_card_section(envelope_from_json(envelope), system), CARD_CSS
 
 
-def build_report_html(scenario: Scenario, bundle: dict, system: str = "SI", generated_at: _dt.datetime | None = None,
+def build_report_html(scenario: Scenario, results: PlanResults, system: str = "SI", generated_at: _dt.datetime | None = None,
                       envelope: dict | None = None) -> str:
     """The whole report as one HTML string (display units of ``system``); with ``envelope`` (the JSON of
     ``planner.sweeps.envelope`` for this scenario) its printable card as the last page."""
     when = (generated_at or _dt.datetime.now()).strftime("%Y-%m-%d %H:%M")
-    plan = bundle["plan"]
+    plan = results.plan
     start = plan["start"]
-    caution = f'<div class="caution"><b>Caution.</b> {html.escape(caution_text(system))}</div>'
+    caution = f'<div class="caution"><b>Caution.</b> {html.escape(caution_text(system, results.touch_limit_k))}</div>'
     figs = "".join(
         f'<div class="figure"><div class="label">{html.escape(k.label)}</div>'
         f'<div class="value">{html.escape(figure_text(k, system))}</div>'
         f'<div class="note">{html.escape(render(k.note, system))}</div></div>'
-        for k in bundle["key_figures"])
+        for k in results.key_figures)
     charts = []
-    if bundle.get("profile") is not None:
-        charts.append(_figure_html(figures.line_figure(bundle["profile"], bundle["segments"], system,
-                                                       touch_limit_k=bundle.get("touch_limit_k"))))
-    charts.append(_figure_html(figures.timeline_figure(plan, system, bundle.get("destination_max_level"))))
-    rows = bundle.get("push_cold_rows") or {}
+    if results.profile is not None:
+        charts.append(_figure_html(figures.line_figure(results.profile, results.segments, system,
+                                                       touch_limit_k=results.touch_limit_k)))
+    charts.append(_figure_html(figures.timeline_figure(plan, system, results.destination_max_level)))
+    rows = results.push_cold_rows or {}
     if rows.get("time_s"):
         charts.append(_figure_html(figures.push_cold_figure(rows, system)))
-    charts.append(_figure_html(figures.viscosity_figure(bundle["product"], system)))
+    charts.append(_figure_html(figures.viscosity_figure(results.product, system)))
     timeline_note = "" if plan["timeline"].get("completed") else (
         f"<p><b>The transfer stops:</b> {html.escape(render(plan['timeline'].get('stop_reason') or '', system))}</p>")
     push_table = _table(tables.push_cold_frame(rows, system)) if rows.get("time_s") else "<p>—</p>"
@@ -152,17 +154,17 @@ def build_report_html(scenario: Scenario, bundle: dict, system: str = "SI", gene
 <p class="meta">Viscous Transfer Planner · generated {html.escape(when)} · units: {html.escape(SYSTEM_NAMES.get(system, system))}
  · the numbers equal <code>python -m planner plan SCENARIO --json</code> for the scenario in the appendix</p>
 {caution}
-<p class="headline {html.escape(plan.get('worst_severity', 'info'))}"><b>{html.escape(headline(bundle.get('findings') or [], system))}</b></p>
+<p class="headline {html.escape(plan.get('worst_severity', 'info'))}"><b>{html.escape(headline(results.findings or [], system))}</b></p>
 <p>At the start: <b>{html.escape(words(start.get('status', '')))}</b> — {html.escape(render(start.get('message', ''), system))}</p>
 {timeline_note}
 <h2>Key figures</h2>
 <div class="figures">{figs}</div>
 <h2>Findings</h2>
-{_findings_html(bundle, system)}
+{_findings_html(results, system)}
 <h2>Inputs</h2>
 {_table(_inputs_frame(scenario, system))}
 <h3>Discharge route</h3>
-{_table(tables.segments_frame(bundle['segments'], system))}
+{_table(tables.segments_frame(results.segments, system))}
 <h2>Results</h2>
 <h3>Start-up and stops</h3>
 {_table(tables.startup_hold_frame(plan, system))}
