@@ -197,3 +197,15 @@ def test_default_viscosity_spread_follows_a_fitted_calibration():
     assert spec.distribution.log_sd == pytest.approx(0.05 / 1.25) and "calibration" in spec.source
     names = [s.name for s in input_specs(calibrated)]
     assert "pump_slip_factor" in names and "pump_head_factor" not in names        # a PD pump
+
+
+def test_the_sensitivity_shares_are_called_rough_below_16_plans_per_bin():
+    """The binned estimator's bins hold samples // bins plans (bins: the power of two below sqrt(samples));
+    below 16 a bin (the project's rule of thumb) the text and JSON say the shares are rough."""
+    from planner.reports.uncertainty_text import sensitivity_caveat
+
+    assert "4 plans per bin" in sensitivity_caveat(16)
+    assert "8 plans per bin" in sensitivity_caveat(32)
+    assert "8 plans per bin" in sensitivity_caveat(64)
+    assert sensitivity_caveat(128) == ""
+    assert sensitivity_caveat(4096) == ""

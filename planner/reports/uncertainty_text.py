@@ -92,6 +92,18 @@ def chance_lines(odds: dict, system: str = "SI") -> list[str]:
     return lines
 
 
+def sensitivity_caveat(samples: int) -> str:
+    """Why the shares are rough at ``samples`` plans, or "" when each bin holds 16 plans or more (a rule of
+    thumb of this project for the binned estimator, not a published threshold)."""
+    from planner.sweeps.odds_stats import bin_count
+
+    per_bin = samples // bin_count(samples)
+    if per_bin >= 16:
+        return ""
+    return (f"rough: {per_bin} plans per bin at {samples} samples, the shares can sum past 1; "
+            "128 samples or more give 16 per bin")
+
+
 def odds_lines(odds: dict, system: str = "SI") -> list[str]:
     """The text block shown after the key figures."""
     lines = [f"  odds: {odds['samples']} plans at sampled inputs (seed {odds['seed']})",
@@ -103,6 +115,9 @@ def odds_lines(odds: dict, system: str = "SI") -> list[str]:
     lines.append(f"    what drives the spread of the total time (first-order share{', on ranks' if 'ranks' in odds['sensitivity_of'] else ''}):")
     for row in sorted(input_rows(odds, system), key=lambda r: -(r["share"] or 0.0)):
         lines.append(f"      {row['label']:26s} {row['share']:5.2f}   {row['distribution']}")
+    rough = sensitivity_caveat(odds["samples"])
+    if rough:
+        lines.append(f"      ({rough})")
     lines.append("    ± is one standard error over the 4 scrambles (3 degrees of freedom: a 95 % band is 3.2 of them)")
     lines.append(f"    method: {odds['method']}")
     return lines
@@ -110,8 +125,8 @@ def odds_lines(odds: dict, system: str = "SI") -> list[str]:
 
 def odds_json(odds: dict) -> dict:
     """The ``uncertainty`` part of the plan JSON (SI; a percentile beyond the samples that finished is null
-    and listed in ``beyond``)."""
-    return plain(odds)
+    and listed in ``beyond``; ``sensitivity_caveat`` says when the shares are rough, else null)."""
+    return plain({**odds, "sensitivity_caveat": sensitivity_caveat(odds["samples"]) or None})
 
 
 def odds_summary(odds: dict) -> dict:
