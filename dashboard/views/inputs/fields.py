@@ -17,6 +17,7 @@ from typing import Callable
 import streamlit as st
 
 from planner.scenario.labels import field_label as _field_label
+from planner.scenario.schema import field_constraints
 
 from dashboard.present.display import display_string, stored_to_si, to_display, with_unit, words
 from dashboard.present.plaintext import escaped
@@ -210,6 +211,7 @@ def text(container, problems: Problems, path: str, *, label: str | None = None, 
     raw = get_path(work(), path)
     key = _wkey(path)
     container.text_input(field_label, value="" if raw is None else str(raw), key=key, help=help,
+                         max_chars=field_constraints(path).get("max_length"),   # the schema's limit
                          disabled=locked(), on_change=_commit_value, args=(path, key, optional))
     show_problems(container, problems, path, field_label)
 
