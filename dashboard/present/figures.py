@@ -29,6 +29,7 @@ COLOURS = {
     "jacket": "#b9770e", "sheath": "#7b7d7d", "limit": "#cb4335", "flow": "#117a65", "source": "#2e86c1",
     "destination": "#28b463", "suction": "#5d6d7e", "fit": "#6c3483", "points": "#212f3d", "range": "#d6eaf8",
     "cost": "#7d6608", "time": "#1a5276", "ambient": "#7b7d7d", "source_level": "#884ea0",
+    "pump_inlet": "#d35400",
 }
 SEGMENT_LINE = dict(color="#909497", width=1, dash="dot")
 
@@ -173,7 +174,7 @@ def timeline_figure(plan: dict, system: str, max_level: float | None = None) -> 
 
     add("flow_m3_s", "flow", "volume_flow", 1, COLOURS["flow"])
     add("source_temperature_k", "source", "temperature", 2, COLOURS["source"])
-    add("pump_inlet_temperature_k", "pump inlet", "temperature", 2, COLOURS["suction"], "dot")
+    add("pump_inlet_temperature_k", "pump inlet", "temperature", 2, COLOURS["pump_inlet"], "dot")
     add("outlet_temperature_k", "line outlet", "temperature", 2, COLOURS["temperature"])
     add("ambient_temperature_k", "ambient", "temperature", 2, COLOURS["ambient"], "dash")
     add("source_level_m", "source level", "length", 3, COLOURS["source_level"])
