@@ -132,3 +132,26 @@ def test_sensitivity_shifts_take_the_comparisons_defaults_and_the_budgets_limits
     assert shift.value == pytest.approx(10.0 * per_k) and viscosity.value == pytest.approx(20.0)
     assert shift.max == pytest.approx(active_budget().max_ambient_shift_k * per_k)
     assert viscosity.max == pytest.approx(active_budget().max_viscosity_uncertainty * 100.0)
+
+
+@pytest.mark.parametrize("units", ["SI", "US"])
+def test_the_checks_own_limits_are_inputs(units):
+    """The film coefficient the laminar check calls poor (20 W/(m²·K) = 3.52 BTU/(h·ft²·°F)), the flash-point
+    margin (10 K = 18 °F), the lowest velocity and the source's gas pressure are on the page; lowering the
+    film limit below the barge line's film coefficient (about 8.5 W/(m²·K) here) clears the finding."""
+    film = "Film coefficient counted as poor ["
+    at = _page(units, "Plan")
+    assert "Laminar flow, poor heat transfer" in " ".join(e.value for e in at.info)
+    at.session_state["view"] = "Inputs"
+    at = at.run()
+    field = number_field(at, film)
+    per_w = 1.0 if units == "SI" else 1.0 / 5.678263
+    assert field.value == pytest.approx(20.0 * per_w, rel=1e-6)
+    assert number_field(at, "Margin below the flash point [").value == pytest.approx(10.0 if units == "SI" else 18.0)
+    assert number_field(at, "Lowest line velocity [").value == pytest.approx(0.05 if units == "SI" else 0.05 / 0.3048)
+    assert number_field(at, "Gas pressure in the source (gauge) [").value == pytest.approx(0.0, abs=1e-12)
+    at = number_field(at, film).set_value(round(5.0 * per_w, 4)).run()
+    assert scenario_from_dict(at.session_state["work"]).limits.poor_film_coefficient == pytest.approx(5.0, rel=1e-4)
+    at.session_state["view"] = "Plan"
+    at = at.run()
+    assert "Laminar flow, poor heat transfer" not in " ".join(e.value for e in [*at.info, *at.warning, *at.error])

@@ -29,11 +29,13 @@ STEPS = {
     ("time", "SI"): 0.5, ("time", "US"): 0.5, ("power", "SI"): 1.0, ("power", "US"): 1.0,
     ("speed", "SI"): 0.5, ("speed", "US"): 1.0, ("linear_power", "SI"): 1.0, ("linear_power", "US"): 0.5,
     ("rotational_speed", "SI"): 10.0, ("rotational_speed", "US"): 10.0,
+    ("temperature_difference", "SI"): 1.0, ("temperature_difference", "US"): 1.0,
 }
 FORMATS = {"temperature": 1, "pressure": 2, "length": 2, "small_length": 2, "volume_flow": 2, "volume": 1,
            "time": 2, "power": 2, "speed": 2, "linear_power": 1, "rotational_speed": 0, "displacement": 3,
            "dynamic_viscosity": 1, "kinematic_viscosity": 1, "density": 1, "specific_heat": 3, "conductivity": 3,
-           "heat_transfer_coefficient": 2, "linear_conductance": 2, "yield_stress": 1, None: 3}
+           "heat_transfer_coefficient": 2, "linear_conductance": 2, "yield_stress": 1, "temperature_difference": 1,
+           None: 3}
 
 
 # ------------------------------------------------------------------------------------------ paths

@@ -169,6 +169,7 @@ def vessels_section(c, problems: Problems) -> None:
     number(a, problems, "source.volume_to_move", "volume")
     number(a, problems, "source.temperature", "temperature")
     number(a, problems, "source.outlet_height", "length")
+    number(a, problems, "source.pressure", "pressure", help="empty: 0, open to the air")
     number(a, problems, "source.heat_loss_coefficient", "heat_transfer_coefficient")
     number(a, problems, "source.heating_power", "power")
     select(a, problems, "source.heating_medium", field_choices(Vessel, "heating_medium"))
@@ -203,6 +204,10 @@ def site_section(c, problems: Problems) -> None:
     number(b, problems, "limits.touch_temperature", "temperature")
     number(b, problems, "limits.npsh_margin", "length")
     number(b, problems, "limits.max_velocity", "speed")
+    number(b, problems, "limits.min_velocity", "speed")
+    number(b, problems, "limits.flash_point_margin", "temperature_difference")
+    number(b, problems, "limits.poor_film_coefficient", "heat_transfer_coefficient",
+           help="an inner film coefficient below this in laminar flow is reported as poor heat transfer")
     show_problems(b, problems, "limits", "Limits")
 
 
