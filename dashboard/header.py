@@ -5,6 +5,7 @@ from __future__ import annotations
 
 import streamlit as st
 
+from planner.errors import shortened
 from planner.reports.key_figures import figure_text
 from planner.scenario.labels import field_label
 from planner.scenario.schema import Limits, Scenario
@@ -61,15 +62,15 @@ def stale_note() -> str:
     """Says whose results the greyed figures are: this scenario's last good inputs, or another scenario's."""
     last = st.session_state.get("last_good") or {}
     if last.get("loaded") == st.session_state.get("loaded", 0):
-        return f"the last good inputs of this scenario ({escaped(last.get('name', ''))})"
-    return (f"**another scenario**, “{escaped(last.get('name', ''))}” ({escaped(last.get('source', ''))}), "
+        return f"the last good inputs of this scenario ({escaped(shortened(last.get('name', '')))})"
+    return (f"**another scenario**, “{escaped(shortened(last.get('name', '')))}” ({escaped(last.get('source', ''))}), "
             f"not {escaped(source_text())}")
 
 
 def page_header(scenario: Scenario | None, unit_system: str, problem_list: list, planned: Outcome | None,
                 stale: bool, shown: PlanResults | None) -> None:
     name = scenario.name if scenario is not None else (st.session_state["work"].get("name") or "scenario with problems")
-    st.markdown(f"## Viscous Transfer Planner  \n**{escaped(name)}**")
+    st.markdown(f"## Viscous Transfer Planner  \n**{escaped(shortened(str(name)))}**")
     st.caption(f"{escaped(source_text())} — units: {SYSTEM_NAMES[unit_system]}")
     st.warning(caution_text(unit_system, touch_limit(scenario, shown)), icon="⚠️")
     page_notices()

@@ -11,7 +11,7 @@ import streamlit as st
 from planner.errors import PlannerError
 from planner.records.links import URL_BUDGET_CHARS, fits_in_url, link_url, query_for
 from planner.records.revision import Revision
-from planner.records.terms import SAVE_ROLES
+from planner.records.terms import LIMITS, SAVE_ROLES
 from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_toml
 
 from dashboard import header, loading, url_state
@@ -67,7 +67,7 @@ def sidebar(scenario: Scenario | None, scenario_json: str | None, planned: Outco
             sb.download_button("Profile along the line (CSV)",
                                data=lambda: tables.csv_text(tables.profile_frame(results.profile, results.segments, unit_system)),
                                file_name=f"profile-{slug}-{unit_system}.csv", mime="text/csv", key="dl_profile", width="stretch")
-        sb.download_button("Timeline (CSV)", data=lambda: tables.csv_text(tables.timeline_frame(results.plan, unit_system)),
+        sb.download_button("Timeline (CSV)", data=lambda: tables.timeline_csv(results.plan, unit_system, scenario.name),
                            file_name=f"timeline-{slug}-{unit_system}.csv", mime="text/csv", key="dl_timeline", width="stretch")
     sb.header("Save / share / review")
     save_share_review(sb, scenario_json)
@@ -104,15 +104,15 @@ def save_share_review(container, scenario_json: str | None) -> None:
     # -- saving
     if scenario_json is not None and not ss.get("sv_name"):
         try:
-            ss["sv_name"] = json.loads(scenario_json).get("name", "")[:160]
+            ss["sv_name"] = json.loads(scenario_json).get("name", "")[:LIMITS["name"]]
         except (ValueError, AttributeError):
             pass
     as_new = revision is None or bool(ss.get("sv_as_new"))
-    container.text_input("Plan name", key="sv_name", disabled=not as_new, max_chars=160,
+    container.text_input("Plan name", key="sv_name", disabled=not as_new, max_chars=LIMITS["name"],
                          help="a name and site already saved add a revision to that plan")
-    container.text_input("Site / area", key="sv_site", disabled=not as_new, max_chars=120,
+    container.text_input("Site / area", key="sv_site", disabled=not as_new, max_chars=LIMITS["site"],
                          help="a tag to find the plan by: jetty, tank farm, siding …")
-    container.text_area("Note", key="sv_note", max_chars=4000, height=68, placeholder="what changed and why")
+    container.text_area("Note", key="sv_note", max_chars=LIMITS["note"], height=68, placeholder="what changed and why")
     if revision is not None:
         container.checkbox("Save as a separate new plan", key="sv_as_new")
     if revision is not None and not as_new:

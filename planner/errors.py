@@ -45,3 +45,18 @@ def quoted(value: object, limit: int = QUOTE_CHARS) -> str:
         return text
     size = f" ({len(value):,} characters)" if isinstance(value, (str, bytes)) else ""
     return text[:limit - 1] + "'…" + size if isinstance(value, (str, bytes)) else text[:limit - 1] + "…"
+
+
+def shortened(name: object, limit: int = QUOTE_CHARS) -> str:
+    """A name (a segment's, a product's) as a message shows it: in full up to ``limit`` characters, else
+    its start and the full length, so a 10 kB name does not fill the page.
+
+    >>> shortened("Jetty head manifold")
+    'Jetty head manifold'
+    >>> shortened("y" * 10240)[-22:]
+    'y… (10,240 characters)'
+    """
+    text = str(name)
+    if len(text) <= limit:
+        return text
+    return f"{text[:limit - 1]}… ({len(text):,} characters)"

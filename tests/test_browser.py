@@ -228,14 +228,14 @@ OVERLAP_JS = """() => [...document.querySelectorAll('.js-plotly-plot')].flatMap(
     const legend = plot.querySelector('g.legend');
     if (!legend) return [];
     const L = legend.getBoundingClientRect();
-    return [...plot.querySelectorAll('text')].filter(t => /^[xy]\\d*title$/.test(t.getAttribute('class') || ''))
+    return [...plot.querySelectorAll('text')].filter(t => /^([xy]\\d*|g)title$/.test(t.getAttribute('class') || ''))
         .map(t => [t, t.getBoundingClientRect()])
         .filter(([t, r]) => r.width > 0 && r.left < L.right && L.left < r.right && r.top < L.bottom && L.top < r.bottom)
         .map(([t]) => (plot.querySelector('.gtitle') || {}).textContent + ': ' + t.textContent); })"""
 
 
 def _layout_problems(page) -> list[str]:
-    """Key-figure text cut off, and legends drawn over an axis title."""
+    """Key-figure text cut off, and legends drawn over an axis title or the figure's title."""
     return [f"cut off: {t}" for t in page.evaluate(CLIPPED_JS)] + [f"legend on {t}" for t in page.evaluate(OVERLAP_JS)]
 
 

@@ -77,10 +77,12 @@ def test_comparison_costs_carry_the_currency_and_the_touch_limit_is_the_scenario
     assert "Total cost [NZD]" in frame.columns and "Energy cost [NZD]" in frame.columns
     fig = figures.comparison_figure(result, "temperature", "SI")
     assert fig.layout.yaxis2.title.text == "NZD"
-    touch = [s for s in fig.layout.shapes if s.yref == "y4"]
-    assert touch and touch[0].y0 == pytest.approx(50.0, abs=1e-9)
+    # the limit is a dashed line named in the legend (no label on the plot for a curve to cross)
+    touch = [t for t in fig.data if t.name.startswith("touch limit")]
+    assert [t.yaxis for t in touch] == ["y4"] and list(touch[0].y) == pytest.approx([50.0, 50.0], abs=1e-9)
     line = figures.line_figure(*_line_args(scenario))
-    assert [s.y0 for s in line.layout.shapes if s.yref == "y4"] == [pytest.approx(50.0, abs=1e-9)]
+    touch = [t for t in line.data if t.name.startswith("touch limit")]
+    assert [t.yaxis for t in touch] == ["y4"] and list(touch[0].y) == pytest.approx([50.0, 50.0], abs=1e-9)
 
 
 def _line_args(scenario):

@@ -21,16 +21,15 @@ from planner.transfer.operating import OUTCOME_WORDS
 SYSTEM_NAMES = {"SI": "SI (metric)", "US": "US customary"}
 
 # Shown in the same unit whatever the system: (label, pint unit); the label is the unit's one spelling
-# (planner.scenario.units.unit_text).
+# (planner.scenario.units.unit_text).  Only kinds the unit table (planner.scenario.units.UNIT_SYSTEMS) has
+# no display unit for: a kind the table has takes the table's unit (BTU/(h·ft²·°F) in US, not W/(m²·K)).
 FIXED_DISPLAY = {kind: (unit_text(unit), unit) for kind, unit in {
-    "rotational_speed": "revolution/minute",
     "displacement": "L",
-    "heat_transfer_coefficient": "W/m**2/K",
     "linear_conductance": "W/m/K",
     "density_slope": "kg/m**3/K",
     "yield_stress": "Pa",
 }.items()}
-_SI_FOR_FIXED = {"rotational_speed": "revolution/second", "displacement": "m**3"}
+_SI_FOR_FIXED = {"displacement": "m**3"}
 
 def extra_caution(touch_k: float) -> Sentence:
     """The dashboard's caution beside the standing one; ``touch_k`` is the scenario's

@@ -11,7 +11,9 @@ import numpy as np
 import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
-from planner.scenario.wording import format_quantity
+from planner.scenario.wording import format_quantity, render
+
+from .axes import label_log_axis, limit_line
 
 from .display import convert_array, label, to_display, with_unit, words
 from .plaintext import plotly_text
@@ -26,7 +28,8 @@ COLOURS = {
     "temperature": "#c0392b", "viscosity": "#6c3483", "pressure": "#1f618d", "rating": "#e67e22",
     "jacket": "#b9770e", "sheath": "#7b7d7d", "limit": "#cb4335", "flow": "#117a65", "source": "#2e86c1",
     "destination": "#28b463", "suction": "#5d6d7e", "fit": "#6c3483", "points": "#212f3d", "range": "#d6eaf8",
-    "cost": "#7d6608", "time": "#1a5276", "ambient": "#7b7d7d",
+    "cost": "#7d6608", "time": "#1a5276", "ambient": "#7b7d7d", "source_level": "#884ea0",
+    "pump_inlet": "#d35400",
 }
 SEGMENT_LINE = dict(color="#909497", width=1, dash="dot")
 
@@ -134,11 +137,9 @@ def line_figure(profile: dict, segments: list[dict], system: str, product_name: 
         fig.add_trace(go.Scatter(x=x_s, y=convert_array(steps["sheath_temperature"], "temperature", system),
                                  name="heater/tracer temperature", line=dict(color=COLOURS["sheath"], dash="dot")),
                       row=4, col=1)
-    if touch_limit_k is not None:           # the scenario's limits.touch_temperature
-        touch = to_display(touch_limit_k, "temperature", system)
-        fig.add_hline(y=touch, line=dict(color=COLOURS["limit"], dash="dash"), row=4, col=1,
-                      annotation_text=f"touch limit {touch:.0f} {label('temperature', system)}",
-                      annotation_position="top left")
+    if touch_limit_k is not None and len(x_s):     # the scenario's limits.touch_temperature
+        limit_line(fig, (float(min(x_s)), float(max(x_s))), to_display(touch_limit_k, "temperature", system),
+                   f"touch limit {format_quantity(touch_limit_k, 'temperature', system)}", COLOURS["limit"], 4, 1)
     if profile.get("status") == "product_sets" and profile.get("sets_at_m") is not None:
         where = to_display(profile["sets_at_m"], "length", system)
         for r in range(1, 5):
@@ -147,6 +148,7 @@ def line_figure(profile: dict, segments: list[dict], system: str, product_name: 
     _segment_marks(fig, segments, system, 4)
     fig.update_yaxes(title_text=label("temperature", system), row=1, col=1)
     fig.update_yaxes(title_text=label("dynamic_viscosity", system), type="log", row=2, col=1)
+    label_log_axis(fig, "yaxis2", list(convert_array(steps["viscosity"], "dynamic_viscosity", system)))
     fig.update_yaxes(title_text=label("pressure", system), row=3, col=1)
     fig.update_yaxes(title_text=label("temperature", system), row=4, col=1)
     fig.update_xaxes(title_text=with_unit("Distance from the pump", "length", system), row=4, col=1)
@@ -172,10 +174,10 @@ def timeline_figure(plan: dict, system: str, max_level: float | None = None) -> 
 
     add("flow_m3_s", "flow", "volume_flow", 1, COLOURS["flow"])
     add("source_temperature_k", "source", "temperature", 2, COLOURS["source"])
-    add("pump_inlet_temperature_k", "pump inlet", "temperature", 2, COLOURS["suction"], "dot")
+    add("pump_inlet_temperature_k", "pump inlet", "temperature", 2, COLOURS["pump_inlet"], "dot")
     add("outlet_temperature_k", "line outlet", "temperature", 2, COLOURS["temperature"])
     add("ambient_temperature_k", "ambient", "temperature", 2, COLOURS["ambient"], "dash")
-    add("source_level_m", "source level", "length", 3, COLOURS["source"])
+    add("source_level_m", "source level", "length", 3, COLOURS["source_level"])
     add("destination_level_m", "destination level", "length", 3, COLOURS["destination"])
     if max_level:
         fig.add_hline(y=to_display(max_level, "length", system), line=dict(color=COLOURS["limit"], dash="dash"),
@@ -243,9 +245,9 @@ def viscosity_figure(curve: dict, system: str, height: int = 460, compact: bool 
                      + ("" if curve.get("newtonian", True) else " (×sⁿ⁻¹)"))
     fig.update_xaxes(title_text=with_unit("Temperature", "temperature", system))
     title = f"{what} against temperature" + ("" if compact else f" — {plotly_text(curve['name'])}")
-    fig = _layout(fig, title, height)
-    fig.update_layout(hovermode="closest", legend=dict(orientation="v", x=0.99, xanchor="right", y=0.99,
-                                                       yanchor="top", bgcolor="rgba(255,255,255,0.8)"))
+    label_log_axis(fig, "yaxis", [v for trace in fig.data for v in trace.y])
+    fig = _layout(fig, title, height)          # the legend at the foot, clear of the title
+    fig.update_layout(hovermode="closest")
     return fig
 
 
@@ -276,11 +278,11 @@ def comparison_figure(comparison: dict, kind: str, system: str) -> go.Figure:
                                      marker=dict(symbol="star", size=18, color="#f1c40f", line=dict(color="#000", width=1))),
                           row=r, col=c)
         fig.update_yaxes(title_text=label(conv_kind, system) if conv_kind else plotly_text(currency), row=r, col=c)
-    if comparison.get("touch_limit_k") is not None:       # the scenario's limits.touch_temperature
-        touch = to_display(comparison["touch_limit_k"], "temperature", system)
-        fig.add_hline(y=touch, line=dict(color=COLOURS["limit"], dash="dash"), row=2, col=2,
-                      annotation_text=f"touch limit {touch:.0f} {label('temperature', system)}",
-                      annotation_position="top left")
+    shown = [v for v in x if v is not None]
+    if comparison.get("touch_limit_k") is not None and shown:       # the scenario's limits.touch_temperature
+        touch_k = comparison["touch_limit_k"]
+        limit_line(fig, (min(shown), max(shown)), to_display(touch_k, "temperature", system),
+                   f"touch limit {format_quantity(touch_k, 'temperature', system)}", COLOURS["limit"], 2, 2)
     steady_axes(fig, {"yaxis": "time", "yaxis2": None, "yaxis3": "pressure", "yaxis4": "temperature"}, system)
     title = comparison.get("lever_label", "lever")
     fig.update_xaxes(title_text=with_unit(title, kind, system), row=2)
@@ -303,7 +305,7 @@ def sensitivity_figure(comparison: dict, kind: str, system: str) -> go.Figure | 
     for i, case in enumerate(cases):
         colour = palette[i % len(palette)]
         costs = case.get("total_costs") or []
-        fig.add_trace(go.Scatter(x=x[:len(costs)], y=costs, mode="lines+markers", name=case["case"],
+        fig.add_trace(go.Scatter(x=x[:len(costs)], y=costs, mode="lines+markers", name=plotly_text(render(case["case"], system)),
                                  line=dict(color=colour, dash="dot")))
         value = case.get("recommended_value")
         if value is not None:

@@ -9,9 +9,10 @@ import pandas as pd
 
 from planner.reports.saved_figures import SAVED_FIGURES
 from planner.records.revision import Revision
+from planner.scenario.wording import money_text
 from planner.transfer.plan import J_PER_KWH
 
-from .display import fmt, number_text
+from .display import fmt
 
 
 def result_text(key: str, value, unit_system: str, currency: str = "") -> str:
@@ -21,7 +22,7 @@ def result_text(key: str, value, unit_system: str, currency: str = "") -> str:
     if kind == "energy_kwh":
         return fmt(float(value) * J_PER_KWH, "energy", unit_system)
     if kind == "money":
-        return f"{number_text(float(value), 2)} {currency}".strip()
+        return money_text(float(value), currency)
     if kind == "count":
         return str(value)
     if kind is None or not isinstance(value, (int, float)) or isinstance(value, bool):

@@ -13,7 +13,7 @@ import pandas as pd
 from .display import convert_array, fmt, label, number_text, to_display, with_unit, words
 from planner.checks.finding import MOST_SEVERE_FIRST
 from planner.reports.findings_text import finding_details as _finding_details
-from planner.scenario.wording import render
+from planner.scenario.wording import DECIMALS, money_text, render
 from planner.transfer.hold import hours_text
 
 
@@ -154,10 +154,10 @@ def energy_cost_frame(plan: dict, system: str) -> pd.DataFrame:
         ("Pump electricity", f"{number_text(e.get('pump_kwh'), 1)} {kwh}"),
         ("Vessel heating electricity", f"{number_text(e.get('vessel_heating_kwh'), 1)} {kwh}"),
         ("Vessel heating steam", fmt(e.get("vessel_heating_steam_kg"), "mass", system)),
-        ("Electricity cost", f"{number_text(c.get('electricity'), 2)} {cur}"),
-        ("Steam cost", f"{number_text(c.get('steam'), 2)} {cur}"),
-        (f"Demurrage ({number_text(c.get('demurrage_hours'), 2)} h)", f"{number_text(c.get('demurrage'), 2)} {cur}"),
-        ("Total cost", f"{number_text(c.get('total'), 2)} {cur}"),
+        ("Electricity cost", money_text(c.get("electricity"), cur)),
+        ("Steam cost", money_text(c.get("steam"), cur)),
+        (f"Demurrage ({number_text(c.get('demurrage_hours'), 2)} h)", money_text(c.get("demurrage"), cur)),
+        ("Total cost", money_text(c.get("total"), cur)),
     ]
     return pd.DataFrame(rows, columns=["Item", "Amount"])
 
@@ -218,3 +218,23 @@ def comparison_frame(comparison: dict, kind: str, system: str) -> pd.DataFrame:
 
 def csv_text(frame: pd.DataFrame) -> str:
     return frame.to_csv(index=False)
+
+
+def timeline_csv(plan: dict, system: str, scenario_name: str, now: str | None = None) -> str:
+    """The timeline as a CSV file: a header block of ``#`` lines (scenario, unit system, date, planner
+    version; ``pandas.read_csv(..., comment="#")`` skips it), then the columns rounded to the display
+    decimals of their quantity (``planner.scenario.wording.DECIMALS``)."""
+    import datetime
+
+    import planner
+    from planner.errors import shortened
+
+    frame = timeline_frame(plan, system)
+    for key, title, kind in TIMELINE_COLUMNS:
+        heading = with_unit(title, kind, system)
+        if heading in frame:
+            frame[heading] = frame[heading].round(DECIMALS.get(kind, 2))
+    now = now or datetime.datetime.now(datetime.timezone.utc).strftime("%Y-%m-%d %H:%M UTC")
+    header = [("scenario", shortened(" ".join(scenario_name.split()))), ("unit system", system),
+              ("date", now), ("planner version", planner.__version__)]
+    return "".join(f"# {name}: {value}\n" for name, value in header) + frame.to_csv(index=False)

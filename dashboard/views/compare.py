@@ -13,11 +13,12 @@ from planner.scenario.wording import render
 from dashboard.compute import cache as compute
 from planner.checks.lever_values import LEVERS
 
-from dashboard.compute.results import default_comparison_values, lever_label, sensitivity_defaults
+from dashboard.compute.results import default_comparison_values, lever_label
 from dashboard.present import figures, tables
-from dashboard.present.display import fmt, from_display, label, to_display
+from dashboard.present.display import fmt, label
 from dashboard.present.plaintext import escaped
 
+from .compare_inputs import sensitivity_controls, values_text
 from .page import Page
 
 NEEDS_RESULTS = False
@@ -41,25 +42,6 @@ def _lever_options(scenario: Scenario) -> list[str]:
     return levers
 
 
-def _sensitivity_controls(column, unit_system: str):
-    """The sensitivity box and, when ticked, its two shifts (defaults: the comparison's own); False or
-    (ambient shift [K], viscosity fraction)."""
-    gen = st.session_state.get("gen", 0)
-    on = column.checkbox("With sensitivity", value=False, key=f"cmp_sens{gen}",
-                         help="also at a colder and a warmer ambient and a thinner and a thicker product "
-                              "(five times the work)")
-    if not on:
-        return False
-    shift_k, fraction = sensitivity_defaults()
-    unit = label("temperature_difference", unit_system)
-    shift = column.number_input(f"Ambient ± [{unit}]", min_value=0.1, max_value=to_display(50.0, "temperature_difference", unit_system),
-                                value=to_display(shift_k, "temperature_difference", unit_system), step=1.0, format="%.1f",
-                                key=f"cmp_shift{gen}|{unit_system}")
-    percent = column.number_input("Viscosity ± [%]", min_value=1.0, max_value=90.0, value=fraction * 100.0, step=5.0,
-                                  format="%.0f", key=f"cmp_visc{gen}")
-    return (float(from_display(shift, "temperature_difference", unit_system)), float(percent) / 100.0)
-
-
 def _comparison_controls(scenario: Scenario, unit_system: str) -> tuple:
     """The lever, its display kind, the values as typed, the sensitivity box and the Compare button."""
     levers = _lever_options(scenario)
@@ -68,13 +50,12 @@ def _comparison_controls(scenario: Scenario, unit_system: str) -> tuple:
     lever = a.selectbox("Compare", levers, format_func=lever_label, key=f"cmp_lever{gen}")
     kind = LEVERS[lever].kind
     defaults = default_comparison_values(scenario, lever)
-    digits = 0 if kind in ("temperature", "rotational_speed") else 1
-    default_text = ", ".join(f"{to_display(v, kind, unit_system):.{digits}f}" for v in defaults)
+    default_text = values_text(defaults, kind, unit_system)
     gauge = " (gauge)" if kind == "pressure" else ""
     text = b.text_input(f"Values [{label(kind, unit_system)}]{gauge}", value=default_text,
                         key=f"cmp_values{gen}|{unit_system}|{lever}",
                         help="a list (40, 45, 50) or START:STOP:STEP (40:70:5)")
-    sensitivity = _sensitivity_controls(c, unit_system)
+    sensitivity = sensitivity_controls(c, unit_system)
     run = st.button("Compare", type="primary", key=f"cmp_run{gen}")
     return lever, kind, text, sensitivity, run
 

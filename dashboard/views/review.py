@@ -8,7 +8,7 @@ import pandas as pd
 import streamlit as st
 
 from planner.records.revision import Revision
-from planner.records.terms import STATES, StoreError
+from planner.records.terms import LIMITS, STATES, StoreError
 
 from dashboard.present.plaintext import escaped, escaped_table
 from dashboard.present.saved import STATE_WORDS, diff_frames, lock_text, results_frame, trail_frame, when_text
@@ -126,7 +126,7 @@ def _review_steps(set_work, revision: Revision) -> None:
         can = who is not None and who.role in ("planner", "supervisor")
         st.caption(f"Submitted by {who.name} (signed in)." if can else
                    "Sign in as a planner or supervisor (sidebar, “Account”) to submit this revision.")
-        st.text_input("Comment for the reviewer", key="rv_submit_comment", max_chars=2000)
+        st.text_input("Comment for the reviewer", key="rv_submit_comment", max_chars=LIMITS["comment"])
         st.button("Submit for review", key="rv_submit", type="primary", disabled=not (unchanged and can),
                   on_click=revisions.do_review, args=("submit", revision.plan_id, revision.number))
     elif state == "submitted":
@@ -134,7 +134,7 @@ def _review_steps(set_work, revision: Revision) -> None:
         st.caption(SIGN_OFF_TEXT)
         note = _reviewer_note(revision, who)
         st.caption(note or f"Reviewing as {who.name} (supervisor, signed in).")
-        st.text_input("Comment", key="rv_comment", max_chars=2000, help="needed to return the plan: say what to change")
+        st.text_input("Comment", key="rv_comment", max_chars=LIMITS["comment"], help="needed to return the plan: say what to change")
         st.checkbox("I reviewed the inputs, the findings and the key figures of this revision under the site's "
                     "procedures; approval is my judgement, the plan is an estimate.", key="rv_confirm")
         x, y, _ = st.columns([1, 1, 3])
@@ -154,9 +154,9 @@ def _review_steps(set_work, revision: Revision) -> None:
 def _browse_panel(set_work, unit_system: str) -> None:
     st.markdown("#### Saved plans")
     a, b, c, d = st.columns(4)
-    search = a.text_input("Name contains", key="rv_q")
-    product = b.text_input("Product contains", key="rv_product")
-    site = c.text_input("Site / area contains", key="rv_site")
+    search = a.text_input("Name contains", key="rv_q", max_chars=LIMITS["search"])
+    product = b.text_input("Product contains", key="rv_product", max_chars=LIMITS["search"])
+    site = c.text_input("Site / area contains", key="rv_site", max_chars=LIMITS["search"])
     state = d.selectbox("State", ["any", *STATES], key="rv_state")
     try:
         rows = store().plans(search=search, product=product, site=site, state="" if state == "any" else state)

@@ -12,7 +12,7 @@ from __future__ import annotations
 import dataclasses
 from dataclasses import dataclass
 
-from planner.scenario.wording import Q, Sentence, format_quantity, render
+from planner.scenario.wording import Q, Sentence, format_quantity, money_text, render
 from planner.transfer.plan import Plan
 from planner.transfer.pumps import HI_B_MAX
 from planner.transfer.operating import OUTCOME_WORDS
@@ -139,7 +139,7 @@ def _energy_and_cost(plan: Plan) -> list[KeyFigure]:
                   note="tracing + pump + vessel heating"),
         KeyFigure("steam", "Steam", e.steam_kg, "mass", note="tracing + vessel heating"),
         KeyFigure("total_cost", "Total cost", c.total if c.complete else None, "money",
-                  note=Sentence("demurrage {d} {cur}", d=f"{c.demurrage:,.2f}", cur=c.currency) if c.complete else "",
+                  note=Sentence("demurrage {d}", d=money_text(c.demurrage, c.currency)) if c.complete else "",
                   help="energy at the tariffs plus demurrage", possible=c.complete, why=why, unit=c.currency),
     ]
 
@@ -165,5 +165,5 @@ def figure_text(k: KeyFigure, system: str = "SI", reason: bool = True) -> str:
     if k.value is None:
         return "—"
     if k.quantity == "money":
-        return f"{k.value:,.2f} {k.unit}".strip()
+        return money_text(k.value, k.unit)
     return format_quantity(k.value, k.quantity, system)

@@ -8,7 +8,7 @@ from planner.plain import plain
 from planner.reports.findings_text import findings_json, findings_lines, flag_words, headline, start_status
 from planner.reports.key_figures import figure_text, key_figures, outlet_rating, pump_withheld
 from planner.scenario.units import si_unit_text
-from planner.scenario.wording import Q, Sentence, format_quantity, render
+from planner.scenario.wording import Q, Sentence, format_quantity, money_text, render
 from planner.transfer.plan import Plan
 
 # the kinds of the numbers the plan document carries (their SI units head the document)
@@ -216,7 +216,7 @@ def _energy_lines(plan: Plan, system: str) -> list[str]:
              f"steam, pump {_q(e.pump_j, 'energy', system)}, vessel heating {_q(e.vessel_heating_electric_j, 'energy', system)}"
              f" / {_q(e.vessel_heating_steam_kg, 'mass', system)} steam"]
     if c.complete:
-        lines.append(f"  cost: energy {c.energy:,.2f} + demurrage {c.demurrage:,.2f} = {c.total:,.2f} {c.currency}")
+        lines.append(f"  cost: energy {money_text(c.energy)} + demurrage {money_text(c.demurrage)} = {money_text(c.total, c.currency)}")
     else:
         lines.append(f"  cost: {figure_text(figures['total_cost'], system)}")
     return lines

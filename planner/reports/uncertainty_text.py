@@ -11,7 +11,7 @@ from __future__ import annotations
 import math
 
 from planner.plain import plain
-from planner.scenario.wording import format_quantity
+from planner.scenario.wording import format_quantity, money_text
 
 FIGURE_LABELS = {"transfer_time_s": "Transfer time", "total_time_s": "Start-up + transfer",
                  "peak_pressure_pa": "Peak discharge pressure", "max_jacket_temperature_k": "Hottest jacket",
@@ -29,7 +29,7 @@ def value_text(value, kind: str, system: str, currency: str = "") -> str:
     if isinstance(value, float) and math.isinf(value):
         return BEYOND
     if kind == "money":
-        return f"{value:,.2f} {currency}".strip()
+        return money_text(value, currency)
     return format_quantity(value, kind, system)
 
 

@@ -110,13 +110,14 @@ class Route(_Model):
     @model_validator(mode="after")
     def _fittings_in_method(self):
         from planner.correlations.fittings import fitting_names
+        from planner.errors import shortened
 
         known = fitting_names(self.fitting_method)
         for i, seg in enumerate(self.segments):
             for fitting in seg.fittings:
                 if fitting.type not in known:
                     raise ValueError(
-                        f"segments[{i}] ({seg.name}): fitting {fitting.type!r} has no row in the "
+                        f"segments[{i}] ({shortened(seg.name)}): fitting {fitting.type!r} has no row in the "
                         f"{self.fitting_method} table; known there: {', '.join(known)}")
         return self
 

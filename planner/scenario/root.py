@@ -113,3 +113,37 @@ def field_choices(model: type[BaseModel], field: str) -> tuple:
             return tuple(get_args(annotation))
         pending.extend(a for a in get_args(annotation) if a is not type(None))
     raise ValueError(f"{model.__name__}.{field} is not a choice field")
+
+
+def field_constraints(path: str) -> dict:
+    """The schema's limits of the field at ``path`` (``"product.name"``, ``"route.segments[0].jacket_emissivity"``):
+    ``{"max_length": 120}``, ``{"ge": 0.01, "le": 1.0}`` ... (empty for a field without any), so a form's
+    widget takes the limit the validation applies.  Limits of a quantity (SI, checked by its parser) are
+    not listed here."""
+    import re
+    from typing import get_args
+
+    names = [n for n in re.split(r"[.\[\]]+", path) if n and not n.isdigit()]
+    model: type[BaseModel] = Scenario
+    for i, name in enumerate(names):
+        info = model.model_fields[name]
+        if i == len(names) - 1:
+            found = {}
+            pending = [info.annotation, *info.metadata]
+            while pending:
+                item = pending.pop(0)
+                pending.extend(getattr(item, "__metadata__", ()))
+                pending.extend(a for a in get_args(item) if not isinstance(a, (str, int, float)))
+                for key in ("ge", "gt", "le", "lt", "max_length", "min_length"):
+                    if isinstance(getattr(item, key, None), (int, float)) and not isinstance(item, type):
+                        found[key] = getattr(item, key)
+            return found
+        pending, model = [info.annotation], None
+        while pending and model is None:
+            item = pending.pop(0)
+            if isinstance(item, type) and issubclass(item, BaseModel):
+                model = item
+            pending.extend(get_args(item))
+        if model is None:
+            raise KeyError(f"{path}: {name} is not a section")
+    return {}

@@ -29,7 +29,7 @@ from planner.scenario.sections import (Calibration, CalibrationSource, Costs, Cu
 from planner.scenario.weather_spec import Weather, WeatherHour, row_seconds, start_of, timestamp  # noqa: F401
 from planner.scenario.uncertainty_spec import (DEFAULT_CONFIDENCE, FactorDistribution, ShiftDistribution,  # noqa: F401
                                                Uncertainty)
-from planner.scenario.root import (SCHEMA_VERSION, Scenario, field_choices, json_schema, problems_from,  # noqa: F401
+from planner.scenario.root import (SCHEMA_VERSION, Scenario, field_choices, field_constraints, json_schema, problems_from,  # noqa: F401
                                    scenario_from_dict)
 from planner.scenario.files import (LONG_INTEGER_DIGITS, MAX_SCENARIO_CHARS, json_integer, load_scenario,  # noqa: F401
                                     parse_scenario_text, read_scenario_data, save_scenario, scenario_to_dict,

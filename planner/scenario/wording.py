@@ -47,6 +47,18 @@ def format_quantity(value: float | None, kind: str, system: str = "SI", decimals
     return f"{number:,.{digits}f} {UNIT_SYSTEMS[system][kind].label}"
 
 
+def money_text(value: float | None, currency: str = "") -> str:
+    """An amount of money as every output shows it: ``"6,800.40 EUR"`` (two decimals, thousands
+    separated); "—" for a missing amount.
+
+    >>> money_text(5964.875, "EUR"), money_text(None)
+    ('5,964.88 EUR', '—')
+    """
+    if value is None or (isinstance(value, float) and not math.isfinite(value)):
+        return "—"
+    return f"{value:,.2f} {currency}".strip()
+
+
 @dataclass(frozen=True)
 class Q:
     """A quantity in a sentence: SI value, its kind, and optionally the decimals to show."""

@@ -22,7 +22,7 @@ from planner.transfer.plan import make_plan
 from planner.plain import plain
 from planner.checks.lever_values import LEVERS, check_values
 from planner.scenario.schema import Scenario
-from planner.scenario.wording import DECIMALS, Q, Sentence, format_quantity, render
+from planner.scenario.wording import DECIMALS, Q, Sentence, format_quantity, money_text, render
 from planner.sweeps.executors import fan_out
 
 
@@ -163,23 +163,23 @@ def recommend(rows: list[dict], quantity: str) -> tuple[int | None, int | None, 
     r = rows[best]
     excluded = len(rows) - len(allowed)
     decimals = lever_decimals(quantity)
-    choice = Sentence("{v}: lowest total cost {cost} {cur}", v=Q(r["value"], quantity, decimals),
-                      cost=f"{r['total_cost']:.2f}", cur=r["currency"])
+    choice = Sentence("{v}: lowest total cost {cost}", v=Q(r["value"], quantity, decimals),
+                      cost=money_text(r["total_cost"], r["currency"]))
     if len(tied) > 1:
         cheapest = rows[ranked[0]]
         choice = Sentence("{v}: no clear difference in total cost among {k} values ({low} to {high} {cur}, within "
-                          "{band} % of the lowest): the gentlest, {v}, is recommended at {cost} {cur}",
-                          v=Q(r["value"], quantity, decimals), k=len(tied), low=f"{cheapest['total_cost']:.2f}",
-                          high=f"{max(rows[i]['total_cost'] for i in tied):.2f}", cur=r["currency"],
-                          band=f"{TIE_BAND * 100:g}", cost=f"{r['total_cost']:.2f}")
+                          "{band} % of the lowest): the gentlest, {v}, is recommended at {cost}",
+                          v=Q(r["value"], quantity, decimals), k=len(tied), low=money_text(cheapest["total_cost"]),
+                          high=money_text(max(rows[i]["total_cost"] for i in tied)), cur=r["currency"],
+                          band=f"{TIE_BAND * 100:g}", cost=money_text(r["total_cost"], r["currency"]))
     reason = Sentence("{choice} (energy {energy} + demurrage {dem}, {t}) among {n} of "
                       "{total} values with no stop-level finding{excluded}{runner}", choice=choice,
-                      energy=f"{r['energy_cost']:.2f}", dem=f"{r['demurrage']:.2f}",
+                      energy=money_text(r["energy_cost"]), dem=money_text(r["demurrage"]),
                       t=Q(r["total_time_s"], "time"), n=len(allowed), total=len(rows),
                       excluded=f"; {excluded} value(s) excluded for stop-level findings" if excluded else "",
                       runner="" if runner is None else Sentence(
-                          "; runner-up {v} at {cost} {cur}", v=Q(rows[runner]["value"], quantity, decimals),
-                          cost=f"{rows[runner]['total_cost']:.2f}", cur=rows[runner]["currency"]))
+                          "; runner-up {v} at {cost}", v=Q(rows[runner]["value"], quantity, decimals),
+                          cost=money_text(rows[runner]["total_cost"], rows[runner]["currency"])))
     return best, runner, reason
 
 

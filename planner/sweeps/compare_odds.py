@@ -21,7 +21,7 @@ import numpy as np
 
 from planner.checks.lever_values import LEVERS, check_values
 from planner.scenario.schema import Scenario
-from planner.scenario.wording import Q, Sentence, join
+from planner.scenario.wording import Q, Sentence, join, money_text
 from planner.sweeps.executors import fan_out
 from planner.sweeps.odds_inputs import SCRAMBLES, sampling_of
 from planner.sweeps.odds_stats import percentile, split
@@ -125,9 +125,9 @@ def recommend_by_odds(rows: list[dict], raw: list[list[dict]], window: float, co
     cost = lambda i: [x["total_cost"] for x in raw[i]]  # noqa: E731
     p50 = lambda values: percentile(values, 0.5)  # noqa: E731
     close = [i for i in reaching if i != best and not _apart(*_paired_error(cost(i), cost(best), p50))]
-    reason = Sentence("{v}: lowest P50 cost {cost} {cur} among the {n} of {total} values that finish in the window "
+    reason = Sentence("{v}: lowest P50 cost {cost} among the {n} of {total} values that finish in the window "
                       "with no stop at least {c} of the time (its chance {p}){close}", v=value(best),
-                      cost=f"{rows[best]['p50_cost']:,.2f}", cur=rows[best]["odds"]["currency"], n=len(reaching),
+                      cost=money_text(rows[best]["p50_cost"], rows[best]["odds"]["currency"]), n=len(reaching),
                       total=len(rows), c=pct(confidence), p=pct(rows[best]["chance"]),
                       close=_close_words(close, value))
     return best, best, reason, close

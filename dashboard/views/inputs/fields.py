@@ -17,6 +17,7 @@ from typing import Callable
 import streamlit as st
 
 from planner.scenario.labels import field_label as _field_label
+from planner.scenario.schema import field_constraints
 
 from dashboard.present.display import display_string, stored_to_si, to_display, with_unit, words
 from dashboard.present.plaintext import escaped
@@ -28,11 +29,13 @@ STEPS = {
     ("time", "SI"): 0.5, ("time", "US"): 0.5, ("power", "SI"): 1.0, ("power", "US"): 1.0,
     ("speed", "SI"): 0.5, ("speed", "US"): 1.0, ("linear_power", "SI"): 1.0, ("linear_power", "US"): 0.5,
     ("rotational_speed", "SI"): 10.0, ("rotational_speed", "US"): 10.0,
+    ("temperature_difference", "SI"): 1.0, ("temperature_difference", "US"): 1.0,
 }
 FORMATS = {"temperature": 1, "pressure": 2, "length": 2, "small_length": 2, "volume_flow": 2, "volume": 1,
            "time": 2, "power": 2, "speed": 2, "linear_power": 1, "rotational_speed": 0, "displacement": 3,
            "dynamic_viscosity": 1, "kinematic_viscosity": 1, "density": 1, "specific_heat": 3, "conductivity": 3,
-           "heat_transfer_coefficient": 2, "linear_conductance": 2, "yield_stress": 1, None: 3}
+           "heat_transfer_coefficient": 2, "linear_conductance": 2, "yield_stress": 1, "temperature_difference": 1,
+           None: 3}
 
 
 # ------------------------------------------------------------------------------------------ paths
@@ -210,6 +213,7 @@ def text(container, problems: Problems, path: str, *, label: str | None = None, 
     raw = get_path(work(), path)
     key = _wkey(path)
     container.text_input(field_label, value="" if raw is None else str(raw), key=key, help=help,
+                         max_chars=field_constraints(path).get("max_length"),   # the schema's limit
                          disabled=locked(), on_change=_commit_value, args=(path, key, optional))
     show_problems(container, problems, path, field_label)
 

@@ -17,7 +17,7 @@ from dashboard.present.display import fit_quality_text, law_parameters_text, wor
 from dashboard.present.plaintext import escaped
 
 from .fields import Problems, _wkey, checkbox, get_path, locked, number, select, show_problems, system, text, work
-from .table_editor import CURVE_COLUMNS, LAB_POINT_COLUMNS, SEGMENT_COLUMNS, _new_segment, table
+from .table_editor import CURVE_COLUMNS, LAB_POINT_COLUMNS, SEGMENT_COLUMNS, _new_segment, ignored_walls, table
 
 OWN_PRODUCT = "(own lab data)"
 
@@ -88,9 +88,11 @@ def route_section(c, problems: Problems) -> None:
     table(c, problems, "route.segments", "Discharge route (pump to destination)", SEGMENT_COLUMNS, _new_segment,
           row_name=lambda item, i: item.get("name") or f"segment {i + 1}",
           help="add a row at the bottom, delete with the row's checkbox")
+    ignored_walls(c, "route.segments", "Discharge route")
     if work().get("suction") is not None:
         table(c, problems, "suction.segments", "Suction route (source to pump)", SEGMENT_COLUMNS, _new_segment,
               row_name=lambda item, i: item.get("name") or f"segment {i + 1}")
+        ignored_walls(c, "suction.segments", "Suction route")
     else:
         c.caption("No suction route: the pump sits at the source outlet.")
     show_problems(c, problems, "route", "Discharge route")
@@ -141,6 +143,9 @@ def pump_section(c, problems: Problems) -> None:
     else:
         number(a, problems, "pump.displacement", "displacement")
         number(b, problems, "pump.slip_flow", "volume_flow")
+        number(b, problems, "pump.slip_reference_pressure", "pressure", help="the differential the slip was measured at")
+        number(b, problems, "pump.slip_reference_viscosity", "dynamic_viscosity",
+               help="the viscosity the slip was measured at; slip scales inversely with viscosity from it")
         number(b, problems, "pump.relief_setting", "pressure")
         number(a, problems, "pump.mechanical_efficiency", None, decimals=2)
     show_problems(c, problems, "pump", "Pump")
@@ -164,6 +169,7 @@ def vessels_section(c, problems: Problems) -> None:
     number(a, problems, "source.volume_to_move", "volume")
     number(a, problems, "source.temperature", "temperature")
     number(a, problems, "source.outlet_height", "length")
+    number(a, problems, "source.pressure", "pressure", help="empty: 0, open to the air")
     number(a, problems, "source.heat_loss_coefficient", "heat_transfer_coefficient")
     number(a, problems, "source.heating_power", "power")
     select(a, problems, "source.heating_medium", field_choices(Vessel, "heating_medium"))
@@ -180,6 +186,9 @@ def vessels_section(c, problems: Problems) -> None:
     number(b, problems, "destination.initial_level", "length")
     number(b, problems, "destination.max_level", "length")
     select(b, problems, "destination.inlet", field_choices(Destination, "inlet"))
+    number(b, problems, "destination.pressure", "pressure", help="empty: 0, an open (atmospheric) tank")
+    number(b, problems, "destination.max_pressure", "pressure",
+           help="a gas pressure above it stops the plan; empty: not checked")
     show_problems(b, problems, "destination", "Destination")
 
 
@@ -195,6 +204,10 @@ def site_section(c, problems: Problems) -> None:
     number(b, problems, "limits.touch_temperature", "temperature")
     number(b, problems, "limits.npsh_margin", "length")
     number(b, problems, "limits.max_velocity", "speed")
+    number(b, problems, "limits.min_velocity", "speed")
+    number(b, problems, "limits.flash_point_margin", "temperature_difference")
+    number(b, problems, "limits.poor_film_coefficient", "heat_transfer_coefficient",
+           help="an inner film coefficient below this in laminar flow is reported as poor heat transfer")
     show_problems(b, problems, "limits", "Limits")
 
 

@@ -13,7 +13,9 @@ import pandas as pd
 import streamlit as st
 
 from planner.correlations.materials import INSULATION_MATERIALS
-from planner.scenario.schema import Segment, Surroundings, field_choices
+from planner.errors import shortened
+from planner.scenario.labels import TABLES
+from planner.scenario.schema import Segment, Surroundings, field_choices, field_constraints
 
 from dashboard.present.display import display_string, stored_to_si, to_display, with_unit, words
 from dashboard.present.plaintext import escaped
@@ -33,6 +35,7 @@ class Col:
     help: str = ""
     format_func: Callable = words   # how a select column shows its options
     field: str = ""                # the scenario field, for messages
+    limits: dict | None = None     # the schema's bounds of a plain number (``field_constraints``)
 
     def heading(self, unit_system: str) -> str:
         return with_unit(self.title, self.kind, unit_system) if self.kind else self.title
@@ -100,6 +103,23 @@ def _commit_table(path: str, key: str, columns: tuple, template: Callable[[list]
     generations[path] = generations.get(path, 0) + 1
 
 
+WIDE_TABLE_COLUMNS = 8       # more columns than a page shows at once: the page says how to reach the rest
+
+
+def wide_table_hint(headings: list[str]) -> str:
+    """The hint over a table wider than the page: how many columns, which ones lie to the right."""
+    return (f"{len(headings)} columns — scroll the table sideways (or widen it with its full-screen button) for "
+            f"the rest, up to {escaped(', '.join(headings[-4:]))}; hover a column title for what it means.")
+
+
+def _text_limit(path: str, field: str) -> int | None:
+    """The schema's most characters of a text column (``field_constraints``), None when it has none."""
+    try:
+        return field_constraints(f"{path}[0].{field}").get("max_length") if field else None
+    except (KeyError, AttributeError):
+        return None
+
+
 def table(container, problems: Problems, path: str, title: str, columns: tuple, template: Callable[[list], dict],
           *, row_name: Callable[[dict, int], str] | None = None, help: str = "") -> None:
     """An editable table of the list at ``path``; problems of its rows are listed under it."""
@@ -128,8 +148,10 @@ def table(container, problems: Problems, path: str, title: str, columns: tuple, 
         heading = col.heading(unit_system)
         if col.kind or col.type == "number":
             frame[heading] = pd.to_numeric(frame[heading], errors="coerce").astype(float)
+            bounds = col.limits or {}
             config[heading] = st.column_config.NumberColumn(heading, help=col.help or None, width="small",
-                                                            format=f"%.{FORMATS.get(col.kind, 3)}f")
+                                                            format=f"%.{FORMATS.get(col.kind, 3)}f",
+                                                            min_value=bounds.get("ge"), max_value=bounds.get("le"))
         elif col.type == "bool":
             frame[heading] = frame[heading].fillna(True).astype(bool)
             config[heading] = st.column_config.CheckboxColumn(heading, help=col.help or None)
@@ -142,11 +164,14 @@ def table(container, problems: Problems, path: str, title: str, columns: tuple, 
             config[heading] = st.column_config.TextColumn(heading, disabled=True, help=col.help or None)
         else:
             frame[heading] = frame[heading].astype(object)
-            config[heading] = st.column_config.TextColumn(heading, help=col.help or None)
+            config[heading] = st.column_config.TextColumn(heading, help=col.help or None,
+                                                          max_chars=_text_limit(path, col.field))
     generation = st.session_state.get("table_gen", {}).get(path, 0)
     key = f"tb{st.session_state.get('gen', 0)}|{unit_system}|{path}|{generation}"
     if title:
         container.markdown(f"**{title}**" + (f" — {help}" if help else ""))
+    if len(columns) > WIDE_TABLE_COLUMNS:
+        container.caption(wide_table_hint(headings))
     container.data_editor(frame, key=key, num_rows="fixed" if locked() else "dynamic", hide_index=True,
                           column_config=config, disabled=locked(), on_change=_commit_table,
                           args=(path, key, columns, template), width="stretch")
@@ -159,7 +184,7 @@ def table(container, problems: Problems, path: str, title: str, columns: tuple, 
             field = match.group(2)
             name = row_name(items[i], i) if row_name and i < len(items) and isinstance(items[i], dict) else f"row {i + 1}"
             field_text = field_titles.get(field.split(".")[0].split("[")[0], field) if field else ""
-            container.error(f"**{title or 'table'}, row {i + 1}** ({escaped(name)})"
+            container.error(f"**{title or 'table'}, row {i + 1}** ({escaped(shortened(name))})"
                             + (f", **{escaped(field_text)}**" if field_text else "")
                             + f": {escaped(message)}  \n{escaped(problem_path)}", icon="⚠️")
         else:
@@ -224,34 +249,62 @@ def _layers_note(item):
     return f"+{len(layers) - 1} more layer(s)" if len(layers) > 1 else ""
 
 
+_SEG = TABLES["route.segments"][1]           # the column titles error messages use (planner/scenario/labels)
+_SEG_LIMITS = {"jacket_emissivity": field_constraints("route.segments[0].jacket_emissivity")}
+WALL_IGNORED = ("a segment given by NPS and schedule takes the schedule's wall: the planner does not use a "
+                "wall thickness given there")
+
 SEGMENT_COLUMNS = (
-    Col("Name", _key_get("name"), _key_put("name"), type="text", field="name"),
-    Col("Kind", lambda i: i.get("kind", "pipe"), _key_put("kind"), type="select", options=field_choices(Segment, "kind"),
-        field="kind"),
-    Col("NPS", lambda i: None if i.get("nps") is None else str(i.get("nps")), _key_put("nps"), type="text", field="nps",
-        help="nominal pipe size, e.g. 4 or 1-1/2; leave empty and give the inside diameter instead"),
-    Col("Schedule", _key_get("schedule"), _key_put("schedule"), type="text", field="schedule", help="e.g. 40, 80, 10S"),
-    Col("Inside diameter", _key_get("inside_diameter"), _key_put("inside_diameter"), kind="small_length",
+    Col(_SEG["name"], _key_get("name"), _key_put("name"), type="text", field="name"),
+    Col(_SEG["kind"], lambda i: i.get("kind", "pipe"), _key_put("kind"), type="select",
+        options=field_choices(Segment, "kind"), field="kind"),
+    Col(_SEG["nps"], lambda i: None if i.get("nps") is None else str(i.get("nps")), _key_put("nps"), type="text",
+        field="nps", help="nominal pipe size, e.g. 4 or 1-1/2; leave empty and give the inside diameter instead"),
+    Col(_SEG["schedule"], _key_get("schedule"), _key_put("schedule"), type="text", field="schedule",
+        help="e.g. 40, 80, 10S"),
+    Col(_SEG["inside_diameter"], _key_get("inside_diameter"), _key_put("inside_diameter"), kind="small_length",
         field="inside_diameter", help="hoses, arms and pipes given by bore (leave NPS empty)"),
-    Col("Length", _key_get("length"), _key_put("length"), kind="length", field="length"),
-    Col("Rise", _key_get("elevation_change"), _key_put("elevation_change"), kind="length", field="elevation_change",
-        help="outlet height minus inlet height (negative: falls)"),
-    Col("Insulation", _insulation_get, _insulation_put, type="select",
+    Col(_SEG["wall_thickness"], _key_get("wall_thickness"), _key_put("wall_thickness"), kind="small_length",
+        field="wall_thickness", help="for a segment given by its inside diameter; empty: the kind's usual wall. "
+                                     + WALL_IGNORED),
+    Col(_SEG["length"], _key_get("length"), _key_put("length"), kind="length", field="length"),
+    Col(_SEG["elevation_change"], _key_get("elevation_change"), _key_put("elevation_change"), kind="length",
+        field="elevation_change", help="outlet height minus inlet height (negative: falls)"),
+    Col(_SEG["insulation"], _insulation_get, _insulation_put, type="select",
         options=tuple(["none"] + sorted(INSULATION_MATERIALS) + ["own conductivity"]), field="insulation"),
     Col("Insulation thickness", _thickness_get, _thickness_put, kind="small_length", field="insulation"),
-    Col("Traced", lambda i: i.get("traced", True), _key_put("traced"), type="bool", field="traced"),
-    Col("Untraced gaps", _key_get("untraced_length"), _key_put("untraced_length"), kind="length", field="untraced_length",
-        help="flanges, valves and supports left without tracing"),
-    Col("Rating", _key_get("pressure_rating"), _key_put("pressure_rating"), kind="pressure", field="pressure_rating",
-        help="MAWP of the pipe, hose or arm (gauge); hoses and arms need one"),
-    Col("Flange class", _key_get("flange_class"), _key_put("flange_class"), type="select",
+    Col(_SEG["jacket_emissivity"], _key_get("jacket_emissivity"), _key_put("jacket_emissivity"),
+        field="jacket_emissivity", limits=_SEG_LIMITS["jacket_emissivity"],
+        help=f"of the outer surface (bare steel or jacket); empty: {Segment.model_fields['jacket_emissivity'].default:g}"),
+    Col(_SEG["traced"], lambda i: i.get("traced", True), _key_put("traced"), type="bool", field="traced"),
+    Col(_SEG["untraced_length"], _key_get("untraced_length"), _key_put("untraced_length"), kind="length",
+        field="untraced_length", help="flanges, valves and supports left without tracing"),
+    Col(_SEG["pressure_rating"], _key_get("pressure_rating"), _key_put("pressure_rating"), kind="pressure",
+        field="pressure_rating", help="MAWP of the pipe, hose or arm (gauge); hoses and arms need one"),
+    Col(_SEG["flange_class"], _key_get("flange_class"), _key_put("flange_class"), type="select",
         options=field_choices(Segment, "flange_class"), field="flange_class", help="ASME B16.5 class; empty: none",
         format_func=lambda c: f"class {c}"),
-    Col("Location", _location_get, _location_put, type="select", options=field_choices(Surroundings, "location"),
-        field="surroundings"),
-    Col("Fittings", _fittings_text, None, type="readonly", field="fittings", help="edit fittings in the scenario file"),
+    Col(_SEG["hazardous_area_class"], _key_get("hazardous_area_class"), _key_put("hazardous_area_class"),
+        type="select", options=field_choices(Segment, "hazardous_area_class"), field="hazardous_area_class",
+        help="hazardous-area temperature class (IEC 60079-0) where the segment runs; the heater and jacket "
+             "temperatures are checked against it; empty: not a hazardous area", format_func=str),
+    Col(_SEG["surroundings"], _location_get, _location_put, type="select",
+        options=field_choices(Surroundings, "location"), field="surroundings"),
+    Col(_SEG["fittings"], _fittings_text, None, type="readonly", field="fittings",
+        help="edit fittings in the scenario file"),
     Col("More layers", _layers_note, None, type="readonly"),
 )
+
+
+def ignored_walls(container, path: str, title: str) -> None:
+    """Say which rows give a wall thickness the planner does not use (``planner/line/route._diameters``: an
+    NPS segment takes its schedule's wall), rather than show it as if it counted."""
+    items = get_path(work(), path) or []
+    rows = [f"row {i + 1} ({escaped(shortened(item.get('name') or ''))})" for i, item in enumerate(items)
+            if isinstance(item, dict) and item.get("nps") is not None and item.get("wall_thickness") is not None]
+    if rows:
+        container.warning(f"**{title}**, {', '.join(rows)}: {WALL_IGNORED}. Clear the wall thickness there, "
+                          "or give the segment by its inside diameter to use it.", icon="ℹ️")
 
 
 def _new_segment(items: list) -> dict:
