@@ -14,6 +14,7 @@ from streamlit.testing.v1 import AppTest
 
 from apptest_inputs import editor_with_column, number_field, open_section
 from conftest import ROOT
+from planner.errors import ScenarioError
 from planner.scenario.schema import load_scenario, scenario_from_dict, scenario_to_dict
 
 APP = str(ROOT / "dashboard" / "app.py")
@@ -70,27 +71,26 @@ def test_temperature_class_wall_and_emissivity_are_seen_and_edited_in_the_route_
     assert "Tracer too hot for the hazardous area" in texts and "T4" in texts
 
 
-def test_a_wall_thickness_the_planner_ignores_is_said_to_be_ignored():
-    """``line/route._diameters``: an NPS segment takes its schedule's wall (ASME B36.10); a wall given there is
-    not used, so the page says so rather than show it as if it counted."""
+def test_a_wall_thickness_on_an_nps_segment_is_refused_by_name():
+    """An NPS segment takes its schedule's wall (ASME B36.10 via ``line/route._diameters``): a wall thickness
+    given there would not count, so the scenario refuses it, naming the field and the row, in the CLI's
+    loader and on the page, rather than show it as if it counted."""
+    scenario = load_scenario(BARGE)
+    assert scenario.route.segments[1].nps is not None
+    arm = scenario.route.segments[0]
     from planner.line.route import _diameters
 
-    scenario = load_scenario(BARGE)
-    manifold = scenario.route.segments[1]
-    assert manifold.nps is not None
-    thick = manifold.model_copy(update={"wall_thickness": 0.020})
-    assert _diameters(thick) == _diameters(manifold)                         # ignored on an NPS segment
-    arm = scenario.route.segments[0]
     assert _diameters(arm.model_copy(update={"wall_thickness": 0.020}))[1] == pytest.approx(arm.inside_diameter + 0.040)
     work = scenario_to_dict(scenario)
-    at = _page("SI", work=copy.deepcopy(work))
-    open_section(at, "Route")
-    assert not [w for w in at.warning if "does not use a wall thickness" in w.value]
     work["route"]["segments"][1]["wall_thickness"] = "20 mm"
+    with pytest.raises(ScenarioError) as caught:
+        scenario_from_dict(copy.deepcopy(work))
+    text = str(caught.value)
+    assert "route.segments[1]" in text and "wall_thickness" in text and "schedule" in text
     at = _page("SI", work=work)
     at = open_section(at, "Route")
-    [note] = [w.value for w in at.warning if "does not use a wall thickness" in w.value]
-    assert "row 2 (Jetty head manifold)" in note and "Loading arm" not in note
+    shown = " ".join(box.value for box in [*at.error, *at.warning]).replace("\\", "")   # markdown escapes
+    assert "row 2" in shown and "wall_thickness: the schedule sets the wall" in shown, shown
 
 
 @pytest.mark.parametrize("units", ["SI", "US"])

@@ -88,6 +88,9 @@ class Segment(_Model):
         if self.nps is not None:
             if self.inside_diameter is not None:
                 raise ValueError("give either nps with schedule, or inside_diameter, not both")
+            if self.wall_thickness is not None:
+                raise ValueError("wall_thickness: the schedule sets the wall of an nps segment; for another wall "
+                                 "give inside_diameter and wall_thickness instead of nps")
             try:
                 pipe_size(self.nps, self.schedule or "40")
             except ValueError as exc:

@@ -17,7 +17,7 @@ from dashboard.present.display import fit_quality_text, law_parameters_text, wor
 from dashboard.present.plaintext import escaped
 
 from .fields import Problems, _wkey, checkbox, get_path, locked, number, select, show_problems, system, text, work
-from .table_editor import CURVE_COLUMNS, LAB_POINT_COLUMNS, SEGMENT_COLUMNS, _new_segment, ignored_walls, table
+from .table_editor import CURVE_COLUMNS, LAB_POINT_COLUMNS, SEGMENT_COLUMNS, _new_segment, table
 
 OWN_PRODUCT = "(own lab data)"
 
@@ -88,11 +88,9 @@ def route_section(c, problems: Problems) -> None:
     table(c, problems, "route.segments", "Discharge route (pump to destination)", SEGMENT_COLUMNS, _new_segment,
           row_name=lambda item, i: item.get("name") or f"segment {i + 1}",
           help="add a row at the bottom, delete with the row's checkbox")
-    ignored_walls(c, "route.segments", "Discharge route")
     if work().get("suction") is not None:
         table(c, problems, "suction.segments", "Suction route (source to pump)", SEGMENT_COLUMNS, _new_segment,
               row_name=lambda item, i: item.get("name") or f"segment {i + 1}")
-        ignored_walls(c, "suction.segments", "Suction route")
     else:
         c.caption("No suction route: the pump sits at the source outlet.")
     show_problems(c, problems, "route", "Discharge route")

@@ -251,8 +251,6 @@ def _layers_note(item):
 
 _SEG = TABLES["route.segments"][1]           # the column titles error messages use (planner/scenario/labels)
 _SEG_LIMITS = {"jacket_emissivity": field_constraints("route.segments[0].jacket_emissivity")}
-WALL_IGNORED = ("a segment given by NPS and schedule takes the schedule's wall: the planner does not use a "
-                "wall thickness given there")
 
 SEGMENT_COLUMNS = (
     Col(_SEG["name"], _key_get("name"), _key_put("name"), type="text", field="name"),
@@ -265,8 +263,8 @@ SEGMENT_COLUMNS = (
     Col(_SEG["inside_diameter"], _key_get("inside_diameter"), _key_put("inside_diameter"), kind="small_length",
         field="inside_diameter", help="hoses, arms and pipes given by bore (leave NPS empty)"),
     Col(_SEG["wall_thickness"], _key_get("wall_thickness"), _key_put("wall_thickness"), kind="small_length",
-        field="wall_thickness", help="for a segment given by its inside diameter; empty: the kind's usual wall. "
-                                     + WALL_IGNORED),
+        field="wall_thickness", help="only for a segment given by its inside diameter (an NPS segment takes its "
+                                     "schedule's wall); empty: the kind's usual wall"),
     Col(_SEG["length"], _key_get("length"), _key_put("length"), kind="length", field="length"),
     Col(_SEG["elevation_change"], _key_get("elevation_change"), _key_put("elevation_change"), kind="length",
         field="elevation_change", help="outlet height minus inlet height (negative: falls)"),
@@ -294,17 +292,6 @@ SEGMENT_COLUMNS = (
         help="edit fittings in the scenario file"),
     Col("More layers", _layers_note, None, type="readonly"),
 )
-
-
-def ignored_walls(container, path: str, title: str) -> None:
-    """Say which rows give a wall thickness the planner does not use (``planner/line/route._diameters``: an
-    NPS segment takes its schedule's wall), rather than show it as if it counted."""
-    items = get_path(work(), path) or []
-    rows = [f"row {i + 1} ({escaped(shortened(item.get('name') or ''))})" for i, item in enumerate(items)
-            if isinstance(item, dict) and item.get("nps") is not None and item.get("wall_thickness") is not None]
-    if rows:
-        container.warning(f"**{title}**, {', '.join(rows)}: {WALL_IGNORED}. Clear the wall thickness there, "
-                          "or give the segment by its inside diameter to use it.", icon="ℹ️")
 
 
 def _new_segment(items: list) -> dict:
