@@ -29,6 +29,7 @@ from planner.line.products import Product
 from planner.scenario.schema import ProductSpec, Scenario, problems_from
 
 from dashboard.compute.record import PlanResults
+from dashboard.compute.line_extras import prewarm_suction, pump_chart_data, suction_profiles
 
 def segment_table(segments) -> list[dict]:
     return [{
@@ -170,6 +171,7 @@ def plan_results(scenario: Scenario) -> PlanResults:
         destination_max_level=scenario.destination.max_level if scenario.destination else None,
         tracing_kind=scenario.tracing.kind, setpoint=scenario.tracing.setpoint,
         steam_pressure=scenario.tracing.steam_pressure,
+        suction_profiles=suction_profiles(plan), prewarm_suction=prewarm_suction(plan), pump_chart=pump_chart_data(plan),
     )
 
 
