@@ -23,7 +23,7 @@ from planner.correlations.constants import GRAVITY
 from planner.transfer.operating import SystemState
 from planner.transfer.pump_centrifugal import CentrifugalPump
 
-CURVE_SEGMENTS = 48         # even steps along the water curve, shut-off to its last point
+CURVE_SEGMENTS = 48         # even steps along the water curve, shut-off to its last point (and the user's points)
 SYSTEM_POINTS = 24          # flows at which the system curve is worked out
 LOWEST_FLOW_FRACTION = 0.02  # the system curve starts at this share of the pump's largest flow
 
@@ -75,7 +75,8 @@ def _centrifugal(plan, system, state: SystemState) -> PumpChart:
     pump: CentrifugalPump = system.pump
     product = system.product
     rho = product.density(state.source_temperature)
-    flows = tuple(pump.flows_m3_s[-1] * i / CURVE_SEGMENTS for i in range(CURVE_SEGMENTS + 1))
+    flows = tuple(sorted({pump.flows_m3_s[-1] * i / CURVE_SEGMENTS for i in range(CURVE_SEGMENTS + 1)}
+                         | set(pump.flows_m3_s)))       # the user's points among even steps
     water = Curve(flows, tuple(pump.water_head(q) for q in flows))
     nu = product.kinematic_viscosity(_pump_inlet_temperature(plan, state))
     viscous = pump.viscous_curve(nu)
