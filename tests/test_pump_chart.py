@@ -92,3 +92,17 @@ def test_pd_slip_line_by_hand():
     assert chart.operating_value == pytest.approx(plan.start.point.pump_differential)
     assert np.interp(chart.operating_value, chart.corrected.value, chart.corrected.flow_m3_s) == \
         pytest.approx(chart.operating_flow_m3_s, rel=1e-3)
+
+
+def test_beyond_ansi_hi_967_no_curve_and_no_point():
+    """Viscosity x 14 (a [calibration]-style factor): B = 12.6 x sqrt(14) = 47 by the square-root law of B in
+    nu (ANSI/HI 9.6.7), above the method's 40: neither the corrected curve nor the point is given."""
+    scenario = load_scenario(POLYOL)
+    base = pump_chart(make_plan(scenario))
+    plan = make_plan(scenario, viscosity_factor=14.0)
+    chart = pump_chart(plan)
+    assert not plan.start.hi_in_range
+    assert chart.hi_b >= 40.0 and chart.hi_b == pytest.approx(base.hi_b * math.sqrt(14.0), rel=0.01)
+    assert chart.corrected is None and chart.operating_flow_m3_s is None and chart.operating_value is None
+    assert "beyond the range of ANSI/HI 9.6.7" in chart.note
+    assert chart.water.value[0] == pytest.approx(52.0)                  # the water curve is still the data

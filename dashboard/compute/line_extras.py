@@ -15,6 +15,7 @@ from dataclasses import asdict
 
 import numpy as np
 
+from planner.errors import PlannerError
 from planner.line.march import MarchResult
 from planner.transfer.pump_chart import pump_chart
 
@@ -56,6 +57,10 @@ def prewarm_suction(plan) -> list[dict]:
 
 
 def pump_chart_data(plan) -> dict | None:
-    """The pump chart at the start (SI) as plain data, or None."""
-    chart = pump_chart(plan)
+    """The pump chart at the start (SI) as plain data, None without a system, or ``{"error": why}`` when the
+    system curve cannot be worked out (the rest of the plan's results stand)."""
+    try:
+        chart = pump_chart(plan)
+    except (PlannerError, ValueError) as exc:
+        return {"error": f"the pump chart cannot be drawn: {exc}"}
     return None if chart is None else asdict(chart)

@@ -59,7 +59,8 @@ def pump_caption(chart: dict) -> str:
                 "planner solves the start on). The system curve is the head the lines and vessels need at each flow "
                 "at the start (gaps: the product sets).")
         if chart["corrected"] is None:
-            text += " The product's curve is not drawn: " + (chart.get("note") or "beyond ANSI/HI 9.6.7") + "."
+            text += (" Neither the product's curve nor the operating point is drawn: "
+                     + (chart.get("note") or "beyond ANSI/HI 9.6.7") + ".")
         return text
     return ("A rotary positive-displacement pump: displacement × speed, less the slip that grows with the "
             "differential pressure and falls with the product's viscosity at the pump inlet. The system curve is "

@@ -10,8 +10,9 @@ displacement times the speed (no slip), the delivered flow at the product's visc
 and the operating point.
 
 Nothing here is a new model: every number is the planner's own pump and system at the start's state.
-Where the corrected curve lies beyond ANSI/HI 9.6.7 (B at or above ``HI_B_MAX``) it is not drawn
-(``corrected`` is None and ``note`` says why): a figure beyond its method is no result.
+Where the corrected curve lies beyond ANSI/HI 9.6.7 (B at or above ``HI_B_MAX``) neither it nor the
+operating point solved on it is given (``corrected`` and the point are None, ``note`` says why): a figure
+beyond its method is no result.
 """
 
 from __future__ import annotations
@@ -85,7 +86,8 @@ def _centrifugal(plan, system, state: SystemState) -> PumpChart:
         corrected, note = None, viscous.correction.note
     q_top = max(water.flow_m3_s[-1], plan.start.flow if plan.start.moving else 0.0)
     system_curve = _system_curve(system, state, q_top, lambda dp: dp / (rho * GRAVITY))
-    moving = plan.start.moving and plan.start.pump_head is not None
+    # beyond the method neither the corrected curve nor the point solved on it is a result
+    moving = plan.start.moving and plan.start.pump_head is not None and corrected is not None
     return PumpChart("centrifugal", "head", water, corrected, system_curve,
                      plan.start.flow if moving else None, plan.start.pump_head if moving else None,
                      nu, viscous.correction.b, None, note)
