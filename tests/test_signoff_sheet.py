@@ -16,6 +16,7 @@ from streamlit.testing.v1 import AppTest
 from conftest import ROOT, make_people
 from dashboard.compute.results import plan_results
 from dashboard.present.signoff import SavedPart, build_signoff_html
+from dashboard.views.signoff import sheet_maker
 from planner.checks.findings import assess
 from planner.records.store import PlanStore
 from planner.reports.key_figures import figure_text
@@ -116,3 +117,13 @@ def test_the_review_view_offers_the_sheet_of_the_open_revision(reviewed, monkeyp
     assert not at.exception, at.exception
     buttons = [b for b in at.get("download_button") if "Sign-off sheet" in b.proto.label]
     assert buttons, "no sign-off sheet button in the Review view"
+
+
+def test_the_views_sheet_is_the_open_revisions(reviewed):
+    """What the Review view's button makes (``views/signoff.sheet_maker``) with the real store."""
+    _, store, scenario, results, saved = reviewed
+    page = sheet_maker(scenario, results, "SI", saved.revision, saved.trail, store)()
+    text = " ".join(_text(page).split())
+    assert store.verify().head in text and "Revision 1 of plan id" in text and "approved" in text
+    assert "Transfer time " + figure_rows(saved.revision.results["uncertainty"], "SI")[0]["p10"] in text
+    assert "Not a saved revision" in " ".join(_text(sheet_maker(scenario, results, "SI")()).split())
