@@ -127,3 +127,19 @@ def test_the_views_sheet_is_the_open_revisions(reviewed):
     assert store.verify().head in text and "Revision 1 of plan id" in text and "approved" in text
     assert "Transfer time " + figure_rows(saved.revision.results["uncertainty"], "SI")[0]["p10"] in text
     assert "Not a saved revision" in " ".join(_text(sheet_maker(scenario, results, "SI")()).split())
+
+
+@pytest.mark.skipif(not CHROMIUM.exists(), reason="no /usr/bin/chromium")
+def test_a_long_trail_keeps_the_latest_steps_on_one_page(reviewed, tmp_path):
+    """Ten review steps (the revision's two, five times over): the latest eight are listed, two counted."""
+    _, _, scenario, results, saved = reviewed
+    long = SavedPart(saved.revision, list(saved.trail) * 5, saved.chain_head, saved.history_problems)
+    page = build_signoff_html(scenario, results, "SI", long)
+    assert "2 earlier review steps are in the Review view" in _text(page)
+    assert _text(page).count("checked against the P-31 curve") == 4      # 8 rows, every other one the approval
+    sheet = tmp_path / "sheet.html"
+    sheet.write_text(page, encoding="utf-8")
+    pdf = tmp_path / "sheet.pdf"
+    subprocess.run([str(CHROMIUM), "--headless", "--no-sandbox", "--disable-gpu", "--no-pdf-header-footer",
+                    f"--print-to-pdf={pdf}", sheet.as_uri()], check=True, capture_output=True, timeout=120)
+    assert _pdf_pages(pdf.read_bytes()) == 1

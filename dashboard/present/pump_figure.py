@@ -6,7 +6,7 @@ from __future__ import annotations
 
 import plotly.graph_objects as go
 
-from .display import convert_array, fmt, general_number, label, to_display, with_unit
+from .display import convert_array, fmt, general_number, to_display, with_unit
 from .figures import COLOURS, _layout
 
 PUMP_COLOURS = {"water": "#5dade2", "corrected": COLOURS["viscosity"], "system": COLOURS["pressure"],
@@ -37,7 +37,7 @@ def pump_figure(chart: dict, system: str) -> go.Figure:
         if chart.get("relief_pa"):
             relief = to_display(chart["relief_pa"], "pressure", system)
             fig.add_hline(y=relief, line=dict(color=PUMP_COLOURS["relief"], dash="dot"),
-                          annotation_text=f"relief setting {relief:.1f} {label('pressure', system)}",
+                          annotation_text=f"relief setting {fmt(chart['relief_pa'], 'pressure', system)}",
                           annotation_position="top left")
     _trace(fig, chart["system"], quantity, system, "system at the start", PUMP_COLOURS["system"])
     if chart.get("operating_flow_m3_s") is not None and chart.get("operating_value") is not None:

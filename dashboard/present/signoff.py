@@ -31,6 +31,7 @@ from .report import _inputs_frame
 from .saved import STATE_WORDS, trail_frame, when_text
 
 WORST_SHOWN = 6          # findings listed on the sheet, most severe first (the rest counted)
+TRAIL_SHOWN = 8          # review steps listed, the latest (the earlier ones counted): the sheet stays one page
 
 SHEET_CSS = """
 @page { size: A4; margin: 10mm; }
@@ -113,19 +114,31 @@ def range_html(saved: SavedPart | None, system: str) -> str:
     return text
 
 
+def _trail_html(saved: SavedPart | None) -> str:
+    """The review trail, the latest ``TRAIL_SHOWN`` steps (the earlier ones counted)."""
+    if saved is None:
+        return "<p class=\"meta\">No review trail: not a saved revision.</p>"
+    steps = list(saved.trail)
+    trail = _table(trail_frame(steps[-TRAIL_SHOWN:])) if steps else "<p class=\"meta\">No review steps yet.</p>"
+    if len(steps) > TRAIL_SHOWN:
+        trail = (f"<p class=\"meta\">{len(steps) - TRAIL_SHOWN} earlier review steps are in the Review view; the "
+                 f"latest {TRAIL_SHOWN}:</p>") + trail
+    return trail
+
+
 def _saved_html(saved: SavedPart | None) -> str:
+    """The revision, its content hash, the chain head and the history check."""
     if saved is None:
         return ("<p><b>Not a saved revision.</b> The inputs on screen are not those of a saved revision: there is no "
                 "review trail or history entry to sign against. Save the plan and submit it for review first.</p>")
     r = saved.revision
-    trail = _table(trail_frame(saved.trail)) if saved.trail else "<p class=\"meta\">No review steps yet.</p>"
     check = ("this revision and its review trail match the recorded history" if not saved.history_problems else
              "DOES NOT MATCH the recorded history: " + "; ".join(saved.history_problems))
     head = saved.chain_head or "not available"
     return (f"<p>Revision {r.number} of plan id {r.plan_id} — <b>{html.escape(STATE_WORDS.get(r.state, r.state))}</b>; "
             f"saved by {html.escape(r.author)} at {html.escape(when_text(r.created_at))}; content hash "
-            f"<span class=\"chain\">{html.escape(r.content_hash)}</span></p>{trail}"
-            f"<p>Chain head of the recorded history: <span class=\"chain\">{html.escape(head)}</span><br>"
+            f"<span class=\"chain\">{html.escape(r.content_hash)}</span><br>"
+            f"Chain head of the recorded history: <span class=\"chain\">{html.escape(head)}</span><br>"
             f"<span class=\"meta\">History check: {html.escape(check)}. Keep the chain head apart from the database "
             f"and compare it with <code>python -m planner plans verify</code>.</span></p>")
 
@@ -147,11 +160,12 @@ def build_signoff_html(scenario: Scenario, results: PlanResults, system: str = "
 <div class="cols"><div>
 <h2>Key figures</h2>{_figures_table(results, system)}
 <h2>Range of the odds</h2>{range_html(saved, system)}
+<h2>Review trail</h2>{_trail_html(saved)}
 </div><div>
 <h2>Worst findings</h2>{_worst_findings(results, system)}
 <h2>Inputs that matter</h2>{_table(_inputs_frame(scenario, system))}
 </div></div>
-<h2>Review trail and recorded history</h2>{_saved_html(saved)}
+<h2>Revision and recorded history</h2>{_saved_html(saved)}
 <div class="caution"><b>Caution.</b> {html.escape(caution_text(system, results.touch_limit_k))}</div>
 <div class="sign"><div>Reviewed by (name, role)</div><div>Signature</div><div>Date</div></div>
 """
