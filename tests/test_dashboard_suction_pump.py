@@ -86,3 +86,13 @@ def test_centrifugal_pump_chart_draws_water_and_corrected_curves():
     corrected = spec["data"][1]
     assert _values(corrected["y"]) == pytest.approx(np.array(chart.corrected.value), rel=1e-9)   # head in m
     assert _values(corrected["x"]) == pytest.approx(np.array(chart.corrected.flow_m3_s) * 3600.0, rel=1e-9)
+
+
+def test_the_report_carries_both_charts():
+    from dashboard.compute.results import plan_results
+    from dashboard.present.report import build_report_html
+
+    scenario = load_scenario(SYRUP)
+    page = build_report_html(scenario, plan_results(scenario), "US")
+    assert "Along the suction line (source outlet to pump inlet)" in page
+    assert "Pump and system at the start" in page and "Pump differential pressure [psi]" in page
