@@ -46,6 +46,7 @@ KEYS = {
     "auth_msg": "(kind, text) of the last sign-in or account step",
     # results kept for the session
     "comparison": "{json, result} of the last comparison run",
+    "cmp_used_msg": "what the last 'Use this value' set, said once (views/compare_pick)",
     "envelope": "{json, result} of the last operating envelope",
     "cal_msg": "(kind, text) of the last calibration step",
     "cal_demo_log": "the demo log chosen in the Calibration view instead of an upload",

@@ -33,6 +33,9 @@ class PlanResults:
     tracing_kind: str
     setpoint: float | None
     steam_pressure: float | None
+    suction_profiles: dict = field(default_factory=dict)   # compute/line_extras: the suction line's moments
+    prewarm_suction: list = field(default_factory=list)    # the pre-warm's suction segments (lumped)
+    pump_chart: dict | None = None                         # planner.transfer.pump_chart at the start (SI)
 
 
 @dataclass(frozen=True)

@@ -29,6 +29,8 @@ from planner.line.products import Product
 from planner.scenario.schema import ProductSpec, Scenario, problems_from
 
 from dashboard.compute.record import PlanResults
+from dashboard.compute.kinematic import at_temperature, lab_kinematic, step_kinematic
+from dashboard.compute.line_extras import prewarm_suction, pump_chart_data, suction_profiles
 
 def segment_table(segments) -> list[dict]:
     return [{
@@ -126,7 +128,8 @@ def product_curve(spec: ProductSpec, points: int = 121, product: Product | None 
         "t_max": finite_or_none(fit.t_max),
         "n_points": fit.n_points, "temperature": temps, "viscosity": np.asarray(values),
         "viscosity_factor": factor, "viscosity_as_fitted": None if as_fitted is None else np.asarray(as_fitted),
-        "lab_temperature": lab_t, "lab_viscosity": lab_mu,
+        "lab_temperature": lab_t, "lab_viscosity": lab_mu, "lab_kinematic": lab_kinematic(spec, product),
+        "kinematic_viscosity": np.asarray(_curve(product.kinematic_viscosity, temps)),
         "no_flow_temperature": spec.no_flow_temperature, "max_temperature": spec.max_temperature,
         "newtonian": spec.rheology == "newtonian", "rheology": spec.rheology, "illustrative": spec.illustrative,
         "density_at_20c": product.density(293.15), "specific_heat_at_20c": product.specific_heat(293.15),
@@ -159,17 +162,21 @@ def plan_results(scenario: Scenario) -> PlanResults:
     profile = profile_arrays(plan)
     if profile is not None:
         profile["rating"] = node_ratings(discharge, profile["nodes"])
+        profile["steps"]["kinematic_viscosity"] = step_kinematic(profile["nodes"], profile["steps"], transfer.product.density)
     rating = outlet_rating(plan)
+    product = product_curve(scenario.product, product=transfer.product)
+    product["at_pump_inlet"] = at_temperature(transfer.product, doc["start"].get("pump_inlet_temperature_k"))
     return PlanResults(
         scenario_name=scenario.name, plan=doc, key_figures=key_figures(plan), saved=saved_figures(plan, found),
         profile=profile, outlet_rating={"value": rating.value, "where": rating.where},
         touch_limit_k=scenario.limits.touch_temperature,
         segments=segment_table(discharge), suction_segments=segment_table(suction),
         push_cold_rows=_plain(plan.push_cold.rows or {}), findings=findings, findings_note=findings_note,
-        product=product_curve(scenario.product, product=transfer.product),
+        product=product,
         destination_max_level=scenario.destination.max_level if scenario.destination else None,
         tracing_kind=scenario.tracing.kind, setpoint=scenario.tracing.setpoint,
         steam_pressure=scenario.tracing.steam_pressure,
+        suction_profiles=suction_profiles(plan), prewarm_suction=prewarm_suction(plan), pump_chart=pump_chart_data(plan),
     )
 
 

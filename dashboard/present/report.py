@@ -27,6 +27,8 @@ from planner.scenario.wording import render
 from dashboard.compute.record import PlanResults
 
 from . import figures, tables
+from .pump_figure import pump_figure
+from .suction_figure import suction_figure
 from .display import SYSTEM_NAMES, caution_text, fmt, words
 
 CSS = """
@@ -141,6 +143,11 @@ def build_report_html(scenario: Scenario, results: PlanResults, system: str = "S
     if results.profile is not None:
         charts.append(_figure_html(figures.line_figure(results.profile, results.segments, system,
                                                        touch_limit_k=results.touch_limit_k)))
+    if results.suction_profiles:
+        charts.append(_figure_html(suction_figure(results.suction_profiles, results.suction_segments, system,
+                                                  no_flow_k=results.product.get("no_flow_temperature"))))
+    if results.pump_chart is not None and "error" not in results.pump_chart:
+        charts.append(_figure_html(pump_figure(results.pump_chart, system)))
     charts.append(_figure_html(figures.timeline_figure(plan, system, results.destination_max_level)))
     rows = results.push_cold_rows or {}
     if rows.get("time_s"):

@@ -49,6 +49,7 @@ PUSH_COLD_COLUMNS = [
 
 STEP_COLUMNS = [
     ("viscosity", "Viscosity", "dynamic_viscosity"),
+    ("kinematic_viscosity", "Kinematic viscosity", "kinematic_viscosity"),
     ("reynolds", "Reynolds number", None),
     ("wall_temperature", "Wall temperature", "temperature"),
     ("jacket_temperature", "Jacket temperature", "temperature"),

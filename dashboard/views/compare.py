@@ -19,6 +19,7 @@ from dashboard.present.display import fmt, label
 from dashboard.present.plaintext import escaped
 
 from .compare_inputs import sensitivity_controls, values_text
+from .compare_pick import mark_current, use_value_controls, used_message
 from .page import Page
 
 NEEDS_RESULTS = False
@@ -104,13 +105,13 @@ def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_s
     else:
         if saved["json"] != scenario_json:
             st.warning("The inputs have changed since this comparison: press Compare to run it again.")
-        comparison_result(saved["result"], unit_system)
+        comparison_result(saved["result"], unit_system, scenario)
     from .envelope import envelope_section
 
     envelope_section(scenario, scenario_json, unit_system, lever, kind, text)
 
 
-def comparison_result(result: dict, unit_system: str) -> None:
+def comparison_result(result: dict, unit_system: str, scenario: Scenario | None = None) -> None:
     """A finished comparison: the recommendation, the table, the charts and the sensitivity."""
     if "error" in result:
         st.error(escaped(result["error"]))
@@ -123,7 +124,8 @@ def comparison_result(result: dict, unit_system: str) -> None:
         st.error(escaped(render(result["reason"], unit_system) or "no value can be recommended"))
     if result.get("end_of_range"):
         st.info(escaped(render(result["end_of_range"], unit_system)))
-    frame = tables.comparison_frame(result, kind, unit_system)
+    used_message()
+    frame = mark_current(tables.comparison_frame(result, kind, unit_system), result, scenario)
     errors = [r.get("error", "") for r in result["rows"]]
     if any(errors):
         frame["Note"] = errors
@@ -135,6 +137,7 @@ def comparison_result(result: dict, unit_system: str) -> None:
 
     st.dataframe(frame.style.apply(highlight, axis=1).format(precision=2, thousands=",", na_rep="—"),
                  hide_index=True, width="stretch")
+    use_value_controls(result, scenario, unit_system)
     st.plotly_chart(figures.comparison_figure(result, kind, unit_system), key="comparison_chart")
     if result.get("sensitivity"):
         st.markdown("#### Sensitivity")

@@ -8,6 +8,7 @@ from dashboard.present import figures, tables
 
 from .common import data_table
 from .page import Page
+from .suction import draw_suction
 
 
 NEEDS_RESULTS = True
@@ -27,3 +28,4 @@ def draw(page: Page) -> None:
     data_table(tables.segments_frame(results.segments, unit_system), 2)
     with st.expander("Profile table (step ends and mid-steps)"):
         data_table(tables.profile_frame(profile, results.segments, unit_system))
+    draw_suction(page)

@@ -9,7 +9,9 @@ from dashboard.present import tables
 import pandas as pd
 
 from dashboard.present.display import fmt
-from dashboard.present.plaintext import escaped_table
+from dashboard.present.plaintext import escaped, escaped_table
+from planner.scenario.wording import render
+from dashboard.present.pump_figure import pump_caption, pump_figure
 
 from .common import findings_block, status_line
 from .page import Page
@@ -41,3 +43,9 @@ def draw(page: Page) -> None:
         ("Relief recirculation", fmt(start.get("relief_flow_m3_s"), "volume_flow", unit_system)),
     ]
     right.table(escaped_table(pd.DataFrame(rows, columns=["Item", "Value"])), hide_index=True)
+    chart = results.pump_chart
+    if chart is not None and "error" in chart:
+        st.info(escaped(render(chart["error"], unit_system)))
+    elif chart is not None:
+        st.plotly_chart(pump_figure(chart, unit_system), key="pump_chart")
+        st.caption(escaped(pump_caption(chart)))

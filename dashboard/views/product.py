@@ -40,12 +40,19 @@ def draw(page: Page) -> None:
         (f"Thermal conductivity at {at_20c}", fmt(curve["conductivity_at_20c"], "conductivity", unit_system)),
         ("Rheology", words(curve["rheology"])),
     ]
+    inlet = curve.get("at_pump_inlet")
+    if inlet is not None:
+        rows.insert(5, (f"Viscosity at the pump inlet at the start ({fmt(inlet['temperature_k'], 'temperature', unit_system)})",
+                        f"{fmt(inlet['viscosity_pa_s'], 'dynamic_viscosity', unit_system)} · "
+                        f"{fmt(inlet['kinematic_m2_s'], 'kinematic_viscosity', unit_system)}"))
     st.table(escaped_table(pd.DataFrame(rows, columns=["Item", "Value"])), hide_index=True)
     points = pd.DataFrame({
         with_unit("Temperature", "temperature", unit_system):
             [to_display(t, "temperature", unit_system) for t in curve["lab_temperature"]],
         with_unit("Viscosity", "dynamic_viscosity", unit_system):
             [to_display(v, "dynamic_viscosity", unit_system) for v in curve["lab_viscosity"]],
+        with_unit("Kinematic viscosity", "kinematic_viscosity", unit_system):
+            [to_display(v, "kinematic_viscosity", unit_system) for v in curve.get("lab_kinematic") or []],
     })
     st.markdown("#### Lab points (edit them under Inputs → Product)")
     data_table(points, 2)

@@ -17,6 +17,7 @@ from dashboard.services.store import store
 
 from .common import findings_block
 from .page import Page
+from .signoff import signoff_section
 
 NEEDS_RESULTS = False
 
@@ -219,6 +220,8 @@ def review_view(set_work, unit_system: str, page: Page | None = None) -> None:
     st.caption("Saved plans and the supervisor's sign-off. Approval is the supervisor's judgement under the "
                "site's procedures; the planner gives planning estimates.")
     show_msg(st, "review_msg")
+    if page is not None:
+        signoff_section(page)
     try:
         _open_panel(set_work, unit_system, page)
         _browse_panel(set_work, unit_system)

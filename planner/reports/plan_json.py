@@ -48,10 +48,16 @@ def _startup_dict(plan: Plan, arrays: bool) -> dict:
             "possible": warm.possible, "time_s": warm.time_s, "target_k": warm.target_k, "energy_j": warm.energy_j,
             "untraced": warm.untraced, "message": warm.message, "segments": [s.__dict__ for s in warm.segments],
         },
-        "push_cold": {k: v for k, v in plan.push_cold.__dict__.items() if k != "rows" or arrays},
-        "after_prewarm": None if after is None else {k: v for k, v in after.__dict__.items() if k != "rows" or arrays},
+        "push_cold": _push_dict(plan.push_cold, arrays),
+        "after_prewarm": None if after is None else _push_dict(after, arrays),
     }
     return doc
+
+
+def _push_dict(push, arrays: bool) -> dict:
+    """A push-out's figures; its rows only with ``arrays``; its suction march (``suction_profile``, a whole
+    ``MarchResult`` the dashboard draws) is not part of the document."""
+    return {k: v for k, v in push.__dict__.items() if k != "suction_profile" and (k != "rows" or arrays)}
 
 
 def key_figures_dict(plan: Plan) -> dict:

@@ -298,7 +298,7 @@ UNIT_SYSTEMS: dict[str, dict[str, DisplayUnit]] = {
         "volume_flow": DisplayUnit("m³/h", "m**3/h"),
         "volume": DisplayUnit("m³", "m**3"),
         "dynamic_viscosity": DisplayUnit("mPa·s", "mPa*s"),
-        "kinematic_viscosity": DisplayUnit("mm²/s", "mm**2/s"),
+        "kinematic_viscosity": DisplayUnit("cSt", "cSt"),   # = mm²/s; what operators read, in both systems
         "density": DisplayUnit("kg/m³", "kg/m**3"),
         "linear_power": DisplayUnit("W/m", "W/m"),
         "power": DisplayUnit("kW", "kW"),

@@ -43,7 +43,7 @@ import dataclasses
 import math
 from dataclasses import dataclass, field
 
-from planner.line.march import TEMPERATURE_CEILING_K, Line
+from planner.line.march import TEMPERATURE_CEILING_K, Line, MarchResult, march
 from planner.line.route import LineSegment
 from planner.transfer.pumps import HI_B_MAX
 from planner.transfer.system import SystemState, TransferSystem
@@ -241,6 +241,7 @@ class PushCold:
     rows: dict = field(default_factory=dict)   # front position steps: volume_fraction, flow, pressure, time
     hi_b: float | None = None       # centrifugal pump: the highest ANSI/HI 9.6.7 B over the push's points
     hi_in_range: bool = True        # False: some point lies beyond the method (no flow or time is given)
+    suction_profile: MarchResult | None = None  # the suction line marched at the push's first flow, contents cold
 
 
 def _front_position(segments: list[LineSegment], displaced_volume: float) -> float:
@@ -319,7 +320,16 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
     if relief:
         message += " (relief valve lifts during the start)"
     return PushCold(True, message, start_temperature, first.flow, first.status, peak_p, peak_dp,
-                    first.point.npsh_available, time, relief, rows, _highest_b(points))
+                    first.point.npsh_available, time, relief, rows, _highest_b(points),
+                    suction_profile=_suction_at(system, first.flow, state0))
+
+
+def _suction_at(system: TransferSystem, flow: float, state: SystemState) -> MarchResult | None:
+    """The suction line's march at ``flow`` from the source in ``state`` (what the push's first operating
+    point took, recorded along its length); None without a suction line."""
+    if system.suction_line is None:
+        return None
+    return march(system.suction_line, flow, state.source_temperature, system.source_pressure(state), step=system.step)
 
 
 def _highest_b(points) -> float | None:

@@ -1,0 +1,84 @@
+"""The sign-off sheet through a real server and real Chromium (Playwright): a share link opens a saved,
+approved revision in the Review view, the button downloads the sheet, and the sheet prints on one A4 page
+with the chain head the store's own ``verify`` gives.  Outside CI a missing /usr/bin/chromium skips it."""
+
+from __future__ import annotations
+
+import os
+import re
+import socket
+
+import pytest
+
+from conftest import ROOT, make_people
+from dashboard_server import chromium_browser, start_dashboard, stop_dashboard, wait_healthy
+from planner.checks.findings import assess
+from planner.records.store import PlanStore
+from planner.reports.saved_figures import saved_figures
+from planner.reports.uncertainty_text import figure_rows, odds_summary
+from planner.scenario.schema import load_scenario
+from planner.sweeps.uncertainty import plan_odds
+from planner.transfer.plan import make_plan
+from test_browser import CHROMIUM, LAUNCH_ARGS, _require_chromium
+
+pytestmark = pytest.mark.slow
+
+POLYOL = ROOT / "demo_scenarios" / "polyol_tank_transfer.toml"
+
+
+@pytest.fixture(scope="module")
+def saved(tmp_path_factory):
+    """A reviewed revision with its odds in a fresh SQLite file."""
+    _require_chromium()
+    path = tmp_path_factory.mktemp("signoff-browser") / "plans.sqlite"
+    store = PlanStore(path=path)
+    people = make_people(store)
+    scenario = load_scenario(POLYOL)
+    plan = make_plan(scenario)
+    results = saved_figures(plan, assess(plan))
+    results["uncertainty"] = odds_summary(plan_odds(scenario, samples=16))
+    revision = store.save("T-31 to T-07", scenario, people["ana"], results=results)
+    store.submit(revision.plan_id, 1, people["ana"])
+    store.approve(revision.plan_id, 1, people["sam"], "fine")
+    return path, store, store.revision(revision.plan_id, 1)
+
+
+@pytest.fixture(scope="module")
+def server(saved):
+    path = saved[0]
+    with socket.socket(socket.AF_INET, socket.SOCK_STREAM) as s:
+        s.bind(("127.0.0.1", 0))
+        port = s.getsockname()[1]
+    log_path = path.parent / "server.log"
+    proc, log = start_dashboard(port, log_path, dict(os.environ, PLANNER_DB_PATH=str(path)))
+    url = f"http://127.0.0.1:{port}"
+    try:
+        wait_healthy(url, proc, log_path)
+        yield url
+    finally:
+        stop_dashboard(proc, log)
+
+
+def test_download_the_sheet_and_print_it_on_one_page(saved, server, tmp_path):
+    _, store, revision = saved
+    with chromium_browser(CHROMIUM, LAUNCH_ARGS) as chromium:
+        context = chromium.new_context(viewport={"width": 1440, "height": 2000}, accept_downloads=True)
+        page = context.new_page()
+        page.set_default_timeout(180_000)
+        page.goto(f"{server}/?plan={revision.plan_id}&rev=1&view=review")
+        button = page.get_by_role("button", name=re.compile("Sign-off sheet"))
+        button.wait_for()
+        with page.expect_download() as info:
+            button.click()
+        sheet = tmp_path / info.value.suggested_filename
+        info.value.save_as(sheet)
+        assert sheet.name.endswith("-rev1.html")
+        text = sheet.read_text(encoding="utf-8")
+        assert store.verify().head in text
+        p10 = figure_rows(revision.results["uncertainty"], "SI")[0]["p10"]
+        assert f"<td>{p10}</td>" in text
+        printed = context.new_page()
+        printed.goto(sheet.as_uri())
+        pdf = printed.pdf(format="A4", prefer_css_page_size=True)
+        assert len(re.findall(rb"/Type\s*/Page(?!s)", pdf)) == 1
+        context.close()
