@@ -260,3 +260,19 @@ def test_generated_plans_stay_within_their_bounds(**drawn):
         assert str(exc)
         return
     _check_generated_plan(plan, found)
+
+
+def test_a_runaway_midpoint_estimate_is_a_refusal_not_a_traceback_nor_a_figure():
+    """Found by the generated-plans property test: a near-solid product (12 Pa s at its reference, Andrade
+    b = 5,068 K, so about 1e9 Pa s at the 2 degC source) forced by a positive-displacement pump heats itself
+    so fast that the march's midpoint estimate ran to 157,000 K and the film solve failed (math domain
+    error).  It is now the temperature-ceiling refusal, naming viscous heating, and no temperature past
+    1.2 x the 773.15 K ceiling is printed as if the models made it."""
+    drawn = dict(mu=12.0, b_slope=5068.0, length=5.0, rise=0.0, source_c=2.0, ambient_c=27.0, wind=13.0,
+                 pump="positive_displacement", speed_rpm=313.0, tracing="none", setpoint_c=5.0, output=2.0,
+                 mode="prewarm")
+    with pytest.raises(PlannerError) as caught:
+        make_plan(scenario_from_dict(_generated(**drawn)), steps=10)
+    text = str(caught.value)
+    assert "runs away past the 500.0 °C" in text and "viscous heating" in text, text
+    assert not re.search(r"\d{4,}", text.replace(",", "")), text      # no thousands of degrees

@@ -40,6 +40,8 @@ from planner.line.step_control import DEFAULT_STEP_M, StepControl
 from planner.line.tracing import Heater
 from planner.scenario.budget import march_step_count, march_step_limit, past_meter
 from planner.scenario.schema import TEMPERATURE_CEILING_K
+
+RUNAWAY_FACTOR = 1.2   # past 1.2 x the ceiling [K] a temperature is a runaway estimate, not reported
 from planner.scenario.wording import Q, Sentence
 
 __all__ = ["DEFAULT_STEP_M", "Line", "MarchResult", "MarchSummary", "march", "march_plugged"]
@@ -182,6 +184,9 @@ def _march_segment(s: SegmentConstants, mass_flow: float, start: WarmStart, cont
             g, viscous = _extrapolated(previous, older, (x + 0.5 * dx - at_previous) / (at_previous - at_older))
             t_mid = step_across_states(heater, t, previous, 0.5 * dx, t_amb, g, viscous)
             older, at_older = previous, at_previous
+        if not t_mid <= TEMPERATURE_CEILING_K:   # the midpoint's estimate is already past the models (or NaN)
+            totals.past_ceiling("product", t_mid)
+            break
         local = evaluate(s, mass_flow, start, t_mid, from_d, from_d + dx / d, x + 0.5 * dx, True)
         t_new = step_across_states(heater, t, local, dx, t_amb, local.conductance, local.viscous_heating)
         grad_total = local.grad_friction + local.grad_fittings + local.grad_static
@@ -224,9 +229,11 @@ def _stopped(line: Line, totals: Totals, count: int, step: float, x: float) -> N
     else:
         change = ("lower tracing.output or tracing.circuits_per_metre, hold the pipe wall with a thermostat "
                   "(tracing.sensing = \"pipe_wall\" and a setpoint), or raise operation.flow")
+    # a value far past the ceiling is no figure of the models (a runaway estimate): only that it passed is said
+    reached = "reaches {t}, past" if value <= RUNAWAY_FACTOR * TEMPERATURE_CEILING_K else "runs away past"
     raise ComputationError(Sentence(
-        "the {what} reaches {t} at {where} along the {line}, past the {limit} the planner's models hold to: the heat "
-        "put in is far more than the line can lose; {change}", what=what, t=Q(value, "temperature"), where=where,
+        "the {what} " + reached + " the {limit} the planner's models hold to, at {where} along the {line}: the "
+        "heat put in is far more than the line can lose; {change}", what=what, t=Q(value, "temperature"), where=where,
         line=line.name, limit=Q(TEMPERATURE_CEILING_K, "temperature"), change=change))
 
 
