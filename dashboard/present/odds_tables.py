@@ -21,13 +21,14 @@ from planner.reports.uncertainty_text import (BEYOND, chance_lines, figure_rows,
 
 def restored(summary: dict, currency: str = "") -> dict:
     """A saved summary made whole again for the tables: +inf for each percentile listed in ``beyond``, the
-    currency given (a revision keeps it beside the figures) and 0 for counts an older summary lacks."""
+    currency given (a revision keeps it beside the figures) and "—" for the count of samples that could not be
+    planned, which summaries saved before it was kept lack."""
     odds = copy.deepcopy(summary)
     for name, keys in (odds.get("beyond") or {}).items():
         for key in keys:
             odds["percentiles"][name][key] = math.inf
     odds.setdefault("currency", currency)
-    odds.setdefault("not_computed", 0)
+    odds.setdefault("not_computed", "—")
     return odds
 
 

@@ -113,3 +113,15 @@ def odds_result(result: dict, unit_system: str) -> None:
         st.table(escaped_table(odds_tables.inputs_frame(odds, unit_system)), hide_index=True)
         st.caption(escaped(odds["method"]))
     st.caption(CAUTION)
+
+
+def saved_odds(results: dict, unit_system: str) -> None:
+    """The range kept with a saved revision (its results' ``uncertainty``, ``odds_summary``), when it has one."""
+    summary = results.get("uncertainty")
+    if not summary:
+        return
+    odds = odds_tables.restored(summary, results.get("currency", ""))
+    st.markdown("**The odds as saved**")
+    st.caption(escaped(odds_tables.sampling_text(odds)))
+    st.table(escaped_table(odds_tables.figures_frame(odds, unit_system)), hide_index=True)
+    st.markdown("  \n".join(escaped(line) for line in odds_tables.chance_lines(odds, unit_system)))
