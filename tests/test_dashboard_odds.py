@@ -182,3 +182,23 @@ def test_the_comparison_with_odds_shows_each_values_chance(tmp_path):
     for i in ref["not_told_apart"]:
         assert marks[i] == "cannot be told apart"
     assert any(s.startswith("By the odds: ") for s in _texts(at.success) + _texts(at.warning))
+
+
+def test_two_revisions_odds_differ_as_shown(expected):
+    from dashboard.present.saved import diff_frames
+    from planner.records.revision import diff_values
+
+    before = {"currency": "EUR", "uncertainty": odds_summary(expected)}
+    after = {"currency": "EUR", "uncertainty": odds_summary(expected)}
+    after["uncertainty"]["percentiles"]["total_cost"]["p50"] += 25.0
+    after["uncertainty"]["percentiles"]["peak_pressure_pa"]["p50"] += 1e-3     # below the shown precision
+    after["uncertainty"]["probability_in_window_no_stop"] = 0.5
+    _, results = diff_frames({"inputs": [], "results": diff_values(before, after)}, 1, 2, "US", "EUR", "EUR")
+    rows = [tuple(r) for r in results.values.tolist()]
+    p50 = expected["percentiles"]["total_cost"]["p50"]
+    assert ("Odds: P50 total cost", value_text(p50, "money", "US", "EUR"),
+            value_text(p50 + 25.0, "money", "US", "EUR")) in rows
+    assert ("Odds: in the window with no stop", percentage(expected["probability_in_window_no_stop"]), "50 %") in rows
+    assert len(rows) == 2
+    _, results = diff_frames({"inputs": [], "results": diff_values({"currency": "EUR"}, before)}, 1, 2, "SI")
+    assert [tuple(r) for r in results.values.tolist()] == [("Odds", "—", f"{SAMPLES} samples, seed {SEED}")]

@@ -90,3 +90,30 @@ that did not finish. The odds are as good as the distributions given: a planning
 <h3>Sampled inputs</h3>
 {table(inputs_frame(odds, system))}
 """
+
+
+CHANCES = {"probability_in_window": "Odds: chance in the window",
+           "stop_probability": "Odds: chance of a stop",
+           "probability_in_window_no_stop": "Odds: in the window with no stop"}
+
+
+def odds_diff_row(path: str, old, new, system: str, currency_a: str = "", currency_b: str = "") -> tuple | None:
+    """A changed leaf of two revisions' saved odds (``PlanStore.diff`` path under ``uncertainty``) as
+    (label, before, after) as shown; None for the details not listed (errors, shares, inputs' words)."""
+    from planner.reports.uncertainty_text import FIGURE_LABELS
+    from planner.sweeps.uncertainty import FIGURES
+
+    parts = path.split(".")[1:]
+    if not parts:                                   # one revision has odds, the other none
+        kept = lambda v: "—" if v is None else f"{v.get('samples')} samples, seed {v.get('seed')}"  # noqa: E731
+        return "Odds", kept(old), kept(new)
+    if parts[0] == "percentiles" and len(parts) == 3 and parts[1] in FIGURES:
+        kind = FIGURES[parts[1]]
+        # null in a saved summary: beyond the samples that finished
+        shown = lambda v, cur: value_text(math.inf if v is None else v, kind, system, cur)  # noqa: E731
+        return f"Odds: {parts[2].upper()} {FIGURE_LABELS[parts[1]].lower()}", shown(old, currency_a), shown(new, currency_b)
+    if parts[0] in CHANCES and len(parts) == 1:
+        return CHANCES[parts[0]], percentage(old), percentage(new)
+    if parts[0] in ("samples", "seed") and len(parts) == 1:
+        return f"Odds: {parts[0]}", str(old), str(new)
+    return None
