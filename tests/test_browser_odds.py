@@ -1,6 +1,6 @@
 """The Odds view in Chromium: an address naming the view opens it, and working out the odds (16 samples, the
 real worker pool of a real server) draws the charts -- the fan over time, the total time with the planned
-window, the shares -- and the P10/P50/P90 table."""
+window, the shares -- and the P10/P50/P90 table (a screenshot goes to test-artifacts/odds-view-us.png)."""
 
 from __future__ import annotations
 
@@ -9,7 +9,7 @@ import os
 import pytest
 
 from dashboard_server import chromium_browser, start_dashboard, stop_dashboard, wait_healthy
-from test_browser import CHROMIUM, LAUNCH_ARGS, _fill, _free_port, _require_chromium, _wait_idle
+from test_browser import ARTIFACTS, CHROMIUM, LAUNCH_ARGS, _fill, _free_port, _require_chromium, _wait_idle
 
 pytestmark = pytest.mark.slow  # Chromium: left out of the fast loop (-m "not slow")
 
@@ -55,5 +55,7 @@ def test_the_address_opens_the_odds_view_and_the_odds_draw_their_charts(server):
             assert page.locator(".js-plotly-plot text.y2title", has_text="°F").count() == 1      # the fan's temperature
             page.get_by_text("P10 / P50 / P90").first.wait_for()
             assert page.get_by_text("Traceback").count() == 0
+            ARTIFACTS.mkdir(exist_ok=True)
+            page.screenshot(path=str(ARTIFACTS / "odds-view-us.png"), full_page=True)     # for a reviewer
         finally:
             context.close()

@@ -202,3 +202,12 @@ def test_two_revisions_odds_differ_as_shown(expected):
     assert len(rows) == 2
     _, results = diff_frames({"inputs": [], "results": diff_values({"currency": "EUR"}, before)}, 1, 2, "SI")
     assert [tuple(r) for r in results.values.tolist()] == [("Odds", "—", f"{SAMPLES} samples, seed {SEED}")]
+
+
+def test_odds_past_their_time_limit_are_stopped_with_what_to_reduce(monkeypatch):
+    monkeypatch.setenv("PLANNER_ODDS_TIME_LIMIT_S", "0.5")
+    at = _work_out(_view(_syrup(), "Odds"), samples=256, seed=7)      # a seed no other test runs: not kept yet
+    errors = _texts(at.error)
+    assert any("the sampling of the odds was stopped after 0.5 s, the dashboard's time limit: give fewer samples"
+               in e for e in errors), errors
+    assert not at.exception

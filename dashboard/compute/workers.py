@@ -45,7 +45,8 @@ log = logging.getLogger(__name__)
 PLAN_SECONDS = 60.0          # a plan still running after this is stopped
 COMPARISON_SECONDS = 180.0   # a comparison still running after this is stopped
 CALIBRATION_SECONDS = 240.0  # a calibration fit (Calibration tab) still running after this is stopped
-ODDS_SECONDS = 300.0         # the odds of a plan or of a comparison (sampled plans) still running after this
+ODDS_SECONDS = 600.0         # the odds of a plan or of a comparison (sampled plans) still running after this
+                             # (11 values x 128 samples took 162-296 s on the shared 2-core machine, DEVELOPERS.md)
 WAIT_SECONDS = 20.0          # longest wait for a free worker before "busy, try again"
 POLL_SECONDS = 0.2
 STARTUP_SECONDS = 120.0      # a new worker interpreter loading the planner (seconds on a loaded machine)
@@ -285,7 +286,8 @@ class WorkerPool:
             raise
         self._discard(worker)
         self.stopped += 1
-        what = {"plan": "plan", "envelope": "envelope", "odds": "odds", "comparison_odds": "comparison with odds"}.get(
+        what = {"plan": "plan", "envelope": "envelope", "odds": "sampling of the odds",
+                "comparison_odds": "comparison with odds"}.get(
             kind, "comparison")
         reduce = {"plan": "shorten the route or lower the timeline steps (Inputs)",
                   "envelope": "give fewer ambients or lever values",
