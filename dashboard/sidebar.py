@@ -60,8 +60,10 @@ def sidebar(scenario: Scenario | None, scenario_json: str | None, planned: Outco
         slug = _slug(scenario.name)
         saved_envelope = st.session_state.get("envelope") or {}
         envelope = saved_envelope.get("result") if saved_envelope.get("json") == scenario_json else None
-        sb.download_button("Plan report (HTML, opens offline)" + (" with the envelope card" if envelope else ""),
-                           data=lambda: build_report_html(scenario, results, unit_system, envelope=envelope),
+        odds = report_odds(scenario_json)
+        sb.download_button("Plan report (HTML, opens offline)" + (" with the odds" if odds else "")
+                           + (" with the envelope card" if envelope else ""),
+                           data=lambda: build_report_html(scenario, results, unit_system, envelope=envelope, odds=odds),
                            file_name=f"plan-{slug}.html", mime="text/html", key="dl_report", width="stretch")
         if results.profile is not None:
             sb.download_button("Profile along the line (CSV)",
@@ -71,6 +73,18 @@ def sidebar(scenario: Scenario | None, scenario_json: str | None, planned: Outco
                            file_name=f"timeline-{slug}-{unit_system}.csv", mime="text/csv", key="dl_timeline", width="stretch")
     sb.header("Save / share / review")
     save_share_review(sb, scenario_json)
+
+
+def report_odds(scenario_json: str | None) -> tuple[dict, str] | None:
+    """The odds for the report: worked out in this session for these inputs, else those kept with the open
+    saved revision while the inputs are unchanged since it was opened; None when there are none."""
+    odds = revisions.session_odds(scenario_json)
+    if odds is not None:
+        return odds, "worked out in this session for these inputs"
+    revision = st.session_state.get("open_rev_obj")
+    if revision is not None and revision.results.get("uncertainty") and revisions.unchanged_since_open(revision):
+        return revision.results["uncertainty"], f"as kept with saved revision {revision.number}"
+    return None
 
 
 # ------------------------------------------------------------------------------------------ save and share

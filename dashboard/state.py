@@ -48,6 +48,8 @@ KEYS = {
     "comparison": "{json, result} of the last comparison run",
     "cmp_used_msg": "what the last 'Use this value' set, said once (views/compare_pick)",
     "envelope": "{json, result} of the last operating envelope",
+    "odds": "{json, result} of the last odds of the plan (views/odds; the report and a saved revision take it)",
+    "cmp_odds": "{json, result} of the last comparison with odds (views/compare_odds)",
     "cal_msg": "(kind, text) of the last calibration step",
     "cal_demo_log": "the demo log chosen in the Calibration view instead of an upload",
 }
@@ -59,7 +61,7 @@ WIDGET_PREFIXES = {
     "sv_": "the sidebar's save fields and buttons",
     "rv_": "the Review view's fields and buttons",
     "si_": "sign-in", "fa_": "the first admin", "ad_": "the admin panel", "pw_": "own password change",
-    "cmp_": "the comparison's controls", "env_": "the envelope's controls", "cal_": "the Calibration view",
+    "cmp_": "the comparison's controls", "env_": "the envelope's controls", "odds_": "the Odds view's controls", "cal_": "the Calibration view",
     "dl_": "the sidebar's downloads", "stale_": "containers greyed while the results are stale",
     "view_": "containers of the views", "reload_demo": "the sidebar's reload button",
     "results": "the key figures' container",

@@ -124,6 +124,25 @@ def comparison(scenario_json: str, lever: str, values_si, sensitivity, progress=
     return result
 
 
+def remembered(kind: str, args: tuple) -> dict | None:
+    """The finished result of the worker job ``kind`` (the odds: ``odds``, ``comparison_odds``) for these
+    hashable ``args`` if this process has run it, else None."""
+    return _comparison_memo().get((kind,) + tuple(args))
+
+
+def run_remembered(kind: str, args: tuple, progress=None) -> dict:
+    """The worker job ``kind`` (``compute/odds``) as plain data or ``{"error": ...}``, run once per process
+    for the same ``args`` (kept as the comparisons are; a transient error is not kept).  ``progress(done,
+    total)`` is called while it runs."""
+    found = remembered(kind, args)
+    if found is not None:
+        return found
+    result = pool().run(kind, tuple(args), session=_session_id(), progress=progress)
+    if not result.get("transient"):
+        _comparison_memo().put((kind,) + tuple(args), result)
+    return result
+
+
 @st.cache_data(show_spinner=False, max_entries=8)
 def _calibration(fit_key: str, log_bytes: bytes, log_name: str, map_text: str, names: tuple) -> dict:
     return _run("calibration", (fit_key, log_bytes, log_name, map_text, list(names)))

@@ -10,8 +10,11 @@ Everything is SI; ``plan`` is the documented plan JSON (``planner.reports.plan_j
 
 from __future__ import annotations
 
+import logging
 from dataclasses import dataclass, field
 from typing import Union
+
+log = logging.getLogger(__name__)
 
 
 @dataclass(frozen=True)
@@ -59,3 +62,17 @@ def outcome(reply: dict) -> Outcome:
         return reply["results"]
     return PlanFailure(str(reply.get("error") or "no plan for these inputs"),
                        tuple(tuple(p) for p in reply.get("problems") or ()), bool(reply.get("transient")))
+
+
+def failure(exc: BaseException, what: str) -> dict:
+    """A worker job's reply for ``exc``: the planner's refusal in its words (with the problems' fields), or
+    for anything else a message asking for a report (logged with its traceback, never shown)."""
+    from planner.errors import PlannerError, ScenarioError
+
+    if isinstance(exc, ScenarioError):          # e.g. past the work budget, or a plan without [pump]
+        return {"error": str(exc), "problems": [list(p) for p in exc.problems]}
+    if isinstance(exc, (PlannerError, ValueError, ArithmeticError, RecursionError)):
+        return {"error": str(exc)}
+    log.exception("%s failed", what)
+    return {"error": f"the {what} failed unexpectedly ({type(exc).__name__}: {exc}); "
+                     "please report this scenario to the maintainers"}

@@ -16,7 +16,8 @@ page script, so multiprocessing's spawn and forkserver would re-run the page in 
 fork would keep the server's listening socket open).  It loads the planner before its first job,
 and runs in its own session and process group: a comparison's own row processes are stopped with it.
 Environment (read at each request): ``PLANNER_WORKERS``, ``PLANNER_PLAN_TIME_LIMIT_S``,
-``PLANNER_COMPARISON_TIME_LIMIT_S``, ``PLANNER_WORKER_WAIT_S``; read when a worker starts:
+``PLANNER_COMPARISON_TIME_LIMIT_S``, ``PLANNER_ODDS_TIME_LIMIT_S`` (the odds, ``compute/odds``),
+``PLANNER_WORKER_WAIT_S``; read when a worker starts:
 ``PLANNER_ROW_PROCESSES`` (processes of a worker's own pool for comparison rows and calibration replays,
 default the machine's cores), ``PLANNER_DASK_SCHEDULER`` (send those to a dask cluster instead).
 """
@@ -36,11 +37,16 @@ import time
 from multiprocessing.connection import Connection
 from pathlib import Path
 
+from .odds import comparison_odds_job, odds_job
+from .record import failure as _failure
+
 log = logging.getLogger(__name__)
 
 PLAN_SECONDS = 60.0          # a plan still running after this is stopped
 COMPARISON_SECONDS = 180.0   # a comparison still running after this is stopped
 CALIBRATION_SECONDS = 240.0  # a calibration fit (Calibration tab) still running after this is stopped
+ODDS_SECONDS = 600.0         # the odds of a plan or of a comparison (sampled plans) still running after this
+                             # (11 values x 128 samples took 162-296 s on the shared 2-core machine, DEVELOPERS.md)
 WAIT_SECONDS = 20.0          # longest wait for a free worker before "busy, try again"
 POLL_SECONDS = 0.2
 STARTUP_SECONDS = 120.0      # a new worker interpreter loading the planner (seconds on a loaded machine)
@@ -59,23 +65,14 @@ def limits() -> dict:
             "comparison": _env_float("PLANNER_COMPARISON_TIME_LIMIT_S", COMPARISON_SECONDS),
             "envelope": _env_float("PLANNER_COMPARISON_TIME_LIMIT_S", COMPARISON_SECONDS),
             "calibration": _env_float("PLANNER_CALIBRATION_TIME_LIMIT_S", CALIBRATION_SECONDS),
+            "odds": _env_float("PLANNER_ODDS_TIME_LIMIT_S", ODDS_SECONDS),
+            "comparison_odds": _env_float("PLANNER_ODDS_TIME_LIMIT_S", ODDS_SECONDS),
             "wait": _env_float("PLANNER_WORKER_WAIT_S", WAIT_SECONDS)}
 
 
 # ------------------------------------------------------------------------------------------ jobs
-# They run in the worker process; plain data in and out; planner errors become {"error": ...}.
-
-def _failure(exc: BaseException, what: str) -> dict:
-    from planner.errors import PlannerError, ScenarioError
-
-    if isinstance(exc, ScenarioError):          # e.g. past the work budget, or a plan without [pump]
-        return {"error": str(exc), "problems": [list(p) for p in exc.problems]}
-    if isinstance(exc, (PlannerError, ValueError, ArithmeticError, RecursionError)):
-        return {"error": str(exc)}
-    log.exception("%s failed", what)
-    return {"error": f"the {what} failed unexpectedly ({type(exc).__name__}: {exc}); "
-                     "please report this scenario to the maintainers"}
-
+# They run in the worker process; plain data in and out; planner errors become {"error": ...}
+# (``record.failure``).  The odds' two jobs are in ``compute/odds``.
 
 def plan_job(scenario_json: str, progress=None, executor=None) -> dict:
     from planner.scenario.schema import parse_scenario_text
@@ -124,7 +121,8 @@ def envelope_job(scenario_json: str, lever: str, values_si: list, ambients_k: li
         return _failure(exc, "envelope")
 
 
-JOBS = {"plan": plan_job, "comparison": comparison_job, "calibration": calibration_job, "envelope": envelope_job}
+JOBS = {"plan": plan_job, "comparison": comparison_job, "calibration": calibration_job, "envelope": envelope_job,
+        "odds": odds_job, "comparison_odds": comparison_odds_job}
 
 
 def _executor(stack: contextlib.ExitStack):
@@ -288,9 +286,12 @@ class WorkerPool:
             raise
         self._discard(worker)
         self.stopped += 1
-        what = kind if kind in ("plan", "envelope") else "comparison"
+        what = {"plan": "plan", "envelope": "envelope", "odds": "sampling of the odds",
+                "comparison_odds": "comparison with odds"}.get(
+            kind, "comparison")
         reduce = {"plan": "shorten the route or lower the timeline steps (Inputs)",
-                  "envelope": "give fewer ambients or lever values"}.get(
+                  "envelope": "give fewer ambients or lever values",
+                  "odds": "give fewer samples", "comparison_odds": "give fewer samples or compare fewer values"}.get(
             kind, "compare fewer values, or leave out the sensitivity cases")
         return {"error": f"the {what} was stopped after {time_limit:g} s, the dashboard's time limit: {reduce}",
                 "transient": True, "timeout": True}

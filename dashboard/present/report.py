@@ -126,10 +126,21 @@ def _envelope_card(envelope: dict | None, system: str) -> tuple[str, str]:
     return envelope_card_section(envelope_from_json(envelope), system), CARD_CSS
 
 
+def _odds_section(odds: tuple[dict, str] | None, scenario: Scenario, system: str) -> str:
+    if not odds:
+        return ""
+    from .odds_tables import report_section, restored
+
+    summary, where = odds
+    return report_section(restored(summary, scenario.costs.currency), system, where)
+
+
 def build_report_html(scenario: Scenario, results: PlanResults, system: str = "SI", generated_at: _dt.datetime | None = None,
-                      envelope: dict | None = None) -> str:
+                      envelope: dict | None = None, odds: tuple[dict, str] | None = None) -> str:
     """The whole report as one HTML string (display units of ``system``); with ``envelope`` (the JSON of
-    ``planner.sweeps.envelope`` for this scenario) its printable card as the last page."""
+    ``planner.sweeps.envelope`` for this scenario) its printable card as the last page; with ``odds`` (the
+    summary of ``planner.sweeps.uncertainty`` for this scenario, or the one a saved revision keeps, and where
+    it comes from in words) the range after the key figures."""
     when = (generated_at or _dt.datetime.now()).strftime("%Y-%m-%d %H:%M")
     plan = results.plan
     start = plan["start"]
@@ -166,6 +177,7 @@ def build_report_html(scenario: Scenario, results: PlanResults, system: str = "S
 {timeline_note}
 <h2>Key figures</h2>
 <div class="figures">{figs}</div>
+{_odds_section(odds, scenario, system)}
 <h2>Findings</h2>
 {_findings_html(results, system)}
 <h2>Inputs</h2>

@@ -12,7 +12,8 @@ from planner.records.revision import Revision
 from planner.scenario.wording import money_text
 from planner.transfer.plan import J_PER_KWH
 
-from .display import fmt
+from .display import fmt, number_text
+from .odds_tables import odds_diff_row
 
 
 def result_text(key: str, value, unit_system: str, currency: str = "") -> str:
@@ -68,6 +69,11 @@ def diff_frames(diff: dict, a: int, b: int, unit_system: str, currency_a: str = 
     labels = {key: label for key, label, _ in SAVED_FIGURES}
     rows = []
     for key, old, new in diff.get("results", []):
+        if key == "uncertainty" or key.startswith("uncertainty."):       # the odds kept with the revision
+            row = odds_diff_row(key, old, new, unit_system, currency_a, currency_b)
+            if row is not None and row[1] != row[2]:
+                rows.append(row)
+            continue
         if key == "currency":
             if value_text(old) != value_text(new):
                 rows.append(("Currency", value_text(old), value_text(new)))

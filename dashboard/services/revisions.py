@@ -142,6 +142,13 @@ def _set_msg(key: str, kind: str, text: str) -> None:
     st.session_state[key] = (kind, text)
 
 
+def session_odds(scenario_json: str | None) -> dict | None:
+    """The odds worked out in this session (Odds view) for exactly these inputs, else None."""
+    kept = st.session_state.get("odds") or {}
+    result = kept.get("result") or {}
+    return result.get("odds") if scenario_json is not None and kept.get("json") == scenario_json else None
+
+
 def do_save() -> None:
     """Save the working scenario as a new revision (never overwrites)."""
     ss = st.session_state
@@ -158,12 +165,18 @@ def do_save() -> None:
     from planner.reports.saved_figures import no_plan
 
     results = cached_results(scenario_to_json(scenario))
+    saved = results.saved if ok(results) else no_plan(results.error)
+    odds = session_odds(scenario_to_json(scenario))
+    if ok(results) and odds is not None:       # as `plans save --uncertainty`: the range the supervisor signs
+        from planner.reports.uncertainty_text import odds_summary
+
+        saved = {**saved, "uncertainty": odds_summary(odds)}
     ref = open_ref()
     as_new = bool(ss.get("sv_as_new")) or ref is None
     try:
         revision = store().save(ss.get("sv_name") or "", scenario, author,
                                 note=ss.get("sv_note") or "", site=ss.get("sv_site") or "",
-                                results=results.saved if ok(results) else no_plan(results.error), plan_id=None if as_new else ref["plan_id"])
+                                results=saved, plan_id=None if as_new else ref["plan_id"])
     except StoreError as exc:
         _set_msg("share_msg", "error", f"Not saved: {exc}")
         return

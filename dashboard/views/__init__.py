@@ -22,7 +22,7 @@ def view_module(name: str):
 
 # Tab title of each view (here, so that reading the titles imports no view)
 VIEW_TITLES = {"plan": "Plan", "inputs": "Inputs", "line": "Along the line", "time": "Over time",
-               "compare": "Setpoint comparison", "product": "Product", "calibration": "Calibration",
+               "compare": "Setpoint comparison", "odds": "Odds", "product": "Product", "calibration": "Calibration",
                "review": "Review"}
 TAB_TITLES = [VIEW_TITLES[view] for view in VIEW_NAMES]
 VIEW_OF_TITLE = {title: view for view, title in VIEW_TITLES.items()}

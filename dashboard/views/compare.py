@@ -106,7 +106,10 @@ def comparison_view(scenario: Scenario | None, scenario_json: str | None, unit_s
         if saved["json"] != scenario_json:
             st.warning("The inputs have changed since this comparison: press Compare to run it again.")
         comparison_result(saved["result"], unit_system, scenario)
+    from .compare_odds import odds_section
     from .envelope import envelope_section
+
+    odds_section(scenario, scenario_json, unit_system, lever, text)
 
     envelope_section(scenario, scenario_json, unit_system, lever, kind, text)
 

@@ -72,7 +72,9 @@ def _open_panel(set_work, unit_system: str, page: Page | None = None) -> None:
         right.table(escaped_table(trail_frame(trail)), hide_index=True)
     else:
         right.caption("No review steps yet.")
+    from .odds import saved_odds
 
+    saved_odds(revision.results, unit_system)
     _findings(revision, page)
     _history_check(revision)
     _review_steps(set_work, revision)

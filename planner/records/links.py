@@ -32,7 +32,7 @@ MAX_JSON_BYTES = 256 * 1024         # inflating stops here (guards against compr
 URL_BUDGET_CHARS = 2000             # beyond this, offer to save and share the id instead
 # The views a link can open, in the order the dashboard shows them as tabs: the one list of view names
 # (the dashboard maps each to its tab title, ``dashboard.views.VIEW_TITLES``).
-VIEWS = ("plan", "inputs", "line", "time", "compare", "product", "calibration", "review")
+VIEWS = ("plan", "inputs", "line", "time", "compare", "odds", "product", "calibration", "review")
 
 # Version 1's preset dictionary.  Never change it: links already sent depend on it.
 _ZDICT_V1 = json.dumps([

@@ -132,8 +132,8 @@ def odds_json(odds: dict) -> dict:
 def odds_summary(odds: dict) -> dict:
     """What a saved revision keeps of the odds (SI, no fan): the range the supervisor signs."""
     keep = ("samples", "seed", "confidence", "planned_window_s", "percentiles", "beyond", "probability_in_window",
-            "stop_probability", "probability_in_window_no_stop", "sampling_error", "did_not_finish", "stop_codes",
-            "sensitivity", "inputs")
+            "stop_probability", "probability_in_window_no_stop", "sampling_error", "did_not_finish", "not_computed",
+            "stop_codes", "sensitivity", "sensitivity_of", "inputs", "method")
     return plain({key: odds[key] for key in keep if key in odds})
 
 

@@ -5,7 +5,8 @@ same sampled plans as ``plan --uncertainty``.
 Every row uses the same Sobol points (common random numbers): the rows differ by the lever alone, so
 their differences carry far less sampling error than each row's figures.  That error is worked out
 on the differences themselves, scramble by scramble (paired), and two rows whose difference is within
-``TOLD_APART`` standard errors of it (a 95 % band on 3 degrees of freedom) cannot be told apart.
+``TOLD_APART`` standard errors of it (a 95 % band on 3 degrees of freedom) cannot be told apart; nor can two
+whose P50 costs differ by less than the deterministic comparison's ``tie_band`` (``_apart``).
 
 Recommendation: the lowest P50 cost among the rows whose chance reaches ``limits.confidence``; if none
 does, none is recommended and the row with the best chance is named.
@@ -66,9 +67,18 @@ def _success(rows: list[dict], window: float) -> list[float]:
     return [1.0 if r["total_time_s"] <= window and not r["stop_codes"] else 0.0 for r in rows]
 
 
-def _apart(diff: float, error: float | None) -> bool:
+def _apart(diff: float, error: float | None, band: float = 0.0) -> bool:
+    """A difference that tells two rows apart: beyond ``TOLD_APART`` of its sampling error and beyond
+    ``band``, the difference the plans themselves cannot resolve.  With common random numbers the paired
+    sampling error of two nearly equal rows shrinks towards 0, so that error alone would call any
+    difference real, down to the plans' own numerical scatter (a P50 cost of 509.93 against 510.01 EUR,
+    0.08 EUR +- 0.005 on the syrup demo): for costs ``band`` is the comparison's ``tie_band`` (1 % of the
+    lowest, at least the costs' rounding; the plans are held to 0.2 %), the one rule of "no clear
+    difference" for both comparisons."""
     if not math.isfinite(diff):
         return True
+    if abs(diff) <= band:
+        return False
     return error is not None and abs(diff) > TOLD_APART * error
 
 
@@ -108,7 +118,7 @@ def recommend_by_odds(rows: list[dict], raw: list[list[dict]], window: float, co
                       quantity: str) -> tuple[int | None, int, str, list[int]]:
     """(recommended row or None, the row named: recommended or with the best chance, the reason as a
     Sentence, rows that cannot be told apart from the named one)."""
-    from planner.sweeps.compare import lever_decimals
+    from planner.sweeps.compare import lever_decimals, tie_band
 
     decimals = lever_decimals(quantity)
     value = lambda i: Q(rows[i]["value"], quantity, decimals)  # noqa: E731
@@ -124,19 +134,24 @@ def recommend_by_odds(rows: list[dict], raw: list[list[dict]], window: float, co
     best = min(reaching, key=lambda i: (rows[i]["p50_cost"], rows[i]["value"]))
     cost = lambda i: [x["total_cost"] for x in raw[i]]  # noqa: E731
     p50 = lambda values: percentile(values, 0.5)  # noqa: E731
-    close = [i for i in reaching if i != best and not _apart(*_paired_error(cost(i), cost(best), p50))]
+    band = tie_band(rows[best]["p50_cost"])
+    close = [i for i in reaching if i != best and not _apart(*_paired_error(cost(i), cost(best), p50), band)]
     reason = Sentence("{v}: lowest P50 cost {cost} among the {n} of {total} values that finish in the window "
                       "with no stop at least {c} of the time (its chance {p}){close}", v=value(best),
                       cost=money_text(rows[best]["p50_cost"], rows[best]["odds"]["currency"]), n=len(reaching),
                       total=len(rows), c=pct(confidence), p=pct(rows[best]["chance"]),
-                      close=_close_words(close, value))
+                      close=_close_words(close, value, cost=True))
     return best, best, reason, close
 
 
-def _close_words(close: list[int], value) -> str:
+def _close_words(close: list[int], value, cost: bool = False) -> str:
     if not close:
         return ""
-    return Sentence("; within the sampling error it cannot be told apart from {vs}",
+    from planner.sweeps.compare import TIE_BAND
+
+    within = Sentence("the sampling error (or, in P50 cost, {band} % of the lowest: the comparison's band of no "
+                      "clear difference)", band=f"{TIE_BAND * 100:g}") if cost else "the sampling error"
+    return Sentence("; within {within} it cannot be told apart from {vs}", within=within,
                     vs=join([Sentence("{v}", v=value(i)) for i in close], ", "))
 
 

@@ -117,6 +117,13 @@ def input_specs(scenario: Scenario) -> list[InputSpec]:
     return specs
 
 
+def checked_seed(seed) -> int:
+    """The seed of the sampling, a whole number from 0 to ``MAX_SEED`` (a ValueError says the limit)."""
+    if isinstance(seed, bool) or not isinstance(seed, int) or not 0 <= seed <= MAX_SEED:
+        raise ValueError(f"{seed!r}: give a whole number from 0 to {MAX_SEED}")
+    return seed
+
+
 def sampling_of(scenario: Scenario, samples: int | None = None, seed: int | None = None) -> tuple[int, int]:
     """Samples and seed: the options given (checked: a ValueError names ``--samples`` or ``--seed``), else the
     scenario's ``[uncertainty]``, else the defaults."""
@@ -127,8 +134,11 @@ def sampling_of(scenario: Scenario, samples: int | None = None, seed: int | None
             checked_samples(samples)
         except ValueError as exc:
             raise ValueError(f"--samples: {exc}") from None
-    if seed is not None and (isinstance(seed, bool) or not isinstance(seed, int) or not 0 <= seed <= MAX_SEED):
-        raise ValueError(f"--seed: {seed!r}: give a whole number from 0 to {MAX_SEED}")
+    if seed is not None:
+        try:
+            checked_seed(seed)
+        except ValueError as exc:
+            raise ValueError(f"--seed: {exc}") from None
     given = scenario.uncertainty
     samples = samples if samples is not None else (given.samples if given is not None else DEFAULT_SAMPLES)
     seed = seed if seed is not None else (given.seed if given is not None else DEFAULT_SEED)

@@ -105,14 +105,20 @@ def tasks_for(scenario: Scenario, samples: int | None = None, seed: int | None =
     return specs, u, [(scenario, row, changes or {}) for row in rows], samples, seed
 
 
+def sample_plans(scenario: Scenario, samples: int | None = None, seed: int | None = None,
+                 executor: Executor | None = None, progress=None) -> tuple:
+    """(specs, unit points, the sampled plans' figures in draw order, seed): the samples ``plan_odds`` sums
+    up, for a caller that also shows them one by one (the dashboard's histogram of the total time)."""
+    check_work(scenario, sampling_of(scenario, samples, seed)[0])
+    specs, u, tasks, samples, seed = tasks_for(scenario, samples, seed)
+    return specs, u, fan_out(sample_row, tasks, executor, progress), seed
+
+
 def plan_odds(scenario: Scenario, samples: int | None = None, seed: int | None = None,
               executor: Executor | None = None, progress=None) -> dict:
     """The odds of the scenario's plan (a JSON-ready dict, SI; see ``summarise``).  ``samples`` (a power of
     two) and ``seed`` default to the scenario's ``[uncertainty]``, else 128 and 21."""
-    check_work(scenario, sampling_of(scenario, samples, seed)[0])
-    specs, u, tasks, samples, seed = tasks_for(scenario, samples, seed)
-    rows = fan_out(sample_row, tasks, executor, progress)
-    return summarise(scenario, specs, u, rows, seed)
+    return summarise(scenario, *sample_plans(scenario, samples, seed, executor, progress))
 
 
 def confidence_of(scenario: Scenario) -> float:

@@ -454,6 +454,55 @@ def case_uncertainty(args) -> dict:
     }
 
 
+@register("dashboard_odds", "the dashboard's comparison with odds (Setpoint comparison, With odds): 11 setpoints x "
+                            "128 samples of the syrup demo through the dashboard's worker pool (one worker, its pool "
+                            "of 2 row processes), against compare_odds on a local pool of 2 in the same run")
+def case_dashboard_odds(args) -> dict:
+    import os
+
+    from planner.scenario.schema import load_scenario, scenario_to_json
+    from planner.sweeps.compare_odds import compare_odds
+    from planner.sweeps.executors import local_executor
+
+    os.environ.setdefault("PLANNER_ROW_PROCESSES", "2")
+    os.environ.setdefault("PLANNER_ODDS_TIME_LIMIT_S", "3600")     # measured, not stopped
+    from dashboard.compute.workers import WorkerPool
+
+    syrup = load_scenario(DEMO_DIR / "syrup_railcar_unload.toml")
+    text = scenario_to_json(syrup)
+    setpoints = tuple(278.15 + 5.0 * i for i in range(11))        # 5-55 degC, as the README's example
+    rounds = max(3, args.baseline_repeats)
+    dashboard, direct, shown = [], [], None
+    workers = WorkerPool(1)
+    try:
+        workers.run("comparison_odds", (text, "setpoint", setpoints[:1], 16, 21))   # the worker's start, untimed
+        with local_executor(2) as pool:
+            compare_odds(syrup, "setpoint", list(setpoints[:1]), executor=pool, samples=16)
+            for _ in range(rounds):          # interleaved: both see the same machine load
+                t0 = time.perf_counter()
+                shown = workers.run("comparison_odds", (text, "setpoint", setpoints, 128, 21))
+                dashboard.append(time.perf_counter() - t0)
+                t0 = time.perf_counter()
+                compare_odds(syrup, "setpoint", list(setpoints), executor=pool, samples=128, seed=21)
+                direct.append(time.perf_counter() - t0)
+    finally:
+        workers.close()
+    ratios = sorted(a / b for a, b in zip(dashboard, direct))
+    return {
+        "rounds": rounds, "plans": 11 * 128, "dashboard_seconds_median": statistics.median(dashboard),
+        "direct_seconds_median": statistics.median(direct), "ratio_median": statistics.median(ratios),
+        "error": shown.get("error") if shown else None,
+        "report_lines": [
+            f"   11 setpoints x 128 samples (1,408 plans), dashboard worker: {statistics.median(dashboard):.1f} s wall "
+            f"(median of {rounds}; range {min(dashboard):.1f}-{max(dashboard):.1f})",
+            f"   compare_odds on a local pool of 2, same run: {statistics.median(direct):.1f} s (range "
+            f"{min(direct):.1f}-{max(direct):.1f}); dashboard / direct median {statistics.median(ratios):.2f} "
+            f"(range {ratios[0]:.2f}-{ratios[-1]:.2f})",
+            f"   by the odds: {shown.get('reason', shown.get('error')) if shown else '-'}",
+        ],
+    }
+
+
 # -- report ------------------------------------------------------------------------------------------
 
 def _format_case(name: str, description: str, fig: dict) -> str:
