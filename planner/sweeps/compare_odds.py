@@ -131,14 +131,21 @@ def recommend_by_odds(rows: list[dict], raw: list[list[dict]], window: float, co
         return None, best, Sentence("no value reaches the confidence asked for ({c}, limits.confidence) of finishing in the "
                               "window with no stop: the best chance is {p} at {v}{close}", c=pct(confidence),
                               p=pct(rows[best]["chance"]), v=value(best), close=_close_words(close, value)), close
-    best = min(reaching, key=lambda i: (rows[i]["p50_cost"], rows[i]["value"]))
+    cheapest = min(reaching, key=lambda i: (rows[i]["p50_cost"], rows[i]["value"]))
     cost = lambda i: [x["total_cost"] for x in raw[i]]  # noqa: E731
     p50 = lambda values: percentile(values, 0.5)  # noqa: E731
-    band = tie_band(rows[best]["p50_cost"])
+    band = tie_band(rows[cheapest]["p50_cost"])
+    # as the plain comparison: among the values with no clear difference from the cheapest, the gentlest
+    tied = [i for i in reaching if i == cheapest or not _apart(*_paired_error(cost(i), cost(cheapest), p50), band)]
+    best = min(tied, key=lambda i: rows[i]["value"])
     close = [i for i in reaching if i != best and not _apart(*_paired_error(cost(i), cost(best), p50), band)]
-    reason = Sentence("{v}: lowest P50 cost {cost} among the {n} of {total} values that finish in the window "
+    money = lambda i: money_text(rows[i]["p50_cost"], rows[i]["odds"]["currency"])  # noqa: E731
+    choice = Sentence("lowest P50 cost {cost}", cost=money(best)) if best == cheapest else Sentence(
+        "the gentlest of the values with no clear difference in P50 cost from the lowest ({low} at {v}), at "
+        "{cost}", low=money(cheapest), v=value(cheapest), cost=money(best))
+    reason = Sentence("{v}: {choice} among the {n} of {total} values that finish in the window "
                       "with no stop at least {c} of the time (its chance {p}){close}", v=value(best),
-                      cost=money_text(rows[best]["p50_cost"], rows[best]["odds"]["currency"]), n=len(reaching),
+                      choice=choice, n=len(reaching),
                       total=len(rows), c=pct(confidence), p=pct(rows[best]["chance"]),
                       close=_close_words(close, value, cost=True))
     return best, best, reason, close
