@@ -19,7 +19,6 @@ from dashboard.compute.record import Outcome, ok
 from dashboard.present import tables
 from dashboard.present.display import SYSTEM_NAMES
 from dashboard.present.plaintext import escaped
-from dashboard.present.report import build_report_html
 from dashboard.present.saved import STATE_WORDS, lock_text
 from dashboard.services import accounts, revisions
 
@@ -61,7 +60,7 @@ def sidebar(scenario: Scenario | None, scenario_json: str | None, planned: Outco
         saved_envelope = st.session_state.get("envelope") or {}
         envelope = saved_envelope.get("result") if saved_envelope.get("json") == scenario_json else None
         sb.download_button("Plan report (HTML, opens offline)" + (" with the envelope card" if envelope else ""),
-                           data=lambda: build_report_html(scenario, results, unit_system, envelope=envelope),
+                           data=lambda: _report_html(scenario, results, unit_system, envelope),
                            file_name=f"plan-{slug}.html", mime="text/html", key="dl_report", width="stretch")
         if results.profile is not None:
             sb.download_button("Profile along the line (CSV)",
@@ -74,6 +73,13 @@ def sidebar(scenario: Scenario | None, scenario_json: str | None, planned: Outco
 
 
 # ------------------------------------------------------------------------------------------ save and share
+
+def _report_html(scenario: Scenario, results, unit_system: str, envelope) -> str:
+    """The plan report; its module (the figures, plotly's script) loads when the report is downloaded."""
+    from dashboard.present.report import build_report_html
+
+    return build_report_html(scenario, results, unit_system, envelope=envelope)
+
 
 def _show_msg(container, key: str) -> None:
     message = st.session_state.pop(key, None)

@@ -9,7 +9,7 @@ import pandas as pd
 
 from planner.reports.saved_figures import SAVED_FIGURES
 from planner.records.revision import Revision
-from planner.transfer.plan import J_PER_KWH
+from planner.correlations.constants import J_PER_KWH
 
 from .display import fmt, number_text
 
