@@ -148,7 +148,9 @@ def _executor(stack: contextlib.ExitStack):
 def _serve(conn, preplan: str | None = None) -> None:
     """Worker main loop: a job in, progress messages and one result out, until the pipe closes."""
     signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl-C on the server is the server's to handle
-    import dashboard.compute.results  # noqa: F401  (load the planner before the first job)
+    from dashboard.compute.results import load_planner
+
+    load_planner()                                # the planner's models, before the first job
 
     with contextlib.ExitStack() as stack:
         executor = _executor(stack)
