@@ -491,7 +491,9 @@ def case_startup(args) -> dict:
 
     lines = [f"   medians of {rounds} rounds (load average {os.getloadavg()[0]:.1f} on {os.cpu_count()} cores)"]
     for name in commands:
-        lines.append(f"   {' '.join(commands[name][1:3]) if name != 'plan' else '-m planner plan syrup':24s} "
+        label = {"numpy": "python -c 'import numpy'", "help": "python -m planner --help",
+                 "plan": "python -m planner plan (syrup)"}[name]
+        lines.append(f"   {label:32s} "
                      f"wall {median[name][0]:6.3f} s   cpu {median[name][1]:6.3f} s")
     for name, goal in STARTUP_GOALS.items():
         ok = more[name]["wall"] <= goal
