@@ -12,13 +12,10 @@ from planner.errors import ScenarioError
 from planner.scenario.schema import load_scenario, read_scenario_data, scenario_from_dict, scenario_to_dict
 
 from dashboard import state, url_state
+from dashboard.compute.demos import DEMO_DIR, DEMO_FILES  # noqa: F401  (the one list of demos)
 from dashboard.services import revisions
 
 ROOT = Path(__file__).resolve().parents[1]
-DEMO_DIR = ROOT / "demo_scenarios"
-
-
-DEMO_FILES = sorted(DEMO_DIR.glob("*.toml"))
 
 
 DEMO_PREFIX = "demo file "

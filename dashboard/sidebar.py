@@ -19,7 +19,6 @@ from dashboard.compute.record import Outcome, ok
 from dashboard.present import tables
 from dashboard.present.display import SYSTEM_NAMES
 from dashboard.present.plaintext import escaped
-from dashboard.present.report import build_report_html
 from dashboard.present.saved import STATE_WORDS, lock_text
 from dashboard.services import accounts, revisions
 
@@ -63,7 +62,7 @@ def sidebar(scenario: Scenario | None, scenario_json: str | None, planned: Outco
         odds = report_odds(scenario_json)
         sb.download_button("Plan report (HTML, opens offline)" + (" with the odds" if odds else "")
                            + (" with the envelope card" if envelope else ""),
-                           data=lambda: build_report_html(scenario, results, unit_system, envelope=envelope, odds=odds),
+                           data=lambda: _report_html(scenario, results, unit_system, envelope, odds),
                            file_name=f"plan-{slug}.html", mime="text/html", key="dl_report", width="stretch")
         if results.profile is not None:
             sb.download_button("Profile along the line (CSV)",
@@ -88,6 +87,13 @@ def report_odds(scenario_json: str | None) -> tuple[dict, str] | None:
 
 
 # ------------------------------------------------------------------------------------------ save and share
+
+def _report_html(scenario: Scenario, results, unit_system: str, envelope, odds=None) -> str:
+    """The plan report; its module (the figures, plotly's script) loads when the report is downloaded."""
+    from dashboard.present.report import build_report_html
+
+    return build_report_html(scenario, results, unit_system, envelope=envelope, odds=odds)
+
 
 def _show_msg(container, key: str) -> None:
     message = st.session_state.pop(key, None)

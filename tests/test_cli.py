@@ -138,7 +138,7 @@ def test_a_plan_loads_no_database_layer():
     loaded = _loaded_after("from planner.cli import main\nimport contextlib, io\n"
                            "with contextlib.redirect_stdout(io.StringIO()):\n"
                            "    main(['plan', 'demo_scenarios/syrup_railcar_unload.toml', '--json'])")
-    assert "numpy" in loaded and "pint" in loaded          # the probe did plan
+    assert "numpy" in loaded and "pydantic" in loaded      # the probe did plan
     assert "sqlalchemy" not in loaded and "argon2" not in loaded
 
 

@@ -170,9 +170,9 @@ def test_display_decimals_are_one_table():
 # -- hours as text -----------------------------------------------------------------------------------------
 
 def test_hours_as_text_have_one_wording():
-    """Times read through ``format_quantity`` (the "time" decimals) or ``transfer.hold.hours``; no module
+    """Times read through ``format_quantity`` (the "time" decimals) or ``transfer.hold_words.hours``; no module
     divides by 3600 to write hours itself."""
-    from planner.transfer.hold import HOLDS_WORDS, hours_text
+    from planner.transfer.hold_words import HOLDS_WORDS, hours_text
 
     own = re.compile(r"/\s*3600(\.0)?\s*:[^}]*f\}\s*h")
     copies = [f"{_rel(p)}" for p in SOURCES if own.search(p.read_text())]

@@ -139,3 +139,45 @@ def test_a_fresh_pool_starts_one_worker_and_the_next_when_two_sessions_compute_a
         assert first["results"].plan["timeline"]["total_time_s"] == second["results"].plan["timeline"]["total_time_s"]
     finally:
         pool.close()
+
+
+def test_the_first_demo_planned_ahead_is_the_pages_own_request():
+    """The server's first worker plans the first demo before any page asks (``_preplanned``): its key is the
+    JSON the page sends for that demo (``loading.load_demo`` then ``app.validate``), and its result the one
+    the request computes (the same job of the same text)."""
+    import copy
+
+    from dashboard.compute.demos import DEMO_FILES as OFFERED
+    from dashboard.compute.workers import _preplanned, plan_job
+
+    first = OFFERED[0]
+    work = scenario_to_dict(load_scenario(first))                             # loading.load_demo
+    page_json = scenario_to_json(scenario_from_dict(copy.deepcopy(work)))     # app.validate
+    ahead = _preplanned(str(first))
+    assert list(ahead) == [page_json]
+    now = plan_job(page_json)["results"]
+    assert ahead[page_json]["results"].plan == now.plan
+    assert ahead[page_json]["results"].key_figures == now.key_figures
+    assert _preplanned(None) == {}
+
+
+def test_a_worker_that_planned_ahead_answers_that_plan_and_others():
+    """The page's request for the first demo gets what a worker that did not plan ahead computes for it (both
+    fresh workers), and a request for another scenario is planned as usual."""
+    from dashboard.compute.demos import DEMO_FILES as OFFERED
+
+    first_json = scenario_to_json(load_scenario(OFFERED[0]))
+    answers = {}
+    for ahead in (str(OFFERED[0]), None):
+        pool = WorkerPool(1)
+        try:
+            pool.spare(ahead)
+            answers[ahead] = (pool.run("plan", (first_json,), session="a", time_limit=120),
+                              pool.run("plan", (LIGHT,), session="a", time_limit=120))
+        finally:
+            pool.close()
+    (first_ahead, light_ahead), (first_asked, light_asked) = answers.values()
+    assert first_ahead["results"].plan == first_asked["results"].plan
+    assert first_ahead["results"].key_figures == first_asked["results"].key_figures
+    assert light_ahead["results"].plan == light_asked["results"].plan
+    assert light_ahead["results"].scenario_name != first_ahead["results"].scenario_name

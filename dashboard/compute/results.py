@@ -17,20 +17,27 @@ import inspect
 
 from planner.checks.lever_values import LEVERS
 from planner.scenario.labels import field_label
-from planner.sweeps.compare import compare
 from planner.errors import PlannerError
-from planner.checks.findings import assess
 from planner.plain import finite_or_none, plain as _plain
-from planner.reports.key_figures import key_figures, outlet_rating
-from planner.reports.saved_figures import saved_figures
-from planner.transfer.plan import make_plan
-from planner.reports.plan_json import plan_json
 from planner.line.products import Product
 from planner.scenario.schema import ProductSpec, Scenario, problems_from
 
 from dashboard.compute.record import PlanResults
 from dashboard.compute.kinematic import at_temperature, lab_kinematic, step_kinematic
 from dashboard.compute.line_extras import prewarm_suction, pump_chart_data, suction_profiles
+
+# The planner's models (the transfer, its checks, comparisons) are imported where a plan or a comparison is
+# worked out: the server imports this module for the Inputs' product preview and the comparison's defaults,
+# and a worker loads them before its first job (``load_planner``).
+
+
+def load_planner() -> None:
+    """Import what a plan and a comparison need (a worker calls it before its first job)."""
+    import planner.checks.findings  # noqa: F401
+    import planner.reports.plan_json  # noqa: F401
+    import planner.sweeps.compare  # noqa: F401
+    import planner.transfer.plan  # noqa: F401
+
 
 def segment_table(segments) -> list[dict]:
     return [{
@@ -66,6 +73,8 @@ def profile_arrays(plan) -> dict | None:
 def findings_of(plan) -> tuple[list | None, list[dict] | None, str]:
     """``planner.checks.findings.assess(plan)``: the findings and their dicts (messages are Sentences that
     render in either unit system), or None with the reason."""
+    from planner.checks.findings import assess
+
     try:
         found = assess(plan)
     except (PlannerError, ValueError) as exc:
@@ -153,6 +162,11 @@ def product_preview(product_data: dict) -> tuple[dict | None, list[tuple[str, st
 
 def plan_results(scenario: Scenario) -> PlanResults:
     """Everything the pages show for one scenario (SI). Raises PlannerError/ValueError."""
+    from planner.reports.key_figures import key_figures, outlet_rating
+    from planner.reports.plan_json import plan_json
+    from planner.reports.saved_figures import saved_figures
+    from planner.transfer.plan import make_plan
+
     plan = make_plan(scenario)
     found, findings, findings_note = findings_of(plan)
     doc = plan_json(plan, findings=found) if found is not None else plan_json(plan, findings=[])
@@ -192,6 +206,8 @@ def lever_label(lever: str) -> str:
 
 def sensitivity_defaults() -> tuple[float, float]:
     """The comparison's own default shifts (``compare``'s ``ambient_shift`` [K], ``viscosity_uncertainty``)."""
+    from planner.sweeps.compare import compare
+
     parameters = inspect.signature(compare).parameters
     return parameters["ambient_shift"].default, parameters["viscosity_uncertainty"].default
 
@@ -201,6 +217,8 @@ def run_comparison(scenario: Scenario, lever: str, values_si: list[float], progr
     """``planner.sweeps.compare.compare`` as plain data (lever values SI: K, Pa, rev/s, m3/s), its rows on
     ``executor`` (the dashboard worker's; None: in this process).  ``sensitivity``: False, True (the
     comparison's default shifts) or ``(ambient shift [K], viscosity fraction)``."""
+    from planner.sweeps.compare import compare
+
     kind = LEVERS[lever].kind
     shift, fraction = sensitivity if isinstance(sensitivity, (list, tuple)) else sensitivity_defaults()
     comparison = compare(scenario, lever=lever, values=list(values_si), progress=progress, sensitivity=bool(sensitivity),

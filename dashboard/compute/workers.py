@@ -37,6 +37,7 @@ import time
 from multiprocessing.connection import Connection
 from pathlib import Path
 
+from dashboard.compute.demos import DEMO_FILES
 from .odds import comparison_odds_job, odds_job
 from .record import failure as _failure
 
@@ -141,16 +142,17 @@ def _executor(stack: contextlib.ExitStack):
     return stack.enter_context(local_executor(int(_env_float("PLANNER_ROW_PROCESSES", os.cpu_count() or 1))))
 
 
-def _serve(conn) -> None:
+def _serve(conn, preplan: str | None = None) -> None:
     """Worker main loop: a job in, progress messages and one result out, until the pipe closes."""
     signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl-C on the server is the server's to handle
-    import dashboard.compute.results  # noqa: F401  (load the planner before the first job)
-    from planner.scenario.units import registry
+    from dashboard.compute.results import load_planner
 
-    registry()
+    load_planner()                                # the planner's models, before the first job
+
     with contextlib.ExitStack() as stack:
         executor = _executor(stack)
         conn.send(("ready",))
+        planned = _preplanned(preplan)
         while True:
             try:
                 kind, args = conn.recv()
@@ -160,7 +162,30 @@ def _serve(conn) -> None:
             def progress(done, total):
                 conn.send(("progress", done, total))
 
+            if kind == "plan" and args[0] in planned:
+                conn.send(("result", planned.pop(args[0])))
+                continue
             conn.send(("result", JOBS[kind](*args, progress=progress, executor=executor)))
+
+
+def _preplanned(path: str | None) -> dict:
+    """The plan of the scenario file ``path`` worked out before any page asks: ``{canonical JSON: result}``.
+
+    The server's first worker is given the first demo (``pool(warm=True)``), which a new session opens: it plans
+    it while the server is still loading the page's modules, so a fresh server's first page finds its plan
+    done.  The JSON is the one the page sends for that demo (``loading.load_demo``, then ``app.validate``) and
+    the result is ``plan_job``'s of it, the very one the request would have computed; another request waits
+    at most this one plan."""
+    if not path:
+        return {}
+    from planner.scenario.schema import load_scenario, scenario_from_dict, scenario_to_dict, scenario_to_json
+
+    try:
+        text = scenario_to_json(scenario_from_dict(scenario_to_dict(load_scenario(path))))
+    except Exception:  # noqa: BLE001  (a demo that does not load is the page's to report, not the worker's)
+        log.exception("the first demo %s could not be planned ahead", path)
+        return {}
+    return {text: plan_job(text)}
 
 
 # ------------------------------------------------------------------------------------------ pool
@@ -171,10 +196,11 @@ ROOT = Path(__file__).resolve().parents[2]
 class _Worker:
     """One worker interpreter and the parent's end of its socket pair."""
 
-    def __init__(self):
+    def __init__(self, preplan: str | None = None):
         parent, child = socket.socketpair()
         env = dict(os.environ, PYTHONPATH=os.pathsep.join([str(ROOT), os.environ.get("PYTHONPATH", "")]))
-        self.process = subprocess.Popen([sys.executable, "-m", "dashboard.compute.workers", str(child.fileno())],
+        ahead = [preplan] if preplan else []         # a scenario file to plan before the first job (_preplanned)
+        self.process = subprocess.Popen([sys.executable, "-m", "dashboard.compute.workers", str(child.fileno()), *ahead],
                                         cwd=ROOT, env=env, pass_fds=(child.fileno(),), start_new_session=True,
                                         stdin=subprocess.DEVNULL)
         child.close()
@@ -296,26 +322,28 @@ class WorkerPool:
         return {"error": f"the {what} was stopped after {time_limit:g} s, the dashboard's time limit: {reduce}",
                 "transient": True, "timeout": True}
 
-    def spare(self) -> None:
+    def spare(self, preplan: str | None = None) -> None:
         """Start one worker now unless one is idle already or the pool is full: the next request then
         does not wait for an interpreter to load the planner.  The server starts one when it lays out
         its first page (``pool(warm=True)``) and after stopping a worker; the others start when a
         request finds no idle worker, so a fresh server does not load the planner ``size`` times over
-        while its first page is being drawn."""
+        while its first page is being drawn.  ``preplan``: a scenario file the worker plans before its first
+        job (``_preplanned``)."""
         with self._lock:
             if self._closed or self._idle or len(self._all) >= self.size:
                 return
-        self.warm(1)
+        self.warm(1, preplan)
 
-    def warm(self, count: int | None = None) -> None:
-        """Start workers now until the pool has ``count`` of them (default: all ``size``)."""
+    def warm(self, count: int | None = None, preplan: str | None = None) -> None:
+        """Start workers now until the pool has ``count`` of them (default: all ``size``), each planning the
+        scenario file ``preplan`` ahead when given."""
         target = min(self.size, count or self.size)
         while True:
             with self._lock:
                 if self._closed or len(self._all) >= target:
                     return
             try:
-                worker = _Worker()
+                worker = _Worker(preplan)
             except OSError:
                 log.exception("starting the planner's workers failed")
                 return
@@ -341,16 +369,18 @@ _POOL_LOCK = threading.Lock()
 
 
 def pool(warm: bool = False) -> WorkerPool:
-    """The server's one pool (made on first use; ``warm``: its first worker started in the background)."""
+    """The server's one pool (made on first use; ``warm``: its first worker started in the background, planning
+    the first demo ahead of the first page)."""
     global _POOL
     with _POOL_LOCK:
         if _POOL is None:
             _POOL = WorkerPool()
             atexit.register(_POOL.close)
             if warm:
-                threading.Thread(target=_POOL.spare, name="planner-workers-warm", daemon=True).start()
+                first = str(DEMO_FILES[0]) if DEMO_FILES else None
+                threading.Thread(target=_POOL.spare, args=(first,), name="planner-workers-warm", daemon=True).start()
         return _POOL
 
 
-if __name__ == "__main__":       # a worker: python -m dashboard.compute.workers FD
-    _serve(Connection(int(sys.argv[1])))
+if __name__ == "__main__":       # a worker: python -m dashboard.compute.workers FD [SCENARIO_FILE_TO_PLAN_AHEAD]
+    _serve(Connection(int(sys.argv[1])), sys.argv[2] if len(sys.argv) > 2 else None)

@@ -10,7 +10,7 @@ import pandas as pd
 from planner.reports.saved_figures import SAVED_FIGURES
 from planner.records.revision import Revision
 from planner.scenario.wording import money_text
-from planner.transfer.plan import J_PER_KWH
+from planner.correlations.constants import J_PER_KWH
 
 from .display import fmt, number_text
 from .odds_tables import odds_diff_row

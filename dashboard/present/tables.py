@@ -14,7 +14,7 @@ from .display import convert_array, fmt, label, number_text, to_display, with_un
 from planner.checks.finding import MOST_SEVERE_FIRST
 from planner.reports.findings_text import finding_details as _finding_details
 from planner.scenario.wording import DECIMALS, money_text, render
-from planner.transfer.hold import hours_text
+from planner.transfer.hold_words import hours_text
 
 
 TIMELINE_COLUMNS = [

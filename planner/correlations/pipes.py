@@ -9,8 +9,6 @@ from __future__ import annotations
 from dataclasses import dataclass
 from fractions import Fraction
 
-from fluids.piping import schedule_lookup
-
 # The schedules of ASME B36.10M (carbon/alloy steel) and B36.19M (stainless, "S" suffix).
 ASME_SCHEDULES = (
     "5", "10", "20", "30", "40", "60", "80", "100", "120", "140", "160",
@@ -75,6 +73,8 @@ def pipe_size(nps: object, schedule: str) -> PipeSize:
     schedule = str(schedule).strip().upper()
     if schedule not in ASME_SCHEDULES:
         raise ValueError(f"unknown schedule {schedule!r}; ASME B36.10M/B36.19M schedules are {', '.join(ASME_SCHEDULES)}")
+    from fluids.piping import schedule_lookup      # here: a route given by inside diameters loads no fluids
+
     size = parse_nps(nps)
     nps_list, inside, outside, wall = schedule_lookup[schedule]
     for index, listed in enumerate(nps_list):

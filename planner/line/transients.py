@@ -31,7 +31,7 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.optimize import brentq
+from planner.line.brent import brentq
 
 from planner.line.heat_path import jacket_temperature
 from planner.line.products import Product

@@ -11,11 +11,14 @@ from __future__ import annotations
 
 import dataclasses
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 from planner.scenario.wording import Q, Sentence, format_quantity, money_text, render
-from planner.transfer.plan import Plan
-from planner.transfer.pumps import HI_B_MAX
+from planner.transfer.pump_hi import HI_B_MAX
 from planner.transfer.operating import OUTCOME_WORDS
+
+if TYPE_CHECKING:             # the record only: the figures' text (``figure_text``) loads none of the transfer's models
+    from planner.transfer.plan import Plan
 
 
 @dataclass(frozen=True)

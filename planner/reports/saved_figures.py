@@ -8,9 +8,14 @@ pump outlet, the planned window, the outcome at the start and the finding counts
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 from planner.checks.finding import MOST_SEVERE_FIRST
+from planner.correlations.constants import J_PER_KWH
 from planner.reports.key_figures import key_figures, outlet_rating
-from planner.transfer.plan import J_PER_KWH, Plan
+
+if TYPE_CHECKING:                     # the record only: reading saved figures loads none of the transfer's models
+    from planner.transfer.plan import Plan
 
 # stored key -> (label, display kind); the order of the tables that show a saved revision's figures
 SAVED_FIGURES = (

@@ -14,6 +14,7 @@ from typing import Annotated
 
 from pydantic import BeforeValidator, PlainSerializer, WithJsonSchema
 
+from planner.scenario.unit_factors import FACTORS
 from planner.scenario.units import (_NUMBER_UNIT, DEFAULT_UNITS, SI_UNITS, UnitError, _normalise_unit, registry, to_si,
                                     unit_text)
 
@@ -30,6 +31,8 @@ def si_to_default(value: float, kind: str) -> float:
         number = value - 273.15
     elif DEFAULT_UNITS[kind] == SI_UNITS[kind]:
         number = value
+    elif (SI_UNITS[kind], DEFAULT_UNITS[kind]) in FACTORS:
+        number = value * FACTORS[SI_UNITS[kind], DEFAULT_UNITS[kind]]     # pint's value * factor, without pint
     else:
         number = registry().Quantity(value, SI_UNITS[kind]).to(DEFAULT_UNITS[kind]).magnitude
     if number == 0 or not math.isfinite(number):

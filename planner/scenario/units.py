@@ -15,8 +15,11 @@ from dataclasses import dataclass
 from functools import lru_cache
 
 
-def _import_pint_without_dask():
-    """pint looks for dask when it is imported and, when dask is installed (it is, for ``--scheduler``), loads
+@lru_cache(maxsize=1)
+def _pint():
+    """pint, imported on first use: a plan meets only the units of ``unit_factors.FACTORS`` and needs none.
+
+    pint looks for dask when it is imported and, when dask is installed (it is, for ``--scheduler``), loads
     ``dask.base`` for its dask-array support: 0.1-0.2 s of every command's start-up here.  The planner never
     gives pint a dask array, so pint is imported with dask hidden (a ``None`` in ``sys.modules`` makes
     ``importlib.util.find_spec`` answer None); dask itself imports as usual afterwards."""
@@ -31,19 +34,19 @@ def _import_pint_without_dask():
     return module
 
 
-pint = _import_pint_without_dask()
-
 from planner.errors import quoted
 from planner.correlations.constants import GRAVITY  # noqa: F401  (re-exported: one definition)
+from planner.scenario.unit_factors import FACTORS
 
 ZERO_CELSIUS_K = 273.15
 ATMOSPHERE_PA = 101325.0
 
 
 @lru_cache(maxsize=1)
-def registry() -> pint.UnitRegistry:
-    """The one unit registry of the package (built on first use; about 0.4 s)."""
-    ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+def registry():
+    """The one unit registry of the package (pint's ``UnitRegistry``, built on first use; about 0.4 s with
+    pint's import)."""
+    ureg = _pint().UnitRegistry(autoconvert_offset_to_baseunit=True)
     ureg.define("gpm = gallon / minute")
     ureg.define("bbl_per_hour = barrel / hour")
     return ureg
@@ -201,7 +204,11 @@ def _normalise_unit(text: str) -> str:
 
 @lru_cache(maxsize=1024)
 def _scale(unit: str, kind: str) -> float | None:
-    """SI value of one ``unit`` when the conversion is a pure scale (pint asked once per unit), else None."""
+    """SI value of one ``unit`` when the conversion is a pure scale (pint's factor, written out in
+    ``unit_factors`` or asked once per unit), else None."""
+    known = FACTORS.get((unit, SI_UNITS[kind]))
+    if known is not None:
+        return known
     ureg = registry()
     quantity = ureg.Quantity(1.0, unit)
     if not quantity._is_multiplicative or any(name.startswith("delta_") for name, _ in quantity.unit_items()):  # noqa: SLF001
@@ -209,12 +216,13 @@ def _scale(unit: str, kind: str) -> float | None:
     return float(quantity.to(SI_UNITS[kind]).magnitude)
 
 
-def _convert(ureg, number: float, unit: str, kind: str, field: str, value: object) -> float:
+def _convert(number: float, unit: str, kind: str, field: str, value: object) -> float:
     if kind == "temperature" and unit == "degC":
         return number + ZERO_CELSIUS_K               # pint's own definition of degC, without the parse
     scale = _scale(unit, kind)
     if scale is not None:
         return number * scale                        # what pint computes for a multiplicative unit
+    ureg = registry()
     if kind in ("temperature", "temperature_difference"):
         quantity = _temperature_quantity(ureg, number, unit, kind, field, value)
     else:
@@ -234,7 +242,6 @@ def to_si(value: object, kind: str, field: str = "value") -> float:
     """
     if kind not in SI_UNITS:
         raise KeyError(f"unknown quantity kind {kind!r}")
-    ureg = registry()
     if isinstance(value, LongInteger):
         raise UnitError(f"{field}: {value!r} is past the range of numbers (about 1e308 at most)")
     if isinstance(value, bool):
@@ -262,15 +269,15 @@ def to_si(value: object, kind: str, field: str = "value") -> float:
     if not math.isfinite(number):
         raise UnitError(f"{field}: {quoted(value)} is not a finite number")
     try:
-        result = _convert(ureg, number, unit, kind, field, value)
-    except pint.errors.DimensionalityError:
-        raise UnitError(
-            f"{field}: {quoted(value)} has the wrong dimension; expected a {kind.replace('_', ' ')} "
-            f"(e.g. in {DEFAULT_UNITS[kind].replace('**', '')})"
-        ) from None
+        result = _convert(number, unit, kind, field, value)
     except UnitError:
         raise
-    except Exception:  # noqa: BLE001  (pint's parser raises many kinds: TokenError, SyntaxError, KeyError ...)
+    except Exception as exc:  # noqa: BLE001  (pint's parser raises many kinds: TokenError, SyntaxError, KeyError ...)
+        if isinstance(exc, _pint().errors.DimensionalityError):
+            raise UnitError(
+                f"{field}: {quoted(value)} has the wrong dimension; expected a {kind.replace('_', ' ')} "
+                f"(e.g. in {DEFAULT_UNITS[kind].replace('**', '')})"
+            ) from None
         raise UnitError(f"{field}: unknown unit {quoted(unit, 40)} in {quoted(value)}") from None
     result = float(result)
     if not math.isfinite(result):
@@ -355,6 +362,9 @@ def _display_factor(kind: str, system: str) -> float:
     scale): worked out once with pint, then a multiplication (messages format many quantities)."""
     unit = UNIT_SYSTEMS[system][kind]
     si_unit = SI_UNITS.get(kind) or _SI_FOR_DISPLAY[kind]
+    known = FACTORS.get((si_unit, unit.pint_unit))
+    if known is not None:
+        return known
     return float(registry().Quantity(1.0, si_unit).to(unit.pint_unit).magnitude)
 
 

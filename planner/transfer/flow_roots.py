@@ -1,10 +1,10 @@
 """Root finding on the system's flow: bracket a sign change searching down from the highest flow (first
-near a guess), then Brent's method (scipy's ``brentq``).
+near a guess), then Brent's method (``planner.line.brent``, SciPy's ``brentq`` to the bit).
 """
 
 from __future__ import annotations
 
-from scipy.optimize import brentq
+from planner.line.brent import brentq
 
 HUGE_PRESSURE = 1.0e12  # stands in for "this rate cannot be pushed" (product sets) inside root finding
 MIN_FLOW_FRACTION = 1e-3

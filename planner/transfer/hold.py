@@ -40,9 +40,8 @@ from planner.scenario.schema import TEMPERATURE_CEILING_K
 from planner.transfer.system import TransferSystem
 from planner.line.tracing import Heater
 from planner.line.transients import evolve, gap_centre_after, gap_warmup
-from planner.scenario.wording import Q, Sentence, render
-
-HOLD_HORIZON_S = 14 * 86400.0
+from planner.scenario.wording import Q, Sentence
+from planner.transfer.hold_words import HOLD_HORIZON_S, HOLDS_WORDS, hours, hours_text  # noqa: F401  (the one wording)
 
 
 @dataclass
@@ -165,19 +164,4 @@ def _gap_hold(name: str, seg, product, gap: float, t0: float, limit: float, stop
     warm = gap_warmup(seg, product, gap, t0, traced_after, limit)
     after = gap_centre_after(seg, product, gap, t0, traced_after, stop)
     return HoldSegment(name, label, t0, limit, warm.falls_below_s, failed[0], min(after, t0), failed[1])
-
-
-HOLDS_WORDS = f"holds {HOLD_HORIZON_S / 86400:.0f} days"    # a time to the limit past the hold horizon
-
-
-def hours(value: float | None):
-    """A time in a sentence (``Sentence(..., t=hours(s))``): the time as a quantity (the display decimals of
-    "time", in hours) or, for None (no limit reached), "holds 14 days".  The one wording of hours as text;
-    ``hours_text`` renders it."""
-    return HOLDS_WORDS if value is None else Q(value, "time")
-
-
-def hours_text(value: float | None, system: str = "SI") -> str:
-    """``hours(value)`` as text in ``system`` (tables)."""
-    return render(Sentence("{t}", t=hours(value)), system)
 

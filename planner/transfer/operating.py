@@ -6,8 +6,10 @@ and the outcomes' codes in words (``OUTCOME_WORDS``); ``transfer.system`` comput
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import TYPE_CHECKING
 
-from planner.line.march import MarchSummary
+if TYPE_CHECKING:             # annotations only: the outcomes' words load none of the line's models
+    from planner.line.march import MarchSummary
 
 # The outcomes and flags (transfer.system) in words (what a page, a report or a key figure shows for each code).
 OUTCOME_WORDS = {"ok": "ok", "no_flow": "no flow", "relief_lifting": "relief valve lifting",

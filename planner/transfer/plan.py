@@ -42,13 +42,13 @@ from planner.scenario.budget import STARTUP_WEATHER_PASSES
 from planner.scenario.wording import Q, Sentence
 from planner.scenario.schema import Scenario
 from planner.transfer.startup import Prewarm, PushCold, prewarm, push_cold
+from planner.correlations.constants import J_PER_KWH  # noqa: F401  (re-exported: one definition)
 from planner.correlations.steam import latent_heat, saturation_temperature_gauge
 from planner.transfer.system import OperatingPoint, SystemState, TransferSystem
 from planner.transfer.timeline import Timeline, run_transfer
 from planner.transfer.vessels import coil_steam_pressure
 from planner.transfer.weather import WeatherProfile, line_start_default, weather_profile, weathered
 
-J_PER_KWH = 3.6e6
 
 
 @dataclass(frozen=True)

@@ -8,7 +8,7 @@ at the pump inlet, from the suction line's own march (ANSI/HI 9.6.1 definition; 
 
 from __future__ import annotations
 
-from scipy.optimize import brentq
+from planner.line.brent import brentq
 
 from planner.line.march import march
 from planner.scenario.units import ATMOSPHERE_PA, GRAVITY

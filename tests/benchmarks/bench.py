@@ -503,6 +503,55 @@ def case_dashboard_odds(args) -> dict:
     }
 
 
+STARTUP_GOALS = {"help": 0.35, "plan": 0.6}     # seconds more than `python -c "import numpy"` (the CLI's issue)
+
+
+def _whole_process(command: list[str]) -> tuple[float, float]:
+    """Wall and CPU (user + system) seconds of one whole process, its start-up included."""
+    import resource
+    import subprocess
+
+    before = resource.getrusage(resource.RUSAGE_CHILDREN)
+    t0 = time.perf_counter()
+    subprocess.run(command, cwd=ROOT, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, check=True)
+    wall = time.perf_counter() - t0
+    after = resource.getrusage(resource.RUSAGE_CHILDREN)
+    return wall, (after.ru_utime - before.ru_utime) + (after.ru_stime - before.ru_stime)
+
+
+@register("startup", "the command line's start-up: `--help` and `plan` of the syrup demo against "
+                     "`python -c \"import numpy\"`, whole processes in turn")
+def case_startup(args) -> dict:
+    commands = {"numpy": [sys.executable, "-c", "import numpy"],
+                "help": [sys.executable, "-m", "planner", "--help"],
+                "plan": [sys.executable, "-m", "planner", "plan", str(DEMO_DIR / "syrup_railcar_unload.toml")]}
+    rounds = max(9, 2 * args.baseline_repeats)
+    for command in commands.values():                 # warm-up: bytecode and the disk cache
+        _whole_process(command)
+    times = {name: [] for name in commands}
+    for _ in range(rounds):                           # in turn, so that all see the same machine load
+        for name, command in commands.items():
+            times[name].append(_whole_process(command))
+    median = {name: (statistics.median(w for w, _ in runs), statistics.median(c for _, c in runs))
+              for name, runs in times.items()}
+    more = {name: {"wall": median[name][0] - median["numpy"][0], "cpu": median[name][1] - median["numpy"][1]}
+            for name in STARTUP_GOALS}
+    import os
+
+    lines = [f"   medians of {rounds} rounds (load average {os.getloadavg()[0]:.1f} on {os.cpu_count()} cores)"]
+    for name in commands:
+        label = {"numpy": "python -c 'import numpy'", "help": "python -m planner --help",
+                 "plan": "python -m planner plan (syrup)"}[name]
+        lines.append(f"   {label:32s} "
+                     f"wall {median[name][0]:6.3f} s   cpu {median[name][1]:6.3f} s")
+    for name, goal in STARTUP_GOALS.items():
+        ok = more[name]["wall"] <= goal
+        lines.append(f"   {name}: {more[name]['wall']:+.3f} s wall ({more[name]['cpu']:+.3f} s cpu) against numpy's "
+                     f"import; goal at most {goal:+.2f} s: {'met' if ok else 'NOT met'}")
+    return {"rounds": rounds, "median_wall_cpu_seconds": median, "more_than_numpy": more, "goals": STARTUP_GOALS,
+            "report_lines": lines}
+
+
 # -- report ------------------------------------------------------------------------------------------
 
 def _format_case(name: str, description: str, fig: dict) -> str:

@@ -17,8 +17,6 @@ from dashboard.present.plaintext import escaped
 
 from ..page import Page
 from .fields import Problems, _under
-from .sections import (costs_section, pump_section, product_section, route_section, site_section, tracing_section,
-                       vessels_section)
 
 NEEDS_RESULTS = False
 
@@ -28,15 +26,23 @@ def draw(page: Page) -> None:
 
 
 SECTIONS = [
-    # (tab title, problem prefixes, renderer)
-    ("Product", ("product",), product_section),
-    ("Route", ("route", "suction"), route_section),
-    ("Tracing", ("tracing",), tracing_section),
-    ("Pump", ("pump",), pump_section),
-    ("Source & destination", ("source", "destination"), vessels_section),
-    ("Site & limits", ("site", "limits"), site_section),
-    ("Costs & schedule", ("costs", "schedule"), costs_section),
+    # (tab title, problem prefixes, renderer: its name in ``sections``)
+    ("Product", ("product",), "product_section"),
+    ("Route", ("route", "suction"), "route_section"),
+    ("Tracing", ("tracing",), "tracing_section"),
+    ("Pump", ("pump",), "pump_section"),
+    ("Source & destination", ("source", "destination"), "vessels_section"),
+    ("Site & limits", ("site", "limits"), "site_section"),
+    ("Costs & schedule", ("costs", "schedule"), "costs_section"),
 ]
+
+
+def _renderer(name: str):
+    """The section's renderer; ``sections`` (its tables, plots and product preview) loads when the Inputs view
+    is first drawn, not with the page (``app.py`` imports ``Problems`` from here)."""
+    from . import sections
+
+    return getattr(sections, name)
 
 
 SECTION_KEY = "input_section"
@@ -66,7 +72,7 @@ def render_inputs(container, problems: Problems) -> None:
     tabs = container.tabs(labels, key=SECTION_KEY, default=default, on_change="rerun")
     for tab, (_, _, renderer) in zip(tabs, SECTIONS):
         if tab.open is not False:
-            renderer(tab, problems)
+            _renderer(renderer)(tab, problems)
     prefixes = [prefix for _, section_prefixes, _ in SECTIONS for prefix in section_prefixes]
     rest = [(p, m) for p, m in problems.rest() if not any(_under(p, prefix) for prefix in prefixes)]
     if rest:

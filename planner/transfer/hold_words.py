@@ -1,0 +1,23 @@
+"""Hours in words: the one wording of a time in hours, and of a stop the line holds through (the hold's
+horizon).  Here, apart from ``transfer/hold.py``, so that tables and pages that write times load nothing of
+the transfer's models (``hold`` imports the line's transients and the transfer system).
+"""
+
+from __future__ import annotations
+
+from planner.scenario.wording import Q, Sentence, render
+
+HOLD_HORIZON_S = 14 * 86400.0            # how long a stop is followed (``hold``): past it, the line holds
+HOLDS_WORDS = f"holds {HOLD_HORIZON_S / 86400:.0f} days"    # a time to the limit past the hold horizon
+
+
+def hours(value: float | None):
+    """A time in a sentence (``Sentence(..., t=hours(s))``): the time as a quantity (the display decimals of
+    "time", in hours) or, for None (no limit reached), "holds 14 days".  The one wording of hours as text;
+    ``hours_text`` renders it."""
+    return HOLDS_WORDS if value is None else Q(value, "time")
+
+
+def hours_text(value: float | None, system: str = "SI") -> str:
+    """``hours(value)`` as text in ``system`` (tables)."""
+    return render(Sentence("{t}", t=hours(value)), system)
