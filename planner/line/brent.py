@@ -8,6 +8,11 @@ SciPy's ``scipy.optimize.brentq`` (its C routine, BSD licence), so a root agrees
 import ``scipy.optimize``, which with ``scipy.linalg`` it pulls in took about a quarter of a second of
 every plan's start-up (issue: a CLI that starts in a blink).
 
+Licence of the part derived from SciPy (its ``brentq.c``, written by Charles Harris; SciPy is Copyright (c)
+2001-2002 Enthought, Inc. and 2003 onwards the SciPy Developers, from memory of its LICENSE.txt): BSD
+3-clause.  Redistributions keep this notice; neither the names of the copyright holders nor of the
+contributors may be used to endorse this program; the code is provided "as is", without warranty.
+
 Stops when the half-bracket is below (xtol + rtol |x|) / 2, like SciPy's.  Refusals are SciPy's too:
 ValueError when f(a) and f(b) have the same sign or f returns NaN, RuntimeError when ``maxiter`` steps do
 not converge.
