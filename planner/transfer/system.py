@@ -92,6 +92,7 @@ class TransferSystem:
         self.plug = None  # (warm head Line, cold tail Line, cold temperature): set only on a with_plug copy
         self._last_relief_flow: float | None = None
         self._root_estimate: float | None = None
+        self._source_level = (math.nan, math.nan)     # (source volume [m3], its level [m])
 
     def with_plug(self, head: Line, tail: Line, cold_temperature: float,
                   slopes_from: "TransferSystem | None" = None) -> "TransferSystem":
@@ -152,7 +153,9 @@ class TransferSystem:
     # -- boundary pressures ---------------------------------------------------------------------
     def source_pressure(self, state: SystemState) -> float:
         rho = self.product.density(state.source_temperature)
-        level = level_from_volume(self.source, state.source_volume)
+        if self._source_level[0] != state.source_volume:     # kept for the volume asked last (one state's solves)
+            self._source_level = (state.source_volume, level_from_volume(self.source, state.source_volume))
+        level = self._source_level[1]
         return self.source.pressure + rho * GRAVITY * (level + self.source.outlet_height)
 
     def destination_pressure(self, state: SystemState, temperature: float) -> float:
@@ -284,7 +287,7 @@ class TransferSystem:
             return self._differential(x, state, cache) - relief
 
         if relief is not None and guess is not None and self._last_relief_flow is not None:
-            q_relief = self._warm_solve("relief", over_relief, q_theoretical, self._last_relief_flow, ftol=20.0)
+            q_relief = self._warm_solve("relief", over_relief, q_theoretical, guess, ftol=20.0)
             if q_relief is not None:
                 point = self._point(q_relief, state, cache)
                 mu = self._viscosity_at_pump(point, state)
@@ -323,8 +326,7 @@ class TransferSystem:
             point = self._point(q_relief, state, cache)
             return self._relief_point(q_relief, point, pump.delivered_flow(relief, mu, speed), relief, mu, speed)
         op = OperatingPoint("ok", q, Sentence("pump and line agree at {q} and {p}", q=Q(q, "volume_flow"),
-                                              p=Q(dp, "pressure")), point,
-                            speed=speed)
+                                              p=Q(dp, "pressure")), point, speed=speed)
         op.shaft_power = pump.shaft_power(dp, mu, speed)
         return op
 

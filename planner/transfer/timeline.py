@@ -134,9 +134,25 @@ def run_transfer(system: TransferSystem, steps: int | None = None, first_guess: 
         moved += increment
         # next guess: the flow extrapolated from the last two steps (the flow drifts smoothly), from
         # the solver's root estimates so that the tolerance left in one step is not doubled into the next
-        previous = points[-2] if len(points) >= 2 and points[-2].status == op.status else None
-        latest = op.flow_estimate or op.flow
-        guess = max(2.0 * latest - (previous.flow_estimate or previous.flow), 0.5 * op.flow) if previous else latest
+        guess = _next_guess(points)
     arrays = {k: np.array(v) for k, v in rows.items()}
     return Timeline(arrays, time, moved, completed, reason, statuses, flags, trace_j, pump_j, vessel_j, points,
                     evaluations_of(base) - evaluations_before)
+
+
+def _next_guess(points) -> float:
+    """The next increment's flow extrapolated from the last increments of the same outcome (equal volume
+    increments): quadratic from three, linear from two, else the last flow; from the solver's root
+    estimates so that the tolerance left in one step is not doubled into the next."""
+    op = points[-1]
+    same = [op]
+    for earlier in reversed(points[-3:-1]):
+        if earlier.status != op.status:
+            break
+        same.append(earlier)
+    flows = [p.flow_estimate or p.flow for p in same]
+    if len(flows) == 3:
+        return max(3.0 * flows[0] - 3.0 * flows[1] + flows[2], 0.5 * op.flow)
+    if len(flows) == 2:
+        return max(2.0 * flows[0] - flows[1], 0.5 * op.flow)
+    return flows[0]
