@@ -10,6 +10,8 @@ are tests/test_uncertainty.py).
 
 from __future__ import annotations
 
+import json
+
 import re
 
 import pytest
@@ -91,6 +93,11 @@ def test_the_odds_view_shows_the_planners_odds_in_si_and_us(expected):
         assert any(line in b for b in boxes), line
     charts = at.get("plotly_chart")
     assert len(charts) == 3                   # total time with the window, the fan, the shares
+    total_chart = json.loads(charts[0].proto.spec)
+    marks = [a["text"] for a in total_chart["layout"].get("annotations", [])]
+    assert "planned window" in marks and "this plan" in marks     # the plan's own total beside the samples'
+    captions = _texts(at.caption)
+    assert any("plans per bin at 16 samples" in c for c in captions)   # shares called rough at 16 samples
     # the same odds in US customary units: the kept result, shown again (no new run)
     at.radio(key="unit_system").set_value("US").run()
     assert not at.exception and not at.error

@@ -209,3 +209,16 @@ def test_the_sensitivity_shares_are_called_rough_below_16_plans_per_bin():
     assert "8 plans per bin" in sensitivity_caveat(64)
     assert sensitivity_caveat(128) == ""
     assert sensitivity_caveat(4096) == ""
+
+
+def test_the_plans_own_total_outside_the_samples_range_is_explained():
+    """``plain_outside_words``: the plan with the inputs as given can lie outside P10-P90 when the sampled
+    inputs are not centred on them (the barge demo: heat-loss factor mode 1.2); inside it nothing is said."""
+    from planner.reports.uncertainty_text import plain_outside_words
+
+    odds = {"percentiles": {"total_time_s": {"p10": 3600.0 * 18.0, "p50": 3600.0 * 21.0, "p90": float("inf")}}}
+    assert "15.80 h, below the P10" in plain_outside_words(odds, 3600.0 * 15.8)
+    assert plain_outside_words(odds, 3600.0 * 19.0) == ""                      # inside (P90 beyond)
+    assert plain_outside_words(odds, None) == ""
+    odds["percentiles"]["total_time_s"]["p90"] = 3600.0 * 25.0
+    assert "above the P90" in plain_outside_words(odds, 3600.0 * 26.0, "US")

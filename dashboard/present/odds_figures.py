@@ -54,7 +54,7 @@ def fan_figure(odds: dict, system: str) -> go.Figure:
     return _layout(fig, f"The odds over time: P10–P90 band and P50 of {odds['samples']} sampled plans", 620)
 
 
-def total_time_figure(totals: list, odds: dict, system: str) -> go.Figure:
+def total_time_figure(totals: list, odds: dict, system: str, plain_total_s: float | None = None) -> go.Figure:
     """The total time (start-up + transfer) of each sample that finished as a histogram, with the planned
     window and the P50 and P90 marked; the samples that did not finish are counted in the title."""
     finite = np.asarray([v for v in totals if v is not None and math.isfinite(v)], dtype=float)
@@ -64,6 +64,8 @@ def total_time_figure(totals: list, odds: dict, system: str) -> go.Figure:
         fig.add_trace(go.Histogram(x=convert_array(finite, "time", system), nbinsx=min(40, max(8, len(finite) // 4)),
                                    marker_color=COLOURS["time"], name="samples", showlegend=False))
     marks = [("planned window", odds["planned_window_s"], COLOURS["limit"], "dash")]
+    if plain_total_s is not None and math.isfinite(plain_total_s):
+        marks.append(("this plan", plain_total_s, COLOURS["fit"], "dashdot"))
     levels = odds["percentiles"]["total_time_s"]
     marks += [(key.upper(), levels[key], COLOURS["points"], "dot") for key in ("p50", "p90")
               if levels.get(key) is not None and math.isfinite(levels[key])]

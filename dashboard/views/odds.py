@@ -12,6 +12,8 @@ from __future__ import annotations
 
 import streamlit as st
 
+from planner.reports.uncertainty_text import plain_outside_words, sensitivity_caveat
+
 from planner.scenario.schema import Scenario
 
 from dashboard.compute import cache as compute
@@ -28,7 +30,9 @@ CAUTION = ("The odds are as good as the distributions given (Inputs, or the defa
 
 
 def draw(page: Page) -> None:
-    odds_view(page.scenario, page.scenario_json if not page.stale else None, page.unit_system)
+    plan = page.results.plan if page.results is not None and not page.stale else {}   # the plan JSON (SI)
+    odds_view(page.scenario, page.scenario_json if not page.stale else None, page.unit_system,
+              plan.get("total_time_s"))
 
 
 def run_with_progress(kind: str, args: tuple, total: int, what: str) -> dict:
@@ -72,7 +76,8 @@ def refused(problems: list) -> bool:
     return bool(problems)
 
 
-def odds_view(scenario: Scenario | None, scenario_json: str | None, unit_system: str) -> None:
+def odds_view(scenario: Scenario | None, scenario_json: str | None, unit_system: str,
+              plain_total_s: float | None = None) -> None:
     if scenario is None or scenario_json is None:
         st.info("Fix the inputs first: the odds are worked out on a valid scenario.")
         return
@@ -91,11 +96,12 @@ def odds_view(scenario: Scenario | None, scenario_json: str | None, unit_system:
         return
     if saved["json"] != scenario_json:
         st.warning("The inputs have changed since these odds: press “Work out the odds” to run them again.")
-    odds_result(saved["result"], unit_system)
+    odds_result(saved["result"], unit_system, plain_total_s if saved["json"] == scenario_json else None)
 
 
-def odds_result(result: dict, unit_system: str) -> None:
-    """Finished odds: the chances, the range of the figures, the fan, the total time and the shares."""
+def odds_result(result: dict, unit_system: str, plain_total_s: float | None = None) -> None:
+    """Finished odds: the chances, the range of the figures, the fan, the total time and the shares;
+    ``plain_total_s``: the plan's own total time (the inputs as given), marked beside the samples'."""
     if "error" in result:
         st.error(escaped(result["error"]))
         return
@@ -106,9 +112,16 @@ def odds_result(result: dict, unit_system: str) -> None:
     box("  \n".join(escaped(line) for line in odds_tables.chance_lines(odds, unit_system)))
     st.markdown("#### P10 / P50 / P90")
     st.table(escaped_table(odds_tables.figures_frame(odds, unit_system)), hide_index=True)
-    st.plotly_chart(odds_figures.total_time_figure(result["total_time_s"], odds, unit_system), key="odds_total_chart")
+    st.plotly_chart(odds_figures.total_time_figure(result["total_time_s"], odds, unit_system, plain_total_s),
+                    key="odds_total_chart")
+    outside = plain_outside_words(odds, plain_total_s, unit_system)
+    if outside:
+        st.caption(escaped(outside[0].upper() + outside[1:] + "."))
     st.plotly_chart(odds_figures.fan_figure(odds, unit_system), key="odds_fan_chart")
     st.plotly_chart(odds_figures.sensitivity_figure(odds), key="odds_share_chart")
+    rough = sensitivity_caveat(odds["samples"])
+    if rough:
+        st.caption(escaped(f"The shares are {rough}."))
     with st.expander("Sampled inputs and the method"):
         st.table(escaped_table(odds_tables.inputs_frame(odds, unit_system)), hide_index=True)
         st.caption(escaped(odds["method"]))

@@ -243,8 +243,9 @@ def plan_text(plan: Plan, system: str = "SI", findings: list | None = None, odds
     lines += _energy_lines(plan, system)
     lines.append("")
     if odds is not None:
-        from planner.reports.uncertainty_text import odds_lines
+        from planner.reports.uncertainty_text import odds_lines, plain_outside_words
 
-        lines += odds_lines(odds, system) + [""]
+        outside = plain_outside_words(odds, plan.total_time_s, system)
+        lines += odds_lines(odds, system) + (["    note: " + outside] if outside else []) + [""]
     lines.append("  " + STANDING_CAUTION)
     return "\n".join(lines)

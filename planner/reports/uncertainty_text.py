@@ -123,6 +123,24 @@ def odds_lines(odds: dict, system: str = "SI") -> list[str]:
     return lines
 
 
+def plain_outside_words(odds: dict, plain_total_s: float | None, system: str = "SI") -> str:
+    """Why the plan's own total time (the inputs as given) lies outside the samples' P10-P90, or "" when it
+    lies inside (or either is not known)."""
+    levels = odds["percentiles"]["total_time_s"]
+    low, high = levels.get("p10"), levels.get("p90")
+    if plain_total_s is None or not math.isfinite(plain_total_s) or low is None or not math.isfinite(low):
+        return ""
+    if plain_total_s < low:
+        side = "below the P10"
+    elif high is not None and math.isfinite(high) and plain_total_s > high:
+        side = "above the P90"
+    else:
+        return ""
+    return (f"this plan, with the inputs as given, takes {value_text(plain_total_s, 'time', system)}, {side} of the "
+            "sampled plans: the sampled inputs are not centred on the given ones (e.g. a heat-loss factor whose "
+            "mode is above 1 for aged or wet insulation); see the sampled inputs")
+
+
 def odds_json(odds: dict) -> dict:
     """The ``uncertainty`` part of the plan JSON (SI; a percentile beyond the samples that finished is null
     and listed in ``beyond``; ``sensitivity_caveat`` says when the shares are rough, else null)."""
