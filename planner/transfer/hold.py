@@ -74,6 +74,29 @@ class Hold:
 
 
 def limit_temperature(transfer: TransferSystem) -> tuple[float, str]:
+    """The temperature [K] below which the line cannot restart, and why: the no-flow temperature or,
+    when higher, the temperature at which the product reaches ``schedule.limiting_viscosity``.
+
+    Examples
+    --------
+    The oil of ``scenario.examples`` made Andrade's exp(-10 + 3000 / T) [1] with a limiting viscosity
+    of 5 Pa s: T = 3000 / (ln 5 + 10) = 258.41 K, -14.74 degC (by hand), above its -40 degC no-flow:
+
+    >>> import copy
+    >>> from planner.scenario.examples import EXAMPLES
+    >>> from planner.scenario.schema import scenario_from_dict
+    >>> doc = copy.deepcopy(EXAMPLES["oil transfer"])
+    >>> doc["product"]["viscosity"]["coefficients"] = {"a": -10.0, "b": 3000.0}
+    >>> doc["schedule"]["limiting_viscosity"] = "5 Pa s"
+    >>> limit, reason = limit_temperature(TransferSystem(scenario_from_dict(doc)))
+    >>> from planner.scenario.wording import render
+    >>> round(limit - 273.15, 2), render(reason, "SI")
+    (-14.74, 'limiting viscosity 5,000.0 mPa·s')
+
+    References
+    ----------
+    [1] Andrade, E. N. da C., The viscosity of liquids, Nature 125 (1930) 309-310 [mem].
+    """
     product = transfer.product
     limit, reason = product.no_flow_temperature, "no-flow temperature"
     mu_limit = transfer.scenario.schedule.limiting_viscosity
