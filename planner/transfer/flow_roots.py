@@ -51,10 +51,10 @@ def flow_root(function, low: float, high: float) -> float:
     Examples
     --------
     A pump head 50 - 2e4 q^2 [m] meets a system head 10 + 3e4 q^2 at q = sqrt(40 / 5e4) = 0.028284 m^3/s
-    (by hand); the relative tolerance is 1e-5, so 5 significant digits:
+    (by hand); the relative tolerance is 1e-5, so 4 significant digits are shown:
 
-    >>> round(flow_root(lambda q: (10.0 + 3e4 * q * q) - (50.0 - 2e4 * q * q), 0.0, 0.05), 6)
-    0.028284
+    >>> round(flow_root(lambda q: (10.0 + 3e4 * q * q) - (50.0 - 2e4 * q * q), 0.0, 0.05), 5)
+    0.02828
 
     References
     ----------
