@@ -47,7 +47,20 @@ def _step(x_pre, f_pre, x_cur, f_cur, x_blk, f_blk, s_pre, s_bis, delta):
 
 
 def brentq(f, a: float, b: float, xtol: float = 2e-12, rtol: float = RTOL_MIN, maxiter: int = 100) -> float:
-    """A root of ``f`` in [a, b], where f(a) and f(b) differ in sign (either may be 0)."""
+    """A root of ``f`` in [a, b], where f(a) and f(b) differ in sign (either may be 0).
+
+    Examples
+    --------
+    The positive root of x^2 - 2 is sqrt(2) = 1.41421356237... (by hand); within xtol = 2e-12 of it,
+    so printed to 10 decimals:
+
+    >>> round(brentq(lambda x: x * x - 2.0, 0.0, 2.0), 10)
+    1.4142135624
+
+    References
+    ----------
+    [1] Brent, R. P., Algorithms for Minimization Without Derivatives, Prentice-Hall, 1973, chapter 4.
+    """
     if xtol <= 0:
         raise ValueError(f"xtol too small ({xtol:g} <= 0)")
     if rtol < RTOL_MIN:

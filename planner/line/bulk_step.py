@@ -50,7 +50,32 @@ def step_across_states(heater, t: float, local, dx: float, t_ambient: float, g: 
     """The bulk temperature after ``dx`` [m] from ``t`` [K] with the step's conductances frozen (``g``
     [W/(m K)] and ``viscous`` [W/m]: the step's G and S, those of ``local`` or predicted from them);
     ``heater`` the segment's (None or inactive: untraced); ``local`` the step's evaluation
-    (``coefficients.Coefficients``)."""
+    (``coefficients.Coefficients``).
+
+    Examples
+    --------
+    The oil line of ``scenario.examples`` at 5 m^3/h (m cp = 2500 W/K), untraced, product at 60 degC,
+    far from the entrance: G = 0.1955 W/(m K) and S = 10.36 W/m (Hagen-Poiseuille's drop times the
+    flow, see ``coefficients.evaluate``), so the product tends to T_eq' = 20 + S / G = 72.99 degC and
+    after 100 m is at 72.99 - 12.99 exp(-100 G / 2500) = 60.10 degC [1] (by hand); a step of any
+    length ends at T_eq', never beyond:
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> from planner.line.model import line_from_scenario
+    >>> from planner.line.coefficients import evaluate
+    >>> from planner.line.heat_path import WarmStart
+    >>> s = line_from_scenario(example_scenario("oil line")).constants[0]
+    >>> start = WarmStart(333.15); start.enter(s.path)
+    >>> c = evaluate(s, 1.25, start, 333.15, 1e5, 1e5 + 10.0, 50.0, False)
+    >>> [round(step_across_states(None, 333.15, c, dx, 293.15, c.conductance, c.viscous_heating) - 273.15, 2)
+    ...  for dx in (100.0, 1e6)]
+    [60.1, 72.99]
+
+    References
+    ----------
+    [1] Incropera, F. P., DeWitt, D. P., Fundamentals of Heat and Mass Transfer, Wiley, eq. 8.42b
+        (mean temperature of flow in a tube to surroundings at a uniform temperature).
+    """
     mcp = local.heat_capacity_rate
     t_end = advance(t, local.t_equilibrium, g, viscous, mcp, dx)
     if heater is None:

@@ -88,7 +88,30 @@ def evaluate(s: SegmentConstants, mass_flow: float, start: WarmStart, t_eval: fl
              at: float, full_step: bool) -> Coefficients:
     """Coefficients at bulk temperature ``t_eval`` [K] for the stretch [from_d, to_d] (distances from
     the thermal entrance over D), taken as at distance ``at`` [m]: hydraulics, then the film, wall
-    and jacket settled together.  ``full_step``: a step's midpoint (the warm start learns from it)."""
+    and jacket settled together.  ``full_step``: a step's midpoint (the warm start learns from it).
+
+    Examples
+    --------
+    The oil line of ``scenario.examples`` (1 Pa s, 900 kg/m^3; ID 52.48 mm [1]) at 5 m^3/h (1.25 kg/s),
+    far from the entrance (x/D = 1e5): Re = rho V D / mu = 30.33, the friction gradient is
+    Hagen-Poiseuille's 128 mu Q / (pi D^4) = 7460.2 Pa/m [2] and the viscous heating that gradient
+    times the flow, 10.36 W/m [3] (by hand):
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> from planner.line.model import line_from_scenario
+    >>> s = line_from_scenario(example_scenario("oil line")).constants[0]
+    >>> start = WarmStart(333.15); start.enter(s.path)
+    >>> c = evaluate(s, 1.25, start, 333.15, 1e5, 1e5 + 10.0, 50.0, False)
+    >>> round(c.reynolds, 2), round(c.grad_friction, 1), round(c.viscous_heating, 2)
+    (30.33, 7460.2, 10.36)
+
+    References
+    ----------
+    [1] ASME B36.10M, Welded and Seamless Wrought Steel Pipe (via fluids 1.3.1, fluids.piping).
+    [2] White, F. M., Fluid Mechanics, McGraw-Hill, section 6.4 (Hagen-Poiseuille flow).
+    [3] Bird, R. B., Stewart, W. E., Lightfoot, E. N., Transport Phenomena, 2nd ed., Wiley, 2002,
+        section 11.4 (viscous dissipation).
+    """
     d = s.diameter
     rho = s.density(t_eval)
     velocity = mass_flow / (rho * s.area)
@@ -134,7 +157,29 @@ def entrance_mean_conductance(g: float, h_in: float, nu_step: float, pe: float, 
     in series with the rest of the path (wall, insulation, air), so the mean of the series
     conductance is not the conductance of the mean film.  The step is cut into geometric pieces
     (exact mean film of each from the entrance correlation), each piece's conductance taken with
-    the rest of the path as solved, and the conductances averaged by length."""
+    the rest of the path as solved, and the conductances averaged by length.
+
+    Examples
+    --------
+    The first 10 diameters of a laminar entrance (Pe = Re Pr = 4e5, D = 52.48 mm, k = 0.13 W/(m K)),
+    the rest of the path 0.5 K m/W (a bare line): the conductance of the mean film is 1.835 W/(m K);
+    the length-mean of the series conductance is lower (it is concave in the film: Jensen's
+    inequality), 1.818 W/(m K), within 0.1 % of a 4000-piece geometric sum of the same local film [1]
+    (1.817, by a short script):
+
+    >>> from planner.correlations.heat_transfer import nu_laminar_local_over
+    >>> d, pe, r_rest = 0.05248, 4.0e5, 0.5
+    >>> nu = nu_laminar_local_over(0.0, 10.0 / pe)
+    >>> h = nu * 0.13 / d
+    >>> g = 1.0 / (1.0 / (h * math.pi * d) + r_rest)
+    >>> round(g, 3), round(entrance_mean_conductance(g, h, nu, pe, 0.0, 10.0, d), 3)
+    (1.835, 1.818)
+
+    References
+    ----------
+    [1] Shah, R. K., London, A. L., Laminar Flow Forced Convection in Ducts, Academic Press, 1978
+        (thermal entrance of a circular duct) [mem]; the film's law is ``heat_transfer``'s.
+    """
     r_film = 1.0 / (h_in * PI * d)
     r_rest = 1.0 / g - r_film
     if r_rest <= 1e-3 * r_film or r_rest >= 20.0 * r_film:

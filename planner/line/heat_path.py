@@ -25,6 +25,28 @@ The surface coefficient (air properties, natural and forced convection, radiatio
 part; a ``HeatPath`` keeps it by jacket temperature on a 0.25 K grid (``SURFACE_GRID_PER_K``),
 computed at the grid points themselves and interpolated linearly between them, so that a value never
 depends on what was asked before.
+
+Examples
+--------
+``settle`` (its example is here: the function is at the 80-line limit).  The oil line of
+``scenario.examples`` (untraced, 20 degC air), product at 60 degC behind a fixed inner conductance of
+1 W/(m K): at the settled wall node the heat in through the film equals the heat out, and both equal
+(T_bulk - T_amb) / (1 / G_in + 1 / G_out) = 7.35 W/m with the G_out it settles at (an energy balance
+of the series path [1], by hand):
+
+>>> from planner.scenario.examples import example_scenario
+>>> from planner.line.route import build_line
+>>> scenario = example_scenario("oil line")
+>>> path = HeatPath(build_line(scenario.route, scenario.site)[0], None)
+>>> start = WarmStart(333.15); start.enter(path)
+>>> wall, g_in, g_out, q_out, h_in, ratio = settle(path, start, 333.15, 0.0, 0.0, None, 1.0)
+>>> round(q_out, 2), round(g_in * (333.15 - wall.t_wall), 2), round(40.0 / (1.0 / g_in + 1.0 / g_out), 2)
+(7.35, 7.35, 7.35)
+
+References
+----------
+[1] Incropera, F. P., DeWitt, D. P., Fundamentals of Heat and Mass Transfer, Wiley, section 3.3
+    (radial systems, resistances in series).
 """
 
 from __future__ import annotations
@@ -228,7 +250,26 @@ def entrance_jacket(path: HeatPath, t_bulk: float) -> float:
     jacket's highest value near the entrance, whatever the grid.  A step's midpoint only approaches
     it as the first step shrinks (the barge demo's inlet: 35 °C at a 4 m first step, 49 °C at 6 cm);
     taken here, the hottest jacket, and the touch check on it, no longer depend on the step.  Kept
-    by bulk temperature on a 0.01 K grid (``ENTRANCE_GRID_PER_K``)."""
+    by bulk temperature on a 0.01 K grid (``ENTRANCE_GRID_PER_K``).
+
+    Examples
+    --------
+    The oil line of ``scenario.examples``, product at 60 degC: with no film, the wall is the product's
+    temperature less the steel's 4.9e-4 K m/W times 9 W/m (0.004 K), so the jacket is that of
+    ``jacket_temperature`` at a 60 degC wall, 24.8 degC (the series path [1]):
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> from planner.line.route import build_line
+    >>> scenario = example_scenario("oil line")
+    >>> seg = build_line(scenario.route, scenario.site)[0]
+    >>> entrance = entrance_jacket(HeatPath(seg, None), 333.15)
+    >>> round(entrance - 273.15, 1), round(jacket_temperature(seg, 333.15)[0] - 273.15, 1)
+    (24.8, 24.8)
+
+    References
+    ----------
+    [1] Incropera, F. P., DeWitt, D. P., Fundamentals of Heat and Mass Transfer, Wiley, section 3.3.
+    """
     key = round(t_bulk * ENTRANCE_GRID_PER_K)
     value = path._entrance.get(key)
     if value is None:
@@ -290,7 +331,16 @@ def _fresh_start(path: HeatPath, t: float) -> WarmStart:
 
 def wall_viscosity(viscosity, t_wall: float) -> float:
     """Viscosity at the wall temperature; beyond the law's domain (a VFT law below its c, a value out
-    of floating-point range) the wall counts as set: infinitely viscous (the ratio is then bounded)."""
+    of floating-point range) the wall counts as set: infinitely viscous (the ratio is then bounded).
+
+    Examples
+    --------
+    The law's value where it has one; an Arrhenius-like law exp(1e4 / T) at 1 K overflows a float
+    (e^10000), so the wall counts as set:
+
+    >>> wall_viscosity(lambda t: 1.0, 300.0), wall_viscosity(lambda t: math.exp(1e4 / t), 1.0)
+    (1.0, inf)
+    """
     try:
         return viscosity(t_wall)
     except (ValueError, OverflowError):

@@ -266,7 +266,30 @@ def march_plugged(head: Line, tail: Line, mass_flow: float, t_warm: float, t_col
                   step: float = DEFAULT_STEP_M) -> MarchResult:
     """A line holding a cold plug: the warm ``head`` (product from the pump at ``t_warm`` [K]) then the
     cold ``tail`` (line contents at ``t_cold`` [K]), each marched at ``mass_flow`` [kg/s]; the summary
-    is the tail's with the two lines' drops, powers and losses added (no profiles kept)."""
+    is the tail's with the two lines' drops, powers and losses added (no profiles kept).
+
+    Examples
+    --------
+    The oil line of ``scenario.examples`` (1 Pa s at every temperature, ID 52.48 mm [1]) cut at 40 m
+    (``transfer.startup.split_segments``), 40 degC head and 10 degC tail, at 1.25 kg/s: the viscosity
+    does not change with temperature, so the drop is the whole line's Hagen-Poiseuille 7.460 bar [2]
+    plus the developing entrance of each part, 2 x 1.25 velocity heads = 2 x 0.0023 bar [3] (by hand):
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> from planner.line.model import line_from_scenario
+    >>> from planner.transfer.startup import split_segments
+    >>> line = line_from_scenario(example_scenario("oil line"))
+    >>> head, tail = (Line(part, line.product, line.tracing) for part in split_segments(line.segments, 40.0))
+    >>> round(march_plugged(head, tail, 1.25, 313.15, 283.15).summary.pressure_drop_pa / 1e5, 3)
+    7.465
+
+    References
+    ----------
+    [1] ASME B36.10M, Welded and Seamless Wrought Steel Pipe (via fluids 1.3.1, fluids.piping).
+    [2] White, F. M., Fluid Mechanics, McGraw-Hill, section 6.4 (Hagen-Poiseuille flow).
+    [3] Shah, R. K., London, A. L., Laminar Flow Forced Convection in Ducts, Academic Press, 1978
+        (incremental pressure drop of the hydrodynamic entrance, K(inf) = 1.25) [mem].
+    """
     density = tail.product.density
     cold = march(tail, mass_flow / density(t_cold), t_cold, 0.0, step=step, record=False)
     if not head.segments:

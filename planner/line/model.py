@@ -11,6 +11,22 @@ from planner.scenario.wording import Q, Sentence
 
 
 def line_from_scenario(scenario: Scenario) -> Line:
+    """The scenario's route, product and heating as a ``Line`` (with the ``[calibration]`` factors).
+
+    Examples
+    --------
+    The oil line of ``scenario.examples``: one untraced segment of 100 m of NPS 2 Sch 40, inside
+    diameter 52.48 mm [1]:
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> line = line_from_scenario(example_scenario("oil line"))
+    >>> line.length, len(line.segments), line.heaters[0].active, round(line.segments[0].inside_diameter * 1000, 2)
+    (100.0, 1, False, 52.48)
+
+    References
+    ----------
+    [1] ASME B36.10M, Welded and Seamless Wrought Steel Pipe (via fluids 1.3.1, fluids.piping).
+    """
     product = scenario_product(scenario)
     segments = build_line(scenario.route, scenario.site, calibration_of(scenario).heat_loss_factor)
     return Line(segments, product, scenario.tracing)

@@ -216,7 +216,28 @@ def gap_warmup(seg: LineSegment, product: Product, gap_m: float, t_start: float,
 
 def gap_centre_after(seg: LineSegment, product: Product, gap_m: float, t_start: float, t_ends: float,
                      time_s: float) -> float:
-    """The centre temperature [K] of the gap ``time_s`` seconds after its ends were set to ``t_ends``."""
+    """The centre temperature [K] of the gap ``time_s`` seconds after its ends were set to ``t_ends``.
+
+    Examples
+    --------
+    The 2 m gap of ``gap_warmup``'s example (oil line, contents at the 20 degC ambient, ends at
+    60 degC): after an hour the warmth has spread only sqrt(alpha t) = 0.13 m along it (alpha =
+    kA / C = 0.03145 / 6558 = 4.8e-6 m^2/s), so the centre is still at 20.0 degC; after 30 days it
+    has settled at the fin's 25.6 degC [1] (by hand, see ``gap_warmup``):
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> from planner.line.route import build_line
+    >>> from planner.line.products import scenario_product
+    >>> scenario = example_scenario("oil line")
+    >>> seg, product = build_line(scenario.route, scenario.site)[0], scenario_product(scenario)
+    >>> [round(gap_centre_after(seg, product, 2.0, 293.15, 333.15, t) - 273.15, 1) for t in (3600.0, 30 * 86400.0)]
+    [20.0, 25.6]
+
+    References
+    ----------
+    [1] Incropera, F. P., DeWitt, D. P., Fundamentals of Heat and Mass Transfer, Wiley, section 3.6
+        (fin with both ends at a prescribed temperature) and section 5.2 (diffusion length).
+    """
     return _gap_model(seg, product, gap_m, t_start, t_ends)[1](time_s)
 
 

@@ -20,7 +20,21 @@ def with_changes(scenario: Scenario, setpoint: float | None = None, steam_pressu
     """A validated copy of the scenario with levers moved (SI arguments: K, Pa gauge, rev/s, m3/s;
     ``ambient_shift`` in K added to every ambient temperature, the weather table's and the design day's
     too; ``wind_factor`` multiplies every wind speed).  The copy's fields are assigned as SI floats and
-    checked against the same ranges as a scenario file's."""
+    checked against the same ranges as a scenario file's.
+
+    Examples
+    --------
+    The oil transfer of ``scenario.examples`` with a 60 degC setpoint and 10 K colder air; the
+    scenario itself keeps its 45 degC:
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> scenario = example_scenario("oil transfer")
+    >>> changed = with_changes(scenario, setpoint=333.15, ambient_shift=-10.0)
+    >>> round(changed.tracing.setpoint - 273.15, 2), round(changed.site.ambient_temperature - 273.15, 2)
+    (60.0, 10.0)
+    >>> round(scenario.tracing.setpoint - 273.15, 2)
+    45.0
+    """
     changed = scenario.model_copy(deep=True)
     if (pump_speed is not None or flow_limit is not None) and changed.pump is None:
         raise ScenarioError([("pump", "the scenario has no pump: its speed or flow cannot be changed")])
@@ -58,7 +72,21 @@ def _scale_winds(scenario: Scenario, factor: float) -> None:
 
 
 def assign_field(model, path: str, name: str, value) -> None:
-    """Set one field of a scenario section, validated; a bad value raises ScenarioError naming its path."""
+    """Set one field of a scenario section, validated; a bad value raises ScenarioError naming its path.
+
+    Examples
+    --------
+    A setpoint of 5000 K (an SI value, ``quantities.SI``) is past the schema's 773.15 K (500 degC)
+    ceiling:
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> scenario = example_scenario("oil transfer")
+    >>> assign_field(scenario.tracing, "tracing", "setpoint", SI(5000.0))
+    Traceback (most recent call last):
+    ...
+    planner.errors.ScenarioError: scenario is not valid:
+      Setpoint (tracing.setpoint): 5000 K is out of range: must be at most 773.15 K
+    """
     try:
         setattr(model, name, value)
     except ValidationError as exc:

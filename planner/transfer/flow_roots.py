@@ -16,7 +16,19 @@ GUESS_TOLERANCE = 1e-4
 
 def bracket_down(function, high: float, guess: float | None):
     """Find [a, b] with function(a) < 0 <= function(b), b <= high, searching down from ``high``
-    (first in a narrow band around a guess).  None when no sign change is found down to a trickle."""
+    (first in a narrow band around a guess).  None when no sign change is found down to a trickle.
+
+    Examples
+    --------
+    For f(q) = q - 0.3 from 1.0: 0.6 and 0.36 are still above the root, 0.216 = 0.6^3 below it; a
+    guess of 0.305 brackets it at once in its +-3 % band (by hand); a function below zero at the top
+    has no bracket:
+
+    >>> [tuple(round(v, 5) for v in bracket_down(lambda q: q - 0.3, 1.0, g)) for g in (None, 0.305)]
+    [(0.216, 0.36), (0.29585, 0.31415)]
+    >>> bracket_down(lambda q: q - 2.0, 1.0, None) is None
+    True
+    """
     if function(high) < 0.0:
         return None
     if guess is not None and 0.0 < guess < high:
@@ -34,7 +46,20 @@ def bracket_down(function, high: float, guess: float | None):
 
 
 def flow_root(function, low: float, high: float) -> float:
-    """Root of a function changing sign on [low, high] (Brent's method; values are cached by the caller)."""
+    """Root of a function changing sign on [low, high] (Brent's method; values are cached by the caller).
+
+    Examples
+    --------
+    A pump head 50 - 2e4 q^2 [m] meets a system head 10 + 3e4 q^2 at q = sqrt(40 / 5e4) = 0.028284 m^3/s
+    (by hand); the relative tolerance is 1e-5, so 4 significant digits are shown:
+
+    >>> round(flow_root(lambda q: (10.0 + 3e4 * q * q) - (50.0 - 2e4 * q * q), 0.0, 0.05), 5)
+    0.02828
+
+    References
+    ----------
+    [1] Brent, R. P., Algorithms for Minimization Without Derivatives, Prentice-Hall, 1973, chapter 4.
+    """
     if low == high:
         return low
     return brentq(function, low, high, xtol=1e-9, rtol=1e-5, maxiter=100)

@@ -13,14 +13,8 @@ The oil transfer of ``scenario.examples`` (the oil line, ID 52.48 mm [1], traced
 40 degC into the top of a tank).
 Stopped for an hour with the line at 40 degC and the tracing failed, a lumped metre [2] cools as
 20 + 20 exp(-3600 U / C) = 37.70 degC (U = 0.2226 W/(m K) of the reference recipe at 20 K,
-C = 6558 J/(m K): see ``heat_path.jacket_temperature``); it never reaches the no-flow -40 degC:
-
->>> from planner.scenario.examples import example_scenario
->>> scenario = example_scenario("oil transfer")
->>> from planner.transfer.system import TransferSystem
->>> stop = hold_analysis(TransferSystem(scenario), {("discharge", 0): 313.15})
->>> round(stop.segments[0].after_stop_failed_k - 273.15, 1), stop.time_to_limit_failed_s
-(37.7, None)
+C = 6558 J/(m K): see ``heat_path.jacket_temperature``); it never reaches the no-flow -40 degC
+(the example of ``hold_analysis`` checks it).
 
 References
 ----------
@@ -74,6 +68,29 @@ class Hold:
 
 
 def limit_temperature(transfer: TransferSystem) -> tuple[float, str]:
+    """The temperature [K] below which the line cannot restart, and why: the no-flow temperature or,
+    when higher, the temperature at which the product reaches ``schedule.limiting_viscosity``.
+
+    Examples
+    --------
+    The oil of ``scenario.examples`` made Andrade's exp(-10 + 3000 / T) [1] with a limiting viscosity
+    of 5 Pa s: T = 3000 / (ln 5 + 10) = 258.41 K, -14.74 degC (by hand), above its -40 degC no-flow:
+
+    >>> import copy
+    >>> from planner.scenario.examples import EXAMPLES
+    >>> from planner.scenario.schema import scenario_from_dict
+    >>> doc = copy.deepcopy(EXAMPLES["oil transfer"])
+    >>> doc["product"]["viscosity"]["coefficients"] = {"a": -10.0, "b": 3000.0}
+    >>> doc["schedule"]["limiting_viscosity"] = "5 Pa s"
+    >>> limit, reason = limit_temperature(TransferSystem(scenario_from_dict(doc)))
+    >>> from planner.scenario.wording import render
+    >>> round(limit - 273.15, 2), render(reason, "SI")
+    (-14.74, 'limiting viscosity 5,000.0 mPa·s')
+
+    References
+    ----------
+    [1] Andrade, E. N. da C., The viscosity of liquids, Nature 125 (1930) 309-310 [mem].
+    """
     product = transfer.product
     limit, reason = product.no_flow_temperature, "no-flow temperature"
     mu_limit = transfer.scenario.schedule.limiting_viscosity
@@ -92,7 +109,17 @@ def limit_temperature(transfer: TransferSystem) -> tuple[float, str]:
 
 
 def hold_analysis(transfer: TransferSystem, running_temperatures: dict[tuple[str, int], float]) -> Hold:
-    """``running_temperatures`` maps (line name, segment index) to the contents' temperature at the stop."""
+    """``running_temperatures`` maps (line name, segment index) to the contents' temperature at the stop.
+
+    Examples
+    --------
+    The oil transfer stopped an hour at 40 degC, tracing failed: 37.70 degC (the module docstring [2]):
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> stop = hold_analysis(TransferSystem(example_scenario("oil transfer")), {("discharge", 0): 313.15})
+    >>> round(stop.segments[0].after_stop_failed_k - 273.15, 1), stop.time_to_limit_failed_s
+    (37.7, None)
+    """
     limit, reason = limit_temperature(transfer)
     stop = transfer.scenario.schedule.stop_duration
     product = transfer.product

@@ -10,13 +10,7 @@ The oil transfer of ``scenario.examples`` (the oil line, ID 52.48 mm [1], traced
 40 degC into the top of a tank).
 Pushing the cold contents out starts at once at the pump's 4.5 m^3/h, so the whole transfer is the
 10 h that 45 m^3 take, and the pump's energy is the 37.7 MJ worked out by hand in
-``transfer.timeline`` (Hagen-Poiseuille [2] and hydrostatics):
-
->>> from planner.scenario.examples import example_scenario
->>> scenario = example_scenario("oil transfer")
->>> plan = make_plan(scenario)
->>> round(plan.total_time_s / 3600, 3), round(plan.energy.pump_j / 1e6, 1)
-(10.0, 37.7)
+``transfer.timeline`` (Hagen-Poiseuille [2] and hydrostatics); ``make_plan``'s example checks both.
 
 References
 ----------
@@ -198,7 +192,17 @@ def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | No
     """The whole plan.  ``both_startups=False`` works out only the scenario's chosen start-up mode
     (comparisons); the other option is then marked as not evaluated.  ``march_step`` [m]: the
     longest step of every march of the plan (the grid test makes it finer).  With a ``[weather]``
-    section the start-up, the timeline and the stop follow the weather (``transfer.weather``)."""
+    section the start-up, the timeline and the stop follow the weather (``transfer.weather``).
+
+    Examples
+    --------
+    The oil transfer: 10 h and 37.7 MJ of pump energy (the module docstring, by hand):
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> plan = make_plan(example_scenario("oil transfer"))
+    >>> round(plan.total_time_s / 3600, 3), round(plan.energy.pump_j / 1e6, 1)
+    (10.0, 37.7)
+    """
     product = scenario_product(scenario, viscosity_factor=viscosity_factor)   # with the [calibration] factor
     base = TransferSystem(scenario, product=product, step=march_step)
     source = scenario.source

@@ -113,7 +113,25 @@ def _positive_displacement(plan, system, state: SystemState) -> PumpChart:
 
 
 def pump_chart(plan) -> PumpChart | None:
-    """The pump chart at the start of ``plan`` (``transfer.plan.Plan``); None without a system."""
+    """The pump chart at the start of ``plan`` (``transfer.plan.Plan``); None without a system.
+
+    Examples
+    --------
+    The oil transfer of ``scenario.examples``: a PD pump without slip delivers its 4.5 m^3/h against
+    the line's Hagen-Poiseuille 6.714 bar [1] plus the entrance's 0.002 bar, less the 3.056 m of oil
+    over the tank outlet (0.270 bar): 6.446 bar (by hand, see ``transfer.timeline``):
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> from planner.transfer.plan import make_plan
+    >>> chart = pump_chart(make_plan(example_scenario("oil transfer")))
+    >>> chart.kind, round(chart.operating_flow_m3_s * 3600, 3), round(chart.operating_value / 1e5, 3)
+    ('positive_displacement', 4.5, 6.446)
+
+    References
+    ----------
+    [1] White, F. M., Fluid Mechanics, McGraw-Hill, section 6.4 (Hagen-Poiseuille flow) and
+        chapter 2 (hydrostatics).
+    """
     system = plan.system
     if system is None:
         return None

@@ -36,7 +36,18 @@ from planner.transfer.pump_pd import PositiveDisplacementPump
 
 
 def build_pump(spec, slip_factor: float = 1.0):
-    """The pump of a ``PumpSpec``; ``slip_factor`` (the scenario's ``[calibration]``) multiplies PD slip."""
+    """The pump of a ``PumpSpec``; ``slip_factor`` (the scenario's ``[calibration]``) multiplies PD slip.
+
+    Examples
+    --------
+    The PD pump of ``scenario.examples``' oil transfer: 0.25 L/rev at 300 rpm displaces
+    0.25e-3 x 5 x 3600 = 4.5 m^3/h (by hand):
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> pump = build_pump(example_scenario("oil transfer").pump)
+    >>> type(pump).__name__, round(pump.theoretical_flow(300.0 / 60.0) * 3600.0, 6)
+    ('PositiveDisplacementPump', 4.5)
+    """
     if spec.kind == "positive_displacement":
         return PositiveDisplacementPump(
             displacement_m3_per_rev=spec.displacement, speed_rev_s=spec.speed,

@@ -18,16 +18,8 @@ Pre-warm from 10 degC to the setpoint less the 1 K margin (44 degC): a lumped me
 C = 6558 J/(m K) (``transients.heat_capacity_per_metre``), the heater's 100 W/m and the loss of the
 reference recipe (U = 0.2262 W/(m K), see ``heat_path.jacket_temperature``) takes
 (C/U) ln((100 + 10 U) / (100 - 24 U)) = 2267 s, 37.8 min (by hand); pushing the cold contents
-out, the warm front reaches the destination after a line volume, 0.2163 m^3 / 1.25e-3 m^3/s = 173 s:
-
->>> from planner.scenario.examples import example_scenario
->>> scenario = example_scenario("oil transfer")
->>> from planner.transfer.system import TransferSystem
->>> system = TransferSystem(scenario)
->>> round(prewarm(system, 283.15).time_s / 60, 1)
-37.8
->>> round(push_cold(system, 283.15).front_time_s)
-173
+out, the warm front reaches the destination after a line volume, 0.2163 m^3 / 1.25e-3 m^3/s = 173 s
+(the examples of ``prewarm`` and ``push_cold`` check both).
 
 References
 ----------
@@ -83,6 +75,17 @@ class Prewarm:
 
 
 def prewarm_target(system: TransferSystem) -> float | None:
+    """The temperature [K] a pre-warm aims at: the setpoint less the margin; for steam without one, the
+    source's temperature (at most 5 K under the steam's) less the margin; None untraced.
+
+    Examples
+    --------
+    The oil transfer of ``scenario.examples`` (setpoint 45 degC): 45 - 1 = 44 degC:
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> round(prewarm_target(TransferSystem(example_scenario("oil transfer"))) - 273.15, 2)
+    44.0
+    """
     tracing = system.tracing
     if tracing.kind == "none":
         return None
@@ -150,6 +153,16 @@ def _gap_entry(result: Prewarm, name: str, seg, product, start: float, ends: flo
 
 
 def prewarm(system: TransferSystem, start_temperature: float) -> Prewarm:
+    """Pre-warm from ``start_temperature`` [K]: each traced segment's metre brought to the target.
+
+    Examples
+    --------
+    The oil transfer from 10 degC: 37.8 min by hand (the lumped metre of the module docstring [3]):
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> round(prewarm(TransferSystem(example_scenario("oil transfer")), 283.15).time_s / 60, 1)
+    37.8
+    """
     target = prewarm_target(system)
     if target is None:
         if start_temperature >= system.source.temperature - PREWARM_MARGIN_K:
@@ -210,7 +223,17 @@ def _prewarm_messages(result: Prewarm, target: float, no_flow: float) -> None:
 
 def split_segments(segments: list[LineSegment], x: float) -> tuple[list[LineSegment], list[LineSegment]]:
     """Split a route at distance ``x``: (segments before, segments after), cutting one segment
-    in two with its fittings and rise shared in proportion to length."""
+    in two with its fittings and rise shared in proportion to length.
+
+    Examples
+    --------
+    The 100 m oil line of ``scenario.examples`` cut at 40 m:
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> head, tail = split_segments(TransferSystem(example_scenario("oil transfer")).discharge_line.segments, 40.0)
+    >>> [s.length for s in head], [s.length for s in tail], tail[0].x_start
+    ([40.0], [60.0], 40.0)
+    """
     head, tail = [], []
     for seg in segments:
         if seg.x_end <= x + 1e-9:
@@ -256,6 +279,16 @@ def _front_position(segments: list[LineSegment], displaced_volume: float) -> flo
 
 
 def push_cold(system: TransferSystem, start_temperature: float, positions: int = 8) -> PushCold:
+    """Push the cold contents (at ``start_temperature`` [K]) out, at ``positions`` fronts along the line.
+
+    Examples
+    --------
+    The oil transfer: the front arrives after a line volume, 0.2163 / 1.25e-3 = 173 s (by hand):
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> round(push_cold(TransferSystem(example_scenario("oil transfer")), 283.15).front_time_s)
+    173
+    """
     product = system.product
     state0 = SystemState(start_temperature, system.source.initial_volume)
     if start_temperature <= product.no_flow_temperature:

@@ -18,7 +18,30 @@ from planner.transfer.operating import OperatingPoint, SystemState
 def check_suction(system, op: OperatingPoint, state: SystemState) -> None:
     """Set ``op``'s NPSH required; where the NPSH available falls short, flag ``suction_starved`` and set
     the highest flow the suction allows (``npsh_limited_flow``, 0 when none).  ``system``: the
-    ``TransferSystem``."""
+    ``TransferSystem``.
+
+    Examples
+    --------
+    The oil transfer of ``scenario.examples`` has no suction line, so its NPSH available is 14.42 m
+    at any flow (``npsh_available``): a pump needing 20 m is starved at every flow, down to none:
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> from planner.transfer.system import TransferSystem
+    >>> state = SystemState(313.15, 60.0)
+    >>> op = TransferSystem(example_scenario("oil transfer")).operating_point(state)
+    >>> op.flags, op.npsh_required
+    ([], 3.0)
+    >>> hungry = example_scenario("oil transfer")
+    >>> hungry.pump.npsh_required = "20 m"
+    >>> check_suction(TransferSystem(hungry), op, state)
+    >>> op.flags, op.npsh_required, op.npsh_limited_flow
+    (['suction_starved'], 20.0, 0.0)
+
+    References
+    ----------
+    [1] ANSI/HI 9.6.1, Rotodynamic Pumps - Guideline for NPSH Margin (NPSH available against
+        required) [mem].
+    """
     npsh_r = system.npsh_required(op.flow)
     op.npsh_required = npsh_r
     if op.point.npsh_available >= npsh_r:
@@ -36,7 +59,25 @@ def check_suction(system, op: OperatingPoint, state: SystemState) -> None:
 
 
 def npsh_available(system, flow: float, state: SystemState) -> float:
-    """NPSH available [m] at the pump inlet at ``flow`` [m3/s] in ``state``."""
+    """NPSH available [m] at the pump inlet at ``flow`` [m3/s] in ``state``.
+
+    Examples
+    --------
+    The oil transfer of ``scenario.examples``: no suction line, 60 m^3 in a 5 m tank stand
+    60 / (pi 2.5^2) = 3.0558 m over the outlet, so with the oil's 1 kPa vapour pressure
+    NPSHa = (101325 + 900 g 3.0558 - 1000) / (900 g) = 14.42 m (by hand, g = 9.80665 m/s^2 [1]):
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> from planner.transfer.system import TransferSystem
+    >>> system = TransferSystem(example_scenario("oil transfer"))
+    >>> round(npsh_available(system, 1.25e-3, SystemState(313.15, 60.0)), 2)
+    14.42
+
+    References
+    ----------
+    [1] ANSI/HI 9.6.1, Rotodynamic Pumps - Guideline for NPSH Margin (definition of NPSH available)
+        [mem].
+    """
     product = system.product
     p_source = system.source_pressure(state)
     if system.suction_line is None:

@@ -12,14 +12,7 @@ The oil transfer of ``scenario.examples`` (the oil line, ID 52.48 mm [1], traced
 40 degC into the top of a tank).
 At a constant 4.5 m^3/h the 45 m^3 take 10 h; the pump differential is the line's 6.714 bar [2] less
 the tank's head, which falls from 3.056 m to 0.764 m (mean 16.86 kPa), so the motor draws
-1.25e-3 x 6.546e5 / (0.85 x 0.92) = 1046 W for 10 h: 37.7 MJ (by hand):
-
->>> from planner.scenario.examples import example_scenario
->>> scenario = example_scenario("oil transfer")
->>> from planner.transfer.system import TransferSystem
->>> timeline = run_transfer(TransferSystem(scenario))
->>> round(timeline.total_time_s / 3600, 3), round(timeline.moved_m3, 6), round(timeline.pump_energy_j / 1e6, 1)
-(10.0, 45.0, 37.7)
+1.25e-3 x 6.546e5 / (0.85 x 0.92) = 1046 W for 10 h: 37.7 MJ (by hand; ``run_transfer``'s example).
 
 References
 ----------
@@ -77,7 +70,17 @@ def run_transfer(system: TransferSystem, steps: int | None = None, first_guess: 
                  weather=None, clock_s: float = 0.0) -> Timeline:
     """``weather`` (``transfer.weather.WeatherProfile``): each increment's operating point, tracing power and
     source cooling at the ambient and wind of its start, ``clock_s`` + the time so far from the plan's
-    start; None: the site's ambient throughout."""
+    start; None: the site's ambient throughout.
+
+    Examples
+    --------
+    The oil transfer: 45 m^3 in 10 h, 37.7 MJ to the pump's motor (the module docstring, by hand):
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> timeline = run_transfer(TransferSystem(example_scenario("oil transfer")))
+    >>> round(timeline.total_time_s / 3600, 3), round(timeline.moved_m3, 6), round(timeline.pump_energy_j / 1e6, 1)
+    (10.0, 45.0, 37.7)
+    """
     scenario = system.scenario
     source = scenario.source
     product = system.product

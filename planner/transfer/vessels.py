@@ -157,7 +157,24 @@ class SourceHeating:
 
 
 def coil_steam_pressure(scenario: Scenario) -> float:
-    """Gauge supply pressure of the source's steam coils [Pa]."""
+    """Gauge supply pressure of the source's steam coils [Pa].
+
+    Examples
+    --------
+    The oil transfer of ``scenario.examples`` is traced electrically and gives no coil pressure, so
+    the coils take the assumed 3.5 bar(g): 4.513 bar absolute, where water boils at 148.0 degC
+    (IAPWS-IF97 [1]; steam tables give 147.90 degC at 4.5 bar and 150.28 degC at 4.75 bar [mem]):
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> pressure = coil_steam_pressure(example_scenario("oil transfer"))
+    >>> pressure, round(saturation_temperature_gauge(pressure) - 273.15, 1)
+    (350000.0, 148.0)
+
+    References
+    ----------
+    [1] Wagner, W., et al., The IAPWS Industrial Formulation 1997 for the Thermodynamic Properties of
+        Water and Steam, J. Eng. Gas Turbines Power 122 (2000) 150-182 (region 4, saturation line).
+    """
     source = scenario.source
     if source is not None and source.heating_steam_pressure is not None:
         return source.heating_steam_pressure

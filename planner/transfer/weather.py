@@ -124,7 +124,24 @@ class WeatherProfile:
 
 
 def weather_profile(scenario: Scenario) -> WeatherProfile | None:
-    """The scenario's weather (None without a ``[weather]`` section: the one site ambient)."""
+    """The scenario's weather (None without a ``[weather]`` section: the one site ambient).
+
+    Examples
+    --------
+    The oil transfer of ``scenario.examples`` (still air) with a table: -3 degC 12 h before the start,
+    2 degC at it, 8 degC and 4 m/s 6 h after; 3 h in, half way to the last row, the air is at 5 degC
+    and 2 m/s (linear interpolation, by hand; a row without wind takes the site's 0 m/s):
+
+    >>> import copy
+    >>> from planner.scenario.examples import EXAMPLES
+    >>> from planner.scenario.schema import scenario_from_dict
+    >>> doc = copy.deepcopy(EXAMPLES["oil transfer"])
+    >>> doc["weather"] = {"hours": [{"time": -12, "ambient_temperature": -3.0}, {"time": 0, "ambient_temperature": 2.0},
+    ...                             {"time": 6, "ambient_temperature": 8.0, "wind_speed": 4.0}]}
+    >>> profile = weather_profile(scenario_from_dict(doc))
+    >>> [round(v, 2) for v in profile.at(3 * 3600.0)]
+    [278.15, 2.0]
+    """
     weather = scenario.weather
     if weather is None:
         return None
@@ -143,13 +160,42 @@ def weather_profile(scenario: Scenario) -> WeatherProfile | None:
 
 def line_start_default(profile: WeatherProfile) -> float:
     """The contents' temperature at the start when ``schedule.line_start_temperature`` is not given: the
-    lowest ambient of the day before the start (the contents stood in the line overnight)."""
+    lowest ambient of the day before the start (the contents stood in the line overnight).
+
+    Examples
+    --------
+    The table of ``weather_profile``'s example: the lowest ambient of the 24 h before the start is the
+    row 12 h before it, -3 degC:
+
+    >>> import copy
+    >>> from planner.scenario.examples import EXAMPLES
+    >>> from planner.scenario.schema import scenario_from_dict
+    >>> doc = copy.deepcopy(EXAMPLES["oil transfer"])
+    >>> doc["weather"] = {"hours": [{"time": -12, "ambient_temperature": -3.0}, {"time": 0, "ambient_temperature": 2.0},
+    ...                             {"time": 6, "ambient_temperature": 8.0, "wind_speed": 4.0}]}
+    >>> round(line_start_default(weather_profile(scenario_from_dict(doc))) - 273.15, 2)
+    -3.0
+    """
     return profile.at(profile.coldest_between(-DAY_S, 0.0))[0]
 
 
 def weathered(system, ambient: float, wind: float):
     """A copy of ``system`` (``TransferSystem``) whose lines see ``ambient`` [K] and ``wind`` [m/s] (rules in
-    the module docstring); kept per state on the system, so each state's lines are built once."""
+    the module docstring); kept per state on the system, so each state's lines are built once.
+
+    Examples
+    --------
+    The oil transfer of ``scenario.examples`` (20 degC, still air) at 5 degC and 2 m/s: the copy's line
+    sees them, the system's own is untouched, and asking again gives the kept copy:
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> from planner.transfer.system import TransferSystem
+    >>> system = TransferSystem(example_scenario("oil transfer"))
+    >>> cold = weathered(system, 278.15, 2.0)
+    >>> seg, own = cold.discharge_line.segments[0], system.discharge_line.segments[0]
+    >>> seg.ambient_temperature, seg.wind_speed, own.ambient_temperature, weathered(system, 278.15, 2.0) is cold
+    (278.15, 2.0, 293.15, True)
+    """
     cache = system.__dict__.setdefault("weathered", {})
     key = (ambient, wind)
     if key not in cache:
@@ -173,6 +219,19 @@ def _line_at(scenario: Scenario, route, base: Line, ambient: float, wind: float)
 
 
 def evaluations_of(system) -> int:
-    """Operating-point evaluations of ``system`` and of its weathered copies."""
+    """Operating-point evaluations of ``system`` and of its weathered copies.
+
+    Examples
+    --------
+    One system curve point on the system and one on a weathered copy: two in all (by count):
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> from planner.transfer.system import SystemState, TransferSystem
+    >>> system = TransferSystem(example_scenario("oil transfer"))
+    >>> state = SystemState(313.15, 60.0)
+    >>> _ = system.at_flow(1.25e-3, state), weathered(system, 278.15, 2.0).at_flow(1.25e-3, state)
+    >>> system.evaluations, evaluations_of(system)
+    (1, 2)
+    """
     return system.evaluations + sum(v.evaluations for v in system.__dict__.get("weathered", {}).values()
                                     if v is not system)
