@@ -46,6 +46,7 @@ def test_clean_log_fits_back_two_factors_within_one_percent():
     assert not result.notes            # source temperature and ambient are in the log
 
 
+@pytest.mark.slow  # over 1.5 s (AppTest page, Chromium or a cluster): out of the fast loop
 def test_clean_log_fits_back_three_factors_with_pd_slip():
     truth = {"viscosity_factor": 0.85, "heat_loss_factor": 1.4, "slip_factor": 1.6}
     _, _, result = _fit(BARGE, truth, list(truth), rows=50)

@@ -32,6 +32,7 @@ def cluster():
         yield local_cluster
 
 
+@pytest.mark.slow  # over 1.5 s (AppTest page, Chromium or a cluster): out of the fast loop
 def test_an_envelope_on_the_cluster_equals_the_local_one(cluster):
     scenario = load_scenario(SYRUP)
     with cluster_executor(cluster.scheduler_address) as executor:
@@ -42,6 +43,7 @@ def test_an_envelope_on_the_cluster_equals_the_local_one(cluster):
     assert any(c["fits"] for row in remote.cells for c in row) and any(not c["fits"] for row in remote.cells for c in row)
 
 
+@pytest.mark.slow  # over 1.5 s (AppTest page, Chromium or a cluster): out of the fast loop
 def test_the_command_line_sends_envelopes_and_sweeps_to_the_scheduler(cluster, capsys, monkeypatch, tmp_path):
     args = ["envelope", str(BARGE), "--ambient", "-10,10", "--steam-pressures", "3,5", "--json"]
     assert main(args + ["--scheduler", cluster.scheduler_address]) == 0
@@ -59,6 +61,7 @@ def test_the_command_line_sends_envelopes_and_sweeps_to_the_scheduler(cluster, c
     assert read_table(tmp_path / "on-cluster").to_pylist() == read_table(tmp_path / "on-this-machine").to_pylist()
 
 
+@pytest.mark.slow  # over 1.5 s (AppTest page, Chromium or a cluster): out of the fast loop
 def test_an_unreachable_scheduler_is_refused_naming_the_option():
     # (the command line waits 30 s for a scheduler, and exits 2 with this message; here 2 s)
     with pytest.raises(PlannerError, match=r"--scheduler: cannot reach the dask scheduler at 'tcp://127.0.0.1:9' within 2 s"):

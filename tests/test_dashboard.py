@@ -165,6 +165,7 @@ def test_us_units_show_the_same_quantities_converted():
     assert ambient.value == pytest.approx((scenario.site.ambient_temperature - 273.15) * 9.0 / 5.0 + 32.0, abs=1e-9)
 
 
+@pytest.mark.slow  # over 1.5 s (AppTest page, Chromium or a cluster): out of the fast loop
 def test_us_setpoint_entry_is_read_in_fahrenheit():
     path = ROOT / "demo_scenarios" / "polyol_tank_transfer.toml"
     after = make_plan(with_changes(load_scenario(path), setpoint=30.0 + 273.15))

@@ -45,6 +45,7 @@ def _sidebar_texts(at: AppTest) -> list[str]:
         _texts(at.sidebar.success) + _texts(at.sidebar.info)
 
 
+@pytest.mark.slow  # over 1.5 s (AppTest page, Chromium or a cluster): out of the fast loop
 def test_the_first_admin_is_offered_only_while_no_account_exists(db):
     at = _app()
     assert not at.exception
@@ -78,6 +79,7 @@ def test_the_first_admin_is_offered_only_while_no_account_exists(db):
     assert [w for w in other.text_input if w.key == "si_name"]
 
 
+@pytest.mark.slow  # over 1.5 s (AppTest page, Chromium or a cluster): out of the fast loop
 def test_wrong_passwords_are_refused_and_throttled(db, monkeypatch):
     _people(db)
     at = _app()

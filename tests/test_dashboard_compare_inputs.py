@@ -34,6 +34,7 @@ def test_levers_are_named_by_their_fields():
     assert shown == expected                  # the polyol line is electric-traced: no steam pressure lever
 
 
+@pytest.mark.slow  # over 1.5 s (AppTest page, Chromium or a cluster): out of the fast loop
 def test_sensitivity_shifts_are_inputs_in_the_users_units():
     """US units: the default ambient shift 10 K reads 18 °F (NIST SP 811: a temperature interval of 1 K is
     1.8 °F, exact).  Shifts of 9 °F (5 K) and 10 % give the cases ``compare`` gives with those shifts."""

@@ -24,6 +24,7 @@ def _rows_table(at: AppTest):
     return frames[0]
 
 
+@pytest.mark.slow  # over 1.5 s (AppTest page, Chromium or a cluster): out of the fast loop
 def test_use_this_value_sets_the_setpoint_and_moves_the_mark():
     scenario = load_scenario(POLYOL)
     at = AppTest.from_file(APP, default_timeout=180).run()

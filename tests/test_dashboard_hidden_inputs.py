@@ -93,6 +93,7 @@ def test_a_wall_thickness_on_an_nps_segment_is_refused_by_name():
     assert "row 2" in shown and "wall_thickness: the schedule sets the wall" in shown, shown
 
 
+@pytest.mark.slow  # over 1.5 s (AppTest page, Chromium or a cluster): out of the fast loop
 @pytest.mark.parametrize("units", ["SI", "US"])
 def test_destination_pressures_and_pump_slip_reference_are_inputs(units):
     pressure = (lambda pa: pa / 1e5) if units == "SI" else (lambda pa: pa / PSI_PA)
@@ -134,6 +135,7 @@ def test_sensitivity_shifts_take_the_comparisons_defaults_and_the_budgets_limits
     assert viscosity.max == pytest.approx(active_budget().max_viscosity_uncertainty * 100.0)
 
 
+@pytest.mark.slow  # over 1.5 s (AppTest page, Chromium or a cluster): out of the fast loop
 @pytest.mark.parametrize("units", ["SI", "US"])
 def test_the_checks_own_limits_are_inputs(units):
     """The film coefficient the laminar check calls poor (20 W/(m²·K) = 3.52 BTU/(h·ft²·°F)), the flash-point

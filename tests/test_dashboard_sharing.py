@@ -84,6 +84,7 @@ def _no_trouble(at: AppTest) -> None:
 
 # ------------------------------------------------------------------------------------- share links
 
+@pytest.mark.slow  # over 1.5 s (AppTest page, Chromium or a cluster): out of the fast loop
 @pytest.mark.parametrize("path", DEMO_FILES, ids=[p.stem for p in DEMO_FILES])
 def test_a_share_link_opens_the_same_inputs_and_view(path, db):
     scenario = load_scenario(path)

@@ -126,6 +126,7 @@ def _generated_line(length_factor: float, insulation_factors: list[float], windo
 @settings(max_examples=4, deadline=None, derandomize=True, suppress_health_check=[HealthCheck.too_slow])
 @given(length=st.floats(0.4, 1.5), insulation=st.lists(st.floats(0.5, 1.6), min_size=4, max_size=4),
        window=st.floats(0.97, 1.03))
+@pytest.mark.slow  # over 1.5 s (AppTest page, Chromium or a cluster): out of the fast loop
 def test_a_colder_ambient_never_needs_a_lower_setpoint(length, insulation, window):
     """Property (physics: a colder surrounding takes more heat from the line, so no setpoint finishes sooner
     in the cold): along the ambients from warm to cold the envelope's setpoint never falls, and once no

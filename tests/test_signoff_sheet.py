@@ -92,6 +92,7 @@ def _hot_syrup():
     return scenario, plan_results(scenario)
 
 
+@pytest.mark.slow  # Chromium: out of the fast loop
 @pytest.mark.skipif(not CHROMIUM.exists(), reason="no /usr/bin/chromium")
 @pytest.mark.parametrize("units", ["SI", "US"])
 @pytest.mark.parametrize("case", ["reviewed polyol", "hot syrup"])
@@ -129,6 +130,7 @@ def test_the_views_sheet_is_the_open_revisions(reviewed):
     assert "Not a saved revision" in " ".join(_text(sheet_maker(scenario, results, "SI")()).split())
 
 
+@pytest.mark.slow  # Chromium: out of the fast loop
 @pytest.mark.skipif(not CHROMIUM.exists(), reason="no /usr/bin/chromium")
 def test_a_long_trail_keeps_the_latest_steps_on_one_page(reviewed, tmp_path):
     """Ten review steps (the revision's two, five times over): the latest eight are listed, two counted."""

@@ -31,6 +31,7 @@ def _manifest(folder, body: str, output: str = "out") -> str:
 BARGE_ENTRY = f'chunk = 2\n[[entries]]\nscenario = "{BARGE}"\nsteam_pressures = "2:7:1"\nambients = "-10,0,10"\n'
 
 
+@pytest.mark.slow  # over 1.5 s (AppTest page, Chromium or a cluster): out of the fast loop
 def test_a_sweep_killed_halfway_resumes_to_the_same_table(tmp_path):
     """SIGKILL mid-sweep (the command and its worker processes), then the same command again: the table equals
     an uninterrupted run's, row for row, with no key twice.  18 plans of the barge in chunks of 2."""
