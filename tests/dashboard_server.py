@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import os
 import signal
+import socket
 import subprocess
 import sys
 import time
@@ -54,6 +55,28 @@ def stop_dashboard(proc, log) -> None:
         os.killpg(proc.pid, signal.SIGKILL)
         proc.wait(timeout=15)
     log.close()
+
+
+def free_port() -> int:
+    """A TCP port free on 127.0.0.1 now (the system's choice)."""
+    with socket.socket(socket.AF_INET, socket.SOCK_STREAM) as s:
+        s.bind(("127.0.0.1", 0))
+        return s.getsockname()[1]
+
+
+@contextmanager
+def running_dashboard(db_path: Path, **env: str):
+    """A server on a free port whose plans file is ``db_path`` (its log beside it), with ``env`` added to the
+    environment; yields its address and stops it (and its workers) on exit."""
+    port = free_port()
+    log_path = db_path.parent / f"server-{port}.log"
+    proc, log = start_dashboard(port, log_path, dict(os.environ, PLANNER_DB_PATH=str(db_path), **env))
+    url = f"http://127.0.0.1:{port}"
+    try:
+        wait_healthy(url, proc, log_path)
+        yield url
+    finally:
+        stop_dashboard(proc, log)
 
 
 @contextmanager

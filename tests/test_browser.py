@@ -11,7 +11,6 @@ from __future__ import annotations
 import json
 import os
 import re
-import socket
 import statistics
 import subprocess
 import sys
@@ -21,7 +20,7 @@ from pathlib import Path
 import pytest
 
 from conftest import DEMO_FILES, PASSWORDS, ROOT, make_people
-from dashboard_server import chromium_browser, start_dashboard, stop_dashboard, wait_healthy
+from dashboard_server import chromium_browser, free_port, running_dashboard
 from planner.records.store import PlanStore
 from planner.transfer.plan import make_plan, with_changes
 from planner.scenario.schema import load_scenario
@@ -45,10 +44,7 @@ def _require_chromium() -> None:
     pytest.skip(f"{CHROMIUM} is not installed (apt-get install chromium); the browser test needs it")
 
 
-def _free_port() -> int:
-    with socket.socket(socket.AF_INET, socket.SOCK_STREAM) as s:
-        s.bind(("127.0.0.1", 0))
-        return s.getsockname()[1]
+_free_port = free_port   # the name other browser tests import
 
 
 @pytest.fixture(scope="module")
@@ -60,16 +56,9 @@ def server_db(tmp_path_factory):
 @pytest.fixture(scope="module")
 def server(server_db):
     _require_chromium()
-    port = _free_port()
-    log_path = server_db.parent / "server.log"
     # the project's .streamlit/config.toml applies (statistics off, no developer toolbar): not overridden here
-    proc, log = start_dashboard(port, log_path, dict(os.environ, PLANNER_DB_PATH=str(server_db)))
-    url = f"http://127.0.0.1:{port}"
-    try:
-        wait_healthy(url, proc, log_path)
+    with running_dashboard(server_db) as url:
         yield url
-    finally:
-        stop_dashboard(proc, log)
 
 
 @pytest.fixture(scope="module")

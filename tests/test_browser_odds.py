@@ -4,12 +4,11 @@ window, the shares -- and the P10/P50/P90 table (a screenshot goes to test-artif
 
 from __future__ import annotations
 
-import os
 
 import pytest
 
-from dashboard_server import chromium_browser, start_dashboard, stop_dashboard, wait_healthy
-from test_browser import ARTIFACTS, CHROMIUM, LAUNCH_ARGS, _fill, _free_port, _require_chromium, _wait_idle
+from dashboard_server import chromium_browser, running_dashboard
+from test_browser import ARTIFACTS, CHROMIUM, LAUNCH_ARGS, _fill, _require_chromium, _wait_idle
 
 pytestmark = pytest.mark.slow  # Chromium: left out of the fast loop (-m "not slow")
 
@@ -17,16 +16,8 @@ pytestmark = pytest.mark.slow  # Chromium: left out of the fast loop (-m "not sl
 @pytest.fixture(scope="module")
 def server(tmp_path_factory):
     _require_chromium()
-    folder = tmp_path_factory.mktemp("odds")
-    port = _free_port()
-    log_path = folder / "server.log"
-    proc, log = start_dashboard(port, log_path, dict(os.environ, PLANNER_DB_PATH=str(folder / "plans.sqlite")))
-    url = f"http://127.0.0.1:{port}"
-    try:
-        wait_healthy(url, proc, log_path)
+    with running_dashboard(tmp_path_factory.mktemp("odds") / "plans.sqlite") as url:
         yield url
-    finally:
-        stop_dashboard(proc, log)
 
 
 def test_the_address_opens_the_odds_view_and_the_odds_draw_their_charts(server):

@@ -6,18 +6,16 @@ scenario, never a traceback or a file outside the drafts folder."""
 
 from __future__ import annotations
 
-import os
 import re
 import time
-from pathlib import Path
 from urllib.parse import parse_qs, urlparse
 
 import pytest
 
 from conftest import make_people
-from dashboard_server import chromium_browser, start_dashboard, stop_dashboard, wait_healthy
+from dashboard_server import chromium_browser, running_dashboard
 from planner.records.store import PlanStore
-from test_browser import CHROMIUM, LAUNCH_ARGS, _fill, _free_port, _open_tab, _require_chromium, _sign_in, \
+from test_browser import CHROMIUM, LAUNCH_ARGS, _fill, _open_tab, _require_chromium, _sign_in, \
     _wait_idle, metrics
 
 pytestmark = pytest.mark.slow  # Chromium: left out of the fast loop (-m "not slow")
@@ -32,15 +30,8 @@ def server_db(tmp_path_factory):
 def server(server_db):
     _require_chromium()
     make_people(PlanStore(path=server_db), names=("root", "ana", "sam"))
-    port = _free_port()
-    log_path = server_db.parent / "server.log"
-    proc, log = start_dashboard(port, log_path, dict(os.environ, PLANNER_DB_PATH=str(server_db)))
-    url = f"http://127.0.0.1:{port}"
-    try:
-        wait_healthy(url, proc, log_path)
+    with running_dashboard(server_db) as url:
         yield url
-    finally:
-        stop_dashboard(proc, log)
 
 
 @pytest.fixture(scope="module")

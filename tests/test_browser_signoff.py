@@ -4,14 +4,12 @@ with the chain head the store's own ``verify`` gives.  Outside CI a missing /usr
 
 from __future__ import annotations
 
-import os
 import re
-import socket
 
 import pytest
 
 from conftest import ROOT, make_people
-from dashboard_server import chromium_browser, start_dashboard, stop_dashboard, wait_healthy
+from dashboard_server import chromium_browser, running_dashboard
 from planner.checks.findings import assess
 from planner.records.store import PlanStore
 from planner.reports.saved_figures import saved_figures
@@ -45,18 +43,8 @@ def saved(tmp_path_factory):
 
 @pytest.fixture(scope="module")
 def server(saved):
-    path = saved[0]
-    with socket.socket(socket.AF_INET, socket.SOCK_STREAM) as s:
-        s.bind(("127.0.0.1", 0))
-        port = s.getsockname()[1]
-    log_path = path.parent / "server.log"
-    proc, log = start_dashboard(port, log_path, dict(os.environ, PLANNER_DB_PATH=str(path)))
-    url = f"http://127.0.0.1:{port}"
-    try:
-        wait_healthy(url, proc, log_path)
+    with running_dashboard(saved[0]) as url:
         yield url
-    finally:
-        stop_dashboard(proc, log)
 
 
 def test_download_the_sheet_and_print_it_on_one_page(saved, server, tmp_path):
