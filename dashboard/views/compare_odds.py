@@ -18,7 +18,7 @@ from dashboard.compute.odds import check_sampling
 from dashboard.present import odds_tables
 from dashboard.present.plaintext import escaped
 
-from .odds import refused, run_with_progress, sampling_controls
+from .odds import kept_odds, refused, run_with_progress, sampling_controls
 
 
 def odds_section(scenario: Scenario, scenario_json: str, unit_system: str, lever: str, values_text: str) -> None:
@@ -46,13 +46,10 @@ def odds_section(scenario: Scenario, scenario_json: str, unit_system: str, lever
         result = run_with_progress("comparison_odds", (scenario_json, lever, values, samples, seed),
                                    samples * len(values), "The comparison with odds")
         st.session_state["cmp_odds"] = {"json": scenario_json, "result": result}
-    saved = st.session_state.get("cmp_odds")
-    if not saved:
-        st.caption("Press “Compare with odds” to plan each value above at the sampled inputs.")
-        return
-    if saved["json"] != scenario_json:
-        st.warning("The inputs have changed since these odds: press “Compare with odds” to run them again.")
-    odds_comparison(saved["result"], unit_system, scenario.costs.currency)
+    saved = kept_odds("cmp_odds", scenario_json, "Compare with odds",
+                      "Press “Compare with odds” to plan each value above at the sampled inputs.")
+    if saved:
+        odds_comparison(saved["result"], unit_system, scenario.costs.currency)
 
 
 def odds_comparison(result: dict, unit_system: str, currency: str) -> None:

@@ -90,13 +90,21 @@ def odds_view(scenario: Scenario | None, scenario_json: str | None, unit_system:
             return
         result = run_with_progress("odds", (scenario_json, samples, seed), samples, "The odds")
         st.session_state["odds"] = {"json": scenario_json, "result": result}
-    saved = st.session_state.get("odds")
+    saved = kept_odds("odds", scenario_json, "Work out the odds", "Choose the samples and press “Work out the odds”.")
+    if saved:
+        odds_result(saved["result"], unit_system, plain_total_s if saved["json"] == scenario_json else None)
+
+
+def kept_odds(key: str, scenario_json: str, button: str, hint: str) -> dict | None:
+    """The odds kept under session key ``key`` ({json, result}), with a warning when the inputs have changed
+    since; None (and ``hint`` shown) when there are none yet."""
+    saved = st.session_state.get(key)
     if not saved:
-        st.caption("Choose the samples and press “Work out the odds”.")
-        return
+        st.caption(hint)
+        return None
     if saved["json"] != scenario_json:
-        st.warning("The inputs have changed since these odds: press “Work out the odds” to run them again.")
-    odds_result(saved["result"], unit_system, plain_total_s if saved["json"] == scenario_json else None)
+        st.warning(f"The inputs have changed since these odds: press “{button}” to run them again.")
+    return saved
 
 
 def odds_result(result: dict, unit_system: str, plain_total_s: float | None = None) -> None:
