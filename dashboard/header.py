@@ -72,7 +72,7 @@ def page_header(scenario: Scenario | None, unit_system: str, problem_list: list,
     name = scenario.name if scenario is not None else (st.session_state["work"].get("name") or "scenario with problems")
     st.markdown(f"## Viscous Transfer Planner  \n**{escaped(shortened(str(name)))}**")
     st.caption(f"{escaped(source_text())} — units: {SYSTEM_NAMES[unit_system]}")
-    st.warning(caution_text(unit_system, touch_limit(scenario, shown)), icon="⚠️")
+    st.warning(caution_text(unit_system, touch_limit(scenario, shown)), icon=":material/warning:")
     page_notices()
     if problem_list:
         st.error(f"**The inputs have {len(problem_list)} problem(s)** — each message is shown beside its field "
@@ -89,18 +89,18 @@ def page_notices() -> None:
     ss = st.session_state
     link_message = ss.get("link_message")
     if link_message and link_message[0] == ss.get("gen", 0):
-        st.error(escaped(link_message[1]), icon="🔗")
+        st.error(escaped(link_message[1]), icon=":material/link_off:")
     refused = ss.pop("refused_msg", None)
     if refused:
-        st.error(escaped(refused), icon="🔒")
+        st.error(escaped(refused), icon=":material/lock:")
     revision = ss.get("open_rev_obj")
     if revision is not None and revision.read_only:
         text = escaped(lock_text(revision, ss.get("open_rev_trail") or []))
         if ss.get("rev_unlocked"):
             st.info(f"{text} You are changing a copy of its inputs: saving makes revision "
-                    f"{revisions.next_number(revision)}; revision {revision.number} stays approved.", icon="🔓")
+                    f"{revisions.next_number(revision)}; revision {revision.number} stays approved.", icon=":material/lock_open:")
         else:
-            st.info(text, icon="🔒")
+            st.info(text, icon=":material/lock:")
 
 
 def key_figures_strip(results: PlanResults, unit_system: str) -> None:

@@ -162,3 +162,49 @@ def test_plain_text_escapes_every_markdown_opener(text):
     assert not re.search(r"[\\`*_\[\]()<>!#|~$:{}&@^]", bare), shown
     assert not re.search(r"(^|\n)([-+=]\s|\d+[.)]\s)", bare), shown
     assert not re.search(r"(?<!\u2060)(https?|www)", shown, re.I), shown
+
+
+def _cells(row: str) -> list[str]:
+    """A markdown table row's cells as a reader sees them: split at unescaped "|", escapes resolved."""
+    from dashboard.present.plaintext import JOINER
+
+    parts = re.split(r"(?<!\\)\|", row.strip())
+    assert parts[0] == "" and parts[-1] == "", row                   # the row opens and closes with "|"
+    return [re.sub(r"\\(.)", r"\1", p.strip().replace(JOINER, "")) for p in parts[1:-1]]
+
+
+@pytest.mark.parametrize("text", PAYLOADS)
+def test_markdown_tables_keep_user_text_as_text(text):
+    """The Plan view's tables are markdown (no pandas on the first page): each cell is one escaped line, so
+    markup stays text and a "|" or a line break in user text neither splits a cell nor ends a row."""
+    from dashboard.present.plaintext import markdown_table
+
+    lines = markdown_table(("Item", text), [("a", text), (text, None)]).split("\n")
+    assert len(lines) == 4 and re.fullmatch(r"\|( --- \|){2}", lines[1]), lines
+    one_line = " ".join(text.split())
+    assert [_cells(line) for line in (lines[0], lines[2], lines[3])] == [
+        ["Item", one_line], ["a", one_line], [one_line, "—"]]
+    for line in lines:
+        bare = re.sub(r"\\.", "", line)
+        assert not re.search(r"[\\`*_\[\]()<>!#~$:{}&@^]", bare), line
+        assert not re.search(r"(?<!\u2060)(https?|www)", line, re.I), line
+
+
+def test_plan_tables_show_segment_names_as_text():
+    """A segment name with markup, as the start-up table names the first segment to reach the stop limit:
+    the row keeps its two cells and the name reads back as typed."""
+    from dashboard.compute.results import plan_results as build_bundle
+    from dashboard.present import tables
+    from dashboard.present.plaintext import markdown_table
+
+    data = scenario_to_dict(load_scenario(DEMO_FILES[0]))
+    names = [f"S{i} | ![p](http://198.51.100.7/p.png) <b>x</b>" for i in range(len(data["route"]["segments"]))]
+    for segment, name in zip(data["route"]["segments"], names):
+        segment["name"] = name
+    plan = build_bundle(scenario_from_dict(data)).plan
+    rows = tables.startup_hold_rows(plan, "SI")
+    lines = markdown_table(tables.STARTUP_HOLD_COLUMNS, rows).split("\n")
+    assert [_cells(line) for line in lines[2:]] == [list(row) for row in rows]
+    named = [cells[1] for cells in map(_cells, lines[2:]) if cells[0] == "Time to limit, tracing on"]
+    assert len(named) == 1 and any(name in named[0] for name in names), named
+    assert list(tables.startup_hold_frame(plan, "SI").itertuples(index=False, name=None)) == rows

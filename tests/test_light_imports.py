@@ -9,9 +9,12 @@ What each path may load, and why the rest stays out:
   or statistics (Brent's method is ``planner/line/brent.py``; the odds load ``scipy.stats`` only with
   ``--uncertainty``), pint (the units a plan meets are ``scenario/unit_factors.py``), pandas or Streamlit;
 - the records commands: SQLAlchemy when they run, and only then;
-- the dashboard's first page (the server process): Streamlit, pandas and the scenario's models, but none of
+- the dashboard's first page (the server process): Streamlit and the scenario's models, but none of
   the transfer's or the line's models (the worker plans), no records layer, SciPy, pint or the Inputs' and
-  the report's modules (loaded when their tab is opened or the report downloaded);
+  the report's modules (loaded when their tab is opened or the report downloaded); no pandas or pyarrow
+  (the Plan view's tables are markdown; ``st.table`` and ``st.dataframe`` convert through both) and no
+  ``streamlit.emojis`` (message boxes carry a Material icon or an empty one, so Streamlit does not look
+  for an emoji in their text);
 - the dashboard's worker: the planner, but no pint, SciPy optimizers, pandas or Streamlit for a demo plan.
 """
 
@@ -93,8 +96,9 @@ def test_the_light_helpers_load_none_of_the_transfer_models():
 @pytest.mark.slow
 def test_the_dashboards_first_page_loads_only_what_it_shows(tmp_path):
     """The first page of a new session (the first demo's Plan view), drawn by Streamlit's AppTest in a fresh
-    interpreter: the server process holds Streamlit, pandas and the scenario's models; the plan comes from a
-    worker process.  The Plan view draws the pump chart, so the figures module loads (about 10 ms once
+    interpreter: the server process holds Streamlit and the scenario's models; the plan comes from a
+    worker process.  Its tables are markdown, from the same rows as the report's tables.  The Plan view
+    draws the pump chart, so the figures module loads (about 10 ms once
     Streamlit, which brings plotly, is in)."""
     code = ("from streamlit.testing.v1 import AppTest\n"
             "at = AppTest.from_file('dashboard/app.py', default_timeout=120).run()\n"
@@ -103,12 +107,13 @@ def test_the_dashboards_first_page_loads_only_what_it_shows(tmp_path):
             "assert any('Start-up and stops' in m.value for m in at.markdown), 'no Plan view'")
     modules = _modules_after(code, env={"PLANNER_DB_PATH": str(tmp_path / "plans.sqlite"),
                                         "PLANNER_DRAFTS_DIR": str(tmp_path / "drafts")})
-    assert {"streamlit", "pandas", "planner.scenario.schema", "dashboard.views.plan"} <= modules
+    assert {"streamlit", "planner.scenario.schema", "dashboard.views.plan", "dashboard.present.tables"} <= modules
     assert not _loaded(modules, ("planner.transfer.plan", "planner.transfer.system", "planner.transfer.hold",
                                  "planner.line.march", "planner.checks.findings", "planner.sweeps.compare",
                                  "dashboard.compute.results", "dashboard.present.report",
                                  "dashboard.views.inputs.sections",
-                                 "sqlalchemy", "argon2", "scipy", "pint"))
+                                 "sqlalchemy", "argon2", "scipy", "pint", "pandas", "pyarrow",
+                                 "streamlit.emojis"))
 
 
 @pytest.mark.slow

@@ -12,11 +12,13 @@ from __future__ import annotations
 import copy
 import html
 import math
-
-import pandas as pd
+from typing import TYPE_CHECKING
 
 from planner.reports.uncertainty_text import (BEYOND, chance_lines, figure_rows, input_rows, percentage,
                                               value_text)
+
+if TYPE_CHECKING:
+    import pandas as pd             # imported where a frame is built: ``odds_diff_row`` (the header) needs none
 
 
 def restored(summary: dict, currency: str = "") -> dict:
@@ -34,12 +36,16 @@ def restored(summary: dict, currency: str = "") -> dict:
 
 def figures_frame(odds: dict, system: str) -> pd.DataFrame:
     """P10, P50, P90 and the sampling error of each figure, as text in ``system``."""
+    import pandas as pd
+
     rows = [(r["label"], r["p10"], r["p50"], r["p90"], f"± {r['sampling_error']}") for r in figure_rows(odds, system)]
     return pd.DataFrame(rows, columns=["Figure", "P10", "P50", "P90", "Sampling error"])
 
 
 def inputs_frame(odds: dict, system: str) -> pd.DataFrame:
     """The sampled inputs: distribution, share of the total time's spread, source."""
+    import pandas as pd
+
     rows = [(r["label"], r["distribution"], "—" if r["share"] is None else f"{r['share']:.2f}", r["source"])
             for r in sorted(input_rows(odds, system), key=lambda r: -(r["share"] or 0.0))]
     return pd.DataFrame(rows, columns=["Input", "Distribution", "Share of the spread", "Source"])
@@ -54,6 +60,8 @@ def comparison_odds_frame(result: dict, system: str, currency: str) -> pd.DataFr
     """One row per value of a comparison by odds (``comparison_odds_json``, SI): the value, the chance to finish
     in the window with no stop (± its error), the P90 total time, the P50 and P90 cost, the chance of a stop
     and the mark: recommended, best chance (none reaching the confidence), cannot be told apart."""
+    import pandas as pd
+
     from planner.scenario.wording import format_quantity
     from planner.sweeps.compare import lever_decimals
 

@@ -12,6 +12,7 @@ Plotly draws a small subset of HTML in titles, names and annotations: :func:`plo
 from __future__ import annotations
 
 import html
+import math
 import re
 
 # CommonMark: any ASCII punctuation character may be backslash-escaped and then stands for itself
@@ -50,16 +51,24 @@ def plotly_text(text) -> str:
     return html.escape(str("" if text is None else text), quote=False)
 
 
+def _cell(value, one_line: bool = False) -> str:
+    """A table cell as escaped text (on one line for a markdown table's row); a missing value as "—"."""
+    if value is None or (isinstance(value, float) and math.isnan(value)):
+        return "—"
+    return escaped(" ".join(str(value).split()) if one_line else value)
+
+
 def escaped_table(frame):
     """A copy of a pandas frame for ``st.table`` (whose cells and headings are markdown): every cell as
     escaped text, a missing value as "—".  ``st.dataframe`` draws plain text itself: give it the frame."""
-    import math
-
-    def cell(value) -> str:
-        if value is None or (isinstance(value, float) and math.isnan(value)):
-            return "—"
-        return escaped(value)
-
-    out = frame.map(cell)
-    out.columns = [escaped(c) for c in frame.columns]
+    out = frame.map(_cell)
+    out.columns = [_cell(c) for c in frame.columns]
     return out
+
+
+def markdown_table(columns, rows) -> str:
+    """A table as markdown for ``st.markdown`` (no pandas needed): the same escaped cells as
+    :func:`escaped_table`; "|" is escaped with the rest, so a cell never splits."""
+    lines = ["| " + " | ".join(_cell(c, True) for c in columns) + " |", "|" + " --- |" * len(columns)]
+    lines += ["| " + " | ".join(_cell(v, True) for v in row) + " |" for row in rows]
+    return "\n".join(lines)

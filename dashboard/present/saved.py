@@ -4,8 +4,7 @@
 from __future__ import annotations
 
 import json
-
-import pandas as pd
+from typing import TYPE_CHECKING
 
 from planner.reports.saved_figures import SAVED_FIGURES
 from planner.records.revision import Revision
@@ -13,6 +12,9 @@ from planner.scenario.wording import money_text
 from planner.correlations.constants import J_PER_KWH
 
 from .display import fmt, number_text
+
+if TYPE_CHECKING:
+    import pandas as pd             # imported where a frame is built: the header (``lock_text``) needs none
 from .odds_tables import odds_diff_row
 
 
@@ -40,12 +42,16 @@ def when_text(iso: str) -> str:
 
 
 def trail_frame(trail: list) -> pd.DataFrame:
+    import pandas as pd
+
     words = {"submit": "submitted", "approve": "approved", "return": "returned for changes"}
     return pd.DataFrame([(when_text(r.at), words.get(r.action, r.action), r.by, r.comment) for r in trail],
                         columns=["When", "Step", "By", "Comment"])
 
 
 def results_frame(results: dict, unit_system: str) -> pd.DataFrame:
+    import pandas as pd
+
     currency = results.get("currency", "")
     rows = [(label, result_text(key, results.get(key), unit_system, currency))
             for key, label, _ in SAVED_FIGURES if key in results]
@@ -64,6 +70,8 @@ def diff_frames(diff: dict, a: int, b: int, unit_system: str, currency_a: str = 
         -> tuple[pd.DataFrame, pd.DataFrame]:
     """``PlanStore.diff`` as two tables: the inputs that changed, the figures that changed as shown (a figure
     whose stored value differs below the shown precision is not listed)."""
+    import pandas as pd
+
     inputs = pd.DataFrame([(path, value_text(old), value_text(new)) for path, old, new in diff.get("inputs", [])],
                           columns=["Input", f"Revision {a}", f"Revision {b}"])
     labels = {key: label for key, label, _ in SAVED_FIGURES}

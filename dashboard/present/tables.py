@@ -1,20 +1,24 @@
 """Tables (pandas) of results in display units, shared by the pages, the report and the CSV exports.
 
-Column titles carry their units in brackets; no Streamlit here.
+Column titles carry their units in brackets; no Streamlit here.  pandas is imported by the functions that
+build a frame: the Plan view (the first page) draws its tables from the ``*_rows`` as markdown, without it.
 """
 
 from __future__ import annotations
 
 import math
+from typing import TYPE_CHECKING
 
 import numpy as np
-import pandas as pd
 
 from .display import convert_array, fmt, label, number_text, to_display, with_unit, words
 from planner.checks.finding import MOST_SEVERE_FIRST
 from planner.reports.findings_text import finding_details as _finding_details
 from planner.scenario.wording import DECIMALS, money_text, render
 from planner.transfer.hold_words import hours_text
+
+if TYPE_CHECKING:
+    import pandas as pd
 
 
 TIMELINE_COLUMNS = [
@@ -67,6 +71,8 @@ def _column(values, kind, system):
 
 
 def timeline_frame(plan: dict, system: str) -> pd.DataFrame:
+    import pandas as pd
+
     arrays = plan["timeline"].get("arrays") or {}
     data = {}
     for key, title, kind in TIMELINE_COLUMNS:
@@ -76,6 +82,8 @@ def timeline_frame(plan: dict, system: str) -> pd.DataFrame:
 
 
 def push_cold_frame(rows: dict, system: str) -> pd.DataFrame:
+    import pandas as pd
+
     data = {}
     for key, title, kind in PUSH_COLD_COLUMNS:
         if key in rows:
@@ -104,6 +112,8 @@ def _segment_names(x, segments: list[dict]) -> list[str]:
 def profile_frame(profile: dict, segments: list[dict], system: str) -> pd.DataFrame:
     """Nodes (step ends: bulk temperature, pressure) and step midpoints (the rest) in one table,
     sorted by distance; a node row leaves the mid-step columns empty and the other way round."""
+    import pandas as pd
+
     nodes, steps = profile["nodes"], profile["steps"]
     x_title = with_unit("Distance from pump", "length", system)
     node_part = pd.DataFrame({
@@ -124,6 +134,8 @@ def profile_frame(profile: dict, segments: list[dict], system: str) -> pd.DataFr
 
 
 def segments_frame(segments: list[dict], system: str) -> pd.DataFrame:
+    import pandas as pd
+
     return pd.DataFrame({
         "#": [s["index"] + 1 for s in segments],
         "Segment": [s["name"] for s in segments],
@@ -145,7 +157,12 @@ def finding_details(finding: dict, system: str) -> list[str]:
     return _finding_details(finding, system)
 
 
-def energy_cost_frame(plan: dict, system: str) -> pd.DataFrame:
+ENERGY_COST_COLUMNS = ("Item", "Amount")
+STARTUP_HOLD_COLUMNS = ("Item", "Value")
+
+
+def energy_cost_rows(plan: dict, system: str) -> list[tuple[str, str]]:
+    """The Plan view's energy and cost table (columns ``ENERGY_COST_COLUMNS``), as rows of text."""
     e, c = plan["energy"], plan["costs"]
     cur = c.get("currency", "")
     kwh = label("energy", system)
@@ -160,10 +177,17 @@ def energy_cost_frame(plan: dict, system: str) -> pd.DataFrame:
         (f"Demurrage ({number_text(c.get('demurrage_hours'), 2)} h)", money_text(c.get("demurrage"), cur)),
         ("Total cost", money_text(c.get("total"), cur)),
     ]
-    return pd.DataFrame(rows, columns=["Item", "Amount"])
+    return rows
 
 
-def startup_hold_frame(plan: dict, system: str) -> pd.DataFrame:
+def energy_cost_frame(plan: dict, system: str) -> pd.DataFrame:
+    import pandas as pd
+
+    return pd.DataFrame(energy_cost_rows(plan, system), columns=list(ENERGY_COST_COLUMNS))
+
+
+def startup_hold_rows(plan: dict, system: str) -> list[tuple[str, str]]:
+    """The Plan view's start-up and stops table (columns ``STARTUP_HOLD_COLUMNS``), as rows of text."""
     s, h = plan["startup"], plan["hold"]
     warm, cold = s.get("prewarm") or {}, s.get("push_cold") or {}
     rows = [
@@ -181,7 +205,13 @@ def startup_hold_frame(plan: dict, system: str) -> pd.DataFrame:
     ]
     if (h.get("gelled_restart_pressure_pa") or 0) > 0:
         rows.append(("Gelled restart pressure", fmt(h["gelled_restart_pressure_pa"], "pressure", system)))
-    return pd.DataFrame(rows, columns=["Item", "Value"])
+    return rows
+
+
+def startup_hold_frame(plan: dict, system: str) -> pd.DataFrame:
+    import pandas as pd
+
+    return pd.DataFrame(startup_hold_rows(plan, system), columns=list(STARTUP_HOLD_COLUMNS))
 
 
 def comparison_currency(comparison: dict) -> str:
@@ -191,6 +221,8 @@ def comparison_currency(comparison: dict) -> str:
 
 
 def comparison_frame(comparison: dict, kind: str, system: str) -> pd.DataFrame:
+    import pandas as pd
+
     currency = comparison_currency(comparison)
     rows = []
     for i, r in enumerate(comparison["rows"]):

@@ -1,19 +1,19 @@
-"""The Plan view: the plan's state, its findings, start-up and stops, energy and cost, the pump at the start."""
+"""The Plan view: the plan's state, its findings, start-up and stops, energy and cost, the pump at the start.
+
+The first page of a session: its tables are markdown (``markdown_table``), so the server needs neither pandas
+nor pyarrow to draw it (``st.table`` converts through both)."""
 
 from __future__ import annotations
 
 import streamlit as st
 
 from dashboard.present import tables
-
-import pandas as pd
-
 from dashboard.present.display import fmt
-from dashboard.present.plaintext import escaped, escaped_table
+from dashboard.present.plaintext import escaped, markdown_table
 from planner.scenario.wording import render
 from dashboard.present.pump_figure import pump_caption, pump_figure
 
-from .common import findings_block, status_line
+from .common import NO_ICON, findings_block, status_line
 from .page import Page
 
 
@@ -25,10 +25,10 @@ def draw(page: Page) -> None:
     status_line(results, unit_system)
     findings_block(results, unit_system)
     st.markdown("#### Start-up and stops")
-    st.table(escaped_table(tables.startup_hold_frame(results.plan, unit_system)), hide_index=True)
+    st.markdown(markdown_table(tables.STARTUP_HOLD_COLUMNS, tables.startup_hold_rows(results.plan, unit_system)))
     left, right = st.columns(2)
     left.markdown("#### Energy and cost")
-    left.table(escaped_table(tables.energy_cost_frame(results.plan, unit_system)), hide_index=True)
+    left.markdown(markdown_table(tables.ENERGY_COST_COLUMNS, tables.energy_cost_rows(results.plan, unit_system)))
     start = results.plan["start"]
     right.markdown("#### Pump at the start")
     rows = [
@@ -42,10 +42,10 @@ def draw(page: Page) -> None:
                                       f"{fmt(start.get('npsh_required_m'), 'head', unit_system)}"),
         ("Relief recirculation", fmt(start.get("relief_flow_m3_s"), "volume_flow", unit_system)),
     ]
-    right.table(escaped_table(pd.DataFrame(rows, columns=["Item", "Value"])), hide_index=True)
+    right.markdown(markdown_table(("Item", "Value"), rows))
     chart = results.pump_chart
     if chart is not None and "error" in chart:
-        st.info(escaped(render(chart["error"], unit_system)))
+        st.info(escaped(render(chart["error"], unit_system)), icon=NO_ICON)
     elif chart is not None:
         st.plotly_chart(pump_figure(chart, unit_system), key="pump_chart")
         st.caption(escaped(pump_caption(chart)))

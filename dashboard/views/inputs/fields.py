@@ -159,7 +159,7 @@ def _commit_value(path: str, key: str, empty_is_none: bool = False) -> None:
 def show_problems(container, problems: Problems, path: str, field_label: str) -> None:
     for problem_path, message in problems.take(path):
         where = "" if problem_path == path else f" ({problem_path[len(path):].lstrip('.')})"
-        container.error(f"**{field_label}**{escaped(where)}: {escaped(message)}  \n{escaped(problem_path)}", icon="⚠️")
+        container.error(f"**{field_label}**{escaped(where)}: {escaped(message)}  \n{escaped(problem_path)}", icon=":material/warning:")
 
 
 # ------------------------------------------------------------------------------------------ widgets

@@ -186,9 +186,9 @@ def table(container, problems: Problems, path: str, title: str, columns: tuple, 
             field_text = field_titles.get(field.split(".")[0].split("[")[0], field) if field else ""
             container.error(f"**{title or 'table'}, row {i + 1}** ({escaped(shortened(name))})"
                             + (f", **{escaped(field_text)}**" if field_text else "")
-                            + f": {escaped(message)}  \n{escaped(problem_path)}", icon="⚠️")
+                            + f": {escaped(message)}  \n{escaped(problem_path)}", icon=":material/warning:")
         else:
-            container.error(f"**{title or 'table'}**: {escaped(message)}  \n{escaped(problem_path)}", icon="⚠️")
+            container.error(f"**{title or 'table'}**: {escaped(message)}  \n{escaped(problem_path)}", icon=":material/warning:")
 
 
 # -- route segments
