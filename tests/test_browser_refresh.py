@@ -92,6 +92,9 @@ def _metrics_other_than(page, before: dict, timeout_s: float = 120.0) -> dict[st
 def test_a_refresh_keeps_the_view_the_units_and_unsaved_edits(page):
     page.get_by_test_id("stSidebar").get_by_text("US customary", exact=True).click()
     _wait_idle(page)
+    page.wait_for_function("""() => [...document.querySelectorAll('[data-testid=stMetricValue]')]
+                              .some(m => m.innerText.includes('gpm'))""")   # the rerun in US units has drawn
+    _wait_idle(page)
     before = metrics(page)                                   # the demo's plan, in the same units
     _open_tab(page, "Inputs")
     _open_tab(page, "Site & limits")
