@@ -8,33 +8,19 @@ import re
 
 import pytest
 
-from conftest import ROOT, make_people
 from dashboard_server import chromium_browser, running_dashboard
-from planner.checks.findings import assess
-from planner.records.store import PlanStore
-from planner.reports.saved_figures import saved_figures
-from planner.reports.uncertainty_text import figure_rows, odds_summary
-from planner.scenario.schema import load_scenario
-from planner.sweeps.uncertainty import plan_odds
-from planner.transfer.plan import make_plan
+from planner.reports.uncertainty_text import figure_rows
 from test_browser import CHROMIUM, LAUNCH_ARGS, _require_chromium
+from test_signoff_sheet import saved_with_odds
 
 pytestmark = pytest.mark.slow
-
-POLYOL = ROOT / "demo_scenarios" / "polyol_tank_transfer.toml"
-
 
 @pytest.fixture(scope="module")
 def saved(tmp_path_factory):
     """A reviewed revision with its odds in a fresh SQLite file."""
     _require_chromium()
     path = tmp_path_factory.mktemp("signoff-browser") / "plans.sqlite"
-    store = PlanStore(path=path)
-    people = make_people(store)
-    scenario = load_scenario(POLYOL)
-    plan = make_plan(scenario)
-    results = saved_figures(plan, assess(plan))
-    results["uncertainty"] = odds_summary(plan_odds(scenario, samples=16))
+    store, people, scenario, results = saved_with_odds(path)
     revision = store.save("T-31 to T-07", scenario, people["ana"], results=results)
     store.submit(revision.plan_id, 1, people["ana"])
     store.approve(revision.plan_id, 1, people["sam"], "fine")

@@ -32,16 +32,22 @@ SYRUP = ROOT / "demo_scenarios" / "syrup_railcar_unload.toml"
 CHROMIUM = Path("/usr/bin/chromium")
 
 
-@pytest.fixture(scope="module")
-def reviewed(tmp_path_factory):
-    """Polyol plan saved with its odds, submitted by a planner and approved by a supervisor."""
-    path = tmp_path_factory.mktemp("signoff") / "plans.sqlite"
+def saved_with_odds(path):
+    """A store at ``path``, its people, the polyol scenario and its saved figures with the odds (16 samples)."""
     store = PlanStore(path=path)
     people = make_people(store)
     scenario = load_scenario(POLYOL)
     plan = make_plan(scenario)
     results = saved_figures(plan, assess(plan))
     results["uncertainty"] = odds_summary(plan_odds(scenario, samples=16))
+    return store, people, scenario, results
+
+
+@pytest.fixture(scope="module")
+def reviewed(tmp_path_factory):
+    """Polyol plan saved with its odds, submitted by a planner and approved by a supervisor."""
+    path = tmp_path_factory.mktemp("signoff") / "plans.sqlite"
+    store, people, scenario, results = saved_with_odds(path)
     first = store.save("T-31 to T-07", scenario, people["ana"], site="east tank farm", results=results)
     store.submit(first.plan_id, 1, people["ana"], "ready")
     store.approve(first.plan_id, 1, people["sam"], "checked against the P-31 curve")
