@@ -77,7 +77,8 @@ def assign_field(model, path: str, name: str, value) -> None:
     Examples
     --------
     A setpoint of 5000 K (an SI value, ``quantities.SI``) is past the schema's 773.15 K (500 degC)
-    ceiling:
+    ceiling; the refusal says both in degC, as a scenario file gives them (``quantities.derived_values_in``
+    says them in the user's units instead):
 
     >>> from planner.scenario.examples import example_scenario
     >>> scenario = example_scenario("oil transfer")
@@ -85,7 +86,7 @@ def assign_field(model, path: str, name: str, value) -> None:
     Traceback (most recent call last):
     ...
     planner.errors.ScenarioError: scenario is not valid:
-      Setpoint (tracing.setpoint): 5000 K is out of range: must be at most 773.15 K
+      Setpoint (tracing.setpoint): 4726.85 °C is out of range: must be at most 500 °C
     """
     try:
         setattr(model, name, value)
