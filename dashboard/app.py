@@ -32,6 +32,7 @@ from dashboard.views import TAB_TITLES, VIEW_NAMES, view_module  # noqa: E402
 from dashboard.views.inputs import Problems  # noqa: E402
 from dashboard.views.page import Page  # noqa: E402
 from planner.errors import ScenarioError  # noqa: E402
+from planner.scenario.derived_units import derived_values_in  # noqa: E402
 from planner.scenario.schema import Scenario, scenario_from_dict, scenario_to_json  # noqa: E402
 
 log = logging.getLogger("dashboard")
@@ -90,6 +91,11 @@ def main() -> None:
     loading.init_state()
     revisions.apply_lock()
     unit_system = state.unit_system()
+    with derived_values_in(unit_system):   # a value a change derived (a picked row), refused: the user's units
+        _draw(unit_system)
+
+
+def _draw(unit_system: str) -> None:
     scenario, scenario_json, problem_list = validate(state.work())
     planned, shown, problem_list = plan_results(problem_list, scenario_json)
     stale = not ok(planned)

@@ -54,8 +54,11 @@ def main(argv: list[str] | None = None) -> int:
         print("error: --step must be between 0.1 m and 500 m", file=sys.stderr)
         return 2
     system = {"us": "US"}.get(getattr(args, "units", "si"), "SI")
+    from planner.scenario.derived_units import derived_values_in
+
     try:
-        return args.func(args)
+        with derived_values_in(system):   # values a change derived, refused, are said in the user's units
+            return args.func(args)
     except (PlannerError, ValueError) as exc:     # a unit error (scenario.units.UnitError) is a ValueError
         print(f"error: {_in_units(exc, system)}", file=sys.stderr)
         return 2

@@ -9,18 +9,15 @@
 
 from __future__ import annotations
 
-import contextlib
-import contextvars
 import math
 from typing import Annotated
 
 from pydantic import BeforeValidator, PlainSerializer, WithJsonSchema
 
+from planner.scenario.derived_units import derived_system
 from planner.scenario.unit_factors import FACTORS
 from planner.scenario.units import (_NUMBER_UNIT, DEFAULT_UNITS, SI_UNITS, UNIT_SYSTEMS, UnitError, _normalise_unit,
                                     from_si, registry, to_si, unit_text)
-
-_DERIVED_SYSTEM: contextvars.ContextVar[str | None] = contextvars.ContextVar("planner_derived_system", default=None)
 
 
 
@@ -112,35 +109,11 @@ def Quantity(kind: str, *, gt: float | None = None, ge: float | None = None,
     ]
 
 
-@contextlib.contextmanager
-def derived_values_in(system: str):
-    """Within it, a value a change derived (an ``SI`` float: a segment's own ambient moved with the
-    site's) that its field refuses is said, with the field's limit, in ``system``'s units ("SI" or "US"
-    of ``units.UNIT_SYSTEMS``); outside, in the kind's default unit, as a scenario file gives it.
-
-    Examples
-    --------
-    >>> from pydantic import TypeAdapter
-    >>> adapter = TypeAdapter(Quantity("temperature", le=343.15))
-    >>> with derived_values_in("US"):
-    ...     adapter.validate_python(SI(349.15))
-    Traceback (most recent call last):
-    ...
-    pydantic_core._pydantic_core.ValidationError: 1 validation error for function-before[parse(), float]
-      Value error, 168.8 °F is out of range: must be at most 158 °F ...
-    """
-    token = _DERIVED_SYSTEM.set(system)
-    try:
-        yield
-    finally:
-        _DERIVED_SYSTEM.reset(token)
-
-
 def _given_unit(value: object, kind: str) -> tuple[str | None, str]:
     """The unit ``value`` was given in (pint spelling; None: the kind's default unit) and the value as the
     user wrote it, for messages: "-300 degC", "-45 m", "12 (m³/s)"."""
     if isinstance(value, SI):   # a derived value (a lever moved, an ambient shifted): in the user's units
-        system = _DERIVED_SYSTEM.get()
+        system = derived_system()
         if system is not None and kind in UNIT_SYSTEMS[system]:
             unit = UNIT_SYSTEMS[system][kind]
             return unit.pint_unit, f"{from_si(float(value), kind, system):.6g} {unit.label}"

@@ -73,7 +73,7 @@ class AmbientsError(ValuesError):
 def typed_ambients(scenario: Scenario, numbers: list[float], system: str, option: str) -> list[float]:
     """Ambients [K] from ``numbers`` in ``system``'s temperature unit (°C or °F), each checked (``check_ambients``)
     with the site's limit said in that unit; AmbientsError naming ``option`` otherwise."""
-    from planner.scenario.quantities import derived_values_in
+    from planner.scenario.derived_units import derived_values_in
     from planner.scenario.units import UNIT_SYSTEMS, to_si_from_display
 
     unit = UNIT_SYSTEMS[system]["temperature"]
