@@ -73,14 +73,12 @@ class AmbientsError(ValuesError):
 def typed_ambients(scenario: Scenario, numbers: list[float], system: str, option: str) -> list[float]:
     """Ambients [K] from ``numbers`` in ``system``'s temperature unit (°C or °F), each checked (``check_ambients``)
     with the site's limit said in that unit; AmbientsError naming ``option`` otherwise."""
-    from planner.scenario.derived_units import derived_values_in
     from planner.scenario.units import UNIT_SYSTEMS, to_si_from_display
 
     unit = UNIT_SYSTEMS[system]["temperature"]
     ambients = [to_si_from_display(n, "temperature", system) for n in numbers]
-    with derived_values_in(system):       # a segment's own ambient, moved with the site's, said in that unit too
-        check_ambients(scenario, ambients, option, [f"{n:g} {unit.label}" for n in numbers],
-                       [f"{n!r} {unit.pint_unit}" for n in numbers])
+    check_ambients(scenario, ambients, option, [f"{n:g} {unit.label}" for n in numbers],
+                   [f"{n!r} {unit.pint_unit}" for n in numbers])
     return ambients
 
 

@@ -77,7 +77,7 @@ def assign_field(model, path: str, name: str, value) -> None:
     Examples
     --------
     A setpoint of 5000 K (an SI value, ``quantities.SI``) is past the schema's 773.15 K (500 degC)
-    ceiling; the refusal says both in degC, as a scenario file gives them (``quantities.derived_values_in``
+    ceiling; the refusal says both in degC, as a scenario file gives them (``derived_units.derived_values_in``
     says them in the user's units instead):
 
     >>> from planner.scenario.examples import example_scenario
