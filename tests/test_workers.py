@@ -100,7 +100,8 @@ def test_a_full_pool_says_it_is_busy():
         thread = threading.Thread(target=lambda: pool.run("plan", (HEAVY,), session="a", time_limit=120))
         thread.start()
         time.sleep(0.3)
-        result = pool.run("plan", (LIGHT,), session="b", wait=0.5)
+        # the heavy plan takes about 0.8 s on a quiet machine: a 0.5 s wait after 0.3 s ended with it (a race)
+        result = pool.run("plan", (LIGHT,), session="b", wait=0.2)
         assert result.get("busy") and "busy with other users" in result["error"]
         thread.join()
     finally:
