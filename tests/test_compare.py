@@ -169,3 +169,22 @@ def test_a_recommendation_at_the_top_of_the_range_says_extend_it():
     assert end_of_range_note([2e5, 6e5, 4e5], 0, "pressure").startswith("2.00 bar is at the end of the range you gave "
                                                                         "(its lowest value): a value below it may be")
     assert end_of_range_note([2e5, 6e5], 1, "pressure", extendable=lambda p: p <= 6e5) is None   # the field's end
+
+
+def test_values_are_shown_as_given_not_rounded_into_another_value():
+    # a 0.5 rpm row read "0 rpm" and 2.5 rpm "2 rpm" (the display table's 0 decimals); setpoints 40.25 and
+    # 40.3 degC both read "40.2"/"40.3" in one system and "104.5 degF" twice in the other: a lever's values get
+    # the decimals that show each as it is (within 0.5 %) and tell them apart, in either unit system
+    from planner.checks.lever_values import lever_decimals
+
+    speeds = [0.5 / 60.0, 2.5 / 60.0, 100.0 / 60.0]                  # rev/s
+    rows = [_row(v, c) for v, c in zip(speeds, (900.0, 700.0, 500.0))]
+    assert lever_decimals("rotational_speed", speeds) == 1
+    _, _, reason = recommend(rows, "rotational_speed")
+    assert reason.startswith("100.0 rpm: lowest total cost 500.00 EUR") and "runner-up 2.5 rpm" in reason
+    setpoints = [313.4, 313.45]                                      # 40.25 and 40.30 degC; 104.45 and 104.54 degF
+    assert lever_decimals("temperature", setpoints) == 2
+    _, _, reason = recommend([_row(v, 500.0) for v in setpoints], "temperature")
+    assert "the gentlest, 40.25 °C" in reason.render("SI") and "the gentlest, 104.45 °F" in reason.render("US")
+    # round values keep the display table's decimals
+    assert lever_decimals("temperature", [313.15, 318.15, 323.15]) == 1 and lever_decimals("pressure", [2e5, 4e5]) == 2

@@ -68,11 +68,12 @@ def comparison_odds_frame(result: dict, system: str, currency: str) -> pd.DataFr
     quantity = result["quantity"]
     beyond = lambda v: math.inf if v is None else v  # noqa: E731  (null in the JSON: beyond the samples)
     rows = []
+    decimals = lever_decimals(quantity, [r["value"] for r in result["rows"]])
     for i, r in enumerate(result["rows"]):
         mark = ("recommended" if i == result.get("recommended_index") else
                 "best chance" if i == result.get("named_index") else
                 "cannot be told apart" if i in (result.get("not_told_apart") or []) else "")
-        rows.append((format_quantity(r["value"], quantity, system, lever_decimals(quantity)),
+        rows.append((format_quantity(r["value"], quantity, system, decimals),
                      f"{percentage(r['chance'])} ± {percentage(r['chance_error'])}",
                      value_text(beyond(r["p90_total_time_s"]), "time", system),
                      value_text(beyond(r["p50_cost"]), "money", system, currency),

@@ -16,7 +16,7 @@ import math
 import pandas as pd
 import streamlit as st
 
-from planner.checks.lever_values import LEVERS, SAME_RELATIVE
+from planner.checks.lever_values import LEVERS, SAME_RELATIVE, lever_decimals
 from planner.errors import ScenarioError
 from planner.scenario.schema import Scenario, scenario_to_dict, scenario_to_json
 from planner.transfer.changes import with_changes
@@ -83,7 +83,8 @@ def use_value(scenario: Scenario, result: dict, index: int, unit_system: str) ->
     saved = st.session_state.get("comparison")
     if saved is not None and saved.get("result") is result:
         saved["json"] = scenario_to_json(changed)
-    return f"{result.get('lever_label', lever)} set to {fmt(value, result['kind'], unit_system)}"
+    decimals = lever_decimals(result["kind"], [r.get("value") for r in result["rows"]])
+    return f"{result.get('lever_label', lever)} set to {fmt(value, result['kind'], unit_system, decimals)}"
 
 
 def use_value_controls(result: dict, scenario: Scenario | None, unit_system: str) -> None:
@@ -94,8 +95,9 @@ def use_value_controls(result: dict, scenario: Scenario | None, unit_system: str
     gen = st.session_state.get("gen", 0)
     left, right = st.columns([3, 1])
     start = result.get("recommended") if result.get("recommended") in rows else rows[0]
+    decimals = lever_decimals(result["kind"], [result["rows"][i]["value"] for i in rows])
     index = left.selectbox("Row", rows, index=rows.index(start), key=f"cmp_pick{gen}",
-                           format_func=lambda i: fmt(result["rows"][i]["value"], result["kind"], unit_system)
+                           format_func=lambda i: fmt(result["rows"][i]["value"], result["kind"], unit_system, decimals)
                            + (" (recommended)" if i == result.get("recommended") else ""))
     disabled = locked()
     pressed = right.button("Use this value", key=f"cmp_use{gen}", disabled=disabled,

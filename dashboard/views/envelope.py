@@ -6,6 +6,7 @@ from __future__ import annotations
 import pandas as pd
 import streamlit as st
 
+from planner.checks.lever_values import lever_decimals
 from planner.errors import PlannerError
 
 from dashboard.compute import cache as compute
@@ -58,8 +59,9 @@ def envelope_section(scenario, scenario_json: str, unit_system: str, lever: str,
         st.error(escaped(result["error"]))
         return
     st.plotly_chart(figures.envelope_figure(result, kind, unit_system), key="envelope_chart")
+    decimals = lever_decimals(kind, result["values"])
     rows = [(fmt(e["ambient_k"], "temperature", unit_system, 0),
-             "none of the values" if e["value"] is None else fmt(e["value"], kind, unit_system))
+             "none of the values" if e["value"] is None else fmt(e["value"], kind, unit_system, decimals))
             for e in result["envelope"]]
     st.dataframe(pd.DataFrame(rows, columns=["Ambient", "Lowest that finishes in the window, no stop"]),
                  hide_index=True, width="stretch")

@@ -16,7 +16,8 @@ from typing import NamedTuple
 from pydantic import ValidationError
 
 from planner.errors import ScenarioError, quoted
-from planner.scenario.units import UNIT_SYSTEMS, si_unit_text
+from planner.scenario.units import UNIT_SYSTEMS, from_si, si_unit_text
+from planner.scenario.wording import DECIMALS, SYSTEMS
 
 class Lever(NamedTuple):
     keyword: str       # plan.with_changes keyword
@@ -110,3 +111,38 @@ def check_values(scenario, lever: str, values: list[float], field: str = "values
 
 def _same(a, b) -> bool:
     return isinstance(a, (int, float)) and math.isfinite(a) and abs(a - b) <= SAME_RELATIVE * max(abs(a), abs(b))
+
+
+MAX_EXTRA_DECIMALS = 3   # a lever's values are shown with at most this many decimals beyond the display table's
+SHOWN_CLOSE = 0.005      # a value shown within 0.5 % of itself (of 10 display units near zero) is shown as it is
+
+
+def lever_decimals(quantity: str, values=()) -> int:
+    """Decimals of a lever's values in tables and sentences: the display table's (``wording.DECIMALS``), or
+    more (at most ``MAX_EXTRA_DECIMALS``) where the values need them, in either unit system, to be told
+    apart and each shown within ``SHOWN_CLOSE`` of itself: pump speeds of 0.5 and 2.5 rpm are not shown as
+    "0" and "2 rpm", nor setpoints of 40.25 and 40.3 degC both as "40.2 degC".
+
+    Examples
+    --------
+    >>> lever_decimals("rotational_speed"), lever_decimals("rotational_speed", [0.5 / 60.0, 100.0 / 60.0])
+    (0, 1)
+    >>> lever_decimals("temperature", [313.15, 323.15]), lever_decimals("temperature", [313.4, 313.45])
+    (1, 2)
+    """
+    base = DECIMALS.get(quantity, 2)
+    numbers = sorted({float(v) for v in values if isinstance(v, (int, float)) and math.isfinite(v)})
+    needed = base
+    for system in SYSTEMS:
+        shown = [from_si(v, quantity, system) for v in numbers]
+        digits = base
+        while digits < base + MAX_EXTRA_DECIMALS and not _faithful(shown, digits):
+            digits += 1
+        needed = max(needed, digits)
+    return needed
+
+
+def _faithful(numbers: list[float], digits: int) -> bool:
+    texts = [f"{x:.{digits}f}" for x in numbers]
+    return len(set(texts)) == len(texts) and all(
+        abs(float(text) - x) <= SHOWN_CLOSE * max(abs(x), 10.0) for text, x in zip(texts, numbers))

@@ -44,7 +44,7 @@ def _cell_class(cell: dict) -> str:
 
 
 def _line_rows(result: Envelope, system: str) -> str:
-    decimals = lever_decimals(result.quantity)
+    decimals = lever_decimals(result.quantity, result.values)
     rows = []
     for ambient, value in zip(result.ambients, result.line):
         shown = (f'<td class="none">none of the values planned: do not start</td>' if value is None
@@ -54,7 +54,7 @@ def _line_rows(result: Envelope, system: str) -> str:
 
 
 def _grid(result: Envelope, system: str) -> str:
-    decimals = lever_decimals(result.quantity)
+    decimals = lever_decimals(result.quantity, result.values)
     head = "".join(f"<th>{html.escape(format_quantity(v, result.quantity, system, decimals))}</th>" for v in result.values)
     rows = []
     for ambient, row in zip(result.ambients, result.cells):

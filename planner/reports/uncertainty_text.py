@@ -166,9 +166,10 @@ def comparison_odds_table(c, system: str = "SI") -> str:
              f"every value)",
              f"    {c.lever} [{unit_label(c.quantity, system)}]   in window, no stop   P90 total   P50 cost   "
              f"P90 cost   stops"]
+    decimals = lever_decimals(c.quantity, [r["value"] for r in c.rows])
     for i, r in enumerate(c.rows):
         mark = "*" if i == c.recommended else "+" if i == c.named else "=" if i in c.not_told_apart else " "
-        value = format_quantity(r["value"], c.quantity, system, lever_decimals(c.quantity)).rsplit(" ", 1)[0]
+        value = format_quantity(r["value"], c.quantity, system, decimals).rsplit(" ", 1)[0]
         chance = f"{percentage(r['chance'])} ± {percentage(r['chance_error'])}"
         lines.append(f"  {mark} {value:>10s}   {chance:>17s}   {value_text(r['p90_total_time_s'], 'time', system):>9s}   "
                      f"{value_text(r['p50_cost'], 'money', system, currency):>12s}   "

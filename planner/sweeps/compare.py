@@ -20,9 +20,9 @@ from planner.checks.findings import SEVERITY_RANK, assess, count_by_severity, wo
 from planner.transfer.changes import with_changes
 from planner.transfer.plan import make_plan
 from planner.plain import plain
-from planner.checks.lever_values import LEVERS, check_values
+from planner.checks.lever_values import LEVERS, check_values, lever_decimals
 from planner.scenario.schema import Scenario
-from planner.scenario.wording import DECIMALS, Q, Sentence, format_quantity, money_text, render
+from planner.scenario.wording import Q, Sentence, format_quantity, money_text, render
 from planner.sweeps.executors import fan_out
 
 
@@ -162,7 +162,7 @@ def recommend(rows: list[dict], quantity: str) -> tuple[int | None, int | None, 
     runner = others[0] if others else None
     r = rows[best]
     excluded = len(rows) - len(allowed)
-    decimals = lever_decimals(quantity)
+    decimals = lever_decimals(quantity, [row["value"] for row in rows])
     choice = Sentence("{v}: lowest total cost {cost}", v=Q(r["value"], quantity, decimals),
                       cost=money_text(r["total_cost"], r["currency"]))
     if len(tied) > 1:
@@ -212,7 +212,7 @@ def end_of_range_note(values: list[float], best: int | None, quantity: str, tied
         return None
     better = "do as well" if tied else "be better still"
     return Sentence("{v} is at the end of the range you gave (its {end} value): a value {way} it may {better}; extend "
-                    "the range {way} {v} to see", v=Q(value, quantity, lever_decimals(quantity)), end=end, way=way,
+                    "the range {way} {v} to see", v=Q(value, quantity, lever_decimals(quantity, values)), end=end, way=way,
                     better=better)
 
 
@@ -227,11 +227,6 @@ def _extendable(scenario: Scenario, lever: str):
         return True
 
     return takes
-
-
-def lever_decimals(quantity: str) -> int:
-    """Decimals of a lever's values in tables and sentences: the display table's (``wording.DECIMALS``)."""
-    return DECIMALS.get(quantity, 2)
 
 
 def check_lever(scenario: Scenario, lever: str) -> None:
@@ -319,11 +314,11 @@ def comparison_json(comparison: Comparison) -> dict:
     })
 
 
-def _row_line(mark: str, r: dict, quantity: str, system: str) -> str:
+def _row_line(mark: str, r: dict, quantity: str, system: str, decimals: int) -> str:
     cell = lambda v, kind, d: format_quantity(v, kind, system, d).rsplit(" ", 1)[0]  # noqa: E731
     k = r["counts"]
     total_h = "—" if r["total_time_s"] is None else cell(r["total_time_s"], "time", 2)
-    return (f"{mark} {cell(r['value'], quantity, lever_decimals(quantity)):>8}   "
+    return (f"{mark} {cell(r['value'], quantity, decimals):>8}   "
             f"{cell(r['start_flow_m3_s'], 'volume_flow', 1):>9}   {cell(r['transfer_time_s'], 'time', 2):>10}   "
             f"{total_h:>7}   {r['energy_cost']:6.1f}   {r['demurrage']:9.1f}   {r['total_cost']:6.1f}   "
             f"{cell(r['peak_pressure_pa'], 'pressure', 2):>8}   {cell(r['hottest_jacket_k'], 'temperature', 1):>9}   "
@@ -338,13 +333,14 @@ def comparison_table(comparison: Comparison, system: str = "SI") -> str:
     u = lambda kind: unit_label(kind, system)  # noqa: E731
     lines = [f"  {c.lever} [{u(c.quantity)}]   flow {u('volume_flow')}   transfer h   total h   energy   demurrage"
              f"    total   peak {u('pressure')}   jacket {u('temperature')}   stop/warn/caut"]
+    decimals = lever_decimals(c.quantity, [r["value"] for r in c.rows])
     for i, r in enumerate(c.rows):
         mark = " *" if i == c.recommended else ("  " if i != c.runner_up else " 2")
         if not r.get("ok"):
-            lines.append(f"{mark} {format_quantity(r['value'], c.quantity, system)}   error: "
+            lines.append(f"{mark} {format_quantity(r['value'], c.quantity, system, decimals)}   error: "
                          f"{render(r.get('error', ''), system)}")
             continue
-        lines.append(_row_line(mark, r, c.quantity, system))
+        lines.append(_row_line(mark, r, c.quantity, system, decimals))
         severe = [f for f in r["findings"] if SEVERITY_RANK[f["severity"]] >= SEVERITY_RANK["warning"]]
         for f in severe:
             lines.append(f"             {f['severity']:7s} {f['code']}: {render(f['message'], system)}")
@@ -354,6 +350,6 @@ def comparison_table(comparison: Comparison, system: str = "SI") -> str:
         lines.append(f"  note: {render(c.end_of_range, system)}")
     for label, s in c.sensitivity.items():
         value = "none" if s["recommended_value"] is None else format_quantity(s["recommended_value"], c.quantity, system,
-                                                                               lever_decimals(c.quantity))
+                                                                               decimals)
         lines.append(f"  with {render(label, system)}: {value}")
     return "\n".join(lines)

@@ -120,7 +120,7 @@ def recommend_by_odds(rows: list[dict], raw: list[list[dict]], window: float, co
     Sentence, rows that cannot be told apart from the named one)."""
     from planner.sweeps.compare import lever_decimals, tie_band
 
-    decimals = lever_decimals(quantity)
+    decimals = lever_decimals(quantity, [r["value"] for r in rows])
     value = lambda i: Q(rows[i]["value"], quantity, decimals)  # noqa: E731
     pct = lambda p: f"{100.0 * p:.0f} %"  # noqa: E731
     reaching = [i for i, r in enumerate(rows) if r["chance"] >= confidence and math.isfinite(r["p50_cost"])]
