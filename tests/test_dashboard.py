@@ -326,3 +326,28 @@ def test_an_invalid_value_keeps_its_inputs_sub_tab_open():
     number_field(at, "Wind speed").set_value(5.0).run()
     assert at.session_state[SECTION_KEY] == "Site & limits"
     assert not [e.value for e in at.error if e.value.startswith("**Wind speed**")]
+
+
+def test_result_tables_show_each_quantity_at_its_display_decimals():
+    """One format per number: the page's and the report's result tables show a figure at the decimals the text
+    outputs use for its quantity (``wording.DECIMALS``: flows and pressures 2, temperatures 1, times 2), a share
+    in per cent at 1, positions along the line at 2 (centimetres); they showed every column at 3 ("12.500 %",
+    "225.525 gpm")."""
+    from dashboard.present import tables
+    from dashboard.present.report import _table
+    from dashboard.compute.results import plan_results
+
+    bundle = plan_results(load_scenario(DEMO_FILES[0]))
+    timeline = tables.timeline_frame(bundle.plan, "US")
+    assert {k: timeline.attrs["decimals"][k] for k in ("Time [h]", "Flow [gpm]", "Source temperature [°F]",
+                                                       "Discharge pressure [psi]")} == {
+        "Time [h]": 2, "Flow [gpm]": 2, "Source temperature [°F]": 1, "Discharge pressure [psi]": 2}
+    html = _table(timeline)
+    first_flow = timeline["Flow [gpm]"].iloc[0]
+    assert f"<td>{first_flow:,.2f}</td>" in html and f"<td>{first_flow:,.3f}</td>" not in html
+    push = tables.push_cold_frame(bundle.push_cold_rows, "SI")
+    assert push.attrs["decimals"]["Line volume pushed out [%]"] == 1
+    assert "<td>12.5</td>" in _table(push) and "12.500" not in _table(push)
+    profile = tables.profile_frame(bundle.profile, bundle.segments, "SI")
+    assert profile.attrs["decimals"]["Distance from pump [m]"] == 2
+    assert profile.attrs["decimals"]["Bulk temperature [°C]"] == 1

@@ -55,7 +55,11 @@ pre { background: #f4f6f7; padding: 0.8rem; overflow-x: auto; font-size: 0.8rem;
 
 
 def _table(frame: pd.DataFrame) -> str:
-    return frame.to_html(index=False, na_rep="—", float_format=lambda v: f"{v:,.3f}", border=0, escape=True)
+    """A results table at the decimals the frame keeps for each column (``tables.with_decimals``), else 3."""
+    decimals = frame.attrs.get("decimals", {})
+    formatters = {column: (lambda v, d=digits: f"{v:,.{d}f}") for column, digits in decimals.items()}
+    return frame.to_html(index=False, na_rep="—", float_format=lambda v: f"{v:,.3f}", formatters=formatters, border=0,
+                         escape=True)
 
 
 def _inputs_frame(s: Scenario, system: str) -> pd.DataFrame:

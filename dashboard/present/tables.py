@@ -70,31 +70,47 @@ def _column(values, kind, system):
     return convert_array(array, kind, system)
 
 
+# A table's number columns are shown at the display decimals of their quantity (``wording.DECIMALS``, as the text
+# outputs show the same figures), kept on the frame (``frame.attrs["decimals"]``: column -> decimals) for the
+# page's ``data_table`` and the report.  Positions along a line keep centimetres (the steps near a thermal
+# entrance are a few centimetres long: at whole metres they would read as one place), and inside diameters
+# two decimals (6.07 in, 154.08 mm: a schedule's wall is told by them).
+TABLE_DECIMALS = {**DECIMALS, "length": 2, "small_length": 2, None: 1}
+
+
+def with_decimals(frame: pd.DataFrame, columns: dict[str, str | None]) -> pd.DataFrame:
+    """``frame`` with the decimals of its number columns (title -> quantity kind, None: a plain number) kept."""
+    frame.attrs["decimals"] = {title: TABLE_DECIMALS.get(kind, 2) for title, kind in columns.items() if title in frame}
+    return frame
+
+
 def timeline_frame(plan: dict, system: str) -> pd.DataFrame:
     import pandas as pd
 
     arrays = plan["timeline"].get("arrays") or {}
-    data = {}
+    data, kinds = {}, {}
     for key, title, kind in TIMELINE_COLUMNS:
         if key in arrays:
-            data[with_unit(title, kind, system)] = _column(arrays[key], kind, system)
-    return pd.DataFrame(data)
+            heading = with_unit(title, kind, system)
+            data[heading], kinds[heading] = _column(arrays[key], kind, system), kind
+    return with_decimals(pd.DataFrame(data), kinds)
 
 
 def push_cold_frame(rows: dict, system: str) -> pd.DataFrame:
     import pandas as pd
 
-    data = {}
+    data, kinds = {}, {}
     for key, title, kind in PUSH_COLD_COLUMNS:
         if key in rows:
             values = rows[key]
             if key == "volume_fraction":
-                data[f"{title} [%]"] = [100.0 * v for v in values]
+                data[f"{title} [%]"], kinds[f"{title} [%]"] = [100.0 * v for v in values], None
             elif key == "status":
                 data[title] = [words(v) for v in values]
             else:
-                data[with_unit(title, kind, system)] = _column(values, kind, system)
-    return pd.DataFrame(data)
+                heading = with_unit(title, kind, system)
+                data[heading], kinds[heading] = _column(values, kind, system), kind
+    return with_decimals(pd.DataFrame(data), kinds)
 
 
 def _segment_names(x, segments: list[dict]) -> list[str]:
@@ -125,18 +141,21 @@ def profile_frame(profile: dict, segments: list[dict], system: str) -> pd.DataFr
     })
     names = [segments[int(i)]["name"] if 0 <= int(i) < len(segments) else "" for i in steps.get("segment", [])]
     step_data = {x_title: convert_array(steps["x"], "length", system), "Point": "mid-step", "Segment": names}
+    kinds = {x_title: "length", with_unit("Bulk temperature", "temperature", system): "temperature",
+             with_unit("Pressure (gauge)", "pressure", system): "pressure"}
     for key, title, kind in STEP_COLUMNS:
         if key in steps:
-            step_data[with_unit(title, kind, system)] = _column(steps[key], kind, system)
+            heading = with_unit(title, kind, system)
+            step_data[heading], kinds[heading] = _column(steps[key], kind, system), kind
     step_part = pd.DataFrame(step_data)
     frame = pd.concat([node_part, step_part], ignore_index=True, sort=False)
-    return frame.sort_values([x_title, "Point"], kind="stable").reset_index(drop=True)
+    return with_decimals(frame.sort_values([x_title, "Point"], kind="stable").reset_index(drop=True), kinds)
 
 
 def segments_frame(segments: list[dict], system: str) -> pd.DataFrame:
     import pandas as pd
 
-    return pd.DataFrame({
+    frame = pd.DataFrame({
         "#": [s["index"] + 1 for s in segments],
         "Segment": [s["name"] for s in segments],
         "Kind": [words(s["kind"]) for s in segments],
@@ -149,6 +168,8 @@ def segments_frame(segments: list[dict], system: str) -> pd.DataFrame:
         "Flange class": [f"class {s['flange_class']}" if s["flange_class"] else "none given" for s in segments],
         "Location": [words(s["location"]) for s in segments],
     })
+    return with_decimals(frame, {with_unit("From", "length", system): "length", with_unit("To", "length", system): "length",
+                                 with_unit("Inside diameter", "small_length", system): "small_length"})
 
 
 def finding_details(finding: dict, system: str) -> list[str]:

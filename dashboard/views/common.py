@@ -31,9 +31,12 @@ SEVERITY_STYLE = {
 
 
 def data_table(frame: pd.DataFrame, decimals: int = 3) -> None:
-    """A results table: numbers at ``decimals`` with thousands separators, a missing value as "—"
-    (never "None")."""
-    st.dataframe(frame.style.format(precision=decimals, thousands=",", na_rep="—"), hide_index=True, width="stretch")
+    """A results table: numbers at the decimals the frame keeps for each column (``tables.with_decimals``),
+    else at ``decimals``, with thousands separators; a missing value as "—" (never "None")."""
+    style = frame.style.format(precision=decimals, thousands=",", na_rep="—")
+    for column, digits in frame.attrs.get("decimals", {}).items():
+        style = style.format(precision=digits, thousands=",", na_rep="—", subset=[column])
+    st.dataframe(style, hide_index=True, width="stretch")
 
 
 def status_line(results: PlanResults, unit_system: str = "SI") -> None:
