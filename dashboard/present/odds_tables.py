@@ -68,7 +68,7 @@ def comparison_odds_frame(result: dict, system: str, currency: str) -> pd.DataFr
     quantity = result["quantity"]
     beyond = lambda v: math.inf if v is None else v  # noqa: E731  (null in the JSON: beyond the samples)
     rows = []
-    decimals = lever_decimals(quantity, [r["value"] for r in result["rows"]])
+    decimals = lever_decimals(quantity, [r["value"] for r in result["rows"]], system=system)
     for i, r in enumerate(result["rows"]):
         mark = ("recommended" if i == result.get("recommended_index") else
                 "best chance" if i == result.get("named_index") else

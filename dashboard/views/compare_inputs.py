@@ -18,7 +18,7 @@ SMALLEST_PERCENT = 1.0
 
 def values_text(values_si, kind: str, unit_system: str) -> str:
     """The lever's values as the Values box shows them: the decimals the comparison table shows."""
-    digits = lever_decimals(kind, values_si)
+    digits = lever_decimals(kind, values_si, system=unit_system)
     return ", ".join(f"{to_display(v, kind, unit_system):.{digits}f}" for v in values_si)
 
 

@@ -83,7 +83,7 @@ def use_value(scenario: Scenario, result: dict, index: int, unit_system: str) ->
     saved = st.session_state.get("comparison")
     if saved is not None and saved.get("result") is result:
         saved["json"] = scenario_to_json(changed)
-    decimals = lever_decimals(result["kind"], [r.get("value") for r in result["rows"]])
+    decimals = lever_decimals(result["kind"], [r.get("value") for r in result["rows"]], system=unit_system)
     return f"{result.get('lever_label', lever)} set to {fmt(value, result['kind'], unit_system, decimals)}"
 
 
@@ -95,7 +95,7 @@ def use_value_controls(result: dict, scenario: Scenario | None, unit_system: str
     gen = st.session_state.get("gen", 0)
     left, right = st.columns([3, 1])
     start = result.get("recommended") if result.get("recommended") in rows else rows[0]
-    decimals = lever_decimals(result["kind"], [result["rows"][i]["value"] for i in rows])
+    decimals = lever_decimals(result["kind"], [result["rows"][i]["value"] for i in rows], system=unit_system)
     index = left.selectbox("Row", rows, index=rows.index(start), key=f"cmp_pick{gen}",
                            format_func=lambda i: fmt(result["rows"][i]["value"], result["kind"], unit_system, decimals)
                            + (" (recommended)" if i == result.get("recommended") else ""))

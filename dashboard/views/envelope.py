@@ -59,8 +59,9 @@ def envelope_section(scenario, scenario_json: str, unit_system: str, lever: str,
         st.error(escaped(result["error"]))
         return
     st.plotly_chart(figures.envelope_figure(result, kind, unit_system), key="envelope_chart")
-    decimals = lever_decimals(kind, result["values"])
-    rows = [(fmt(e["ambient_k"], "temperature", unit_system, 0),
+    decimals = lever_decimals(kind, result["values"], system=unit_system)
+    ambient_decimals = lever_decimals("temperature", result["ambients_k"], least=0, system=unit_system)
+    rows = [(fmt(e["ambient_k"], "temperature", unit_system, ambient_decimals),
              "none of the values" if e["value"] is None else fmt(e["value"], kind, unit_system, decimals))
             for e in result["envelope"]]
     st.dataframe(pd.DataFrame(rows, columns=["Ambient", "Lowest that finishes in the window, no stop"]),

@@ -117,11 +117,13 @@ MAX_EXTRA_DECIMALS = 3   # a lever's values are shown with at most this many dec
 SHOWN_CLOSE = 0.005      # a value shown within 0.5 % of itself (of 10 display units near zero) is shown as it is
 
 
-def lever_decimals(quantity: str, values=()) -> int:
+def lever_decimals(quantity: str, values=(), least: int | None = None, system: str | None = None) -> int:
     """Decimals of a lever's values in tables and sentences: the display table's (``wording.DECIMALS``), or
     more (at most ``MAX_EXTRA_DECIMALS``) where the values need them, in either unit system, to be told
     apart and each shown within ``SHOWN_CLOSE`` of itself: pump speeds of 0.5 and 2.5 rpm are not shown as
-    "0" and "2 rpm", nor setpoints of 40.25 and 40.3 degC both as "40.2 degC".
+    "0" and "2 rpm", nor setpoints of 40.25 and 40.3 degC both as "40.2 degC".  ``least``: start from these
+    decimals instead of the display table's (a grid's ambients in whole degrees where they are whole);
+    ``system``: only as that unit system shows them (a table drawn in one), else as either does (a sentence).
 
     Examples
     --------
@@ -129,12 +131,16 @@ def lever_decimals(quantity: str, values=()) -> int:
     (0, 1)
     >>> lever_decimals("temperature", [313.15, 323.15]), lever_decimals("temperature", [313.4, 313.45])
     (1, 2)
+    >>> lever_decimals("temperature", [268.15, 278.15], least=0), lever_decimals("temperature", [270.65, 271.15], least=0)
+    (0, 1)
+    >>> lever_decimals("temperature", [275.15], least=0, system="SI"), lever_decimals("temperature", [275.15], least=0)
+    (0, 1)
     """
-    base = DECIMALS.get(quantity, 2)
+    base = DECIMALS.get(quantity, 2) if least is None else least
     numbers = sorted({float(v) for v in values if isinstance(v, (int, float)) and math.isfinite(v)})
     needed = base
-    for system in SYSTEMS:
-        shown = [from_si(v, quantity, system) for v in numbers]
+    for each in SYSTEMS if system is None else (system,):
+        shown = [from_si(v, quantity, each) for v in numbers]
         digits = base
         while digits < base + MAX_EXTRA_DECIMALS and not _faithful(shown, digits):
             digits += 1

@@ -44,17 +44,19 @@ def _cell_class(cell: dict) -> str:
 
 
 def _line_rows(result: Envelope, system: str) -> str:
-    decimals = lever_decimals(result.quantity, result.values)
+    decimals = lever_decimals(result.quantity, result.values, system=system)
+    ambient_decimals = lever_decimals("temperature", result.ambients, least=0, system=system)
     rows = []
     for ambient, value in zip(result.ambients, result.line):
         shown = (f'<td class="none">none of the values planned: do not start</td>' if value is None
                  else f"<td><b>{html.escape(format_quantity(value, result.quantity, system, decimals))}</b></td>")
-        rows.append(f"<tr><td>{html.escape(format_quantity(ambient, 'temperature', system, 0))}</td>{shown}</tr>")
+        rows.append(f"<tr><td>{html.escape(format_quantity(ambient, 'temperature', system, ambient_decimals))}</td>{shown}</tr>")
     return "".join(rows)
 
 
 def _grid(result: Envelope, system: str) -> str:
-    decimals = lever_decimals(result.quantity, result.values)
+    decimals = lever_decimals(result.quantity, result.values, system=system)
+    ambient_decimals = lever_decimals("temperature", result.ambients, least=0, system=system)
     head = "".join(f"<th>{html.escape(format_quantity(v, result.quantity, system, decimals))}</th>" for v in result.values)
     rows = []
     for ambient, row in zip(result.ambients, result.cells):
@@ -62,7 +64,7 @@ def _grid(result: Envelope, system: str) -> str:
             f'<td class="{_cell_class(c)}">'
             f'{html.escape(format_quantity(c["total_time_s"], "time", system, 1) if c["total_time_s"] is not None else "—")}'
             f'<br>{html.escape(SEVERITY_MARKS.get(c["worst_severity"], c["worst_severity"]))}</td>' for c in row)
-        rows.append(f"<tr><th>{html.escape(format_quantity(ambient, 'temperature', system, 0))}</th>{cells}</tr>")
+        rows.append(f"<tr><th>{html.escape(format_quantity(ambient, 'temperature', system, ambient_decimals))}</th>{cells}</tr>")
     return f'<table class="grid"><tr><th>ambient</th>{head}</tr>{"".join(rows)}</table>'
 
 

@@ -166,7 +166,7 @@ def comparison_odds_table(c, system: str = "SI") -> str:
              f"every value)",
              f"    {c.lever} [{unit_label(c.quantity, system)}]   in window, no stop   P90 total   P50 cost   "
              f"P90 cost   stops"]
-    decimals = lever_decimals(c.quantity, [r["value"] for r in c.rows])
+    decimals = lever_decimals(c.quantity, [r["value"] for r in c.rows], system=system)
     for i, r in enumerate(c.rows):
         mark = "*" if i == c.recommended else "+" if i == c.named else "=" if i in c.not_told_apart else " "
         value = format_quantity(r["value"], c.quantity, system, decimals).rsplit(" ", 1)[0]

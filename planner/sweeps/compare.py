@@ -333,7 +333,7 @@ def comparison_table(comparison: Comparison, system: str = "SI") -> str:
     u = lambda kind: unit_label(kind, system)  # noqa: E731
     lines = [f"  {c.lever} [{u(c.quantity)}]   flow {u('volume_flow')}   transfer h   total h   energy   demurrage"
              f"    total   peak {u('pressure')}   jacket {u('temperature')}   stop/warn/caut"]
-    decimals = lever_decimals(c.quantity, [r["value"] for r in c.rows])
+    decimals = lever_decimals(c.quantity, [r["value"] for r in c.rows], system=system)
     for i, r in enumerate(c.rows):
         mark = " *" if i == c.recommended else ("  " if i != c.runner_up else " 2")
         if not r.get("ok"):

@@ -181,7 +181,7 @@ def envelope_table(result: Envelope, system: str = "SI") -> str:
     it fits the window; then the envelope line."""
     from planner.scenario.units import unit_label
 
-    decimals = lever_decimals(result.quantity, result.values)
+    decimals = lever_decimals(result.quantity, result.values, system=system)
     value_text = lambda v: format_quantity(v, result.quantity, system, decimals).rsplit(" ", 1)[0]  # noqa: E731
     ambient_text = lambda a: format_quantity(a, "temperature", system, 1).rsplit(" ", 1)[0]  # noqa: E731
     texts = [[_cell_text(c, system) for c in row] for row in result.cells]
