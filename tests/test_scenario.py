@@ -77,6 +77,9 @@ def _problems(data) -> dict[str, str]:
                                    output_curve=[{"temperature": 10.0, "output": 450.0},
                                                  {"temperature": 90.0, "output": 50.0}]),
      "tracing.circuits_per_metre", "give at most 4.44 runs per metre"),
+    # a lowest sensible velocity above the highest flagged every step both too fast and too slow
+    (lambda d: d.update(limits={"max_velocity": "0.1 m/s", "min_velocity": "5 m/s"}), "limits",
+     "min_velocity 5 m/s is not below max_velocity 0.1 m/s"),
 ])
 def test_bad_input_names_the_field_and_the_limit(mutate, field, words):
     data = base_scenario()

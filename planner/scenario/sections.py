@@ -192,6 +192,13 @@ class Limits(_Model):
     confidence: Optional[float] = Field(None, ge=0.5, le=0.99, description="the chance a plan must reach to finish in "
                                         "the planned window with no stop (`--uncertainty`); empty: 0.9, nine times out of ten")
 
+    @model_validator(mode="after")
+    def _velocities(self):
+        if self.min_velocity >= self.max_velocity:   # every velocity would be both too low and too high
+            raise ValueError(f"min_velocity {self.min_velocity:g} m/s is not below max_velocity {self.max_velocity:g} "
+                             "m/s: give a lowest sensible velocity below the highest")
+        return self
+
 
 class CalibrationSource(_Model):
     """The log a calibration was fitted to: its file name and SHA-256 of its bytes."""
