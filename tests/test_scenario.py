@@ -133,8 +133,11 @@ def test_unreadable_files_are_a_clear_message(tmp_path):
 def test_inlet_below_no_flow_temperature_is_refused_with_reason():
     data = base_scenario()
     data["product"]["no_flow_temperature"] = 30.0
-    with pytest.raises(ComputationError, match="no-flow temperature"):
+    with pytest.raises(ComputationError, match="no-flow temperature") as caught:
         evaluate(scenario_from_dict(data))
+    # the refusal starts with the field to change and names the other (it named neither)
+    assert str(caught.value).startswith("operation.inlet_temperature: 20.0 °C")
+    assert "(product.no_flow_temperature)" in str(caught.value)
 
 
 # --- round trips -------------------------------------------------------------------------------
