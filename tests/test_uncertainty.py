@@ -187,6 +187,18 @@ def test_an_extreme_draw_of_a_calibrations_standard_error_names_that_field():
     assert caught.value.problems[0][0] == "uncertainty.viscosity_factor"
 
 
+@pytest.mark.parametrize("demo, name", [("polyol_tank_transfer.toml", "pump_slip_factor"),          # centrifugal
+                                         ("syrup_railcar_unload.toml", "pump_head_factor")])        # PD
+def test_a_pump_input_given_for_the_other_kind_of_pump_is_refused_not_ignored(demo, name):
+    # only the inputs that act on the scenario are sampled; one given that cannot act was dropped silently
+    section = {name: {"distribution": "uniform", "low": 0.95, "high": 1.0}}
+    scenario = _with_uncertainty(load_scenario(DEMO_DIR / demo), section)
+    with pytest.raises(ScenarioError) as caught:
+        input_specs(scenario)
+    field, message = caught.value.problems[0]
+    assert field == f"uncertainty.{name}" and "pump only" in message and "leave it out" in message
+
+
 def test_the_work_budget_counts_samples():
     scenario = load_scenario(SYRUP)
     with use_budget(Budget(uncertainty_steps=1_000_000)), pytest.raises(BudgetError) as caught:

@@ -110,6 +110,11 @@ def input_specs(scenario: Scenario) -> list[InputSpec]:
     specs = []
     for name in INPUTS:
         if not applies(scenario, name):
+            if given is not None and getattr(given, name) is not None:   # given, it would be ignored: say so
+                kind = scenario.pump.kind.replace("_", "-") if scenario.pump is not None else "no"
+                wants = "positive-displacement" if name == "pump_slip_factor" else "centrifugal"
+                raise ScenarioError([(f"uncertainty.{name}", f"acts on a {wants} pump only; this scenario has a "
+                                      f"{kind} pump: leave it out")])
             continue
         own = getattr(given, name) if given is not None else None
         specs.append(InputSpec(name, own, "[uncertainty] of the scenario") if own is not None
