@@ -188,3 +188,58 @@ def test_values_are_shown_as_given_not_rounded_into_another_value():
     assert "the gentlest, 40.25 °C" in reason.render("SI") and "the gentlest, 104.45 °F" in reason.render("US")
     # round values keep the display table's decimals
     assert lever_decimals("temperature", [313.15, 318.15, 323.15]) == 1 and lever_decimals("pressure", [2e5, 4e5]) == 2
+
+
+POLYOL = ROOT / "demo_scenarios" / "polyol_tank_transfer.toml"
+BARGE = ROOT / "demo_scenarios" / "fuel_oil_barge_discharge.toml"
+
+
+def _cli(*argv) -> str:
+    import contextlib
+    import io
+
+    from planner.cli import main
+
+    out = io.StringIO()
+    with contextlib.redirect_stdout(out):
+        assert main(list(argv)) == 0
+    return out.getvalue()
+
+
+def test_a_row_beyond_the_pumps_method_withholds_what_the_plan_withholds(tmp_path):
+    # the polyol demo's centrifugal pump at 10 x the viscosity runs at ANSI/HI 9.6.7 B above 40 (the
+    # method's limit, HI 9.6.7-2015 section 7.6) during the transfer: `plan` gives no flow, times, energies
+    # or cost; the comparison row gave them all (7.8 m3/h, 83.57 h, 799.8 EUR) and "inf" as the total
+    from planner.reports.plan_json import plan_json
+    from planner.transfer.plan import make_plan
+
+    data = scenario_to_dict(load_scenario(POLYOL))
+    data["calibration"] = {"viscosity_factor": 10.0}
+    path = tmp_path / "thick.json"
+    path.write_text(json.dumps(data))
+    plan = plan_json(make_plan(scenario_from_dict(data)))
+    assert plan["withheld"] is not None and plan["start"]["flow_m3_s"] is None
+    row = json.loads(_cli("compare", str(path), "--setpoints", "40", "--json"))["rows"][0]
+    assert "PUMP-HI-RANGE" in row["stop_codes"]
+    for key in ("start_flow_m3_s", "transfer_time_s", "total_time_s", "tracing_kwh", "pump_kwh", "energy_cost",
+                "demurrage", "total_cost"):
+        assert row[key] is None, key
+    assert row["peak_pressure_pa"] == pytest.approx(plan["peak_discharge_pressure_pa"], rel=1e-9)  # the line's own
+    line = next(l for l in _cli("compare", str(path), "--setpoints", "40").splitlines() if l.strip().startswith("40.0"))
+    assert line.split()[1:7] == ["—"] * 6 and "inf" not in line
+
+
+def test_a_row_that_cannot_run_shows_no_total_and_no_transfer_time(tmp_path):
+    # 0.001 rpm: the barge's pump cannot move the product; the plan's transfer time is "not possible",
+    # the row said 0.00 h; a plan with a stop during the start-up has no total: the text printed "inf"
+    data = scenario_to_dict(load_scenario(BARGE))
+    path = tmp_path / "barge.json"
+    path.write_text(json.dumps(data))
+    doc = json.loads(_cli("compare", str(path), "--pump-speeds", "0.001,420", "--json"))
+    stuck = doc["rows"][0]
+    assert stuck["status"] == "no_flow" and stuck["transfer_time_s"] is None and stuck["total_cost"] is None
+    assert doc["rows"][1]["transfer_time_s"] > 0.0
+    text = _cli("compare", str(SYRUP), "--setpoints", "40,500")
+    assert "inf" not in text
+    hot = next(l for l in text.splitlines() if l.strip().startswith("500.0"))
+    assert hot.split()[3] == "—" and hot.split()[6] == "—"           # total h and total cost

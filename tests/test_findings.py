@@ -613,3 +613,44 @@ def test_every_finding_code_was_read_in_both_unit_systems():
     # triggers it on doctored plans and checks that generated scenarios never do)
     missing = codes - RENDERED_CODES - {"PLAN-BOUNDS"}
     assert not missing, f"codes no generated scenario triggered: {sorted(missing)}"
+
+
+def _poiseuille_line(rating_pa: float) -> dict:
+    # 100 m of 1" sch 40 (26.64 mm inside), level, untraced, at 20 degC throughout (ambient and inlet), a
+    # 1 Pa.s liquid at 1 m3/h: Re ~ 13, laminar; the drop is close to 128 mu L Q / (pi D^4) (Hagen-Poiseuille,
+    # White, Fluid Mechanics, section 6.4) plus the developing entrance (about 1 %)
+    data = base_scenario(product=newtonian_product(mu_pa_s=1.0))
+    data["route"]["segments"] = [{"name": "run", "nps": "1", "schedule": "40", "length": 100.0,
+                                  "pressure_rating": f"{rating_pa!r} Pa"}]
+    data["operation"] = {"flow": "1 m3/h", "inlet_temperature": 20.0}
+    return data
+
+
+def test_evaluate_checks_the_rating_at_the_pressure_that_pushes_the_flow():
+    # evaluate's pressures fall from operation.inlet_pressure (0 by default), so a line needing 1,357 bar
+    # was checked at 0 down to -1,357 bar and never passed a rating; now at the pressure that pushes the flow
+    from planner.checks.finding import DISCHARGE
+    from planner.checks.one_line import assess_line
+    from planner.line.model import evaluate, line_from_scenario
+
+    def codes(rating_pa):
+        scenario = scenario_from_dict(_poiseuille_line(rating_pa))
+        line = line_from_scenario(scenario)
+        result = evaluate(scenario, line=line)
+        return result, {f.code: f for f in assess_line(scenario, line, result, name=DISCHARGE)}
+
+    result, _ = codes(1e7)
+    drop = result.summary.pressure_drop_pa
+    d = 0.02664
+    assert drop == pytest.approx(128 * 1.0 * 100.0 * (1 / 3600) / (math.pi * d ** 4), rel=0.03)   # ~7.0 bar
+    _, over = codes(drop * 0.998)
+    assert "PRESSURE-RATING" in over and over["PRESSURE-RATING"].severity == "stop"
+    assert over["PRESSURE-RATING"].value == pytest.approx(drop, rel=1e-9) and over["PRESSURE-RATING"].at_m == 0.0
+    _, under = codes(drop * 1.002)
+    assert "PRESSURE-RATING" not in under
+    # an inlet pressure given is the pressure there (here 2 bar above what the flow needs: 2 bar at the outlet)
+    data = _poiseuille_line(drop * 1.002)
+    data["operation"]["inlet_pressure"] = f"{drop + 2e5!r} Pa"
+    scenario = scenario_from_dict(data)
+    line = line_from_scenario(scenario)
+    assert "PRESSURE-RATING" in {f.code for f in assess_line(scenario, line, evaluate(scenario, line=line))}

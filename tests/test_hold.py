@@ -36,3 +36,22 @@ def test_cold_line_with_tracing_failed_cools_by_the_lumped_law():
     c = 1100.0 * 2000.0 * math.pi * ID_4IN_SCH40 ** 2 / 4 + 7850 * 490 * math.pi / 4 * (0.1143 ** 2 - ID_4IN_SCH40 ** 2)
     expected = c / u * math.log((seg.start_temperature_k - 273.15) / 10.0)
     assert seg.time_to_limit_failed_s == pytest.approx(expected, rel=5e-3)
+
+
+def test_a_stop_longer_than_the_hold_horizon_is_refused_at_the_field():
+    # a stop is followed for HOLD_HORIZON_S (14 days): past it the hold says only "holds 14 days".  A 30-day
+    # stop (the old limit) whose line sets on day 14.2 with the tracing failed read "holds 14 days" with no
+    # finding; the stop is now held to the horizon, in the unit given
+    from planner.errors import ScenarioError
+    from planner.transfer.hold_words import HOLD_HORIZON_S, HOLDS_WORDS
+
+    assert HOLD_HORIZON_S == 14 * 86400.0 and HOLDS_WORDS == "holds 14 days"
+    data = plan_scenario()
+    data["schedule"]["stop_duration"] = "336 h"                    # the horizon itself: accepted
+    assert scenario_from_dict(data).schedule.stop_duration == HOLD_HORIZON_S
+    for typed, words in (("720 h", "720 h is out of range: must be at most 336 h"),
+                         ("14.5 d", "14.5 d is out of range: must be at most 14 d")):
+        data["schedule"]["stop_duration"] = typed
+        with pytest.raises(ScenarioError) as caught:
+            scenario_from_dict(data)
+        assert words in dict(caught.value.problems)["schedule.stop_duration"]

@@ -340,3 +340,22 @@ def test_the_command_line_refuses_a_line_past_the_ceiling_with_exit_2(tmp_path, 
     assert main(["evaluate", str(path)]) == 2
     err = capsys.readouterr().err
     assert err.startswith("error: the heater sheath reaches") and "Traceback" not in err
+
+
+def test_a_steam_traced_line_past_the_ceiling_is_viscous_heating_and_says_so():
+    # steam at the schema's highest 40 bar(g) condenses near 252 degC (IAPWS-IF97 saturation line), far below
+    # the 500 degC ceiling: a product past it was heated by its own friction (5 Pa.s at 50 m3/h in a 1" line).
+    # The advice was "lower tracing.steam_pressure ... or raise operation.flow", the wrong way round
+    from planner.errors import ComputationError
+
+    data = base_scenario(product=newtonian_product(mu_pa_s=5.0))
+    data["route"]["segments"] = [{"name": "run", "nps": "1", "schedule": "40", "length": 400.0}]
+    data["tracing"] = {"kind": "steam", "steam_pressure": "40 bar"}
+    data["operation"] = {"flow": "50 m3/h", "inlet_temperature": 20.0}
+    with pytest.raises(ComputationError) as caught:
+        evaluate(scenario_from_dict(data))
+    text = str(caught.value)
+    assert "product reaches" in text and "viscous heating: lower the flow (operation.flow" in text
+    assert "raise operation.flow" not in text and "tracing.steam_pressure" not in text
+    data["operation"]["flow"] = "5 m3/h"          # a tenth of the flow: about 50 degC at the outlet
+    assert evaluate(scenario_from_dict(data)).summary.outlet_temperature_k < 400.0

@@ -36,3 +36,20 @@ def test_plan_json_on_every_demo(path):
     assert doc["timeline"]["total_time_s"] > 0
     assert doc["costs"]["total"] == pytest.approx(doc["costs"]["energy"] + doc["costs"]["demurrage"])
 
+
+
+def test_a_source_too_cold_to_flow_is_refused_naming_the_field_in_the_units_asked(tmp_path):
+    # the barge demo with the bitumen preset (no-flow 100 degC) and its source at 55 degC: the refusal said
+    # "source temperature 55.0 °C is ...", naming no field to change
+    from planner.scenario.schema import scenario_to_dict
+
+    data = scenario_to_dict(load_scenario(next(p for p in DEMO_FILES if "barge" in p.name)))
+    data["product"] = {"preset": "paving_bitumen_70_100"}
+    path = tmp_path / "bitumen.json"
+    path.write_text(json.dumps(data))
+    for units, words in (("si", "source.temperature: 55.0 °C"), ("us", "source.temperature: 131.0 °F")):
+        out = subprocess.run([sys.executable, "-m", "planner", "plan", str(path), "--units", units],
+                             cwd=ROOT, capture_output=True, text=True, timeout=60)
+        assert out.returncode == 2 and "Traceback" not in out.stderr
+        assert out.stderr.startswith(f"error: {words} is at or below the product's no-flow temperature")
+        assert "(product.no_flow_temperature)" in out.stderr

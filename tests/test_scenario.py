@@ -77,6 +77,9 @@ def _problems(data) -> dict[str, str]:
                                    output_curve=[{"temperature": 10.0, "output": 450.0},
                                                  {"temperature": 90.0, "output": 50.0}]),
      "tracing.circuits_per_metre", "give at most 4.44 runs per metre"),
+    # a lowest sensible velocity above the highest flagged every step both too fast and too slow
+    (lambda d: d.update(limits={"max_velocity": "0.1 m/s", "min_velocity": "5 m/s"}), "limits",
+     "min_velocity 5 m/s is not below max_velocity 0.1 m/s"),
 ])
 def test_bad_input_names_the_field_and_the_limit(mutate, field, words):
     data = base_scenario()
@@ -130,8 +133,11 @@ def test_unreadable_files_are_a_clear_message(tmp_path):
 def test_inlet_below_no_flow_temperature_is_refused_with_reason():
     data = base_scenario()
     data["product"]["no_flow_temperature"] = 30.0
-    with pytest.raises(ComputationError, match="no-flow temperature"):
+    with pytest.raises(ComputationError, match="no-flow temperature") as caught:
         evaluate(scenario_from_dict(data))
+    # the refusal starts with the field to change and names the other (it named neither)
+    assert str(caught.value).startswith("operation.inlet_temperature: 20.0 °C")
+    assert "(product.no_flow_temperature)" in str(caught.value)
 
 
 # --- round trips -------------------------------------------------------------------------------

@@ -78,6 +78,12 @@ def test_rows_carry_the_scenario_its_hash_the_inputs_and_the_figures(tmp_path, c
     assert len({r["scenario_hash"] for r in rows}) == 1 and len(rows[0]["scenario_hash"]) == 64
     assert all(r["ok"] and r["total_time_s"] > 0 and r["worst_severity"] in ("info", "caution", "warning", "stop")
                for r in rows)
+    # the folder reads as a table the way the README says (the lock file was 'sweep.lock', 0 bytes, and
+    # pyarrow refused the folder: "Parquet file size is 0 bytes"); a dot file is skipped
+    import pandas as pd
+    import pyarrow.parquet as pq
+
+    assert pq.read_table(tmp_path / "out").num_rows == len(pd.read_parquet(tmp_path / "out")) == 4
     assert pq.read_schema(next((tmp_path / "out").glob("part-*.parquet"))).field("codes").type == pa.list_(pa.string())
     assert main(["sweep", manifest]) == 0                 # nothing left to do
     assert "4 already in the table, 0 planned now" in capsys.readouterr().out

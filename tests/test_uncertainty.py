@@ -170,6 +170,35 @@ def test_an_extreme_draw_past_a_field_is_refused_before_any_plan():
     assert caught.value.problems[0][0] == "uncertainty.wind_factor" and "60 m/s" in caught.value.problems[0][1]
 
 
+def test_an_extreme_draw_of_a_calibrations_standard_error_names_that_field():
+    # no [uncertainty]: the viscosity factor's spread is the fit's standard error (20, the schema's top) over
+    # the factor 1.5, lognormal log_sd 2 cut at 4 sd: exp(-8) x 1.5 = 0.0005 is below the factor's 0.05.
+    # The refusal named only uncertainty.viscosity_factor, a field the file does not have
+    data = scenario_to_dict(load_scenario(DEMO_DIR / "fuel_oil_barge_discharge.toml"))
+    data["calibration"] = {"viscosity_factor": 1.5, "viscosity_factor_standard_error": 20.0}
+    with pytest.raises(ScenarioError) as caught:
+        plan_odds(scenario_from_dict(data), samples=16)
+    field, message = caught.value.problems[0]
+    assert field == "calibration.viscosity_factor_standard_error"
+    assert "uncertainty.viscosity_factor" in message and "0.05 to 20" in message and "  " not in message
+    data["uncertainty"] = {"viscosity_factor": {"distribution": "lognormal", "median": 1.0, "log_sd": 2.0}}
+    with pytest.raises(ScenarioError) as caught:                    # its own distribution: named as before
+        plan_odds(scenario_from_dict(data), samples=16)
+    assert caught.value.problems[0][0] == "uncertainty.viscosity_factor"
+
+
+@pytest.mark.parametrize("demo, name", [("polyol_tank_transfer.toml", "pump_slip_factor"),          # centrifugal
+                                         ("syrup_railcar_unload.toml", "pump_head_factor")])        # PD
+def test_a_pump_input_given_for_the_other_kind_of_pump_is_refused_not_ignored(demo, name):
+    # only the inputs that act on the scenario are sampled; one given that cannot act was dropped silently
+    section = {name: {"distribution": "uniform", "low": 0.95, "high": 1.0}}
+    scenario = _with_uncertainty(load_scenario(DEMO_DIR / demo), section)
+    with pytest.raises(ScenarioError) as caught:
+        input_specs(scenario)
+    field, message = caught.value.problems[0]
+    assert field == f"uncertainty.{name}" and "pump only" in message and "leave it out" in message
+
+
 def test_the_work_budget_counts_samples():
     scenario = load_scenario(SYRUP)
     with use_budget(Budget(uncertainty_steps=1_000_000)), pytest.raises(BudgetError) as caught:

@@ -13,11 +13,19 @@ from planner.scenario.schema import Scenario
 
 
 def assess_line(scenario: Scenario, line: Line, result: MarchResult, name: str = DISCHARGE,
-                base_pressure: float = 0.0) -> list[Finding]:
+                base_pressure: float | None = None) -> list[Finding]:
     """The checks that apply to one line alone (``python -m planner evaluate``), most severe first, the
     standing caution last: product setting or above its maximum, jacket touch temperature, heater sheath
     against temperature class and exposure rating, pressure against ratings (``result``'s pressures
-    plus ``base_pressure``, gauge), velocity and regime, viscosity law and film correlation ranges."""
+    plus ``base_pressure``, gauge), velocity and regime, viscosity law and film correlation ranges.
+
+    ``base_pressure`` None: the pressure that pushes this flow through, i.e. ``result``'s pressures (which
+    fall from ``operation.inlet_pressure``, 0 by default) raised so that none is below 0 gauge (the outlet at
+    least open to the air); before, a line needing 1,357 bar from a 0 bar inlet was checked at pressures
+    of 0 down to -1,357 bar and never exceeded a rating."""
+    if base_pressure is None:
+        pressures = result.nodes["pressure"]
+        base_pressure = max(0.0, -float(min(pressures))) if len(pressures) else 0.0
     run = LineRun(name, line, result, base_pressure)
     found = line_product(scenario, run) + product_hottest(scenario, [_run_hottest(run)])
     found += line_surfaces(scenario, run) + line_pressures(run) + line_regime(scenario, run)

@@ -222,10 +222,11 @@ def _stopped(line: Line, totals: Totals, count: int, step: float, x: float) -> N
         raise past_meter(f"{line.name}.segments", totals.n, count, where, text)
     what, value = totals.hot_at
     kind = line.tracing.kind if line.tracing is not None else "none"
-    if kind == "steam":
-        change = "lower tracing.steam_pressure or tracing.circuits_per_metre, or raise operation.flow"
-    elif kind == "none":
-        change = "lower the inlet temperature or operation.flow (viscous heating)"
+    if kind in ("steam", "none"):
+        # steam holds nothing above its saturation temperature (at most about 252 degC at the schema's 40 bar):
+        # past the ceiling the heat is the flow's own friction
+        change = ("the heat is viscous heating: lower the flow (operation.flow; in a plan the pump's speed, "
+                  "displacement or curve) or the inlet temperature")
     else:
         change = ("lower tracing.output or tracing.circuits_per_metre, hold the pipe wall with a thermostat "
                   "(tracing.sensing = \"pipe_wall\" and a setpoint), or raise operation.flow")

@@ -66,7 +66,9 @@ def evaluate(scenario: Scenario, flow: float | None = None, inlet_temperature: f
     t_in = scenario.operation.inlet_temperature if inlet_temperature is None else inlet_temperature
     p_in = scenario.operation.inlet_pressure if inlet_pressure is None else inlet_pressure
     if t_in <= scenario.product.no_flow_temperature:
+        field = "operation.inlet_temperature" if inlet_temperature is None else "inlet temperature"
         raise ComputationError(Sentence(
-            "inlet temperature {t} is at or below the product's no-flow temperature {limit}: it will not flow",
-            t=Q(t_in, "temperature"), limit=Q(scenario.product.no_flow_temperature, "temperature")))
+            "{field}: {t} is at or below the product's no-flow temperature {limit} (product.no_flow_temperature): it "
+            "will not flow", field=field, t=Q(t_in, "temperature"), limit=Q(scenario.product.no_flow_temperature,
+                                                                            "temperature")))
     return march(line, flow, t_in, p_in, step=step)

@@ -49,6 +49,9 @@ PLAN_PASSES_PER_TIMELINE_STEP = 3.5   # passes per timeline step (operating-poin
 # with a [weather], the start-up is worked out again at the weather of its coldest moment, at most this many
 # times in all (transfer.plan), so the passes outside the timeline count that many times (planner choice)
 STARTUP_WEATHER_PASSES = 3
+# how long a stop is followed (``transfer/hold.py``; here, light, for the schema's limit of schedule.stop_duration):
+# past it the hold says only that the line holds (a 30-day stop whose line set on day 14.2 read "holds 14 days")
+HOLD_HORIZON_S = 14 * 86400.0
 MIN_TIMELINE_STEPS = 10               # schema's lower limit of schedule.timeline_steps
 ENV_FACTOR = "PLANNER_WORK_BUDGET"
 

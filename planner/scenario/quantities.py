@@ -77,6 +77,7 @@ def Quantity(kind: str, *, gt: float | None = None, ge: float | None = None,
             except UnitError as exc:   # the path already names the field: drop to_si's own prefix
                 raise ValueError(str(exc).removeprefix("value: ")) from None
         unit, shown = _given_unit(value, kind)
+        number = _at_bound(number, (gt, ge, lt, le))
         if kind == "temperature" and number <= 0.0:
             raise ValueError(f"{shown} is at or below absolute zero ({_in_unit(0.0, kind, unit)})")
         problems = []
@@ -107,6 +108,24 @@ def Quantity(kind: str, *, gt: float | None = None, ge: float | None = None,
         PlainSerializer(lambda v: si_to_default(v, kind), return_type=float),
         WithJsonSchema({"anyOf": [{"type": "number"}, {"type": "string"}], "description": text}),
     ]
+
+
+# A value typed as a bound in another unit lands within a few units in the last place of the SI bound
+# ("-90 degC" is 183.14999999999998 K, "1000 L" 1.0000000000000002 m3): it is the bound.
+BOUND_RELATIVE_TOLERANCE = 1e-12
+
+
+def _at_bound(number: float, bounds) -> float:
+    """``number``, or the bound it equals but for the rounding of a unit conversion, so the limit a message
+    gives is accepted at ``ge``/``le`` and refused at ``gt``/``lt`` whatever unit it is typed in.
+
+    >>> _at_bound(-90 + 273.15, (None, 183.15, None, None))
+    183.15
+    """
+    for bound in bounds:
+        if bound is not None and abs(number - bound) <= BOUND_RELATIVE_TOLERANCE * abs(bound):
+            return bound
+    return number
 
 
 def _given_unit(value: object, kind: str) -> tuple[str | None, str]:

@@ -9,6 +9,7 @@ from typing import TYPE_CHECKING, Literal, Optional
 
 from pydantic import Field, field_validator, model_validator
 
+from planner.scenario.budget import HOLD_HORIZON_S
 from planner.scenario.fields import (Ambient, Duration, DynamicViscosity, Flow, GaugePressure, Head, Power, Speed,
                                      Temperature, Volume, WindSpeed, _Model)
 from planner.scenario.quantities import Quantity
@@ -164,7 +165,8 @@ class Schedule(_Model):
     planned_window: Duration = 8 * 3600.0
     start_mode: Literal["prewarm", "push_cold"] = Field("prewarm", description="how the plan starts: pre-warm the line first, or push the cold contents out")
     line_start_temperature: Optional[Temperature] = Field(None, description="temperature of the product left in the line; default the design ambient")
-    stop_duration: Duration = Field(3600.0, description="a stop to check restart for")
+    stop_duration: Quantity("time", gt=0.0, le=HOLD_HORIZON_S, description="a stop to check restart for (at most "
+                            "the 14 days a stop is followed)") = 3600.0
     limiting_viscosity: Optional[DynamicViscosity] = Field(None, description="viscosity above which the line counts as unable to restart")
     timeline_steps: int = Field(60, ge=10, le=1000)
     start: Optional[str] = Field(None, max_length=40, description="planned start of the start-up (ISO 8601 with its "
@@ -191,6 +193,13 @@ class Limits(_Model):
     poor_film_coefficient: Quantity("heat_transfer_coefficient", ge=0.0, le=1000.0, description="inner film coefficient below which laminar heat transfer counts as poor") = 20.0
     confidence: Optional[float] = Field(None, ge=0.5, le=0.99, description="the chance a plan must reach to finish in "
                                         "the planned window with no stop (`--uncertainty`); empty: 0.9, nine times out of ten")
+
+    @model_validator(mode="after")
+    def _velocities(self):
+        if self.min_velocity >= self.max_velocity:   # every velocity would be both too low and too high
+            raise ValueError(f"min_velocity {self.min_velocity:g} m/s is not below max_velocity {self.max_velocity:g} "
+                             "m/s: give a lowest sensible velocity below the highest")
+        return self
 
 
 class CalibrationSource(_Model):

@@ -81,6 +81,11 @@ def parse_range(text: str, max_values: int | None = None) -> list[float]:
     return values
 
 
+# a row's figures the centrifugal pump's curve makes (its flow and times, and every energy drawn over them)
+PUMP_MADE = ("start_flow_m3_s", "transfer_time_s", "total_time_s", "tracing_kwh", "tracing_steam_kg", "pump_kwh",
+             "energy_cost", "demurrage")
+
+
 def plan_row(scenario: Scenario, lever: str, value: float, viscosity_factor: float, ambient_shift: float) -> dict:
     """One comparison row (runs in a worker process: the validated scenario in, plain data out; the
     scenario is pickled as it is, so a row never parses or validates it again; ``value`` SI)."""
@@ -113,7 +118,12 @@ def plan_row(scenario: Scenario, lever: str, value: float, viscosity_factor: flo
         counts=counts, has_stop=counts["stop"] > 0, worst_severity=worst_severity(findings),
         findings=[f.as_dict() for f in findings], stop_codes=[f.code for f in findings if f.severity == "stop"],
     )
-    if plan.total_time_s is None:
+    if not plan.timeline.completed:       # no transfer time for a transfer that stops (the plan's key figure)
+        row["transfer_time_s"] = None
+    if plan.pump_beyond_method is not None:
+        # beyond ANSI/HI 9.6.7 the pump's curve makes no figure: as the plan withholds them (key_figures)
+        row.update({name: None for name in PUMP_MADE})
+    if plan.total_time_s is None or plan.pump_beyond_method is not None:
         row["total_cost"] = math.inf  # the plan cannot be carried out as it stands
     return row
 
@@ -317,10 +327,12 @@ def comparison_json(comparison: Comparison) -> dict:
 def _row_line(mark: str, r: dict, quantity: str, system: str, decimals: int) -> str:
     cell = lambda v, kind, d: format_quantity(v, kind, system, d).rsplit(" ", 1)[0]  # noqa: E731
     k = r["counts"]
-    total_h = "—" if r["total_time_s"] is None else cell(r["total_time_s"], "time", 2)
+    figure = lambda v, kind, d: "—" if v is None else cell(v, kind, d)  # noqa: E731
+    money = lambda v: "—" if v is None or not math.isfinite(v) else f"{v:.1f}"  # noqa: E731
     return (f"{mark} {cell(r['value'], quantity, decimals):>8}   "
-            f"{cell(r['start_flow_m3_s'], 'volume_flow', 1):>9}   {cell(r['transfer_time_s'], 'time', 2):>10}   "
-            f"{total_h:>7}   {r['energy_cost']:6.1f}   {r['demurrage']:9.1f}   {r['total_cost']:6.1f}   "
+            f"{figure(r['start_flow_m3_s'], 'volume_flow', 1):>9}   {figure(r['transfer_time_s'], 'time', 2):>10}   "
+            f"{figure(r['total_time_s'], 'time', 2):>7}   {money(r['energy_cost']):>6}   {money(r['demurrage']):>9}   "
+            f"{money(r['total_cost']):>6}   "
             f"{cell(r['peak_pressure_pa'], 'pressure', 2):>8}   {cell(r['hottest_jacket_k'], 'temperature', 1):>9}   "
             f"{k['stop']}/{k['warning']}/{k['caution']}")
 

@@ -110,6 +110,11 @@ def input_specs(scenario: Scenario) -> list[InputSpec]:
     specs = []
     for name in INPUTS:
         if not applies(scenario, name):
+            if given is not None and getattr(given, name) is not None:   # given, it would be ignored: say so
+                kind = scenario.pump.kind.replace("_", "-") if scenario.pump is not None else "no"
+                wants = "positive-displacement" if name == "pump_slip_factor" else "centrifugal"
+                raise ScenarioError([(f"uncertainty.{name}", f"acts on a {wants} pump only; this scenario has a "
+                                      f"{kind} pump: leave it out")])
             continue
         own = getattr(given, name) if given is not None else None
         specs.append(InputSpec(name, own, "[uncertainty] of the scenario") if own is not None
@@ -219,6 +224,28 @@ def check_extremes(scenario: Scenario, specs: list[InputSpec]) -> None:
                                           f"{VISCOSITY_RANGE[0]:g} to {VISCOSITY_RANGE[1]:g}")])
             except ScenarioError as exc:
                 field, message = exc.problems[0]
-                raise ScenarioError([(f"uncertainty.{spec.name}", f"at its extreme draw {value:.4g} "
-                                      f"{'K' if spec.kind == 'temperature_difference' else ''} the scenario's "
-                                      f"{field or 'value'} is refused ({message}): give a smaller spread")]) from None
+                unit = " K" if spec.kind == "temperature_difference" else ""
+                raise ScenarioError([(_spread_field(scenario, spec.name), f"at its extreme draw {value:.4g}{unit} the "
+                                      f"scenario's {field or 'value'} is refused ({message}): give a smaller spread"
+                                      f"{_spread_hint(scenario, spec.name)}")]) from None
+
+
+def _from_standard_error(scenario: Scenario, name: str) -> str | None:
+    """``calibration.<factor>_standard_error`` when input ``name``'s distribution is the default made from it
+    (no ``[uncertainty]`` of its own), else None."""
+    own = getattr(scenario.uncertainty, name, None) if scenario.uncertainty is not None else None
+    fitted = _CALIBRATED.get(name)
+    if own is not None or fitted is None or getattr(calibration_of(scenario), f"{fitted}_standard_error", None) is None:
+        return None
+    return f"calibration.{fitted}_standard_error"
+
+
+def _spread_field(scenario: Scenario, name: str) -> str:
+    """The field that sets input ``name``'s spread: its ``[uncertainty]`` entry, or the standard error it defaults to."""
+    return _from_standard_error(scenario, name) or f"uncertainty.{name}"
+
+
+def _spread_hint(scenario: Scenario, name: str) -> str:
+    field = _from_standard_error(scenario, name)
+    return "" if field is None else f" (the default of uncertainty.{name}, lognormal with log_sd = {field} / the " \
+                                    f"factor; or give uncertainty.{name} its own distribution)"

@@ -4,7 +4,7 @@ The table is a folder of Parquet files (``part-*.parquet``), one per chunk of fi
 written to a temporary name and renamed into place, so a sweep stopped at any moment (a crash,
 Ctrl-C, SIGKILL) leaves whole files only.  A re-run reads the keys already in the folder and plans
 only the rest: no row is computed twice and none is written twice.  One sweep at a time writes a
-folder (an ``flock`` on ``sweep.lock``, released by the system when the process ends however it ends).
+folder (an ``flock`` on ``.sweep.lock``, released by the system when the process ends however it ends).
 
 A row's key is the scenario's content hash (``scenario.identity``), the lever, its value and the
 ambient: a scenario file edited between runs is a new scenario, and its rows are planned afresh.
@@ -44,7 +44,7 @@ ROW_SCHEMA = pa.schema([
 ])
 FIGURES = ("total_time_s", "transfer_time_s", "startup_time_s", "start_flow_m3_s", "tracing_kwh", "tracing_steam_kg",
            "pump_kwh", "energy_cost", "demurrage", "total_cost", "peak_pressure_pa", "hottest_jacket_k")
-LOCK_NAME = "sweep.lock"
+LOCK_NAME = ".sweep.lock"   # a dot file: pyarrow and pandas reading the folder as a table skip it
 
 
 class SweepBusy(OSError):

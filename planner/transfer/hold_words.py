@@ -5,9 +5,9 @@ the transfer's models (``hold`` imports the line's transients and the transfer s
 
 from __future__ import annotations
 
+from planner.scenario.budget import HOLD_HORIZON_S   # how long a stop is followed: past it, the line holds
 from planner.scenario.wording import Q, Sentence, render
 
-HOLD_HORIZON_S = 14 * 86400.0            # how long a stop is followed (``hold``): past it, the line holds
 HOLDS_WORDS = f"holds {HOLD_HORIZON_S / 86400:.0f} days"    # a time to the limit past the hold horizon
 
 

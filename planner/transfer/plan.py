@@ -208,8 +208,9 @@ def make_plan(scenario: Scenario, viscosity_factor: float = 1.0, steps: int | No
     source = scenario.source
     if source.temperature <= product.no_flow_temperature:
         raise ComputationError(Sentence(
-            "source temperature {t} is at or below the product's no-flow temperature {limit}: heat the source before "
-            "transfer", t=Q(source.temperature, "temperature"), limit=Q(product.no_flow_temperature, "temperature")))
+            "source.temperature: {t} is at or below the product's no-flow temperature {limit} "
+            "(product.no_flow_temperature): heat the source before transfer", t=Q(source.temperature, "temperature"),
+            limit=Q(product.no_flow_temperature, "temperature")))
     weather = weather_profile(scenario)
     design_ambient = scenario.site.design_ambient_temperature or scenario.site.ambient_temperature
     if weather is not None and scenario.schedule.line_start_temperature is None:
