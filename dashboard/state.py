@@ -52,6 +52,10 @@ KEYS = {
     "cmp_odds": "{json, result} of the last comparison with odds (views/compare_odds)",
     "cal_msg": "(kind, text) of the last calibration step",
     "cal_demo_log": "the demo log chosen in the Calibration view instead of an upload",
+    # the browser
+    "page_shown": "the page has been on screen in this session's browser (views/deferred.page_shown, from the "
+                  "signal's value): the Plan view's pump chart is drawn from then on; tests set it to stand in",
+    "page_shown_signal": "the page-shown signal (a custom component, views/deferred): true once mounted",
 }
 
 # widget keys by prefix: prefix -> the widgets

@@ -1,6 +1,11 @@
 """The suction line's chart (Along the line) and the pump chart (Plan) in the real app (AppTest): the
 page draws the planner's numbers (``make_plan``, ``pump_chart``) converted, never its own.  Unit factors:
-NIST SP 811 (2008) Appendix B (1 psi = 6.894 757 E+03 Pa; 1 gal (US) = 3.785 411 784 E-03 m3)."""
+NIST SP 811 (2008) Appendix B (1 psi = 6.894 757 E+03 Pa; 1 gal (US) = 3.785 411 784 E-03 m3).
+
+The Plan view draws the pump chart only once the browser says the key figures are on screen
+(``dashboard/views/deferred.py``); AppTest runs no JavaScript, so ``_open`` stands in for that signal by
+setting the session key it would set (``page_shown``).  The real signal is tested in Chromium
+(``tests/test_browser_deferred.py``)."""
 
 from __future__ import annotations
 
@@ -23,12 +28,15 @@ PSI_PER_PA = 1.0 / 6.894757e3
 GPM_PER_M3_S = 60.0 / 3.785411784e-3
 
 
-def _open(path, view: str, units: str = "SI") -> AppTest:
+def _open(path, view: str, units: str = "SI", shown: bool = True) -> AppTest:
+    """The app on demo ``path`` and ``view``; ``shown``: stand in for the browser's page-shown signal."""
     at = AppTest.from_file(APP, default_timeout=90).run()
     if at.session_state["demo_choice"] != path.name:
         at.selectbox(key="demo_choice").set_value(path.name).run()
     at.session_state["unit_system"] = units
     at.session_state["view"] = view
+    if shown:
+        at.session_state["page_shown"] = True
     at.run()
     assert not at.exception, at.exception
     return at
@@ -75,6 +83,30 @@ def test_pump_chart_in_us_units_is_the_planners():
     assert _values(point["x"])[0] == pytest.approx(chart.operating_flow_m3_s * GPM_PER_M3_S, rel=1e-6)
     assert _values(point["y"])[0] == pytest.approx(chart.operating_value * PSI_PER_PA, rel=1e-6)
     assert spec["layout"]["yaxis"]["title"]["text"] == "Pump differential pressure [psi]"
+
+
+def _pump_charts(at: AppTest) -> list:
+    return [c for c in at.get("plotly_chart")
+            if json.loads(c.proto.spec)["layout"]["title"]["text"].startswith("Pump and system at the start")]
+
+
+def test_pump_chart_waits_for_the_page_shown_signal():
+    """Before the browser's signal the Plan view has its key figures and tables and a line saying the pump
+    chart is on its way, but no chart; once the signal's value is true the chart is drawn and kept."""
+    at = _open(POLYOL, "Plan", shown=False)
+    assert [m.value for m in at.metric] and any("Pump at the start" in m.value for m in at.markdown)
+    assert not _pump_charts(at)
+    assert any(c.value == "Pump chart loading…" for c in at.caption)
+    assert "page_shown" not in at.session_state
+    at.session_state["page_shown_signal"] = True          # what the component's value sets on its rerun
+    at.run()
+    assert at.session_state["page_shown"] is True and len(_pump_charts(at)) == 1
+    assert not any(c.value == "Pump chart loading…" for c in at.caption)
+    at.session_state["view"] = "Over time"
+    at.run()
+    at.session_state["view"] = "Plan"                       # the signal is not drawn again: the chart at once
+    at.run()
+    assert not at.exception and len(_pump_charts(at)) == 1
 
 
 def test_centrifugal_pump_chart_draws_water_and_corrected_curves():

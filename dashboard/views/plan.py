@@ -11,9 +11,9 @@ from dashboard.present import tables
 from dashboard.present.display import fmt
 from dashboard.present.plaintext import escaped, markdown_table
 from planner.scenario.wording import render
-from dashboard.present.pump_figure import pump_caption, pump_figure
 
 from .common import NO_ICON, findings_block, status_line
+from .deferred import page_shown
 from .page import Page
 
 
@@ -43,9 +43,24 @@ def draw(page: Page) -> None:
         ("Relief recirculation", fmt(start.get("relief_flow_m3_s"), "volume_flow", unit_system)),
     ]
     right.markdown(markdown_table(("Item", "Value"), rows))
-    chart = results.pump_chart
+    _pump_chart(results.pump_chart, unit_system)
+
+
+def _pump_chart(chart: dict | None, unit_system: str) -> None:
+    """The pump chart, drawn once the key figures are on screen (``deferred``: Plotly would hold them back);
+    until then a line saying it is on its way.  Its slot comes before the signal, so the chart keeps its
+    place on the page from the run that first draws it on."""
     if chart is not None and "error" in chart:
         st.info(escaped(render(chart["error"], unit_system)), icon=NO_ICON)
-    elif chart is not None:
+        return
+    if chart is None:
+        return
+    slot = st.container()
+    if not page_shown():
+        slot.caption("Pump chart loading…")
+        return
+    from dashboard.present.pump_figure import pump_caption, pump_figure   # the figures module: when drawn
+
+    with slot:
         st.plotly_chart(pump_figure(chart, unit_system), key="pump_chart")
         st.caption(escaped(pump_caption(chart)))
