@@ -64,3 +64,27 @@ def test_the_calibration_and_the_study_factor_multiply_the_viscosity():
     data["calibration"] = {"viscosity_factor": 1.18}
     scaled = scenario_product(scenario_from_dict(data), viscosity_factor=1.2)
     assert scaled.viscosity(320.0) == pytest.approx(1.18 * 1.2 * plain.viscosity(320.0), rel=1e-12)
+
+
+@pytest.mark.parametrize("field, slope", [("specific_heat_slope", -50.0), ("conductivity_slope", -0.01),
+                                          ("density_slope", -10.0)])
+def test_a_property_slope_that_reaches_zero_in_range_is_refused_naming_it(field, slope):
+    # a slope inside its own bounds could still take the linear law through zero between -90 degC and the
+    # product's max_temperature: the plan then ended in a ZeroDivisionError that named the viscosity data
+    from planner.errors import ScenarioError
+    from planner.scenario.product_spec import PROPERTY_REFERENCE_K
+
+    data = base_scenario()
+    product = data["product"]
+    product.update({"specific_heat": "2000 J/(kg K)", "thermal_conductivity": "0.13 W/(m K)", "density": "900 kg/m3",
+                    "max_temperature": "150 degC", field: slope})
+    with pytest.raises(ScenarioError, match=f"{field}: with a slope of {slope:g} the .* falls to"):
+        scenario_from_dict(data)
+    # a twentieth of the slope keeps the law above zero over the range: taken, and the planner's law is that
+    # line about 20 degC (by hand)
+    product[field] = slope / 20.0
+    made = scenario_product(scenario_from_dict(data))
+    if field == "specific_heat_slope":
+        assert made.specific_heat(PROPERTY_REFERENCE_K + 10.0) == pytest.approx(2000.0 - 25.0)
+    if field == "conductivity_slope":
+        assert made.conductivity(PROPERTY_REFERENCE_K + 10.0) == pytest.approx(0.13 - 0.005)

@@ -10,6 +10,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+from planner.scenario.product_spec import PROPERTY_REFERENCE_K
 from planner.scenario.schema import ProductSpec, Scenario, calibration_of
 from planner.correlations.steam import saturation_pressure
 from planner.correlations.viscosity import AndradeLaw, VogelFulcherTammannLaw, WaltherLaw
@@ -127,10 +128,10 @@ class Product:
 
     # -- properties -------------------------------------------------------------------------
     def specific_heat(self, t: float) -> float:
-        return self._cp + self._cp_slope * (t - 293.15)
+        return self._cp + self._cp_slope * (t - PROPERTY_REFERENCE_K)
 
     def conductivity(self, t: float) -> float:
-        return self._k + self._k_slope * (t - 293.15)
+        return self._k + self._k_slope * (t - PROPERTY_REFERENCE_K)
 
     def kinematic_viscosity(self, t: float) -> float:
         if self._kinematic:

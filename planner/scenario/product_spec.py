@@ -79,6 +79,9 @@ def _point_value(point: LabPoint, density: float, kinematic: bool) -> float:
     return point.viscosity if point.viscosity is not None else point.kinematic_viscosity * density
 
 
+PROPERTY_REFERENCE_K = 293.15   # specific heat and conductivity are given at 20 degC, their slopes about it
+
+
 class ProductSpec(_Model):
     """A liquid product. ``preset`` names an entry of ``planner.scenario.presets.PRODUCT_PRESETS``;
     fields given beside it override the preset's."""
@@ -127,11 +130,32 @@ class ProductSpec(_Model):
             raise ValueError("a power_law product has no yield stress; choose 'herschel_bulkley'")
         if self.rheology != "newtonian" and self.viscosity.law == "walther":
             raise ValueError("the walther law is for kinematic viscosity of Newtonian oils; use andrade or vft for the consistency")
+        self._properties_positive()
         if self.viscosity.law == "vft":
             self._vft_domain()
         else:
             self._law_has_values()
         return self
+
+    def _properties_positive(self) -> None:
+        """Density, specific heat and conductivity are linear in temperature; each must stay above zero from the
+        coldest temperature a scenario allows (``COLDEST_K``) to the product's maximum, or the march divides
+        by zero (a slope of -50 J/(kg K^2) on 2,000 J/(kg K) reaches zero 40 K below 20 degC)."""
+        laws = (("density_slope", "density", self.density, self.density_slope, self.density_reference_temperature,
+                 "density"),
+                ("specific_heat_slope", "specific heat", self.specific_heat, self.specific_heat_slope,
+                 PROPERTY_REFERENCE_K, "specific_heat"),
+                ("conductivity_slope", "thermal conductivity", self.thermal_conductivity, self.conductivity_slope,
+                 PROPERTY_REFERENCE_K, "conductivity"))
+        from planner.scenario.units import unit_label
+
+        for name, what, value, slope, t_ref, kind in laws:
+            for t in (COLDEST_K, self.max_temperature):
+                at = value + slope * (t - t_ref)
+                if not at > 0.0:
+                    raise ValueError(f"{name}: with a slope of {slope:.6g} the {what} falls to {at:.4g} {unit_label(kind, 'SI')} at "
+                                     f"{t - 273.15:.6g} °C; it must stay above zero from {COLDEST_K - 273.15:g} °C (the "
+                                     "coldest ambient) to the product's max_temperature: check the slope and its units")
 
     def _law_has_values(self) -> None:
         """An Andrade or Walther law must give a finite viscosity from the coldest temperature a scenario
