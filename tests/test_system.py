@@ -6,7 +6,7 @@ import math
 
 import pytest
 
-from conftest import ID_4IN_SCH40, newtonian_product, plan_scenario
+from conftest import ID_4IN_SCH40, ROOT, newtonian_product, plan_scenario
 from planner.scenario.schema import scenario_from_dict
 from planner.scenario.units import ATMOSPHERE_PA, GRAVITY
 from planner.transfer.system import SystemState, TransferSystem
@@ -87,3 +87,22 @@ def test_small_motor_and_starved_suction_are_flagged():
     assert "suction_starved" in op.flags
     # the shaft power is D N dp / eta (the PD power law in the pump module)
     assert op.shaft_power == pytest.approx(5.0e-3 * op.point.pump_differential / 0.8, rel=1e-9)
+
+
+def test_a_trial_flow_past_the_temperature_ceiling_cannot_be_pushed_it_does_not_refuse_the_plan():
+    # the barge demo's PD pump at 400 L/rev (about 10,000 m3/h at its speed): the search's first trial flow
+    # heated the product past the models' ceiling by viscous heating and the whole plan was refused; that
+    # flow cannot be pushed (the relief valve lifts long before), so the answer is the relief-held point, the
+    # same as at 200 L/rev (the relief setting, not the displacement, holds it: within the solver's 0.01 %)
+    from planner.scenario.schema import load_scenario, scenario_from_dict, scenario_to_dict
+    from planner.transfer.system import SystemState, TransferSystem
+
+    points = {}
+    for displacement in ("200 L", "400 L"):
+        data = scenario_to_dict(load_scenario(ROOT / "demo_scenarios" / "fuel_oil_barge_discharge.toml"))
+        data["pump"]["displacement"] = displacement
+        system = TransferSystem(scenario_from_dict(data))
+        source = system.scenario.source
+        points[displacement] = system.operating_point(SystemState(source.temperature, source.initial_volume))
+    assert points["400 L"].status == points["200 L"].status == "relief_lifting"
+    assert points["400 L"].flow == pytest.approx(points["200 L"].flow, rel=2e-4)

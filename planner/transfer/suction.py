@@ -42,14 +42,14 @@ def check_suction(system, op: OperatingPoint, state: SystemState) -> None:
     [1] ANSI/HI 9.6.1, Rotodynamic Pumps - Guideline for NPSH Margin (NPSH available against
         required) [mem].
     """
-    npsh_r = system.npsh_required(op.flow)
+    npsh_r = npsh_required(system, op.flow)
     op.npsh_required = npsh_r
     if op.point.npsh_available >= npsh_r:
         return
     op.flags.append("suction_starved")
 
     def margin(q):
-        return npsh_available(system, q, state) - system.npsh_required(q)
+        return npsh_available(system, q, state) - npsh_required(system, q)
 
     q_low = op.flow * 1e-3
     if margin(q_low) < 0.0:
@@ -88,3 +88,20 @@ def npsh_available(system, flow: float, state: SystemState) -> float:
     velocity = s.mass_flow_kg_s / (rho * system.suction_line.segments[-1].area)
     return ((s.outlet_pressure_pa + ATMOSPHERE_PA - product.vapour_pressure(s.outlet_temperature_k)) / (rho * GRAVITY)
             + velocity * velocity / (2 * GRAVITY))
+
+
+def npsh_required(system, flow: float) -> float:
+    """NPSH the pump needs at ``flow`` [m3/s] [m]: from the centrifugal pump's NPSHr curve when the curve
+    gives one, else the single figure of the pump data.
+
+    Examples
+    --------
+    The oil transfer of ``scenario.examples`` (a PD pump whose data give NPSHr 3 m) needs 3 m at any flow:
+
+    >>> from planner.scenario.examples import example_scenario
+    >>> from planner.transfer.system import TransferSystem
+    >>> npsh_required(TransferSystem(example_scenario("oil transfer")), 1e-3)
+    3.0
+    """
+    from_curve = system.pump.npsh_required(flow) if system.pump_spec.kind != "positive_displacement" else None
+    return from_curve if from_curve is not None else system.pump_spec.npsh_required

@@ -21,6 +21,7 @@ from __future__ import annotations
 import copy
 import math
 
+from planner.errors import ComputationError
 from planner.line.march import DEFAULT_STEP_M, Line, march, march_plugged
 from planner.line.products import Product, scenario_product
 from planner.line.route import build_line
@@ -209,9 +210,17 @@ class TransferSystem:
     def _differential(self, flow: float, state: SystemState, cache: dict) -> float:
         key = round(flow, 12)
         if key not in cache:
-            cache[key] = self.at_flow(flow, state)
+            try:
+                cache[key] = self.at_flow(flow, state)
+            except ComputationError as exc:   # a trial flow whose viscous heating runs past the temperature
+                cache[key] = exc              # ceiling cannot be pushed; raised if it is the answer (``_point``)
         point = cache[key]
-        return HUGE_PRESSURE if point.sets else point.pump_differential
+        return HUGE_PRESSURE if isinstance(point, ComputationError) or point.sets else point.pump_differential
+
+    def _trial(self, flow: float, cache: dict) -> SystemPoint | None:
+        """The point of a flow tried (None: past the temperature ceiling, or not tried)."""
+        point = cache.get(round(flow, 12))
+        return None if isinstance(point, ComputationError) else point
 
     # -- the operating point --------------------------------------------------------------------
     def operating_point(self, state: SystemState, guess: float | None = None) -> OperatingPoint:
@@ -230,7 +239,9 @@ class TransferSystem:
                                                            where=op.point.where, q=Q(op.flow, "volume_flow")), op.point)
         if op.point is not None and op.moving:
             check_suction(self, op, state)
-            self._power_checks(op)
+            motor = spec.motor_power   # beyond ANSI/HI 9.6.7 the shaft power is no figure (PUMP-HI-RANGE stands)
+            if motor is not None and op.hi_in_range and op.shaft_power > motor:
+                op.flags.append("motor_overloaded")
         return op
 
     def _viscosity_at_pump(self, point: SystemPoint | None, state: SystemState) -> float:
@@ -239,7 +250,10 @@ class TransferSystem:
 
     def _point(self, flow: float, state: SystemState, cache: dict) -> SystemPoint:
         self._differential(flow, state, cache)
-        return cache[round(flow, 12)]
+        point = cache[round(flow, 12)]
+        if isinstance(point, ComputationError):
+            raise point
+        return point
 
     def _pd_point(self, state: SystemState, guess: float | None, cache: dict) -> OperatingPoint:
         pump: PositiveDisplacementPump = self.pump
@@ -250,7 +264,7 @@ class TransferSystem:
         if spec.control == "fixed_flow":
             target = spec.flow_setpoint
             dp = self._differential(target, state, cache)
-            point = cache[round(target, 12)]
+            point = self._point(target, state, cache)
             mu = self._viscosity_at_pump(point, state)
             if dp < HUGE_PRESSURE and (relief is None or dp <= relief):
                 needed = (target + pump.slip(dp, mu, speed=1e9)) / pump.displacement_m3_per_rev
@@ -280,7 +294,7 @@ class TransferSystem:
 
         def residual(q):
             dp = self._differential(q, state, cache)
-            mu = self._viscosity_at_pump(cache[round(q, 12)], state)
+            mu = self._viscosity_at_pump(self._trial(q, cache), state)
             return q - pump.delivered_flow(min(dp, HUGE_PRESSURE), mu, speed)
 
         def over_relief(x):
@@ -349,8 +363,8 @@ class TransferSystem:
 
         def head_gap(q):
             dp = self._differential(q, state, cache)
-            point = cache[round(q, 12)]
-            nu_pump = self.product.kinematic_viscosity(point.pump_inlet_temperature)
+            point = self._trial(q, cache)
+            nu_pump = self.product.kinematic_viscosity(point.pump_inlet_temperature if point else state.source_temperature)
             return pump.head(q, nu_pump) - dp / (rho * GRAVITY)
 
         status = "ok"
@@ -401,20 +415,5 @@ class TransferSystem:
         return op
 
     def _no_flow(self, state, cache, q_low, message) -> OperatingPoint:
-        point = cache.get(round(q_low, 12))
+        point = self._trial(q_low, cache)
         return OperatingPoint("no_flow", 0.0, Sentence("no flow possible: {m}", m=message), point)
-
-    def npsh_required(self, flow: float) -> float:
-        """NPSH the pump needs at ``flow`` [m3/s] [m]: from the centrifugal pump's NPSHr curve when the
-        curve gives one, else the single figure of the pump data."""
-        if isinstance(self.pump, CentrifugalPump):
-            from_curve = self.pump.npsh_required(flow)
-            if from_curve is not None:
-                return from_curve
-        return self.pump_spec.npsh_required
-
-    def _power_checks(self, op: OperatingPoint) -> None:
-        motor = self.pump_spec.motor_power
-        # beyond ANSI/HI 9.6.7 the shaft power is no figure (PUMP-HI-RANGE stands): nothing to flag on it
-        if motor is not None and op.hi_in_range and op.shaft_power > motor:
-            op.flags.append("motor_overloaded")
