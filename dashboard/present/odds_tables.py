@@ -63,7 +63,7 @@ def comparison_odds_frame(result: dict, system: str, currency: str) -> pd.DataFr
     import pandas as pd
 
     from planner.scenario.wording import format_quantity
-    from planner.sweeps.compare import lever_decimals
+    from planner.checks.lever_values import lever_decimals
 
     quantity = result["quantity"]
     beyond = lambda v: math.inf if v is None else v  # noqa: E731  (null in the JSON: beyond the samples)

@@ -7,7 +7,7 @@ from __future__ import annotations
 import streamlit as st
 
 from planner.scenario.budget import active_budget
-from planner.sweeps.compare import lever_decimals
+from planner.checks.lever_values import lever_decimals
 
 from dashboard.compute.results import sensitivity_defaults
 from dashboard.present.display import from_display, label, to_display

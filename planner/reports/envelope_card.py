@@ -14,7 +14,7 @@ import html
 from planner.checks.caution import STANDING_CAUTION
 from planner.scenario.units import unit_label
 from planner.scenario.wording import format_quantity
-from planner.sweeps.compare import lever_decimals
+from planner.checks.lever_values import lever_decimals
 from planner.sweeps.envelope import SEVERITY_MARKS, Envelope
 
 LEVER_WORDS = {"setpoint": "trace setpoint", "steam_pressure": "steam pressure", "pump_speed": "pump speed",

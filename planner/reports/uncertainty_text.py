@@ -159,7 +159,7 @@ def comparison_odds_table(c, system: str = "SI") -> str:
     """A comparison by odds (``sweeps.compare_odds.OddsComparison``) as a text table in ``system``."""
     from planner.scenario.units import unit_label
     from planner.scenario.wording import render
-    from planner.sweeps.compare import lever_decimals
+    from planner.checks.lever_values import lever_decimals
 
     currency = c.rows[0]["odds"]["currency"] if c.rows else ""
     lines = [f"  odds of each value: {c.samples} plans at sampled inputs each (seed {c.seed}, the same points for "

@@ -12,6 +12,7 @@ from pydantic import Field, field_validator, model_validator
 
 from planner.correlations.viscosity import AndradeLaw, WaltherLaw, walther_cst_to_z
 from planner.correlations.viscosity_fit import fit_viscosity_law
+from planner.scenario.units import unit_label
 from planner.scenario.fields import (COLDEST_K, Conductivity, ConductivitySlope, Density, DensitySlope,
                                      DynamicViscosity, KinematicViscosity, SpecificHeat, SpecificHeatSlope,
                                      Temperature, VapourPressure, YieldStress, _Model)
@@ -147,8 +148,6 @@ class ProductSpec(_Model):
                  PROPERTY_REFERENCE_K, "specific_heat"),
                 ("conductivity_slope", "thermal conductivity", self.thermal_conductivity, self.conductivity_slope,
                  PROPERTY_REFERENCE_K, "conductivity"))
-        from planner.scenario.units import unit_label
-
         for name, what, value, slope, t_ref, kind in laws:
             for t in (COLDEST_K, self.max_temperature):
                 at = value + slope * (t - t_ref)

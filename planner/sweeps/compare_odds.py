@@ -118,7 +118,8 @@ def recommend_by_odds(rows: list[dict], raw: list[list[dict]], window: float, co
                       quantity: str) -> tuple[int | None, int, str, list[int]]:
     """(recommended row or None, the row named: recommended or with the best chance, the reason as a
     Sentence, rows that cannot be told apart from the named one)."""
-    from planner.sweeps.compare import lever_decimals, tie_band
+    from planner.checks.lever_values import lever_decimals
+    from planner.sweeps.compare import tie_band
 
     decimals = lever_decimals(quantity, [r["value"] for r in rows])
     value = lambda i: Q(rows[i]["value"], quantity, decimals)  # noqa: E731

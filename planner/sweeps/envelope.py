@@ -22,7 +22,8 @@ from planner.errors import ScenarioError
 from planner.plain import plain
 from planner.scenario.schema import Scenario
 from planner.scenario.wording import format_quantity
-from planner.sweeps.compare import lever_decimals, check_lever, plan_row
+from planner.checks.lever_values import lever_decimals
+from planner.sweeps.compare import check_lever, plan_row
 from planner.sweeps.executors import fan_out
 
 CELL_FIELDS = ("ambient_k", "value", "total_time_s", "fits", "has_stop", "worst_severity", "stop_codes", "error")
