@@ -76,17 +76,21 @@ def _selected_tab(page) -> list[str]:
                                   .map(t => t.innerText.trim())""")
 
 
-def _metrics_other_than(page, before: dict, timeout_s: float = 120.0) -> dict[str, str]:
-    """The key figures once they differ from ``before`` (a loaded machine can show the last plan for a
-    while after an edit's rerun began); fails if they never do."""
+def _settled_metrics(page, unlike: dict | None = None, timeout_s: float = 120.0) -> dict[str, str]:
+    """The key figures once they have settled (and differ from ``unlike`` when given): no element left
+    stale by a rerun and the same figures on two reads 0.75 s apart. A loaded machine can show the last
+    plan, or a mix of old and new figures, for a while after a rerun began; fails if they never settle."""
     deadline = time.monotonic() + timeout_s
+    last: dict[str, str] = {}
     while time.monotonic() < deadline:
         _wait_idle(page)
+        stale = page.locator('[data-stale="true"]').count()    # a rerun still replacing the old plan
         now = metrics(page)
-        if now and now != before:
+        if not stale and now and now != unlike and now == last:
             return now
-        page.wait_for_timeout(250)
-    raise AssertionError(f"the key figures stayed {before} after the edit")
+        last = now if not stale else {}
+        page.wait_for_timeout(750)
+    raise AssertionError(f"the key figures did not settle (last read {last}, unlike {unlike})")
 
 
 def test_a_refresh_keeps_the_view_the_units_and_unsaved_edits(page):
@@ -101,10 +105,10 @@ def test_a_refresh_keeps_the_view_the_units_and_unsaved_edits(page):
     _fill(page, "Ambient temperature [°F]", "5")           # -15 degC: a colder day than the demo's
     query = _wait_query(page, units="US", view="inputs")
     assert re.fullmatch(r"[A-Za-z0-9_-]{22}", query.get("draft", "")), page.url
-    edited = _metrics_other_than(page, before)               # the edit changed the plan
+    edited = _settled_metrics(page, unlike=before)           # the edit changed the plan
     _reload(page)
     assert _query(page) == query                             # the same draft, view and units
-    assert metrics(page) == edited                           # the edited plan, not the demo's
+    assert _settled_metrics(page) == edited                  # the edited plan, not the demo's
     assert "Inputs" in _selected_tab(page)
     _open_tab(page, "Site & limits")
     field = page.get_by_role("spinbutton", name="Ambient temperature [°F]", exact=True)
