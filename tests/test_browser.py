@@ -143,6 +143,23 @@ def metrics(page) -> dict[str, str]:
     return out
 
 
+def settled_metrics(page, unlike: dict | None = None, timeout_s: float = 120.0) -> dict[str, str]:
+    """The key figures once they have settled (and differ from ``unlike`` when given): no element left
+    stale by a rerun and the same figures on two reads 0.75 s apart. A loaded machine can show the last
+    plan, or a mix of old and new figures, for a while after a rerun began; fails if they never settle."""
+    deadline = time.monotonic() + timeout_s
+    last: dict[str, str] = {}
+    while time.monotonic() < deadline:
+        _wait_idle(page)
+        stale = page.locator('[data-stale="true"]').count()    # a rerun still replacing the old plan
+        now = metrics(page)
+        if not stale and now and now != unlike and now == last:
+            return now
+        last = now if not stale else {}
+        page.wait_for_timeout(750)
+    raise AssertionError(f"the key figures did not settle (last read {last}, unlike {unlike})")
+
+
 def _number(text: str) -> float:
     match = re.search(r"[-+]?\d[\d,]*\.?\d*", text)
     assert match, f"no number in {text!r}"
@@ -283,7 +300,7 @@ def test_setpoint_round_trip(page):
             """expected => [...document.querySelectorAll('[data-testid="stMetric"]')].some(m =>
                    m.innerText.includes('Transfer time') && m.innerText.includes(expected))""", arg=expected)
         timings.append(time.perf_counter() - started)
-        shown = metrics(page)
+        shown = settled_metrics(page)
         assert shown["Transfer time"] == expected
         assert _number(shown["Start-up + transfer"]) == pytest.approx(plan.total_time_s / 3600.0, abs=0.00501)
         _wait_idle(page)

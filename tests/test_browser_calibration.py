@@ -12,7 +12,7 @@ import sys
 import pytest
 
 from conftest import DEMO_DIR, ROOT
-from test_browser import ARTIFACTS, _number, browser, metrics, page, server, server_db  # noqa: F401  (fixtures)
+from test_browser import ARTIFACTS, _number, browser, page, settled_metrics, server, server_db  # noqa: F401  (fixtures)
 
 pytestmark = pytest.mark.slow  # Chromium: left out of the fast loop (-m "not slow")
 
@@ -45,6 +45,6 @@ def test_calibration_tab_fits_the_demo_log_and_applies_it(page, tmp_path):  # no
     page.get_by_role("tab", name="Plan").click()
     page.get_by_text("Information (").first.click()
     page.get_by_text("Calibration in use").first.wait_for()
-    shown = metrics(page)
+    shown = settled_metrics(page)
     assert _number(shown["Starting flow"]) == pytest.approx(plan["start"]["flow_m3_s"] * 3600.0, abs=0.006)
     assert set(expected["factors"]) == {"viscosity_factor", "heat_loss_factor", "slip_factor"}

@@ -8,7 +8,6 @@ recorded in the page by a ``MutationObserver`` (``performance.now()``), not by p
 
 from __future__ import annotations
 
-import time
 
 import pytest
 from streamlit.proto.ForwardMsg_pb2 import ForwardMsg

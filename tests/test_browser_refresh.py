@@ -7,7 +7,6 @@ scenario, never a traceback or a file outside the drafts folder."""
 from __future__ import annotations
 
 import re
-import time
 from urllib.parse import parse_qs, urlparse
 
 import pytest
@@ -16,7 +15,7 @@ from conftest import make_people
 from dashboard_server import chromium_browser, running_dashboard
 from planner.records.store import PlanStore
 from test_browser import CHROMIUM, LAUNCH_ARGS, _fill, _open_tab, _require_chromium, _sign_in, \
-    _wait_idle, metrics
+    _wait_idle, metrics, settled_metrics
 
 pytestmark = pytest.mark.slow  # Chromium: left out of the fast loop (-m "not slow")
 
@@ -76,23 +75,6 @@ def _selected_tab(page) -> list[str]:
                                   .map(t => t.innerText.trim())""")
 
 
-def _settled_metrics(page, unlike: dict | None = None, timeout_s: float = 120.0) -> dict[str, str]:
-    """The key figures once they have settled (and differ from ``unlike`` when given): no element left
-    stale by a rerun and the same figures on two reads 0.75 s apart. A loaded machine can show the last
-    plan, or a mix of old and new figures, for a while after a rerun began; fails if they never settle."""
-    deadline = time.monotonic() + timeout_s
-    last: dict[str, str] = {}
-    while time.monotonic() < deadline:
-        _wait_idle(page)
-        stale = page.locator('[data-stale="true"]').count()    # a rerun still replacing the old plan
-        now = metrics(page)
-        if not stale and now and now != unlike and now == last:
-            return now
-        last = now if not stale else {}
-        page.wait_for_timeout(750)
-    raise AssertionError(f"the key figures did not settle (last read {last}, unlike {unlike})")
-
-
 def test_a_refresh_keeps_the_view_the_units_and_unsaved_edits(page):
     page.get_by_test_id("stSidebar").get_by_text("US customary", exact=True).click()
     _wait_idle(page)
@@ -105,10 +87,10 @@ def test_a_refresh_keeps_the_view_the_units_and_unsaved_edits(page):
     _fill(page, "Ambient temperature [°F]", "5")           # -15 degC: a colder day than the demo's
     query = _wait_query(page, units="US", view="inputs")
     assert re.fullmatch(r"[A-Za-z0-9_-]{22}", query.get("draft", "")), page.url
-    edited = _settled_metrics(page, unlike=before)           # the edit changed the plan
+    edited = settled_metrics(page, unlike=before)           # the edit changed the plan
     _reload(page)
     assert _query(page) == query                             # the same draft, view and units
-    assert _settled_metrics(page) == edited                  # the edited plan, not the demo's
+    assert settled_metrics(page) == edited                  # the edited plan, not the demo's
     assert "Inputs" in _selected_tab(page)
     _open_tab(page, "Site & limits")
     field = page.get_by_role("spinbutton", name="Ambient temperature [°F]", exact=True)
