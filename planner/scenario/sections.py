@@ -168,7 +168,7 @@ class Schedule(_Model):
     stop_duration: Quantity("time", gt=0.0, le=HOLD_HORIZON_S, description="a stop to check restart for (at most "
                             "the 14 days a stop is followed)") = 3600.0
     limiting_viscosity: Optional[DynamicViscosity] = Field(None, description="viscosity above which the line counts as unable to restart")
-    timeline_steps: int = Field(60, ge=10, le=1000)
+    timeline_steps: int = Field(24, ge=10, le=1000, description="volume increments of the transfer timeline (trapezoidal rule)")
     start: Optional[str] = Field(None, max_length=40, description="planned start of the start-up (ISO 8601 with its "
                                                                   "offset, e.g. '2026-01-14T18:00+01:00'); empty: "
                                                                   "times run from 0")

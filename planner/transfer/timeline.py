@@ -1,7 +1,8 @@
 """The transfer timeline: move the volume in equal increments, recomputing the operating point.
 
-Each increment dV takes dt = dV / Q with Q the operating point at the increment's start (left
-Riemann sum; exact for a constant flow, first order otherwise, so at least 50 increments are used).
+Each increment dV takes dt = dV (1/Q_a + 1/Q_b) / 2 with Q_a and Q_b the operating points at its start
+and its end (the trapezoidal rule in volume: exact for a flow linear in 1/Q, second order otherwise);
+tracing and pump energies likewise from power / Q.
 Meanwhile the source cools or is heated (lumped vessel balance, ``vessels.heat_contents``) and its level falls,
 the destination level rises, and tracing, pump and vessel heating draw power.
 
@@ -68,8 +69,8 @@ def _record(rows, system, op, point, state, flow, trace_power, time, moved, ambi
 
 def run_transfer(system: TransferSystem, steps: int | None = None, first_guess: float | None = None,
                  weather=None, clock_s: float = 0.0) -> Timeline:
-    """``weather`` (``transfer.weather.WeatherProfile``): each increment's operating point, tracing power and
-    source cooling at the ambient and wind of its start, ``clock_s`` + the time so far from the plan's
+    """``weather`` (``transfer.weather.WeatherProfile``): each operating point, tracing power and the
+    source's cooling at the ambient and wind of its time, ``clock_s`` + the time so far from the plan's
     start; None: the site's ambient throughout.
 
     Examples
@@ -83,64 +84,116 @@ def run_transfer(system: TransferSystem, steps: int | None = None, first_guess: 
     """
     scenario = system.scenario
     source = scenario.source
-    product = system.product
     steps = steps or scenario.schedule.timeline_steps
-    increment = source.volume_to_move / steps
+    run = _Run(system, scenario, source.volume_to_move / steps, weather, clock_s)
     state = SystemState(source.temperature, source.initial_volume, 0.0)
-    ambient = scenario.site.ambient_temperature
-    motor_efficiency = scenario.pump.motor_efficiency
-    heating = source_heating(scenario)
-    shell_u = source.heat_loss_coefficient * system.heat_loss_factor
-    rows = {k: [] for k in ROW_KEYS}
-    statuses: list[str] = []
-    flags: set[str] = set()
-    time = 0.0
-    moved = 0.0
-    trace_j = pump_j = vessel_j = 0.0
-    guess = first_guess
-    completed, reason = True, ""
-    points = []
-    evaluations_before = evaluations_of(system)
-    wind = scenario.site.wind_speed
-    base = system
-    for _ in range(steps):
-        if weather is not None:
-            ambient, wind = weather.state(clock_s + time)
-            system = weathered(base, ambient, wind)
-        op = system.operating_point(state, guess=guess)
-        points.append(op)
-        if not op.moving:
-            completed, reason = False, op.message
+    here = run.point_at(state, 0.0, first_guess)
+    if here is None:
+        run.completed, run.reason = False, run.points[-1].message
+    for number in range(steps):
+        if here is None:
             break
-        flow = op.flow
-        point = op.point
+        run.record(here)
+        guess = _next_guess(run.points)
+        # the source over the increment, with its time predicted from the flow extrapolated to its end
+        t_source, heat_j = run.contents_after(here, run.increment / 2.0 * (1.0 / here.flow + 1.0 / guess))
+        end_state = SystemState(t_source, max(here.state.source_volume - run.increment, 0.0),
+                                here.state.destination_volume_added + run.increment)
+        end = run.point_at(end_state, run.time + run.increment / 2.0 * (1.0 / here.flow + 1.0 / guess), guess)
+        last = number == steps - 1
+        if end is None:   # the end cannot be moved: the increment at its start's rates (as far as known)
+            run.completed, run.reason = (True, "") if last else (False, run.points[-1].message)
+            t_source, heat_j = run.contents_after(here, run.increment / here.flow)
+            run.advance(here, here, heat_j)
+            break
+        run.advance(here, end, heat_j)
+        if last:
+            run.record(end)
+        here = end
+    arrays = {k: np.array(v) for k, v in run.rows.items()}
+    return Timeline(arrays, run.time, run.moved, run.completed, run.reason, run.statuses, run.flags, run.trace_j,
+                    run.pump_j, run.vessel_j, run.points, evaluations_of(system) - run.evaluations_before)
+
+
+@dataclass
+class _Point:
+    """An operating point of the timeline with what it was worked out at."""
+
+    op: object
+    point: object
+    flow: float
+    state: SystemState
+    trace_power: float
+    ambient: float
+    wind: float
+    time: float
+
+
+class _Run:
+    """The timeline's running sums.  Each increment dV is taken by the trapezoidal rule between the
+    operating points at its start and its end: dt = dV (1/Q_a + 1/Q_b) / 2, and each energy likewise
+    from power / Q (second order: a left sum, dV / Q_a, erred by 2.8 % on the syrup demo's tracing
+    energy at 60 increments, its power falling steadily as the railcar's heating warms the product)."""
+
+    def __init__(self, system, scenario, increment, weather, clock_s):
+        self.base = self.system = system
+        self.scenario, self.increment, self.weather, self.clock_s = scenario, increment, weather, clock_s
+        self.motor_efficiency = scenario.pump.motor_efficiency
+        self.heating = source_heating(scenario)
+        self.shell_u = scenario.source.heat_loss_coefficient * system.heat_loss_factor
+        self.rows = {k: [] for k in ROW_KEYS}
+        self.statuses: list[str] = []
+        self.flags: set[str] = set()
+        self.points: list = []
+        self.time = self.moved = self.trace_j = self.pump_j = self.vessel_j = 0.0
+        self.completed, self.reason = True, ""
+        self.evaluations_before = evaluations_of(system)
+
+    def point_at(self, state: SystemState, time: float, guess: float | None) -> _Point | None:
+        """The operating point at ``state``, ``time`` [s] into the transfer; None where nothing moves."""
+        ambient, wind = self.scenario.site.ambient_temperature, self.scenario.site.wind_speed
+        if self.weather is not None:
+            ambient, wind = self.weather.state(self.clock_s + time)
+            self.system = weathered(self.base, ambient, wind)
+        op = self.system.operating_point(state, guess=guess)
+        self.points.append(op)
+        if not op.moving:
+            return None
+        flow, point = op.flow, op.point
         if "suction_starved" in op.flags and op.npsh_limited_flow:
             # the operator throttles to the rate the suction can feed
             flow = op.npsh_limited_flow
-            point = system.at_flow(flow, state)
-        flags.update(op.flags)
+            point = self.system.at_flow(flow, state)
+        self.flags.update(op.flags)
         trace_power = point.discharge.trace_power_w + (point.suction.trace_power_w if point.suction else 0.0)
-        dt = increment / flow
-        _record(rows, system, op, point, state, flow, trace_power, time, moved, ambient, wind)
-        statuses.append(op.status)
-        trace_j += trace_power * dt
-        pump_j += op.shaft_power / motor_efficiency * dt
-        # the source cools (or is heated, no hotter than its medium) over the increment, then gives up dV
-        mass = product.density(state.source_temperature) * state.source_volume
-        ua = shell_u * wetted_area(source, state.source_volume)
-        t_source, heat_j = heat_contents(state.source_temperature, mass, product.specific_heat(state.source_temperature),
-                                         ua, ambient, heating, dt)
-        vessel_j += heat_j
-        state = SystemState(t_source, max(state.source_volume - increment, 0.0),
-                            state.destination_volume_added + increment)
-        time += dt
-        moved += increment
-        # next guess: the flow extrapolated from the last two steps (the flow drifts smoothly), from
-        # the solver's root estimates so that the tolerance left in one step is not doubled into the next
-        guess = _next_guess(points)
-    arrays = {k: np.array(v) for k, v in rows.items()}
-    return Timeline(arrays, time, moved, completed, reason, statuses, flags, trace_j, pump_j, vessel_j, points,
-                    evaluations_of(base) - evaluations_before)
+        return _Point(op, point, flow, state, trace_power, ambient, wind, time)
+
+    def contents_after(self, here: _Point, dt: float) -> tuple[float, float]:
+        """The source's temperature after ``dt`` [s] from ``here`` (cooled, or heated no hotter than its
+        medium), and the heat its heating delivered [J]; the contents and their wetted shell taken at the
+        increment's mid volume, as they shrink over it (second order, as the time)."""
+        product, state = self.system.product, here.state
+        volume = max(state.source_volume - self.increment / 2.0, 0.5 * state.source_volume)
+        mass = product.density(state.source_temperature) * volume
+        ua = self.shell_u * wetted_area(self.scenario.source, volume)
+        return heat_contents(state.source_temperature, mass, product.specific_heat(state.source_temperature), ua,
+                             here.ambient, self.heating, dt)
+
+    def record(self, p: _Point) -> None:
+        _record(self.rows, self.system, p.op, p.point, p.state, p.flow, p.trace_power, p.time, self.moved,
+                p.ambient, p.wind)
+        self.statuses.append(p.op.status)
+
+    def advance(self, a: _Point, b: _Point, heat_j: float) -> None:
+        """One increment from ``a`` to ``b`` (the same point: the left rule)."""
+        half = self.increment / 2.0
+        self.time += half * (1.0 / a.flow + 1.0 / b.flow)
+        self.trace_j += half * (a.trace_power / a.flow + b.trace_power / b.flow)
+        self.pump_j += half * (a.op.shaft_power / a.flow + b.op.shaft_power / b.flow) / self.motor_efficiency
+        self.vessel_j += heat_j
+        self.moved += self.increment
+        if b is not a:
+            b.time = self.time   # its row's time: the corrected one (it was worked out at the predicted)
 
 
 def _next_guess(points) -> float:
