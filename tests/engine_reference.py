@@ -10,6 +10,11 @@ energies within 0.2 % (the planner's accuracy target for the steady march, plann
 Record again (only for a deliberate change of the physics, naming the commit in the file):
 
     python -m tests.engine_reference --record COMMIT
+    python -m tests.engine_reference --record COMMIT --plans-only    # a change of the plan, not the march
+
+The lines are from ``commit`` (0338bc3, the developing laminar entrance); the plans from ``plans_commit``
+(68647b7: the timeline by the trapezoidal rule, 24 increments, a deliberate change of the plan's numerics),
+so that a march that drifts is still measured against the first record.
 """
 
 from __future__ import annotations
@@ -100,9 +105,17 @@ def record(commit: str) -> dict:
 def main(argv: list[str] | None = None) -> int:
     parser = argparse.ArgumentParser(description="Record the engine's reference figures.")
     parser.add_argument("--record", metavar="COMMIT", required=True, help="the commit whose engine computes them")
+    parser.add_argument("--plans-only", action="store_true", help="record the plans again, keep the lines")
     args = parser.parse_args(argv)
     REFERENCE_FILE.parent.mkdir(parents=True, exist_ok=True)
-    REFERENCE_FILE.write_text(json.dumps(record(args.record), indent=1, sort_keys=True) + "\n", encoding="utf-8")
+    figures = record(args.record)
+    if args.plans_only:
+        kept = json.loads(REFERENCE_FILE.read_text(encoding="utf-8"))
+        figures = {"commit": kept["commit"], "lines": kept["lines"], "plans": figures["plans"],
+                   "plans_commit": args.record}
+    else:
+        figures["plans_commit"] = args.record
+    REFERENCE_FILE.write_text(json.dumps(figures, indent=1, sort_keys=True) + "\n", encoding="utf-8")
     print(f"wrote {REFERENCE_FILE}")
     return 0
 
