@@ -347,7 +347,7 @@ def test_result_tables_show_each_quantity_at_its_display_decimals():
     assert f"<td>{first_flow:,.2f}</td>" in html and f"<td>{first_flow:,.3f}</td>" not in html
     push = tables.push_cold_frame(bundle.push_cold_rows, "SI")
     assert push.attrs["decimals"]["Line volume pushed out [%]"] == 1
-    assert "<td>12.5</td>" in _table(push) and "12.500" not in _table(push)
+    assert "<td>25.0</td>" in _table(push) and "25.000" not in _table(push)
     profile = tables.profile_frame(bundle.profile, bundle.segments, "SI")
     assert profile.attrs["decimals"]["Distance from pump [m]"] == 2
     assert profile.attrs["decimals"]["Bulk temperature [°C]"] == 1

@@ -75,7 +75,7 @@ def test_us_units_take_fahrenheit_ambients(capsys):
 
 def test_past_the_budget_is_refused_naming_what_to_reduce(capsys, monkeypatch):
     scenario = load_scenario(SYRUP)
-    with use_budget(Budget(envelope_steps=60_000)):          # about 9,900 steps a syrup plan: 6 cells
+    with use_budget(Budget(envelope_steps=48_000)):          # about 7,600 steps a syrup plan: 6 cells
         with pytest.raises(BudgetError) as caught:
             envelope(scenario, "setpoint", [313.15, 323.15, 333.15], [263.15, 273.15, 283.15])
     assert caught.value.problems[0][0] == "--ambient" and "give at most 6 cells" in caught.value.problems[0][1]

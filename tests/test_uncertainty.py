@@ -201,10 +201,10 @@ def test_a_pump_input_given_for_the_other_kind_of_pump_is_refused_not_ignored(de
 
 def test_the_work_budget_counts_samples():
     scenario = load_scenario(SYRUP)
-    with use_budget(Budget(uncertainty_steps=1_000_000)), pytest.raises(BudgetError) as caught:
+    with use_budget(Budget(uncertainty_steps=500_000)), pytest.raises(BudgetError) as caught:
         plan_odds(scenario, samples=128)
     field, message = caught.value.problems[0]
-    assert field == "--samples" and "128 samples" in message and "give at most 64 samples" in message   # 14,820 steps a plan
+    assert field == "--samples" and "128 samples" in message and "give at most 64 samples" in message   # 7,566 steps a plan
 
 
 def test_wind_factor_multiplies_every_wind_speed():

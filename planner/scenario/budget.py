@@ -11,9 +11,9 @@ route when there is one) costs its counted steps — ``max(2, ceil(length / (ste
 segment for a march whose longest step is ``step`` (25 m a step at the default 100 m) — plus ``PASS_OVERHEAD_STEPS`` for the set-up of the pass and of the operating-point
 solve around it.  A plan makes about ``PLAN_PASSES_FIXED + PLAN_PASSES_PER_TIMELINE_STEP x
 timeline_steps`` passes (operating point, timeline, both start-ups, hold); those figures are fitted
-to counted passes of the demo scenarios at 10 to 1000 timeline steps (they over-count by up to half above
-60 steps; a plan whose operating point is hard to find, e.g. with the relief lifting, can take three
-times the passes).  The march's own steps are adaptive (up to 100 m, finer where the product
+to counted passes of the demo scenarios at 10 to 1000 timeline steps (68647b7 and after: 1.14-1.37 times the
+counted at 10 and 24 steps, up to 1.75 times at 1000, where an increment takes about 2 passes; a plan whose
+operating point is hard to find, e.g. with the relief lifting, can take three times the passes).  The march's own steps are adaptive (up to 100 m, finer where the product
 changes fast), so the 25 m count is a margin: the demo plans take a tenth to a fifteenth of their
 estimate (plans march on the same 100 m grid as single passes), while the hardest generated lines of tests/test_march_grid.py take up to 8 times the count
 of one pass (tests/test_budget.py measures both).  A comparison is values x cases plans.  On the project's 2-core machine one step
@@ -44,7 +44,7 @@ MARCH_STEP_M = 100.0                  # the march's longest step by default [m] 
                                       # work is counted at a quarter of it (COUNT_STEPS_PER_MARCH_STEP), the march refines where
                                       # the product changes fast, so smooth lines cost fewer steps than counted
 PASS_OVERHEAD_STEPS = 30              # fixed cost of one pass, in march steps (measured on the demos)
-PLAN_PASSES_FIXED = 170               # passes of a plan outside the timeline (start, start-ups, hold)
+PLAN_PASSES_FIXED = 110               # passes of a plan outside the timeline (start, start-ups, hold)
 PLAN_PASSES_PER_TIMELINE_STEP = 3.5   # passes per timeline step (operating-point solve per increment)
 # with a [weather], the start-up is worked out again at the weather of its coldest moment, at most this many
 # times in all (transfer.plan), so the passes outside the timeline count that many times (planner choice)

@@ -278,7 +278,21 @@ def _front_position(segments: list[LineSegment], displaced_volume: float) -> flo
     return segments[-1].x_end
 
 
-def push_cold(system: TransferSystem, start_temperature: float, positions: int = 8) -> PushCold:
+def _front_system(system: TransferSystem, displaced: float, cold: float, previous: TransferSystem | None):
+    """(the front's position [m], the system with the line cold beyond it) once ``displaced`` [m^3] of the
+    discharge line's contents are out: at 0, the suction's contents are through and the discharge line
+    still all cold; at the line's volume, the line is warm throughout."""
+    segments = system.discharge_line.segments
+    if displaced >= sum(s.area * s.length for s in segments) * (1.0 - 1e-12):
+        return segments[-1].x_end, system.with_plug(None, None, cold, slopes_from=previous)
+    x = _front_position(segments, displaced)
+    head, tail = split_segments(segments, x)
+    kept, product = system.discharge_line.kept, system.product
+    return x, system.with_plug(Line(head, product, system.tracing, kept=kept),
+                               Line(tail, product, system.tracing, kept=kept), cold, slopes_from=previous)
+
+
+def push_cold(system: TransferSystem, start_temperature: float, positions: int = 4) -> PushCold:
     """Push the cold contents (at ``start_temperature`` [K]) out, at ``positions`` fronts along the line.
 
     Examples
@@ -313,14 +327,9 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
     rows_append = [(0.0, first.flow, first.point.discharge_pressure, first.point.pump_differential, 0.0, first.status)]
     guess = first.flow
     previous_plug = None
-    for k in range(1, positions):
+    for k in range(0, positions + 1):
         fraction = k / positions
-        x = _front_position(segments, fraction * volume)
-        head, tail = split_segments(segments, x)
-        kept = system.discharge_line.kept
-        plugged = system.with_plug(Line(head, product, system.tracing, kept=kept),
-                                   Line(tail, product, system.tracing, kept=kept),
-                                   start_temperature, slopes_from=previous_plug)
+        x, plugged = _front_system(system, fraction * volume, start_temperature, previous_plug)
         previous_plug = plugged
         op = plugged.operating_point(warm_state, guess=guess)
         points.append(op)
@@ -328,8 +337,12 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
             return PushCold(False, Sentence("with the front at {x}: {m}", x=Q(x, "length"), m=op.message),
                             start_temperature, first.flow,
                             first.status, peak_p, peak_dp, first.point.npsh_available, None, relief, {})
-        previous_fraction, previous_flow = rows_append[-1][0], rows_append[-1][1]
-        time += (fraction - previous_fraction) * volume / previous_flow
+        if k == 0:
+            entry_flow = op.flow
+        else:   # the trapezoidal rule in the front's volume, as the timeline's (a left sum at 8 positions,
+                # from the all-cold start's flow, overstated the front's time by 3.5-6.8 % on the demos)
+            previous_fraction, previous_flow = rows_append[-1][0], (rows_append[-1][1] if k > 1 else entry_flow)
+            time += (fraction - previous_fraction) * volume * (1.0 / previous_flow + 1.0 / op.flow) / 2.0
         rows_append.append((fraction, op.flow, op.point.discharge_pressure, op.point.pump_differential, time, op.status))
         peak_p = max(peak_p, op.point.discharge_pressure)
         peak_dp = max(peak_dp, op.point.pump_differential)
@@ -340,7 +353,6 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
         guess = latest
         if len(rows_append) >= 3 and rows_append[-2][5] == op.status:
             guess = max(2.0 * latest - rows_append[-2][1], 0.5 * latest)
-    time += (1.0 - rows_append[-1][0]) * volume / rows_append[-1][1]
     if not all(p.hi_in_range for p in points):
         return _push_beyond_pump_method(start_temperature, first, points, peak_p, peak_dp, relief)
     for row in rows_append:

@@ -95,14 +95,14 @@ class TransferSystem:
         self._root_estimate: float | None = None
         self._source_level = (math.nan, math.nan)     # (source volume [m3], its level [m])
 
-    def with_plug(self, head: Line, tail: Line, cold_temperature: float,
+    def with_plug(self, head: Line | None, tail: Line | None, cold_temperature: float,
                   slopes_from: "TransferSystem | None" = None) -> "TransferSystem":
         """A copy of this system whose discharge line holds a cold plug: a warm head (product from the
-        pump) then a cold tail at ``cold_temperature`` [K].  This system is left unchanged.
-        ``slopes_from``: a plugged system of the previous front position, whose remembered slopes
-        start this one's solves."""
+        pump) then a cold tail at ``cold_temperature`` [K] (``head`` None: no plug, the line warm
+        throughout).  This system is left unchanged.  ``slopes_from``: a system of the previous front
+        position, whose remembered slopes start this one's solves."""
         plugged = copy.copy(self)
-        plugged.plug = (head, tail, cold_temperature)
+        plugged.plug = None if head is None else (head, tail, cold_temperature)
         plugged._slopes = dict((slopes_from or self)._slopes)
         return plugged
 
