@@ -14,7 +14,8 @@ Record again (only for a deliberate change of the physics, naming the commit in 
 
 The lines are from ``commit`` (0338bc3, the developing laminar entrance); the plans from ``plans_commit``
 (68647b7: the timeline by the trapezoidal rule, 24 increments; 25efb09: the push-cold start likewise, from the flow
-once the suction's contents are through, which also raised the polyol's peak pressure 0.6 %: deliberate changes),
+once the suction's contents are through, which also raised the polyol's peak pressure 0.6 %; c6ae861: the heater's
+energy over a transient step by the step's linearisation: deliberate changes),
 so that a march that drifts is still measured against the first record.
 """
 
