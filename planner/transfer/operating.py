@@ -34,6 +34,7 @@ class SystemPoint:
     sets: bool                   # product falls below its no-flow temperature somewhere
     where: str = ""
     discharge_result: object = field(default=None, repr=False)  # the recorded MarchResult, when asked for
+    suction_result: object = field(default=None, repr=False)    # the suction line's, likewise
 
     @property
     def line_pressure_drop(self) -> float:

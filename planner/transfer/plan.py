@@ -250,11 +250,7 @@ def _start(system: TransferSystem, scenario: Scenario) -> tuple[tuple, dict]:
         point = system.at_flow(start.flow, state, record=True)
         start_profile = point.discharge_result
         _running_temperatures(system, start_profile, point, running)
-        if system.suction_line is not None:
-            from planner.line.march import march
-
-            suction_profile = march(system.suction_line, start.flow, source.temperature,
-                                    system.source_pressure(state), step=system.step)
+        suction_profile = point.suction_result      # marched with the discharge, recorded
     return (start, start_profile, suction_profile), running
 
 
@@ -301,7 +297,8 @@ def _startup(system: TransferSystem, start: OperatingPoint, line_start: float, m
         if warm.possible and warm.stuck:
             startup_time = None                     # contents set in an untraced part: nothing moves
         elif warm.possible and start.moving and contents < source.temperature:
-            after_prewarm = push_cold(system, contents)
+            # contents at the pre-warm's target, near the product's: the warm start's flow is a close guess
+            after_prewarm = push_cold(system, contents, guess=start.flow)
             if after_prewarm.possible and after_prewarm.front_time_s is not None:
                 volume = sum(s.area * s.length for s in system.discharge_line.segments)
                 startup_time += max(0.0, after_prewarm.front_time_s - volume / start.flow)

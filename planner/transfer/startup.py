@@ -292,8 +292,10 @@ def _front_system(system: TransferSystem, displaced: float, cold: float, previou
                                Line(tail, product, system.tracing, kept=kept), cold, slopes_from=previous)
 
 
-def push_cold(system: TransferSystem, start_temperature: float, positions: int = 4) -> PushCold:
-    """Push the cold contents (at ``start_temperature`` [K]) out, at ``positions`` fronts along the line.
+def push_cold(system: TransferSystem, start_temperature: float, positions: int = 4,
+              guess: float | None = None) -> PushCold:
+    """Push the cold contents (at ``start_temperature`` [K]) out, at ``positions`` fronts along the line;
+    ``guess`` [m^3/s]: a flow to start the first operating point's search from (the warm start's).
 
     Examples
     --------
@@ -310,7 +312,7 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
                                         "not move; pre-warm first", t=Q(start_temperature, "temperature"),
                                         limit=Q(product.no_flow_temperature, "temperature")),
                         start_temperature, 0.0, "no_flow", math.nan, math.nan, math.nan, None, False)
-    first = system.operating_point(state0)
+    first = system.operating_point(state0, guess=guess)
     points = [first]
     if not first.moving:
         return PushCold(False, Sentence("cold start: {m}", m=first.message), start_temperature, 0.0, first.status,

@@ -178,7 +178,7 @@ class TransferSystem:
         suction_summary = None
         sets, where = False, ""
         if self.suction_line is not None:
-            suction = march(self.suction_line, flow, t_source, p_source, step=self.step, record=False)
+            suction = march(self.suction_line, flow, t_source, p_source, step=self.step, record=record)
             suction_summary = suction.summary
             p_suction = suction_summary.outlet_pressure_pa
             t_pump = suction_summary.outlet_temperature_k
@@ -205,6 +205,7 @@ class TransferSystem:
         point = SystemPoint(flow, mass_flow, t_source, t_pump, p_suction, p_discharge, p_discharge - p_suction,
                             npsh_a, ds.outlet_temperature_k, suction_summary, ds, sets, where)
         point.discharge_result = discharge if record else None
+        point.suction_result = suction if record and self.suction_line is not None else None
         return point
 
     def _differential(self, flow: float, state: SystemState, cache: dict) -> float:
