@@ -339,11 +339,9 @@ def push_cold(system: TransferSystem, start_temperature: float, positions: int =
             return PushCold(False, Sentence("with the front at {x}: {m}", x=Q(x, "length"), m=op.message),
                             start_temperature, first.flow,
                             first.status, peak_p, peak_dp, first.point.npsh_available, None, relief, {})
-        if k == 0:
-            entry_flow = op.flow
-        else:   # the trapezoidal rule in the front's volume, as the timeline's (a left sum at 8 positions,
-                # from the all-cold start's flow, overstated the front's time by 3.5-6.8 % on the demos)
-            previous_fraction, previous_flow = rows_append[-1][0], (rows_append[-1][1] if k > 1 else entry_flow)
+        if k > 0:   # the trapezoidal rule in the front's volume, as the timeline's (a left sum at 8 positions,
+                    # from the all-cold start's flow, overstated the front's time by 3.5-6.8 % on the demos)
+            previous_fraction, previous_flow = rows_append[-1][0], rows_append[-1][1]
             time += (fraction - previous_fraction) * volume * (1.0 / previous_flow + 1.0 / op.flow) / 2.0
         rows_append.append((fraction, op.flow, op.point.discharge_pressure, op.point.pump_differential, time, op.status))
         peak_p = max(peak_p, op.point.discharge_pressure)

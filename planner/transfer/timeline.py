@@ -96,10 +96,11 @@ def run_transfer(system: TransferSystem, steps: int | None = None, first_guess: 
         run.record(here)
         guess = _next_guess(run.points)
         # the source over the increment, with its time predicted from the flow extrapolated to its end
-        t_source, heat_j = run.contents_after(here, run.increment / 2.0 * (1.0 / here.flow + 1.0 / guess))
+        predicted_dt = run.increment / 2.0 * (1.0 / here.flow + 1.0 / guess)
+        t_source, heat_j = run.contents_after(here, predicted_dt)
         end_state = SystemState(t_source, max(here.state.source_volume - run.increment, 0.0),
                                 here.state.destination_volume_added + run.increment)
-        end = run.point_at(end_state, run.time + run.increment / 2.0 * (1.0 / here.flow + 1.0 / guess), guess)
+        end = run.point_at(end_state, run.time + predicted_dt, guess)
         last = number == steps - 1
         if end is None:   # the end cannot be moved: the increment at its start's rates (as far as known)
             run.completed, run.reason = (True, "") if last else (False, run.points[-1].message)
